@@ -1,0 +1,62 @@
+// One Jest run, several projects: `npm test` runs them all (see scripts/test-all.ts);
+// `npx jest --selectProjects solvers` runs one. A throwaway PostgreSQL cluster is started
+// once for the whole run by test/support/global-setup.ts unless QT_TEST_PG_ADMIN_URL is set.
+const nodeTransform = {
+  '^.+\\.ts$': ['ts-jest', {
+    tsconfig: {
+      module: 'commonjs',
+      moduleResolution: 'node10',
+      target: 'ES2022',
+      esModuleInterop: true,
+      isolatedModules: true,
+      resolveJsonModule: true,
+      strict: true,
+      skipLibCheck: true,
+      baseUrl: '.',
+      paths: { '@shared/*': ['shared/*'], '@solvers/*': ['solvers/*'] },
+    },
+  }],
+};
+const aliases = {
+  '^@shared/(.*)$': '<rootDir>/shared/$1',
+  '^@solvers/(.*)$': '<rootDir>/solvers/$1',
+};
+const nodeProject = (name, roots, testMatch, extra = {}) => ({
+  displayName: name,
+  rootDir: __dirname,
+  roots,
+  testMatch,
+  testEnvironment: 'node',
+  transform: nodeTransform,
+  moduleNameMapper: aliases,
+  ...extra,
+});
+
+module.exports = {
+  globalSetup: '<rootDir>/test/support/global-setup.ts',
+  globalTeardown: '<rootDir>/test/support/global-teardown.ts',
+  projects: [
+    nodeProject('solvers', ['<rootDir>/solvers'], ['**/*.spec.ts']),
+    nodeProject('shared', ['<rootDir>/shared'], ['**/*.spec.ts']),
+    nodeProject('api', ['<rootDir>/api', '<rootDir>/scripts'], ['**/*.spec.ts']),
+    nodeProject('integration', ['<rootDir>/test/integration'], ['**/*.spec.ts']),
+    nodeProject('e2e', ['<rootDir>/test/e2e'], ['**/*.e2e.ts'], { testTimeout: 120000 }),
+    {
+      displayName: 'web',
+      rootDir: __dirname,
+      roots: ['<rootDir>/web/src'],
+      testMatch: ['**/*.spec.ts'],
+      preset: 'jest-preset-angular',
+      testEnvironment: 'jest-preset-angular/environments/jest-jsdom-env',
+      setupFilesAfterEnv: ['<rootDir>/web/src/test-setup.ts'],
+      transform: {
+        '^.+\\.(ts|js|mjs|html|svg)$': ['jest-preset-angular', {
+          tsconfig: '<rootDir>/web/tsconfig.spec.json',
+          stringifyContentPathRegex: '\\.(html|svg)$',
+        }],
+      },
+      transformIgnorePatterns: ['node_modules/(?!.*\\.mjs$)'],
+      moduleNameMapper: aliases,
+    },
+  ],
+};

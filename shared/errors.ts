@@ -1,0 +1,27 @@
+/**
+ * Stable error codes of the one JSON error shape
+ * `{ "error": { "code", "message", "details"? } }` used by every 4xx/5xx response.
+ * Codes never change once released; messages are for humans and may.
+ */
+export const ERROR_CODES = [
+  'VALIDATION_FAILED',
+  'NOT_FOUND',
+  'UNAUTHENTICATED',
+  'FORBIDDEN',
+  'CSRF_REJECTED',
+  'RATE_LIMITED',
+  'PAYLOAD_TOO_LARGE',
+  'CONFLICT',
+  'LAST_ADMIN',
+  'INTERNAL',
+] as const;
+export type ErrorCode = (typeof ERROR_CODES)[number] | (string & {});
+
+/** The body of every error response. */
+export interface ErrorBody {
+  readonly error: {
+    readonly code: ErrorCode;
+    readonly message: string;
+    readonly details?: unknown;
+  };
+}
