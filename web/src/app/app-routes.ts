@@ -1,0 +1,18 @@
+/** Top-level routes: every area is lazy so the first load carries only the shell. */
+import { Routes } from '@angular/router';
+import { roleGuard } from './core/role-guard';
+
+/** The route table handed to `provideRouter`. */
+export const routes: Routes = [
+  { path: '', pathMatch: 'full', title: 'Quarterturn', loadComponent: () => import('./home/home') },
+  { path: 'instance-sets', loadChildren: () => import('./instance-sets/instance-sets.routes') },
+  { path: 'sweeps', loadChildren: () => import('./sweeps/sweeps.routes') },
+  { path: 'leaderboards', loadChildren: () => import('./leaderboards/leaderboards.routes') },
+  {
+    path: 'admin',
+    canActivate: [roleGuard('admin', 'Admin')],
+    loadChildren: () => import('./admin/admin.routes'),
+  },
+  { path: 'not-allowed', title: 'Not allowed · Quarterturn', loadComponent: () => import('./core/not-allowed') },
+  { path: '**', title: 'Not found · Quarterturn', loadComponent: () => import('./core/not-found') },
+];

@@ -1,0 +1,77 @@
+/** The signed-in account as signals, loaded once from GET /api/me. */
+import { Injectable, computed, inject, signal } from '@angular/core';
+import { firstValueFrom } from 'rxjs';
+import type { Account, MeResponse, Role } from '@shared/auth';
+import { isRoleAtLeast } from './auth-contract';
+import { AccountApi } from './account-api';
+
+const VISITOR: MeResponse = { account: null, role: 'visitor' };
+
+/** Session store: who is signed in, with which role, and the account actions of the shell. */
+@Injectable({ providedIn: 'root' })
+export class Session {
+  private readonly api = inject(AccountApi);
+  /** null until the first GET /api/me has answered. */
+  private readonly state = signal<MeResponse | null>(null);
+  private pending: Promise<MeResponse> | null = null;
+
+  /** The account, or null for a visitor (and before loading). */
+  readonly account = computed<Account | null>(() => this.state()?.account ?? null);
+  /** The role; `visitor` until loaded and when not signed in. */
+  readonly role = computed<Role>(() => this.state()?.role ?? 'visitor');
+  /** Whether GET /api/me has answered (successfully or not). */
+  readonly isLoaded = computed(() => this.state() !== null);
+  /** Whether someone is signed in. */
+  readonly isSignedIn = computed(() => this.account() !== null);
+  /** Whether the current role may use the admin area. */
+  readonly isAdmin = computed(() => isRoleAtLeast(this.role(), 'admin'));
+
+  /** Loads the session once; later calls share the first answer. A failed load counts as visitor. */
+  load(): Promise<MeResponse> {
+    this.pending ??= firstValueFrom(this.api.me()).then(
+      (me) => this.settle(me),
+      // The error interceptor has already told the user; a visitor shell still works.
+      () => this.settle(VISITOR),
+    );
+    return this.pending;
+  }
+
+  /** Forgets the cached answer and asks the server again. */
+  reload(): Promise<MeResponse> {
+    this.pending = null;
+    return this.load();
+  }
+
+  /** Whether the current role is at least `needed`. */
+  hasRole(needed: Role): boolean {
+    return isRoleAtLeast(this.role(), needed);
+  }
+
+  /**
+   * Turns sweep-finished e-mails on or off. The switch moves at once and moves back if the
+   * server refuses, so the menu never shows a setting the server does not hold.
+   */
+  async changeEmailSetting(isEmailOn: boolean): Promise<void> {
+    const before = this.state();
+    if (!before?.account) return;
+    this.state.set({ ...before, account: { ...before.account, isEmailOn } });
+    try {
+      await firstValueFrom(this.api.changeSettings({ isEmailOn }));
+    } catch (err) {
+      this.state.set(before);
+      throw err;
+    }
+  }
+
+  /** Ends the server session and becomes a visitor. */
+  async signOut(): Promise<void> {
+    await firstValueFrom(this.api.signOut());
+    this.settle(VISITOR);
+    this.pending = Promise.resolve(VISITOR);
+  }
+
+  private settle(me: MeResponse): MeResponse {
+    this.state.set(me);
+    return me;
+  }
+}

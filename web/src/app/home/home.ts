@@ -1,0 +1,39 @@
+/** Start page: what Quarterturn is for, and how much the hub holds right now. */
+import { ChangeDetectionStrategy, Component, inject } from '@angular/core';
+import { toSignal } from '@angular/core/rxjs-interop';
+import { DecimalPipe } from '@angular/common';
+import { MatButtonModule } from '@angular/material/button';
+import { RouterLink } from '@angular/router';
+import { catchError, of } from 'rxjs';
+import type { StatsResponse } from '@shared/auth';
+import { StatsApi } from './stats-api';
+
+/** One counter tile. */
+interface Counter {
+  readonly key: keyof StatsResponse;
+  readonly label: string;
+}
+
+/** The counters in display order. */
+const COUNTERS: readonly Counter[] = [
+  { key: 'instanceSets', label: 'Instance sets' },
+  { key: 'maps', label: 'Maps' },
+  { key: 'scenarios', label: 'Scenarios' },
+  { key: 'sweeps', label: 'Sweeps' },
+  { key: 'results', label: 'Results' },
+];
+
+/** The page at `/`. */
+@Component({
+  selector: 'app-home',
+  templateUrl: './home.html',
+  styleUrl: './home.scss',
+  imports: [DecimalPipe, MatButtonModule, RouterLink],
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export default class Home {
+  private readonly api = inject(StatsApi);
+  protected readonly counters = COUNTERS;
+  /** undefined while loading, null when the request failed (the snack bar said why). */
+  protected readonly stats = toSignal(this.api.stats().pipe(catchError(() => of(null))));
+}
