@@ -1,0 +1,90 @@
+/**
+ * The branching rule of the weighted-split CBS: from the earliest conflict, two constraint
+ * sets, one per agent, in the spirit of continuous-time CBS (Andreychuk, Yakovlev, Surynek,
+ * Atzmon, Stern, "Multi-agent pathfinding with continuous time", Artificial Intelligence 2022),
+ * whose published unsafe-interval branching is not sound in general (Combrink, Roselli,
+ * Fabian, "Sound and solution-complete CCBS", arXiv 2508.16410, 2025). The rule below is our
+ * own and is proved sound for this model.
+ *
+ * Setting. F = forward time. Agent j (the `late` visit) starts the forward move m_j = p → c at
+ * time s_j = t*, the first instant at which both agents occupy cell c; agent i (the `early`
+ * visit) is in c at t*. Every time is an integer; every visit of a cell lasts ≥ F because the
+ * move into or out of it takes F and occupies it throughout.
+ *
+ * Soundness means: every conflict-free joint plan satisfies at least one child's constraint.
+ * It suffices that any plan violating BOTH constraints has i and j in c at a common instant.
+ * Progress means: each agent's current plan violates its own new constraint, so each child's
+ * low level must return a different plan; with integer times, finitely many constraints fit
+ * under any cost bound, so best-first CBS terminates and its first conflict-free node is
+ * optimal (node cost = sum of per-agent optima under the node's constraints, a lower bound).
+ *
+ * Case MOVE-MOVE: i is in c at t* during its own forward move m_i (into or out of c) started at
+ * s_i, s_i ≤ t* < s_i + F. Child i: i may not start m_i in [s_i, s_j + F). Child j: j may not
+ * start m_j in [s_j, s_i + F). Proof: if i starts m_i at a ∈ [s_i, s_j + F) and j starts m_j
+ * at b ∈ [s_j, s_i + F), then a < s_j + F ≤ b + F and b < s_i + F ≤ a + F, so [a, a + F) and
+ * [b, b + F) overlap, and both moves occupy c over them. Progress: s_i and s_j lie in the windows.
+ *
+ * Case MOVE-STAY: i turns or waits in c at t* and leaves c later (its visit ends at
+ * ≥ t* + F + 1, after a whole move out). Child j: j may not start m_j in [t*, t* + F). Child i:
+ * i may not occupy c at instant t* + F − 1. Proof: m_j started at b ∈ [t*, t* + F) occupies c
+ * over [b, b + F) ∋ t* + F − 1, when i is in c. Progress: i is in c at t* + F − 1.
+ *
+ * Case MOVE-GOAL: i is in c from before t* forever (c is its goal, its final visit began ≤ t*).
+ * Child j: j may not start m_j at any time ≥ t*. Child i: i's final visit of its goal must
+ * begin at ≥ t* + 1. Proof: if i's final visit began at v ≤ t*, i is in c at every instant
+ * ≥ v; a start of m_j at b ≥ t* puts j in c at b ≥ v. Progress: i's current final visit began
+ * ≤ t*, and j starts m_j at t*. This replaces the long chain of one-move-time delays of j that
+ * the MOVE-STAY rule would produce in front of a parked agent.
+ */
+import type { OccupancyConflict } from './ccbs-conflict';
+import type { AgentBan } from './sipp-constraints';
+
+/** One child of a CBS split: the agent whose plan it constrains and the new constraints. */
+export interface BranchChild {
+  readonly agent: number;
+  readonly bans: readonly AgentBan[];
+}
+
+/** Which case of the rule a conflict falls under (see the module comment). */
+export type BranchCase = 'move-move' | 'move-stay' | 'move-goal';
+
+/** The case and the two children of a conflict; `forwardMs` is the forward move time F. */
+export function branchOnConflict(
+  conflict: OccupancyConflict,
+  forwardMs: number,
+): { readonly kind: BranchCase; readonly children: readonly [BranchChild, BranchChild] } {
+  const F = forwardMs;
+  const { time: t, cell: c, early: vi, late: vj } = conflict;
+  const i = vi.agent;
+  const j = vj.agent;
+  const sj = t;
+  const mj = { fromCell: vj.inFrom, toCell: c };
+  let mi: { fromCell: number; toCell: number; start: number } | undefined;
+  if (vi.inFrom >= 0 && t < vi.enter + F) mi = { fromCell: vi.inFrom, toCell: c, start: vi.enter };
+  else if (vi.outStart >= 0 && t >= vi.outStart) mi = { fromCell: c, toCell: vi.outTo, start: vi.outStart };
+  if (mi) {
+    return {
+      kind: 'move-move',
+      children: [
+        { agent: i, bans: [{ kind: 'move', fromCell: mi.fromCell, toCell: mi.toCell, from: mi.start, to: sj + F }] },
+        { agent: j, bans: [{ kind: 'move', ...mj, from: sj, to: mi.start + F }] },
+      ],
+    };
+  }
+  if (vi.leave === Infinity) {
+    return {
+      kind: 'move-goal',
+      children: [
+        { agent: i, bans: [{ kind: 'late-goal', notBefore: t + 1 }] },
+        { agent: j, bans: [{ kind: 'move', ...mj, from: sj, to: Infinity }] },
+      ],
+    };
+  }
+  return {
+    kind: 'move-stay',
+    children: [
+      { agent: i, bans: [{ kind: 'occupancy', cell: c, from: t + F - 1, to: t + F }] },
+      { agent: j, bans: [{ kind: 'move', ...mj, from: sj, to: sj + F }] },
+    ],
+  };
+}

@@ -1,0 +1,160 @@
+/**
+ * The high level of the weighted-split solver: Conflict-Based Search (Sharon, Stern, Felner,
+ * Sturtevant, "Conflict-based search for optimal multi-agent pathfinding", Artificial
+ * Intelligence 2015) over time-interval constraints, as in continuous-time CBS (Andreychuk
+ * et al., Artificial Intelligence 2022), with the sound branching of ccbs-branch.ts and the
+ * SIPP low level of sipp.ts. Best-first on sum of arrival times; ties prefer fewer conflicting
+ * agent pairs, then the older node, so runs are deterministic.
+ */
+import type { Grid } from '../grid/grid';
+import { branchOnConflict } from './ccbs-branch';
+import { cellVisits, findEarliestConflict, type CellVisit, type OccupancyConflict } from './ccbs-conflict';
+import { compileBans, type AgentBan } from './sipp-constraints';
+import { sippSearch, type SippPlan } from './sipp';
+import { SippHeap } from './sipp-heap';
+
+/** One agent as the search sees it. */
+export interface CcbsAgent {
+  readonly start: number;
+  readonly goal: number;
+  /** Heading indices allowed at time 0. */
+  readonly startHeadings: readonly number[];
+  /** Cost-to-go per packed (cell, heading) state towards this agent's goal. */
+  readonly heuristic: Float64Array;
+}
+
+/** Input of one search. */
+export interface CcbsQuery {
+  readonly grid: Grid;
+  readonly agents: readonly CcbsAgent[];
+  readonly forwardMs: number;
+  readonly quarterTurnMs: number;
+  /** Maximum number of high-level nodes to expand. */
+  readonly nodeLimit: number;
+  /** True when the search must stop (time limit or abort); polled often. */
+  readonly shouldStop: () => boolean;
+}
+
+/** How a search ended. */
+export type CcbsStatus = 'solved' | 'infeasible' | 'stopped' | 'node-limit';
+
+/** The outcome of one search. */
+export interface CcbsOutcome {
+  readonly status: CcbsStatus;
+  /** One plan per agent when solved. */
+  readonly plans: readonly SippPlan[] | null;
+  /** Sum of arrival times when solved. */
+  readonly soc: number | null;
+  /** Least node cost still open (a lower bound on the optimum); equals soc when solved. */
+  readonly lowerBound: number | null;
+  readonly generated: number;
+  readonly expanded: number;
+  readonly lowLevelExpansions: number;
+}
+
+interface CtNode {
+  readonly id: number;
+  readonly parent: CtNode | null;
+  /** The agent this node's new bans apply to (-1 at the root). */
+  readonly agent: number;
+  readonly bans: readonly AgentBan[];
+  readonly plans: readonly SippPlan[];
+  readonly visits: readonly (readonly CellVisit[])[];
+  readonly cost: number;
+  readonly conflict: OccupancyConflict | undefined;
+  readonly conflictingPairs: number;
+}
+
+/** Runs CBS with interval constraints; optimal in sum of arrival times when it returns `solved`. */
+export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
+  const cellCount = q.grid.width * q.grid.height;
+  let generated = 0;
+  let expanded = 0;
+  let lowLevelExpansions = 0;
+  let isStopped = false;
+
+  const plan = (agent: number, bans: readonly AgentBan[]): SippPlan | null => {
+    const a = q.agents[agent];
+    const out = sippSearch({
+      grid: q.grid,
+      start: a.start,
+      goal: a.goal,
+      startHeadings: a.startHeadings,
+      forwardMs: q.forwardMs,
+      quarterTurnMs: q.quarterTurnMs,
+      bans: compileBans(bans, cellCount),
+      heuristic: a.heuristic,
+      shouldStop: q.shouldStop,
+    });
+    lowLevelExpansions += out.expansions;
+    if (out.isStopped) isStopped = true;
+    return out.plan;
+  };
+
+  const makeNode = (parent: CtNode | null, agent: number, bans: readonly AgentBan[], plans: readonly SippPlan[], visits: readonly (readonly CellVisit[])[]): CtNode => {
+    const { conflict, conflictingPairs } = findEarliestConflict(visits);
+    const cost = plans.reduce((s, p) => s + p.cost, 0);
+    return { id: generated++, parent, agent, bans, plans, visits, cost, conflict, conflictingPairs };
+  };
+
+  // Sum of single-agent cost-to-go: the bound to report if the root itself is cut short.
+  const trivialBound = q.agents.reduce((s, a) => s + Math.min(...a.startHeadings.map((h) => a.heuristic[a.start * 4 + h])), 0);
+  const rootPlans: SippPlan[] = [];
+  for (let a = 0; a < q.agents.length; a++) {
+    const p = plan(a, []);
+    if (!p) return finish(isStopped ? 'stopped' : 'infeasible', null, isStopped ? trivialBound : null);
+    rootPlans.push(p);
+  }
+  const root = makeNode(null, -1, [], rootPlans, rootPlans.map((p, a) => cellVisits(a, q.agents[a].start, p, q.forwardMs)));
+
+  const nodes: CtNode[] = [root];
+  const open = new SippHeap((x, y) => {
+    const a = nodes[x];
+    const b = nodes[y];
+    return a.cost < b.cost || (a.cost === b.cost && (a.conflictingPairs < b.conflictingPairs || (a.conflictingPairs === b.conflictingPairs && a.id < b.id)));
+  });
+  open.push(root.id);
+
+  while (open.size > 0) {
+    const top = nodes[open.peek() as number];
+    if (!top.conflict) return finish('solved', top, top.cost);
+    if (q.shouldStop()) return finish('stopped', null, top.cost);
+    if (expanded >= q.nodeLimit) return finish('node-limit', null, top.cost);
+    open.pop();
+    expanded++;
+    const { children } = branchOnConflict(top.conflict, q.forwardMs);
+    for (const child of children) {
+      const bans = [...bansOf(top, child.agent), ...child.bans];
+      const p = plan(child.agent, bans);
+      if (isStopped) return finish('stopped', null, top.cost);
+      if (!p) continue;
+      const plans = top.plans.slice();
+      plans[child.agent] = p;
+      const visits = top.visits.slice();
+      visits[child.agent] = cellVisits(child.agent, q.agents[child.agent].start, p, q.forwardMs);
+      const node = makeNode(top, child.agent, child.bans, plans, visits);
+      nodes.push(node);
+      open.push(node.id);
+    }
+  }
+  return finish('infeasible', null, null);
+
+  function finish(status: CcbsStatus, node: CtNode | null, bound: number | null): CcbsOutcome {
+    return {
+      status,
+      plans: node ? node.plans : null,
+      soc: node ? node.cost : null,
+      lowerBound: bound,
+      generated,
+      expanded,
+      lowLevelExpansions,
+    };
+  }
+}
+
+/** Every ban on `agent` along the path from `node` to the root. */
+function bansOf(node: CtNode, agent: number): AgentBan[] {
+  const out: AgentBan[] = [];
+  for (let n: CtNode | null = node; n; n = n.parent) if (n.agent === agent) out.push(...n.bans);
+  return out;
+}
