@@ -1,0 +1,122 @@
+import PF from 'pathfinding';
+import { createRng } from '../random';
+import { validateClassicPlan } from '../validate/classic';
+import { OracleLimitError } from './best-first';
+import { classicOracle } from './classic-oracle';
+import { tinyInstance } from './tiny-instance';
+import type { MapfInstance } from '../instance';
+
+/** The oracle's optimal SOC, after checking that its own plan is valid and costs exactly that. */
+function optimum(instance: MapfInstance): number | 'unsolvable' {
+  const out = classicOracle(instance);
+  if (out.kind === 'unsolvable') return 'unsolvable';
+  const check = validateClassicPlan(instance, out.plan);
+  expect(check.violation).toBeUndefined();
+  expect(check.soc).toBe(out.soc);
+  return out.soc;
+}
+
+describe('classicOracle: hand-worked optima', () => {
+  it('one agent across an empty 3×3 grid: the Manhattan distance, 4', () => {
+    expect(optimum(tinyInstance('...\n...\n...', [[[0, 0], [2, 2]]]))).toBe(4);
+  });
+
+  it('agents already at their goals: 0', () => {
+    expect(optimum(tinyInstance('...', [[[0, 0], [0, 0]], [[2, 0], [2, 0]]]))).toBe(0);
+  });
+
+  it('a chain of three agents each moving one cell right: 3 (following is allowed)', () => {
+    expect(optimum(tinyInstance('....', [[[0, 0], [1, 0]], [[1, 0], [2, 0]], [[2, 0], [3, 0]]]))).toBe(3);
+  });
+
+  it('four agents rotating one place around a 2×2 block: 4 (a rotation is no vertex or swap conflict)', () => {
+    expect(optimum(tinyInstance('..\n..', [[[0, 0], [1, 0]], [[1, 0], [1, 1]], [[1, 1], [0, 1]], [[0, 1], [0, 0]]]))).toBe(4);
+  });
+
+  it('two neighbours exchanging places on a 2×2 block: 1 + 3 = 4', () => {
+    // The direct exchange is a swap; whichever agent goes the other way round pays 3, and
+    // the other can follow it into its vacated cell at t = 1.
+    expect(optimum(tinyInstance('..\n..', [[[0, 0], [1, 0]], [[1, 0], [0, 0]]]))).toBe(4);
+  });
+
+  it('two agents passing in a corridor with one side pocket: 3 + 4 = 7', () => {
+    // Map "..." over "#.#". One agent must dodge into the pocket (1, 1): at least 4 steps
+    // (there and back costs 2 extra); the other can enter (1, 0) only once the first has
+    // left it for the pocket (t ≥ 2), so it arrives at t ≥ 3. Achieved: B (2,0) (1,0) (1,1)
+    // (1,0) (0,0); A (0,0) (0,0) (1,0) (2,0).
+    expect(optimum(tinyInstance('...\n#.#', [[[0, 0], [2, 0]], [[2, 0], [0, 0]]]))).toBe(7);
+  });
+
+  it('an agent that must leave its goal and come back pays its last arrival: 2 + 2 = 4', () => {
+    // Agent 0 starts on its goal (1, 0), the only way through for agent 1 from (0, 0) to
+    // (2, 0); it steps into the pocket at t = 1 and returns at t = 2 behind agent 1.
+    expect(optimum(tinyInstance('...\n#.#', [[[1, 0], [1, 0]], [[0, 0], [2, 0]]]))).toBe(4);
+  });
+
+  it('two agents exchanging ends of a corridor with no pocket: unsolvable', () => {
+    expect(optimum(tinyInstance('...', [[[0, 0], [2, 0]], [[2, 0], [0, 0]]]))).toBe('unsolvable');
+  });
+
+  it('a goal sealed off by a resting agent: unsolvable', () => {
+    // Agent 0 rests at (1, 0), which agent 1 must cross to reach (2, 0), and there is no pocket.
+    expect(optimum(tinyInstance('...', [[[1, 0], [1, 0]], [[0, 0], [2, 0]]]))).toBe('unsolvable');
+  });
+});
+
+describe('classicOracle limits', () => {
+  it('throws OracleLimitError instead of running on when the instance is too big', () => {
+    const inst = tinyInstance('......\n......\n......', [[[0, 0], [5, 2]], [[5, 2], [0, 0]], [[0, 2], [5, 0]], [[5, 0], [0, 2]]]);
+    expect(() => classicOracle(inst, { maxExpansions: 10 })).toThrow(OracleLimitError);
+  });
+
+  it('solves 5 agents crossing a 5×5 grid in their own rows: 5 × 4 = 20', () => {
+    // Alternating directions; straight lines never share a cell, so the lower bound is met.
+    const inst = tinyInstance('.....\n.....\n.....\n.....\n.....', [
+      [[0, 0], [4, 0]], [[4, 1], [0, 1]], [[0, 2], [4, 2]], [[4, 3], [0, 3]], [[0, 4], [4, 4]],
+    ]);
+    expect(optimum(inst)).toBe(20);
+  });
+});
+
+describe('classicOracle against outside references', () => {
+  it('single-agent optima equal the shortest 4-connected path of the pathfinding library', () => {
+    // Source: npm package `pathfinding` 0.4.18, BreadthFirstFinder (orthogonal moves by
+    // default, guaranteed shortest per its README).
+    const rng = createRng(20240611);
+    for (let trial = 0; trial < 40; trial++) {
+      const w = 3 + rng.int(4);
+      const h = 3 + rng.int(4);
+      const rows = Array.from({ length: h }, () => Array.from({ length: w }, () => (rng.next() < 0.25 ? '#' : '.')).join(''));
+      const free = rows.flatMap((r, y) => [...r].map((ch, x) => (ch === '.' ? ([x, y] as const) : null))).filter((c) => c !== null);
+      if (free.length < 2) continue;
+      const s = free[rng.int(free.length)];
+      const g = free[rng.int(free.length)];
+      const matrix = rows.map((r) => [...r].map((ch) => (ch === '.' ? 0 : 1)));
+      const ref = new PF.BreadthFirstFinder().findPath(s[0], s[1], g[0], g[1], new PF.Grid(w, h, matrix)) as number[][];
+      const got = optimum(tinyInstance(rows.join('\n'), [[s, g]]));
+      expect(got).toBe(ref.length === 0 ? 'unsolvable' : ref.length - 1);
+    }
+  });
+
+  it('is at least the sum of single-agent distances and its plan always validates (3 agents, random 4×4 maps)', () => {
+    const rng = createRng(99);
+    for (let trial = 0; trial < 15; trial++) {
+      const rows = Array.from({ length: 4 }, () => Array.from({ length: 4 }, () => (rng.next() < 0.2 ? '#' : '.')).join(''));
+      const free = rows.flatMap((r, y) => [...r].map((ch, x) => (ch === '.' ? ([x, y] as const) : null))).filter((c) => c !== null);
+      if (free.length < 6) continue;
+      const pick = () => free.splice(rng.int(free.length), 1)[0];
+      const starts = [pick(), pick(), pick()];
+      free.push(...starts);
+      const goals = [pick(), pick(), pick()];
+      const inst = tinyInstance(rows.join('\n'), starts.map((s, i) => [s, goals[i]] as const));
+      const soc = optimum(inst);
+      if (soc === 'unsolvable') continue;
+      const matrix = rows.map((r) => [...r].map((ch) => (ch === '.' ? 0 : 1)));
+      const lb = starts.reduce((sum, s, i) => {
+        const p = new PF.BreadthFirstFinder().findPath(s[0], s[1], goals[i][0], goals[i][1], new PF.Grid(4, 4, matrix)) as number[][];
+        return sum + p.length - 1;
+      }, 0);
+      expect(soc).toBeGreaterThanOrEqual(lb);
+    }
+  });
+});
