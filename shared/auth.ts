@@ -36,11 +36,11 @@ export interface UserListResponse {
   readonly users: readonly Account[];
 }
 
-/** PATCH /api/admin/users/:id (admin only). */
+/** PATCH /api/admin/users/:id (admin only); answers the updated Account. */
 export const ChangeRoleRequest = z.object({ role: z.enum(['researcher', 'maintainer', 'admin']) }).strict();
 export type ChangeRoleRequest = z.infer<typeof ChangeRoleRequest>;
 
-/** PATCH /api/me/settings (signed in). */
+/** PATCH /api/me/settings (signed in); answers the updated MeResponse. */
 export const AccountSettingsRequest = z.object({ isEmailOn: z.boolean() }).strict();
 export type AccountSettingsRequest = z.infer<typeof AccountSettingsRequest>;
 
@@ -67,3 +67,10 @@ export interface HealthResponse {
  */
 export const CSRF_COOKIE = 'qt_csrf';
 export const CSRF_HEADER = 'x-csrf-token';
+
+/** Where the browser starts sign-in (a full-page navigation, not an XHR). */
+export const SIGN_IN_PATH = '/api/auth/github';
+/** POST here (with the CSRF header) to sign out; answers 204. */
+export const SIGN_OUT_PATH = '/api/auth/logout';
+/** Where the OAuth callback sends the browser when sign-in was cancelled or refused. */
+export const SIGN_IN_FAILED_PATH = '/?signin=failed';

@@ -1,0 +1,17 @@
+/** Mounts every feature router under /api. A new feature adds one `r.use(...)` line here. */
+import { Router } from 'express';
+import type { AppContext } from './app-context';
+import { healthRouter } from './health/health.router';
+import { statsRouter } from './stats/stats.router';
+import { adminUsersRouter } from './users/admin-users.router';
+import { meRouter } from './users/me.router';
+
+/** The /api routes other than /api/auth (which needs passport and the rate limit; see app.ts). */
+export function apiRouter(ctx: AppContext): Router {
+  const r = Router();
+  r.use('/health', healthRouter(ctx.sequelize, ctx.version));
+  r.use('/me', meRouter(ctx.users));
+  r.use('/admin/users', adminUsersRouter(ctx.users));
+  r.use('/stats', statsRouter(ctx.stats));
+  return r;
+}

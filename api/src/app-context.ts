@@ -1,0 +1,19 @@
+/** What every feature router and service may use, built once per app by createApp(). */
+import type { Logger } from 'pino';
+import type { Sequelize } from 'sequelize';
+import type { AppConfig } from './config';
+import type { Models } from './db/models';
+import type { StatsService } from './stats/stats.service';
+import type { UsersService } from './users/users.service';
+
+/** Shared services of one app instance. */
+export interface AppContext {
+  readonly config: AppConfig;
+  readonly logger: Logger;
+  readonly sequelize: Sequelize;
+  readonly models: Models;
+  readonly users: UsersService;
+  /** Register home-page counters here (`stats.register('sweeps', ...)`). */
+  readonly stats: StatsService;
+  readonly version: string;
+}

@@ -1,0 +1,140 @@
+/**
+ * Every setting of the API process, read once from the environment and validated with zod,
+ * so a typo fails at start-up with the variable's name instead of misbehaving later.
+ * The defaults make `npm start` work on a fresh machine with nothing set.
+ */
+import { z } from 'zod';
+
+/** The session secret used when SESSION_SECRET is unset; fine on a laptop, refused on a public host. */
+export const DEV_SESSION_SECRET = 'quarterturn-dev-session-secret-change-me';
+
+/** Client credentials the API uses with the local fake OAuth provider (not secret: it only runs on loopback). */
+export const FAKE_OAUTH_CLIENT = { clientId: 'quarterturn-local', clientSecret: 'quarterturn-local-secret' } as const;
+
+const LOG_LEVELS = ['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent'] as const;
+
+/** Log verbosity accepted by LOG_LEVEL (pino level names). */
+export type LogLevel = (typeof LOG_LEVELS)[number];
+
+/** How users sign in: the hosted GitHub OAuth app, or the local fake provider on FAKE_OAUTH_PORT. */
+export type OAuthSettings =
+  | { readonly mode: 'github'; readonly clientId: string; readonly clientSecret: string }
+  | { readonly mode: 'fake'; readonly port: number };
+
+/** The validated settings of one API process. */
+export interface AppConfig {
+  readonly port: number;
+  readonly host: string;
+  /** Connection URL of the application database; undefined means `npm start` runs its private cluster. */
+  readonly databaseUrl: string | undefined;
+  readonly sessionSecret: string;
+  /** Whether the session secret is the built-in development default. */
+  readonly isDevSessionSecret: boolean;
+  /** The URL browsers use to reach the app, without trailing slash (OAuth callback and CSRF origin). */
+  readonly publicUrl: string;
+  readonly oauth: OAuthSettings;
+  /** Logins that become admin on their first sign-in, lower-cased. */
+  readonly adminLogins: readonly string[];
+  readonly smtpUrl: string | undefined;
+  /** Folder of the built web app (absolute or relative to the working directory). */
+  readonly webDist: string;
+  readonly logLevel: LogLevel;
+  /** Requests per client address per window on /api/auth routes. */
+  readonly authRateLimit: number;
+  /** Length of the rate-limit window in milliseconds. */
+  readonly authRateWindowMs: number;
+  /** Express `trust proxy` hop count: 0 when the app faces browsers directly. */
+  readonly trustProxy: number;
+}
+
+/** Thrown by loadConfig with one line per bad variable. */
+export class ConfigError extends Error {
+  constructor(readonly problems: readonly string[]) {
+    super(`Invalid configuration:\n  ${problems.join('\n  ')}`);
+    this.name = 'ConfigError';
+  }
+}
+
+const emptyAsUndefined = (v: unknown) => (typeof v === 'string' && v.trim() === '' ? undefined : v);
+const optionalString = z.preprocess(emptyAsUndefined, z.string().trim().optional());
+const port = (fallback: number) => z.preprocess(emptyAsUndefined, z.coerce.number().int().min(0).max(65535).default(fallback));
+
+const EnvSchema = z.object({
+  PORT: port(4300),
+  HOST: z.preprocess(emptyAsUndefined, z.string().default('127.0.0.1')),
+  DATABASE_URL: z.preprocess(emptyAsUndefined, z.url({ protocol: /^postgres(ql)?$/ }).optional()),
+  SESSION_SECRET: z.preprocess(emptyAsUndefined, z.string().min(16, 'must be at least 16 characters').optional()),
+  PUBLIC_URL: z.preprocess(emptyAsUndefined, z.url({ protocol: /^https?$/ }).default('http://127.0.0.1:4300')),
+  GITHUB_CLIENT_ID: optionalString,
+  GITHUB_CLIENT_SECRET: optionalString,
+  FAKE_OAUTH_PORT: port(4301),
+  ADMIN_LOGINS: z.preprocess(emptyAsUndefined, z.string().default('')),
+  SMTP_URL: z.preprocess(emptyAsUndefined, z.url({ protocol: /^smtps?$/ }).optional()),
+  WEB_DIST: z.preprocess(emptyAsUndefined, z.string().default('dist/web/browser')),
+  LOG_LEVEL: z.preprocess(emptyAsUndefined, z.enum(LOG_LEVELS).optional()),
+  AUTH_RATE_LIMIT: z.preprocess(emptyAsUndefined, z.coerce.number().int().min(1).default(60)),
+  AUTH_RATE_WINDOW_MS: z.preprocess(emptyAsUndefined, z.coerce.number().int().min(1000).default(15 * 60 * 1000)),
+  TRUST_PROXY: z.preprocess(emptyAsUndefined, z.coerce.number().int().min(0).default(0)),
+  NODE_ENV: optionalString,
+});
+
+/** Whether `hostname` is a loopback name, where the fake provider and dev secret are acceptable. */
+export function isLoopbackHost(hostname: string): boolean {
+  return hostname === 'localhost' || hostname === '[::1]' || hostname === '::1' || /^127\.\d+\.\d+\.\d+$/.test(hostname);
+}
+
+/**
+ * Reads and validates the settings from `env` (default process.env). Returns the config and
+ * warnings worth logging; throws ConfigError naming each bad variable.
+ */
+export function loadConfig(env: NodeJS.ProcessEnv = process.env): { config: AppConfig; warnings: string[] } {
+  const parsed = EnvSchema.safeParse(env);
+  if (!parsed.success) {
+    throw new ConfigError(parsed.error.issues.map((i) => `${i.path.join('.')}: ${i.message}`));
+  }
+  const e = parsed.data;
+  const problems: string[] = [];
+  const warnings: string[] = [];
+  const publicUrl = new URL(e.PUBLIC_URL);
+  const isPublicLoopback = isLoopbackHost(publicUrl.hostname);
+
+  let oauth: OAuthSettings;
+  if (e.GITHUB_CLIENT_ID && e.GITHUB_CLIENT_SECRET) {
+    oauth = { mode: 'github', clientId: e.GITHUB_CLIENT_ID, clientSecret: e.GITHUB_CLIENT_SECRET };
+  } else {
+    if (e.GITHUB_CLIENT_ID || e.GITHUB_CLIENT_SECRET) {
+      problems.push('GITHUB_CLIENT_ID / GITHUB_CLIENT_SECRET: set both or neither');
+    }
+    // The fake provider lets anyone pick an admin identity, so it must never face a network.
+    if (!isPublicLoopback) {
+      problems.push(`GITHUB_CLIENT_ID: required when PUBLIC_URL (${e.PUBLIC_URL}) is not a loopback address; the fake sign-in provider is for local use only`);
+    }
+    oauth = { mode: 'fake', port: e.FAKE_OAUTH_PORT };
+  }
+
+  if (!e.SESSION_SECRET) {
+    if (isPublicLoopback) warnings.push('SESSION_SECRET is not set: using the development default (fine on this machine only).');
+    else problems.push('SESSION_SECRET: required when PUBLIC_URL is not a loopback address');
+  }
+  if (problems.length > 0) throw new ConfigError(problems);
+
+  return {
+    config: {
+      port: e.PORT,
+      host: e.HOST,
+      databaseUrl: e.DATABASE_URL,
+      sessionSecret: e.SESSION_SECRET ?? DEV_SESSION_SECRET,
+      isDevSessionSecret: !e.SESSION_SECRET,
+      publicUrl: publicUrl.origin + publicUrl.pathname.replace(/\/+$/, ''),
+      oauth,
+      adminLogins: e.ADMIN_LOGINS.split(',').map((s) => s.trim().toLowerCase()).filter((s) => s.length > 0),
+      smtpUrl: e.SMTP_URL,
+      webDist: e.WEB_DIST,
+      logLevel: e.LOG_LEVEL ?? (e.NODE_ENV === 'test' ? 'silent' : 'info'),
+      authRateLimit: e.AUTH_RATE_LIMIT,
+      authRateWindowMs: e.AUTH_RATE_WINDOW_MS,
+      trustProxy: e.TRUST_PROXY,
+    },
+    warnings,
+  };
+}

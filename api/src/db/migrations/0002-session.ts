@@ -1,0 +1,17 @@
+/** The express-session store table, in the layout connect-pg-simple 10 expects (its table.sql). */
+import type { Migration } from '../migration';
+
+export const up: Migration = async ({ context: qi }) => {
+  await qi.sequelize.query(`
+    CREATE TABLE "session" (
+      "sid" varchar NOT NULL COLLATE "default",
+      "sess" json NOT NULL,
+      "expire" timestamp(6) NOT NULL,
+      CONSTRAINT "session_pkey" PRIMARY KEY ("sid")
+    )`);
+  await qi.sequelize.query('CREATE INDEX "IDX_session_expire" ON "session" ("expire")');
+};
+
+export const down: Migration = async ({ context: qi }) => {
+  await qi.dropTable('session');
+};

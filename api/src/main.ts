@@ -1,0 +1,25 @@
+/**
+ * Production entry point: reads the config, migrates, listens. Needs DATABASE_URL; for a
+ * development machine use `npm start`, which also runs a private PostgreSQL and the demo seed.
+ */
+import { startServer } from './app';
+import { loadConfig } from './config';
+import { migrate } from './db/migrate';
+import { createLogger } from './http/logger';
+import { onShutdownSignals } from './lifecycle/on-shutdown';
+
+async function main(): Promise<void> {
+  const { config, warnings } = loadConfig();
+  const logger = createLogger(config.logLevel);
+  for (const w of warnings) logger.warn(w);
+  if (!config.databaseUrl) throw new Error('DATABASE_URL is required (or use `npm start` for a private development database)');
+  await migrate(config.databaseUrl);
+  const server = await startServer({ config, logger });
+  onShutdownSignals(logger, [{ name: 'server', run: () => server.close() }]);
+  logger.info({ url: server.url, oauth: config.oauth.mode }, `Quarterturn listening on ${server.url}`);
+}
+
+main().catch((err: unknown) => {
+  console.error(err instanceof Error ? err.message : err);
+  process.exit(1);
+});

@@ -1,0 +1,86 @@
+/**
+ * `npm start`: the whole app on one machine with nothing configured. Uses DATABASE_URL when
+ * set, otherwise a private PostgreSQL cluster under .data/postgres on port 54329; migrates,
+ * seeds the demo data, rebuilds the web app when stale, runs the fake OAuth provider when no
+ * GitHub app is configured, and listens on PUBLIC_URL. Ctrl-C stops everything.
+ */
+import { resolve } from 'node:path';
+import { Client } from 'pg';
+import { startServer } from '../api/src/app';
+import { ConfigError, loadConfig } from '../api/src/config';
+import { migrate } from '../api/src/db/migrate';
+import { createSequelize } from '../api/src/db/sequelize';
+import { seedDemo } from '../api/src/demo/seed-demo';
+import { createLogger } from '../api/src/http/logger';
+import { onShutdownSignals, type ShutdownStep } from '../api/src/lifecycle/on-shutdown';
+import { startCluster, type PgCluster } from './postgres';
+import { ensureWebBuild } from './web-build';
+
+const ROOT = resolve(__dirname, '..');
+const PRIVATE_PG_PORT = 54329;
+const PRIVATE_DB = 'quarterturn';
+
+/** Creates database `name` in the cluster unless it exists. */
+async function ensureDatabase(cluster: PgCluster, name: string): Promise<void> {
+  const client = new Client({ connectionString: cluster.adminUrl });
+  await client.connect();
+  try {
+    const found = await client.query('SELECT 1 FROM pg_database WHERE datname = $1', [name]);
+    if (found.rowCount === 0) await client.query(`CREATE DATABASE "${name}"`);
+  } finally {
+    await client.end();
+  }
+}
+
+async function main(): Promise<void> {
+  process.chdir(ROOT);
+  const { config, warnings } = loadConfig();
+  const logger = createLogger(config.logLevel);
+  for (const w of warnings) logger.warn(w);
+  const steps: ShutdownStep[] = [];
+  let cluster: PgCluster | undefined;
+
+  try {
+    let databaseUrl = config.databaseUrl;
+    if (!databaseUrl) {
+      cluster = startCluster(resolve(ROOT, '.data/postgres'), PRIVATE_PG_PORT, { log: (m) => logger.info(m) });
+      await ensureDatabase(cluster, PRIVATE_DB);
+      databaseUrl = cluster.urlFor(PRIVATE_DB);
+      logger.info({ port: PRIVATE_PG_PORT }, 'private PostgreSQL cluster running (.data/postgres)');
+    }
+    await migrate(databaseUrl);
+    const seeding = createSequelize(databaseUrl, { poolMax: 2 });
+    try {
+      await seedDemo(seeding);
+    } finally {
+      await seeding.close();
+    }
+    const web = ensureWebBuild({ root: ROOT, webDist: config.webDist, log: (m) => logger.info(m) });
+    logger.info({ web }, 'web app build checked');
+
+    const server = await startServer({ config: { ...config, databaseUrl }, logger });
+    steps.push({ name: 'HTTP server, fake OAuth provider and database pools', run: () => server.close() });
+    if (cluster) {
+      const c = cluster;
+      steps.push({ name: 'private PostgreSQL cluster', run: () => c.stop() });
+    }
+    onShutdownSignals(logger, steps);
+    if (server.fakeOAuthUrl) logger.info(`local fake sign-in provider on ${server.fakeOAuthUrl} (demo identities only)`);
+    console.log(`\n  Quarterturn is running on ${server.url}  (Ctrl-C to stop)\n`);
+  } catch (err) {
+    // Leave no private cluster running behind a failed start.
+    if (cluster) {
+      try {
+        cluster.stop();
+      } catch {
+        // already reported below
+      }
+    }
+    throw err;
+  }
+}
+
+main().catch((err: unknown) => {
+  console.error(err instanceof ConfigError ? err.message : err);
+  process.exit(1);
+});
