@@ -40,6 +40,9 @@ export default class UserAdmin {
   /** Id of the account whose role is being saved, so its picker is locked meanwhile. */
   protected readonly savingId = signal<number | null>(null);
 
+  /** Keeps each row (and its open picker) in place when one account changes. */
+  protected readonly byId = (_: number, user: Account): number => user.id;
+
   constructor() {
     this.api.users().pipe(takeUntilDestroyed(this.destroyRef)).subscribe({
       next: (res) => this.users.set(res.users),

@@ -1,0 +1,119 @@
+import { provideHttpClient } from '@angular/common/http';
+import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
+import { TestBed, type ComponentFixture } from '@angular/core/testing';
+import { TestbedHarnessEnvironment } from '@angular/cdk/testing/testbed';
+import type { HarnessLoader } from '@angular/cdk/testing';
+import { MatButtonHarness } from '@angular/material/button/testing';
+import { MatMenuHarness } from '@angular/material/menu/testing';
+import { MatSlideToggleHarness } from '@angular/material/slide-toggle/testing';
+import { provideRouter } from '@angular/router';
+import type { Account, MeResponse } from '@shared/auth';
+import Shell from './shell';
+
+const ADA: Account = {
+  id: 7,
+  login: 'ada-grid',
+  displayName: 'Ada Gridley',
+  email: 'ada@example.test',
+  role: 'researcher',
+  isEmailOn: true,
+  createdAt: '2026-01-05T10:00:00.000Z',
+};
+
+describe('Shell', () => {
+  let fixture: ComponentFixture<Shell>;
+  let loader: HarnessLoader;
+  let backend: HttpTestingController;
+
+  async function renderAs(me: MeResponse): Promise<void> {
+    TestBed.configureTestingModule({
+      imports: [Shell],
+      providers: [provideRouter([]), provideHttpClient(), provideHttpClientTesting()],
+    });
+    backend = TestBed.inject(HttpTestingController);
+    fixture = TestBed.createComponent(Shell);
+    loader = TestbedHarnessEnvironment.loader(fixture);
+    backend.expectOne({ method: 'GET', url: '/api/me' }).flush(me);
+    await fixture.whenStable();
+  }
+
+  afterEach(() => backend.verify());
+
+  async function navLabels(): Promise<string[]> {
+    const links = await loader.getAllHarnesses(MatButtonHarness.with({ ancestor: 'nav' }));
+    return Promise.all(links.map((l) => l.getText()));
+  }
+
+  it('shows the product name and the three public areas to a visitor, with a sign-in link', async () => {
+    await renderAs({ account: null, role: 'visitor' });
+
+    expect(fixture.nativeElement.textContent).toContain('Quarterturn');
+    expect(await navLabels()).toEqual(['Instance sets', 'Sweeps', 'Leaderboards']);
+    const signIn = await loader.getHarness(MatButtonHarness.with({ text: 'Sign in' }));
+    expect(await (await signIn.host()).getAttribute('href')).toBe('/api/auth/github');
+  });
+
+  it('hides the Admin link from a researcher', async () => {
+    await renderAs({ account: ADA, role: 'researcher' });
+
+    expect(await navLabels()).not.toContain('Admin');
+    expect(await loader.getAllHarnesses(MatButtonHarness.with({ text: 'Sign in' }))).toHaveLength(0);
+  });
+
+  it('shows the Admin link to an admin', async () => {
+    await renderAs({ account: { ...ADA, role: 'admin' }, role: 'admin' });
+
+    expect(await navLabels()).toEqual(['Instance sets', 'Sweeps', 'Leaderboards', 'Admin']);
+  });
+
+  it('shows the display name and role in the account menu', async () => {
+    await renderAs({ account: ADA, role: 'researcher' });
+
+    const menu = await loader.getHarness(MatMenuHarness);
+    expect(await menu.getTriggerText()).toBe('Ada Gridley researcher');
+  });
+
+  it('turns e-mail notifications off with PATCH /api/me/settings', async () => {
+    await renderAs({ account: ADA, role: 'researcher' });
+    const menu = await loader.getHarness(MatMenuHarness);
+    await menu.open();
+    const toggle = await TestbedHarnessEnvironment.documentRootLoader(fixture).getHarness(MatSlideToggleHarness);
+    expect(await toggle.isChecked()).toBe(true);
+
+    await toggle.toggle();
+
+    const req = backend.expectOne({ method: 'PATCH', url: '/api/me/settings' });
+    expect(req.request.body).toEqual({ isEmailOn: false });
+    req.flush({});
+    await fixture.whenStable();
+    expect(await toggle.isChecked()).toBe(false);
+  });
+
+  it('puts the switch back when the server refuses the setting', async () => {
+    await renderAs({ account: ADA, role: 'researcher' });
+    const menu = await loader.getHarness(MatMenuHarness);
+    await menu.open();
+    const toggle = await TestbedHarnessEnvironment.documentRootLoader(fixture).getHarness(MatSlideToggleHarness);
+
+    await toggle.toggle();
+    backend
+      .expectOne('/api/me/settings')
+      .flush({ error: { code: 'FORBIDDEN', message: 'No.' } }, { status: 403, statusText: 'Forbidden' });
+    await fixture.whenStable();
+
+    expect(await toggle.isChecked()).toBe(true);
+  });
+
+  it('signs out with POST /api/auth/logout and then offers sign-in again', async () => {
+    await renderAs({ account: { ...ADA, role: 'admin' }, role: 'admin' });
+    const menu = await loader.getHarness(MatMenuHarness);
+
+    await menu.clickItem({ text: 'Sign out' });
+    backend.expectOne({ method: 'POST', url: '/api/auth/logout' }).flush(null, { status: 204, statusText: 'No Content' });
+    await fixture.whenStable();
+
+    expect(await loader.getAllHarnesses(MatMenuHarness)).toHaveLength(0);
+    expect(await navLabels()).not.toContain('Admin');
+    expect(await loader.getAllHarnesses(MatButtonHarness.with({ text: 'Sign in' }))).toHaveLength(1);
+  });
+});
