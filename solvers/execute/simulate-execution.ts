@@ -1,0 +1,55 @@
+/**
+ * Monte Carlo execution of one plan: N seeded runs under one policy and noise model, summarised
+ * as success rate and mean / p95 of each metric. Deterministic for a seed.
+ * Simulation is no safety assessment; see execution-types.ts.
+ */
+import type { RobotProfile } from '@shared/plan';
+import type { MapfInstance } from '../instance';
+import { ExecutionRunner } from './execution-runner';
+import type { ExecutablePlan, ExecutionOptions, ExecutionSummary, RunMetrics } from './execution-types';
+import { metricStats } from './metric-stats';
+
+/** Simulates `options.runs` (default 1) runs of `plan` and summarises them; throws on an invalid plan, profile or option. */
+export function simulateExecution(
+  instance: MapfInstance,
+  plan: ExecutablePlan,
+  profile: RobotProfile,
+  options: ExecutionOptions,
+): ExecutionSummary {
+  const runs = options.runs ?? 1;
+  if (!Number.isInteger(runs) || runs < 1) throw new Error(`execution: field "runs" must be a positive integer, got ${runs}`);
+  const runner = new ExecutionRunner(instance, plan, profile, options);
+  const perRun: RunMetrics[] = [];
+  let isAborted = false;
+  for (let r = 0; r < runs; r++) {
+    if (options.signal?.aborted) {
+      isAborted = true;
+      break;
+    }
+    perRun.push(runner.run(r));
+  }
+  return summarise(runner, options, perRun, isAborted);
+}
+
+function summarise(runner: ExecutionRunner, options: ExecutionOptions, perRun: readonly RunMetrics[], isAborted: boolean): ExecutionSummary {
+  const n = perRun.length;
+  const counts = perRun.map((m) => m.collisions.length);
+  const hit = perRun.find((m) => m.collisions.length > 0);
+  const collisionStats = metricStats(counts);
+  return {
+    policy: options.policy,
+    noise: runner.noise,
+    onCollision: runner.onCollision,
+    seed: options.seed,
+    runs: n,
+    isAborted,
+    successRate: n === 0 ? 0 : perRun.filter((m) => m.isSuccess).length / n,
+    collisions: { mean: collisionStats.mean ?? 0, p95: collisionStats.p95 ?? 0, total: counts.reduce((s, c) => s + c, 0) },
+    realisedMakespanMs: metricStats(perRun.map((m) => m.realisedMakespanMs)),
+    realisedSocMs: metricStats(perRun.map((m) => m.realisedSocMs)),
+    finishSpreadMs: metricStats(perRun.map((m) => m.finishSpreadMs)),
+    waitingMs: metricStats(perRun.map((m) => m.waitingMs)),
+    firstCollision: hit ? { ...hit.collisions[0], run: hit.run } : null,
+    perRun,
+  };
+}
