@@ -2,7 +2,7 @@
 import { HttpClient } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import type { Observable } from 'rxjs';
-import type { ChangeRoleRequest, UserListResponse } from '@shared/auth';
+import type { Account, ChangeRoleRequest, UserListResponse } from '@shared/auth';
 
 /** Owns /api/admin/users. */
 @Injectable({ providedIn: 'root' })
@@ -14,9 +14,9 @@ export class AdminApi {
     return this.http.get<UserListResponse>('/api/admin/users');
   }
 
-  /** PATCH /api/admin/users/:id: gives an account another role. */
-  changeRole(id: number, role: ChangeRoleRequest['role']): Observable<unknown> {
+  /** PATCH /api/admin/users/:id: gives an account another role; answers the updated account. */
+  changeRole(id: number, role: ChangeRoleRequest['role']): Observable<Account> {
     const body: ChangeRoleRequest = { role };
-    return this.http.patch<unknown>(`/api/admin/users/${id}`, body);
+    return this.http.patch<Account>(`/api/admin/users/${id}`, body);
   }
 }

@@ -57,8 +57,8 @@ export default class UserAdmin {
   protected async changeRole(user: Account, change: MatSelectChange<AssignableRole>): Promise<void> {
     this.savingId.set(user.id);
     try {
-      await firstValueFrom(this.api.changeRole(user.id, change.value));
-      this.users.update((list) => list?.map((u) => (u.id === user.id ? { ...u, role: change.value } : u)));
+      const updated = await firstValueFrom(this.api.changeRole(user.id, change.value));
+      this.users.update((list) => list?.map((u) => (u.id === updated.id ? updated : u)));
       // Changing one's own role changes what the shell may show.
       if (user.id === this.session.account()?.id) await this.session.reload();
     } catch {

@@ -3,6 +3,7 @@ import { HttpClient } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import type { Observable } from 'rxjs';
 import type { AccountSettingsRequest, MeResponse } from '@shared/auth';
+import { SIGN_OUT_URL } from './auth-contract';
 
 /** Owns the /api/me and /api/auth URLs the shell uses. */
 @Injectable({ providedIn: 'root' })
@@ -14,16 +15,13 @@ export class AccountApi {
     return this.http.get<MeResponse>('/api/me');
   }
 
-  /** PATCH /api/me/settings: changes the account's own settings. */
-  changeSettings(settings: AccountSettingsRequest): Observable<unknown> {
-    return this.http.patch<unknown>('/api/me/settings', settings);
+  /** PATCH /api/me/settings: changes the account's own settings; answers the updated session. */
+  changeSettings(settings: AccountSettingsRequest): Observable<MeResponse> {
+    return this.http.patch<MeResponse>('/api/me/settings', settings);
   }
 
   /** POST /api/auth/logout: ends the server session. */
   signOut(): Observable<unknown> {
-    return this.http.post<unknown>('/api/auth/logout', {});
+    return this.http.post<unknown>(SIGN_OUT_URL, {});
   }
 }
-
-/** Where the sign-in button sends the browser (a full page navigation into the OAuth flow). */
-export const SIGN_IN_URL = '/api/auth/github';

@@ -17,3 +17,8 @@ export function isRoleAtLeast(role: Role, needed: Role): boolean {
 export const CSRF_COOKIE_NAME = 'qt_csrf';
 /** Same as CSRF_HEADER in shared/auth.ts. */
 export const CSRF_HEADER_NAME = 'x-csrf-token';
+
+/** Where the sign-in button sends the browser, a full page navigation (SIGN_IN_PATH in shared/auth.ts). */
+export const SIGN_IN_URL = '/api/auth/github';
+/** Where sign-out is POSTed (SIGN_OUT_PATH in shared/auth.ts). */
+export const SIGN_OUT_URL = '/api/auth/logout';

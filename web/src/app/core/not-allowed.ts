@@ -2,7 +2,7 @@
 import { ChangeDetectionStrategy, Component, computed, inject, input } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { RouterLink } from '@angular/router';
-import { SIGN_IN_URL } from './account-api';
+import { SIGN_IN_URL } from './auth-contract';
 import { Session } from './session';
 
 /** Explains which role an area needs and what the visitor can do about it. */

@@ -56,7 +56,7 @@ export class Session {
     if (!before?.account) return;
     this.state.set({ ...before, account: { ...before.account, isEmailOn } });
     try {
-      await firstValueFrom(this.api.changeSettings({ isEmailOn }));
+      this.settle(await firstValueFrom(this.api.changeSettings({ isEmailOn })));
     } catch (err) {
       this.state.set(before);
       throw err;

@@ -84,7 +84,7 @@ describe('Shell', () => {
 
     const req = backend.expectOne({ method: 'PATCH', url: '/api/me/settings' });
     expect(req.request.body).toEqual({ isEmailOn: false });
-    req.flush({});
+    req.flush({ account: { ...ADA, isEmailOn: false }, role: 'researcher' });
     await fixture.whenStable();
     expect(await toggle.isChecked()).toBe(false);
   });

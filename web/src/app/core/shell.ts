@@ -4,7 +4,7 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatToolbarModule } from '@angular/material/toolbar';
 import { RouterLink, RouterLinkActive, RouterOutlet } from '@angular/router';
 import { AccountMenu } from './account-menu';
-import { SIGN_IN_URL } from './account-api';
+import { SIGN_IN_URL } from './auth-contract';
 import { Session } from './session';
 
 /** One entry of the area navigation. */

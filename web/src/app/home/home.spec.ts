@@ -65,6 +65,21 @@ describe('Home', () => {
     expect(fixture.nativeElement.textContent).toContain('The counts are unavailable right now.');
   });
 
+  it('tells the visitor when the OAuth callback reported a failed sign-in', async () => {
+    fixture.componentRef.setInput('signin', 'failed');
+    backend.expectOne('/api/stats').flush({ instanceSets: 0, maps: 0, scenarios: 0, sweeps: 0, results: 0 });
+    await fixture.whenStable();
+
+    expect(fixture.nativeElement.textContent).toContain('Sign-in did not complete');
+  });
+
+  it('says nothing about sign-in on a normal visit', async () => {
+    backend.expectOne('/api/stats').flush({ instanceSets: 0, maps: 0, scenarios: 0, sweeps: 0, results: 0 });
+    await fixture.whenStable();
+
+    expect(fixture.nativeElement.textContent).not.toContain('Sign-in did not complete');
+  });
+
   it('states that simulation is no safety assessment', async () => {
     await fixture.whenStable();
     backend.expectOne('/api/stats').flush({ instanceSets: 0, maps: 0, scenarios: 0, sweeps: 0, results: 0 });

@@ -1,11 +1,12 @@
 /** Start page: what Quarterturn is for, and how much the hub holds right now. */
-import { ChangeDetectionStrategy, Component, inject } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, inject, input } from '@angular/core';
 import { toSignal } from '@angular/core/rxjs-interop';
 import { DecimalPipe } from '@angular/common';
 import { MatButtonModule } from '@angular/material/button';
 import { RouterLink } from '@angular/router';
 import { catchError, of } from 'rxjs';
 import type { StatsResponse } from '@shared/auth';
+import { SIGN_IN_URL } from '../core/auth-contract';
 import { StatsApi } from './stats-api';
 
 /** One counter tile. */
@@ -34,6 +35,11 @@ const COUNTERS: readonly Counter[] = [
 export default class Home {
   private readonly api = inject(StatsApi);
   protected readonly counters = COUNTERS;
+  protected readonly signInUrl = SIGN_IN_URL;
+  /** Query parameter `signin`; the server's OAuth callback sets it to `failed` (SIGN_IN_FAILED_PATH). */
+  readonly signin = input<string>();
+  /** Whether the page was reached after a cancelled or refused sign-in. */
+  protected readonly hasSignInFailed = computed(() => this.signin() === 'failed');
   /** undefined while loading, null when the request failed (the snack bar said why). */
   protected readonly stats = toSignal(this.api.stats().pipe(catchError(() => of(null))));
 }
