@@ -86,6 +86,6 @@ export function errorHandler(): ErrorRequestHandler {
 /** Answers any request that reached it with 404 NOT_FOUND in the error shape. */
 export function notFound(): RequestHandler {
   return (req, res) => {
-    res.status(404).json(errorBody('NOT_FOUND', `No route for ${req.method} ${req.path}`));
+    res.status(404).json(errorBody('NOT_FOUND', `No route for ${req.method} ${req.originalUrl.split('?')[0]}`));
   };
 }

@@ -2,7 +2,7 @@
 import { Router } from 'express';
 import { z } from 'zod';
 import { ChangeRoleRequest, type Account, type UserListResponse } from '@shared/auth';
-import { requireRole } from '../auth/require-role';
+import { requireRole, requireUser } from '../auth/require-role';
 import { validate } from '../errors/validate';
 import { toAccount } from './account';
 import type { UsersService } from './users.service';
@@ -22,8 +22,8 @@ export function adminUsersRouter(users: UsersService): Router {
   r.patch('/:id', async (req, res) => {
     const { id } = validate(UserIdParam, req.params);
     const change = validate(ChangeRoleRequest, req.body);
-    const body: Account = toAccount(await users.changeRole(id, change));
-    req.log?.info({ targetId: id, role: change.role, by: req.user?.id }, 'role changed');
+    const body: Account = toAccount(await users.changeRole(requireUser(req).id, id, change));
+    req.log?.info({ targetId: id, role: change.role, by: requireUser(req).id }, 'role changed');
     res.json(body);
   });
 

@@ -20,8 +20,11 @@ export interface UsersService {
   findById(id: number): Promise<User | null>;
   list(): Promise<User[]>;
   updateSettings(id: number, settings: AccountSettingsRequest): Promise<User>;
-  /** Changes a role; refuses to demote the last admin (409 LAST_ADMIN). */
-  changeRole(targetId: number, change: ChangeRoleRequest): Promise<User>;
+  /**
+   * Changes a role on behalf of admin `actorId`; refuses to demote the last admin (409
+   * LAST_ADMIN) and re-checks inside the transaction that the actor is still an admin.
+   */
+  changeRole(actorId: number, targetId: number, change: ChangeRoleRequest): Promise<User>;
 }
 
 /** Builds the users service over the User model; `adminLogins` are lower-case logins that start as admin. */
@@ -59,10 +62,12 @@ export function createUsersService(deps: {
       return user.update({ isEmailOn: settings.isEmailOn });
     },
 
-    changeRole(targetId, change) {
+    changeRole(actorId, targetId, change) {
       return sequelize.transaction(async (transaction) => {
         // Lock every admin row so two admins demoting each other at once cannot both succeed.
         const admins = await User.findAll({ where: { role: 'admin' }, lock: transaction.LOCK.UPDATE, transaction });
+        // The route checked the actor's role before this transaction; a concurrent change may have demoted them since.
+        if (!admins.some((a) => a.id === actorId)) throw new AppError('FORBIDDEN', 403, 'Your account is no longer an admin.');
         const target = await User.findByPk(targetId, { transaction, lock: transaction.LOCK.UPDATE });
         if (!target) throw new AppError('NOT_FOUND', 404, `No user with id ${targetId}`);
         if (target.role === 'admin' && change.role !== 'admin' && admins.length <= 1) {
