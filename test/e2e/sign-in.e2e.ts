@@ -7,6 +7,7 @@ import type { Page } from 'playwright-core';
 import { launchBrowser, type E2eBrowser } from './support/browser';
 import { watchNetwork, type NetworkWatch } from './support/network-watch';
 import { bootServer, type E2eServer } from './support/server';
+import { settledText } from './support/settled-text';
 import { accountMenuButton, demoIdentity, signInThroughUi, signOutThroughUi } from './support/sign-in';
 
 const researcher = demoIdentity('researcher');
@@ -92,6 +93,13 @@ describe('sign-in and roles in the browser', () => {
     await expectRole(admin.login, 'admin');
   });
 
+  it('shows the promoted account its new role at its next sign-in', async () => {
+    await signOutThroughUi(page, admin);
+    await signInThroughUi(page, server.url, researcher);
+
+    expect(await accountMenuButton(page, researcher).innerText()).toMatch(/maintainer/i);
+  });
+
   it('made no request to any host but 127.0.0.1 and raised no script error', () => {
     // Both loopback servers were used: the app and the fake OAuth provider.
     const origins = new Set(network.seen.map((u) => new URL(u).origin));
@@ -101,13 +109,7 @@ describe('sign-in and roles in the browser', () => {
   });
 
   async function expectRole(login: string, role: string): Promise<void> {
-    const select = roleSelect(login);
-    await select.waitFor();
-    await page.waitForFunction(
-      ([l, r]) => document.querySelector(`[aria-label="Role of ${l}"]`)?.textContent?.trim() === r,
-      [login, role] as const,
-      { timeout: 5_000 },
-    ).catch(() => undefined);
-    expect((await select.innerText()).trim()).toBe(role);
+    // mat-select writes its value text just after the row appears, hence the short wait.
+    expect(await settledText(roleSelect(login), role)).toBe(role);
   }
 });
