@@ -96,6 +96,11 @@ export function createApp(config: AppConfig, deps: Partial<AppDeps> = {}): Quart
       return id;
     },
     autoLogging: { ignore: (req) => req.url === '/api/health' },
+    // One short line per request: headers are noise here and may carry secrets.
+    serializers: {
+      req: (req: { id: unknown; method: string; url: string }) => ({ id: req.id, method: req.method, url: req.url }),
+      res: (res: { statusCode: number }) => ({ statusCode: res.statusCode }),
+    },
     customLogLevel: (_req, res, err) => (err || res.statusCode >= 500 ? 'error' : res.statusCode >= 400 ? 'warn' : 'info'),
   }));
   app.use(securityHeaders(config.publicUrl));

@@ -30,9 +30,7 @@ export function onShutdownSignals(logger: Logger, steps: readonly ShutdownStep[]
     logger.flush();
     process.exit(code);
   };
-  process.once('SIGINT', stop);
-  process.once('SIGTERM', stop);
-  // Re-register after the first signal so the second one reaches the forced-exit branch.
-  process.on('SIGINT', () => void (isStopping && stop('SIGINT')));
-  process.on('SIGTERM', () => void (isStopping && stop('SIGTERM')));
+  // One listener per signal: the first call shuts down, a later one takes the forced-exit branch.
+  process.on('SIGINT', (s) => void stop(s));
+  process.on('SIGTERM', (s) => void stop(s));
 }
