@@ -53,11 +53,12 @@ describe('createApp', () => {
   });
 
   it('answers a failing handler with a generic 500 that carries no stack', async () => {
-    const stats = createStatsService();
-    stats.register('sweeps', async () => {
+    const app = make();
+    // Registered after createApp so it replaces whatever counter a feature registered.
+    app.context.stats.register('sweeps', async () => {
       throw new Error('relation "sweeps" does not exist');
     });
-    const res = await request(make({}, { stats })).get('/api/stats');
+    const res = await request(app).get('/api/stats');
     expect(res.status).toBe(500);
     expect(res.body.error.code).toBe('INTERNAL');
     expect(Object.keys(res.body.error).sort()).toEqual(['code', 'details', 'message']);
@@ -65,11 +66,19 @@ describe('createApp', () => {
     expect(res.body.error.details.requestId).toBe(res.headers['x-request-id']);
   });
 
-  it('counts 0 for figures no feature registered and uses registered counters', async () => {
+  it('answers /api/stats from the counters in app.context.stats, passing null for a visitor', async () => {
+    const app = make();
+    app.context.stats.register('maps', async (viewer) => (viewer ? 99 : 7));
+    const res = await request(app).get('/api/stats');
+    expect(res.status).toBe(200);
+    expect(res.body.maps).toBe(7);
+    expect(Object.keys(res.body).sort()).toEqual(['instanceSets', 'maps', 'results', 'scenarios', 'sweeps']);
+  });
+
+  it('uses a stats service handed in through deps', async () => {
     const stats = createStatsService();
-    stats.register('maps', async (viewer) => (viewer ? 99 : 7));
-    const res = await request(make({}, { stats })).get('/api/stats');
-    expect(res.body).toEqual({ instanceSets: 0, maps: 7, scenarios: 0, sweeps: 0, results: 0 });
+    const app = make({}, { stats });
+    expect(app.context.stats).toBe(stats);
   });
 
   it('tells a visitor it is a visitor', async () => {
