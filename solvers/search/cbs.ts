@@ -1,0 +1,545 @@
+/**
+ * The CBS high level, written once against the model interface (solvers/models/model.ts):
+ * Conflict-Based Search (Sharon, Stern, Felner, Sturtevant, "Conflict-based search for optimal
+ * multi-agent pathfinding", AIJ 2015) with the improvements of the CBSH2-RTC line of work, each
+ * behind a switch:
+ * - conflict prioritisation by MDDs and bypass (Boyarski, Felner, Stern, Sharon, Tolpin,
+ *   Betzalel, Shimony, "ICBS: Improved conflict-based search algorithm for multi-agent
+ *   pathfinding", IJCAI 2015);
+ * - the WDG heuristic (Li, Felner, Boyarski, Ma, Koenig, "Improved heuristics for multi-agent
+ *   path finding with conflict-based search", IJCAI 2019), computed lazily when a node is
+ *   popped, with pair weights from exact two-agent sub-searches, memoised;
+ * - disjoint splitting (Li, Harabor, Stuckey, Ma, Koenig, "Disjoint splitting for multi-agent
+ *   path finding with conflict-based search", ICAPS 2019);
+ * - target, corridor and rectangle reasoning (Li, Harabor, Stuckey, Koenig, "Pairwise symmetry
+ *   reasoning for multi-agent path finding search", AIJ 2021).
+ *
+ * Optimality argument: every split is complete (each solution of a node satisfies one child's
+ * constraints), every agent's path is optimal under its constraints, and the node order is by
+ * f = g + h with h admissible, so the first conflict-free node popped is optimal.
+ */
+import type { SearchModel } from '../models/model';
+import { Budget, LimitReached } from './budget';
+import { BinaryHeap, type HeapItem } from './binary-heap';
+import type { CbsSwitches } from './cbs-types';
+import { ConflictAvoidanceTable } from './conflict-avoidance-table';
+import {
+  affectsOthers, C_EDGE, C_GT_LENGTH, C_LEQ_LENGTH, C_POS_EDGE, C_POS_VERTEX, C_VERTEX, constraint, type Constraint,
+} from './constraint';
+import { ConstraintTable } from './constraint-table';
+import {
+  type Conflict, K_CORRIDOR, K_EDGE, K_RECTANGLE, K_TARGET, K_VERTEX, makeConflict, P_CARDINAL, P_NON,
+} from './conflict';
+import { classifyByMdds } from './conflict-priority';
+import { findCorridorConflict } from './corridor-reasoning';
+import { buildMdd, haveConflictFreePair, type Mdd } from './mdd';
+import { findRectangleConflict } from './rectangle-reasoning';
+import { SpaceTimeAStar } from './space-time-astar';
+import { minWeightedVertexCover, type WeightedEdge } from './weighted-vertex-cover';
+
+/** CT expansions a WDG sub-search may use before it reports its lower bound instead. */
+export const SUB_EXPAND_LIMIT = 16;
+
+/** A WDG weight that makes the node infeasible (the pair has no joint solution). */
+const INFEASIBLE = Number.POSITIVE_INFINITY;
+
+/** Settings of one CBS run (the main search or a two-agent WDG sub-search). */
+export interface CbsEngineConfig {
+  readonly model: SearchModel;
+  /** Model agent ids this run plans for. */
+  readonly agents: readonly number[];
+  /** Per local agent, constraints inherited from an enclosing search (already relevant to that agent). */
+  readonly baseConstraints?: readonly (readonly Constraint[])[];
+  /** Per local agent, a path optimal under its base constraints (else the root plans it). */
+  readonly initialPaths?: readonly Int32Array[];
+  readonly switches: CbsSwitches;
+  readonly budget: Budget;
+  /** Shared low-level planner (keeps buffers and counts expansions). */
+  readonly planner: SpaceTimeAStar;
+  readonly cat: ConflictAvoidanceTable;
+  /** Cell degrees (corridor reasoning). */
+  readonly degree: Uint8Array;
+  /** Maximum CT nodes generated: beyond it the run stops with a lower bound. */
+  readonly nodeLimit: number;
+  /** Maximum CT nodes expanded (sub-searches use a small one). */
+  readonly expandLimit: number;
+  /** Whether reaching the node/expansion limit is a {@link LimitReached} (main run) or a normal outcome (sub-search). */
+  readonly isLimitFatal: boolean;
+  readonly memoryLimitBytes: number;
+  /** Whether this is a two-agent sub-search (uses the DG bound instead of WDG). */
+  readonly isSub: boolean;
+}
+
+/** Outcome of one CBS run. */
+export interface CbsOutcome {
+  readonly kind: 'solved' | 'limit' | 'infeasible';
+  readonly paths: Int32Array[];
+  readonly soc: number;
+  readonly lowerBound: number;
+  readonly generated: number;
+  readonly expanded: number;
+  readonly reason?: string;
+}
+
+/** A constraint tree node. */
+class CtNode implements HeapItem {
+  heapIndex = -1;
+  f: number;
+  isHComputed = false;
+
+  constructor(
+    readonly id: number,
+    readonly parent: CtNode | null,
+    readonly added: readonly Constraint[],
+    public paths: Int32Array[],
+    public g: number,
+    public h: number,
+    public conflicts: Conflict[],
+    /** Per local agent: the node whose constraints last changed that agent's constraint table. */
+    readonly owner: Int32Array,
+    /** Per local agent: the node whose constraints last changed that agent's MDD (cost-relevant set). */
+    readonly mddOwner: Int32Array,
+  ) {
+    this.f = g + h;
+  }
+}
+
+const lessNode = (a: CtNode, b: CtNode): boolean => {
+  if (a.f !== b.f) return a.f < b.f;
+  if (a.conflicts.length !== b.conflicts.length) return a.conflicts.length < b.conflicts.length;
+  return a.id < b.id;
+};
+
+/** One CBS search; create, call {@link CbsEngine.run} once. */
+export class CbsEngine {
+  generated = 0;
+  expanded = 0;
+  private readonly model: SearchModel;
+  private readonly sw: CbsSwitches;
+  private readonly L: number;
+  private readonly localOf: Int32Array;
+  private readonly nodes: CtNode[] = [];
+  private readonly open = new BinaryHeap<CtNode>(lessNode);
+  private readonly tables = new Map<number, ConstraintTable>();
+  private readonly mdds = new Map<number, Mdd | null>();
+  private readonly weights = new Map<number, Map<number, number>>();
+  private bytes = 0;
+  private currentF = -1;
+
+  /** Prepares a run. */
+  constructor(private readonly cfg: CbsEngineConfig) {
+    this.model = cfg.model;
+    this.sw = cfg.switches;
+    this.L = cfg.agents.length;
+    this.localOf = new Int32Array(cfg.model.agentCount).fill(-1);
+    cfg.agents.forEach((a, i) => { this.localOf[a] = i; });
+  }
+
+  /** Runs the search to a proven optimum, a limit, or an empty open list. */
+  run(): CbsOutcome {
+    try {
+      return this.search();
+    } catch (e) {
+      if (e instanceof LimitReached && !this.cfg.isLimitFatal && (e.reason === 'nodes')) return this.limitOutcome('nodes');
+      throw e;
+    }
+  }
+
+  /** The best proven lower bound so far (min f over the open list and the node being expanded). */
+  lowerBound(): number {
+    let lb = Infinity;
+    for (const n of this.open.values()) if (n.f < lb) lb = n.f;
+    if (this.currentF >= 0 && this.currentF < lb) lb = this.currentF;
+    return lb;
+  }
+
+  private limitOutcome(reason: string): CbsOutcome {
+    return { kind: 'limit', paths: [], soc: -1, lowerBound: this.lowerBound(), generated: this.generated, expanded: this.expanded, reason };
+  }
+
+  private search(): CbsOutcome {
+    const root = this.makeRoot();
+    if (root === null) {
+      return { kind: 'infeasible', paths: [], soc: -1, lowerBound: Infinity, generated: this.generated, expanded: 0, reason: 'an agent has no path under its constraints' };
+    }
+    this.open.push(root);
+    while (this.open.size > 0) {
+      this.cfg.budget.check();
+      const node = this.open.pop() as CtNode;
+      this.currentF = node.f;
+      if (node.conflicts.length === 0) {
+        return { kind: 'solved', paths: node.paths, soc: node.g, lowerBound: node.g, generated: this.generated, expanded: this.expanded };
+      }
+      if (!node.isHComputed) {
+        const h = this.computeH(node);
+        node.isHComputed = true;
+        if (h === INFEASIBLE) { this.currentF = -1; continue; }
+        if (h > node.h) {
+          node.h = h;
+          node.f = node.g + h;
+        }
+        const top = this.open.peek();
+        if (top !== undefined && lessNode(top, node)) {
+          this.open.push(node);
+          this.currentF = -1;
+          continue;
+        }
+      }
+      if (this.expanded >= this.cfg.expandLimit) {
+        this.open.push(node);
+        this.currentF = -1;
+        throw new LimitReached('nodes');
+      }
+      this.expanded++;
+      this.expand(node);
+      this.currentF = -1;
+      if (node.heapIndex < 0) {
+        // Expanded for good: only its constraints and parent link are still needed (by descendants' tables).
+        node.paths = [];
+        node.conflicts = [];
+      }
+    }
+    return { kind: 'infeasible', paths: [], soc: -1, lowerBound: Infinity, generated: this.generated, expanded: this.expanded, reason: 'the constraint tree was exhausted' };
+  }
+
+  // ---------------------------------------------------------------- nodes
+
+  private register(node: CtNode): void {
+    this.nodes[node.id] = node;
+    this.generated++;
+    this.bytes += 96 + this.L * 16 + node.conflicts.length * 8 + node.added.length * 56;
+    if (this.generated > this.cfg.nodeLimit) throw new LimitReached('nodes');
+    if (this.bytes > this.cfg.memoryLimitBytes) throw new LimitReached('memory');
+  }
+
+  private makeRoot(): CtNode | null {
+    const L = this.L;
+    const paths: (Int32Array | null)[] = new Array(L).fill(null);
+    const owner = new Int32Array(L);
+    const root = new CtNode(0, null, [], [], 0, 0, [], owner, new Int32Array(L));
+    this.nodes[0] = root;
+    for (let i = 0; i < L; i++) {
+      const given = this.cfg.initialPaths?.[i];
+      if (given) {
+        paths[i] = given;
+        continue;
+      }
+      this.cfg.cat.fill(this.model.stateCell, paths, i);
+      const p = this.cfg.planner.plan(this.cfg.agents[i], this.table(root, i), this.cfg.cat);
+      if (p === null) return null;
+      paths[i] = p;
+    }
+    root.paths = paths as Int32Array[];
+    root.g = root.paths.reduce((s, p) => s + p.length - 1, 0);
+    root.f = root.g;
+    const conflicts: Conflict[] = [];
+    for (let i = 0; i < L; i++) for (let j = i + 1; j < L; j++) this.pairConflicts(root.paths, i, j, conflicts);
+    root.conflicts = conflicts;
+    this.nodes.length = 0;
+    this.register(root);
+    return root;
+  }
+
+  private pairConflicts(paths: Int32Array[], i: number, j: number, out: Conflict[]): void {
+    this.model.findConflicts(this.cfg.agents[i], paths[i], this.cfg.agents[j], paths[j], out);
+  }
+
+  /** Every constraint that binds local agent i at the node with id `ownerId` (base ones first). */
+  private collect(ownerId: number, i: number): Constraint[] {
+    const agent = this.cfg.agents[i];
+    const out: Constraint[] = [];
+    for (let n: CtNode | null = this.nodes[ownerId]; n !== null; n = n.parent) {
+      for (const c of n.added) if (c.agent === agent || affectsOthers(c)) out.push(c);
+    }
+    out.reverse();
+    const base = this.cfg.baseConstraints?.[i];
+    return base ? [...base, ...out] : out;
+  }
+
+  private table(node: CtNode, i: number): ConstraintTable {
+    const key = node.owner[i] * this.L + i;
+    let t = this.tables.get(key);
+    if (t === undefined) {
+      if (this.tables.size > 20000) this.tables.clear();
+      const agent = this.cfg.agents[i];
+      t = new ConstraintTable(agent, this.model.goalCells[agent], this.model.cellCount, this.model.grid.width,
+        this.collect(node.owner[i], i));
+      this.tables.set(key, t);
+      this.bytes += 64;
+    }
+    return t;
+  }
+
+  private mdd(node: CtNode, i: number): Mdd | null {
+    const key = node.mddOwner[i] * this.L + i;
+    let m = this.mdds.get(key);
+    if (m === undefined) {
+      if (this.mdds.size > 20000) this.mdds.clear();
+      m = buildMdd(this.model, this.cfg.agents[i], this.table(node, i), node.paths[i].length - 1);
+      this.mdds.set(key, m);
+      this.bytes += m ? 64 + m.states.length * 12 : 16;
+    }
+    return m;
+  }
+
+  private cachedMdd(node: CtNode, i: number): Mdd | null | undefined {
+    return this.mdds.get(node.mddOwner[i] * this.L + i);
+  }
+
+  // ---------------------------------------------------------------- expansion
+
+  private expand(node: CtNode): void {
+    for (;;) {
+      const conflict = this.selectConflict(node);
+      const [left, right] = this.split(node, conflict);
+      const children: CtNode[] = [];
+      for (const cons of [left, right]) {
+        const child = this.generateChild(node, cons);
+        if (child !== null) children.push(child);
+      }
+      if (this.sw.bypass) {
+        const better = children.find((c) => c.g === node.g && c.conflicts.length < node.conflicts.length);
+        if (better !== undefined) {
+          // The child's paths satisfy the parent's constraints at the same cost: adopt them and split again.
+          node.paths = better.paths;
+          node.conflicts = better.conflicts;
+          if (node.conflicts.length === 0) { this.open.push(node); return; }
+          continue;
+        }
+      }
+      for (const c of children) this.open.push(c);
+      return;
+    }
+  }
+
+  private generateChild(parent: CtNode, cons: readonly Constraint[]): CtNode | null {
+    const L = this.L;
+    const id = this.nodes.length;
+    const owner = parent.owner.slice();
+    const mddOwner = parent.mddOwner.slice();
+    const paths = parent.paths.slice();
+    const child = new CtNode(id, parent, cons, paths, parent.g, 0, [], owner, mddOwner);
+    const affected = new Uint8Array(L);
+    for (const c of cons) {
+      const li = this.localOf[c.agent];
+      if (li >= 0) affected[li] |= 1;
+      if (affectsOthers(c)) for (let j = 0; j < L; j++) if (j !== li) affected[j] |= 2;
+    }
+    for (let j = 0; j < L; j++) if (affected[j] !== 0) owner[j] = id;
+    this.nodes.push(child);
+    const replanned = new Uint8Array(L);
+    const stateCell = this.model.stateCell;
+    for (let j = 0; j < L; j++) {
+      if (affected[j] === 0) continue;
+      const table = this.table(child, j);
+      if (!table.admitsPath(paths[j], stateCell)) {
+        this.cfg.cat.fill(stateCell, paths, j);
+        const p = this.cfg.planner.plan(this.cfg.agents[j], table, this.cfg.cat);
+        if (p === null) {
+          this.nodes.pop();
+          return null;
+        }
+        child.g += p.length - paths[j].length;
+        paths[j] = p;
+        replanned[j] = 1;
+        mddOwner[j] = id;
+        this.bytes += p.length * 4 + 32;
+      } else if ((affected[j] & 1) !== 0 || this.hitsMdd(parent, j, cons)) {
+        mddOwner[j] = id;
+      }
+    }
+    const conflicts: Conflict[] = [];
+    for (const c of parent.conflicts) {
+      if (replanned[this.localOf[c.a1]] === 0 && replanned[this.localOf[c.a2]] === 0) conflicts.push(c);
+    }
+    for (let j = 0; j < L; j++) {
+      if (replanned[j] === 0) continue;
+      for (let k = 0; k < L; k++) {
+        if (k === j || (replanned[k] === 1 && k < j)) continue;
+        this.pairConflicts(paths, j, k, conflicts);
+      }
+    }
+    child.conflicts = conflicts;
+    child.h = Math.max(0, parent.f - child.g);
+    child.f = child.g + child.h;
+    this.nodes.pop();
+    this.register(child);
+    return child;
+  }
+
+  /** Whether the prohibitions that `cons` imply for local agent j (not their owner) remove nodes of j's MDD (conservative: true if unknown). */
+  private hitsMdd(parent: CtNode, j: number, cons: readonly Constraint[]): boolean {
+    const m = this.cachedMdd(parent, j);
+    if (m === undefined || m === null) return true;
+    const sc = this.model.stateCell;
+    for (const c of cons) {
+      if (this.localOf[c.agent] === j || !affectsOthers(c)) continue;
+      if (c.kind === C_POS_VERTEX) {
+        if (m.hasCell(c.t1, c.a, sc)) return true;
+      } else if (c.kind === C_POS_EDGE) {
+        if (m.hasCell(c.t1, c.b, sc) || m.hasCell(c.t1 - 1, c.a, sc)) return true;
+      } else if (c.kind === C_LEQ_LENGTH) {
+        for (let t = c.t1; t <= m.cost + 1; t++) if (m.hasCell(t, c.a, sc)) return true;
+      }
+    }
+    return false;
+  }
+
+  // ---------------------------------------------------------------- conflicts
+
+  private cost(node: CtNode, agent: number): number {
+    return node.paths[this.localOf[agent]].length - 1;
+  }
+
+  /** Classifies the node's conflicts and returns the one to split on (refined by the symmetry reasonings). */
+  private selectConflict(node: CtNode): Conflict {
+    const sw = this.sw;
+    const grid = this.model.supportsGridSymmetry;
+    let best: Conflict | null = null;
+    let bestRank = 0;
+    for (const raw of node.conflicts) {
+      let c = raw;
+      const cost1 = this.cost(node, c.a1);
+      const cost2 = this.cost(node, c.a2);
+      if (c.kind === K_VERTEX && sw.targetReasoning && c.t > cost1) c = makeConflict(K_TARGET, c.a1, c.a2, c.cell, -1, c.t);
+      else c = makeConflict(c.kind, c.a1, c.a2, c.cell, c.cell2, c.t);
+      if (sw.prioritizeConflicts) this.classify(node, c);
+      else c.priority = P_NON;
+      if (sw.rectangleReasoning && grid && c.kind === K_VERTEX && c.priority !== P_CARDINAL && c.t <= cost1 && c.t <= cost2) {
+        const m1 = this.mdd(node, this.localOf[c.a1]);
+        const m2 = this.mdd(node, this.localOf[c.a2]);
+        if (m1 !== null && m2 !== null) {
+          const rect = findRectangleConflict(this.model.grid.width, c.a1, c.a2, node.paths[this.localOf[c.a1]],
+            node.paths[this.localOf[c.a2]], c.t, m1, m2);
+          if (rect !== null) {
+            rect.isMddCardinal = c.isMddCardinal;
+            c = rect;
+          }
+        }
+      }
+      const rank = c.priority * 4 + (c.kind === K_RECTANGLE || c.kind === K_TARGET ? 0 : 1);
+      if (best === null || rank < bestRank || (rank === bestRank && c.t < best.t)) {
+        best = c;
+        bestRank = rank;
+      }
+    }
+    let chosen = best as Conflict;
+    if (sw.corridorReasoning && grid && (chosen.kind === K_VERTEX || chosen.kind === K_EDGE)) {
+      const corridor = findCorridorConflict(this.model, this.cfg.degree, chosen,
+        (a) => node.paths[this.localOf[a]], (a) => this.table(node, this.localOf[a]));
+      if (corridor !== null) {
+        corridor.priority = chosen.priority;
+        chosen = corridor;
+      }
+    }
+    return chosen;
+  }
+
+  /** Sets the MDD priority of a vertex, edge or target conflict. */
+  private classify(node: CtNode, c: Conflict): void {
+    const m1 = this.mdd(node, this.localOf[c.a1]);
+    const m2 = this.mdd(node, this.localOf[c.a2]);
+    if (m1 === null || m2 === null) c.priority = P_NON;
+    else classifyByMdds(c, m1, m2);
+  }
+
+  /** The two children's constraint sets of a conflict. */
+  private split(node: CtNode, c: Conflict): [Constraint[], Constraint[]] {
+    switch (c.kind) {
+      case K_VERTEX:
+        if (this.sw.disjointSplitting) {
+          return [[constraint(C_POS_VERTEX, c.a1, c.cell, -1, c.t, c.t)], [constraint(C_VERTEX, c.a1, c.cell, -1, c.t, c.t)]];
+        }
+        return [[constraint(C_VERTEX, c.a1, c.cell, -1, c.t, c.t)], [constraint(C_VERTEX, c.a2, c.cell, -1, c.t, c.t)]];
+      case K_EDGE:
+        if (this.sw.disjointSplitting) {
+          return [[constraint(C_POS_EDGE, c.a1, c.cell, c.cell2, c.t, c.t)], [constraint(C_EDGE, c.a1, c.cell, c.cell2, c.t, c.t)]];
+        }
+        return [[constraint(C_EDGE, c.a1, c.cell, c.cell2, c.t, c.t)], [constraint(C_EDGE, c.a2, c.cell2, c.cell, c.t, c.t)]];
+      case K_TARGET:
+        return [[constraint(C_GT_LENGTH, c.a1, c.cell, -1, c.t, c.t)], [constraint(C_LEQ_LENGTH, c.a1, c.cell, -1, c.t, c.t)]];
+      case K_CORRIDOR:
+      case K_RECTANGLE:
+        return [c.constraints1 as Constraint[], c.constraints2 as Constraint[]];
+      default:
+        throw new Error(`unknown conflict kind ${c.kind} at node ${node.id}`);
+    }
+  }
+
+  // ---------------------------------------------------------------- heuristics
+
+  private computeH(node: CtNode): number {
+    if (this.cfg.isSub) {
+      // Two agents: +1 when their MDDs admit no conflict-free pair of paths (the DG bound).
+      if (node.conflicts.length === 0) return 0;
+      const m0 = this.mdd(node, 0);
+      const m1 = this.mdd(node, 1);
+      if (m0 === null || m1 === null) return 0;
+      return haveConflictFreePair(m0, m1, this.model.stateCell) ? 0 : 1;
+    }
+    if (!this.sw.wdg) return 0;
+    const L = this.L;
+    const seen = new Set<number>();
+    const edges: WeightedEdge[] = [];
+    for (const c of node.conflicts) {
+      const i = Math.min(this.localOf[c.a1], this.localOf[c.a2]);
+      const j = Math.max(this.localOf[c.a1], this.localOf[c.a2]);
+      const key = i * L + j;
+      if (seen.has(key)) continue;
+      seen.add(key);
+      const w = this.pairWeight(node, i, j);
+      if (w === INFEASIBLE) return INFEASIBLE;
+      if (w > 0) edges.push({ u: i, v: j, w });
+    }
+    return minWeightedVertexCover(L, edges);
+  }
+
+  /** Extra cost the pair (i, j) needs beyond their individual costs: exact, or a lower bound if the sub-search is cut. */
+  private pairWeight(node: CtNode, i: number, j: number): number {
+    const L = this.L;
+    const ki = node.mddOwner[i] * L + i;
+    const kj = node.mddOwner[j] * L + j;
+    let inner = this.weights.get(ki);
+    const memo = inner?.get(kj);
+    if (memo !== undefined) return memo;
+    const mi = this.mdd(node, i);
+    const mj = this.mdd(node, j);
+    let w: number;
+    if (mi === null || mj === null) {
+      w = 0;
+    } else if (haveConflictFreePair(mi, mj, this.model.stateCell)) {
+      w = 0;
+    } else {
+      const ci = node.paths[i].length - 1;
+      const cj = node.paths[j].length - 1;
+      const sub = new CbsEngine({
+        model: this.model,
+        agents: [this.cfg.agents[i], this.cfg.agents[j]],
+        baseConstraints: [this.collect(node.owner[i], i), this.collect(node.owner[j], j)],
+        initialPaths: [node.paths[i], node.paths[j]],
+        switches: { ...this.sw, wdg: false },
+        budget: this.cfg.budget,
+        planner: this.cfg.planner,
+        cat: this.cfg.cat,
+        degree: this.cfg.degree,
+        nodeLimit: 1 << 30,
+        expandLimit: SUB_EXPAND_LIMIT,
+        isLimitFatal: false,
+        memoryLimitBytes: Number.POSITIVE_INFINITY,
+        isSub: true,
+      }).run();
+      if (sub.kind === 'solved') w = sub.soc - ci - cj;
+      else if (sub.kind === 'infeasible') w = INFEASIBLE;
+      else w = Math.max(1, sub.lowerBound - ci - cj);
+    }
+    if (inner === undefined) {
+      if (this.weights.size > 50000) this.weights.clear();
+      inner = new Map();
+      this.weights.set(ki, inner);
+    }
+    inner.set(kj, w);
+    this.bytes += 24;
+    return w;
+  }
+}
+
