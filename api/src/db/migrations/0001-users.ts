@@ -2,6 +2,7 @@
 import { DataTypes, literal } from 'sequelize';
 import type { Migration } from '../migration';
 
+/** Creates the users table, its identity and role indexes. */
 export const up: Migration = async ({ context: qi }) => {
   await qi.createTable('users', {
     id: { type: DataTypes.INTEGER, autoIncrement: true, primaryKey: true },
@@ -22,6 +23,7 @@ export const up: Migration = async ({ context: qi }) => {
   await qi.addIndex('users', ['role'], { name: 'users_role' });
 };
 
+/** Drops the users table and its enum type. */
 export const down: Migration = async ({ context: qi }) => {
   await qi.dropTable('users');
   await qi.sequelize.query('DROP TYPE IF EXISTS "enum_users_role"');
