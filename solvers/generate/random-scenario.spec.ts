@@ -67,6 +67,12 @@ describe('generateScenario', () => {
     }
   });
 
+  it('stops with an AbortError when its signal is aborted', () => {
+    const controller = new AbortController();
+    controller.abort();
+    expect(() => generateScenario(rooms, { seed: 1, signal: controller.signal })).toThrow(expect.objectContaining({ name: 'AbortError' }));
+  });
+
   it('returns what it could when the map has few cells', () => {
     const tiny = generateMap({ kind: 'empty', width: 3, height: 1 }).map;
     const { rows } = generateScenario(tiny, { seed: 1, mode: 'random', count: 10 });

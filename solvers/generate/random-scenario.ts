@@ -28,6 +28,8 @@ export interface ScenarioOptions {
   readonly count?: number;
   /** At most this many start cells are tried (one octile search each; default 2000). */
   readonly maxSearches?: number;
+  /** Checked before each search; when aborted, generation stops with an AbortError (an AbortSignal fits). */
+  readonly signal?: { readonly aborted: boolean };
 }
 
 /** A generated scenario: its rows and its exact file text. */
@@ -74,6 +76,7 @@ export function generateScenario(map: GridMap, options: ScenarioOptions): Genera
   const byBucket = new Map<number, ScenarioRowData[]>();
   const tries = Math.min(maxSearches, starts.length);
   for (let t = 0; t < tries; t++) {
+    if (options.signal?.aborted) throw Object.assign(new Error('scenario generation was aborted'), { name: 'AbortError' });
     const start = starts[t];
     const dist = search.distancesFrom(start);
     const isGoal = (c: number): boolean => c !== start && usedGoal[c] === 0 && dist[c] < Infinity;

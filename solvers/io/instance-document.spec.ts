@@ -1,6 +1,8 @@
+import { INSTANCE_BLOCKED_CHARS, INSTANCE_PASSABLE_CHARS } from '@shared/instance-format';
 import { instanceFromScenario } from './instance-from-scenario';
 import { instanceToDocument, parseInstanceDocument, writeInstanceDocument } from './instance-document';
 import { scanJson } from './json-scan';
+import { BLOCKED_CHARS, PASSABLE_CHARS } from './map-terrain';
 import { parseMap } from './parse-map';
 import { parseScenario } from './parse-scenario';
 
@@ -97,5 +99,13 @@ describe('scanJson', () => {
     const scan = scanJson('{"__proto__": {"polluted": 1}}');
     expect(scan.ok && Object.keys(scan.value as object)).toEqual(['__proto__']);
     expect(({} as Record<string, unknown>).polluted).toBeUndefined();
+  });
+});
+
+describe('terrain characters', () => {
+  it('are the same in the text reader and in the JSON format', () => {
+    // shared/ may not import solvers/, so the two lists are kept equal by this test.
+    expect(PASSABLE_CHARS.join('')).toBe(INSTANCE_PASSABLE_CHARS);
+    expect(BLOCKED_CHARS.join('')).toBe(INSTANCE_BLOCKED_CHARS);
   });
 });
