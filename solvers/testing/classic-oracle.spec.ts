@@ -3,6 +3,7 @@ import { createRng } from '../random';
 import { validateClassicPlan } from '../validate/classic';
 import { OracleLimitError } from './best-first';
 import { classicOracle } from './classic-oracle';
+import { satMinimumSoc } from './classic-sat-reference';
 import { tinyInstance } from './tiny-instance';
 import type { MapfInstance } from '../instance';
 
@@ -118,5 +119,35 @@ describe('classicOracle against outside references', () => {
       }, 0);
       expect(soc).toBeGreaterThanOrEqual(lb);
     }
+  });
+});
+
+describe('classicOracle against a SAT encoding (logic-solver)', () => {
+  it('matches the SAT minimum on random 2–3 agent instances on 3×3 and 4×3 maps', () => {
+    // Source: npm logic-solver 2.0.1 (MiniSat); encoding in classic-sat-reference.ts. The
+    // horizon is the oracle plan's makespan + 2, so a cheaper plan of slightly greater
+    // makespan would also be found, and the SAT minimum can never undercut the true optimum.
+    const rng = createRng(515);
+    let compared = 0;
+    for (let trial = 0; trial < 5; trial++) {
+      const w = 3 + rng.int(2);
+      const rows = Array.from({ length: 3 }, () => Array.from({ length: w }, () => (rng.next() < 0.15 ? '#' : '.')).join(''));
+      const free = rows.flatMap((r, y) => [...r].map((ch, x) => (ch === '.' ? ([x, y] as const) : null))).filter((c) => c !== null);
+      const n = 2 + rng.int(2);
+      if (free.length < n + 1) continue;
+      const s = [...free];
+      const g = [...free];
+      const pick = (pool: (readonly [number, number])[]) => pool.splice(rng.int(pool.length), 1)[0];
+      const inst = tinyInstance(rows.join('\n'), Array.from({ length: n }, () => [pick(s), pick(g)] as const));
+      const out = classicOracle(inst);
+      if (out.kind === 'unsolvable') {
+        expect(satMinimumSoc(inst, 8)).toBeUndefined();
+        continue;
+      }
+      const makespan = Math.max(...out.plan.map((p) => p.length - 1));
+      expect(satMinimumSoc(inst, makespan + 2)).toBe(out.soc);
+      compared++;
+    }
+    expect(compared).toBeGreaterThanOrEqual(3);
   });
 });
