@@ -13,6 +13,10 @@ export const ERROR_CODES = [
   'PAYLOAD_TOO_LARGE',
   'CONFLICT',
   'LAST_ADMIN',
+  'INSTANCE_SET_NOT_FOUND',
+  'MAP_NOT_FOUND',
+  'SCENARIO_NOT_FOUND',
+  'INVALID_INSTANCE_FILES',
   'INTERNAL',
 ] as const;
 export type ErrorCode = (typeof ERROR_CODES)[number] | (string & {});

@@ -2,6 +2,7 @@
 import { Router } from 'express';
 import type { AppContext } from './app-context';
 import { healthRouter } from './health/health.router';
+import { instanceLibraryRouter } from './instance-sets/instance-library.router';
 import { statsRouter } from './stats/stats.router';
 import { adminUsersRouter } from './users/admin-users.router';
 import { meRouter } from './users/me.router';
@@ -13,5 +14,6 @@ export function apiRouter(ctx: AppContext): Router {
   r.use('/me', meRouter(ctx.users));
   r.use('/admin/users', adminUsersRouter(ctx.users));
   r.use('/stats', statsRouter(ctx.stats));
+  r.use(instanceLibraryRouter(ctx));
   return r;
 }

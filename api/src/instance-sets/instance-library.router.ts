@@ -1,0 +1,22 @@
+/**
+ * The instance library's routes in one router, mounted once in api-router.ts:
+ * /instance-sets, /maps and /scenarios. Also registers the library's home-page counters.
+ */
+import { Router } from 'express';
+import type { AppContext } from '../app-context';
+import { createInstanceSetsService } from './instance-sets.service';
+import { instanceSetsRouter } from './instance-sets.router';
+import { mapsRouter, scenariosRouter } from './library-files.router';
+
+/** Builds the service from the app context and mounts its routes. */
+export function instanceLibraryRouter(ctx: AppContext): Router {
+  const svc = createInstanceSetsService({ sequelize: ctx.sequelize, models: ctx.models });
+  ctx.stats.register('instanceSets', (viewer) => svc.count(viewer, 'instanceSets'));
+  ctx.stats.register('maps', (viewer) => svc.count(viewer, 'maps'));
+  ctx.stats.register('scenarios', (viewer) => svc.count(viewer, 'scenarios'));
+  const r = Router();
+  r.use('/instance-sets', instanceSetsRouter(svc));
+  r.use('/maps', mapsRouter(svc));
+  r.use('/scenarios', scenariosRouter(svc));
+  return r;
+}

@@ -1,0 +1,57 @@
+/** Routes under /api/instance-sets: list, create, read, delete, upload files, generate. */
+import { Router } from 'express';
+import { z } from 'zod';
+import { requireRole, requireUser } from '../auth/require-role';
+import { validate } from '../errors/validate';
+import type { InstanceSetsService } from './instance-sets.service';
+import { uploadFiles } from './upload-middleware';
+
+/** An id path parameter (a positive 32-bit integer). */
+export const IdParam = z.object({ id: z.coerce.number().int().positive().max(2_147_483_647) });
+
+/** Instance set routes over the service. */
+export function instanceSetsRouter(svc: InstanceSetsService): Router {
+  const r = Router();
+
+  r.get('/', async (req, res) => {
+    res.json(await svc.list(req.user ?? null, req.query));
+  });
+
+  r.post('/', requireRole('researcher'), async (req, res) => {
+    res.status(201).json(await svc.create(requireUser(req), req.body));
+  });
+
+  r.post('/generate', requireRole('researcher'), async (req, res) => {
+    res.status(201).json(await svc.generate(req.user ?? null, req.body));
+  });
+
+  r.get('/:id', async (req, res) => {
+    const { id } = validate(IdParam, req.params);
+    res.json(await svc.get(req.user ?? null, id));
+  });
+
+  r.delete('/:id', requireRole('researcher'), async (req, res) => {
+    const { id } = validate(IdParam, req.params);
+    await svc.remove(req.user ?? null, id);
+    res.status(204).end();
+  });
+
+  r.post(
+    '/:id/files',
+    requireRole('researcher'),
+    // Rights first, so a refused request is answered before its body is read into memory.
+    async (req, _res, next) => {
+      const { id } = validate(IdParam, req.params);
+      await svc.assertCanManage(req.user ?? null, id);
+      next();
+    },
+    ...uploadFiles(),
+    async (req, res) => {
+      const { id } = validate(IdParam, req.params);
+      const files = (req.files as Express.Multer.File[] | undefined) ?? [];
+      res.status(201).json(await svc.upload(req.user ?? null, id, files));
+    },
+  );
+
+  return r;
+}
