@@ -30,6 +30,11 @@ describe('the JSON instance document', () => {
     expect(back.value.instance).toEqual(instance);
   });
 
+  it('leaves out optional fields that are undefined', () => {
+    const doc = { ...instanceToDocument(map, instance), map: { ...instanceToDocument(map, instance).map, name: undefined } };
+    expect(JSON.parse(writeInstanceDocument(doc)).map).not.toHaveProperty('name');
+  });
+
   it('carries a scenario instance over unchanged', () => {
     const scen = parseScenario('version 1\n0\tyard.map\t4\t3\t0\t0\t3\t2\t3.82842712\n0\tyard.map\t4\t3\t0\t2\t2\t2\t2\n', { map });
     if (!scen.ok) throw new Error(JSON.stringify(scen.errors));

@@ -75,7 +75,7 @@ export function instanceToDocument(map: GridMap, instance: MapfInstance, name?: 
 export function writeInstanceDocument(doc: InstanceDocument): string {
   const j = JSON.stringify;
   const mapFields = Object.entries(doc.map)
-    .filter(([key]) => key !== 'rows')
+    .filter(([key, value]) => key !== 'rows' && value !== undefined)
     .map(([key, value]) => `    ${j(key)}: ${j(value)},`);
   const agents = doc.agents.map((a) => {
     const parts = [`"start": [${a.start[0]}, ${a.start[1]}]`, `"goal": [${a.goal[0]}, ${a.goal[1]}]`];
