@@ -1,0 +1,216 @@
+/**
+ * The sweep contract: what a maintainer asks for (a zod schema the web form builds and the API
+ * validates), how it expands into runs, and the size rule both sides apply before launch.
+ * The same `sweepSize` runs in the browser (live count under the form) and on the server
+ * (refusal of absurd sizes), so the two can never disagree.
+ */
+import { z } from 'zod';
+import { HEADINGS, PLAN_MODELS, type PlanModel } from './plan';
+
+/** Execution policies a sweep may replay plans under (same names as solvers/execute). */
+export const SWEEP_POLICIES = ['open-loop', 'lockstep', 'dependency-gated'] as const;
+export type SweepPolicy = (typeof SWEEP_POLICIES)[number];
+
+/** Names of the CBS switches a sweep can turn off for ablations (same names as solvers/search/cbs-types). */
+export const CBS_SWITCH_NAMES = [
+  'prioritizeConflicts', 'bypass', 'wdg', 'disjointSplitting', 'targetReasoning', 'corridorReasoning', 'rectangleReasoning',
+] as const;
+export type CbsSwitchName = (typeof CBS_SWITCH_NAMES)[number];
+
+/** Limits on one sweep, checked by `checkSweepSize` on both sides. */
+export const SWEEP_LIMITS = {
+  /** Runs (solves) one sweep may expand to. */
+  maxRuns: 5000,
+  /** Simulated fleet runs in all: runs × policies × Monte Carlo runs. */
+  maxSimulations: 2_000_000,
+  maxAgents: 1000,
+  maxAgentCounts: 200,
+  maxSeeds: 100,
+  maxMonteCarloRuns: 1000,
+  /** Per-run time limit bounds, ms. */
+  minTimeLimitMs: 100,
+  maxTimeLimitMs: 3_600_000,
+  /** Per-run memory limit bounds, MB (the pool's per-thread heap limit). */
+  minMemoryLimitMb: 64,
+  maxMemoryLimitMb: 16_384,
+} as const;
+
+const whole = (min: number, max: number) => z.number().int().min(min).max(max);
+
+/** A start heading rule: one heading for every agent the instance leaves open, or `free`. */
+export const StartHeadingSchema = z.enum([...HEADINGS, 'free']);
+
+/** CBS switches to override (absent = on). */
+export const CbsSwitchesSchema = z.object(
+  Object.fromEntries(CBS_SWITCH_NAMES.map((n) => [n, z.boolean().optional()])) as Record<CbsSwitchName, z.ZodOptional<z.ZodBoolean>>,
+).strict();
+
+const unitStepBase = { startHeading: StartHeadingSchema.default('free'), switches: CbsSwitchesSchema.default({}) };
+
+/** One plan model with its parameters. */
+export const ModelSpecSchema = z.discriminatedUnion('model', [
+  z.object({ model: z.literal('classic'), ...unitStepBase }).strict(),
+  z.object({ model: z.literal('uniform-duration'), ...unitStepBase }).strict(),
+  z.object({ model: z.literal('orientation-split'), ...unitStepBase }).strict(),
+  z.object({ model: z.literal('weighted-split'), startHeading: StartHeadingSchema.default('free') }).strict(),
+  z.object({ model: z.literal('k-robust'), k: whole(0, 20), ...unitStepBase }).strict(),
+]);
+export type ModelSpec = z.output<typeof ModelSpecSchema>;
+
+/** The robot profile of a sweep (times in ms, lengths in mm; see shared/plan.ts RobotProfile). */
+export const RobotProfileSchema = z.object({
+  forwardMs: whole(1, 600_000),
+  quarterTurnMs: whole(1, 600_000),
+  waitMs: whole(1, 600_000),
+  cellPitchMm: z.number().positive().max(100_000),
+  robotDiameterMm: z.number().positive().max(100_000),
+  timingJitter: z.number().min(0).max(2),
+}).strict();
+
+/** Agent counts: an explicit list, or a range from..to by step (both ends included when reached). */
+export const AgentCountsSchema = z.discriminatedUnion('kind', [
+  z.object({ kind: z.literal('list'), values: z.array(whole(1, SWEEP_LIMITS.maxAgents)).min(1).max(SWEEP_LIMITS.maxAgentCounts) }).strict(),
+  z.object({ kind: z.literal('range'), from: whole(1, SWEEP_LIMITS.maxAgents), to: whole(1, SWEEP_LIMITS.maxAgents), step: whole(1, SWEEP_LIMITS.maxAgents) }).strict()
+    .refine((r) => r.to >= r.from, { message: 'the range must not end before it starts', path: ['to'] }),
+]);
+
+/** Which instances: an instance set, optionally narrowed to some of its scenarios. */
+export const SweepInstancesSchema = z.object({
+  instanceSetId: z.number().int().positive(),
+  /** Scenario ids of that set; absent or empty = every scenario of the set. */
+  scenarioIds: z.array(z.number().int().positive()).max(SWEEP_LIMITS.maxRuns).optional(),
+}).strict();
+
+/** Execution replay settings: policies, timing noise and Monte Carlo runs per policy. */
+export const SweepExecutionSchema = z.object({
+  policies: z.array(z.enum(SWEEP_POLICIES)).max(3).default([]),
+  /** Coefficient of variation of action durations; absent = the profile's timing jitter. */
+  jitterCv: z.number().min(0).max(2).optional(),
+  stallProbability: z.number().min(0).max(1).default(0),
+  stallMs: whole(0, 600_000).default(0),
+  runs: whole(1, SWEEP_LIMITS.maxMonteCarloRuns).default(20),
+}).strict();
+
+/** POST /api/sweeps: the definition of a sweep. */
+export const SweepDefinitionSchema = z.object({
+  name: z.string().trim().min(1, 'a name is required').max(120),
+  instances: SweepInstancesSchema,
+  agentCounts: AgentCountsSchema,
+  models: z.array(ModelSpecSchema).min(1, 'choose at least one plan model').max(20),
+  robotProfile: RobotProfileSchema,
+  timeLimitMs: whole(SWEEP_LIMITS.minTimeLimitMs, SWEEP_LIMITS.maxTimeLimitMs),
+  memoryLimitMb: whole(SWEEP_LIMITS.minMemoryLimitMb, SWEEP_LIMITS.maxMemoryLimitMb),
+  execution: SweepExecutionSchema.default({ policies: [], stallProbability: 0, stallMs: 0, runs: 20 }),
+  seeds: z.array(z.number().int().min(0).max(0xffffffff)).min(1).max(SWEEP_LIMITS.maxSeeds).default([1]),
+}).strict();
+/** A validated sweep definition (defaults filled in). */
+export type SweepDefinition = z.output<typeof SweepDefinitionSchema>;
+/** A sweep definition as a client may send it (defaults optional). */
+export type SweepDefinitionInput = z.input<typeof SweepDefinitionSchema>;
+
+/** The distinct agent counts of a definition, ascending. */
+export function agentCountsOf(counts: SweepDefinition['agentCounts']): number[] {
+  const values: number[] = [];
+  if (counts.kind === 'list') values.push(...counts.values);
+  else for (let k = counts.from; k <= counts.to && values.length <= SWEEP_LIMITS.maxAgentCounts; k += counts.step) values.push(k);
+  return [...new Set(values)].sort((a, b) => a - b);
+}
+
+/** What expansion needs to know about a scenario. */
+export interface ScenarioCapacity {
+  readonly id: number;
+  /** Largest agent count the scenario can give. */
+  readonly maxAgents: number;
+}
+
+/** One run before it is stored: an instance (scenario + agent count), a model and a seed. */
+export interface RunSpec {
+  readonly scenarioId: number;
+  readonly agents: number;
+  /** Index into definition.models. */
+  readonly modelIndex: number;
+  readonly model: PlanModel;
+  readonly seed: number;
+}
+
+/** How big a sweep is. */
+export interface SweepSize {
+  /** Runs it expands to. */
+  readonly runs: number;
+  /** (scenario, agent count) pairs dropped because the scenario has fewer rows than agents. */
+  readonly skippedInstances: number;
+  /** Simulated fleet runs: runs × policies × Monte Carlo runs. */
+  readonly simulations: number;
+}
+
+/** The scenarios a definition picks from the given ones (all when it names none). */
+function chosenScenarios(def: SweepDefinition, scenarios: readonly ScenarioCapacity[]): ScenarioCapacity[] {
+  const ids = def.instances.scenarioIds;
+  if (!ids || ids.length === 0) return [...scenarios];
+  const wanted = new Set(ids);
+  return scenarios.filter((s) => wanted.has(s.id));
+}
+
+/** Counts the runs of `def` over `scenarios` without listing them. */
+export function sweepSize(def: SweepDefinition, scenarios: readonly ScenarioCapacity[]): SweepSize {
+  const counts = agentCountsOf(def.agentCounts);
+  let instances = 0;
+  let skipped = 0;
+  for (const s of chosenScenarios(def, scenarios)) {
+    for (const k of counts) {
+      if (k <= s.maxAgents) instances++;
+      else skipped++;
+    }
+  }
+  const runs = instances * def.models.length * def.seeds.length;
+  return { runs, skippedInstances: skipped, simulations: runs * def.execution.policies.length * def.execution.runs };
+}
+
+/** A sentence saying why the size is refused, or null when it is acceptable. */
+export function checkSweepSize(size: SweepSize): string | null {
+  if (size.runs === 0) return 'This sweep expands to no runs: no chosen scenario has enough rows for the agent counts.';
+  if (size.runs > SWEEP_LIMITS.maxRuns) {
+    return `This sweep expands to ${size.runs.toLocaleString('en')} runs; at most ${SWEEP_LIMITS.maxRuns.toLocaleString('en')} are allowed. Choose fewer scenarios, agent counts, models or seeds.`;
+  }
+  if (size.simulations > SWEEP_LIMITS.maxSimulations) {
+    return `This sweep asks for ${size.simulations.toLocaleString('en')} simulated fleet runs; at most ${SWEEP_LIMITS.maxSimulations.toLocaleString('en')} are allowed. Lower the Monte Carlo runs or the policies.`;
+  }
+  return null;
+}
+
+/** Lists every run of `def` over `scenarios` in a fixed order (scenario, agents, model, seed). */
+export function expandSweep(def: SweepDefinition, scenarios: readonly ScenarioCapacity[]): RunSpec[] {
+  const counts = agentCountsOf(def.agentCounts);
+  const runs: RunSpec[] = [];
+  for (const s of chosenScenarios(def, scenarios)) {
+    for (const agents of counts) {
+      if (agents > s.maxAgents) continue;
+      def.models.forEach((m, modelIndex) => {
+        for (const seed of def.seeds) runs.push({ scenarioId: s.id, agents, modelIndex, model: m.model, seed });
+      });
+    }
+  }
+  return runs;
+}
+
+/** Stable JSON: object keys sorted at every depth, so equal values always give equal text. */
+export function canonicalJson(value: unknown): string {
+  if (value === null || typeof value !== 'object') return JSON.stringify(value);
+  if (Array.isArray(value)) return `[${value.map(canonicalJson).join(',')}]`;
+  const entries = Object.entries(value as Record<string, unknown>).filter(([, v]) => v !== undefined).sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0));
+  return `{${entries.map(([k, v]) => `${JSON.stringify(k)}:${canonicalJson(v)}`).join(',')}}`;
+}
+
+/**
+ * The parameters that make two runs of one instance, model and seed the same run: the model's
+ * parameters, the robot profile and the limits. Hashed (see api/src/sweeps/parameter-hash.ts)
+ * into the run's identity.
+ */
+export function runParameters(def: SweepDefinition, modelIndex: number): Record<string, unknown> {
+  return { model: def.models[modelIndex], robotProfile: def.robotProfile, timeLimitMs: def.timeLimitMs, memoryLimitMb: def.memoryLimitMb };
+}
+
+/** Whether a model name is one of PLAN_MODELS. */
+export function isPlanModel(v: string): v is PlanModel {
+  return (PLAN_MODELS as readonly string[]).includes(v);
+}
