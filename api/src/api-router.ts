@@ -1,6 +1,7 @@
 /** Mounts every feature router under /api. A new feature adds one `r.use(...)` line here. */
 import { Router } from 'express';
 import type { AppContext } from './app-context';
+import { executionsFeature } from './executions/executions.feature';
 import { healthRouter } from './health/health.router';
 import { instanceLibraryRouter } from './instance-sets/instance-library.router';
 import { statsRouter } from './stats/stats.router';
@@ -15,5 +16,6 @@ export function apiRouter(ctx: AppContext): Router {
   r.use('/admin/users', adminUsersRouter(ctx.users));
   r.use('/stats', statsRouter(ctx.stats));
   r.use(instanceLibraryRouter(ctx));
+  r.use('/executions', executionsFeature(ctx));
   return r;
 }

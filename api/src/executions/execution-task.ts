@@ -1,0 +1,60 @@
+/**
+ * What one execution request hands the compute side and what it answers: plain JSON-safe data,
+ * the shape a worker-pool task needs (today the inline runner executes it; see
+ * inline-execution-runner.ts). Cells inside a task are `y * width + x`.
+ */
+import type { CollisionModeName, ExecutionErrorCode, ExecutionPolicyName } from '@shared/executions-constants';
+import type {
+  ExecutionInstanceView, ExecutionPlanView, ExecutionSource, ExecutionSummaryView, PlanFigures,
+} from '@shared/executions';
+import type { CellXY, Heading, PlanModel, RobotProfile, Schedule } from '@shared/plan';
+
+/** A MAPF instance in transferable form: '1' free / '0' blocked per cell, row by row. */
+export interface ExecutionTaskInstance {
+  readonly width: number;
+  readonly height: number;
+  readonly cells: string;
+  readonly agents: readonly { readonly start: number; readonly goal: number; readonly startHeading?: Heading }[];
+}
+
+/** A plan sent by the client, cells still as [x, y]. */
+export type ExecutionTaskPlan =
+  | { readonly kind: 'paths'; readonly paths: readonly (readonly CellXY[])[] }
+  | { readonly kind: 'schedule'; readonly schedule: Schedule };
+
+/** One simulation request: the instance, the model, the plan (or none: solve) and the batch settings. */
+export interface ExecutionTask {
+  readonly instance: ExecutionTaskInstance;
+  readonly model: PlanModel;
+  readonly modelOptions: { readonly startHeading: Heading | 'free'; readonly k?: number };
+  readonly profile: RobotProfile;
+  readonly plan?: ExecutionTaskPlan;
+  readonly simulation: {
+    readonly policy: ExecutionPolicyName;
+    readonly noise: { readonly jitterCv?: number; readonly stallProbability: number; readonly stallMs: number };
+    readonly seed: number;
+    readonly runs: number;
+    readonly onCollision: CollisionModeName;
+  };
+  /** Time limit of a solve, ms. */
+  readonly solveTimeLimitMs: number;
+}
+
+/** What a task answers: the plan that ran with its figures and the summary, or a refusal the API turns into an error. */
+export type ExecutionTaskOutcome =
+  | { readonly kind: 'done'; readonly plan: ExecutionPlanView; readonly figures: PlanFigures; readonly summary: ExecutionSummaryView }
+  | { readonly kind: 'refused'; readonly status: number; readonly code: ExecutionErrorCode; readonly message: string };
+
+/** The `plan` column of plan_executions: everything the viewer draws besides the summary. */
+export interface StoredPlan {
+  readonly source: ExecutionSource;
+  readonly instance: ExecutionInstanceView;
+  readonly model: PlanModel;
+  readonly modelOptions: { readonly startHeading: Heading | 'free'; readonly k?: number };
+  readonly profile: RobotProfile;
+  readonly plan: ExecutionPlanView;
+  readonly figures: PlanFigures;
+}
+
+/** Runs one task (the inline runner today; a worker pool's `run` later). */
+export type ExecutionTaskRunner = (task: ExecutionTask) => Promise<ExecutionTaskOutcome>;

@@ -1,0 +1,208 @@
+/**
+ * The executions contract: POST /api/executions (simulate a plan on the robot fleet, solving
+ * it first when no plan is sent) and GET /api/executions/:id. Request bodies are zod schemas;
+ * responses are plain interfaces the plan viewer draws from. Cells are [x, y] at this boundary.
+ * Web code imports only types from here (the schemas would pull zod into the bundle); zod-free
+ * constants live in shared/executions-constants.ts.
+ */
+import { z } from 'zod';
+import { COLLISION_MODES, EXECUTION_LIMITS, EXECUTION_POLICY_NAMES, type CollisionModeName, type ExecutionPolicyName } from './executions-constants';
+import { ACTION_KINDS, HEADINGS, PLAN_MODELS, type CellXY, type Heading, type PlanModel, type RobotProfile, type Schedule } from './plan';
+
+const whole = (min: number, max: number) => z.number().int().min(min).max(max);
+const Cell = z.tuple([whole(0, 100_000), whole(0, 100_000)]);
+
+/** Timing noise of a batch; jitterCv absent = the profile's timing jitter. */
+export const ExecutionNoiseSchema = z.object({
+  jitterCv: z.number().min(0).max(2).optional(),
+  stallProbability: z.number().min(0).max(1).default(0),
+  stallMs: whole(0, 600_000).default(0),
+}).strict();
+
+/** What every request says about the simulation itself. */
+const simulationFields = {
+  policy: z.enum(EXECUTION_POLICY_NAMES),
+  noise: ExecutionNoiseSchema.default({ stallProbability: 0, stallMs: 0 }),
+  seed: whole(0, 0xffffffff).default(1),
+  runs: whole(1, EXECUTION_LIMITS.maxRuns).default(20),
+  onCollision: z.enum(COLLISION_MODES).default('count'),
+};
+
+/** Robot profile (ms, mm); the same bounds as a sweep's profile. */
+export const ExecutionProfileSchema = z.object({
+  forwardMs: whole(1, 600_000),
+  quarterTurnMs: whole(1, 600_000),
+  waitMs: whole(1, 600_000),
+  cellPitchMm: z.number().positive().max(100_000),
+  robotDiameterMm: z.number().positive().max(100_000),
+  timingJitter: z.number().min(0).max(2),
+}).strict();
+
+/** Model parameters: the start heading rule (default free) and k for k-robust. */
+export const ModelOptionsSchema = z.object({
+  startHeading: z.enum([...HEADINGS, 'free']).default('free'),
+  k: whole(0, 20).optional(),
+}).strict();
+
+/** Which instance: a stored scenario's first `agents` rows, or a stored map with tasks given here. */
+export const ExecutionInstanceSchema = z.union([
+  z.object({ scenarioId: z.number().int().positive(), agents: whole(1, EXECUTION_LIMITS.maxAgents) }).strict(),
+  z.object({
+    mapId: z.number().int().positive(),
+    agents: z.array(z.object({ start: Cell, goal: Cell, startHeading: z.enum(HEADINGS).optional() }).strict())
+      .min(1).max(EXECUTION_LIMITS.maxAgents),
+  }).strict(),
+]);
+
+/** One timed action as JSON. */
+export const ScheduledActionSchema = z.object({
+  action: z.enum(ACTION_KINDS),
+  from: Cell,
+  to: Cell,
+  heading: z.enum(HEADINGS),
+  start: z.number().min(0),
+  end: z.number().min(0),
+  step: whole(0, 100_000_000),
+}).strict();
+
+/** A plan sent in the body: unit-step paths of cells (classic, uniform-duration, k-robust) or a timed schedule (any model). */
+export const PlanInputSchema = z.discriminatedUnion('kind', [
+  z.object({ kind: z.literal('paths'), paths: z.array(z.array(Cell).min(1)).min(1).max(EXECUTION_LIMITS.maxAgents) }).strict(),
+  z.object({ kind: z.literal('schedule'), schedule: z.array(z.array(ScheduledActionSchema)).min(1).max(EXECUTION_LIMITS.maxAgents) }).strict(),
+]);
+
+/** POST /api/executions for a stored sweep result. */
+export const ResultExecutionRequestSchema = z.object({ resultId: z.number().int().positive(), ...simulationFields }).strict();
+
+/** POST /api/executions for an instance, with a plan or to be solved by the server. */
+export const InstanceExecutionRequestSchema = z.object({
+  instance: ExecutionInstanceSchema,
+  model: z.enum(PLAN_MODELS),
+  modelOptions: ModelOptionsSchema.default({ startHeading: 'free' }),
+  profile: ExecutionProfileSchema,
+  plan: PlanInputSchema.optional(),
+  ...simulationFields,
+}).strict();
+
+/** Either request form. */
+export type CreateExecutionRequest = z.output<typeof ResultExecutionRequestSchema> | z.output<typeof InstanceExecutionRequestSchema>;
+/** The instance form as a client may send it (defaults optional). */
+export type InstanceExecutionInput = z.input<typeof InstanceExecutionRequestSchema>;
+/** The instance form after validation. */
+export type InstanceExecutionRequest = z.output<typeof InstanceExecutionRequestSchema>;
+
+/**
+ * Parses a POST /api/executions body. The form is picked by the presence of `resultId`, so a
+ * bad field is reported by its own path (a zod union would report only "no form matched").
+ * Throws the ZodError of the chosen form.
+ */
+export function parseCreateExecution(body: unknown): CreateExecutionRequest {
+  const isResult = typeof body === 'object' && body !== null && 'resultId' in body;
+  return isResult ? ResultExecutionRequestSchema.parse(body) : InstanceExecutionRequestSchema.parse(body);
+}
+
+/** The instance as the viewer draws it: rows of '.' (free) and '@' (blocked), tasks as [x, y]. */
+export interface ExecutionInstanceView {
+  readonly width: number;
+  readonly height: number;
+  readonly rows: readonly string[];
+  readonly agents: readonly { readonly start: CellXY; readonly goal: CellXY; readonly startHeading?: Heading }[];
+}
+
+/** Where the instance came from. */
+export interface ExecutionSource {
+  readonly instanceSetId: number;
+  readonly mapId: number;
+  readonly mapName: string;
+  /** Absent when the tasks were sent with a map. */
+  readonly scenarioId?: number;
+  readonly scenarioName?: string;
+}
+
+/** The plan the fleet ran. `timeline`: what `step` counts (abstract steps, or ms for weighted-split). */
+export interface ExecutionPlanView {
+  /** `solved`: by the server for this request; `given`: sent in the body. */
+  readonly origin: 'solved' | 'given';
+  readonly timeline: 'steps' | 'ms';
+  readonly schedule: Schedule;
+}
+
+/** Figures of the plan itself, always with the model and profile that produced them. */
+export interface PlanFigures {
+  /** Sum-of-costs and makespan in the model's own unit (`unit`). */
+  readonly soc: number | null;
+  readonly makespan: number | null;
+  readonly unit: 'steps' | 'ms';
+  readonly turnInclusiveSocMs: number;
+  readonly turnInclusiveMakespanMs: number;
+  /** Proven lower bound on the optimal sum-of-costs (solved plans), model's unit. */
+  readonly lowerBound: number | null;
+  /** Solve time, ms (solved plans). */
+  readonly solveTimeMs: number | null;
+  /** Whether the plan passed its model's independent validator; null when no validator applies. */
+  readonly isValid: boolean | null;
+  /** The validator's first violation, or why none applies. */
+  readonly validation: string;
+}
+
+/** One collision as JSON (`untilMs` null when the robots never separate). */
+export interface CollisionView {
+  readonly robots: readonly [number, number];
+  readonly timeMs: number;
+  readonly untilMs: number | null;
+  readonly at: readonly [number, number];
+  readonly cell: CellXY;
+}
+
+/** Metrics of one simulated run. */
+export interface RunMetricsView {
+  readonly run: number;
+  readonly isSuccess: boolean;
+  readonly isDeadlocked: boolean;
+  readonly collisions: readonly CollisionView[];
+  readonly realisedMakespanMs: number | null;
+  readonly realisedSocMs: number | null;
+  readonly waitingMs: number;
+  readonly finishSpreadMs: number | null;
+}
+
+/** Mean and nearest-rank p95 of a metric over the runs where it is defined. */
+export interface MetricStatsView {
+  readonly mean: number | null;
+  readonly p95: number | null;
+}
+
+/** The Monte Carlo summary of one request. */
+export interface ExecutionSummaryView {
+  readonly policy: ExecutionPolicyName;
+  readonly noise: { readonly jitterCv: number; readonly stallProbability: number; readonly stallMs: number };
+  readonly onCollision: CollisionModeName;
+  readonly seed: number;
+  readonly runs: number;
+  readonly isAborted: boolean;
+  readonly successRate: number;
+  readonly collisions: { readonly mean: number; readonly p95: number; readonly total: number };
+  readonly realisedMakespanMs: MetricStatsView;
+  readonly realisedSocMs: MetricStatsView;
+  readonly finishSpreadMs: MetricStatsView;
+  readonly waitingMs: MetricStatsView;
+  readonly firstCollision: (CollisionView & { readonly run: number }) | null;
+  readonly perRun: readonly RunMetricsView[];
+}
+
+/** 201 of POST /api/executions and 200 of GET /api/executions/:id. */
+export interface ExecutionView {
+  readonly id: number;
+  readonly createdAt: string;
+  readonly owner: { readonly id: number; readonly login: string };
+  readonly source: ExecutionSource;
+  readonly instance: ExecutionInstanceView;
+  readonly model: PlanModel;
+  readonly modelOptions: { readonly startHeading: Heading | 'free'; readonly k?: number };
+  readonly profile: RobotProfile;
+  readonly plan: ExecutionPlanView;
+  readonly figures: PlanFigures;
+  readonly summary: ExecutionSummaryView;
+  /** The safety sentence (shared/executions-constants.ts SAFETY_NOTE). */
+  readonly safetyNote: string;
+}

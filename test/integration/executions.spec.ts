@@ -1,0 +1,249 @@
+/**
+ * POST/GET /api/executions against a real PostgreSQL and the full app: solving and simulating a
+ * stored scenario, plans sent in the body (a colliding one reports its collisions), policies and
+ * noise changing the outcome, roles, visibility and every refusal naming its field.
+ */
+import PF from 'pathfinding';
+import type { ExecutionView, InstanceExecutionInput } from '@shared/executions';
+import { EXECUTION_LIMITS, SAFETY_NOTE } from '@shared/executions-constants';
+import type { UploadResponse } from '@shared/instance-sets';
+import { DEMO_IDENTITIES } from '../../api/src/dev/fake-oauth/demo-identities';
+import {
+  createSet, json, setRole, signInAs, startLibraryServer, upload, visitorClient,
+  type LibraryServer, type SignedInClient,
+} from './instance-library-support';
+import { RELAY_MAP, RELAY_MAP_NAME, RELAY_PROFILE, RELAY_SCENARIO, RELAY_SCENARIO_NAME, RELAY_TASKS } from './execution-fixtures';
+
+const [researcherId, otherId] = DEMO_IDENTITIES;
+
+describe('executions API', () => {
+  let lib: LibraryServer;
+  let url: string;
+  let owner: SignedInClient;
+  let mapId: number;
+  let scenarioId: number;
+  let padMapId: number;
+
+  beforeAll(async () => {
+    lib = await startLibraryServer();
+    url = lib.server.url;
+    owner = await signInAs(url, researcherId.login);
+    const setId = await createSet(owner, 'relay yard');
+    const res = await upload(url, owner, setId, [
+      { name: RELAY_MAP_NAME, bytes: Buffer.from(RELAY_MAP) },
+      { name: RELAY_SCENARIO_NAME, bytes: Buffer.from(RELAY_SCENARIO) },
+      { name: 'open-pad.map', bytes: Buffer.from(['type octile', 'height 8', 'width 8', 'map', ...Array(8).fill('........'), ''].join('\n')) },
+    ]);
+    expect(res.status).toBe(201);
+    const stored = res.body as UploadResponse;
+    mapId = stored.maps.find((m) => m.name === RELAY_MAP_NAME)!.id;
+    padMapId = stored.maps.find((m) => m.name === 'open-pad.map')!.id;
+    scenarioId = stored.scenarios[0].id;
+  }, 60_000);
+  afterAll(async () => {
+    await lib?.close();
+  });
+
+  const post = async (client: SignedInClient, body: unknown) => {
+    const res = await client.request('/api/executions', json('POST', body));
+    return { status: res.status, body: (await res.json()) as ExecutionView & { error?: { code: string; message: string } } };
+  };
+  const fromScenario = (over: Partial<InstanceExecutionInput> = {}): InstanceExecutionInput => ({
+    instance: { scenarioId, agents: RELAY_TASKS.length },
+    model: 'classic',
+    profile: RELAY_PROFILE,
+    policy: 'open-loop',
+    runs: 20,
+    seed: 7,
+    ...over,
+  });
+
+  describe('solving a stored scenario', () => {
+    let view: ExecutionView;
+
+    beforeAll(async () => {
+      const res = await post(owner, fromScenario());
+      expect(res.status).toBe(201);
+      view = res.body;
+    });
+
+    it('answers the instance, an optimal validated plan and its figures, with model and profile', () => {
+      expect(view.source).toMatchObject({ mapId, scenarioId, mapName: RELAY_MAP_NAME, scenarioName: RELAY_SCENARIO_NAME });
+      expect(view.instance.rows).toEqual(['............', '.@@@@@@@@@@.', '............']);
+      expect(view.instance.agents.map((a) => [a.start, a.goal])).toEqual(RELAY_TASKS.map((t) => [t.start, t.goal]));
+      expect(view.model).toBe('classic');
+      expect(view.profile).toEqual(RELAY_PROFILE);
+      expect(view.plan).toMatchObject({ origin: 'solved', timeline: 'steps' });
+      expect(view.figures).toMatchObject({ unit: 'steps', isValid: true });
+      // Outside check: the sum of single-robot shortest paths by the npm `pathfinding` library
+      // (BreadthFirstFinder, shortest on 4-connected grids per its README). Following is allowed in
+      // the classic model, so this lower bound is reached and is the optimal sum-of-costs.
+      const matrix = RELAY_MAP.split('\n').slice(4, 7).map((r) => [...r].map((ch) => (ch === '.' ? 0 : 1)));
+      const alone = RELAY_TASKS.map((t) => new PF.BreadthFirstFinder().findPath(t.start[0], t.start[1], t.goal[0], t.goal[1], new PF.Grid(12, 3, matrix)).length - 1);
+      expect(view.figures.soc).toBe(alone.reduce((s: number, c: number) => s + c, 0));
+      expect(view.figures.makespan).toBe(7);
+      // Free start heading: every robot faces east, so no turns; 7 forwards of 1000 ms each.
+      expect(view.figures.turnInclusiveMakespanMs).toBe(7000);
+      expect(view.safetyNote).toBe(SAFETY_NOTE);
+    });
+
+    it('simulates the requested batch: nose-to-tail following is safe at nominal times', () => {
+      expect(view.summary).toMatchObject({ policy: 'open-loop', runs: 20, seed: 7, successRate: 1, collisions: { total: 0 } });
+      expect(view.summary.noise).toEqual({ jitterCv: 0, stallProbability: 0, stallMs: 0 });
+      expect(view.summary.realisedMakespanMs).toEqual({ mean: 7000, p95: 7000 });
+      expect(view.summary.finishSpreadMs).toEqual({ mean: 0, p95: 0 });
+      expect(view.summary.perRun).toHaveLength(20);
+    });
+
+    it('stores it: GET answers the same execution to its owner', async () => {
+      const res = await owner.request(`/api/executions/${view.id}`);
+      expect(res.status).toBe(200);
+      const got = (await res.json()) as ExecutionView;
+      expect(got).toEqual(view);
+      const [row] = await lib.sql<{ owner_id: number; policy: string }>(
+        "SELECT owner_id, request->>'policy' AS policy FROM plan_executions WHERE id = :id", { id: view.id });
+      expect(row.policy).toBe('open-loop');
+    });
+
+    it('hides it from another researcher (404) but shows it to a maintainer', async () => {
+      const other = await signInAs(url, otherId.login);
+      expect((await other.request(`/api/executions/${view.id}`)).status).toBe(404);
+      await setRole(lib, otherId.login, 'maintainer');
+      expect((await other.request(`/api/executions/${view.id}`)).status).toBe(200);
+      await setRole(lib, otherId.login, 'researcher');
+    });
+  });
+
+  describe('policies and noise', () => {
+    const noisy = { jitterCv: 0.3 };
+
+    it('with timing jitter, open-loop followers catch up and collide', async () => {
+      const { status, body } = await post(owner, fromScenario({ noise: noisy }));
+      expect(status).toBe(201);
+      expect(body.summary.collisions.total).toBeGreaterThan(0);
+      expect(body.summary.successRate).toBeLessThan(1);
+      expect(body.summary.firstCollision).not.toBeNull();
+    });
+
+    it('dependency-gated execution of the same plan and noise has no collision, at the price of waiting', async () => {
+      const { status, body } = await post(owner, fromScenario({ noise: noisy, policy: 'dependency-gated' }));
+      expect(status).toBe(201);
+      expect(body.summary.collisions.total).toBe(0);
+      expect(body.summary.successRate).toBe(1);
+      expect(body.summary.waitingMs.mean).toBeGreaterThan(0);
+      // Each follower enters a cell only once its leader has left it completely, so the queue stretches.
+      expect(body.summary.realisedMakespanMs.mean).toBeGreaterThan(7000);
+    });
+
+    it('a fixed start heading adds the quarter turns to the turn-inclusive and realised makespan', async () => {
+      // Facing north, each robot turns right once (500 ms) before its 7 forwards: 7500 ms.
+      const { body } = await post(owner, fromScenario({ modelOptions: { startHeading: 'N' }, runs: 1 }));
+      expect(body.figures.turnInclusiveMakespanMs).toBe(7500);
+      expect(body.summary.realisedMakespanMs.mean).toBe(7500);
+      expect(body.plan.schedule[0].slice(0, 2).map((a) => a.action)).toEqual(['turn-right', 'forward']);
+    });
+  });
+
+  describe('plans sent in the body', () => {
+    it('a head-on plan fails the classic validator and its execution reports the collision', async () => {
+      // Robots 0 and 1 swap ends of the top lane through the same cell at t = 1.
+      const { status, body } = await post(owner, {
+        instance: { mapId, agents: [{ start: [0, 0], goal: [2, 0] }, { start: [2, 0], goal: [0, 0] }] },
+        model: 'classic',
+        profile: RELAY_PROFILE,
+        plan: { kind: 'paths', paths: [[[0, 0], [1, 0], [2, 0]], [[2, 0], [1, 0], [0, 0]]] },
+        policy: 'open-loop',
+        runs: 1,
+      });
+      expect(status).toBe(201);
+      expect(body.plan.origin).toBe('given');
+      expect(body.figures.isValid).toBe(false);
+      expect(body.figures.validation).toMatch(/\(1, 0\)|\[1, 0\]/);
+      expect(body.summary.successRate).toBe(0);
+      expect(body.summary.collisions.total).toBe(1);
+      // Disks of 700 mm approaching head-on at 1 m/s each from 2 m apart first touch when 0.7 m
+      // apart: after (2000 − 700) / 2 mm = 650 mm each, i.e. 650 ms (worked by hand).
+      expect(body.summary.firstCollision).toMatchObject({ robots: [0, 1], run: 0 });
+      expect(body.summary.firstCollision!.timeMs).toBeCloseTo(650, 6);
+    });
+
+    it('a hand-worked single robot: one quarter turn then two forwards', async () => {
+      const { status, body } = await post(owner, {
+        instance: { mapId, agents: [{ start: [0, 0], goal: [0, 2], startHeading: 'E' }] },
+        model: 'classic',
+        profile: RELAY_PROFILE,
+        plan: { kind: 'paths', paths: [[[0, 0], [0, 1], [0, 2]]] },
+        policy: 'open-loop',
+        runs: 1,
+      });
+      expect(status).toBe(201);
+      expect(body.plan.schedule[0].map((a) => [a.action, a.start, a.end])).toEqual([['turn-right', 0, 500], ['forward', 500, 1500], ['forward', 1500, 2500]]);
+      expect(body.figures).toMatchObject({ isValid: true, soc: 2, makespan: 2, turnInclusiveMakespanMs: 2500 });
+      expect(body.summary.realisedMakespanMs.mean).toBe(2500);
+    });
+
+    it('refuses a schedule that does not start where the robot stands, naming agent, action and field', async () => {
+      const { status, body } = await post(owner, {
+        instance: { mapId, agents: [{ start: [0, 0], goal: [1, 0] }] },
+        model: 'weighted-split',
+        profile: RELAY_PROFILE,
+        plan: { kind: 'schedule', schedule: [[{ action: 'forward', from: [5, 0], to: [1, 0], heading: 'E', start: 0, end: 1000, step: 0 }]] },
+        policy: 'open-loop',
+      });
+      expect(status).toBe(400);
+      expect(body.error?.code).toBe('PLAN_REJECTED');
+      expect(body.error?.message).toContain('agent 0, action 0, field "from"');
+    });
+  });
+
+  describe('refusals', () => {
+    it('refuses visitors with 401 on POST and GET', async () => {
+      const visitor = await visitorClient(url);
+      expect((await visitor.request('/api/executions', json('POST', fromScenario()))).status).toBe(401);
+      expect((await visitor.request('/api/executions/1')).status).toBe(401);
+    });
+
+    it.each([
+      ['policy', { policy: 'sideways' }],
+      ['profile.forwardMs', { profile: { ...RELAY_PROFILE, forwardMs: -5 } }],
+      ['noise.jitterCv', { noise: { jitterCv: 7 } }],
+      ['runs', { runs: 0 }],
+      ['instance.agents.0.start', { instance: { mapId: 0, agents: [] } }],
+    ])('answers 400 naming the field %s', async (field, over) => {
+      const body = { ...fromScenario(), ...over } as Record<string, unknown>;
+      if (field === 'instance.agents.0.start') body.instance = { mapId, agents: [{ start: [1, 1], goal: [0, 0] }] };
+      const res = await post(owner, body);
+      expect(res.status).toBe(400);
+      expect(res.body.error?.code).toBe('VALIDATION_FAILED');
+      expect(res.body.error?.message).toContain(`${field}:`);
+    });
+
+    it('answers 404 for a scenario that does not exist and for an unknown execution', async () => {
+      expect((await post(owner, fromScenario({ instance: { scenarioId: 999_999, agents: 1 } }))).body.error?.code).toBe('SCENARIO_NOT_FOUND');
+      const res = await owner.request('/api/executions/999999');
+      expect(res.status).toBe(404);
+      expect(((await res.json()) as { error: { code: string } }).error.code).toBe('EXECUTION_NOT_FOUND');
+    });
+
+    it('refuses to solve more agents than the inline limit, and says to send a plan', async () => {
+      const cell = (i: number): [number, number] => [i % 8, Math.floor(i / 8)];
+      const agents = Array.from({ length: EXECUTION_LIMITS.maxSolveAgents + 1 }, (_, i) => ({ start: cell(i), goal: cell(63 - i) }));
+      const { status, body } = await post(owner, { ...fromScenario(), instance: { mapId: padMapId, agents } });
+      expect(status).toBe(422);
+      expect(body.error?.code).toBe('SOLVE_TOO_LARGE');
+      expect(body.error?.message).toContain('send a plan');
+    });
+
+    it('names the robot whose start repeats another one', async () => {
+      const { status, body } = await post(owner, { ...fromScenario(), instance: { mapId, agents: [{ start: [0, 0], goal: [1, 0] }, { start: [0, 0], goal: [2, 0] }] } });
+      expect(status).toBe(400);
+      expect(body.error?.message).toContain('instance.agents.1.start: agent 1 has the same start as agent 0');
+    });
+
+    it('refuses a stored sweep result with 501 while results cannot be executed yet', async () => {
+      const { status, body } = await post(owner, { resultId: 5, policy: 'open-loop' });
+      expect(status).toBe(501);
+      expect(body.error?.code).toBe('RESULT_EXECUTION_UNAVAILABLE');
+    });
+  });
+});
