@@ -1,0 +1,249 @@
+/**
+ * A map on a canvas with zoom (wheel, buttons) and pan (drag). The terrain is painted once into
+ * an offscreen bitmap (ImageData, one pixel per cell); each frame only draws that bitmap through
+ * the view transform plus the start/goal markers, so a 1024 × 1024 map stays smooth.
+ */
+import {
+  ChangeDetectionStrategy, Component, DestroyRef, ElementRef, afterNextRender, afterRenderEffect, computed, inject,
+  input, output, signal, viewChild,
+} from '@angular/core';
+import { MatButtonModule } from '@angular/material/button';
+import type { CellXY } from '@shared/plan';
+import { CanvasHost } from './canvas-host';
+import { agentColour, paintMap } from './map-bitmap';
+import { cellAt, cellCentre, fitTransform, panBy, scaleLimits, wheelFactor, zoomAt, type ViewTransform } from './map-view-math';
+
+/** One agent's start and goal to draw over the map. */
+export interface AgentMarker {
+  readonly start: CellXY;
+  readonly goal: CellXY;
+}
+
+/** Grid lines appear once a cell is at least this many pixels wide. */
+const GRID_LINE_SCALE = 10;
+/** Zoom factor of the + and − buttons. */
+const BUTTON_ZOOM = 1.5;
+
+/** The zoomable, pannable map canvas. */
+@Component({
+  selector: 'app-map-canvas',
+  templateUrl: './map-canvas.html',
+  styleUrl: './map-canvas.scss',
+  imports: [MatButtonModule],
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class MapCanvas {
+  private readonly host = inject(CanvasHost);
+  private readonly element = inject<ElementRef<HTMLElement>>(ElementRef);
+  private readonly canvasRef = viewChild.required<ElementRef<HTMLCanvasElement>>('canvas');
+  /** Terrain rows, one string of `width` characters each. */
+  readonly rows = input.required<readonly string[]>();
+  readonly mapWidth = input.required<number>();
+  readonly mapHeight = input.required<number>();
+  /** Starts and goals to draw; agent i gets agentColour(i). */
+  readonly markers = input<readonly AgentMarker[]>([]);
+  /** The cell under the pointer, or null when the pointer is off the map. */
+  readonly hoverCell = output<readonly [number, number] | null>();
+
+  private readonly view = signal<ViewTransform>({ scale: 1, offsetX: 0, offsetY: 0 });
+  private readonly viewSize = signal<readonly [number, number]>([0, 0]);
+  private readonly fitted = computed(() => fitTransform(this.mapWidth(), this.mapHeight(), this.viewSize()[0] || 1, this.viewSize()[1] || 1));
+  private bitmap: HTMLCanvasElement | null = null;
+  private drag: { x: number; y: number } | null = null;
+  private frame = 0;
+  /** Whether the canvas can draw at all (false under jsdom). */
+  protected readonly hasCanvas = signal(true);
+  /** Cells per screen pixel shown to the user, as a zoom readout. */
+  protected readonly zoomText = computed(() => `${Math.round(this.view().scale * 100) / 100} px per cell`);
+
+  constructor() {
+    const destroyRef = inject(DestroyRef);
+    afterNextRender(() => {
+      const canvas = this.canvasRef().nativeElement;
+      const resize = () => {
+        const box = canvas.getBoundingClientRect();
+        const dpr = window.devicePixelRatio || 1;
+        canvas.width = Math.max(1, Math.round(box.width * dpr));
+        canvas.height = Math.max(1, Math.round(box.height * dpr));
+        const isFirst = this.viewSize()[0] === 0;
+        this.viewSize.set([box.width, box.height]);
+        if (isFirst) this.view.set(this.fitted());
+        this.scheduleDraw();
+      };
+      const observer = new ResizeObserver(resize);
+      observer.observe(canvas);
+      resize();
+      destroyRef.onDestroy(() => {
+        observer.disconnect();
+        cancelAnimationFrame(this.frame);
+      });
+    });
+    // Repaint the terrain bitmap only when the map itself changes.
+    afterRenderEffect(() => {
+      this.bitmap = this.paintBitmap(this.rows(), this.mapWidth(), this.mapHeight());
+      this.view.set(this.fitted());
+      this.scheduleDraw();
+    });
+    afterRenderEffect(() => {
+      this.view();
+      this.markers();
+      this.scheduleDraw();
+    });
+  }
+
+  /** Shows the whole map again. */
+  protected fitToView(): void {
+    this.view.set(this.fitted());
+  }
+
+  /** Zooms about the centre of the canvas. */
+  protected zoomBy(factor: number): void {
+    const [w, h] = this.viewSize();
+    this.view.update((t) => zoomAt(t, factor, w / 2, h / 2, scaleLimits(this.fitted())));
+  }
+
+  protected readonly buttonZoom = BUTTON_ZOOM;
+
+  /** Wheel zoom about the pointer. */
+  protected zoomWithWheel(event: WheelEvent): void {
+    event.preventDefault();
+    const [px, py] = this.localPoint(event);
+    this.view.update((t) => zoomAt(t, wheelFactor(event.deltaY), px, py, scaleLimits(this.fitted())));
+  }
+
+  protected startDrag(event: PointerEvent): void {
+    this.drag = { x: event.clientX, y: event.clientY };
+    (event.target as Element).setPointerCapture?.(event.pointerId);
+  }
+
+  /** Pans while dragging and reports the cell under the pointer. */
+  protected trackPointer(event: PointerEvent): void {
+    if (this.drag) {
+      const dx = event.clientX - this.drag.x;
+      const dy = event.clientY - this.drag.y;
+      this.drag = { x: event.clientX, y: event.clientY };
+      this.view.update((t) => panBy(t, dx, dy));
+    }
+    const [px, py] = this.localPoint(event);
+    this.hoverCell.emit(cellAt(this.view(), px, py, this.mapWidth(), this.mapHeight()));
+  }
+
+  protected endDrag(event: PointerEvent): void {
+    this.drag = null;
+    (event.target as Element).releasePointerCapture?.(event.pointerId);
+  }
+
+  protected leaveCanvas(): void {
+    if (!this.drag) this.hoverCell.emit(null);
+  }
+
+  /** Arrow keys pan, + and − zoom, 0 fits: the canvas is usable without a pointer. */
+  protected moveWithKeys(event: KeyboardEvent): void {
+    const step = 40;
+    const moves: Record<string, () => void> = {
+      ArrowLeft: () => this.view.update((t) => panBy(t, step, 0)),
+      ArrowRight: () => this.view.update((t) => panBy(t, -step, 0)),
+      ArrowUp: () => this.view.update((t) => panBy(t, 0, step)),
+      ArrowDown: () => this.view.update((t) => panBy(t, 0, -step)),
+      '+': () => this.zoomBy(BUTTON_ZOOM),
+      '=': () => this.zoomBy(BUTTON_ZOOM),
+      '-': () => this.zoomBy(1 / BUTTON_ZOOM),
+      '0': () => this.fitToView(),
+    };
+    const move = moves[event.key];
+    if (!move) return;
+    event.preventDefault();
+    move();
+  }
+
+  private localPoint(event: MouseEvent): readonly [number, number] {
+    const box = this.canvasRef().nativeElement.getBoundingClientRect();
+    return [event.clientX - box.left, event.clientY - box.top];
+  }
+
+  private paintBitmap(rows: readonly string[], width: number, height: number): HTMLCanvasElement | null {
+    const bitmap = document.createElement('canvas');
+    bitmap.width = width;
+    bitmap.height = height;
+    const ctx = this.host.context2d(bitmap);
+    if (!ctx) {
+      this.hasCanvas.set(false);
+      return null;
+    }
+    const image = ctx.createImageData(width, height);
+    image.data.set(paintMap(rows, width, height, this.host.palette(this.element.nativeElement)));
+    ctx.putImageData(image, 0, 0);
+    return bitmap;
+  }
+
+  private scheduleDraw(): void {
+    if (this.frame) return;
+    this.frame = requestAnimationFrame(() => {
+      this.frame = 0;
+      this.draw();
+    });
+  }
+
+  private draw(): void {
+    const canvas = this.canvasRef().nativeElement;
+    const ctx = this.host.context2d(canvas);
+    if (!ctx || !this.bitmap) return;
+    const dpr = window.devicePixelRatio || 1;
+    const t = this.view();
+    ctx.setTransform(1, 0, 0, 1, 0, 0);
+    ctx.clearRect(0, 0, canvas.width, canvas.height);
+    ctx.setTransform(dpr * t.scale, 0, 0, dpr * t.scale, dpr * t.offsetX, dpr * t.offsetY);
+    ctx.imageSmoothingEnabled = false;
+    ctx.drawImage(this.bitmap, 0, 0);
+    if (t.scale >= GRID_LINE_SCALE) this.drawGrid(ctx, t);
+    ctx.setTransform(dpr, 0, 0, dpr, 0, 0);
+    this.drawMarkers(ctx, t);
+  }
+
+  /** Lines between the visible cells only (never all million of a large map). */
+  private drawGrid(ctx: CanvasRenderingContext2D, t: ViewTransform): void {
+    const [w, h] = this.viewSize();
+    const x0 = Math.max(0, Math.floor(-t.offsetX / t.scale));
+    const y0 = Math.max(0, Math.floor(-t.offsetY / t.scale));
+    const x1 = Math.min(this.mapWidth(), Math.ceil((w - t.offsetX) / t.scale));
+    const y1 = Math.min(this.mapHeight(), Math.ceil((h - t.offsetY) / t.scale));
+    ctx.beginPath();
+    for (let x = x0; x <= x1; x++) {
+      ctx.moveTo(x, y0);
+      ctx.lineTo(x, y1);
+    }
+    for (let y = y0; y <= y1; y++) {
+      ctx.moveTo(x0, y);
+      ctx.lineTo(x1, y);
+    }
+    ctx.lineWidth = 1 / t.scale;
+    ctx.strokeStyle = 'rgba(0, 0, 0, 0.12)';
+    ctx.stroke();
+  }
+
+  /** Starts as filled discs, goals as rings of the same colour, joined by a faint line. */
+  private drawMarkers(ctx: CanvasRenderingContext2D, t: ViewTransform): void {
+    const radius = Math.max(2.5, t.scale * 0.36);
+    this.markers().forEach((m, i) => {
+      const colour = agentColour(i);
+      const [sx, sy] = cellCentre(t, m.start[0], m.start[1]);
+      const [gx, gy] = cellCentre(t, m.goal[0], m.goal[1]);
+      ctx.strokeStyle = colour;
+      ctx.fillStyle = colour;
+      ctx.globalAlpha = 0.35;
+      ctx.lineWidth = 1;
+      ctx.beginPath();
+      ctx.moveTo(sx, sy);
+      ctx.lineTo(gx, gy);
+      ctx.stroke();
+      ctx.globalAlpha = 1;
+      ctx.beginPath();
+      ctx.arc(sx, sy, radius, 0, 2 * Math.PI);
+      ctx.fill();
+      ctx.lineWidth = Math.max(1.5, radius / 3);
+      ctx.beginPath();
+      ctx.arc(gx, gy, radius, 0, 2 * Math.PI);
+      ctx.stroke();
+    });
+  }
+}
