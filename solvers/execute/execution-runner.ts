@@ -28,6 +28,7 @@ export class ExecutionRunner {
   private readonly release: ReleasePlan;
   private readonly sweep: CollisionSweep;
   private readonly seed: number;
+  private readonly isLockstep: boolean;
   /** Buffers of the last simulated run. */
   readonly duration: Float64Array;
   readonly times: RunTimes;
@@ -41,6 +42,7 @@ export class ExecutionRunner {
     this.noise = resolveNoise(profile, options.noise);
     this.onCollision = options.onCollision ?? 'count';
     this.seed = options.seed;
+    this.isLockstep = options.policy === 'lockstep';
     this.dependencies = options.policy === 'dependency-gated' ? buildActionDependencies(this.prepared) : undefined;
     this.release = releasePlan(this.prepared, options.policy, this.dependencies);
     this.sweep = new CollisionSweep(this.prepared);
@@ -110,7 +112,7 @@ export class ExecutionRunner {
       realisedMakespanMs: isComplete ? makespan : null,
       realisedSocMs: isComplete ? soc : null,
       waitingMs: waiting,
-      finishSpreadMs: p.robotCount === 0 ? 0 : lastFinish < Infinity ? lastFinish - firstFinish : null,
+      finishSpreadMs: p.robotCount === 0 ? 0 : lastFinish === Infinity ? null : this.isLockstep ? 0 : lastFinish - firstFinish,
     };
   }
 }

@@ -40,12 +40,14 @@ export interface NoiseModel {
  * A plan as handed to the fleet. `timeline` says what `step` counts: `steps` for classic,
  * uniform-duration, orientation-split and k-robust (abstract unit steps), `ms` for weighted-split.
  * For finish spread every robot's list is padded to the plan's makespan on that timeline:
- * `steps`: with wait steps of profile.waitMs until it has steps 0 … M−1 (M = largest step + 1);
+ * `steps`: with wait steps of `paddingWaitMs` until it has steps 0 … M−1 (M = largest step + 1);
  * `ms`: with one wait until the largest nominal end time. Robots run the padded lists.
  */
 export interface ExecutablePlan {
   readonly timeline: 'steps' | 'ms';
   readonly schedule: Schedule;
+  /** Length of one padding wait step on the `steps` timeline: default profile.waitMs; uniform-duration plans pass their step length. */
+  readonly paddingWaitMs?: number;
 }
 
 /** Options of one simulation batch. */
@@ -91,7 +93,11 @@ export interface RunMetrics {
   readonly realisedSocMs: number | null;
   /** Time robots stood idle waiting on a barrier (lockstep) or a dependency (dependency-gated). */
   readonly waitingMs: number;
-  /** Last minus first robot finish of the padded lists; null when some list never finishes. */
+  /**
+   * Last minus first robot finish of the padded lists; null when some list never finishes.
+   * Under lockstep a robot's program ends at the barrier that closes the last step (as every
+   * step does), so the fleet finishes together at nominal and noisy times alike.
+   */
   readonly finishSpreadMs: number | null;
 }
 

@@ -44,6 +44,8 @@ export interface PreparedPlan {
 /** Checks `plan` against `instance` (throws naming agent, action and field) and prepares it. */
 export function preparePlan(instance: MapfInstance, plan: ExecutablePlan, profile: RobotProfile): PreparedPlan {
   checkProfile(profile);
+  const paddingWaitMs = plan.paddingWaitMs ?? profile.waitMs;
+  if (!(Number.isFinite(paddingWaitMs) && paddingWaitMs > 0)) throw new Error(`plan: field "paddingWaitMs" must be a positive number, got ${paddingWaitMs}`);
   const { grid, agents } = instance;
   const { schedule, timeline } = plan;
   if (timeline !== 'steps' && timeline !== 'ms') throw new Error(`plan: field "timeline" must be "steps" or "ms", got ${String(timeline)}`);
@@ -112,7 +114,7 @@ export function preparePlan(instance: MapfInstance, plan: ExecutablePlan, profil
       step++;
     };
     if (timeline === 'steps') {
-      while (step < makespanSteps) pad(profile.waitMs);
+      while (step < makespanSteps) pad(paddingWaitMs);
     } else if (end < makespanMs) {
       pad(makespanMs - end);
     }

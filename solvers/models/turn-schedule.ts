@@ -46,6 +46,8 @@ export interface TurnSchedule {
   readonly turnInclusiveSocMs: number;
   /** Largest turn-inclusive cost, ms. */
   readonly turnInclusiveMakespanMs: number;
+  /** Length of a wait step on this schedule's timeline (profile.waitMs, or the uniform step): pass it as `paddingWaitMs` to the simulator. */
+  readonly waitStepMs: number;
   /** Total number of quarter turns over all agents. */
   readonly turns: number;
   /** Quarter turns per agent. */
@@ -124,6 +126,7 @@ export function scheduleFromPaths(
     schedule,
     timeline: 'steps',
     stretch: options.stretch,
+    waitStepMs: options.stretch === 'uniform' ? stepMs : profile.waitMs,
     agentCostsMs,
     turnInclusiveSocMs: agentCostsMs.reduce((s, c) => s + c, 0),
     turnInclusiveMakespanMs: agentCostsMs.reduce((m, c) => Math.max(m, c), 0),
