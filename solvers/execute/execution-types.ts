@@ -141,6 +141,8 @@ export interface RealisedAction {
   readonly start: number;
   /** Realised end; Infinity when the action never finishes. */
   readonly end: number;
+  /** Realised (drawn) duration; for an action cut by a stop, the robot moved at (to − from) / durationMs until `stoppedAt`. */
+  readonly durationMs: number;
   /** Idle time before this action spent waiting on a barrier or dependency. */
   readonly waitedMs: number;
   /** When the robot was stopped by a collision during this action, else null. */

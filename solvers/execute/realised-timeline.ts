@@ -34,6 +34,7 @@ export function realisedTimeline(
         plannedEnd: planned.end,
         start: start[a],
         end: end[a],
+        durationMs: runner.duration[a],
         waitedMs: waited[a],
         stoppedAt: cutAt[a] < Infinity ? cutAt[a] : start[a] === Infinity && runner.stoppedAt[r] < Infinity && (a === p.first[r] || end[a - 1] < Infinity) ? runner.stoppedAt[r] : null,
         isPadding: p.isPadding[a] === 1,
