@@ -4,6 +4,7 @@ import type { AppContext } from './app-context';
 import { executionsFeature } from './executions/executions.feature';
 import { healthRouter } from './health/health.router';
 import { instanceLibraryRouter } from './instance-sets/instance-library.router';
+import { leaderboardsFeature } from './leaderboards/leaderboards.feature';
 import { statsRouter } from './stats/stats.router';
 import { adminUsersRouter } from './users/admin-users.router';
 import { meRouter } from './users/me.router';
@@ -17,5 +18,6 @@ export function apiRouter(ctx: AppContext): Router {
   r.use('/stats', statsRouter(ctx.stats));
   r.use(instanceLibraryRouter(ctx));
   r.use('/executions', executionsFeature(ctx));
+  r.use(leaderboardsFeature(ctx));
   return r;
 }

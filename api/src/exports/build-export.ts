@@ -1,0 +1,29 @@
+/** Turns one page of a board view into the text of an export format. */
+import { toCsv } from '@shared/exports-csv';
+import { toJsonExport } from '@shared/exports-json';
+import { toLatex } from '@shared/exports-latex';
+import { toMarkdown } from '@shared/exports-markdown';
+import type { ExportFormat, ExportTable } from '@shared/exports-table';
+import type { LeaderboardPage, LeaderboardView } from '@shared/leaderboards';
+import { exportCaption } from './export-caption';
+
+/** The export table of a page: exactly its columns, in order, and its rows. */
+export function exportTable(view: LeaderboardView, page: LeaderboardPage): ExportTable {
+  return {
+    caption: exportCaption(view, page.rows.map((r) => page.profiles[r.profileHash] ?? '')),
+    columns: page.columns,
+    rows: page.rows.map((r) => page.columns.map((c) => r.cells[c.id] ?? null)),
+    compareColumns: view.layout === 'compare' ? page.columns.filter((c) => c.id.startsWith('m_')).map((c) => c.id) : [],
+  };
+}
+
+/** The file text of `page` in `format`. */
+export function buildExport(format: ExportFormat, view: LeaderboardView, page: LeaderboardPage): string {
+  const table = exportTable(view, page);
+  switch (format) {
+    case 'csv': return toCsv(table);
+    case 'latex': return toLatex(table);
+    case 'markdown': return toMarkdown(table);
+    case 'json': return toJsonExport(table);
+  }
+}

@@ -1,0 +1,24 @@
+/** The caption of an export: which figure, plan models and robot profiles the numbers come from, and the safety note when execution figures are in it. */
+import { SAFETY_NOTE } from '@shared/executions-constants';
+import { columnsOf, type LeaderboardView } from '@shared/leaderboards';
+
+/** Column ids whose figures come from the execution simulator. */
+const isExecutionColumn = (id: string): boolean => /^(success|spread|realised)/.test(id);
+
+/** A one-paragraph caption for `view` over rows with the given robot profile labels. */
+export function exportCaption(view: LeaderboardView, profileLabels: readonly string[]): string {
+  const parts: string[] = [];
+  if (view.layout === 'compare') {
+    const metric = columnsOf({ layout: 'entries', metric: view.metric }).find((c) => c.id === view.metric);
+    parts.push(`${metric?.label ?? view.metric}${metric?.unit ? ` (${metric.unit})` : ''} of the best result per plan model (k-robust at k = ${view.k}); one row per instance and robot profile; the best value per row in bold.`);
+  } else {
+    parts.push('Best result per instance and plan model; sum-of-costs, makespan and lower bound in the model\'s own unit (steps, or ms for weighted-split).');
+  }
+  const profiles = [...new Set(profileLabels)];
+  if (profiles.length === 1) parts.push(`Robot profile: ${profiles[0]}.`);
+  else if (profiles.length > 1) parts.push(`Robot profiles: ${profiles.join('; ')}.`);
+  if (view.filters.length > 0) parts.push(`Filters: ${view.filters.map((f) => `${f.column} ${f.op} ${f.value}`.trim()).join(', ')}.`);
+  const shown = view.layout === 'compare' ? [view.metric] : view.columns;
+  if (shown.some(isExecutionColumn)) parts.push(SAFETY_NOTE);
+  return parts.join(' ');
+}

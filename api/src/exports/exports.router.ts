@@ -1,0 +1,45 @@
+/**
+ * GET /api/exports?format=csv|latex|markdown|json&<view>: the rows and columns of a board view
+ * (same parameters as GET /api/leaderboards/rows) as a downloadable file. Without start/end the
+ * whole view is exported, up to MAX_EXPORT_ROWS rows.
+ */
+import { Router } from 'express';
+import { EXPORT_FORMATS, type ExportFormat } from '@shared/exports-table';
+import { AppError } from '../errors/app-error';
+import type { LeaderboardsService } from '../leaderboards/leaderboards.service';
+import { flatQuery, scopeOf, viewOf, windowOf } from '../leaderboards/view-request';
+import { buildExport } from './build-export';
+
+/** Largest export in rows. */
+export const MAX_EXPORT_ROWS = 10_000;
+
+const FILE_TYPES: Record<ExportFormat, { readonly ext: string; readonly type: string }> = {
+  csv: { ext: 'csv', type: 'text/csv; charset=utf-8' },
+  latex: { ext: 'tex', type: 'application/x-tex; charset=utf-8' },
+  markdown: { ext: 'md', type: 'text/markdown; charset=utf-8' },
+  json: { ext: 'json', type: 'application/json; charset=utf-8' },
+};
+
+/** Export routes over the leaderboard service. */
+export function exportsRouter(boards: LeaderboardsService): Router {
+  const r = Router();
+  r.get('/', async (req, res) => {
+    const params = flatQuery(req.query);
+    const format = (params['format'] ?? '') as ExportFormat;
+    if (!EXPORT_FORMATS.includes(format)) {
+      throw new AppError('VALIDATION_FAILED', 400, `Query parameter "format" must be one of ${EXPORT_FORMATS.join(', ')}`, [{ param: 'format' }]);
+    }
+    const view = viewOf(params);
+    const hasWindow = params['start'] !== undefined || params['end'] !== undefined;
+    const window = hasWindow ? windowOf(params, MAX_EXPORT_ROWS) : { start: 0, end: MAX_EXPORT_ROWS };
+    const page = await boards.page(view, req.user ?? null, scopeOf(params), window);
+    if (!hasWindow && page.rowCount > MAX_EXPORT_ROWS) {
+      throw new AppError('VALIDATION_FAILED', 400, `This view has ${page.rowCount} rows; exports hold at most ${MAX_EXPORT_ROWS}. Narrow it with a filter or pass start and end.`, [{ param: 'format' }]);
+    }
+    const file = FILE_TYPES[format];
+    res.setHeader('content-type', file.type);
+    res.setHeader('content-disposition', `attachment; filename="quarterturn-leaderboard.${file.ext}"`);
+    res.send(buildExport(format, view, page));
+  });
+  return r;
+}

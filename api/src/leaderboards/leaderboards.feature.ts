@@ -1,0 +1,18 @@
+/** Wires the leaderboards, exports and submissions routers onto one app context (one line in api-router.ts). */
+import { Router } from 'express';
+import type { AppContext } from '../app-context';
+import { exportsRouter } from '../exports/exports.router';
+import { createSubmissionsService } from '../submissions/submissions.service';
+import { submissionsRouter } from '../submissions/submissions.router';
+import { leaderboardsRouter } from './leaderboards.router';
+import { createLeaderboardsService } from './leaderboards.service';
+
+/** /api/leaderboards, /api/exports and /api/submissions. */
+export function leaderboardsFeature(ctx: AppContext): Router {
+  const boards = createLeaderboardsService({ sequelize: ctx.sequelize });
+  const r = Router();
+  r.use('/leaderboards', leaderboardsRouter(boards));
+  r.use('/exports', exportsRouter(boards));
+  r.use('/submissions', submissionsRouter(createSubmissionsService({ sequelize: ctx.sequelize, models: ctx.models })));
+  return r;
+}

@@ -1,0 +1,190 @@
+/**
+ * Leaderboard reads: pages of a view, the per-model summary (with a per-map drill-down) and the
+ * chart data, all aggregated in SQL over `leaderboard_entries` and limited to the instance sets
+ * the viewer may see.
+ */
+import { QueryTypes, type Sequelize } from 'sequelize';
+import {
+  columnsOf, LEADERBOARD_POLICIES, profileLabel, type ChartSeries, type LeaderboardCharts, type LeaderboardPage,
+  type LeaderboardRow, type LeaderboardSummary, type LeaderboardView, type ModelSummary, type ProfileOption,
+} from '@shared/leaderboards';
+import { PLAN_MODELS, type PlanModel, type RobotProfile } from '@shared/plan';
+import type { Viewer } from '../instance-sets/instance-set-access';
+import { buildViewQueries, type RowWindow, type SqlQuery, type ViewScope } from './leaderboard-query';
+import { scopedEntries } from './scoped-entries';
+
+/** The leaderboard read service. */
+export interface LeaderboardsService {
+  /** One page of `view` (rows [start, end)) and the view's row count. */
+  page(view: LeaderboardView, viewer: Viewer, scope: ViewScope, window: RowWindow): Promise<LeaderboardPage>;
+  /** Per-model summary, optionally for one map. */
+  summary(viewer: Viewer, scope: ViewScope): Promise<LeaderboardSummary>;
+  /** Chart data for one robot profile (default: the one with most rows) and one execution policy. */
+  charts(viewer: Viewer, scope: ViewScope, policy: string): Promise<LeaderboardCharts>;
+}
+
+type Row = Record<string, unknown>;
+
+const modelOrder = (m: string): number => PLAN_MODELS.indexOf(m as PlanModel);
+
+/** The leaderboards service on one connection. */
+export function createLeaderboardsService(deps: { readonly sequelize: Sequelize }): LeaderboardsService {
+  const { sequelize } = deps;
+  const select = <T extends object = Row>(q: SqlQuery): Promise<T[]> => sequelize.query<T>(q.sql, { type: QueryTypes.SELECT, replacements: q.replacements });
+
+  async function profiles(viewer: Viewer, scope: ViewScope): Promise<ProfileOption[]> {
+    const v = scopedEntries(viewer, { mapId: scope.mapId });
+    const rows = await select<{ hash: string; profile: RobotProfile; entries: number }>({
+      sql: `WITH v AS (${v.sql}) SELECT robot_profile_hash AS hash, (array_agg(robot_profile))[1] AS profile, count(*)::int AS entries
+            FROM v GROUP BY robot_profile_hash ORDER BY entries DESC, hash`,
+      replacements: v.replacements,
+    });
+    return rows.map((r) => ({ hash: r.hash, label: profileLabel(r.profile), entries: r.entries }));
+  }
+
+  return {
+    async page(view, viewer, scope, window) {
+      const { page, count } = buildViewQueries(view, viewer, scope, window);
+      const [rows, [{ n }]] = await Promise.all([select(page), select<{ n: number }>(count)]);
+      const profileLabels: Record<string, string> = {};
+      const out: LeaderboardRow[] = rows.map((r) => {
+        profileLabels[String(r['robot_profile_hash'])] = view.layout === 'entries' ? profileLabel(r['robot_profile'] as RobotProfile) : String(r['profile_label']);
+        const cells: Record<string, string | number | null> = {};
+        for (const c of view.columns) {
+          cells[c] = c === 'profile' && view.layout === 'entries'
+            ? profileLabel(r['robot_profile'] as RobotProfile)
+            : (r[c] as string | number | null) ?? null;
+        }
+        const scenarioId = Number(r['scenario_id']);
+        const agents = Number(r['agents']);
+        const profileHash = String(r['robot_profile_hash']);
+        return view.layout === 'entries'
+          ? { id: String(r['id']), scenarioId, agents, profileHash, resultId: Number(r['result_id']), cells }
+          : { id: `${scenarioId}:${agents}:${profileHash}`, scenarioId, agents, profileHash, cells };
+      });
+      const visible = new Set(view.columns);
+      return { rows: out, rowCount: n, profiles: profileLabels, columns: columnsOf(view).filter((c) => visible.has(c.id)).sort((a, b) => view.columns.indexOf(a.id) - view.columns.indexOf(b.id)) };
+    },
+
+    async summary(viewer, scope) {
+      const v = scopedEntries(viewer, scope);
+      const all = scopedEntries(viewer, { profileHash: scope.profileHash });
+      const withV = (sql: string): SqlQuery => ({ sql: `WITH v AS (${v.sql}) ${sql}`, replacements: v.replacements });
+      const successCols = LEADERBOARD_POLICIES.map((p) => `avg(success_${p.policy.replace('-', '_')}) FILTER (WHERE status = 'solved') AS "${p.policy}"`).join(', ');
+      const [byAgents, ratios, success, maps, profileList] = await Promise.all([
+        select<{ model: string; variant: string; agents: number; instances: number; solved: number }>(withV(
+          `SELECT model, variant, agents, count(*)::int AS instances, (count(*) FILTER (WHERE status = 'solved'))::int AS solved
+           FROM v GROUP BY model, variant, agents ORDER BY model, variant, agents`)),
+        // Same instance and robot profile, both solved: the model's turn-inclusive makespan over classic's.
+        select<{ model: string; variant: string; ratio: number; pairs: number }>(withV(
+          `SELECT e.model, e.variant, avg(e.ti_makespan_ms / c.ti_makespan_ms) AS ratio, count(*)::int AS pairs
+           FROM v e JOIN v c ON c.scenario_id = e.scenario_id AND c.agents = e.agents
+             AND c.robot_profile_hash = e.robot_profile_hash AND c.model = 'classic' AND c.variant = ''
+           WHERE e.status = 'solved' AND c.status = 'solved' AND c.ti_makespan_ms > 0 AND e.ti_makespan_ms IS NOT NULL
+           GROUP BY e.model, e.variant`)),
+        select<Row>(withV(`SELECT model, variant, ${successCols} FROM v GROUP BY model, variant`)),
+        select<{ id: number; name: string; entries: number }>({
+          sql: `WITH v AS (${all.sql}) SELECT map_id AS id, min(map_name) AS name, count(*)::int AS entries FROM v GROUP BY map_id ORDER BY name, id`,
+          replacements: all.replacements,
+        }),
+        profiles(viewer, scope),
+      ]);
+      const key = (m: string, variant: string) => `${m}\u0000${variant}`;
+      const models = new Map<string, ModelSummary & { byAgents: { agents: number; instances: number; solved: number }[] }>();
+      for (const r of byAgents) {
+        const k = key(r.model, r.variant);
+        let s = models.get(k);
+        if (!s) {
+          s = { model: r.model as PlanModel, variant: r.variant, instances: 0, solved: 0, byAgents: [], meanTiMakespanVsClassic: null, pairedWithClassic: 0, meanSuccess: {} };
+          models.set(k, s);
+        }
+        s.byAgents.push({ agents: r.agents, instances: r.instances, solved: r.solved });
+        Object.assign(s, { instances: s.instances + r.instances, solved: s.solved + r.solved });
+      }
+      for (const r of ratios) {
+        const s = models.get(key(r.model, r.variant));
+        if (s) Object.assign(s, { meanTiMakespanVsClassic: r.ratio, pairedWithClassic: r.pairs });
+      }
+      for (const r of success) {
+        const s = models.get(key(String(r['model']), String(r['variant'])));
+        if (s) Object.assign(s, { meanSuccess: Object.fromEntries(LEADERBOARD_POLICIES.map((p) => [p.policy, (r[p.policy] as number | null) ?? null])) });
+      }
+      const map = scope.mapId === undefined ? null : maps.find((m) => m.id === scope.mapId) ?? null;
+      return {
+        models: [...models.values()].sort((a, b) => modelOrder(a.model) - modelOrder(b.model) || a.variant.localeCompare(b.variant)),
+        map: map && { id: map.id, name: map.name },
+        maps,
+        profiles: profileList,
+      };
+    },
+
+    async charts(viewer, scope, policy) {
+      const list = await profiles(viewer, scope);
+      const profile = (scope.profileHash ? list.find((p) => p.hash === scope.profileHash) : list[0]) ?? null;
+      // The policy becomes part of a column name, so it must be one of the fixed list.
+      if (!LEADERBOARD_POLICIES.some((p) => p.policy === policy)) throw new Error(`charts: unknown policy ${policy}`);
+      const col = policy.replace('-', '_');
+      const empty: LeaderboardCharts = {
+        profile, policy, successByAgents: [], executionSuccessByAgents: [], cactus: [], computedVsRealised: [], spreadHistogram: [], spreadBinMs: 0,
+      };
+      if (!profile) return empty;
+      const v = scopedEntries(viewer, { ...scope, profileHash: profile.hash });
+      const withV = (sql: string, extra: Record<string, unknown> = {}): SqlQuery => ({ sql: `WITH v AS (${v.sql}) ${sql}`, replacements: { ...v.replacements, ...extra } });
+      type Point = { model: string; variant: string; x: number; y: number };
+      const [success, execution, cactus, scatter, maxSpread] = await Promise.all([
+        select<Point>(withV(`SELECT model, variant, agents AS x, avg((status = 'solved')::int)::float8 AS y FROM v GROUP BY model, variant, agents ORDER BY model, variant, x`)),
+        select<Point>(withV(`SELECT model, variant, agents AS x, avg(success_${col})::float8 AS y FROM v WHERE status = 'solved' AND success_${col} IS NOT NULL
+          GROUP BY model, variant, agents ORDER BY model, variant, x`)),
+        // Cactus: the i-th fastest solve time against i, thinned to about 200 points per model.
+        select<Point>(withV(`SELECT model, variant, x, y FROM (
+            SELECT model, variant, runtime_ms AS x, row_number() OVER w AS y, count(*) OVER (PARTITION BY model, variant) AS n
+            FROM v WHERE status = 'solved' AND runtime_ms IS NOT NULL WINDOW w AS (PARTITION BY model, variant ORDER BY runtime_ms, id)) t
+          WHERE y = n OR y % greatest(1, n / 200) = 0 ORDER BY model, variant, y`)),
+        // A deterministic sample (every j-th by id) of at most about 500 points per model.
+        select<Point>(withV(`SELECT model, variant, x, y FROM (
+            SELECT model, variant, ti_makespan_ms AS x, realised_${col} AS y, row_number() OVER (PARTITION BY model, variant ORDER BY id) AS i,
+              count(*) OVER (PARTITION BY model, variant) AS n
+            FROM v WHERE ti_makespan_ms IS NOT NULL AND realised_${col} IS NOT NULL) t
+          WHERE i % greatest(1, ceil(n / 500.0)::int) = 0 ORDER BY model, variant, x`)),
+        select<{ m: number | null }>(withV(`SELECT max(spread_${col}) AS m FROM v WHERE status = 'solved'`)),
+      ]);
+      const bin = niceBin(maxSpread[0]?.m ?? 0);
+      const histogram = bin === 0 ? [] : await select<Point>(withV(
+        `SELECT model, variant, floor(spread_${col} / :bin) * :bin AS x, count(*)::int AS y FROM v
+         WHERE status = 'solved' AND spread_${col} IS NOT NULL GROUP BY model, variant, x ORDER BY model, variant, x`, { bin }));
+      return {
+        ...empty,
+        successByAgents: toSeries(success),
+        executionSuccessByAgents: toSeries(execution),
+        cactus: toSeries(cactus),
+        computedVsRealised: toSeries(scatter),
+        spreadHistogram: toSeries(histogram),
+        spreadBinMs: bin,
+      };
+    },
+  };
+}
+
+/** A bin width giving about 20 bins up to `max`, rounded to 1, 2 or 5 × 10^n ms. */
+export function niceBin(max: number): number {
+  if (!(max > 0)) return 0;
+  const raw = max / 20;
+  const p = 10 ** Math.floor(Math.log10(raw));
+  const m = raw / p;
+  return (m <= 1 ? 1 : m <= 2 ? 2 : m <= 5 ? 5 : 10) * p;
+}
+
+/** Groups points into one series per model and variant, in model order. */
+function toSeries(points: readonly { model: string; variant: string; x: number; y: number }[]): ChartSeries[] {
+  const out = new Map<string, { model: PlanModel; variant: string; points: [number, number][] }>();
+  for (const p of points) {
+    const k = `${p.model}\u0000${p.variant}`;
+    let s = out.get(k);
+    if (!s) {
+      s = { model: p.model as PlanModel, variant: p.variant, points: [] };
+      out.set(k, s);
+    }
+    s.points.push([Number(p.x), Number(p.y)]);
+  }
+  return [...out.values()].sort((a, b) => modelOrder(a.model) - modelOrder(b.model) || a.variant.localeCompare(b.variant));
+}

@@ -1,0 +1,50 @@
+/**
+ * LaTeX export: a booktabs table (\toprule, \midrule, \bottomrule; needs \usepackage{booktabs})
+ * with the best value per row among the plan model columns in \textbf{}. Every text cell is
+ * escaped, so names such as "room_32 %5 & #2" typeset literally.
+ */
+import { bestCells, displayCell, headerOf, type ExportTable } from './exports-table';
+
+const LATEX_SPECIALS: Readonly<Record<string, string>> = {
+  '\\': '\\textbackslash{}',
+  '_': '\\_',
+  '%': '\\%',
+  '&': '\\&',
+  '#': '\\#',
+  '$': '\\$',
+  '{': '\\{',
+  '}': '\\}',
+  '~': '\\textasciitilde{}',
+  '^': '\\textasciicircum{}',
+};
+
+/** Escapes LaTeX's special characters in one pass (so the braces a replacement adds are never escaped again). */
+export function latexEscape(text: string): string {
+  return text.replace(/[\\_%&#${}~^]/g, (c) => LATEX_SPECIALS[c]);
+}
+
+/** The table as a LaTeX `table` float with a booktabs `tabular`. */
+export function toLatex(table: ExportTable): string {
+  const best = bestCells(table);
+  const align = table.columns.map((c) => (c.kind === 'number' ? 'r' : 'l')).join('');
+  const row = (cells: readonly string[]) => `${cells.join(' & ')} \\\\`;
+  const body = table.rows.map((r, i) => row(r.map((v, j) => {
+    const text = latexEscape(displayCell(v, table.columns[j]));
+    return best[i].has(j) ? `\\textbf{${text}}` : text;
+  })));
+  return [
+    '% Exported from Quarterturn; needs \\usepackage{booktabs}.',
+    '\\begin{table}[htbp]',
+    '\\centering',
+    `\\caption{${latexEscape(table.caption)}}`,
+    `\\begin{tabular}{${align}}`,
+    '\\toprule',
+    row(table.columns.map((c) => latexEscape(headerOf(c)))),
+    '\\midrule',
+    ...body,
+    '\\bottomrule',
+    '\\end{tabular}',
+    '\\end{table}',
+    '',
+  ].join('\n');
+}

@@ -1,0 +1,53 @@
+/**
+ * The table every export format writes: the columns and rows on screen plus the caption that
+ * says where the figures come from. Zod-free, pure, shared by the API and tests.
+ */
+import type { LeaderboardColumn } from './leaderboards';
+
+/** Export formats of GET /api/exports. */
+export const EXPORT_FORMATS = ['csv', 'latex', 'markdown', 'json'] as const;
+export type ExportFormat = (typeof EXPORT_FORMATS)[number];
+
+/** A cell value: text, a number, or empty. */
+export type ExportCell = string | number | null;
+
+/** What an export holds. */
+export interface ExportTable {
+  /** Plan models, robot profile(s) and filters the figures come from, for the caption. */
+  readonly caption: string;
+  readonly columns: readonly LeaderboardColumn[];
+  readonly rows: readonly (readonly ExportCell[])[];
+  /**
+   * Ids of the columns compared per row for the best value (the plan model columns of a
+   * comparison table); the best one is set in bold where the format can.
+   */
+  readonly compareColumns: readonly string[];
+}
+
+/** A header with its unit, e.g. "Solve time (ms)". */
+export function headerOf(c: LeaderboardColumn): string {
+  return c.unit ? `${c.label} (${c.unit})` : c.label;
+}
+
+/** A cell as text for people: numbers with the column's digits, empty cells as an en dash. */
+export function displayCell(value: ExportCell, column: LeaderboardColumn): string {
+  if (value === null) return '–';
+  if (typeof value === 'number') return column.digits !== undefined ? value.toFixed(column.digits) : String(value);
+  return value;
+}
+
+/**
+ * Per row, the indices of the best cells among `compareColumns` (ties all count; none when the
+ * columns have no direction or the row has no value there).
+ */
+export function bestCells(table: ExportTable): Set<number>[] {
+  const idx = table.columns.map((c, i) => (table.compareColumns.includes(c.id) && c.better ? i : -1)).filter((i) => i >= 0);
+  return table.rows.map((row) => {
+    const values = idx.filter((i) => typeof row[i] === 'number');
+    if (values.length === 0) return new Set<number>();
+    const better = table.columns[values[0]].better;
+    const nums = values.map((i) => row[i] as number);
+    const best = better === 'higher' ? Math.max(...nums) : Math.min(...nums);
+    return new Set(values.filter((i) => row[i] === best));
+  });
+}

@@ -1,0 +1,327 @@
+/**
+ * The leaderboard contract, zod-free so the web bundle can import values from it: the columns a
+ * board can show, the filter operators, the view (layout, columns, sort, filters) and its one
+ * URL encoding, shared by the page URL, GET /api/leaderboards/rows and GET /api/exports, so a
+ * link opens exactly the same view and an export holds exactly the rows and columns on screen.
+ */
+import { PLAN_MODELS, type PlanModel } from './plan';
+
+/** How a column filters: free text, a number, or one of a fixed list. */
+export type ColumnKind = 'text' | 'number' | 'enum';
+
+/** Which value is best when comparing plan models in a row: lower (costs, times) or higher (rates). */
+export type BetterDirection = 'lower' | 'higher';
+
+/** One column of the instance × model board. */
+export interface LeaderboardColumn {
+  readonly id: string;
+  /** Header for people. */
+  readonly label: string;
+  readonly kind: ColumnKind;
+  /** Allowed values of an enum column. */
+  readonly values?: readonly string[];
+  /** Unit shown after the header in exports, if any. */
+  readonly unit?: string;
+  /** For figures: which direction is better (used for the bold best value in comparison tables). */
+  readonly better?: BetterDirection;
+  /** Digits after the decimal point in exports. */
+  readonly digits?: number;
+}
+
+/** Execution policies with the column-id fragment and label used by per-policy columns. */
+export const LEADERBOARD_POLICIES = [
+  { policy: 'open-loop', key: 'OpenLoop', label: 'open-loop' },
+  { policy: 'lockstep', key: 'Lockstep', label: 'lockstep' },
+  { policy: 'dependency-gated', key: 'Gated', label: 'dependency-gated' },
+] as const;
+
+/** Outcomes a board row can show. */
+export const ENTRY_STATUSES = ['solved', 'infeasible', 'timeout', 'memory', 'error'] as const;
+
+/** Where a row's best result came from. */
+export const ENTRY_SOURCES = ['sweep', 'submitted'] as const;
+export type EntrySource = (typeof ENTRY_SOURCES)[number];
+
+const policyColumns: LeaderboardColumn[] = LEADERBOARD_POLICIES.flatMap((p) => [
+  { id: `success${p.key}`, label: `Success rate, ${p.label}`, kind: 'number', better: 'higher', digits: 2 } as const,
+  { id: `spread${p.key}`, label: `Finish spread, ${p.label}`, kind: 'number', unit: 'ms', better: 'lower', digits: 0 } as const,
+  { id: `realised${p.key}`, label: `Realised makespan, ${p.label}`, kind: 'number', unit: 'ms', better: 'lower', digits: 0 } as const,
+]);
+
+/** Every column of the instance × model layout, in default order. */
+export const ENTRY_COLUMNS: readonly LeaderboardColumn[] = [
+  { id: 'map', label: 'Map', kind: 'text' },
+  { id: 'scenario', label: 'Scenario', kind: 'text' },
+  { id: 'agents', label: 'Agents', kind: 'number', digits: 0 },
+  { id: 'model', label: 'Plan model', kind: 'enum', values: PLAN_MODELS },
+  { id: 'variant', label: 'Variant', kind: 'text' },
+  { id: 'profile', label: 'Robot profile', kind: 'text' },
+  { id: 'status', label: 'Status', kind: 'enum', values: ENTRY_STATUSES },
+  { id: 'soc', label: 'Sum-of-costs', kind: 'number', unit: 'model unit', better: 'lower', digits: 0 },
+  { id: 'makespan', label: 'Makespan', kind: 'number', unit: 'model unit', better: 'lower', digits: 0 },
+  { id: 'tiSocMs', label: 'Turn-inclusive SOC', kind: 'number', unit: 'ms', better: 'lower', digits: 0 },
+  { id: 'tiMakespanMs', label: 'Turn-inclusive makespan', kind: 'number', unit: 'ms', better: 'lower', digits: 0 },
+  { id: 'lowerBound', label: 'Lower bound', kind: 'number', unit: 'model unit', digits: 0 },
+  { id: 'gap', label: 'Gap', kind: 'number', better: 'lower', digits: 3 },
+  { id: 'runtimeMs', label: 'Solve time', kind: 'number', unit: 'ms', better: 'lower', digits: 1 },
+  ...policyColumns,
+  { id: 'source', label: 'Source', kind: 'enum', values: ENTRY_SOURCES },
+  { id: 'solver', label: 'Solver', kind: 'text' },
+];
+
+/** Columns shown when a view names none. */
+export const DEFAULT_ENTRY_COLUMNS: readonly string[] = [
+  'map', 'scenario', 'agents', 'model', 'variant', 'status', 'soc', 'tiMakespanMs', 'lowerBound', 'gap', 'runtimeMs',
+  'successOpenLoop', 'spreadOpenLoop', 'source', 'solver',
+];
+
+/** Figures a comparison table may put side by side: all in ms or rates, so model columns share a unit. */
+export const COMPARE_METRICS = [
+  'tiMakespanMs', 'tiSocMs', 'runtimeMs',
+  ...LEADERBOARD_POLICIES.flatMap((p) => [`success${p.key}`, `spread${p.key}`, `realised${p.key}`]),
+] as const;
+export type CompareMetric = (typeof COMPARE_METRICS)[number];
+
+/** The id of a comparison table's column for one model. */
+export function modelColumnId(model: PlanModel): string {
+  return `m_${model.replace('-', '_')}`;
+}
+
+/** Columns of the comparison layout (rows = instance × robot profile, one column per plan model). */
+export function compareColumns(metric: CompareMetric): LeaderboardColumn[] {
+  const base = ENTRY_COLUMNS.find((c) => c.id === metric) as LeaderboardColumn;
+  return [
+    { id: 'map', label: 'Map', kind: 'text' },
+    { id: 'scenario', label: 'Scenario', kind: 'text' },
+    { id: 'agents', label: 'Agents', kind: 'number', digits: 0 },
+    { id: 'profile', label: 'Robot profile', kind: 'text' },
+    ...PLAN_MODELS.map((m): LeaderboardColumn => ({
+      id: modelColumnId(m), label: m, kind: 'number', unit: base.unit, better: base.better, digits: base.digits,
+    })),
+  ];
+}
+
+/** Board layouts: one row per instance × model, or models side by side for one figure. */
+export const LAYOUTS = ['entries', 'compare'] as const;
+export type Layout = (typeof LAYOUTS)[number];
+
+/** Filter operators by column kind. `has` = contains (any case); `in` = one of a comma list. */
+export const FILTER_OPS = {
+  text: ['has', 'eq'],
+  number: ['eq', 'ne', 'lt', 'lte', 'gt', 'gte', 'blank', 'set'],
+  enum: ['in'],
+} as const;
+export type FilterOp = (typeof FILTER_OPS)[ColumnKind][number];
+
+/** One filter condition on a column. */
+export interface ViewFilter {
+  readonly column: string;
+  readonly op: FilterOp;
+  /** The operand as text (a comma list for `in`; empty for blank/set). */
+  readonly value: string;
+}
+
+/** One sort key. */
+export interface ViewSort {
+  readonly column: string;
+  readonly direction: 'asc' | 'desc';
+}
+
+/** A board view: what the URL of a shared link holds. */
+export interface LeaderboardView {
+  readonly layout: Layout;
+  /** Comparison layout: the figure in the model columns. */
+  readonly metric: CompareMetric;
+  /** Comparison layout: the k of the k-robust column. */
+  readonly k: number;
+  /** Visible columns in order. */
+  readonly columns: readonly string[];
+  readonly sort: readonly ViewSort[];
+  readonly filters: readonly ViewFilter[];
+}
+
+/** The view a board opens with. */
+export const DEFAULT_VIEW: LeaderboardView = {
+  layout: 'entries', metric: 'tiMakespanMs', k: 1, columns: DEFAULT_ENTRY_COLUMNS, sort: [], filters: [],
+};
+
+/** The columns of a layout. */
+export function columnsOf(view: Pick<LeaderboardView, 'layout' | 'metric'>): readonly LeaderboardColumn[] {
+  return view.layout === 'compare' ? compareColumns(view.metric) : ENTRY_COLUMNS;
+}
+
+/** A problem with a view parameter, naming the parameter. */
+export class ViewParamError extends Error {
+  constructor(readonly param: string, message: string) {
+    super(message);
+    this.name = 'ViewParamError';
+  }
+}
+
+/** Query parameters that are not part of a view (paging, export format) and are ignored by parseView. */
+export const NON_VIEW_PARAMS = new Set(['start', 'end', 'format', 'mapId', 'profile', 'policy', 'limit']);
+
+/**
+ * Reads a view from query parameters (`layout`, `metric`, `k`, `cols=a,b`, `sort=a,-b`,
+ * `<column>.<op>=<value>`). Throws ViewParamError naming the bad parameter.
+ */
+export function parseView(params: Readonly<Record<string, string | undefined>>): LeaderboardView {
+  const layout = (params['layout'] ?? 'entries') as Layout;
+  if (!LAYOUTS.includes(layout)) throw new ViewParamError('layout', `layout must be one of ${LAYOUTS.join(', ')}, got "${layout}"`);
+  const metric = (params['metric'] ?? DEFAULT_VIEW.metric) as CompareMetric;
+  if (!COMPARE_METRICS.includes(metric)) throw new ViewParamError('metric', `metric must be one of ${COMPARE_METRICS.join(', ')}, got "${metric}"`);
+  const kText = params['k'] ?? '1';
+  const k = Number(kText);
+  if (!/^\d{1,2}$/.test(kText) || k > 20) throw new ViewParamError('k', `k must be a whole number 0..20, got "${kText}"`);
+  const all = columnsOf({ layout, metric });
+  const byId = new Map(all.map((c) => [c.id, c]));
+  const known = (param: string, id: string): LeaderboardColumn => {
+    const col = byId.get(id);
+    if (!col) throw new ViewParamError(param, `unknown column "${id}" for the ${layout} layout`);
+    return col;
+  };
+
+  const colsText = params['cols'];
+  const columns = colsText === undefined || colsText === ''
+    ? (layout === 'compare' ? all.map((c) => c.id) : DEFAULT_ENTRY_COLUMNS)
+    : colsText.split(',').map((id) => known('cols', id).id);
+  if (new Set(columns).size !== columns.length) throw new ViewParamError('cols', 'a column is listed twice');
+
+  const sort: ViewSort[] = [];
+  for (const part of (params['sort'] ?? '').split(',').filter((p) => p !== '')) {
+    const desc = part.startsWith('-');
+    const id = desc ? part.slice(1) : part;
+    known('sort', id);
+    if (sort.some((s) => s.column === id)) throw new ViewParamError('sort', `column "${id}" is sorted twice`);
+    sort.push({ column: id, direction: desc ? 'desc' : 'asc' });
+  }
+
+  const filters: ViewFilter[] = [];
+  for (const [key, raw] of Object.entries(params)) {
+    if (raw === undefined || !key.includes('.') || NON_VIEW_PARAMS.has(key)) continue;
+    const dot = key.lastIndexOf('.');
+    const id = key.slice(0, dot);
+    const op = key.slice(dot + 1);
+    const col = known(key, id);
+    const ops = FILTER_OPS[col.kind] as readonly string[];
+    if (!ops.includes(op)) throw new ViewParamError(key, `column "${id}" filters with ${ops.join(', ')}, not "${op}"`);
+    if (col.kind === 'number' && op !== 'blank' && op !== 'set' && !Number.isFinite(Number(raw))) {
+      throw new ViewParamError(key, `"${raw}" is not a number`);
+    }
+    if (col.kind === 'number' && op !== 'blank' && op !== 'set' && raw.trim() === '') throw new ViewParamError(key, 'a number is required');
+    if (col.kind === 'enum') {
+      const bad = raw.split(',').find((v) => !(col.values ?? []).includes(v));
+      if (bad !== undefined) throw new ViewParamError(key, `"${bad}" is not one of ${(col.values ?? []).join(', ')}`);
+    }
+    filters.push({ column: id, op: op as FilterOp, value: raw });
+  }
+  filters.sort((a, b) => (a.column + a.op < b.column + b.op ? -1 : 1));
+  return { layout, metric, k, columns, sort, filters };
+}
+
+/** Writes a view as query parameters (defaults left out), the inverse of parseView. */
+export function viewToParams(view: LeaderboardView): Record<string, string> {
+  const out: Record<string, string> = {};
+  if (view.layout !== 'entries') out['layout'] = view.layout;
+  if (view.layout === 'compare') {
+    if (view.metric !== DEFAULT_VIEW.metric) out['metric'] = view.metric;
+    if (view.k !== 1) out['k'] = String(view.k);
+  }
+  const defaults = view.layout === 'compare' ? columnsOf(view).map((c) => c.id) : DEFAULT_ENTRY_COLUMNS;
+  if (view.columns.join(',') !== defaults.join(',')) out['cols'] = view.columns.join(',');
+  if (view.sort.length > 0) out['sort'] = view.sort.map((s) => (s.direction === 'desc' ? '-' : '') + s.column).join(',');
+  for (const f of view.filters) out[`${f.column}.${f.op}`] = f.value;
+  return out;
+}
+
+/** A row of the board: column id → value (numbers, text or null), plus its identity. */
+export interface LeaderboardRow {
+  /** Stable id of the row (entry id, or `scenario:agents:profile` in the comparison layout). */
+  readonly id: string;
+  readonly scenarioId: number;
+  readonly agents: number;
+  readonly profileHash: string;
+  /** Entries layout: the best result's id (for the plan viewer). */
+  readonly resultId?: number;
+  readonly cells: Readonly<Record<string, string | number | null>>;
+}
+
+/** GET /api/leaderboards/rows: one page of rows and the number of rows of the whole view. */
+export interface LeaderboardPage {
+  readonly rows: readonly LeaderboardRow[];
+  readonly rowCount: number;
+  readonly columns: readonly LeaderboardColumn[];
+  /** Robot profile hash → label, for the profiles of the rows on this page. */
+  readonly profiles: Readonly<Record<string, string>>;
+}
+
+/** A robot profile as offered in the board's profile picker. */
+export interface ProfileOption {
+  readonly hash: string;
+  readonly label: string;
+  readonly entries: number;
+}
+
+/** One model's line of the per-model summary. */
+export interface ModelSummary {
+  readonly model: PlanModel;
+  readonly variant: string;
+  /** Instances (scenario × agents × profile) with a row for this model. */
+  readonly instances: number;
+  readonly solved: number;
+  /** Per agent count: instances and solved ones, ascending by agents. */
+  readonly byAgents: readonly { readonly agents: number; readonly instances: number; readonly solved: number }[];
+  /**
+   * Mean of (this model's turn-inclusive makespan ÷ classic's) over instances both solved with
+   * the same robot profile; null when there is no such pair.
+   */
+  readonly meanTiMakespanVsClassic: number | null;
+  /** Pairs behind meanTiMakespanVsClassic. */
+  readonly pairedWithClassic: number;
+  /** Mean execution success rate of solved rows per policy (null when none was replayed). */
+  readonly meanSuccess: Readonly<Record<string, number | null>>;
+}
+
+/** GET /api/leaderboards/summary. */
+export interface LeaderboardSummary {
+  readonly models: readonly ModelSummary[];
+  /** The map this summary is narrowed to (drill-down), or null for all maps. */
+  readonly map: { readonly id: number; readonly name: string } | null;
+  /** Maps with rows, for the drill-down picker. */
+  readonly maps: readonly { readonly id: number; readonly name: string; readonly entries: number }[];
+  readonly profiles: readonly ProfileOption[];
+}
+
+/** A chart series: one plan model's points. */
+export interface ChartSeries {
+  readonly model: PlanModel;
+  readonly variant: string;
+  readonly points: readonly (readonly [number, number])[];
+}
+
+/** GET /api/leaderboards/charts: the data of the four charts for one robot profile. */
+export interface LeaderboardCharts {
+  /** The robot profile every figure comes from. */
+  readonly profile: ProfileOption | null;
+  /** The execution policy of the execution figures. */
+  readonly policy: string;
+  /** [agents, solved fraction] per model. */
+  readonly successByAgents: readonly ChartSeries[];
+  /** [agents, mean execution success rate] per model. */
+  readonly executionSuccessByAgents: readonly ChartSeries[];
+  /** [solve time ms, instances solved within it] per model. */
+  readonly cactus: readonly ChartSeries[];
+  /** [turn-inclusive makespan ms, realised makespan ms] per model (a deterministic sample of at most 500 per model). */
+  readonly computedVsRealised: readonly ChartSeries[];
+  /** [bin start ms, count] per model; bins of width `spreadBinMs`. */
+  readonly spreadHistogram: readonly ChartSeries[];
+  readonly spreadBinMs: number;
+}
+
+/** A short label of a robot profile for tables and chart captions. */
+export function profileLabel(p: {
+  readonly forwardMs: number; readonly quarterTurnMs: number; readonly waitMs: number;
+  readonly cellPitchMm: number; readonly robotDiameterMm: number; readonly timingJitter: number;
+}): string {
+  return `forward ${p.forwardMs} ms, quarter turn ${p.quarterTurnMs} ms, wait ${p.waitMs} ms, pitch ${p.cellPitchMm} mm, diameter ${p.robotDiameterMm} mm, jitter ${p.timingJitter}`;
+}

@@ -1,0 +1,185 @@
+/**
+ * The leaderboard over real PostgreSQL: random results written like the sweep worker writes
+ * them, the trigger-maintained best-result table, and the paged, sorted, filtered API, all
+ * checked against a brute-force recomputation in TypeScript (leaderboard-support.ts).
+ */
+import type { LeaderboardCharts, LeaderboardPage, LeaderboardSummary } from '@shared/leaderboards';
+import { parameterHash } from '../../api/src/sweeps/parameter-hash';
+import {
+  expectedEntries, insertResults, PROFILES, randomResults, startBoardWorld, type BoardWorld, type ExpectedEntry, type SeedResult, type SignedInClient,
+} from './leaderboard-support';
+
+const HASHES = PROFILES.map((p) => parameterHash(p));
+
+describe('leaderboard over SQL', () => {
+  let world: BoardWorld;
+  let results: SeedResult[];
+  /** Brute-force entries with their table id. */
+  let expected: (ExpectedEntry & { id: number })[];
+
+  async function loadExpected(): Promise<void> {
+    const rows = await world.lib.sql<{ id: number; scenario_id: number; agents: number; model: string; variant: string; robot_profile_hash: string }>(
+      'SELECT id, scenario_id, agents, model, variant, robot_profile_hash FROM leaderboard_entries',
+    );
+    const ids = new Map(rows.map((r) => [`${r.scenario_id}|${r.agents}|${r.model}|${r.variant}|${HASHES.indexOf(r.robot_profile_hash)}`, r.id]));
+    expected = expectedEntries(results).map((e) => ({ ...e, id: ids.get(e.key) ?? -1 }));
+  }
+
+  beforeAll(async () => {
+    world = await startBoardWorld();
+    results = randomResults(world, 20240611, 260);
+    await insertResults(world.lib, results);
+    await loadExpected();
+  }, 60_000);
+
+  afterAll(() => world?.lib.close());
+
+  async function allPages(client: SignedInClient, query: string, pageSize = 7): Promise<LeaderboardPage['rows']> {
+    const rows: LeaderboardPage['rows'][number][] = [];
+    for (let start = 0; ; start += pageSize) {
+      const res = await client.request(`/api/leaderboards/rows?${query}&start=${start}&end=${start + pageSize}`);
+      expect(res.status).toBe(200);
+      const page = (await res.json()) as LeaderboardPage;
+      rows.push(...page.rows);
+      if (page.rows.length < pageSize) {
+        expect(page.rowCount).toBe(rows.length);
+        return rows;
+      }
+    }
+  }
+
+  it('keeps one row per instance × model variant × profile with the best result, largest lower bound and gap', async () => {
+    const rows = await world.lib.sql<{ id: number; result_id: number; lower_bound: number | null; gap: number | null; attempts: number; success_open_loop: number | null; status: string }>(
+      'SELECT id, result_id, lower_bound, gap, attempts, success_open_loop, status FROM leaderboard_entries',
+    );
+    expect(rows).toHaveLength(expected.length);
+    const byId = new Map(rows.map((r) => [r.id, r]));
+    for (const e of expected) {
+      const row = byId.get(e.id);
+      expect(row).toBeDefined();
+      expect({ result: row?.result_id, status: row?.status, attempts: row?.attempts }).toEqual({ result: e.best.id, status: e.best.status, attempts: e.attempts });
+      expect(row?.lower_bound ?? null).toBe(e.lowerBound);
+      if (e.gap === null) expect(row?.gap).toBeNull();
+      else expect(row?.gap).toBeCloseTo(e.gap, 12);
+      expect(row?.success_open_loop ?? null).toBe(e.best.openLoop?.success ?? null);
+    }
+  });
+
+  it('pages a sorted, filtered view exactly like the brute-force order', async () => {
+    const want = expected
+      .filter((e) => (e.model === 'classic' || e.model === 'k-robust') && e.agents >= 2)
+      // PostgreSQL default: ascending puts nulls last; the id breaks ties in the first key's direction.
+      .sort((a, b) => (a.best.soc === b.best.soc ? 0 : a.best.soc === null ? 1 : b.best.soc === null ? -1 : a.best.soc - b.best.soc) || a.id - b.id)
+      .map((e) => String(e.id));
+    const got = await allPages(world.curator, 'cols=agents,model,soc&sort=soc&model.in=classic,k-robust&agents.gte=2');
+    expect(got.map((r) => r.id)).toEqual(want);
+    expect(Object.keys(got[0].cells)).toEqual(['agents', 'model', 'soc']);
+  });
+
+  it('sorts descending with the id tie-break descending', async () => {
+    const want = [...expected].sort((a, b) => b.best.runtimeMs - a.best.runtimeMs || b.id - a.id).map((e) => String(e.id));
+    const got = await allPages(world.curator, 'sort=-runtimeMs', 50);
+    expect(got.map((r) => r.id)).toEqual(want);
+  });
+
+  it('filters numbers, enums and text together', async () => {
+    const want = expected
+      .filter((e) => e.best.status === 'solved' && (e.best.soc ?? Infinity) <= 4 && e.variant.includes('k='))
+      .sort((a, b) => a.scenarioId - b.scenarioId || a.agents - b.agents || a.model.localeCompare(b.model) || a.id - b.id);
+    const got = await allPages(world.curator, 'status.in=solved&soc.lte=4&variant.has=k%3D', 5);
+    expect(new Set(got.map((r) => r.id))).toEqual(new Set(want.map((e) => String(e.id))));
+    for (const r of got) expect(r.cells['status']).toBe('solved');
+  });
+
+  it('shows private sets only to their owner and maintainers', async () => {
+    const privateScenario = world.scenarios[2];
+    const publicCount = expected.filter((e) => e.scenarioId !== privateScenario).length;
+    const count = async (c: SignedInClient) => ((await (await c.request('/api/leaderboards/rows?start=0&end=1')).json()) as LeaderboardPage).rowCount;
+    expect(await count(world.visitor)).toBe(publicCount);
+    expect(await count(world.other)).toBe(publicCount);
+    expect(await count(world.owner)).toBe(expected.length);
+    expect(await count(world.curator)).toBe(expected.length);
+    const visitorRows = await allPages(world.visitor, 'cols=map', 100);
+    expect(visitorRows.every((r) => r.scenarioId !== privateScenario)).toBe(true);
+  });
+
+  it('refuses unknown columns, bad operators and oversized pages, naming the parameter', async () => {
+    const bad = async (q: string) => {
+      const res = await world.visitor.request(`/api/leaderboards/rows?${q}`);
+      return { status: res.status, body: (await res.json()) as { error: { code: string; details: { param: string }[] } } };
+    };
+    for (const [q, param] of [['sort=soc%3BDROP%20TABLE%20results', 'sort'], ['cols=map,password', 'cols'], ['agents.gte=abc', 'agents.gte'],
+      ['model.in=classic,sql', 'model.in'], ['soc.has=1', 'soc.has'], ['start=0&end=501', 'end']] as const) {
+      const { status, body } = await bad(q);
+      expect({ q, status, code: body.error.code, param: body.error.details[0].param }).toEqual({ q, status: 400, code: 'VALIDATION_FAILED', param });
+    }
+    expect((await world.lib.sql('SELECT count(*)::int AS n FROM results'))[0]).toEqual({ n: results.length });
+  });
+
+  it('pivots models into columns for one figure in the comparison layout', async () => {
+    const got = await allPages(world.curator, 'layout=compare&metric=tiMakespanMs&k=2', 100);
+    const keys = new Set(expected.map((e) => `${e.scenarioId}:${e.agents}:${HASHES[e.profile]}`));
+    expect(got).toHaveLength(keys.size);
+    for (const row of got) {
+      const of = (model: string, variant: string) =>
+        expected.find((e) => e.scenarioId === row.scenarioId && e.agents === row.agents && HASHES[e.profile] === row.profileHash && e.model === model && e.variant === variant);
+      expect(row.cells['m_classic']).toBe(of('classic', '')?.best.tiMakespanMs ?? null);
+      expect(row.cells['m_k_robust']).toBe(of('k-robust', 'k=2')?.best.tiMakespanMs ?? null);
+      expect(row.cells['m_orientation_split']).toBeNull();
+    }
+  });
+
+  it('summarises per model: solved by agent count and turn-inclusive makespan relative to classic', async () => {
+    const res = await world.curator.request(`/api/leaderboards/summary?profile=${HASHES[0]}`);
+    const summary = (await res.json()) as LeaderboardSummary;
+    const mine = expected.filter((e) => e.profile === 0);
+    for (const m of summary.models) {
+      const rows = mine.filter((e) => e.model === m.model && e.variant === m.variant);
+      expect(m.instances).toBe(rows.length);
+      for (const b of m.byAgents) {
+        const at = rows.filter((e) => e.agents === b.agents);
+        expect([b.instances, b.solved]).toEqual([at.length, at.filter((e) => e.best.status === 'solved').length]);
+      }
+      const ratios = rows.flatMap((e) => {
+        const c = mine.find((x) => x.model === 'classic' && x.scenarioId === e.scenarioId && x.agents === e.agents);
+        return e.best.status === 'solved' && c?.best.status === 'solved' && c.best.tiMakespanMs ? [(e.best.tiMakespanMs ?? 0) / c.best.tiMakespanMs] : [];
+      });
+      expect(m.pairedWithClassic).toBe(ratios.length);
+      if (ratios.length) expect(m.meanTiMakespanVsClassic).toBeCloseTo(ratios.reduce((a, b) => a + b, 0) / ratios.length, 9);
+      else expect(m.meanTiMakespanVsClassic).toBeNull();
+    }
+    expect(summary.models.reduce((n, m) => n + m.instances, 0)).toBe(mine.length);
+  });
+
+  it('computes chart data for one robot profile', async () => {
+    const res = await world.curator.request(`/api/leaderboards/charts?profile=${HASHES[1]}&policy=open-loop`);
+    const charts = (await res.json()) as LeaderboardCharts;
+    expect(charts.profile?.hash).toBe(HASHES[1]);
+    const mine = expected.filter((e) => e.profile === 1);
+    for (const s of charts.successByAgents) {
+      for (const [agents, rate] of s.points) {
+        const at = mine.filter((e) => e.model === s.model && e.variant === s.variant && e.agents === agents);
+        expect(rate).toBeCloseTo(at.filter((e) => e.best.status === 'solved').length / at.length, 12);
+      }
+    }
+    for (const s of charts.cactus) {
+      const times = mine.filter((e) => e.model === s.model && e.variant === s.variant && e.best.status === 'solved').map((e) => e.best.runtimeMs).sort((a, b) => a - b);
+      const [lastT, lastN] = s.points[s.points.length - 1];
+      expect([lastT, lastN]).toEqual([times[times.length - 1], times.length]);
+    }
+  });
+
+  it('recomputes a row when its best result is deleted, and drops rows with no result left', async () => {
+    const target = expected.find((e) => e.attempts >= 2 && e.best.status === 'solved') as ExpectedEntry;
+    const lone = expected.find((e) => e.attempts === 1) as ExpectedEntry;
+    await world.lib.sql('DELETE FROM results WHERE id IN (:ids)', { ids: [target.best.id, lone.best.id] });
+    results = results.filter((r) => r.id !== target.best.id && r.id !== lone.best.id);
+    const before = expected.length;
+    await loadExpected();
+    expect(expected).toHaveLength(before - 1);
+    const again = expected.find((e) => e.key === target.key);
+    const [row] = await world.lib.sql<{ result_id: number }>('SELECT result_id FROM leaderboard_entries WHERE id = :id', { id: again?.id });
+    expect(row.result_id).toBe(again?.best.id);
+    expect(row.result_id).not.toBe(target.best.id);
+  });
+});
