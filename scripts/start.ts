@@ -11,8 +11,10 @@ import { ConfigError, loadConfig } from '../api/src/config';
 import { migrate } from '../api/src/db/migrate';
 import { createSequelize } from '../api/src/db/sequelize';
 import { seedDemo } from '../api/src/demo/seed-demo';
+import { startFakeSmtp } from '../api/src/dev/fake-smtp/fake-smtp-server';
 import { createLogger } from '../api/src/http/logger';
 import { onShutdownSignals, type ShutdownStep } from '../api/src/lifecycle/on-shutdown';
+import { startEmbeddedWorker } from '../api/src/workers/embedded-worker';
 import { startCluster, type PgCluster } from './postgres';
 import { ensureWebBuild } from './web-build';
 
@@ -58,8 +60,21 @@ async function main(): Promise<void> {
     const web = ensureWebBuild({ root: ROOT, webDist: config.webDist, log: (m) => logger.info(m) });
     logger.info({ web }, 'web app build checked');
 
-    const server = await startServer({ config: { ...config, databaseUrl }, logger });
+    // Without SMTP_URL, e-mail goes to a local fake SMTP server whose mailbox the app shows at /dev/mailbox.
+    let smtpUrl = config.smtpUrl;
+    const smtp = smtpUrl ? undefined : await startFakeSmtp(config.fakeSmtpPort);
+    if (smtp) {
+      smtpUrl = smtp.url;
+      logger.info(`local fake SMTP server on ${smtp.url} (messages at ${config.publicUrl}/dev/mailbox)`);
+    }
+    const server = await startServer({ config: { ...config, databaseUrl, smtpUrl }, logger, mailbox: smtp?.mailbox });
     steps.push({ name: 'HTTP server, fake OAuth provider and database pools', run: () => server.close() });
+    const embedded = await startEmbeddedWorker(config, databaseUrl, logger, smtpUrl);
+    if (embedded) {
+      steps.unshift({ name: 'embedded sweep worker', run: () => embedded.stop() });
+      logger.info({ threads: embedded.worker.threads }, 'embedded sweep worker running (more workers: npm run worker)');
+    }
+    if (smtp) steps.push({ name: 'fake SMTP server', run: () => smtp.close() });
     if (cluster) {
       const c = cluster;
       steps.push({ name: 'private PostgreSQL cluster', run: () => c.stop() });

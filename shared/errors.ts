@@ -17,6 +17,8 @@ export const ERROR_CODES = [
   'MAP_NOT_FOUND',
   'SCENARIO_NOT_FOUND',
   'INVALID_INSTANCE_FILES',
+  'SWEEP_NOT_FOUND',
+  'SWEEP_TOO_LARGE',
   'INTERNAL',
 ] as const;
 export type ErrorCode = (typeof ERROR_CODES)[number] | (string & {});

@@ -6,6 +6,7 @@ import { healthRouter } from './health/health.router';
 import { instanceLibraryRouter } from './instance-sets/instance-library.router';
 import { leaderboardsFeature } from './leaderboards/leaderboards.feature';
 import { statsRouter } from './stats/stats.router';
+import { sweepsFeature } from './sweeps/sweeps-feature';
 import { adminUsersRouter } from './users/admin-users.router';
 import { meRouter } from './users/me.router';
 
@@ -17,6 +18,7 @@ export function apiRouter(ctx: AppContext): Router {
   r.use('/admin/users', adminUsersRouter(ctx.users));
   r.use('/stats', statsRouter(ctx.stats));
   r.use(instanceLibraryRouter(ctx));
+  r.use(sweepsFeature(ctx));
   r.use('/executions', executionsFeature(ctx));
   r.use(leaderboardsFeature(ctx));
   return r;

@@ -3,6 +3,7 @@ import type { Logger } from 'pino';
 import type { Sequelize } from 'sequelize';
 import type { AppConfig } from './config';
 import type { Models } from './db/models';
+import type { Mailbox } from './dev/fake-smtp/mailbox';
 import type { StatsService } from './stats/stats.service';
 import type { UsersService } from './users/users.service';
 
@@ -16,4 +17,8 @@ export interface AppContext {
   /** Register home-page counters here (`stats.register('sweeps', ...)`). */
   readonly stats: StatsService;
   readonly version: string;
+  /** Registers a close step run by app.dispose() (features that open connections of their own). */
+  readonly onDispose: (close: () => Promise<void>) => void;
+  /** The local fake SMTP server's mailbox, when one runs (development and tests only). */
+  readonly mailbox?: Mailbox;
 }

@@ -21,6 +21,7 @@ import { createSessionStore, sessionMiddleware } from './auth/session';
 import { defineModels } from './db/models';
 import { createSequelize } from './db/sequelize';
 import { startFakeOAuth, type RunningFakeOAuth } from './dev/fake-oauth/start-fake-oauth';
+import type { Mailbox } from './dev/fake-smtp/mailbox';
 import { errorHandler, notFound } from './errors/error-handler';
 import { authRateLimit } from './http/auth-rate-limit';
 import { csrfProtection } from './http/csrf';
@@ -42,6 +43,8 @@ export interface AppDeps {
   readonly stats: StatsService;
   /** Base URL of the fake OAuth provider (fake mode); default http://127.0.0.1:FAKE_OAUTH_PORT. */
   readonly fakeOAuthUrl: string;
+  /** Mailbox of a running local fake SMTP server; serves GET /api/dev/mailbox when given. */
+  readonly mailbox: Mailbox;
 }
 
 /** The Express app plus its context and a dispose() that closes what createApp opened. */
@@ -81,7 +84,10 @@ export function createApp(config: AppConfig, deps: Partial<AppDeps> = {}): Quart
   const models = defineModels(sequelize);
   const users = createUsersService({ sequelize, User: models.User, adminLogins: config.adminLogins });
   const stats = deps.stats ?? createStatsService();
-  const context: AppContext = { config, logger, sequelize, models, users, stats, version: APP_VERSION };
+  const onDispose = (close: () => Promise<void>) => {
+    owned.unshift(close);
+  };
+  const context: AppContext = { config, logger, sequelize, models, users, stats, version: APP_VERSION, onDispose, mailbox: deps.mailbox };
   const fakeOAuthUrl = deps.fakeOAuthUrl ?? (config.oauth.mode === 'fake' ? `http://127.0.0.1:${config.oauth.port}` : '');
   const passport = createPassport(config, users, fakeOAuthUrl);
 
@@ -140,6 +146,8 @@ export interface StartServerOptions {
   /** Port of the fake OAuth provider in fake mode; 0 picks a free one. Default config.oauth.port. */
   readonly fakeOAuthPort?: number;
   readonly logger?: Logger;
+  /** Mailbox of a running local fake SMTP server (see AppDeps.mailbox). */
+  readonly mailbox?: Mailbox;
 }
 
 /** A listening app (and fake provider, in fake mode). */
@@ -170,7 +178,7 @@ export async function startServer(options: StartServerOptions): Promise<RunningS
       });
       config = { ...config, oauth: { mode: 'fake', port: fake.port } };
     }
-    const app = createApp(config, { logger: options.logger, fakeOAuthUrl: fake?.url });
+    const app = createApp(config, { logger: options.logger, fakeOAuthUrl: fake?.url, mailbox: options.mailbox });
     server.on('request', app);
     return {
       url: publicUrl,

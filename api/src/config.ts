@@ -45,6 +45,14 @@ export interface AppConfig {
   readonly authRateWindowMs: number;
   /** Express `trust proxy` hop count: 0 when the app faces browsers directly. */
   readonly trustProxy: number;
+  /** Whether the server process also runs a sweep worker (EMBEDDED_WORKER, default on). */
+  readonly isEmbeddedWorker: boolean;
+  /** Threads of the embedded worker's pool (WORKER_THREADS); undefined = cores − 1, at least 1. */
+  readonly workerThreads: number | undefined;
+  /** Port of the local fake SMTP server `npm start` runs when SMTP_URL is unset (FAKE_SMTP_PORT). */
+  readonly fakeSmtpPort: number;
+  /** Seconds a run's job may outlive its time limit before the queue hands it to another worker (JOB_EXPIRY_MARGIN_SECONDS). */
+  readonly jobExpiryMarginSeconds: number;
 }
 
 /** Thrown by loadConfig with one line per bad variable. */
@@ -75,6 +83,10 @@ const EnvSchema = z.object({
   AUTH_RATE_LIMIT: z.preprocess(emptyAsUndefined, z.coerce.number().int().min(1).default(60)),
   AUTH_RATE_WINDOW_MS: z.preprocess(emptyAsUndefined, z.coerce.number().int().min(1000).default(15 * 60 * 1000)),
   TRUST_PROXY: z.preprocess(emptyAsUndefined, z.coerce.number().int().min(0).default(0)),
+  EMBEDDED_WORKER: z.preprocess(emptyAsUndefined, z.enum(['true', 'false', '1', '0']).default('true')),
+  WORKER_THREADS: z.preprocess(emptyAsUndefined, z.coerce.number().int().min(1).max(256).optional()),
+  FAKE_SMTP_PORT: port(4302),
+  JOB_EXPIRY_MARGIN_SECONDS: z.preprocess(emptyAsUndefined, z.coerce.number().int().min(1).max(86_400).default(60)),
   NODE_ENV: optionalString,
 });
 
@@ -134,6 +146,10 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): { config: AppC
       authRateLimit: e.AUTH_RATE_LIMIT,
       authRateWindowMs: e.AUTH_RATE_WINDOW_MS,
       trustProxy: e.TRUST_PROXY,
+      isEmbeddedWorker: e.EMBEDDED_WORKER === 'true' || e.EMBEDDED_WORKER === '1',
+      workerThreads: e.WORKER_THREADS,
+      fakeSmtpPort: e.FAKE_SMTP_PORT,
+      jobExpiryMarginSeconds: e.JOB_EXPIRY_MARGIN_SECONDS,
     },
     warnings,
   };

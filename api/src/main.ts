@@ -7,6 +7,7 @@ import { loadConfig } from './config';
 import { migrate } from './db/migrate';
 import { createLogger } from './http/logger';
 import { onShutdownSignals } from './lifecycle/on-shutdown';
+import { startEmbeddedWorker } from './workers/embedded-worker';
 
 async function main(): Promise<void> {
   const { config, warnings } = loadConfig();
@@ -15,7 +16,11 @@ async function main(): Promise<void> {
   if (!config.databaseUrl) throw new Error('DATABASE_URL is required (or use `npm start` for a private development database)');
   await migrate(config.databaseUrl);
   const server = await startServer({ config, logger });
-  onShutdownSignals(logger, [{ name: 'server', run: () => server.close() }]);
+  const embedded = await startEmbeddedWorker(config, config.databaseUrl, logger);
+  onShutdownSignals(logger, [
+    ...(embedded ? [{ name: 'embedded sweep worker', run: () => embedded.stop() }] : []),
+    { name: 'server', run: () => server.close() },
+  ]);
   logger.info({ url: server.url, oauth: config.oauth.mode }, `Quarterturn listening on ${server.url}`);
 }
 

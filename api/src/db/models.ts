@@ -3,6 +3,8 @@ import type { Sequelize } from 'sequelize';
 import { defineInstanceSet, type InstanceSetModel } from '../instance-sets/instance-set.model';
 import { defineMapFile, type MapFileModel } from '../instance-sets/map-file.model';
 import { defineScenarioFile, type ScenarioFileModel } from '../instance-sets/scenario-file.model';
+import { defineResultModels, type ExecutionModel, type ResultModel } from '../sweeps/result.model';
+import { defineSweep, type SweepModel } from '../sweeps/sweep.model';
 import { defineUser, type UserModel } from '../users/user.model';
 
 /** The models of one app instance. */
@@ -11,6 +13,9 @@ export interface Models {
   readonly InstanceSet: InstanceSetModel;
   readonly MapFile: MapFileModel;
   readonly ScenarioFile: ScenarioFileModel;
+  readonly Sweep: SweepModel;
+  readonly Result: ResultModel;
+  readonly Execution: ExecutionModel;
 }
 
 /** Defines all models on `sequelize` (the schema itself comes from migrations). */
@@ -20,5 +25,7 @@ export function defineModels(sequelize: Sequelize): Models {
     InstanceSet: defineInstanceSet(sequelize),
     MapFile: defineMapFile(sequelize),
     ScenarioFile: defineScenarioFile(sequelize),
+    Sweep: defineSweep(sequelize),
+    ...defineResultModels(sequelize),
   };
 }

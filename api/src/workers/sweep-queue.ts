@@ -1,0 +1,71 @@
+/**
+ * The pg-boss queue of sweep runs, in the app's own PostgreSQL database (schema `pgboss`):
+ * one job per run carrying only ids. Exactly-once results do not rely on the queue (a job may
+ * run twice after a worker dies); they rest on the runs/results unique keys.
+ */
+import { randomUUID } from 'node:crypto';
+import PgBoss from 'pg-boss';
+import type { Logger } from 'pino';
+
+/** Name of the queue of sweep runs. */
+export const RUN_QUEUE = 'qt-sweep-runs';
+
+/** The data of one job. */
+export interface RunJobData {
+  readonly runId: number;
+  readonly sweepId: number;
+}
+
+/** Options of createBoss. */
+export interface BossOptions {
+  /** How often expired jobs (their worker died) are put back for retry, s (≥ 1). */
+  readonly maintenanceSeconds?: number;
+  /** Whether this instance runs maintenance (expiry, archiving). */
+  readonly isSupervisor?: boolean;
+  readonly logger: Logger;
+  /** Connection pool size of pg-boss. */
+  readonly max?: number;
+}
+
+/** Starts pg-boss on `databaseUrl` (installing its schema on first use) and makes sure the run queue exists. */
+export async function createBoss(databaseUrl: string, options: BossOptions): Promise<PgBoss> {
+  const boss = new PgBoss({
+    connectionString: databaseUrl,
+    max: options.max ?? 4,
+    supervise: options.isSupervisor ?? true,
+    maintenanceIntervalSeconds: options.maintenanceSeconds ?? 10,
+    // Job history is not needed once a run's row says how it ended.
+    archiveCompletedAfterSeconds: 3600,
+    deleteAfterDays: 7,
+    schedule: false,
+  });
+  // pg-boss reports lost connections (e.g. a PostgreSQL restart) as events and keeps polling;
+  // without a listener an 'error' event would end the process.
+  boss.on('error', (err) => options.logger.warn({ err: err.message }, 'job queue: database error (will retry)'));
+  await boss.start();
+  await boss.createQueue(RUN_QUEUE);
+  return boss;
+}
+
+/** Job options of a run: expiry = the run's time limit plus a margin, so a dead worker's job comes back. */
+export function runJobExpirySeconds(timeLimitMs: number, marginSeconds: number): number {
+  return Math.ceil(timeLimitMs / 1000) + Math.max(1, marginSeconds);
+}
+
+/** A run's job, with an id chosen here so the run row can name it (for cancel). */
+export function runJob(data: RunJobData, timeLimitMs: number, marginSeconds: number): PgBoss.JobInsert<RunJobData> & { readonly id: string; readonly data: RunJobData } {
+  return {
+    id: randomUUID(),
+    name: RUN_QUEUE,
+    data,
+    expireInSeconds: runJobExpirySeconds(timeLimitMs, marginSeconds),
+    // Retries cover workers that died mid-run; a run's own failures are recorded, not retried.
+    retryLimit: 10,
+    retryDelay: 1,
+  };
+}
+
+/** Inserts jobs in chunks (one statement each); with `db`, inside the caller's transaction. */
+export async function sendRunJobs(boss: PgBoss, jobs: readonly PgBoss.JobInsert<RunJobData>[], db?: PgBoss.Db): Promise<void> {
+  for (let i = 0; i < jobs.length; i += 500) await boss.insert(jobs.slice(i, i + 500) as PgBoss.JobInsert[], db ? { db } : {});
+}

@@ -1,0 +1,124 @@
+/**
+ * A sweep worker: takes run jobs from pg-boss and runs them on a piscina pool, one pg-boss
+ * poller per thread. Embedded in the server by default (`npm start` completes sweeps alone);
+ * `npm run worker` runs the same thing on any machine that reaches DATABASE_URL.
+ */
+import type PgBoss from 'pg-boss';
+import type { Logger } from 'pino';
+import type { Sequelize } from 'sequelize';
+import { defineModels } from '../db/models';
+import { createSequelize } from '../db/sequelize';
+import type { Mailer } from '../mail/mailer';
+import { notifySweepOver } from '../mail/notify-sweep-over';
+import { readSolverBuild } from './machine-info';
+import { PlanPool } from './plan-pool';
+import { processRun, workerName, type RunContext } from './process-run';
+import { listenChannels, SWEEP_CANCEL_CHANNEL, type ChannelListener } from './sweep-channels';
+import { createBoss, RUN_QUEUE, type RunJobData } from './sweep-queue';
+import { withDbRetry } from './with-db-retry';
+
+/** Options of startSweepWorker. */
+export interface SweepWorkerOptions {
+  readonly databaseUrl: string;
+  readonly threads: number;
+  readonly logger: Logger;
+  /** Sends the sweep-over e-mail when this worker closes a sweep; none = no e-mail from here. */
+  readonly mailer?: Mailer;
+  /** Base URL for links in e-mail. */
+  readonly publicUrl: string;
+  /** pg-boss maintenance interval (expired jobs of dead workers come back), s. */
+  readonly maintenanceSeconds?: number;
+  /** pg-boss polling interval, s (≥ 0.5). */
+  readonly pollingSeconds?: number;
+  /** Worker file for the pool (tests). */
+  readonly threadFile?: string;
+}
+
+/** A running worker. */
+export interface SweepWorker {
+  readonly threads: number;
+  readonly name: string;
+  /** Stops taking jobs; `graceful` waits for running ones (up to `timeoutMs`), else aborts them (they are retried elsewhere). */
+  stop(options?: { readonly graceful?: boolean; readonly timeoutMs?: number }): Promise<void>;
+}
+
+/** Starts a worker (see the module comment). */
+export async function startSweepWorker(options: SweepWorkerOptions): Promise<SweepWorker> {
+  const { logger } = options;
+  const sequelize: Sequelize = createSequelize(options.databaseUrl, { poolMax: options.threads + 2 });
+  const models = defineModels(sequelize);
+  const pool = new PlanPool({ threads: options.threads, filename: options.threadFile });
+  const build = readSolverBuild(options.threads);
+  const name = workerName();
+  let isStopping = false;
+  const shutdown = new AbortController();
+  const cancels = new Map<number, AbortController>();
+  const signalFor = (sweepId: number): AbortSignal => {
+    let c = cancels.get(sweepId);
+    if (!c) {
+      c = new AbortController();
+      cancels.set(sweepId, c);
+    }
+    return AbortSignal.any([c.signal, shutdown.signal]);
+  };
+  const listener: ChannelListener = listenChannels(options.databaseUrl, [SWEEP_CANCEL_CHANNEL], (_channel, payload) => {
+    const sweepId = (payload as { sweepId?: number } | null)?.sweepId;
+    if (typeof sweepId !== 'number') return;
+    logger.info({ sweepId }, 'sweep cancelled: aborting its running tasks');
+    signalFor(sweepId);
+    cancels.get(sweepId)?.abort();
+  }, { logger });
+
+  const ctx: RunContext = { sequelize, models, pool, build, logger, workerName: name, signalFor, isStopping: () => isStopping };
+  let boss: PgBoss;
+  try {
+    boss = await withDbRetry(() => createBoss(options.databaseUrl, { logger, maintenanceSeconds: options.maintenanceSeconds, max: 2 }));
+  } catch (err) {
+    await listener.close();
+    await pool.close();
+    await sequelize.close();
+    throw err;
+  }
+
+  const handle = async (jobs: PgBoss.Job<RunJobData>[]): Promise<void> => {
+    for (const job of jobs) {
+      const outcome = await processRun(ctx, job.data);
+      if (outcome.kind === 'recorded') {
+        logger.debug({ runId: job.data.runId, status: outcome.result.status, isWritten: outcome.record.isWritten }, 'run recorded');
+        if (outcome.record.isSweepClosed) {
+          logger.info({ sweepId: job.data.sweepId }, 'sweep over');
+          if (options.mailer) {
+            const mailer = options.mailer;
+            await notifySweepOver(sequelize, mailer, job.data.sweepId, options.publicUrl, logger).catch((err: Error) =>
+              logger.error({ err: err.message, sweepId: job.data.sweepId }, 'sweep e-mail failed'));
+          }
+        }
+      }
+    }
+  };
+  // One poller per thread: pg-boss 10 hands each poller one batch at a time.
+  const workIds: string[] = [];
+  for (let i = 0; i < options.threads; i++) {
+    workIds.push(await boss.work<RunJobData>(RUN_QUEUE, { batchSize: 1, pollingIntervalSeconds: options.pollingSeconds ?? 0.5 }, handle));
+  }
+  logger.info({ worker: name, threads: options.threads, cpu: build.cpuModel, commit: build.commit }, 'sweep worker taking jobs');
+
+  let stopped: Promise<void> | undefined;
+  return {
+    threads: options.threads,
+    name,
+    stop(stopOptions = {}) {
+      stopped ??= (async () => {
+        const graceful = stopOptions.graceful ?? true;
+        for (const id of workIds) await boss.offWork({ id }).catch(() => undefined);
+        isStopping = true;
+        if (!graceful) shutdown.abort();
+        await boss.stop({ graceful, wait: true, timeout: stopOptions.timeoutMs ?? 30_000 }).catch(() => undefined);
+        await listener.close();
+        await pool.close();
+        await sequelize.close();
+      })();
+      return stopped;
+    },
+  };
+}

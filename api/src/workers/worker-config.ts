@@ -1,0 +1,39 @@
+/** Settings of a stand-alone worker process (`npm run worker`), from the environment, validated with zod. */
+import { z } from 'zod';
+import { defaultThreadCount } from './machine-info';
+
+const empty = (v: unknown) => (typeof v === 'string' && v.trim() === '' ? undefined : v);
+
+const WorkerEnv = z.object({
+  DATABASE_URL: z.preprocess(empty, z.url({ protocol: /^postgres(ql)?$/, error: 'DATABASE_URL must be a postgres:// URL of the app database' })),
+  WORKER_THREADS: z.preprocess(empty, z.coerce.number().int().min(1).max(256).optional()),
+  SMTP_URL: z.preprocess(empty, z.url({ protocol: /^smtps?$/ }).optional()),
+  PUBLIC_URL: z.preprocess(empty, z.url({ protocol: /^https?$/ }).default('http://127.0.0.1:4300')),
+  LOG_LEVEL: z.preprocess(empty, z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info')),
+  WORKER_MAINTENANCE_SECONDS: z.preprocess(empty, z.coerce.number().int().min(1).max(3600).default(10)),
+});
+
+/** The validated settings of a worker. */
+export interface WorkerConfig {
+  readonly databaseUrl: string;
+  readonly threads: number;
+  readonly smtpUrl: string | undefined;
+  readonly publicUrl: string;
+  readonly logLevel: z.output<typeof WorkerEnv>['LOG_LEVEL'];
+  readonly maintenanceSeconds: number;
+}
+
+/** Reads the worker settings; throws an Error with one line per bad variable. */
+export function loadWorkerConfig(env: NodeJS.ProcessEnv = process.env): WorkerConfig {
+  const parsed = WorkerEnv.safeParse(env);
+  if (!parsed.success) throw new Error(`Invalid worker configuration:\n  ${parsed.error.issues.map((i) => `${i.path.join('.')}: ${i.message}`).join('\n  ')}`);
+  const e = parsed.data;
+  return {
+    databaseUrl: e.DATABASE_URL,
+    threads: e.WORKER_THREADS ?? defaultThreadCount(),
+    smtpUrl: e.SMTP_URL,
+    publicUrl: e.PUBLIC_URL.replace(/\/+$/, ''),
+    logLevel: e.LOG_LEVEL,
+    maintenanceSeconds: e.WORKER_MAINTENANCE_SECONDS,
+  };
+}
