@@ -24,17 +24,23 @@
  * at b ∈ [s_j, s_i + F), then a < s_j + F ≤ b + F and b < s_i + F ≤ a + F, so [a, a + F) and
  * [b, b + F) overlap, and both moves occupy c over them. Progress: s_i and s_j lie in the windows.
  *
- * Case MOVE-STAY: i turns or waits in c at t* and leaves c later (its visit ends at
- * ≥ t* + F + 1, after a whole move out). Child j: j may not start m_j in [t*, t* + F). Child i:
- * i may not occupy c at instant t* + F − 1. Proof: m_j started at b ∈ [t*, t* + F) occupies c
- * over [b, b + F) ∋ t* + F − 1, when i is in c. Progress: i is in c at t* + F − 1.
+ * Case MOVE-OCCUPANCY (applies to every conflict): let ℓ = the end of i's visit of c (> t*)
+ * and δ = min(F, ℓ − t*) ≥ 1. Child j: j may not start m_j in [t*, t* + δ). Child i: i may
+ * not occupy c during [t* + δ − 1, t* + F). Proof: m_j started at b ∈ [t*, t* + δ) occupies c
+ * over [b, b + F) ⊇ [t* + δ − 1, t* + F), so i in c at any instant of its banned interval
+ * meets j. Progress: j starts m_j at t*, and i is in c at t* + δ − 1 ∈ [t*, ℓ).
  *
  * Case MOVE-GOAL: i is in c from before t* forever (c is its goal, its final visit began ≤ t*).
  * Child j: j may not start m_j at any time ≥ t*. Child i: i's final visit of its goal must
  * begin at ≥ t* + 1. Proof: if i's final visit began at v ≤ t*, i is in c at every instant
  * ≥ v; a start of m_j at b ≥ t* puts j in c at b ≥ v. Progress: i's current final visit began
- * ≤ t*, and j starts m_j at t*. This replaces the long chain of one-move-time delays of j that
- * the MOVE-STAY rule would produce in front of a parked agent.
+ * ≤ t*, and j starts m_j at t*. This cuts the long chain of one-move-time delays of j that
+ * MOVE-OCCUPANCY would produce in front of a parked agent.
+ *
+ * Every case is sound on its own, so the high level may evaluate several cases and several
+ * conflicts of a node and branch on whichever split raises the children's costs most
+ * (a generalisation of choosing cardinal conflicts first, Boyarski et al., "ICBS: improved
+ * conflict-based search algorithm for multi-agent pathfinding", IJCAI 2015).
  */
 import type { OccupancyConflict } from './ccbs-conflict';
 import type { AgentBan } from './sipp-constraints';
@@ -45,46 +51,50 @@ export interface BranchChild {
   readonly bans: readonly AgentBan[];
 }
 
-/** Which case of the rule a conflict falls under (see the module comment). */
-export type BranchCase = 'move-move' | 'move-stay' | 'move-goal';
+/** Which case of the rule a split comes from (see the module comment). */
+export type BranchCase = 'move-move' | 'move-occupancy' | 'move-goal';
 
-/** The case and the two children of a conflict; `forwardMs` is the forward move time F. */
-export function branchOnConflict(
-  conflict: OccupancyConflict,
-  forwardMs: number,
-): { readonly kind: BranchCase; readonly children: readonly [BranchChild, BranchChild] } {
+/** A sound split of one conflict into two children. */
+export interface BranchOption {
+  readonly kind: BranchCase;
+  readonly children: readonly [BranchChild, BranchChild];
+}
+
+/** Every sound split of a conflict the rule offers; `forwardMs` is the forward move time F. */
+export function branchOptions(conflict: OccupancyConflict, forwardMs: number): BranchOption[] {
   const F = forwardMs;
   const { time: t, cell: c, early: vi, late: vj } = conflict;
   const i = vi.agent;
   const j = vj.agent;
-  const sj = t;
   const mj = { fromCell: vj.inFrom, toCell: c };
+  const out: BranchOption[] = [];
   let mi: { fromCell: number; toCell: number; start: number } | undefined;
   if (vi.inFrom >= 0 && t < vi.enter + F) mi = { fromCell: vi.inFrom, toCell: c, start: vi.enter };
   else if (vi.outStart >= 0 && t >= vi.outStart) mi = { fromCell: c, toCell: vi.outTo, start: vi.outStart };
   if (mi) {
-    return {
+    out.push({
       kind: 'move-move',
       children: [
-        { agent: i, bans: [{ kind: 'move', fromCell: mi.fromCell, toCell: mi.toCell, from: mi.start, to: sj + F }] },
-        { agent: j, bans: [{ kind: 'move', ...mj, from: sj, to: mi.start + F }] },
+        { agent: i, bans: [{ kind: 'move', fromCell: mi.fromCell, toCell: mi.toCell, from: mi.start, to: t + F }] },
+        { agent: j, bans: [{ kind: 'move', ...mj, from: t, to: mi.start + F }] },
       ],
-    };
-  }
-  if (vi.leave === Infinity) {
-    return {
+    });
+  } else if (vi.leave === Infinity) {
+    out.push({
       kind: 'move-goal',
       children: [
         { agent: i, bans: [{ kind: 'late-goal', notBefore: t + 1 }] },
-        { agent: j, bans: [{ kind: 'move', ...mj, from: sj, to: Infinity }] },
+        { agent: j, bans: [{ kind: 'move', ...mj, from: t, to: Infinity }] },
       ],
-    };
+    });
   }
-  return {
-    kind: 'move-stay',
+  const delta = Math.min(F, vi.leave - t);
+  out.push({
+    kind: 'move-occupancy',
     children: [
-      { agent: i, bans: [{ kind: 'occupancy', cell: c, from: t + F - 1, to: t + F }] },
-      { agent: j, bans: [{ kind: 'move', ...mj, from: sj, to: sj + F }] },
+      { agent: i, bans: [{ kind: 'occupancy', cell: c, from: t + delta - 1, to: t + F }] },
+      { agent: j, bans: [{ kind: 'move', ...mj, from: t, to: t + delta }] },
     ],
-  };
+  });
+  return out;
 }

@@ -1,9 +1,8 @@
 /**
  * Conflict detection of the weighted-split CBS: every agent's plan becomes a list of cell
  * visits under the occupancy rule (sipp.ts), and a conflict is two agents' visits of one cell
- * whose half-open intervals overlap. The conflict CBS splits on is the one that begins
- * earliest; ties go to the lower agent pair, then the lower cell, so the search is
- * deterministic.
+ * whose half-open intervals overlap. Conflicts are ordered by the instant they begin; ties go
+ * to the lower agent pair, then the lower cell, so the search is deterministic.
  */
 import type { SippPlan } from './sipp';
 
@@ -26,7 +25,7 @@ export interface CellVisit {
   readonly outStart: number;
 }
 
-/** Two agents' visits of one cell overlapping from `time` on; `late` entered at `time` by a forward move. */
+/** Two agents' visits of one cell overlapping from `time` on; `late` entered at `time` by a forward move (never a start visit). */
 export interface OccupancyConflict {
   readonly time: number;
   readonly cell: number;
@@ -53,9 +52,12 @@ export function cellVisits(agent: number, start: number, plan: SippPlan, forward
   return visits;
 }
 
-/** The earliest conflict among all agents' visits and the number of agent pairs in conflict. */
-export function findEarliestConflict(visits: readonly (readonly CellVisit[])[]): {
-  readonly conflict: OccupancyConflict | undefined;
+/**
+ * The conflicts among all agents' visits, earliest first (at most `limit` of them), and the
+ * number of agent pairs in conflict.
+ */
+export function findConflicts(visits: readonly (readonly CellVisit[])[], limit: number): {
+  readonly conflicts: readonly OccupancyConflict[];
   readonly conflictingPairs: number;
 } {
   const byCell = new Map<number, CellVisit[]>();
@@ -66,7 +68,7 @@ export function findEarliestConflict(visits: readonly (readonly CellVisit[])[]):
       else byCell.set(v.cell, [v]);
     }
   }
-  let found: OccupancyConflict | undefined;
+  const found: OccupancyConflict[] = [];
   const pairs = new Set<number>();
   const n = visits.length;
   for (const [cell, bucket] of byCell) {
@@ -77,24 +79,35 @@ export function findEarliestConflict(visits: readonly (readonly CellVisit[])[]):
         const vb = bucket[b];
         if (va.agent === vb.agent) continue;
         if (!(va.enter < vb.leave && vb.enter < va.leave)) continue;
-        const lo = Math.min(va.agent, vb.agent);
-        const hi = Math.max(va.agent, vb.agent);
-        pairs.add(lo * n + hi);
+        pairs.add(Math.min(va.agent, vb.agent) * n + Math.max(va.agent, vb.agent));
         const time = Math.max(va.enter, vb.enter);
-        const [early, late] =
-          va.enter < vb.enter || (va.enter === vb.enter && va.agent < vb.agent) ? [va, vb] : [vb, va];
-        if (!found || isBefore(time, lo, hi, cell, found)) found = { time, cell, early, late };
+        const [early, late] = isEarlyVisit(va, vb) ? [va, vb] : [vb, va];
+        found.push({ time, cell, early, late });
       }
     }
   }
-  return { conflict: found, conflictingPairs: pairs.size };
+  found.sort(compareConflicts);
+  return { conflicts: found.slice(0, limit), conflictingPairs: pairs.size };
 }
 
-function isBefore(time: number, lo: number, hi: number, cell: number, than: OccupancyConflict): boolean {
-  if (time !== than.time) return time < than.time;
-  const tlo = Math.min(than.early.agent, than.late.agent);
-  const thi = Math.max(than.early.agent, than.late.agent);
-  if (lo !== tlo) return lo < tlo;
-  if (hi !== thi) return hi < thi;
-  return cell < than.cell;
+/**
+ * Whether `a` is the `early` side of a conflict with `b`: it began first; on a tie at time 0
+ * the start visit (no entering move) is early, so that `late` always entered by a move;
+ * otherwise the lower agent.
+ */
+function isEarlyVisit(a: CellVisit, b: CellVisit): boolean {
+  if (a.enter !== b.enter) return a.enter < b.enter;
+  if ((a.inFrom < 0) !== (b.inFrom < 0)) return a.inFrom < 0;
+  return a.agent < b.agent;
+}
+
+function compareConflicts(x: OccupancyConflict, y: OccupancyConflict): number {
+  if (x.time !== y.time) return x.time - y.time;
+  const xl = Math.min(x.early.agent, x.late.agent);
+  const yl = Math.min(y.early.agent, y.late.agent);
+  if (xl !== yl) return xl - yl;
+  const xh = Math.max(x.early.agent, x.late.agent);
+  const yh = Math.max(y.early.agent, y.late.agent);
+  if (xh !== yh) return xh - yh;
+  return x.cell - y.cell;
 }

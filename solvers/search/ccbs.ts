@@ -2,13 +2,19 @@
  * The high level of the weighted-split solver: Conflict-Based Search (Sharon, Stern, Felner,
  * Sturtevant, "Conflict-based search for optimal multi-agent pathfinding", Artificial
  * Intelligence 2015) over time-interval constraints, as in continuous-time CBS (Andreychuk
- * et al., Artificial Intelligence 2022), with the sound branching of ccbs-branch.ts and the
- * SIPP low level of sipp.ts. Best-first on sum of arrival times; ties prefer fewer conflicting
+ * et al., Artificial Intelligence 2022), with the sound splits of ccbs-branch.ts and the SIPP
+ * low level of sipp.ts. Best-first on sum of arrival times; ties prefer fewer conflicting
  * agent pairs, then the older node, so runs are deterministic.
+ *
+ * Split choice: for the first few conflicts of a node, every sound split is priced by
+ * replanning both children, and the node branches on the split whose cheaper child costs most
+ * (then whose dearer child costs most), as ICBS prefers cardinal conflicts (Boyarski et al.,
+ * IJCAI 2015). Any sound split keeps optimality, so this choice only affects speed; the
+ * children's plans are kept, so no low-level search is repeated.
  */
 import type { Grid } from '../grid/grid';
-import { branchOnConflict } from './ccbs-branch';
-import { cellVisits, findEarliestConflict, type CellVisit, type OccupancyConflict } from './ccbs-conflict';
+import { branchOptions, type BranchChild } from './ccbs-branch';
+import { cellVisits, findConflicts, type CellVisit, type OccupancyConflict } from './ccbs-conflict';
 import { compileBans, type AgentBan } from './sipp-constraints';
 import { sippSearch, type SippPlan } from './sipp';
 import { SippHeap } from './sipp-heap';
@@ -61,9 +67,12 @@ interface CtNode {
   readonly plans: readonly SippPlan[];
   readonly visits: readonly (readonly CellVisit[])[];
   readonly cost: number;
-  readonly conflict: OccupancyConflict | undefined;
+  readonly conflicts: readonly OccupancyConflict[];
   readonly conflictingPairs: number;
 }
+
+/** How many of a node's earliest conflicts are priced when choosing the split. */
+const CANDIDATE_CONFLICTS = 4;
 
 /** Runs CBS with interval constraints; optimal in sum of arrival times when it returns `solved`. */
 export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
@@ -92,9 +101,9 @@ export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
   };
 
   const makeNode = (parent: CtNode | null, agent: number, bans: readonly AgentBan[], plans: readonly SippPlan[], visits: readonly (readonly CellVisit[])[]): CtNode => {
-    const { conflict, conflictingPairs } = findEarliestConflict(visits);
+    const { conflicts, conflictingPairs } = findConflicts(visits, CANDIDATE_CONFLICTS);
     const cost = plans.reduce((s, p) => s + p.cost, 0);
-    return { id: generated++, parent, agent, bans, plans, visits, cost, conflict, conflictingPairs };
+    return { id: generated++, parent, agent, bans, plans, visits, cost, conflicts, conflictingPairs };
   };
 
   // Sum of single-agent cost-to-go: the bound to report if the root itself is cut short.
@@ -117,16 +126,14 @@ export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
 
   while (open.size > 0) {
     const top = nodes[open.peek() as number];
-    if (!top.conflict) return finish('solved', top, top.cost);
+    if (top.conflicts.length === 0) return finish('solved', top, top.cost);
     if (q.shouldStop()) return finish('stopped', null, top.cost);
     if (expanded >= q.nodeLimit) return finish('node-limit', null, top.cost);
     open.pop();
     expanded++;
-    const { children } = branchOnConflict(top.conflict, q.forwardMs);
-    for (const child of children) {
-      const bans = [...bansOf(top, child.agent), ...child.bans];
-      const p = plan(child.agent, bans);
-      if (isStopped) return finish('stopped', null, top.cost);
+    const split = chooseSplit(top);
+    if (isStopped) return finish('stopped', null, top.cost);
+    for (const { child, plan: p } of split) {
       if (!p) continue;
       const plans = top.plans.slice();
       plans[child.agent] = p;
@@ -138,6 +145,34 @@ export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
     }
   }
   return finish('infeasible', null, null);
+
+  /** Prices the sound splits of the node's first conflicts and returns the best, with its children's plans. */
+  function chooseSplit(node: CtNode): { child: BranchChild; plan: SippPlan | null }[] {
+    const memo = new Map<string, SippPlan | null>();
+    const childPlan = (child: BranchChild): SippPlan | null => {
+      const key = `${child.agent}|${JSON.stringify(child.bans)}`;
+      if (!memo.has(key)) memo.set(key, plan(child.agent, [...bansOf(node, child.agent), ...child.bans]));
+      return memo.get(key) ?? null;
+    };
+    let best: { child: BranchChild; plan: SippPlan | null }[] = [];
+    let bestLow = -1;
+    let bestHigh = -1;
+    for (const conflict of node.conflicts) {
+      for (const option of branchOptions(conflict, q.forwardMs)) {
+        const priced = option.children.map((child) => ({ child, plan: childPlan(child) }));
+        if (isStopped) return [];
+        const costs = priced.map(({ child, plan: p }) => (p ? node.cost - node.plans[child.agent].cost + p.cost : Infinity));
+        const low = Math.min(...costs);
+        const high = Math.max(...costs);
+        if (low > bestLow || (low === bestLow && high > bestHigh)) {
+          best = priced;
+          bestLow = low;
+          bestHigh = high;
+        }
+      }
+    }
+    return best;
+  }
 
   function finish(status: CcbsStatus, node: CtNode | null, bound: number | null): CcbsOutcome {
     return {
