@@ -1,5 +1,6 @@
 import type { RobotProfile } from '@shared/plan';
 import { tinyInstance } from '../testing/tiny-instance';
+import { validateSchedule } from '../validate/schedule';
 import { solveWeightedSplit, type WeightedSplitResult } from './weighted-split';
 
 const profile = (forwardMs: number, quarterTurnMs: number): RobotProfile => ({
@@ -43,6 +44,7 @@ describe('solveWeightedSplit', () => {
     expect(r.turns).toBe(4);
     expect(r.schedule[0][0].heading).toBe('E');
     expect(r.schedule[1][0].heading).toBe('W');
+    expect(validateSchedule(corridor, r.schedule, profile(10, 7), { startHeading: 'free' })).toEqual({ ok: true, soc: 161, makespan: 94 });
   });
 
   it('echoes the model, the profile and the start heading rule', () => {

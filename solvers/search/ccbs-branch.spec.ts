@@ -1,0 +1,134 @@
+// The soundness lemma of the weighted-split splits, checked by sampling: whenever two plans
+// violate BOTH children's constraints of a split, the independent schedule validator
+// (solvers/validate/schedule.ts) must find an overlap between them. Also checks progress:
+// the plans the split came from violate their own child's constraints.
+import type { RobotProfile, Schedule } from '@shared/plan';
+import { gridFromText, type Grid } from '../grid/grid';
+import { forwardCell, headingLetter, turnedLeft, turnedRight } from '../grid/heading-graph';
+import { createRng, type Rng } from '../random';
+import { validateSchedule } from '../validate/schedule';
+import { branchOptions } from './ccbs-branch';
+import { cellVisits, findConflicts } from './ccbs-conflict';
+import type { AgentBan } from './sipp-constraints';
+import type { SippPlan, SippStep } from './sipp';
+
+const grid: Grid = gridFromText('...\n...\n...');
+
+/** A random walk of timed actions from `start`: forwards, quarter turns and waits of 1–4 ms. */
+function randomPlan(rng: Rng, start: number, F: number, T: number, length: number): SippPlan {
+  let cell = start;
+  let heading = rng.int(4);
+  let t = 0;
+  const steps: SippStep[] = [];
+  for (let k = 0; k < length; k++) {
+    const roll = rng.next();
+    const ahead = forwardCell(grid, cell, heading);
+    if (roll < 0.5 && ahead >= 0) {
+      steps.push({ kind: 'forward', from: cell, to: ahead, heading, start: t, end: t + F });
+      cell = ahead;
+      t += F;
+    } else if (roll < 0.75) {
+      const next = rng.next() < 0.5 ? turnedLeft(heading) : turnedRight(heading);
+      steps.push({ kind: next === turnedLeft(heading) ? 'turn-left' : 'turn-right', from: cell, to: cell, heading: next, start: t, end: t + T });
+      heading = next;
+      t += T;
+    } else {
+      const d = 1 + rng.int(4);
+      steps.push({ kind: 'wait', from: cell, to: cell, heading, start: t, end: t + d });
+      t += d;
+    }
+  }
+  const lastForward = [...steps].reverse().find((s) => s.kind === 'forward');
+  return { steps, cost: lastForward ? lastForward.end : 0 };
+}
+
+/**
+ * Another plan of the same agent with the same goal (the lemma is about one instance): either
+ * the base plan with its timing stretched by extra waits, or a fresh walk that happens to end
+ * at the same cell; null when neither is drawn.
+ */
+function samePlanGoal(rng: Rng, start: number, base: SippPlan, F: number, T: number): SippPlan | null {
+  const goal = endCell(start, base);
+  if (rng.next() < 0.5) {
+    const steps: SippStep[] = [];
+    let shift = 0;
+    for (const s of base.steps) {
+      if (rng.next() < 0.3) {
+        const d = 1 + rng.int(4);
+        steps.push({ kind: 'wait', from: s.from, to: s.from, heading: steps.length ? steps[steps.length - 1].heading : startHeadingOf(s), start: s.start + shift, end: s.start + shift + d });
+        shift += d;
+      }
+      steps.push({ ...s, start: s.start + shift, end: s.end + shift });
+    }
+    const lastForward = [...steps].reverse().find((s) => s.kind === 'forward');
+    return { steps, cost: lastForward ? lastForward.end : 0 };
+  }
+  for (let tries = 0; tries < 20; tries++) {
+    const p = randomPlan(rng, start, F, T, 2 + rng.int(7));
+    if (endCell(start, p) === goal) return p;
+  }
+  return null;
+}
+
+/** The heading an agent has before step `s` (the inverse of a turn; unchanged otherwise). */
+function startHeadingOf(s: SippStep): number {
+  if (s.kind === 'turn-left') return turnedRight(s.heading);
+  if (s.kind === 'turn-right') return turnedLeft(s.heading);
+  return s.heading;
+}
+
+function endCell(start: number, plan: SippPlan): number {
+  return plan.steps.reduce((c, s) => s.to, start);
+}
+
+/** Whether a plan breaks a ban, by the plain reading of each ban's definition. */
+function violates(agent: number, start: number, plan: SippPlan, ban: AgentBan, F: number): boolean {
+  const visits = cellVisits(agent, start, plan, F);
+  if (ban.kind === 'occupancy') return visits.some((v) => v.cell === ban.cell && v.enter < ban.to && ban.from < v.leave);
+  if (ban.kind === 'move') return plan.steps.some((s) => s.kind === 'forward' && s.from === ban.fromCell && s.to === ban.toCell && ban.from <= s.start && s.start < ban.to);
+  return visits[visits.length - 1].enter < ban.notBefore;
+}
+
+function toSchedule(plans: readonly SippPlan[]): Schedule {
+  const xy = (c: number): [number, number] => [c % grid.width, Math.floor(c / grid.width)];
+  return plans.map((p) => p.steps.map((s, step) => ({ action: s.kind, from: xy(s.from), to: xy(s.to), heading: headingLetter(s.heading), start: s.start, end: s.end, step })));
+}
+
+describe('branchOptions', () => {
+  it('every split is sound and makes progress on sampled plan pairs', () => {
+    // Arrange
+    const rng = createRng(31337);
+    const profile: RobotProfile = { forwardMs: 3, quarterTurnMs: 2, waitMs: 1, cellPitchMm: 1, robotDiameterMm: 1, timingJitter: 0 };
+    const F = profile.forwardMs;
+    let bothViolated = 0;
+    const kinds = new Set<string>();
+    for (let trial = 0; trial < 150; trial++) {
+      const starts = [rng.int(9), rng.int(9)];
+      if (starts[0] === starts[1]) continue;
+      const base = starts.map((s) => randomPlan(rng, s, F, profile.quarterTurnMs, 3 + rng.int(6)));
+      const { conflicts } = findConflicts(base.map((p, a) => cellVisits(a, starts[a], p, F)), 3);
+      for (const conflict of conflicts) {
+        for (const option of branchOptions(conflict, F)) {
+          kinds.add(option.kind);
+          // Assert progress: each agent's current plan breaks its own child's bans.
+          for (const child of option.children) {
+            expect(child.bans.some((b) => violates(child.agent, starts[child.agent], base[child.agent], b, F))).toBe(true);
+          }
+          // Act / Assert soundness on 60 fresh plan pairs from the same starts.
+          for (let k = 0; k < 60; k++) {
+            const plans = starts.map((s, a) => samePlanGoal(rng, s, base[a], F, profile.quarterTurnMs));
+            if (plans.some((p) => p === null)) continue;
+            const isBoth = option.children.every((child) => child.bans.some((b) => violates(child.agent, starts[child.agent], plans[child.agent] as SippPlan, b, F)));
+            if (!isBoth) continue;
+            bothViolated++;
+            const inst = { grid, agents: starts.map((s, a) => ({ start: s, goal: endCell(s, base[a]) })) };
+            const check = validateSchedule(inst, toSchedule(plans as SippPlan[]), profile, { startHeading: 'free' });
+            expect(check.violation?.kind).toBe('overlap');
+          }
+        }
+      }
+    }
+    expect(bothViolated).toBeGreaterThan(500);
+    expect([...kinds].sort()).toEqual(['move-goal', 'move-move', 'move-occupancy']);
+  });
+});
