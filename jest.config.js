@@ -40,6 +40,8 @@ module.exports = {
     nodeProject('shared', ['<rootDir>/shared'], ['**/*.spec.ts']),
     nodeProject('api', ['<rootDir>/api', '<rootDir>/scripts'], ['**/*.spec.ts']),
     nodeProject('integration', ['<rootDir>/test/integration'], ['**/*.spec.ts']),
+    // Real worker processes, SIGKILL and a PostgreSQL restart (test/reliability/): slower, run alone.
+    nodeProject('reliability', ['<rootDir>/test/reliability'], ['**/*.spec.ts']),
     nodeProject('e2e', ['<rootDir>/test/e2e'], ['**/*.e2e.ts'], { testTimeout: 120000 }),
     {
       displayName: 'web',

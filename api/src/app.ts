@@ -71,6 +71,8 @@ export function createApp(config: AppConfig, deps: Partial<AppDeps> = {}): Quart
   let pool = deps.pool;
   if (!pool && !deps.sessionStore) {
     const created = new pg.Pool({ connectionString: needUrl(), max: 5 });
+    // An idle client losing its server (e.g. a PostgreSQL restart) is reported here; unhandled it would end the process.
+    created.on('error', (err) => logger.warn({ err: err.message }, 'session pool: idle connection lost'));
     owned.push(() => created.end());
     pool = created;
   }
