@@ -10,7 +10,8 @@ import { COLLISION_MODES, EXECUTION_LIMITS, EXECUTION_POLICY_NAMES, type Collisi
 import { ACTION_KINDS, HEADINGS, PLAN_MODELS, type CellXY, type Heading, type PlanModel, type RobotProfile, type Schedule } from './plan';
 
 const whole = (min: number, max: number) => z.number().int().min(min).max(max);
-const Cell = z.tuple([whole(0, 100_000), whole(0, 100_000)]);
+// Read-only so clients can send the CellXY and Schedule values they hold without copying.
+const Cell = z.tuple([whole(0, 100_000), whole(0, 100_000)]).readonly();
 
 /** Timing noise of a batch; jitterCv absent = the profile's timing jitter. */
 export const ExecutionNoiseSchema = z.object({
@@ -50,7 +51,7 @@ export const ExecutionInstanceSchema = z.union([
   z.object({
     mapId: z.number().int().positive(),
     agents: z.array(z.object({ start: Cell, goal: Cell, startHeading: z.enum(HEADINGS).optional() }).strict())
-      .min(1).max(EXECUTION_LIMITS.maxAgents),
+      .min(1).max(EXECUTION_LIMITS.maxAgents).readonly(),
   }).strict(),
 ]);
 
@@ -67,8 +68,8 @@ export const ScheduledActionSchema = z.object({
 
 /** A plan sent in the body: unit-step paths of cells (classic, uniform-duration, k-robust) or a timed schedule (any model). */
 export const PlanInputSchema = z.discriminatedUnion('kind', [
-  z.object({ kind: z.literal('paths'), paths: z.array(z.array(Cell).min(1)).min(1).max(EXECUTION_LIMITS.maxAgents) }).strict(),
-  z.object({ kind: z.literal('schedule'), schedule: z.array(z.array(ScheduledActionSchema)).min(1).max(EXECUTION_LIMITS.maxAgents) }).strict(),
+  z.object({ kind: z.literal('paths'), paths: z.array(z.array(Cell).min(1).readonly()).min(1).max(EXECUTION_LIMITS.maxAgents).readonly() }).strict(),
+  z.object({ kind: z.literal('schedule'), schedule: z.array(z.array(ScheduledActionSchema.readonly()).readonly()).min(1).max(EXECUTION_LIMITS.maxAgents).readonly() }).strict(),
 ]);
 
 /** POST /api/executions for a stored sweep result. */

@@ -90,6 +90,20 @@ export async function rerunInBrowser(
   return { summary: summarise(runner, settings, perRun, isAborted), track: trackFromRunner(runner) };
 }
 
+/** The track of one run (no batch): what the viewer shows next to a summary computed elsewhere. */
+export function trackOfRun(
+  instance: MapfInstance,
+  plan: { readonly timeline: 'steps' | 'ms'; readonly schedule: Schedule },
+  profile: RobotProfile,
+  settings: RerunSettings,
+): FleetTrack {
+  const runner = new ExecutionRunner(instance, plan, profile, {
+    policy: settings.policy, noise: settings.noise, seed: settings.seed, onCollision: settings.onCollision,
+  });
+  runner.run(Math.max(0, settings.shownRun));
+  return trackFromRunner(runner);
+}
+
 /** The summary of a batch, field for field as simulateExecution computes it, in JSON form. */
 function summarise(runner: ExecutionRunner, settings: RerunSettings, perRun: readonly RunMetrics[], isAborted: boolean): ExecutionSummaryView {
   const n = perRun.length;

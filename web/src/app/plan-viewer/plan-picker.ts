@@ -1,0 +1,84 @@
+/**
+ * Choosing what to view: instance set → scenario → number of agents → plan model (and a second
+ * model to compare) → start heading and robot profile. Emits the choice; the page solves it.
+ */
+import { ChangeDetectionStrategy, Component, computed, inject, output, signal } from '@angular/core';
+import { toSignal } from '@angular/core/rxjs-interop';
+import { ReactiveFormsModule, NonNullableFormBuilder, Validators } from '@angular/forms';
+import { MatButtonModule } from '@angular/material/button';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatInputModule } from '@angular/material/input';
+import { MatSelectModule } from '@angular/material/select';
+import { catchError, of } from 'rxjs';
+import { EXECUTION_LIMITS, STARTER_PROFILE } from '@shared/executions-constants';
+import type { InstanceSetDetail } from '@shared/instance-sets';
+import { HEADINGS, PLAN_MODELS, type PlanModel, type RobotProfile, type StartHeading } from '@shared/plan';
+import { InstanceSetApi } from '../instance-sets/instance-set-api';
+
+/** What the picker asks the page to open. */
+export interface PlanChoice {
+  readonly scenarioId: number;
+  readonly agents: number;
+  readonly models: readonly PlanModel[];
+  readonly startHeading: StartHeading;
+  readonly profile: RobotProfile;
+}
+
+/** The instance and model chooser. */
+@Component({
+  selector: 'app-plan-picker',
+  templateUrl: './plan-picker.html',
+  styleUrl: './plan-picker.scss',
+  imports: [ReactiveFormsModule, MatFormFieldModule, MatSelectModule, MatInputModule, MatButtonModule],
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class PlanPicker {
+  private readonly api = inject(InstanceSetApi);
+  private readonly fb = inject(NonNullableFormBuilder);
+  /** Emitted with the choice when the user opens it. */
+  readonly openPlan = output<PlanChoice>();
+  protected readonly models = PLAN_MODELS;
+  protected readonly headings = ['free', ...HEADINGS] as const;
+  protected readonly maxSolveAgents = EXECUTION_LIMITS.maxSolveAgents;
+  protected readonly sets = toSignal(this.api.list({ q: '', page: 1, pageSize: 100 }).pipe(catchError(() => of(null))));
+  protected readonly set = signal<InstanceSetDetail | null>(null);
+  protected readonly form = this.fb.group({
+    setId: this.fb.control<number | null>(null, Validators.required),
+    scenarioId: this.fb.control<number | null>(null, Validators.required),
+    agents: this.fb.control(4, [Validators.required, Validators.min(1), Validators.max(EXECUTION_LIMITS.maxSolveAgents)]),
+    model: this.fb.control<PlanModel>('classic'),
+    compare: this.fb.control<PlanModel | 'none'>('none'),
+    startHeading: this.fb.control<StartHeading>('free'),
+    forwardMs: this.fb.control(STARTER_PROFILE.forwardMs, [Validators.required, Validators.min(1)]),
+    quarterTurnMs: this.fb.control(STARTER_PROFILE.quarterTurnMs, [Validators.required, Validators.min(1)]),
+    waitMs: this.fb.control(STARTER_PROFILE.waitMs, [Validators.required, Validators.min(1)]),
+    cellPitchMm: this.fb.control(STARTER_PROFILE.cellPitchMm, [Validators.required, Validators.min(1)]),
+    robotDiameterMm: this.fb.control(STARTER_PROFILE.robotDiameterMm, [Validators.required, Validators.min(1)]),
+  });
+  protected readonly scenarios = computed(() => this.set()?.scenarios ?? []);
+
+  /** Loads the chosen set's scenarios. */
+  protected chooseSet(id: number): void {
+    this.form.controls.scenarioId.setValue(null);
+    this.set.set(null);
+    this.api.get(id).pipe(catchError(() => of(null))).subscribe((detail) => this.set.set(detail));
+  }
+
+  /** Emits the choice. */
+  protected openChoice(): void {
+    const v = this.form.getRawValue();
+    if (this.form.invalid || v.scenarioId === null) return;
+    const models: PlanModel[] = [v.model];
+    if (v.compare !== 'none' && v.compare !== v.model) models.push(v.compare);
+    this.openPlan.emit({
+      scenarioId: v.scenarioId,
+      agents: v.agents,
+      models,
+      startHeading: v.startHeading,
+      profile: {
+        forwardMs: v.forwardMs, quarterTurnMs: v.quarterTurnMs, waitMs: v.waitMs,
+        cellPitchMm: v.cellPitchMm, robotDiameterMm: v.robotDiameterMm, timingJitter: 0,
+      },
+    });
+  }
+}

@@ -1,0 +1,284 @@
+/**
+ * The page at /plans/view: one instance under one or two plan models, solved and simulated by
+ * the server, replayed on canvases that share one clock, with the figures of each model, a
+ * per-robot timeline and the finish times; policy, noise and seed can be changed and re-run
+ * here in the browser (solvers/execute) or on the server.
+ *
+ * Query: `scenario`, `agents`, `model`, optional `compare` (second model), `heading` (start
+ * heading) and `profile` (forward,quarterTurn,wait,pitch,diameter); or `execution=ID[,ID]`.
+ */
+import { ChangeDetectionStrategy, Component, DestroyRef, computed, effect, inject, input, signal, untracked } from '@angular/core';
+import { ReactiveFormsModule, NonNullableFormBuilder, Validators } from '@angular/forms';
+import { MatButtonModule } from '@angular/material/button';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatInputModule } from '@angular/material/input';
+import { MatProgressBarModule } from '@angular/material/progress-bar';
+import { MatSelectModule } from '@angular/material/select';
+import { MatSliderModule } from '@angular/material/slider';
+import { Router } from '@angular/router';
+import { firstValueFrom } from 'rxjs';
+import type { ExecutionSummaryView, ExecutionView, InstanceExecutionInput } from '@shared/executions';
+import {
+  COLLISION_MODES, EXECUTION_LIMITS, EXECUTION_POLICY_NAMES, SAFETY_NOTE, STARTER_PROFILE,
+  type CollisionModeName, type ExecutionPolicyName,
+} from '@shared/executions-constants';
+import { HEADINGS, PLAN_MODELS, type PlanModel, type RobotProfile, type StartHeading } from '@shared/plan';
+import type { MapfInstance } from '@solvers/instance';
+import { ExecutionApi } from './execution-api';
+import { ExecutionSummaryCard } from './execution-summary-card';
+import { FinishHistogramChart } from './finish-histogram-chart';
+import { finishTimes } from './finish-histogram';
+import { FleetCanvas } from './fleet-canvas';
+import { rerunInBrowser, toMapfInstance, trackOfRun, type RerunSettings } from './fleet-rerun';
+import type { FleetTrack } from './fleet-track';
+import { GanttChart } from './gantt-chart';
+import { ganttSegments, type GanttSegments } from './gantt-layout';
+import { PlanPicker, type PlanChoice } from './plan-picker';
+import { REPLAY_SPEEDS, ReplayClock } from './replay-clock';
+import { formatSeconds } from './viewer-format';
+import { GANTT_COLOURS } from './viewer-palette';
+
+/** One model's column: the stored execution, the summary shown and the run drawn. */
+export interface ViewerPane {
+  readonly execution: ExecutionView;
+  readonly instance: MapfInstance;
+  readonly summary: ExecutionSummaryView;
+  readonly computedIn: 'server' | 'browser';
+  readonly track: FleetTrack | null;
+  readonly segments: GanttSegments | null;
+  readonly finishes: readonly number[];
+  /** Run drawn, 0-based. */
+  readonly shownRun: number;
+}
+
+/** The plan viewer page. */
+@Component({
+  selector: 'app-plan-viewer',
+  templateUrl: './plan-viewer.html',
+  styleUrl: './plan-viewer.scss',
+  imports: [
+    ReactiveFormsModule, MatButtonModule, MatFormFieldModule, MatInputModule, MatSelectModule, MatSliderModule, MatProgressBarModule,
+    FleetCanvas, GanttChart, FinishHistogramChart, ExecutionSummaryCard, PlanPicker,
+  ],
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export default class PlanViewer {
+  private readonly api = inject(ExecutionApi);
+  private readonly router = inject(Router);
+  private readonly fb = inject(NonNullableFormBuilder);
+  /** Query: scenario id. */
+  readonly scenario = input<string>();
+  /** Query: number of agents (first k rows of the scenario). */
+  readonly agents = input<string>();
+  /** Query: the plan model. */
+  readonly model = input<string>();
+  /** Query: a second plan model shown side by side. */
+  readonly compare = input<string>();
+  /** Query: start heading rule (free, N, E, S, W). */
+  readonly heading = input<string>();
+  /** Query: robot profile as forward,quarterTurn,wait,pitch,diameter. */
+  readonly profile = input<string>();
+  /** Query: stored execution ids, comma-separated. */
+  readonly execution = input<string>();
+
+  protected readonly safetyNote = SAFETY_NOTE;
+  protected readonly policies = EXECUTION_POLICY_NAMES;
+  protected readonly collisionModes = COLLISION_MODES;
+  protected readonly speeds = REPLAY_SPEEDS;
+  protected readonly robotLegend = [
+    { label: 'Moving as planned', colour: 'var(--mat-sys-primary)' },
+    { label: 'Waiting on dependency', colour: GANTT_COLOURS.held },
+    { label: 'At goal', colour: '#8aa0a6' },
+    { label: 'Stopped by collision', colour: GANTT_COLOURS.stopped },
+    { label: 'Collision', colour: 'var(--mat-sys-error)', isRing: true },
+  ];
+  protected readonly clock = new ReplayClock();
+  protected readonly panes = signal<readonly ViewerPane[]>([]);
+  protected readonly isBusy = signal(false);
+  protected readonly problem = signal<string | null>(null);
+  protected readonly settings = this.fb.group({
+    policy: this.fb.control<ExecutionPolicyName>('open-loop'),
+    jitterCv: this.fb.control(0, [Validators.required, Validators.min(0), Validators.max(2)]),
+    stallProbability: this.fb.control(0, [Validators.required, Validators.min(0), Validators.max(1)]),
+    stallMs: this.fb.control(0, [Validators.required, Validators.min(0), Validators.max(600_000)]),
+    seed: this.fb.control(1, [Validators.required, Validators.min(0), Validators.max(0xffffffff)]),
+    runs: this.fb.control(20, [Validators.required, Validators.min(1), Validators.max(EXECUTION_LIMITS.maxRuns)]),
+    shownRun: this.fb.control(1, [Validators.required, Validators.min(1)]),
+    onCollision: this.fb.control<CollisionModeName>('count'),
+  });
+  protected readonly timeText = computed(() => `${formatSeconds(this.clock.timeMs())} of ${formatSeconds(this.clock.horizonMs())}`);
+  protected readonly sourceText = computed(() => {
+    const first = this.panes()[0]?.execution;
+    if (!first) return '';
+    const s = first.source;
+    return `${s.scenarioName ?? 'tasks on ' + s.mapName} · map ${s.mapName} (${first.instance.width}×${first.instance.height}) · ${first.instance.agents.length} agents`;
+  });
+  protected readonly canvasPx = computed(() => (this.panes().length > 1 ? 440 : 620));
+
+  constructor() {
+    inject(DestroyRef).onDestroy(() => this.clock.destroy());
+    effect(() => {
+      const query = {
+        scenario: this.scenario(), agents: this.agents(), model: this.model(), compare: this.compare(),
+        heading: this.heading(), profile: this.profile(), execution: this.execution(),
+      };
+      untracked(() => void this.openFromQuery(query));
+    });
+  }
+
+  /** Puts a picked choice into the URL (which opens it). */
+  protected openChoice(choice: PlanChoice): void {
+    const p = choice.profile;
+    void this.router.navigate(['/plans/view'], {
+      queryParams: {
+        scenario: choice.scenarioId, agents: choice.agents, model: choice.models[0], compare: choice.models[1],
+        heading: choice.startHeading, profile: [p.forwardMs, p.quarterTurnMs, p.waitMs, p.cellPitchMm, p.robotDiameterMm].join(','),
+      },
+    });
+  }
+
+  /** Play or pause. */
+  protected togglePlay(): void {
+    if (this.clock.isPlaying()) this.clock.pause();
+    else this.clock.play();
+  }
+
+  /** Re-simulates every pane here, with the settings of the form. */
+  protected async rerunHere(): Promise<void> {
+    if (this.settings.invalid || this.panes().length === 0) return;
+    const settings = this.rerunSettings();
+    await this.busy(async () => {
+      const next: ViewerPane[] = [];
+      for (const pane of this.panes()) {
+        const result = await rerunInBrowser(pane.instance, pane.execution.plan, pane.execution.profile, settings);
+        next.push(paneWith(pane, result.summary, 'browser', result.track, settings.shownRun));
+      }
+      this.showPanes(next);
+    });
+  }
+
+  /** Re-simulates every pane on the server (same plans, sent as schedules), with the settings of the form. */
+  protected async rerunOnServer(): Promise<void> {
+    if (this.settings.invalid || this.panes().length === 0) return;
+    const settings = this.rerunSettings();
+    await this.busy(async () => {
+      const next: ViewerPane[] = [];
+      for (const pane of this.panes()) {
+        const e = pane.execution;
+        const fresh = await firstValueFrom(this.api.create({
+          instance: e.source.scenarioId !== undefined ? { scenarioId: e.source.scenarioId, agents: e.instance.agents.length } : { mapId: e.source.mapId, agents: [...e.instance.agents] },
+          model: e.model,
+          modelOptions: e.modelOptions,
+          profile: e.profile,
+          plan: { kind: 'schedule', schedule: e.plan.schedule },
+          ...this.requestSettings(settings),
+        }));
+        const track = trackOfRun(pane.instance, e.plan, e.profile, settings);
+        next.push(paneWith({ ...pane, execution: { ...e, summary: fresh.summary } }, fresh.summary, 'server', track, settings.shownRun));
+      }
+      this.showPanes(next);
+    });
+  }
+
+  private async openFromQuery(q: Record<string, string | undefined>): Promise<void> {
+    this.problem.set(null);
+    const settings = this.rerunSettings();
+    await this.busy(async () => {
+      let executions: ExecutionView[];
+      if (q['execution']) {
+        const ids = q['execution'].split(',').map(Number).filter((n) => Number.isInteger(n) && n > 0).slice(0, 2);
+        executions = await Promise.all(ids.map((id) => firstValueFrom(this.api.get(id))));
+        if (executions[0]) this.adoptSettings(executions[0].summary);
+      } else if (q['scenario'] && q['agents'] && q['model']) {
+        const models = [q['model'], q['compare']].filter((m): m is PlanModel => m !== undefined && (PLAN_MODELS as readonly string[]).includes(m));
+        const unique = [...new Set(models)];
+        const heading = (['free', ...HEADINGS] as readonly string[]).includes(q['heading'] ?? '') ? (q['heading'] as StartHeading) : 'free';
+        const base = {
+          instance: { scenarioId: Number(q['scenario']), agents: Number(q['agents']) },
+          modelOptions: { startHeading: heading },
+          profile: parseProfile(q['profile']),
+          ...this.requestSettings(settings),
+        };
+        executions = [];
+        for (const model of unique) executions.push(await firstValueFrom(this.api.create({ ...base, model })));
+      } else {
+        this.showPanes([]);
+        return;
+      }
+      this.showPanes(executions.map((e) => {
+        const instance = toMapfInstance(e.instance);
+        const shown = Math.min(settings.shownRun, e.summary.runs - 1);
+        const track = trackOfRun(instance, e.plan, e.profile, { ...this.rerunSettingsFrom(e.summary), shownRun: shown });
+        return paneWith({ execution: e, instance } as ViewerPane, e.summary, 'server', track, shown);
+      }));
+    });
+  }
+
+  private showPanes(panes: readonly ViewerPane[]): void {
+    this.panes.set(panes);
+    const horizon = Math.max(0, ...panes.map((p) => p.track?.horizonMs ?? 0));
+    this.clock.setHorizon(horizon);
+    this.clock.redraw();
+  }
+
+  private async busy(work: () => Promise<void>): Promise<void> {
+    this.isBusy.set(true);
+    try {
+      await work();
+    } catch (err) {
+      // HTTP errors have been shown by the error interceptor; simulator refusals are shown here.
+      if (err instanceof Error) this.problem.set(err.message);
+    } finally {
+      this.isBusy.set(false);
+    }
+  }
+
+  private rerunSettings(): RerunSettings {
+    const v = this.settings.getRawValue();
+    return {
+      policy: v.policy,
+      noise: { jitterCv: v.jitterCv, stallProbability: v.stallProbability, stallMs: v.stallMs },
+      seed: v.seed,
+      runs: v.runs,
+      onCollision: v.onCollision,
+      shownRun: Math.max(0, Math.min(v.shownRun, v.runs) - 1),
+    };
+  }
+
+  private rerunSettingsFrom(s: ExecutionSummaryView): RerunSettings {
+    return { policy: s.policy, noise: s.noise, seed: s.seed, runs: s.runs, onCollision: s.onCollision, shownRun: 0 };
+  }
+
+  private requestSettings(s: RerunSettings): Pick<InstanceExecutionInput, 'policy' | 'noise' | 'seed' | 'runs' | 'onCollision'> {
+    return {
+      policy: s.policy,
+      noise: { jitterCv: s.noise.jitterCv, stallProbability: s.noise.stallProbability ?? 0, stallMs: s.noise.stallMs ?? 0 },
+      seed: s.seed, runs: s.runs, onCollision: s.onCollision,
+    };
+  }
+
+  private adoptSettings(s: ExecutionSummaryView): void {
+    this.settings.patchValue({
+      policy: s.policy, jitterCv: s.noise.jitterCv, stallProbability: s.noise.stallProbability, stallMs: s.noise.stallMs,
+      seed: s.seed, runs: s.runs, onCollision: s.onCollision,
+    });
+  }
+}
+
+/** A pane with a new summary and shown run (Gantt and finish times derived from the track). */
+function paneWith(pane: ViewerPane, summary: ExecutionSummaryView, computedIn: 'server' | 'browser', track: FleetTrack | null, shownRun: number): ViewerPane {
+  return {
+    ...pane, summary, computedIn, track, shownRun,
+    segments: track ? ganttSegments(track) : null,
+    finishes: track ? finishTimes(track) : [],
+  };
+}
+
+/** The profile from `forward,quarterTurn,wait,pitch,diameter`, or the starter profile (no jitter: noise is set separately). */
+function parseProfile(text: string | undefined): RobotProfile {
+  const base = { ...STARTER_PROFILE, timingJitter: 0 };
+  if (!text) return base;
+  const [forwardMs, quarterTurnMs, waitMs, cellPitchMm, robotDiameterMm] = text.split(',').map(Number);
+  const ok = [forwardMs, quarterTurnMs, waitMs, cellPitchMm, robotDiameterMm].every((v) => Number.isFinite(v) && v > 0);
+  return ok ? { ...base, forwardMs, quarterTurnMs, waitMs, cellPitchMm, robotDiameterMm } : base;
+}
