@@ -125,6 +125,8 @@ export class CbsEngine {
   private readonly weights = new Map<number, Map<number, number>>();
   private bytes = 0;
   private currentF = -1;
+  /** Ids are never reused: caches are keyed by them, and a discarded child must not alias a later one. */
+  private nextId = 1;
 
   /** Prepares a run. */
   constructor(private readonly cfg: CbsEngineConfig) {
@@ -235,7 +237,6 @@ export class CbsEngine {
     const conflicts: Conflict[] = [];
     for (let i = 0; i < L; i++) for (let j = i + 1; j < L; j++) this.pairConflicts(root.paths, i, j, conflicts);
     root.conflicts = conflicts;
-    this.nodes.length = 0;
     this.register(root);
     return root;
   }
@@ -314,7 +315,7 @@ export class CbsEngine {
 
   private generateChild(parent: CtNode, cons: readonly Constraint[]): CtNode | null {
     const L = this.L;
-    const id = this.nodes.length;
+    const id = this.nextId++;
     const owner = parent.owner.slice();
     const mddOwner = parent.mddOwner.slice();
     const paths = parent.paths.slice();
@@ -326,7 +327,7 @@ export class CbsEngine {
       if (affectsOthers(c)) for (let j = 0; j < L; j++) if (j !== li) affected[j] |= 2;
     }
     for (let j = 0; j < L; j++) if (affected[j] !== 0) owner[j] = id;
-    this.nodes.push(child);
+    this.nodes[id] = child;
     const replanned = new Uint8Array(L);
     const stateCell = this.model.stateCell;
     for (let j = 0; j < L; j++) {
@@ -336,7 +337,7 @@ export class CbsEngine {
         this.cfg.cat.fill(stateCell, paths, j);
         const p = this.cfg.planner.plan(this.cfg.agents[j], table, this.cfg.cat);
         if (p === null) {
-          this.nodes.pop();
+          delete this.nodes[id];
           return null;
         }
         child.g += p.length - paths[j].length;
@@ -362,7 +363,6 @@ export class CbsEngine {
     child.conflicts = conflicts;
     child.h = Math.max(0, parent.f - child.g);
     child.f = child.g + child.h;
-    this.nodes.pop();
     this.register(child);
     return child;
   }
