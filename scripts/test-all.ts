@@ -25,7 +25,14 @@ function main(): number {
   const root = resolve(__dirname, '..');
   process.chdir(root);
   ensureChromium();
-  ensureWebBuild();
+  // A broken web build fails the run but must not hide the other projects' results.
+  let buildFailures = 0;
+  try {
+    ensureWebBuild();
+  } catch (err) {
+    console.error(String(err));
+    buildFailures = 1;
+  }
 
   const outDir = mkdtempSync(join(tmpdir(), 'qt-jest-'));
   const outFile = join(outDir, 'results.json');
@@ -37,13 +44,13 @@ function main(): number {
   );
   if (!existsSync(outFile)) {
     console.log(`\nJest produced no results (exit ${jest.status}).`);
-    console.log('0 passed, 1 failed');
+    console.log(`0 passed, ${1 + buildFailures} failed`);
     return 1;
   }
   const summary = JSON.parse(readFileSync(outFile, 'utf8')) as JestSummary;
   rmSync(outDir, { recursive: true, force: true });
   // A suite that cannot even load has no test results of its own: count it as one failure.
-  const failed = summary.numFailedTests + summary.numRuntimeErrorTestSuites;
+  const failed = summary.numFailedTests + summary.numRuntimeErrorTestSuites + buildFailures;
   const skipped = summary.numPendingTests + summary.numTodoTests;
   console.log(`\n${summary.numPassedTests} passed, ${failed} failed${skipped ? `, ${skipped} skipped` : ''}`);
   return failed === 0 && jest.status === 0 && summary.numTotalTests > 0 ? 0 : 1;
