@@ -105,27 +105,29 @@ export class CollisionSweep {
     const stampValue = ++this.stampValue;
     const cellA = piece >= p.actionCount ? p.goalCell[piece - p.actionCount] : p.fromCell[piece];
     const cellB = piece >= p.actionCount ? cellA : p.toCell[piece];
-    const scan = (cell: number): void => {
-      for (let node = this.head[cell]; node !== -1; node = this.next[node]) {
-        const other = node >> 1;
-        if (this.stamp[other] === stampValue) continue;
-        this.stamp[other] = stampValue;
-        this.testPair(piece, r, other, t);
-      }
-    };
     if (this.reach === 0) {
-      scan(cellA);
-      if (cellB !== cellA) scan(cellB);
+      this.scan(cellA, piece, r, t, stampValue);
+      if (cellB !== cellA) this.scan(cellB, piece, r, t, stampValue);
     } else {
       const w = p.instance.grid.width;
       const h = p.instance.grid.height;
       const ax = cellA % w, ay = (cellA - ax) / w, bx = cellB % w, by = (cellB - bx) / w;
       const x0 = Math.max(0, Math.min(ax, bx) - this.reach), x1 = Math.min(w - 1, Math.max(ax, bx) + this.reach);
       const y0 = Math.max(0, Math.min(ay, by) - this.reach), y1 = Math.min(h - 1, Math.max(ay, by) + this.reach);
-      for (let y = y0; y <= y1; y++) for (let x = x0; x <= x1; x++) scan(y * w + x);
+      for (let y = y0; y <= y1; y++) for (let x = x0; x <= x1; x++) this.scan(y * w + x, piece, r, t, stampValue);
     }
     this.link(piece * 2, cellA);
     if (cellB !== cellA) this.link(piece * 2 + 1, cellB);
+  }
+
+  /** Tests `piece` against every active piece in `cell` not tested yet in this insertion. */
+  private scan(cell: number, piece: number, r: number, t: number, stampValue: number): void {
+    for (let node = this.head[cell]; node !== -1; node = this.next[node]) {
+      const other = node >> 1;
+      if (this.stamp[other] === stampValue) continue;
+      this.stamp[other] = stampValue;
+      this.testPair(piece, r, other, t);
+    }
   }
 
   private remove(piece: number): void {
