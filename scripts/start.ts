@@ -65,7 +65,7 @@ async function main(): Promise<void> {
     const smtp = smtpUrl ? undefined : await startFakeSmtp(config.fakeSmtpPort);
     if (smtp) {
       smtpUrl = smtp.url;
-      logger.info(`local fake SMTP server on ${smtp.url} (messages at ${config.publicUrl}/dev/mailbox)`);
+      logger.info(`local fake SMTP server on ${smtp.url} (messages at ${config.publicUrl}/sweeps/mailbox)`);
     }
     const server = await startServer({ config: { ...config, databaseUrl, smtpUrl }, logger, mailbox: smtp?.mailbox });
     steps.push({ name: 'HTTP server, fake OAuth provider and database pools', run: () => server.close() });

@@ -1,0 +1,99 @@
+/**
+ * The page at /sweeps/:id: progress bar, per-model counters, ETA and a live results grid,
+ * fed from the sweep's SSE stream (an RxJS stream over EventSource) on top of the rows read at
+ * load; and cancel.
+ */
+import { ChangeDetectionStrategy, Component, computed, inject, input, signal } from '@angular/core';
+import { takeUntilDestroyed, toObservable } from '@angular/core/rxjs-interop';
+import { DatePipe } from '@angular/common';
+import { AgGridAngular } from 'ag-grid-angular';
+import { ClientSideRowModelModule, ModuleRegistry, type GetRowIdParams } from 'ag-grid-community';
+import { MatButtonModule } from '@angular/material/button';
+import { MatProgressBarModule } from '@angular/material/progress-bar';
+import { RouterLink } from '@angular/router';
+import { merge, switchMap, map, catchError, of, EMPTY } from 'rxjs';
+import { isSweepOver, RUN_STATUSES, type SweepDetail, type SweepProgress, type SweepResultRow } from '@shared/runs';
+import { SweepApi } from './sweep-api';
+import { SWEEP_GRID_THEME, sweepGridColumns } from './sweep-grid-columns';
+import { formatDuration, RUN_STATUS_LABEL, SWEEP_STATUS_LABEL } from './sweep-status';
+
+ModuleRegistry.registerModules([ClientSideRowModelModule]);
+
+/** What the page shows of one sweep. */
+@Component({
+  selector: 'app-sweep-detail',
+  templateUrl: './sweep-detail.html',
+  styleUrl: './sweep-detail.scss',
+  imports: [DatePipe, RouterLink, AgGridAngular, MatButtonModule, MatProgressBarModule],
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export default class SweepDetailPage {
+  private readonly api = inject(SweepApi);
+  /** Route parameter. */
+  readonly id = input.required<string>();
+  protected readonly statusLabel = SWEEP_STATUS_LABEL;
+  protected readonly runLabel = RUN_STATUS_LABEL;
+  protected readonly shownStatuses = RUN_STATUSES.filter((s) => s !== 'pending');
+  protected readonly theme = SWEEP_GRID_THEME;
+  protected readonly sweep = signal<SweepDetail | null | undefined>(undefined);
+  protected readonly progress = signal<SweepProgress | null>(null);
+  private readonly rowsById = signal<ReadonlyMap<number, SweepResultRow>>(new Map());
+  /** Rows of runs that are over, newest run last. */
+  protected readonly rows = computed(() => [...this.rowsById().values()].filter((r) => r.status !== 'pending' && r.status !== 'running'));
+  protected readonly columns = computed(() => sweepGridColumns(this.sweep()?.definition.execution.policies ?? []));
+  protected readonly percent = computed(() => {
+    const p = this.progress();
+    return p && p.total > 0 ? (100 * p.done) / p.total : 0;
+  });
+  protected readonly eta = computed(() => {
+    const ms = this.progress()?.etaMs;
+    return ms === null || ms === undefined ? null : formatDuration(ms);
+  });
+  /** Whether the sweep can still be cancelled. */
+  protected readonly isLive = computed(() => {
+    const p = this.progress();
+    return p !== null && !isSweepOver(p.status);
+  });
+  protected readonly isCancelling = signal(false);
+  protected readonly rowId = (p: GetRowIdParams<SweepResultRow>) => String(p.data.runId);
+
+  constructor() {
+    toObservable(this.id).pipe(
+      map(Number),
+      switchMap((id) => merge(
+        this.api.get(id).pipe(map((sweep) => ({ kind: 'sweep' as const, sweep })), catchError(() => of({ kind: 'missing' as const }))),
+        this.api.results(id).pipe(map((r) => ({ kind: 'rows' as const, rows: r.items })), catchError(() => EMPTY)),
+        this.api.events(id).pipe(map((event) => ({ kind: 'event' as const, event }))),
+      )),
+      takeUntilDestroyed(),
+    ).subscribe((m) => {
+      if (m.kind === 'missing') this.sweep.set(null);
+      else if (m.kind === 'sweep') {
+        this.sweep.set(m.sweep);
+        if (!this.progress()) this.progress.set(m.sweep.progress);
+      } else if (m.kind === 'rows') this.mergeRows(m.rows);
+      else if (m.event.type === 'progress') this.progress.set(m.event.progress);
+      else this.mergeRows([m.event.row]);
+    });
+  }
+
+  /** Asks the server to cancel the sweep. */
+  protected cancelSweep(): void {
+    const s = this.sweep();
+    if (!s) return;
+    this.isCancelling.set(true);
+    this.api.cancel(s.id).subscribe({
+      next: (d) => {
+        this.progress.set(d.progress);
+        this.isCancelling.set(false);
+      },
+      error: () => this.isCancelling.set(false),
+    });
+  }
+
+  private mergeRows(rows: readonly SweepResultRow[]): void {
+    const next = new Map(this.rowsById());
+    for (const r of rows) next.set(r.runId, r);
+    this.rowsById.set(next);
+  }
+}

@@ -1,0 +1,80 @@
+/**
+ * The page at /sweeps/new: a typed reactive form for a sweep definition, with a live count of
+ * the runs it expands to (computed by the same shared `sweepSize` the server uses to refuse
+ * absurd sizes), then launch and go to the sweep's live page.
+ */
+import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
+import { takeUntilDestroyed, toSignal } from '@angular/core/rxjs-interop';
+import { NonNullableFormBuilder, ReactiveFormsModule } from '@angular/forms';
+import { MatButtonModule } from '@angular/material/button';
+import { MatButtonToggleModule } from '@angular/material/button-toggle';
+import { MatCheckboxModule } from '@angular/material/checkbox';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatInputModule } from '@angular/material/input';
+import { MatSelectModule } from '@angular/material/select';
+import { Router } from '@angular/router';
+import { catchError, distinctUntilChanged, map, of, startWith, switchMap } from 'rxjs';
+import type { InstanceSetDetail } from '@shared/instance-sets';
+import { checkSweepSize, sweepSize } from '@shared/sweeps';
+import { InstanceSetApi } from '../instance-sets/instance-set-api';
+import { SweepApi } from './sweep-api';
+import { definitionFromForm, FORM_MODELS, FORM_POLICIES, FORM_SWITCHES, SWEEP_FORM_DEFAULTS, type SweepFormValue } from './sweep-form-rules';
+
+/** The sweep form. */
+@Component({
+  selector: 'app-sweep-editor',
+  templateUrl: './sweep-editor.html',
+  styleUrl: './sweep-editor.scss',
+  imports: [ReactiveFormsModule, MatFormFieldModule, MatInputModule, MatSelectModule, MatCheckboxModule, MatButtonModule, MatButtonToggleModule],
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export default class SweepEditor {
+  private readonly api = inject(SweepApi);
+  private readonly sets = inject(InstanceSetApi);
+  private readonly router = inject(Router);
+  protected readonly models = FORM_MODELS;
+  protected readonly switches = FORM_SWITCHES;
+  protected readonly policies = FORM_POLICIES;
+  protected readonly form = inject(NonNullableFormBuilder).group({
+    ...Object.fromEntries(Object.entries(SWEEP_FORM_DEFAULTS).map(([k, v]) => [k, [v]])),
+  } as { [K in keyof SweepFormValue]: [SweepFormValue[K]] });
+  /** The sets the viewer may see (first 100). */
+  protected readonly setChoices = toSignal(this.sets.list({ q: '', page: 1, pageSize: 100 }).pipe(map((r) => r.items), catchError(() => of([]))), { initialValue: [] });
+  protected readonly value = toSignal(this.form.valueChanges.pipe(map(() => this.form.getRawValue()), startWith(this.form.getRawValue())), { requireSync: true });
+  /** The chosen set with its scenarios (null while none is chosen or loading). */
+  protected readonly chosenSet = toSignal(this.form.controls.instanceSetId.valueChanges.pipe(
+    startWith(this.form.controls.instanceSetId.value),
+    distinctUntilChanged(),
+    switchMap((id) => (id === null ? of(null) : this.sets.get(id).pipe(startWith(null), catchError(() => of(null))))),
+  ), { initialValue: null as InstanceSetDetail | null });
+  /** The definition or the form's first problem. */
+  protected readonly built = computed(() => definitionFromForm(this.value()));
+  /** Size and refusal, from the shared rule. */
+  protected readonly size = computed(() => {
+    const b = this.built();
+    const set = this.chosenSet();
+    if (!('definition' in b) || !set) return null;
+    const size = sweepSize(b.definition, set.scenarios.map((s) => ({ id: s.id, maxAgents: s.maxAgents })));
+    return { ...size, refusal: checkSweepSize(size) };
+  });
+  /** Whether a launch request is on its way. */
+  protected readonly isLaunching = signal(false);
+  /** Whether the form may be launched. */
+  protected readonly canLaunch = computed(() => !this.isLaunching() && this.size() !== null && this.size()?.refusal === null);
+
+  constructor() {
+    // A new set means new scenarios: the previous choice no longer applies.
+    this.form.controls.instanceSetId.valueChanges.pipe(takeUntilDestroyed()).subscribe(() => this.form.controls.scenarioIds.setValue([]));
+  }
+
+  /** Sends the definition and opens the sweep's page. */
+  protected launchSweep(): void {
+    const b = this.built();
+    if (!('input' in b)) return;
+    this.isLaunching.set(true);
+    this.api.launch(b.input).subscribe({
+      next: (sweep) => void this.router.navigate(['/sweeps', sweep.id]),
+      error: () => this.isLaunching.set(false),
+    });
+  }
+}

@@ -1,0 +1,26 @@
+import { definitionFromForm, parseIntegers, SWEEP_FORM_DEFAULTS } from './sweep-form-rules';
+
+describe('sweep form rules', () => {
+  it('builds a valid definition from the defaults once a set is chosen', () => {
+    const out = definitionFromForm({ ...SWEEP_FORM_DEFAULTS, name: 'floor', instanceSetId: 3 });
+    expect('definition' in out && out.definition.agentCounts).toEqual({ kind: 'list', values: [2, 4, 6] });
+    expect('definition' in out && out.definition.timeLimitMs).toBe(30_000);
+  });
+
+  it('names the field of the first problem', () => {
+    expect(definitionFromForm({ ...SWEEP_FORM_DEFAULTS, name: 'x', instanceSetId: 3, countList: '2, x' })).toEqual({ problem: 'agentCounts.values.1: Invalid input: expected number, received NaN' });
+    expect(definitionFromForm({ ...SWEEP_FORM_DEFAULTS, name: 'x' })).toEqual({ problem: 'Choose an instance set.' });
+  });
+
+  it('turns ablation checkboxes into switches set to false on unit-step models only', () => {
+    const out = definitionFromForm({ ...SWEEP_FORM_DEFAULTS, name: 'x', instanceSetId: 1, models: ['classic', 'weighted-split'], switchesOff: ['wdg'] });
+    expect('definition' in out && out.definition.models).toEqual([
+      { model: 'classic', startHeading: 'free', switches: { wdg: false } },
+      { model: 'weighted-split', startHeading: 'free' },
+    ]);
+  });
+
+  it('parses integer lists with commas and spaces', () => {
+    expect(parseIntegers('1, 2 3;4')).toEqual([1, 2, 3, 4]);
+  });
+});

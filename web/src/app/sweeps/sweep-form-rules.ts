@@ -1,0 +1,78 @@
+/**
+ * Rules of the sweep form, outside the component: the defaults, and the conversion of the form's
+ * values into a SweepDefinitionInput (with the same zod schema the server applies).
+ */
+import { PLAN_MODELS, type PlanModel } from '@shared/plan';
+import { CBS_SWITCH_NAMES, SWEEP_POLICIES, SweepDefinitionSchema, type CbsSwitchName, type SweepDefinition, type SweepDefinitionInput, type SweepPolicy } from '@shared/sweeps';
+
+/** The values of the form, flat, as the controls hold them. */
+export interface SweepFormValue {
+  name: string;
+  instanceSetId: number | null;
+  scenarioIds: number[];
+  countMode: 'list' | 'range';
+  countList: string;
+  countFrom: number;
+  countTo: number;
+  countStep: number;
+  models: PlanModel[];
+  k: number;
+  startHeading: 'N' | 'E' | 'S' | 'W' | 'free';
+  switchesOff: CbsSwitchName[];
+  forwardMs: number;
+  quarterTurnMs: number;
+  waitMs: number;
+  cellPitchMm: number;
+  robotDiameterMm: number;
+  timingJitter: number;
+  timeLimitS: number;
+  memoryLimitMb: number;
+  policies: SweepPolicy[];
+  stallProbability: number;
+  stallMs: number;
+  monteCarloRuns: number;
+  seeds: string;
+}
+
+/** A first sweep that finishes in seconds on a laptop. */
+export const SWEEP_FORM_DEFAULTS: SweepFormValue = {
+  name: '', instanceSetId: null, scenarioIds: [], countMode: 'list', countList: '2, 4, 6', countFrom: 2, countTo: 10, countStep: 2,
+  models: ['classic', 'weighted-split'], k: 1, startHeading: 'free', switchesOff: [],
+  forwardMs: 1000, quarterTurnMs: 600, waitMs: 1000, cellPitchMm: 500, robotDiameterMm: 350, timingJitter: 0.1,
+  timeLimitS: 30, memoryLimitMb: 512, policies: ['open-loop', 'dependency-gated'], stallProbability: 0, stallMs: 0, monteCarloRuns: 20, seeds: '1',
+};
+
+/** Model names in display order, with the ones that need `k`. */
+export const FORM_MODELS = PLAN_MODELS;
+/** Switch names for the ablation checkboxes. */
+export const FORM_SWITCHES = CBS_SWITCH_NAMES;
+/** Policies for the replay checkboxes. */
+export const FORM_POLICIES = SWEEP_POLICIES;
+
+/** Integers in a comma/space separated text; NaN entries make the list invalid. */
+export function parseIntegers(text: string): number[] {
+  return text.split(/[\s,;]+/).filter((t) => t !== '').map((t) => (/^\d+$/.test(t) ? Number(t) : NaN));
+}
+
+/** The definition the form describes, or the first problem with it as a sentence. */
+export function definitionFromForm(v: SweepFormValue): { readonly definition: SweepDefinition; readonly input: SweepDefinitionInput } | { readonly problem: string } {
+  if (v.instanceSetId === null) return { problem: 'Choose an instance set.' };
+  const unitStep = { startHeading: v.startHeading, switches: Object.fromEntries(v.switchesOff.map((n) => [n, false])) };
+  const input: SweepDefinitionInput = {
+    name: v.name,
+    instances: { instanceSetId: v.instanceSetId, ...(v.scenarioIds.length ? { scenarioIds: v.scenarioIds } : {}) },
+    agentCounts: v.countMode === 'list' ? { kind: 'list', values: parseIntegers(v.countList) } : { kind: 'range', from: v.countFrom, to: v.countTo, step: v.countStep },
+    models: v.models.map((model) => (model === 'weighted-split' ? { model, startHeading: v.startHeading } : model === 'k-robust' ? { model, k: v.k, ...unitStep } : { model, ...unitStep })),
+    robotProfile: { forwardMs: v.forwardMs, quarterTurnMs: v.quarterTurnMs, waitMs: v.waitMs, cellPitchMm: v.cellPitchMm, robotDiameterMm: v.robotDiameterMm, timingJitter: v.timingJitter },
+    timeLimitMs: Math.round(v.timeLimitS * 1000),
+    memoryLimitMb: v.memoryLimitMb,
+    execution: { policies: v.policies, stallProbability: v.stallProbability, stallMs: v.stallMs, runs: v.monteCarloRuns },
+    seeds: parseIntegers(v.seeds),
+  };
+  const parsed = SweepDefinitionSchema.safeParse(input);
+  if (!parsed.success) {
+    const issue = parsed.error.issues[0];
+    return { problem: `${issue.path.join('.') || 'form'}: ${issue.message}` };
+  }
+  return { definition: parsed.data, input };
+}
