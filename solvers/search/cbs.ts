@@ -125,6 +125,9 @@ export class CbsEngine {
   private readonly weights = new Map<number, Map<number, number>>();
   private bytes = 0;
   private currentF = -1;
+  private readonly refined = new WeakMap<Conflict, {
+    p1: Int32Array; p2: Int32Array; m1: Mdd | null; m2: Mdd | null; out: Conflict;
+  }>();
   /** Ids are never reused: caches are keyed by them, and a discarded child must not alias a later one. */
   private nextId = 1;
 
@@ -332,6 +335,13 @@ export class CbsEngine {
     const stateCell = this.model.stateCell;
     for (let j = 0; j < L; j++) {
       if (affected[j] === 0) continue;
+      // Only implied prohibitions (another agent's positive or length constraint): check them
+      // directly; the agent's table is built only if it must replan.
+      const isImpliedOnly = affected[j] === 2;
+      if (isImpliedOnly && !this.breaksImplied(paths[j], j, cons)) {
+        if (this.hitsMdd(parent, j, cons)) mddOwner[j] = id;
+        continue;
+      }
       const table = this.table(child, j);
       if (!table.admitsPath(paths[j], stateCell)) {
         this.cfg.cat.fill(stateCell, paths, j);
@@ -367,6 +377,25 @@ export class CbsEngine {
     return child;
   }
 
+  /** Whether local agent j's path breaks a prohibition that another agent's constraint in `cons` implies. */
+  private breaksImplied(path: Int32Array, j: number, cons: readonly Constraint[]): boolean {
+    const sc = this.model.stateCell;
+    const last = path.length - 1;
+    const at = (t: number): number => sc[path[t < 0 ? 0 : t <= last ? t : last]];
+    for (const c of cons) {
+      if (this.localOf[c.agent] === j || !affectsOthers(c)) continue;
+      if (c.kind === C_POS_VERTEX) {
+        if (at(c.t1) === c.a) return true;
+      } else if (c.kind === C_POS_EDGE) {
+        if (at(c.t1) === c.b || at(c.t1 - 1) === c.a || (at(c.t1 - 1) === c.b && at(c.t1) === c.a)) return true;
+      } else if (c.kind === C_LEQ_LENGTH) {
+        for (let t = c.t1; t <= last; t++) if (sc[path[t]] === c.a) return true;
+        if (sc[path[last]] === c.a) return true;
+      }
+    }
+    return false;
+  }
+
   /** Whether the prohibitions that `cons` imply for local agent j (not their owner) remove nodes of j's MDD (conservative: true if unknown). */
   private hitsMdd(parent: CtNode, j: number, cons: readonly Constraint[]): boolean {
     const m = this.cachedMdd(parent, j);
@@ -397,25 +426,23 @@ export class CbsEngine {
     const grid = this.model.supportsGridSymmetry;
     let best: Conflict | null = null;
     let bestRank = 0;
+    const usesMdds = sw.prioritizeConflicts || (sw.rectangleReasoning && grid);
     for (const raw of node.conflicts) {
-      let c = raw;
-      const cost1 = this.cost(node, c.a1);
-      const cost2 = this.cost(node, c.a2);
-      if (c.kind === K_VERTEX && sw.targetReasoning && c.t > cost1) c = makeConflict(K_TARGET, c.a1, c.a2, c.cell, -1, c.t);
-      else c = makeConflict(c.kind, c.a1, c.a2, c.cell, c.cell2, c.t);
-      if (sw.prioritizeConflicts) this.classify(node, c);
-      else c.priority = P_NON;
-      if (sw.rectangleReasoning && grid && c.kind === K_VERTEX && c.priority !== P_CARDINAL && c.t <= cost1 && c.t <= cost2) {
-        const m1 = this.mdd(node, this.localOf[c.a1]);
-        const m2 = this.mdd(node, this.localOf[c.a2]);
-        if (m1 !== null && m2 !== null) {
-          const rect = findRectangleConflict(this.model.grid.width, c.a1, c.a2, node.paths[this.localOf[c.a1]],
-            node.paths[this.localOf[c.a2]], c.t, m1, m2);
-          if (rect !== null) {
-            rect.isMddCardinal = c.isMddCardinal;
-            c = rect;
-          }
-        }
+      const i1 = this.localOf[raw.a1];
+      const i2 = this.localOf[raw.a2];
+      const p1 = node.paths[i1];
+      const p2 = node.paths[i2];
+      const m1 = usesMdds ? this.mdd(node, i1) : null;
+      const m2 = usesMdds ? this.mdd(node, i2) : null;
+      // A raw conflict is shared by a node and its descendants; its refinement depends only on
+      // the two paths and MDDs, so it is reused while those objects are the same.
+      const hit = this.refined.get(raw);
+      let c: Conflict;
+      if (hit !== undefined && hit.p1 === p1 && hit.p2 === p2 && hit.m1 === m1 && hit.m2 === m2) {
+        c = hit.out;
+      } else {
+        c = this.refine(raw, p1, p2, m1, m2);
+        this.refined.set(raw, { p1, p2, m1, m2, out: c });
       }
       const rank = c.priority * 4 + (c.kind === K_RECTANGLE || c.kind === K_TARGET ? 0 : 1);
       if (best === null || rank < bestRank || (rank === bestRank && c.t < best.t)) {
@@ -435,12 +462,29 @@ export class CbsEngine {
     return chosen;
   }
 
-  /** Sets the MDD priority of a vertex, edge or target conflict. */
-  private classify(node: CtNode, c: Conflict): void {
-    const m1 = this.mdd(node, this.localOf[c.a1]);
-    const m2 = this.mdd(node, this.localOf[c.a2]);
-    if (m1 === null || m2 === null) c.priority = P_NON;
-    else classifyByMdds(c, m1, m2);
+  /** A classified copy of a raw conflict: target relabelling, MDD priority, cardinal rectangle. */
+  private refine(raw: Conflict, p1: Int32Array, p2: Int32Array, m1: Mdd | null, m2: Mdd | null): Conflict {
+    const sw = this.sw;
+    const cost1 = p1.length - 1;
+    const cost2 = p2.length - 1;
+    let c: Conflict;
+    if (raw.kind === K_VERTEX && sw.targetReasoning && raw.t > cost1) c = makeConflict(K_TARGET, raw.a1, raw.a2, raw.cell, -1, raw.t);
+    else c = makeConflict(raw.kind, raw.a1, raw.a2, raw.cell, raw.cell2, raw.t);
+    if (sw.prioritizeConflicts && m1 !== null && m2 !== null) classifyByMdds(c, m1, m2);
+    else c.priority = P_NON;
+    if (sw.rectangleReasoning && this.model.supportsGridSymmetry && c.kind === K_VERTEX && c.priority !== P_CARDINAL
+      && c.t <= cost1 && c.t <= cost2 && m1 !== null && m2 !== null) {
+      // classifyByMdds may have swapped the agents: hand the rectangle finder matching paths and MDDs.
+      const swapped = c.a1 !== raw.a1;
+      const rect = swapped
+        ? findRectangleConflict(this.model.grid.width, c.a1, c.a2, p2, p1, c.t, m2, m1)
+        : findRectangleConflict(this.model.grid.width, c.a1, c.a2, p1, p2, c.t, m1, m2);
+      if (rect !== null) {
+        rect.isMddCardinal = c.isMddCardinal;
+        c = rect;
+      }
+    }
+    return c;
   }
 
   /** The two children's constraint sets of a conflict. */

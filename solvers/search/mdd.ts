@@ -62,6 +62,27 @@ export class Mdd {
   }
 }
 
+/** Growable scratch buffers shared by every MDD build (builds never nest). */
+const scratch = {
+  states: new Int32Array(4096) as Int32Array<ArrayBuffer>,
+  edgeFrom: new Int32Array(8192),
+  edgeTo: new Int32Array(8192),
+  slotStamp: new Int32Array(0),
+  slotIndex: new Int32Array(0),
+  stamp: 0,
+  pairStamp: new Int32Array(4096),
+  pairGen: 0,
+};
+
+function grown(a: Int32Array, need: number): Int32Array<ArrayBuffer> {
+  if (need <= a.length) return a as Int32Array<ArrayBuffer>;
+  let len = a.length * 2;
+  while (len < need) len *= 2;
+  const b = new Int32Array(len);
+  b.set(a);
+  return b;
+}
+
 /**
  * Builds the MDD of `agent` for paths of cost exactly `cost` (last arrival at the goal at
  * `cost`) under `table`, or null if there is no such path.
@@ -74,17 +95,27 @@ export function buildMdd(model: SearchModel, agent: number, table: ConstraintTab
   const start = model.startStates[agent];
   if (goalDist[start] > cost) return null;
   const hasRules = table.ruleCount > 0;
+  if (scratch.slotStamp.length < model.stateCount) {
+    scratch.slotStamp = new Int32Array(model.stateCount);
+    scratch.slotIndex = new Int32Array(model.stateCount);
+    scratch.stamp = 0;
+  }
+  const slotStamp = scratch.slotStamp;
+  const slotIndex = scratch.slotIndex;
   // Forward sweep: reachable nodes per level that can still reach the goal on time.
-  const levelStart: number[] = [0, 1];
-  const states: number[] = [start];
-  const edgeFrom: number[] = [];
-  const edgeTo: number[] = [];
-  const slot = new Map<number, number>();
+  const levelStart = new Int32Array(cost + 2);
+  let states = scratch.states;
+  let edgeFrom = scratch.edgeFrom;
+  let edgeTo = scratch.edgeTo;
+  let n = 1;
+  let e = 0;
+  states[0] = start;
+  levelStart[1] = 1;
   for (let t = 0; t < cost; t++) {
     const t2 = t + 1;
     const lm = table.landmarkAt(t2);
     const remaining = cost - t2;
-    slot.clear();
+    const stamp = ++scratch.stamp;
     const a = levelStart[t];
     const b = levelStart[t + 1];
     for (let i = a; i < b; i++) {
@@ -97,50 +128,52 @@ export function buildMdd(model: SearchModel, agent: number, table: ConstraintTab
         if (lm >= 0 && c2 !== lm) continue;
         if (hasRules && (table.isVertexBlocked(c2, t2) || (c2 !== c && table.isEdgeBlocked(c, c2, t2)))) continue;
         if (remaining === 0 && c === goal) continue; // the last step must be a fresh arrival
-        let j = slot.get(s2);
-        if (j === undefined) {
-          j = states.length;
-          states.push(s2);
-          slot.set(s2, j);
+        let j: number;
+        if (slotStamp[s2] === stamp) {
+          j = slotIndex[s2];
+        } else {
+          if (n === states.length) states = scratch.states = grown(states, n + 1);
+          j = n++;
+          states[j] = s2;
+          slotStamp[s2] = stamp;
+          slotIndex[s2] = j;
         }
-        edgeFrom.push(i);
-        edgeTo.push(j);
+        if (e === edgeFrom.length) {
+          edgeFrom = scratch.edgeFrom = grown(edgeFrom, e + 1);
+          edgeTo = scratch.edgeTo = grown(edgeTo, e + 1);
+        }
+        edgeFrom[e] = i;
+        edgeTo[e] = j;
+        e++;
       }
     }
-    levelStart.push(states.length);
-    if (states.length === levelStart[t + 1]) return null;
+    levelStart[t + 2] = n;
+    if (n === levelStart[t + 1]) return null;
   }
   // Backward sweep: keep nodes with a kept child (every node of the last level is at the goal).
-  const n = states.length;
   const kept = new Uint8Array(n);
   for (let i = levelStart[cost]; i < n; i++) kept[i] = 1;
-  for (let e = edgeFrom.length - 1; e >= 0; e--) if (kept[edgeTo[e]] === 1) kept[edgeFrom[e]] = 1;
+  for (let x = e - 1; x >= 0; x--) if (kept[edgeTo[x]] === 1) kept[edgeFrom[x]] = 1;
   if (kept[0] === 0) return null;
-  const newIndex = new Int32Array(n).fill(-1);
-  const outStates: number[] = [];
+  const newIndex = new Int32Array(n);
+  let m = 0;
   const outLevel = new Int32Array(cost + 2);
   for (let t = 0; t <= cost; t++) {
-    outLevel[t] = outStates.length;
-    for (let i = levelStart[t]; i < levelStart[t + 1]; i++) {
-      if (kept[i] === 1) {
-        newIndex[i] = outStates.length;
-        outStates.push(states[i]);
-      }
-    }
+    outLevel[t] = m;
+    for (let i = levelStart[t]; i < levelStart[t + 1]; i++) if (kept[i] === 1) newIndex[i] = m++;
   }
-  outLevel[cost + 1] = outStates.length;
-  const m = outStates.length;
-  const childCount = new Int32Array(m + 1);
-  for (let e = 0; e < edgeFrom.length; e++) {
-    if (kept[edgeFrom[e]] === 1 && kept[edgeTo[e]] === 1) childCount[newIndex[edgeFrom[e]] + 1]++;
+  outLevel[cost + 1] = m;
+  const outStates = new Int32Array(m);
+  for (let i = 0; i < n; i++) if (kept[i] === 1) outStates[newIndex[i]] = states[i];
+  const childStart = new Int32Array(m + 1);
+  for (let x = 0; x < e; x++) if (kept[edgeFrom[x]] === 1 && kept[edgeTo[x]] === 1) childStart[newIndex[edgeFrom[x]] + 1]++;
+  for (let i = 0; i < m; i++) childStart[i + 1] += childStart[i];
+  const children = new Int32Array(childStart[m]);
+  const fillAt = childStart.slice(0, m);
+  for (let x = 0; x < e; x++) {
+    if (kept[edgeFrom[x]] === 1 && kept[edgeTo[x]] === 1) children[fillAt[newIndex[edgeFrom[x]]]++] = newIndex[edgeTo[x]];
   }
-  for (let i = 0; i < m; i++) childCount[i + 1] += childCount[i];
-  const children = new Int32Array(childCount[m]);
-  const fillAt = childCount.slice(0, m);
-  for (let e = 0; e < edgeFrom.length; e++) {
-    if (kept[edgeFrom[e]] === 1 && kept[edgeTo[e]] === 1) children[fillAt[newIndex[edgeFrom[e]]]++] = newIndex[edgeTo[e]];
-  }
-  return new Mdd(cost, goal, outLevel, Int32Array.from(outStates), childCount, children, stateCell);
+  return new Mdd(cost, goal, outLevel, outStates, childStart, children, stateCell);
 }
 
 /**
@@ -149,45 +182,59 @@ export function buildMdd(model: SearchModel, agent: number, table: ConstraintTab
  * dependent: their joint optimum exceeds the sum of their costs.
  */
 export function haveConflictFreePair(m1: Mdd, m2: Mdd, stateCell: Int32Array): boolean {
-  const end = Math.max(m1.cost, m2.cost);
-  const n2 = m2.states.length;
-  let level: number[] = [0, 0];
-  const seen = new Set<number>();
   if (stateCell[m1.states[0]] === stateCell[m2.states[0]]) return false;
+  const end = Math.max(m1.cost, m2.cost);
   const last1 = m1.states.length - 1;
   const last2 = m2.states.length - 1;
+  let level = new Int32Array(64);
+  let next = new Int32Array(64);
+  let len = 2;
+  level[0] = 0;
+  level[1] = 0;
   for (let t = 0; t < end; t++) {
-    const next: number[] = [];
-    seen.clear();
-    for (let p = 0; p < level.length; p += 2) {
+    // Pairs at level t + 1 are deduplicated with a stamp grid over (node of m1, node of m2) at that level.
+    const base1 = t + 1 <= m1.cost ? m1.levelStart[t + 1] : last1;
+    const w1 = t + 1 <= m1.cost ? m1.levelStart[t + 2] - base1 : 1;
+    const base2 = t + 1 <= m2.cost ? m2.levelStart[t + 1] : last2;
+    const w2 = t + 1 <= m2.cost ? m2.levelStart[t + 2] - base2 : 1;
+    if (scratch.pairStamp.length < w1 * w2) scratch.pairStamp = new Int32Array(w1 * w2 * 2);
+    const pairStamp = scratch.pairStamp;
+    const gen = ++scratch.pairGen;
+    let nextLen = 0;
+    for (let p = 0; p < len; p += 2) {
       const i = level[p];
       const j = level[p + 1];
       const ci = stateCell[m1.states[i]];
       const cj = stateCell[m2.states[j]];
       // Past its cost an agent rests on its (single) last-level node.
-      const ia = t >= m1.cost ? i : -1;
-      const ja = t >= m2.cost ? j : -1;
-      const iFrom = ia >= 0 ? 0 : m1.childStart[i];
-      const iTo = ia >= 0 ? 1 : m1.childStart[i + 1];
+      const restI = t >= m1.cost;
+      const restJ = t >= m2.cost;
+      const iFrom = restI ? 0 : m1.childStart[i];
+      const iTo = restI ? 1 : m1.childStart[i + 1];
+      const jFrom = restJ ? 0 : m2.childStart[j];
+      const jTo = restJ ? 1 : m2.childStart[j + 1];
       for (let x = iFrom; x < iTo; x++) {
-        const i2 = ia >= 0 ? last1 : m1.children[x];
+        const i2 = restI ? last1 : m1.children[x];
         const ci2 = stateCell[m1.states[i2]];
-        const jFrom = ja >= 0 ? 0 : m2.childStart[j];
-        const jTo = ja >= 0 ? 1 : m2.childStart[j + 1];
         for (let y = jFrom; y < jTo; y++) {
-          const j2 = ja >= 0 ? last2 : m2.children[y];
+          const j2 = restJ ? last2 : m2.children[y];
           const cj2 = stateCell[m2.states[j2]];
           if (ci2 === cj2) continue;
           if (ci2 === cj && cj2 === ci && ci !== ci2) continue;
-          const key = i2 * n2 + j2;
-          if (seen.has(key)) continue;
-          seen.add(key);
-          next.push(i2, j2);
+          const key = (i2 - base1) * w2 + (j2 - base2);
+          if (pairStamp[key] === gen) continue;
+          pairStamp[key] = gen;
+          if (nextLen + 2 > next.length) next = grown(next, nextLen + 2);
+          next[nextLen++] = i2;
+          next[nextLen++] = j2;
         }
       }
     }
-    if (next.length === 0) return false;
+    if (nextLen === 0) return false;
+    const tmp = level;
     level = next;
+    next = tmp;
+    len = nextLen;
   }
   return true;
 }

@@ -1,0 +1,113 @@
+/**
+ * Solver benchmark: optimal classic CBS over the open benchmark files in
+ * ../shared/datasets/grid-benchmarks (read in place). Prints one line per run, a summary per
+ * map and agent count (solved, median and max runtime, CT nodes expanded, low-level expansions
+ * per second) and writes everything to benchmarks/results/solver.json.
+ *
+ *   npm run bench:solver                                   # the speed target of TARGETS.md
+ *   npm run bench:solver -- --agents 10,20 --time-limit 5   # a quick run
+ *   npm run bench:solver -- --map empty-8-8 --agents 4,8,12,16 --scen 1,2
+ *   npm run bench:solver -- --switches '{"wdg":false}'       # an ablation
+ */
+import { mkdirSync, readFileSync, writeFileSync } from 'node:fs';
+import { dirname, join } from 'node:path';
+import { parseArgs } from 'node:util';
+import { instanceFromScenario } from '../solvers/io/instance-from-scenario';
+import { parseMap } from '../solvers/io/parse-map';
+import { parseScenario } from '../solvers/io/parse-scenario';
+import { solveClassic } from '../solvers/models/classic';
+import type { CbsSwitches } from '../solvers/search/cbs-types';
+import { validateClassicPlan } from '../solvers/validate/classic';
+
+const root = join(__dirname, '..');
+const dataset = join(root, '..', 'shared', 'datasets', 'grid-benchmarks');
+
+const { values } = parseArgs({
+  options: {
+    map: { type: 'string', multiple: true },
+    scen: { type: 'string', default: '1,2,3,4,5' },
+    agents: { type: 'string', default: '10,20,30,40,50,60' },
+    'time-limit': { type: 'string', default: '30' },
+    switches: { type: 'string' },
+    out: { type: 'string', default: join(root, 'benchmarks', 'results', 'solver.json') },
+  },
+});
+const maps = values.map ?? ['random-32-32-20'];
+const scens = values.scen.split(',').map((s) => s.trim());
+const agentCounts = values.agents.split(',').map(Number);
+const timeLimitMs = Number(values['time-limit']) * 1000;
+const switches = values.switches ? (JSON.parse(values.switches) as Partial<CbsSwitches>) : undefined;
+
+interface Run {
+  map: string;
+  scenario: string;
+  agents: number;
+  status: string;
+  valid: boolean | null;
+  soc: number | null;
+  lowerBound: number | null;
+  runtimeMs: number;
+  nodesGenerated: number;
+  nodesExpanded: number;
+  lowLevelExpansions: number;
+}
+
+const runs: Run[] = [];
+const started = new Date().toISOString();
+console.log(`map scenario agents status soc lowerBound runtimeMs expanded generated lowLevel valid (limit ${timeLimitMs / 1000} s)`);
+for (const mapName of maps) {
+  const mapFile = join(dataset, `${mapName}.map`);
+  const map = parseMap(readFileSync(mapFile, 'utf8'), { name: mapName });
+  if (!map.ok) throw new Error(`${mapFile}: ${map.errors.map((e) => `line ${e.line}: ${e.message}`).join('; ')}`);
+  for (const s of scens) {
+    const scenFile = join(dataset, `${mapName}-even-${s}.scen`);
+    const scen = parseScenario(readFileSync(scenFile, 'utf8'));
+    if (!scen.ok) throw new Error(`${scenFile}: ${scen.errors.map((e) => `line ${e.line}: ${e.message}`).join('; ')}`);
+    for (const k of agentCounts) {
+      if (k > scen.value.rows.length) continue;
+      const inst = instanceFromScenario(map.value, scen.value, k);
+      if (!inst.ok) throw new Error(`${scenFile}: ${inst.errors.map((e) => e.message).join('; ')}`);
+      const r = solveClassic(inst.value, { timeLimitMs, now: () => performance.now(), switches });
+      const valid = r.status === 'solved' ? validateClassicPlan(inst.value, r.paths).ok : null;
+      const run: Run = {
+        map: mapName, scenario: `${mapName}-even-${s}`, agents: k, status: r.status, valid, soc: r.soc, lowerBound: r.lowerBound,
+        runtimeMs: Math.round(r.runtimeMs), nodesGenerated: r.nodesGenerated, nodesExpanded: r.nodesExpanded, lowLevelExpansions: r.lowLevelExpansions,
+      };
+      runs.push(run);
+      console.log([mapName, s, k, r.status, r.soc ?? '-', r.lowerBound ?? '-', run.runtimeMs, r.nodesExpanded, r.nodesGenerated, r.lowLevelExpansions, valid ?? '-'].join(' '));
+    }
+  }
+}
+
+const median = (xs: number[]): number => {
+  if (xs.length === 0) return NaN;
+  const s = [...xs].sort((a, b) => a - b);
+  return s.length % 2 ? s[(s.length - 1) / 2] : (s[s.length / 2 - 1] + s[s.length / 2]) / 2;
+};
+const summary = [];
+console.log('\nmap agents solved/runs invalid median-ms max-ms median-expanded LL-exp/s (runtimes over all runs; unsolved count at the limit)');
+for (const mapName of maps) {
+  for (const k of agentCounts) {
+    const rs = runs.filter((r) => r.map === mapName && r.agents === k);
+    if (rs.length === 0) continue;
+    const solved = rs.filter((r) => r.status === 'solved' && r.valid === true).length;
+    const invalid = rs.filter((r) => r.valid === false).length;
+    const times = rs.map((r) => r.runtimeMs);
+    const totalMs = times.reduce((a, b) => a + b, 0);
+    const ll = rs.reduce((a, r) => a + r.lowLevelExpansions, 0);
+    const row = {
+      map: mapName, agents: k, runs: rs.length, solved, invalid, medianMs: median(times), maxMs: Math.max(...times),
+      medianExpanded: median(rs.map((r) => r.nodesExpanded)), lowLevelPerSecond: totalMs > 0 ? Math.round((ll / totalMs) * 1000) : 0,
+    };
+    summary.push(row);
+    console.log([mapName, k, `${solved}/${rs.length}`, invalid, row.medianMs, row.maxMs, row.medianExpanded, row.lowLevelPerSecond].join(' '));
+  }
+}
+const totalSolved = runs.filter((r) => r.status === 'solved' && r.valid === true).length;
+console.log(`\ntotal solved (valid, proven optimal): ${totalSolved}/${runs.length}`);
+mkdirSync(dirname(values.out), { recursive: true });
+writeFileSync(values.out, JSON.stringify({
+  started, finished: new Date().toISOString(), node: process.version, timeLimitMs, switches: switches ?? 'default (all on)',
+  totalSolved, totalRuns: runs.length, summary, runs,
+}, null, 2));
+console.log(`wrote ${values.out}`);
