@@ -159,7 +159,7 @@ export class ViewParamError extends Error {
 }
 
 /** Query parameters that are not part of a view (paging, export format) and are ignored by parseView. */
-export const NON_VIEW_PARAMS = new Set(['start', 'end', 'format', 'mapId', 'profile', 'policy', 'limit']);
+export const NON_VIEW_PARAMS = new Set(['start', 'end', 'format', 'mapId', 'profile', 'policy', 'limit', 'count']);
 
 /**
  * Reads a view from query parameters (`layout`, `metric`, `k`, `cols=a,b`, `sort=a,-b`,
@@ -249,6 +249,7 @@ export interface LeaderboardRow {
 /** GET /api/leaderboards/rows: one page of rows and the number of rows of the whole view. */
 export interface LeaderboardPage {
   readonly rows: readonly LeaderboardRow[];
+  /** Rows of the whole view; -1 when the request said `count=0` (later pages of a grid that knows it). */
   readonly rowCount: number;
   readonly columns: readonly LeaderboardColumn[];
   /** Robot profile hash → label, for the profiles of the rows on this page. */

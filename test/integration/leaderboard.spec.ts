@@ -99,6 +99,8 @@ describe('leaderboard over SQL', () => {
     expect(await count(world.other)).toBe(publicCount);
     expect(await count(world.owner)).toBe(expected.length);
     expect(await count(world.curator)).toBe(expected.length);
+    const uncounted = (await (await world.visitor.request('/api/leaderboards/rows?start=0&end=5&count=0')).json()) as LeaderboardPage;
+    expect([uncounted.rowCount, uncounted.rows.length]).toEqual([-1, 5]);
     const visitorRows = await allPages(world.visitor, 'cols=map', 100);
     expect(visitorRows.every((r) => r.scenarioId !== privateScenario)).toBe(true);
   });

@@ -11,7 +11,7 @@ export function leaderboardsRouter(svc: LeaderboardsService): Router {
 
   r.get('/rows', async (req, res) => {
     const params = flatQuery(req.query);
-    res.json(await svc.page(viewOf(params), req.user ?? null, scopeOf(params), windowOf(params)));
+    res.json(await svc.page(viewOf(params), req.user ?? null, scopeOf(params), windowOf(params), params['count'] !== '0'));
   });
 
   r.get('/summary', async (req, res) => {

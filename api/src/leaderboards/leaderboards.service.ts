@@ -15,8 +15,8 @@ import { scopedEntries } from './scoped-entries';
 
 /** The leaderboard read service. */
 export interface LeaderboardsService {
-  /** One page of `view` (rows [start, end)) and the view's row count. */
-  page(view: LeaderboardView, viewer: Viewer, scope: ViewScope, window: RowWindow): Promise<LeaderboardPage>;
+  /** One page of `view` (rows [start, end)) and, unless `isCounted` is false, the view's row count. */
+  page(view: LeaderboardView, viewer: Viewer, scope: ViewScope, window: RowWindow, isCounted?: boolean): Promise<LeaderboardPage>;
   /** Per-model summary, optionally for one map. */
   summary(viewer: Viewer, scope: ViewScope): Promise<LeaderboardSummary>;
   /** Chart data for one robot profile (default: the one with most rows) and one execution policy. */
@@ -43,9 +43,10 @@ export function createLeaderboardsService(deps: { readonly sequelize: Sequelize 
   }
 
   return {
-    async page(view, viewer, scope, window) {
+    async page(view, viewer, scope, window, isCounted = true) {
       const { page, count } = buildViewQueries(view, viewer, scope, window);
-      const [rows, [{ n }]] = await Promise.all([select(page), select<{ n: number }>(count)]);
+      // Counting a large view costs as much as the page itself, so a grid asks for it once.
+      const [rows, [{ n }]] = await Promise.all([select(page), isCounted ? select<{ n: number }>(count) : Promise.resolve([{ n: -1 }])]);
       const profileLabels: Record<string, string> = {};
       const out: LeaderboardRow[] = rows.map((r) => {
         profileLabels[String(r['robot_profile_hash'])] = view.layout === 'entries' ? profileLabel(r['robot_profile'] as RobotProfile) : String(r['profile_label']);

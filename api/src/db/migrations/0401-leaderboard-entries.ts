@@ -90,33 +90,26 @@ export const up: Migration = async ({ context: qi }) => {
   await q(`CREATE INDEX results_leaderboard_key ON results (scenario_id, agents, model, robot_profile_hash, (leaderboard_variant(params)))`);
 
   // Recomputes the given keys from results (and the best result's executions); drops keys left with no result.
+  // One pass with window functions ranks the candidates and totals each key, so no CTE is ever
+  // joined to another CTE (the planner cannot estimate those and may pick a quadratic loop).
   await q(`CREATE FUNCTION leaderboard_refresh(k_scenario integer[], k_agents integer[], k_model text[], k_variant text[], k_hash text[])
   RETURNS void LANGUAGE sql AS $$
     WITH keys AS (
       SELECT DISTINCT * FROM unnest(k_scenario, k_agents, k_model, k_variant, k_hash) AS k(scenario_id, agents, model, variant, robot_profile_hash)
     ),
-    candidates AS (
-      SELECT r.*, k.variant FROM results r JOIN keys k
+    ranked AS (
+      SELECT r.*, k.variant,
+        row_number() OVER key_order AS rank,
+        max(r.lower_bound) FILTER (WHERE r.submission_id IS NULL) OVER key_all AS best_lower_bound,
+        (count(*) OVER key_all)::integer AS attempts,
+        (count(*) FILTER (WHERE r.status = 'solved') OVER key_all)::integer AS solved_count
+      FROM keys k JOIN results r
         ON r.scenario_id = k.scenario_id AND r.agents = k.agents AND r.model = k.model
        AND r.robot_profile_hash = k.robot_profile_hash AND leaderboard_variant(r.params) = k.variant
-    ),
-    best AS (
-      SELECT DISTINCT ON (${KEY}) * FROM candidates
-      ORDER BY ${KEY},
-        CASE status WHEN 'solved' THEN 0 WHEN 'infeasible' THEN 1 WHEN 'timeout' THEN 2 WHEN 'memory' THEN 3 ELSE 4 END,
-        soc NULLS LAST, turn_inclusive_makespan_ms NULLS LAST, runtime_ms NULLS LAST, id
-    ),
-    totals AS (
-      SELECT ${KEY},
-        max(lower_bound) FILTER (WHERE submission_id IS NULL) AS lower_bound,
-        count(*)::integer AS attempts,
-        (count(*) FILTER (WHERE status = 'solved'))::integer AS solved_count
-      FROM candidates GROUP BY ${KEY}
-    ),
-    ex AS (
-      SELECT e.result_id,
-      ${policyAggregates}
-      FROM executions e JOIN best b ON e.result_id = b.id GROUP BY e.result_id
+      WINDOW key_all AS (PARTITION BY r.scenario_id, r.agents, r.model, k.variant, r.robot_profile_hash),
+        key_order AS (PARTITION BY r.scenario_id, r.agents, r.model, k.variant, r.robot_profile_hash ORDER BY
+          CASE r.status WHEN 'solved' THEN 0 WHEN 'infeasible' THEN 1 WHEN 'timeout' THEN 2 WHEN 'memory' THEN 3 ELSE 4 END,
+          r.soc NULLS LAST, r.turn_inclusive_makespan_ms NULLS LAST, r.runtime_ms NULLS LAST, r.id)
     ),
     -- A data-modifying CTE runs whether or not the outer statement reads it.
     written AS (
@@ -124,17 +117,20 @@ export const up: Migration = async ({ context: qi }) => {
       SELECT b.scenario_id, b.agents, b.model, b.variant, b.robot_profile_hash,
         b.instance_set_id, b.map_id, m.name, s.name, b.robot_profile, b.id,
         CASE WHEN b.submission_id IS NULL THEN 'sweep' ELSE 'submitted' END, b.status,
-        b.soc, b.makespan, b.turn_inclusive_soc_ms, b.turn_inclusive_makespan_ms, t.lower_bound,
-        CASE WHEN b.status = 'solved' AND t.lower_bound > 0 THEN (b.soc - t.lower_bound) / t.lower_bound END,
+        b.soc, b.makespan, b.turn_inclusive_soc_ms, b.turn_inclusive_makespan_ms, b.best_lower_bound,
+        CASE WHEN b.status = 'solved' AND b.best_lower_bound > 0 THEN (b.soc - b.best_lower_bound) / b.best_lower_bound END,
         b.runtime_ms,
-        coalesce(sub.solver_name, 'Quarterturn CBS'), b.solver_version, t.attempts, t.solved_count,
+        coalesce(sub.solver_name, 'Quarterturn CBS'), b.solver_version, b.attempts, b.solved_count,
         ${policyNames.map((c) => `ex.${c}`).join(', ')}
-      FROM best b
-      JOIN totals t USING (${KEY})
+      FROM ranked b
       JOIN maps m ON m.id = b.map_id
       JOIN scenarios s ON s.id = b.scenario_id
       LEFT JOIN submissions sub ON sub.id = b.submission_id
-      LEFT JOIN ex ON ex.result_id = b.id
+      LEFT JOIN LATERAL (
+        SELECT ${policyAggregates}
+        FROM executions e WHERE e.result_id = b.id
+      ) ex ON true
+      WHERE b.rank = 1
       ON CONFLICT (${KEY}) DO UPDATE SET
         ${[...VALUE_COLUMNS, 'updated_at'].map((c) => (c === 'updated_at' ? 'updated_at = now()' : `${c} = EXCLUDED.${c}`)).join(',\n        ')}
       RETURNING 1
@@ -142,8 +138,8 @@ export const up: Migration = async ({ context: qi }) => {
     DELETE FROM leaderboard_entries e USING keys k
     WHERE e.scenario_id = k.scenario_id AND e.agents = k.agents AND e.model = k.model
       AND e.variant = k.variant AND e.robot_profile_hash = k.robot_profile_hash
-      AND NOT EXISTS (SELECT 1 FROM candidates c WHERE c.scenario_id = k.scenario_id AND c.agents = k.agents
-        AND c.model = k.model AND c.variant = k.variant AND c.robot_profile_hash = k.robot_profile_hash)
+      AND NOT EXISTS (SELECT 1 FROM results r WHERE r.scenario_id = k.scenario_id AND r.agents = k.agents
+        AND r.model = k.model AND r.robot_profile_hash = k.robot_profile_hash AND leaderboard_variant(r.params) = k.variant)
   $$`);
 
   // Trigger functions: collect the keys a statement touched and refresh them once, set-based.

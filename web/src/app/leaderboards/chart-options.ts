@@ -1,0 +1,68 @@
+/**
+ * ECharts options of the four leaderboard charts, built from the API's chart data. Every chart
+ * names the robot profile and execution policy its figures come from in its subtitle, and
+ * series are named by plan model (with the variant, e.g. k = 1). Pure functions.
+ */
+import type { ChartSeries, LeaderboardCharts } from '@shared/leaderboards';
+import { MODEL_COLOURS } from './model-colours';
+
+/** Names of the charts (also their ids in the page). */
+export const CHART_IDS = ['success', 'cactus', 'realised', 'spread'] as const;
+export type ChartId = (typeof CHART_IDS)[number];
+
+/** An option object (ECharts' option shape, kept loose here). */
+export type ChartOption = Record<string, unknown>;
+
+/** The label of a series: model plus variant. */
+export function seriesName(s: Pick<ChartSeries, 'model' | 'variant'>): string {
+  return s.variant ? `${s.model} (${s.variant})` : s.model;
+}
+
+function frame(title: string, data: LeaderboardCharts, xName: string, yName: string, extra: ChartOption = {}): ChartOption {
+  const profile = data.profile ? `Robot profile: ${data.profile.label}` : 'No robot profile';
+  return {
+    animation: false,
+    backgroundColor: '#ffffff',
+    textStyle: { fontFamily: 'Fira Sans, system-ui, sans-serif' },
+    title: { text: title, subtext: `${profile} · execution policy ${data.policy}`, left: 8, top: 4, textStyle: { fontSize: 15 }, subtextStyle: { fontSize: 11, width: 700, overflow: 'break' } },
+    legend: { bottom: 0, type: 'scroll' },
+    tooltip: { trigger: 'item' },
+    grid: { left: 64, right: 24, top: 84, bottom: 64 },
+    xAxis: { type: 'value', name: xName, nameLocation: 'middle', nameGap: 28 },
+    yAxis: { type: 'value', name: yName, nameLocation: 'middle', nameGap: 46 },
+    ...extra,
+  };
+}
+
+function lines(series: readonly ChartSeries[], kind: 'line' | 'scatter' | 'bar', step?: 'end'): ChartOption[] {
+  return series.map((s) => ({
+    name: seriesName(s), type: kind, data: s.points, color: MODEL_COLOURS[s.model],
+    ...(kind === 'line' ? { showSymbol: true, symbolSize: 5, ...(step ? { step } : {}) } : {}),
+    ...(kind === 'scatter' ? { symbolSize: 5 } : {}),
+    ...(kind === 'bar' ? { barGap: '0%' } : {}),
+  }));
+}
+
+/** The option of one chart. */
+export function chartOption(id: ChartId, data: LeaderboardCharts): ChartOption {
+  switch (id) {
+    case 'success':
+      return frame('Solved instances by agent count', data, 'agents', 'success rate', {
+        yAxis: { type: 'value', name: 'success rate', nameLocation: 'middle', nameGap: 46, min: 0, max: 1 },
+        series: lines(data.successByAgents, 'line'),
+      });
+    case 'cactus':
+      return frame('Instances solved within a solve time', data, 'solve time (ms, log scale)', 'instances solved', {
+        xAxis: { type: 'log', name: 'solve time (ms, log scale)', nameLocation: 'middle', nameGap: 28 },
+        series: lines(data.cactus.map((s) => ({ ...s, points: s.points.map(([t, n]) => [Math.max(t, 0.01), n] as const) })), 'line', 'end'),
+      });
+    case 'realised':
+      return frame('Computed against realised makespan', data, 'turn-inclusive makespan (ms)', 'realised makespan (ms)', {
+        series: lines(data.computedVsRealised, 'scatter'),
+      });
+    case 'spread':
+      return frame(`Finish spread distribution (bins of ${data.spreadBinMs} ms)`, data, 'finish spread (ms)', 'instances', {
+        series: lines(data.spreadHistogram, 'bar'),
+      });
+  }
+}

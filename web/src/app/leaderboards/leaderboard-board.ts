@@ -1,0 +1,163 @@
+/**
+ * The leaderboard page: the board (AG Grid, infinite row model over GET /api/leaderboards/rows,
+ * server-side sort, filter and paging), column choice and layout kept in the URL so a view can
+ * be shared by link, export links of exactly the view on screen, the per-model summary with a
+ * per-map drill-down, and the charts.
+ */
+import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
+import { ActivatedRoute, Router, RouterLink } from '@angular/router';
+import { firstValueFrom } from 'rxjs';
+import { AgGridAngular } from 'ag-grid-angular';
+import {
+  InfiniteRowModelModule, ModuleRegistry, NumberFilterModule, TextFilterModule,
+  type GridApi, type GridReadyEvent, type IDatasource, type IGetRowsParams,
+} from 'ag-grid-community';
+import { MatButtonModule } from '@angular/material/button';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatSelectModule } from '@angular/material/select';
+import { SAFETY_NOTE } from '@shared/executions-constants';
+import { EXPORT_FORMATS, type ExportFormat } from '@shared/exports-table';
+import {
+  COMPARE_METRICS, columnsOf, DEFAULT_VIEW, ENTRY_COLUMNS, parseView, viewToParams, type CompareMetric, type Layout, type LeaderboardView,
+} from '@shared/leaderboards';
+import { isRoleAtLeast } from '../core/auth-contract';
+import { Session } from '../core/session';
+import { LeaderboardApi, type BoardScope } from './leaderboard-api';
+import { gridColumns, type GridRow } from './leaderboard-columns';
+import { LEADERBOARD_GRID_THEME } from './leaderboard-grid-theme';
+import LeaderboardCharts from './leaderboard-charts';
+import ModelSummaryPanel from './model-summary';
+import { filtersToGrid, withGridState, type GridFilter, type GridSort } from './grid-view';
+
+ModuleRegistry.registerModules([InfiniteRowModelModule, TextFilterModule, NumberFilterModule]);
+
+/** Rows the grid asks for at a time. */
+const PAGE_ROWS = 100;
+
+/** Button labels of the export formats. */
+const FORMAT_LABELS: Readonly<Record<ExportFormat, string>> = { csv: 'CSV', latex: 'LaTeX', markdown: 'Markdown', json: 'JSON' };
+
+@Component({
+  selector: 'app-leaderboard-board',
+  templateUrl: './leaderboard-board.html',
+  styleUrl: './leaderboard-board.scss',
+  imports: [AgGridAngular, RouterLink, MatButtonModule, MatFormFieldModule, MatSelectModule, ModelSummaryPanel, LeaderboardCharts],
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export default class LeaderboardBoard {
+  private readonly api = inject(LeaderboardApi);
+  private readonly router = inject(Router);
+  private readonly route = inject(ActivatedRoute);
+  protected readonly session = inject(Session);
+
+  protected readonly theme = LEADERBOARD_GRID_THEME;
+  protected readonly safetyNote = SAFETY_NOTE;
+  protected readonly metrics = COMPARE_METRICS.map((id) => ({ id, label: ENTRY_COLUMNS.find((c) => c.id === id)?.label ?? id }));
+  protected readonly formats = EXPORT_FORMATS.map((f) => ({ id: f, label: FORMAT_LABELS[f] }));
+  protected readonly allEntryColumns = ENTRY_COLUMNS;
+
+  /** The view on screen; the URL mirrors it. */
+  protected readonly view = signal<LeaderboardView>(this.initialView());
+  protected readonly viewError = signal<string | null>(null);
+  protected readonly rowCount = signal<number | null>(null);
+  protected readonly scope = signal<BoardScope>({ mapId: null, profile: null });
+  protected readonly columnDefs = computed(() => {
+    const v = this.view();
+    const visible = new Set(v.columns);
+    const cols = columnsOf(v).filter((c) => visible.has(c.id)).sort((a, b) => v.columns.indexOf(a.id) - v.columns.indexOf(b.id));
+    return gridColumns(cols, v.sort);
+  });
+  protected readonly exportLinks = computed(() => {
+    const params = viewToParams(this.view());
+    return this.formats.map((f) => ({ ...f, href: this.api.exportUrl(f.id, params) }));
+  });
+  /** Whether the viewer may submit plans (researchers and up). */
+  protected readonly canSubmit = computed(() => isRoleAtLeast(this.session.role(), 'researcher'));
+
+  private grid: GridApi<GridRow> | null = null;
+
+  private initialView(): LeaderboardView {
+    const params = this.route.snapshot.queryParamMap;
+    const record: Record<string, string> = {};
+    for (const k of params.keys) record[k] = params.get(k) ?? '';
+    try {
+      return parseView(record);
+    } catch (err) {
+      queueMicrotask(() => this.viewError.set(`The link's view could not be read (${(err as Error).message}); showing the default view.`));
+      return DEFAULT_VIEW;
+    }
+  }
+
+  protected startGrid(event: GridReadyEvent<GridRow>): void {
+    this.grid = event.api;
+    event.api.setFilterModel(filtersToGrid(this.view().filters, columnsOf(this.view())));
+    event.api.setGridOption('datasource', this.datasource());
+  }
+
+  private datasource(): IDatasource {
+    return {
+      getRows: (params: IGetRowsParams) => void this.loadRows(params),
+    };
+  }
+
+  private async loadRows(params: IGetRowsParams): Promise<void> {
+    const next = withGridState(this.view(), params.sortModel as GridSort[], params.filterModel as Record<string, GridFilter>, columnsOf(this.view()));
+    this.showView(next);
+    try {
+      // The first block of a view counts its rows; later blocks of the same view reuse that count.
+      const isCounted = params.startRow === 0 || this.rowCount() === null;
+      const page = await firstValueFrom(this.api.rows(viewToParams(next), params.startRow, params.endRow, isCounted));
+      if (page.rowCount >= 0) this.rowCount.set(page.rowCount);
+      const rows = page.rows.map((r) => ({ ...r.cells, __id: r.id }) as GridRow);
+      params.successCallback(rows, this.rowCount() ?? undefined);
+    } catch {
+      params.failCallback();
+    }
+  }
+
+  /** Puts the view in the signal and the URL (replacing the history entry, so Back leaves the board). */
+  private showView(next: LeaderboardView): void {
+    const same = JSON.stringify(viewToParams(next)) === JSON.stringify(viewToParams(this.view()));
+    if (!same) {
+      this.view.set(next);
+      this.rowCount.set(null);
+    }
+    void this.router.navigate([], { relativeTo: this.route, queryParams: viewToParams(next), replaceUrl: true });
+  }
+
+  protected chooseLayout(layout: Layout): void {
+    const base: LeaderboardView = { ...this.view(), layout, sort: [], filters: [] };
+    this.resetGrid({ ...base, columns: layout === 'compare' ? columnsOf(base).map((c) => c.id) : DEFAULT_VIEW.columns });
+  }
+
+  protected chooseMetric(metric: CompareMetric): void {
+    this.resetGrid({ ...this.view(), metric });
+  }
+
+  protected chooseColumns(columns: readonly string[]): void {
+    const order = ENTRY_COLUMNS.map((c) => c.id);
+    const kept = [...columns].sort((a, b) => order.indexOf(a) - order.indexOf(b));
+    this.resetGrid({ ...this.view(), columns: kept.length > 0 ? kept : DEFAULT_VIEW.columns });
+  }
+
+  private resetGrid(next: LeaderboardView): void {
+    this.showView(next);
+    this.view.set(next);
+    // New column definitions are applied by the binding; the filters and rows follow them.
+    queueMicrotask(() => {
+      this.grid?.setFilterModel(filtersToGrid(next.filters, columnsOf(next)));
+      this.grid?.purgeInfiniteCache();
+    });
+  }
+
+  protected readonly pageRows = PAGE_ROWS;
+  protected readonly rowId = (p: { data: GridRow }) => p.data.__id;
+
+  protected chooseMap(mapId: number | null): void {
+    this.scope.update((s) => ({ ...s, mapId }));
+  }
+
+  protected chooseProfile(profile: string | null): void {
+    this.scope.update((s) => ({ ...s, profile }));
+  }
+}

@@ -1,0 +1,63 @@
+/**
+ * The four charts of the board for one robot profile and execution policy: success rate by
+ * agent count, the runtime cactus plot, computed against realised makespan and the finish-spread
+ * distribution. Each downloads as SVG and PNG. ECharts is provided here with only the pieces used.
+ */
+import { ChangeDetectionStrategy, Component, computed, inject, input, signal } from '@angular/core';
+import { rxResource } from '@angular/core/rxjs-interop';
+import { MatButtonModule } from '@angular/material/button';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatSelectModule } from '@angular/material/select';
+import { NgxEchartsDirective, provideEchartsCore } from 'ngx-echarts';
+import * as echarts from 'echarts/core';
+import type { ECharts } from 'echarts/core';
+import { BarChart, LineChart, ScatterChart } from 'echarts/charts';
+import { GridComponent, LegendComponent, TitleComponent, TooltipComponent } from 'echarts/components';
+import { CanvasRenderer, SVGRenderer } from 'echarts/renderers';
+import { SAFETY_NOTE } from '@shared/executions-constants';
+import { LEADERBOARD_POLICIES } from '@shared/leaderboards';
+import { chartPng, downloadSvg, saveHref } from './chart-download';
+import { CHART_IDS, chartOption, type ChartId } from './chart-options';
+import { LeaderboardApi, type BoardScope } from './leaderboard-api';
+
+echarts.use([LineChart, ScatterChart, BarChart, GridComponent, LegendComponent, TitleComponent, TooltipComponent, CanvasRenderer, SVGRenderer]);
+
+@Component({
+  selector: 'app-leaderboard-charts',
+  templateUrl: './leaderboard-charts.html',
+  styleUrl: './leaderboard-charts.scss',
+  imports: [NgxEchartsDirective, MatButtonModule, MatFormFieldModule, MatSelectModule],
+  providers: [provideEchartsCore({ echarts })],
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export default class LeaderboardCharts {
+  private readonly api = inject(LeaderboardApi);
+  /** Map and robot profile of the figures (profile null = the one with most rows). */
+  readonly scope = input.required<BoardScope>();
+  protected readonly policy = signal<string>('open-loop');
+  protected readonly policies = LEADERBOARD_POLICIES;
+  protected readonly safetyNote = SAFETY_NOTE;
+  protected readonly data = rxResource({
+    params: () => ({ scope: this.scope(), policy: this.policy() }),
+    stream: ({ params }) => this.api.charts(params.scope, params.policy),
+  });
+  protected readonly charts = computed(() => {
+    const d = this.data.value();
+    return d ? CHART_IDS.map((id) => ({ id, option: chartOption(id, d) })) : [];
+  });
+  private readonly instances = new Map<ChartId, ECharts>();
+
+  protected keepChart(id: ChartId, chart: ECharts): void {
+    this.instances.set(id, chart);
+  }
+
+  protected downloadPng(id: ChartId): void {
+    const chart = this.instances.get(id);
+    if (chart) saveHref(chartPng(chart), `quarterturn-${id}.png`);
+  }
+
+  protected downloadSvg(id: ChartId): void {
+    const d = this.data.value();
+    if (d) downloadSvg(chartOption(id, d), `quarterturn-${id}.svg`);
+  }
+}

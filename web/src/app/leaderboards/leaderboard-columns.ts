@@ -1,0 +1,38 @@
+/** Grid column definitions of a board view: ids equal the API's column ids, filters limited to what the API takes. */
+import type { ColDef, ValueFormatterParams } from 'ag-grid-community';
+import type { LeaderboardColumn } from '@shared/leaderboards';
+import { GRID_FILTER_OPTIONS } from './grid-view';
+
+/** A row as the grid holds it: the row id plus one field per column id. */
+export type GridRow = Record<string, string | number | null> & { readonly __id: string };
+
+function formatNumber(digits: number | undefined) {
+  return (p: ValueFormatterParams<GridRow>): string => {
+    const v = p.value as number | null | undefined;
+    if (v === null || v === undefined) return '–';
+    return digits === undefined ? String(v) : v.toLocaleString('en', { minimumFractionDigits: digits, maximumFractionDigits: digits });
+  };
+}
+
+/** Column definitions for the visible columns, in order, with the view's sort applied. */
+export function gridColumns(columns: readonly LeaderboardColumn[], sort: readonly { column: string; direction: 'asc' | 'desc' }[]): ColDef<GridRow>[] {
+  return columns.map((c) => {
+    const sortAt = sort.findIndex((s) => s.column === c.id);
+    return {
+      colId: c.id,
+      field: c.id,
+      headerName: c.unit ? `${c.label} (${c.unit})` : c.label,
+      headerTooltip: c.values ? `${c.label}: ${c.values.join(', ')}` : undefined,
+      sortable: true,
+      sort: sortAt >= 0 ? sort[sortAt].direction : null,
+      sortIndex: sortAt >= 0 ? sortAt : null,
+      filter: c.kind === 'number' ? 'agNumberColumnFilter' : 'agTextColumnFilter',
+      filterParams: { filterOptions: [...GRID_FILTER_OPTIONS[c.kind]], maxNumConditions: 1, debounceMs: 300 },
+      type: c.kind === 'number' ? 'rightAligned' : undefined,
+      valueFormatter: c.kind === 'number' ? formatNumber(c.digits) : undefined,
+      minWidth: c.kind === 'number' ? 110 : 120,
+      flex: c.kind === 'number' ? 0 : 1,
+      width: c.kind === 'number' ? 140 : undefined,
+    };
+  });
+}

@@ -1,0 +1,31 @@
+/** Per-model summary under the board: solved instances by agent count, turn-inclusive makespan relative to classic, execution success; drill down by map and robot profile. */
+import { ChangeDetectionStrategy, Component, computed, inject, input, output } from '@angular/core';
+import { rxResource } from '@angular/core/rxjs-interop';
+import { DecimalPipe, PercentPipe } from '@angular/common';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatSelectModule } from '@angular/material/select';
+import { MatTableModule } from '@angular/material/table';
+import { LEADERBOARD_POLICIES } from '@shared/leaderboards';
+import { LeaderboardApi, type BoardScope } from './leaderboard-api';
+
+@Component({
+  selector: 'app-model-summary',
+  templateUrl: './model-summary.html',
+  styleUrl: './model-summary.scss',
+  imports: [DecimalPipe, PercentPipe, MatFormFieldModule, MatSelectModule, MatTableModule],
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export default class ModelSummaryPanel {
+  private readonly api = inject(LeaderboardApi);
+  /** Map and profile the summary is narrowed to. */
+  readonly scope = input.required<BoardScope>();
+  /** The map picked for the drill-down (null = all maps). */
+  readonly mapChange = output<number | null>();
+  /** The robot profile picked (null = all). */
+  readonly profileChange = output<string | null>();
+
+  protected readonly summary = rxResource({ params: () => this.scope(), stream: ({ params }) => this.api.summary(params) });
+  protected readonly policies = LEADERBOARD_POLICIES;
+  protected readonly columns = ['model', 'solved', 'byAgents', 'ratio', ...LEADERBOARD_POLICIES.map((p) => p.policy)];
+  protected readonly rows = computed(() => this.summary.value()?.models ?? []);
+}
