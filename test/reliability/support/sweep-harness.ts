@@ -45,7 +45,7 @@ export async function startSweepServer(databaseUrl: string, env: Record<string, 
     NODE_ENV: 'test', LOG_LEVEL: 'silent', SESSION_SECRET: randomBytes(24).toString('hex'), JOB_EXPIRY_MARGIN_SECONDS: '3',
     EMBEDDED_WORKER: 'false', ...(process.env.QT_TEST_LOG ? { LOG_LEVEL: process.env.QT_TEST_LOG } : {}), ...env,
   });
-  const server = await startServer({ config: { ...config, webDist: '/nonexistent', smtpUrl: smtp.url }, databaseUrl, port: 0, fakeOAuthPort: 0, mailbox: smtp.mailbox });
+  const server = await startServer({ config: { ...config, webDist: env.WEB_DIST ? config.webDist : '/nonexistent', smtpUrl: smtp.url }, databaseUrl, port: 0, fakeOAuthPort: 0, mailbox: smtp.mailbox });
   const sequelize: Sequelize = createSequelize(databaseUrl, { poolMax: 2 });
   const sql = <T extends object>(text: string, replacements: Record<string, unknown> = {}) => sequelize.query<T>(text, { replacements, type: QueryTypes.SELECT });
   const client = await signInAs(server.url, MAINTAINER);

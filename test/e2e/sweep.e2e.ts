@@ -1,0 +1,72 @@
+/**
+ * A maintainer launches a sweep from the web, watches it progress live, and receives the
+ * e-mail in the local mailbox; the runs are taken by a worker process started on its own
+ * (`worker-main.ts`, as `npm run worker` would), not by the server.
+ */
+import { resolve } from 'node:path';
+import type { Page } from 'playwright-core';
+import { ensureWebBuild } from '../../scripts/web-build';
+import { createTestDatabase, type TestDatabase } from '../support/test-database';
+import { ROOT, runLedger, spawnWorker, startSweepServer, uploadSet, workerReady, type SweepServer, type WorkerProcess } from '../reliability/support/sweep-harness';
+import { launchBrowser, type E2eBrowser } from './support/browser';
+import { settledText } from './support/settled-text';
+import { demoIdentity, signInThroughUi } from './support/sign-in';
+
+const admin = demoIdentity('admin');
+
+describe('a sweep from the browser', () => {
+  let db: TestDatabase;
+  let s: SweepServer;
+  let worker: WorkerProcess;
+  let browser: E2eBrowser;
+  let page: Page;
+  const pageErrors: string[] = [];
+
+  beforeAll(async () => {
+    const webDist = resolve(ROOT, 'dist/web/browser');
+    ensureWebBuild({ root: ROOT, webDist, log: () => undefined });
+    db = await createTestDatabase();
+    s = await startSweepServer(db.url, { WEB_DIST: webDist, ADMIN_LOGINS: admin.login });
+    await uploadSet(s, 'parcel hall', ['empty-8-8.map', 'empty-8-8-even-1.scen', 'empty-8-8-even-2.scen']);
+    worker = spawnWorker(db.url, { SMTP_URL: s.smtp.url, PUBLIC_URL: s.url });
+    await workerReady(worker);
+    browser = await launchBrowser();
+    page = browser.page;
+    page.on('pageerror', (err) => pageErrors.push(err.message));
+  }, 240_000);
+
+  afterAll(async () => {
+    await browser?.close();
+    await worker?.stop('SIGKILL');
+    await s?.close();
+    await db?.drop();
+  });
+
+  it('launches from the form, shows live progress and results, and mails the launcher', async () => {
+    await signInThroughUi(page, s.url, admin);
+    await page.goto(`${s.url}/sweeps/new`);
+    await page.getByLabel('Sweep name').fill('parcel hall check');
+    await page.getByRole('combobox', { name: 'Instance set' }).click();
+    await page.getByRole('option', { name: /parcel hall/ }).click();
+    await page.getByLabel('Agent counts', { exact: true }).fill('2, 4');
+    // 2 scenarios × 2 agent counts × 2 default models (classic, weighted-split) × 1 seed.
+    await settledText(page.getByTestId('sweep-size'), '8 runs · 320 simulated fleet runs', 10_000);
+    await page.getByRole('button', { name: 'Launch sweep' }).click();
+    await page.waitForURL(/\/sweeps\/\d+$/);
+
+    await settledText(page.getByTestId('sweep-status'), 'Finished', 60_000);
+    await settledText(page.getByTestId('sweep-done'), '8 of 8 runs over');
+    await page.locator('.ag-row').nth(7).waitFor();
+    expect(await page.locator('.ag-row').count()).toBe(8);
+    expect(await page.locator('.ag-cell[col-id=status]').allInnerTexts()).toEqual(Array(8).fill('solved'));
+
+    const sweepId = Number(/\/sweeps\/(\d+)$/.exec(page.url())?.[1]);
+    const ledger = await runLedger(s, sweepId);
+    expect(new Set(ledger.map((r) => r.worker)).size).toBe(1);
+    expect(ledger[0].worker).toContain(`:${worker.child.pid}`);
+
+    await page.goto(`${s.url}/sweeps/mailbox`);
+    await page.getByText('Quarterturn: sweep "parcel hall check" finished').waitFor({ timeout: 10_000 });
+    expect(pageErrors).toEqual([]);
+  }, 120_000);
+});
