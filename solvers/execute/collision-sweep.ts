@@ -64,7 +64,7 @@ export class CollisionSweep {
     this.pairIndex = new Int32Array(robots * robots);
   }
 
-  /** Every collision of the run described by `times` and `duration`, ordered by robot pair then time. */
+  /** Every collision of the run described by `times` and `duration`, in the order found (callers sort). */
   detect(times: RunTimes, duration: Float64Array): Collision[] {
     this.times = times;
     this.duration = duration;
