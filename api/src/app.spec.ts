@@ -126,7 +126,7 @@ describe('createApp', () => {
       expect(page.status).toBe(200);
       expect(page.text).toContain('<title>shell</title>');
       expect(page.headers['cache-control']).toBe('no-cache');
-      const api = await request(app).get('/api/sweeps/12');
+      const api = await request(app).get('/api/no-such-area/12');
       expect(api.status).toBe(404);
       expect(api.body.error.code).toBe('NOT_FOUND');
     });
