@@ -6,6 +6,7 @@ import type { Sequelize } from 'sequelize';
 import { defineModels, type Models } from '../db/models';
 import { seedDemoAccounts } from './seed-demo-accounts';
 import { seedDemoInstances } from './seed-demo-instances';
+import { seedDemoResults } from './seed-demo-results';
 
 /** What a demo step receives. */
 export interface DemoSeedContext {
@@ -17,7 +18,7 @@ export interface DemoSeedContext {
 export type DemoSeedStep = (ctx: DemoSeedContext) => Promise<void>;
 
 /** The steps in order (later ones may rely on the accounts). */
-export const DEMO_STEPS: readonly DemoSeedStep[] = [seedDemoAccounts, seedDemoInstances];
+export const DEMO_STEPS: readonly DemoSeedStep[] = [seedDemoAccounts, seedDemoInstances, seedDemoResults];
 
 /** Runs every demo step on a migrated database. */
 export async function seedDemo(sequelize: Sequelize): Promise<void> {
