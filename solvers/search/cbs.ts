@@ -24,7 +24,7 @@ import { BinaryHeap, type HeapItem } from './binary-heap';
 import type { CbsSwitches } from './cbs-types';
 import { ConflictAvoidanceTable } from './conflict-avoidance-table';
 import {
-  affectsOthers, C_EDGE, C_GT_LENGTH, C_LEQ_LENGTH, C_POS_EDGE, C_POS_VERTEX, C_VERTEX, constraint, type Constraint,
+  affectsOthers, C_EDGE, C_GT_LENGTH, C_LEQ_LENGTH, C_POS_EDGE, C_POS_VERTEX, C_RANGE, C_VERTEX, constraint, type Constraint,
 } from './constraint';
 import { ConstraintTable } from './constraint-table';
 import {
@@ -34,6 +34,7 @@ import { classifyByMdds } from './conflict-priority';
 import { findCorridorConflict } from './corridor-reasoning';
 import { buildMdd, haveConflictFreePair, type Mdd } from './mdd';
 import { findRectangleConflict } from './rectangle-reasoning';
+import { classifyRangeConflict, K_RANGE } from './range-conflicts';
 import { SpaceTimeAStar } from './space-time-astar';
 import { minWeightedVertexCover, type WeightedEdge } from './weighted-vertex-cover';
 
@@ -52,6 +53,10 @@ export interface CbsEngineConfig {
   readonly baseConstraints?: readonly (readonly Constraint[])[];
   /** Per local agent, a path optimal under its base constraints (else the root plans it). */
   readonly initialPaths?: readonly Int32Array[];
+  /** Per local agent, the constraint table of its base constraints (saves rebuilding it). */
+  readonly initialTables?: readonly ConstraintTable[];
+  /** Per local agent, the MDD of its initial path's cost under its base constraints. */
+  readonly initialMdds?: readonly (Mdd | null)[];
   readonly switches: CbsSwitches;
   readonly budget: Budget;
   /** Shared low-level planner (keeps buffers and counts expansions). */
@@ -128,6 +133,7 @@ export class CbsEngine {
   private readonly refined = new WeakMap<Conflict, {
     p1: Int32Array; p2: Int32Array; m1: Mdd | null; m2: Mdd | null; out: Conflict;
   }>();
+  private readonly corridors = new WeakMap<Conflict, { t1: ConstraintTable; t2: ConstraintTable; out: Conflict | null }>();
   /** Ids are never reused: caches are keyed by them, and a discarded child must not alias a later one. */
   private nextId = 1;
 
@@ -138,6 +144,9 @@ export class CbsEngine {
     this.L = cfg.agents.length;
     this.localOf = new Int32Array(cfg.model.agentCount).fill(-1);
     cfg.agents.forEach((a, i) => { this.localOf[a] = i; });
+    // Root keys are `0 * L + i`.
+    cfg.initialTables?.forEach((t, i) => this.tables.set(i, t));
+    cfg.initialMdds?.forEach((m, i) => this.mdds.set(i, m));
   }
 
   /** Runs the search to a proven optimum, a limit, or an empty open list. */
@@ -355,7 +364,7 @@ export class CbsEngine {
         replanned[j] = 1;
         mddOwner[j] = id;
         this.bytes += p.length * 4 + 32;
-      } else if ((affected[j] & 1) !== 0 || this.hitsMdd(parent, j, cons)) {
+      } else if (this.hitsMdd(parent, j, cons)) {
         mddOwner[j] = id;
       }
     }
@@ -396,19 +405,48 @@ export class CbsEngine {
     return false;
   }
 
-  /** Whether the prohibitions that `cons` imply for local agent j (not their owner) remove nodes of j's MDD (conservative: true if unknown). */
+  /**
+   * Whether `cons` can change local agent j's MDD (j's path still satisfies them, so its cost is
+   * unchanged): true if a constraint removes an MDD node or move, or a landmark is not already
+   * a single-cell level; conservative (true) when the parent's MDD is not at hand.
+   */
   private hitsMdd(parent: CtNode, j: number, cons: readonly Constraint[]): boolean {
     const m = this.cachedMdd(parent, j);
     if (m === undefined || m === null) return true;
     const sc = this.model.stateCell;
     for (const c of cons) {
-      if (this.localOf[c.agent] === j || !affectsOthers(c)) continue;
-      if (c.kind === C_POS_VERTEX) {
-        if (m.hasCell(c.t1, c.a, sc)) return true;
-      } else if (c.kind === C_POS_EDGE) {
-        if (m.hasCell(c.t1, c.b, sc) || m.hasCell(c.t1 - 1, c.a, sc)) return true;
-      } else if (c.kind === C_LEQ_LENGTH) {
-        for (let t = c.t1; t <= m.cost + 1; t++) if (m.hasCell(t, c.a, sc)) return true;
+      const isOwn = this.localOf[c.agent] === j;
+      if (!isOwn && !affectsOthers(c)) continue;
+      switch (c.kind) {
+        case C_VERTEX:
+          if (m.hasCell(c.t1, c.a, sc)) return true;
+          break;
+        case C_EDGE:
+          if (m.hasCell(c.t1 - 1, c.a, sc) && m.hasCell(c.t1, c.b, sc)) return true;
+          break;
+        case C_RANGE:
+          for (let t = c.t0; t <= c.t1; t++) if (m.hasCell(t, c.a, sc)) return true;
+          break;
+        case C_POS_VERTEX:
+          if (isOwn ? m.cellIfSingleton(c.t1) !== c.a : m.hasCell(c.t1, c.a, sc)) return true;
+          break;
+        case C_POS_EDGE:
+          if (isOwn) {
+            if (m.cellIfSingleton(c.t1 - 1) !== c.a || m.cellIfSingleton(c.t1) !== c.b) return true;
+          } else if (m.hasCell(c.t1, c.b, sc) || m.hasCell(c.t1 - 1, c.a, sc)
+            || (m.hasCell(c.t1 - 1, c.b, sc) && m.hasCell(c.t1, c.a, sc))) {
+            return true;
+          }
+          break;
+        case C_LEQ_LENGTH:
+          if (isOwn) {
+            if (m.cost > c.t1) return true;
+          } else {
+            for (let t = c.t1; t <= m.cost + 1; t++) if (m.hasCell(t, c.a, sc)) return true;
+          }
+          break;
+        default:
+          return true;
       }
     }
     return false;
@@ -452,12 +490,20 @@ export class CbsEngine {
     }
     let chosen = best as Conflict;
     if (sw.corridorReasoning && grid && (chosen.kind === K_VERTEX || chosen.kind === K_EDGE)) {
-      const corridor = findCorridorConflict(this.model, this.cfg.degree, chosen,
-        (a) => node.paths[this.localOf[a]], (a) => this.table(node, this.localOf[a]));
-      if (corridor !== null) {
-        corridor.priority = chosen.priority;
-        chosen = corridor;
+      // `chosen` is a cached refinement (fixed paths and MDDs); the corridor also depends on the tables.
+      const t1 = this.table(node, this.localOf[chosen.a1]);
+      const t2 = this.table(node, this.localOf[chosen.a2]);
+      const hit = this.corridors.get(chosen);
+      let corridor: Conflict | null;
+      if (hit !== undefined && hit.t1 === t1 && hit.t2 === t2) {
+        corridor = hit.out;
+      } else {
+        corridor = findCorridorConflict(this.cfg.planner, this.cfg.degree, chosen,
+          (a) => node.paths[this.localOf[a]], (a) => (a === chosen.a1 ? t1 : t2));
+        if (corridor !== null) corridor.priority = chosen.priority;
+        this.corridors.set(chosen, { t1, t2, out: corridor });
       }
+      if (corridor !== null) chosen = corridor;
     }
     return chosen;
   }
@@ -467,6 +513,8 @@ export class CbsEngine {
     const sw = this.sw;
     const cost1 = p1.length - 1;
     const cost2 = p2.length - 1;
+    // k-delay conflicts carry their range-constraint split (k-robust model).
+    if (raw.kind === K_RANGE) return classifyRangeConflict(raw, sw.prioritizeConflicts ? m1 : null, m2, this.model.stateCell);
     let c: Conflict;
     if (raw.kind === K_VERTEX && sw.targetReasoning && raw.t > cost1) c = makeConflict(K_TARGET, raw.a1, raw.a2, raw.cell, -1, raw.t);
     else c = makeConflict(raw.kind, raw.a1, raw.a2, raw.cell, raw.cell2, raw.t);
@@ -504,6 +552,7 @@ export class CbsEngine {
         return [[constraint(C_GT_LENGTH, c.a1, c.cell, -1, c.t, c.t)], [constraint(C_LEQ_LENGTH, c.a1, c.cell, -1, c.t, c.t)]];
       case K_CORRIDOR:
       case K_RECTANGLE:
+      case K_RANGE:
         return [c.constraints1 as Constraint[], c.constraints2 as Constraint[]];
       default:
         throw new Error(`unknown conflict kind ${c.kind} at node ${node.id}`);
@@ -561,6 +610,8 @@ export class CbsEngine {
         agents: [this.cfg.agents[i], this.cfg.agents[j]],
         baseConstraints: [this.collect(node.owner[i], i), this.collect(node.owner[j], j)],
         initialPaths: [node.paths[i], node.paths[j]],
+        initialTables: [this.table(node, i), this.table(node, j)],
+        initialMdds: [mi, mj],
         switches: { ...this.sw, wdg: false },
         budget: this.cfg.budget,
         planner: this.cfg.planner,

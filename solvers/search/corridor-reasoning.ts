@@ -6,14 +6,13 @@
  * plain CBS would add one constraint per time step. Instead one child forbids agent 1 the far
  * end of the corridor until t1 and the other forbids agent 2 its far end until t2, where t1 and
  * t2 come from earliest arrival times with and without the corridor. The earliest arrivals
- * are lower bounds (earliest-arrival.ts), which can only weaken the constraints, never make
+ * are lower bounds (SpaceTimeAStar.earliestArrival), which can only weaken the constraints, never make
  * them unsound.
  */
-import type { SearchModel } from '../models/model';
 import { C_RANGE, constraint } from './constraint';
 import type { ConstraintTable } from './constraint-table';
 import { type Conflict, K_CORRIDOR, K_EDGE, makeConflict } from './conflict';
-import { earliestArrival } from './earliest-arrival';
+import type { SpaceTimeAStar } from './space-time-astar';
 
 /** Path cell at time t (agents rest at their last cell). */
 function at(path: Int32Array, t: number): number {
@@ -24,7 +23,7 @@ function at(path: Int32Array, t: number): number {
  * A corridor conflict replacing the vertex or edge conflict `c`, or null when `c` is not a
  * corridor conflict. `paths`/`tables` are indexed by agent id through `local`.
  */
-export function findCorridorConflict(model: SearchModel, degree: Uint8Array, c: Conflict,
+export function findCorridorConflict(planner: SpaceTimeAStar, degree: Uint8Array, c: Conflict,
   pathOf: (agent: number) => Int32Array, tableOf: (agent: number) => ConstraintTable): Conflict | null {
   let timestep = c.t;
   let curr = -1;
@@ -89,11 +88,11 @@ export function findCorridorConflict(model: SearchModel, degree: Uint8Array, c: 
   const ct0 = tableOf(a0);
   const ct1 = tableOf(a1);
   const big = 0x3fffff;
-  const t3 = earliestArrival(model, a0, ct0, u1, big);
-  const t4 = earliestArrival(model, a1, ct1, u0, big);
+  const t3 = planner.earliestArrival(a0, ct0, u1, big);
+  const t4 = planner.earliestArrival(a1, ct1, u0, big);
   if (t3 > big || t4 > big || Math.abs(t3 - t4) > length) return null;
-  const t3b = earliestArrival(model, a0, ct0, u1, t3 + 2 * length + 1, edgeA, edgeB);
-  const t4b = earliestArrival(model, a1, ct1, u0, t4 + 2 * length + 1, edgeA, edgeB);
+  const t3b = planner.earliestArrival(a0, ct0, u1, t3 + 2 * length + 1, edgeA, edgeB);
+  const t4b = planner.earliestArrival(a1, ct1, u0, t4 + 2 * length + 1, edgeA, edgeB);
   if (!(t3b > t3 && t4b > t4)) return null;
   const r1 = Math.min(t3b - 1, t4 + length);
   const r2 = Math.min(t4b - 1, t3 + length);

@@ -157,6 +157,65 @@ export class SpaceTimeAStar {
     return null;
   }
 
+  /**
+   * The earliest t ≤ limit at which `agent` (from its start at time 0) can be in cell
+   * `target` under the vertex and edge rules of `table`, or limit + 1. Landmarks and length
+   * bounds are ignored, so this is a lower bound on the true earliest arrival (what corridor
+   * reasoning needs). The undirected edge {blockA, blockB} is unusable when blockA ≥ 0.
+   */
+  earliestArrival(agent: number, table: ConstraintTable, target: number, limit: number, blockA = -1, blockB = -1): number {
+    const m = this.model;
+    const start = m.startStates[agent];
+    const dist = m.distancesToCell(target);
+    const { stateCell, succStart, succ } = m;
+    const S = m.stateCount;
+    if (dist[start] >= UNREACHABLE || dist[start] > limit) return limit + 1;
+    if (table.isVertexBlocked(stateCell[start], 0)) return limit + 1;
+    const hasRules = table.ruleCount > 0;
+    const capT = table.horizon + 1;
+    this.open.clear();
+    this.index.clear();
+    this.nodeCount = 0;
+    const root = this.newNode(start, 0, -1, 0, dist[start], 0);
+    this.index.set(start, root);
+    this.open.push(root, dist[start] * F_SHIFT);
+    let checks = 0;
+    while (this.open.size > 0) {
+      const n = this.open.pop();
+      this.nClosed[n] = 1;
+      if ((++checks & 255) === 0) this.budget.check();
+      const st = this.nState[n];
+      const t = this.nTime[n];
+      const c = stateCell[st];
+      if (c === target) return t;
+      const t2 = t + 1;
+      const tc = t2 < capT ? t2 : capT;
+      for (let k = succStart[st], kEnd = succStart[st + 1]; k < kEnd; k++) {
+        const s2 = succ[k];
+        const h2 = dist[s2];
+        if (t2 + h2 > limit) continue;
+        const c2 = stateCell[s2];
+        if (blockA >= 0 && ((c === blockA && c2 === blockB) || (c === blockB && c2 === blockA))) continue;
+        if (hasRules) {
+          if (table.isVertexBlocked(c2, t2)) continue;
+          if (c2 !== c && table.isEdgeBlocked(c, c2, t2)) continue;
+        }
+        const key = tc * S + s2;
+        const old = this.index.get(key);
+        if (old >= 0) {
+          if (this.nClosed[old] === 1 || t2 >= this.nTime[old]) continue;
+          this.nTime[old] = t2;
+          this.open.push(old, (t2 + h2) * F_SHIFT + h2);
+        } else {
+          const id = this.newNode(s2, t2, n, 0, h2, 0);
+          this.index.set(key, id);
+          this.open.push(id, (t2 + h2) * F_SHIFT + h2);
+        }
+      }
+    }
+    return limit + 1;
+  }
+
   private newNode(state: number, t: number, parent: number, conf: number, h: number, flag: number): number {
     if (this.nodeCount === this.nState.length) this.grow();
     const id = this.nodeCount++;
