@@ -1,0 +1,133 @@
+/**
+ * The leaderboard in Chromium: a visitor browses board rows (validated plans submitted through
+ * the API beforehand) and opens a shared link with its view; a researcher submits a valid and an
+ * invalid plan in the form and sees the figures or the first violation; an author downloads the
+ * LaTeX export and a chart as PNG and SVG (checked by their file contents and signatures).
+ */
+import { readFile } from 'node:fs/promises';
+import type { Page } from 'playwright-core';
+import type { InstanceSetDetail } from '@shared/instance-sets';
+import { signInAs, type SignedInClient } from '../../api/src/dev/sign-in-as';
+import { TINY_MAP, TINY_SCEN } from '../integration/leaderboard-support';
+import { launchBrowser, type E2eBrowser } from './support/browser';
+import { watchNetwork, type NetworkWatch } from './support/network-watch';
+import { bootServer, type E2eServer } from './support/server';
+import { demoIdentity, signInThroughUi } from './support/sign-in';
+
+jest.setTimeout(60_000);
+
+const researcher = demoIdentity('researcher');
+const solver = { name: 'Paper planner', version: '0.9' };
+
+describe('leaderboard in the browser', () => {
+  let server: E2eServer;
+  let browser: E2eBrowser;
+  let page: Page;
+  let network: NetworkWatch;
+  let scenarioId: number;
+  const pageErrors: string[] = [];
+
+  async function seedBoard(client: SignedInClient): Promise<void> {
+    const created = await client.request('/api/instance-sets', { method: 'POST', body: JSON.stringify({ name: 'Board e2e', visibility: 'public', description: 'e2e', source: 'made in a test' }) });
+    const set = (await created.json()) as { id: number };
+    const form = new FormData();
+    form.append('files', new Blob([TINY_MAP]), 'tiny.map');
+    form.append('files', new Blob([TINY_SCEN]), 'tiny-a.scen');
+    const up = await client.request(`/api/instance-sets/${set.id}/files`, { method: 'POST', body: form });
+    if (up.status !== 201) throw new Error(`upload: ${up.status} ${await up.text()}`);
+    const detail = (await (await client.request(`/api/instance-sets/${set.id}`)).json()) as InstanceSetDetail;
+    scenarioId = detail.scenarios[0].id;
+    const paths = '(0,0) (1,0) (2,0)\n(2,2) (1,2) (0,2)\n';
+    for (const [model, extra] of [['classic', {}], ['k-robust', { k: 1 }], ['uniform-duration', {}]] as const) {
+      const res = await client.request('/api/submissions', { method: 'POST', body: JSON.stringify({ format: 'text', text: paths, model, ...extra, instance: { scenarioId, agents: 2 }, solver }) });
+      if (res.status !== 201) throw new Error(`submit ${model}: ${res.status} ${await res.text()}`);
+    }
+  }
+
+  beforeAll(async () => {
+    server = await bootServer();
+    await seedBoard(await signInAs(server.url, 'tobiah-venkat'));
+    browser = await launchBrowser();
+    page = browser.page;
+    network = watchNetwork(page);
+    page.on('pageerror', (err) => pageErrors.push(err.message));
+  }, 300_000);
+
+  afterAll(async () => {
+    await browser?.close();
+    await server?.close();
+  });
+
+  it('shows a visitor the board rows, sorts on the server and keeps the view in the URL', async () => {
+    await page.goto(`${server.url}/leaderboards`);
+    await page.locator('.ag-row').first().waitFor();
+    await page.waitForFunction(() => document.querySelectorAll('.ag-row').length === 3);
+    const models = await page.locator('.ag-cell[col-id=model]').allInnerTexts();
+    expect([...models].sort()).toEqual(['classic', 'k-robust', 'uniform-duration']);
+    expect(await page.locator('.ag-cell[col-id=soc]').allInnerTexts()).toEqual(['4', '4', '4']);
+    expect(await page.getByText('Simulation is no safety assessment').first().isVisible()).toBe(true);
+
+    await page.locator('.ag-header-cell[col-id=model]').click();
+    await page.waitForURL(/sort=model/);
+    await page.waitForFunction(() => [...document.querySelectorAll('.ag-cell[col-id=model]')].map((e) => e.textContent?.trim()).join() === 'classic,k-robust,uniform-duration');
+  });
+
+  it('opens a shared link with its columns, sort and filter', async () => {
+    await page.goto(`${server.url}/leaderboards?cols=model,variant,soc,source&model.in=k-robust`);
+    await page.waitForFunction(() => document.querySelectorAll('.ag-row').length === 1);
+    expect(await page.locator('.ag-header-cell[col-id]').evaluateAll((els) => els.map((e) => e.getAttribute('col-id')))).toEqual(['model', 'variant', 'soc', 'source']);
+    expect(await page.locator('.ag-cell[col-id=variant]').innerText()).toBe('k=1');
+    expect(await page.locator('.ag-cell[col-id=source]').innerText()).toBe('submitted');
+  });
+
+  it('lets a researcher submit a valid plan and shows the first violation of an invalid one', async () => {
+    await signInThroughUi(page, server.url, researcher);
+    await page.goto(`${server.url}/leaderboards/submit`);
+    await page.getByLabel('Scenario id').fill(String(scenarioId));
+    await page.getByLabel('Agents').fill('3');
+    await page.getByLabel('Solver name').fill('Hand planner');
+    await page.getByLabel('Solver version').fill('1');
+    await page.getByLabel('Plan', { exact: true }).fill('(0,0) (1,0) (2,0)\n(2,2) (1,2) (0,2)\n(4,3) (4,2) (4,1) (4,0)\n');
+    await page.getByRole('button', { name: 'Check and submit' }).click();
+    const accepted = page.getByRole('status', { name: 'Plan accepted' });
+    await accepted.waitFor();
+    // Hand-worked: costs 2 + 2 + 3.
+    expect(await accepted.locator('[data-field=soc]').innerText()).toBe('7');
+
+    await page.getByLabel('Plan', { exact: true }).fill('(0,0) (1,0) (2,0)\n(2,2) (2,1) (2,0) (1,0) (0,0) (0,1) (0,2)\n(4,3) (4,2) (4,1) (4,0)\n');
+    await page.getByRole('button', { name: 'Check and submit' }).click();
+    const rejected = page.getByRole('alert', { name: 'Plan rejected' });
+    await rejected.waitFor();
+    expect(await rejected.locator('[data-field=agents]').innerText()).toBe('0, 1');
+    expect(await rejected.locator('[data-field=time]').innerText()).toBe('2');
+    expect(await rejected.locator('[data-field=cell]').innerText()).toBe('(2, 0)');
+    expect(await rejected.getByText('Nothing was stored.').isVisible()).toBe(true);
+  });
+
+  it('lets an author download the LaTeX table and a chart as PNG and SVG', async () => {
+    await page.goto(`${server.url}/leaderboards?layout=compare`);
+    await page.locator('.ag-row').first().waitFor();
+    const [latex] = await Promise.all([page.waitForEvent('download'), page.locator('a[data-export=latex]').click()]);
+    expect(latex.suggestedFilename()).toBe('quarterturn-leaderboard.tex');
+    const tex = await readFile(await latex.path(), 'utf8');
+    expect(tex).toContain('\\toprule');
+    expect(tex).toContain('\\textbf{');
+
+    const chart = page.locator('figure[data-chart=success]');
+    await chart.locator('canvas').waitFor();
+    const [png] = await Promise.all([page.waitForEvent('download'), chart.getByRole('button', { name: 'Download PNG' }).click()]);
+    expect(png.suggestedFilename()).toBe('quarterturn-success.png');
+    // PNG signature (ISO/IEC 15948 §5.2): 89 50 4E 47 0D 0A 1A 0A.
+    expect((await readFile(await png.path())).subarray(0, 8).toString('hex')).toBe('89504e470d0a1a0a');
+
+    const [svg] = await Promise.all([page.waitForEvent('download'), chart.getByRole('button', { name: 'Download SVG' }).click()]);
+    const svgText = await readFile(await svg.path(), 'utf8');
+    expect(svgText.startsWith('<svg')).toBe(true);
+    expect(svgText).toContain('Robot profile');
+  });
+
+  it('never called a host other than loopback and raised no page errors', () => {
+    expect(network.outside).toEqual([]);
+    expect(pageErrors).toEqual([]);
+  });
+});
