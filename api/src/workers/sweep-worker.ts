@@ -96,10 +96,17 @@ export async function startSweepWorker(options: SweepWorkerOptions): Promise<Swe
       }
     }
   };
-  // One poller per thread: pg-boss 10 hands each poller one batch at a time.
+  // One poller per thread: pg-boss 10 hands each poller one batch at a time. A poller whose
+  // job took less than the polling interval would sleep out the rest before fetching again
+  // (measured: 0.5 s per run); notifying it after a job makes it fetch the next one at once.
   const workIds: string[] = [];
   for (let i = 0; i < options.threads; i++) {
-    workIds.push(await boss.work<RunJobData>(RUN_QUEUE, { batchSize: 1, pollingIntervalSeconds: options.pollingSeconds ?? 0.5 }, handle));
+    const slot: { id?: string } = {};
+    slot.id = await boss.work<RunJobData>(RUN_QUEUE, { batchSize: 1, pollingIntervalSeconds: options.pollingSeconds ?? 0.5 }, async (jobs) => {
+      await handle(jobs);
+      if (slot.id && !isStopping) boss.notifyWorker(slot.id);
+    });
+    workIds.push(slot.id);
   }
   logger.info({ worker: name, threads: options.threads, cpu: build.cpuModel, commit: build.commit }, 'sweep worker taking jobs');
 
