@@ -65,6 +65,14 @@ export class ConflictAvoidanceTable {
     this.length = 0;
   }
 
+  /** Number of times other agents are in `cell` after time t (what resting there from t on would hit). */
+  visitsAfter(cell: number, t: number): number {
+    const n = this.cellCount;
+    let k = 0;
+    for (let u = t + 1; u < this.length; u++) k += this.counts[u * n + cell];
+    return k;
+  }
+
   /** Number of conflicts caused by moving from cell `from` (at t − 1) to cell `to` (at t). */
   moveCost(from: number, to: number, t: number): number {
     const n = this.cellCount;

@@ -107,8 +107,19 @@ export class SpaceTimeAStar {
       const s = this.nState[n];
       const t = this.nTime[n];
       const c = stateCell[s];
-      if (c === goal && this.nFlag[n] === 0 && t >= lengthMin && t > goalWait && t >= lastMove) {
-        return this.reconstruct(n);
+      if (c === goal && this.nFlag[n] !== 1 && t >= lengthMin && t > goalWait && t >= lastMove) {
+        // Resting at the goal from t on would hit the agents that pass it later: charge those
+        // conflicts and let equally short, less conflicting paths go first (CBSH2-RTC's rule).
+        if (this.nFlag[n] === 2 || cat === null) return this.reconstruct(n);
+        const later = cat.visitsAfter(goal, t);
+        if (later === 0) return this.reconstruct(n);
+        this.nFlag[n] = 2;
+        this.nConf[n] += later;
+        this.nClosed[n] = 0;
+        const conf2 = this.nConf[n];
+        const h = this.nH[n];
+        this.open.push(n, (t + h) * F_SHIFT + (conf2 < 1023 ? conf2 : 1023) * C_SHIFT + (h < 4095 ? h : 4095));
+        continue;
       }
       const t2 = t + 1;
       if (t2 > lengthMax) continue;
