@@ -102,12 +102,20 @@ describe('runPlanTask', () => {
     expect(runPlanTask(t, { now })).toEqual(runPlanTask(t, { now }));
   });
 
-  it('answers error with a clear reason for a model without a solver yet', () => {
-    const inst = tinyInstance('...', [[[0, 0], [2, 0]]]);
-    const r = runPlanTask(task(inst, { model: 'k-robust', k: 1, startHeading: 'free', switches: {} }));
-    expect(isModelAvailable('k-robust')).toBe(false);
-    expect(r.status).toBe('error');
-    expect(r.reason).toMatch(/k-robust has no solver/);
+  it('solves every plan model, each through its own validator', () => {
+    expect(['classic', 'uniform-duration', 'orientation-split', 'weighted-split', 'k-robust'].every((m) => isModelAvailable(m as never))).toBe(true);
+    const inst = tinyInstance('....\n.#..', [[[0, 0], [3, 0]], [[3, 0], [0, 0]]]);
+    const classicSoc = runPlanTask(task(inst, classic), { now }).soc as number;
+    // Hand-worked, start heading N: each agent needs one quarter turn (a step of its own) before 3 forwards.
+    const o = runPlanTask(task(inst, { model: 'orientation-split', startHeading: 'N', switches: {} }), { now });
+    expect(o.status).toBe('solved');
+    expect(o.soc as number).toBeGreaterThanOrEqual(classicSoc + 2);
+    // k-robust k = 0 is exactly classic (Atzmon et al., JAIR 2020); k = 1 can only cost more.
+    const k0 = runPlanTask(task(inst, { model: 'k-robust', k: 0, startHeading: 'free', switches: {} }), { now });
+    const k1 = runPlanTask(task(inst, { model: 'k-robust', k: 1, startHeading: 'free', switches: {} }), { now });
+    expect(k0.soc).toBe(classicSoc);
+    expect(k1.status).toBe('solved');
+    expect(k1.soc as number).toBeGreaterThanOrEqual(classicSoc);
   });
 
   it('answers error, not a crash, for a malformed instance', () => {

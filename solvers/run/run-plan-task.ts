@@ -8,6 +8,7 @@ import type { PlanModel } from '@shared/plan';
 import type { MapfInstance } from '../instance';
 import type { RunLimits } from './limits';
 import type { PlanTask, PlanTaskResult } from './plan-task';
+import { runCbsModelTask } from './cbs-model-task';
 import { fromTaskInstance } from './task-instance';
 import { runUnitStepTask } from './unit-step-task';
 import { runWeightedSplitTask } from './weighted-split-task';
@@ -19,6 +20,8 @@ const RUNNERS: Partial<Record<PlanModel, TaskRunner>> = {
   'classic': runUnitStepTask,
   'uniform-duration': runUnitStepTask,
   'weighted-split': runWeightedSplitTask,
+  'orientation-split': runCbsModelTask,
+  'k-robust': runCbsModelTask,
 };
 
 /** Whether runPlanTask can solve `model` in this build. */

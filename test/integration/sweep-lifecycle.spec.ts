@@ -37,11 +37,11 @@ describe('sweep lifecycle', () => {
     const def = baseDefinition(setId, { models: [{ model: 'classic' }, { model: 'weighted-split', startHeading: 'N' }] });
     const preview = await s.client.request('/api/sweeps/preview', { method: 'POST', body: JSON.stringify(def) });
     // 2 scenarios × 2 agent counts × 2 models × 1 seed, worked out by hand.
-    expect((await preview.json()).size.runs).toBe(8);
+    expect(((await preview.json()) as { size: { runs: number } }).size.runs).toBe(8);
 
     const huge = baseDefinition(setId, { agentCounts: { kind: 'range', from: 1, to: 30, step: 1 }, seeds: Array.from({ length: 100 }, (_, i) => i) });
     const res = await s.client.request('/api/sweeps', { method: 'POST', body: JSON.stringify(huge) });
-    const body = await res.json();
+    const body = (await res.json()) as { error: { code: string; message: string } };
     expect(res.status).toBe(400);
     expect(body.error.code).toBe('SWEEP_TOO_LARGE');
     // 2 scenarios × 30 agent counts × 1 model × 100 seeds = 6,000 runs, over the 5,000 limit.
@@ -97,7 +97,7 @@ describe('sweep lifecycle', () => {
     expect(final.perModel.map((m) => m.counts.solved)).toEqual([4, 4]);
 
     // Each weighted-split SOC (ms) is at least its classic run's turn-free cost in ms: the turns can only add.
-    const rows = (await (await s.client.request(`/api/sweeps/${sweep.id}/results`)).json()).items as SweepResultRow[];
+    const rows = ((await (await s.client.request(`/api/sweeps/${sweep.id}/results`)).json()) as { items: SweepResultRow[] }).items;
     for (const w of rows.filter((r) => r.model === 'weighted-split')) {
       const c = rows.find((r) => r.model === 'classic' && r.scenarioId === w.scenarioId && r.agents === w.agents) as SweepResultRow;
       expect(w.soc as number).toBeGreaterThanOrEqual((c.soc as number) * 1000);
@@ -155,7 +155,7 @@ describe('sweep lifecycle', () => {
     const t0 = Date.now();
     const res = await s.client.request(`/api/sweeps/${sweep.id}/cancel`, { method: 'POST' });
     expect(res.status).toBe(200);
-    expect((await res.json()).status).toBe('cancelled');
+    expect(((await res.json()) as { status: string }).status).toBe('cancelled');
     const ledger = await runLedger(s, sweep.id);
     expect(ledger.every((r) => r.status === 'cancelled' && Number(r.results) === 0)).toBe(true);
     const jobs = await s.sql<{ state: string; n: string }>("SELECT state, count(*) AS n FROM pgboss.job WHERE data->>'sweepId' = :id GROUP BY state", { id: String(sweep.id) });
