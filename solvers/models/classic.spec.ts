@@ -199,7 +199,14 @@ describe('solveClassic', () => {
   });
 
   it('gives the same optimal SOC with every combination of the seven switches', () => {
-    const insts = randomInstances(4, 500);
+    // Random rooms plus a corridor between two rooms and an open room where rectangles arise.
+    const corridor = gridFromText('..#####..\n.........\n..#####..');
+    const room = gridFromText('.....\n.....\n.....\n.....');
+    const insts = [
+      ...randomInstances(5, 500),
+      { grid: corridor, agents: [{ start: 0, goal: 26 }, { start: 8, goal: 18 }, { start: 19, goal: 7 }] },
+      { grid: room, agents: [{ start: 5, goal: 14 }, { start: 1, goal: 18 }, { start: 4, goal: 15 }] },
+    ];
     for (const inst of insts) {
       const expected = jointOptimum(inst, 400_000);
       if (expected === null) continue;
@@ -341,6 +348,14 @@ describe('solveClassic', () => {
     const aborted = solveClassic(inst.value, { signal: controller.signal });
     expect(aborted.status).toBe('timeout');
     expect(aborted.reason).toMatch(/abort/);
+  });
+
+  it('stops at the memory guard with timeout and a lower bound', () => {
+    const inst = randomInstances(1, 900)[0];
+    const r = solveClassic(inst, { switches: PLAIN_CBS_SWITCHES, memoryLimitMb: 0.0001 });
+    expect(r.status).toBe('timeout');
+    expect(r.reason).toMatch(/memory/);
+    expect(r.lowerBound).not.toBeNull();
   });
 
   it('is deterministic: the same input gives the same plan and counters', () => {

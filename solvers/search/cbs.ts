@@ -249,6 +249,7 @@ export class CbsEngine {
     const conflicts: Conflict[] = [];
     for (let i = 0; i < L; i++) for (let j = i + 1; j < L; j++) this.pairConflicts(root.paths, i, j, conflicts);
     root.conflicts = conflicts;
+    this.currentF = root.f; // a limit hit while registering the root still reports its bound
     this.register(root);
     return root;
   }
