@@ -10,13 +10,18 @@ import { join, resolve } from 'node:path';
 import { instanceFromScenario } from '../io/instance-from-scenario';
 import { parseMap } from '../io/parse-map';
 import { parseScenario } from '../io/parse-scenario';
+import type { Heading } from '../../shared/plan';
 import { validateClassicPlan } from '../validate/classic';
+import { validateKRobustPlan } from '../validate/k-robust';
+import { validateOrientationPlan } from '../validate/orientation-split';
 
 const ROOT = resolve(__dirname, '../..');
 const DATASET = resolve(ROOT, '../shared/datasets/grid-benchmarks');
 // The local tsx binary is what `npx tsx` resolves to; calling it directly skips npx's start-up.
 const TSX = join(ROOT, 'node_modules/.bin/tsx');
 const solve = (...args: string[]) => spawnSync(TSX, ['solvers/cli/solve.ts', ...args], { cwd: ROOT, encoding: 'utf8' });
+const CORE_KEYS = ['lowLevelExpansions', 'lowerBound', 'makespan', 'nodes', 'paths', 'runtimeMs', 'soc', 'status'];
+const MODEL_KEYS = ['model', 'parameters', 'profile', 'units', 'turnInclusiveSocMs', 'turnInclusiveMakespanMs', 'turns', 'schedule'];
 
 describe('npm run solve', () => {
   it('prints exactly one JSON object with the stable fields and a valid optimal plan', () => {
@@ -28,7 +33,7 @@ describe('npm run solve', () => {
     const lines = run.stdout.trim().split('\n');
     expect(lines).toHaveLength(1);
     const out = JSON.parse(lines[0]);
-    expect(Object.keys(out).sort()).toEqual(['lowLevelExpansions', 'lowerBound', 'makespan', 'nodes', 'paths', 'runtimeMs', 'soc', 'status'].sort());
+    expect(Object.keys(out).sort()).toEqual([...CORE_KEYS, ...MODEL_KEYS].sort());
     expect(Object.keys(out.nodes).sort()).toEqual(['expanded', 'generated']);
     expect(out.status).toBe('solved');
     expect(out.lowerBound).toBe(out.soc);
@@ -44,6 +49,69 @@ describe('npm run solve', () => {
     expect(check.ok).toBe(true);
     expect(check.soc).toBe(out.soc);
     expect(check.makespan).toBe(out.makespan);
+  });
+
+  it('solves, validates and reports every plan model with the schedule contract', () => {
+    const mapFile = join(DATASET, 'empty-8-8.map');
+    const scenFile = join(DATASET, 'empty-8-8-even-1.scen');
+    const map = parseMap(readFileSync(mapFile, 'utf8'));
+    const scen = parseScenario(readFileSync(scenFile, 'utf8'));
+    if (!map.ok || !scen.ok) throw new Error('dataset files did not parse');
+    const inst = instanceFromScenario(map.value, scen.value, 5);
+    if (!inst.ok) throw new Error('instance');
+    const profile = ['--forward-ms', '900', '--turn-ms', '400', '--wait-ms', '700'];
+    const runs: [string, string[]][] = [
+      ['classic', []], ['uniform-duration', []], ['orientation-split', ['--start-heading', 'E']], ['weighted-split', []], ['k-robust', ['--k', '2']],
+    ];
+    const results = new Map<string, Record<string, any>>();
+    for (const [model, extra] of runs) {
+      const run = solve('--map', mapFile, '--scen', scenFile, '--agents', '5', '--json', '--model', model, ...profile, ...extra);
+      expect(run.stderr).toBe('');
+      expect(run.status).toBe(0);
+      const out = JSON.parse(run.stdout.trim());
+      results.set(model, out);
+      expect(out.status).toBe('solved');
+      expect(out.model).toBe(model);
+      expect(out.profile).toMatchObject({ forwardMs: 900, quarterTurnMs: 400, waitMs: 700 });
+      for (const key of MODEL_KEYS) expect(out).toHaveProperty(key);
+      expect(out.schedule).toHaveLength(5);
+      for (const acts of out.schedule) {
+        for (const a of acts) {
+          expect(['forward', 'turn-left', 'turn-right', 'wait']).toContain(a.action);
+          expect(['N', 'E', 'S', 'W']).toContain(a.heading);
+          expect(a.from).toHaveLength(2);
+          expect(a.to).toHaveLength(2);
+          expect(a.end).toBeGreaterThan(a.start);
+          // Waits last waitMs on the back-to-back models; uniform-duration and weighted-split waits fill gaps.
+          if (a.action === 'forward') expect(a.end - a.start).toBe(900);
+          else if (a.action !== 'wait') expect(a.end - a.start).toBe(400);
+          else if (['classic', 'k-robust', 'orientation-split'].includes(model)) expect(a.end - a.start).toBe(700);
+        }
+      }
+      const turns = out.schedule.flat().filter((a: { action: string }) => a.action.startsWith('turn')).length;
+      expect(out.turns).toBe(turns);
+    }
+    // Paths of the unit-step models go back through the independent validators.
+    const cells = (out: Record<string, any>) => (out.paths as [number, number][][]).map((p) => p.map(([x, y]) => y * 8 + x));
+    expect(validateClassicPlan(inst.value, cells(results.get('classic')!)).soc).toBe(results.get('classic')!.soc);
+    expect(validateKRobustPlan(inst.value, cells(results.get('k-robust')!), 2).ok).toBe(true);
+    const states = (results.get('orientation-split')!.states as [number, number, Heading][][]).map((p) => p.map(([x, y, heading]) => ({ cell: y * 8 + x, heading })));
+    expect(validateOrientationPlan(inst.value, states, 'E').soc).toBe(results.get('orientation-split')!.soc);
+    expect(results.get('weighted-split')!.units).toBe('ms');
+    expect(results.get('k-robust')!.parameters.k).toBe(2);
+    // Uniform-duration: turn-inclusive makespan = classic makespan × (forward + 2 × quarter turn).
+    expect(results.get('uniform-duration')!.turnInclusiveMakespanMs).toBe(results.get('classic')!.makespan * (900 + 2 * 400));
+  });
+
+  it('refuses --k without k-robust, k-robust without --k, and a bad heading, with usage', () => {
+    const base = ['--map', join(DATASET, 'empty-8-8.map'), '--scen', join(DATASET, 'empty-8-8-even-1.scen'), '--agents', '2'];
+    expect(solve(...base, '--model', 'k-robust').stderr).toMatch(/--k is required/);
+    expect(solve(...base, '--k', '1').stderr).toMatch(/--k applies to the k-robust model only/);
+    const bad = solve(...base, '--model', 'orientation-split', '--start-heading', 'NE');
+    expect(bad.status).toBe(2);
+    expect(bad.stderr).toMatch(/--start-heading must be N, E, S, W or free/);
+    expect(solve(...base, '--model', 'diagonal').stderr).toMatch(/--model must be one of/);
+    expect(solve(...base, '--turn-ms', '0').stderr).toMatch(/--turn-ms must be a whole number/);
   });
 
   it('names the missing file on stderr and exits 1', () => {
