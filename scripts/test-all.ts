@@ -34,6 +34,11 @@ function main(): number {
     buildFailures = 1;
   }
 
+  // ts-jest transpiles file by file, so only the compiler sees type errors across files.
+  console.log('typecheck: tsc over api, solvers, shared, web and e2e…');
+  const typecheck = spawnSync('npm', ['run', '-s', 'typecheck'], { stdio: 'inherit' });
+  const typeFailures = typecheck.status === 0 ? 0 : 1;
+
   const outDir = mkdtempSync(join(tmpdir(), 'qt-jest-'));
   const outFile = join(outDir, 'results.json');
   const extra = process.argv.slice(2);
@@ -44,13 +49,13 @@ function main(): number {
   );
   if (!existsSync(outFile)) {
     console.log(`\nJest produced no results (exit ${jest.status}).`);
-    console.log(`0 passed, ${1 + buildFailures} failed`);
+    console.log(`0 passed, ${1 + buildFailures + typeFailures} failed`);
     return 1;
   }
   const summary = JSON.parse(readFileSync(outFile, 'utf8')) as JestSummary;
   rmSync(outDir, { recursive: true, force: true });
   // A suite that cannot even load has no test results of its own: count it as one failure.
-  const failed = summary.numFailedTests + summary.numRuntimeErrorTestSuites + buildFailures;
+  const failed = summary.numFailedTests + summary.numRuntimeErrorTestSuites + buildFailures + typeFailures;
   const skipped = summary.numPendingTests + summary.numTodoTests;
   console.log(`\n${summary.numPassedTests} passed, ${failed} failed${skipped ? `, ${skipped} skipped` : ''}`);
   return failed === 0 && jest.status === 0 && summary.numTotalTests > 0 ? 0 : 1;

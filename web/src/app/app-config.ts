@@ -2,7 +2,7 @@
 import { ApplicationConfig, provideBrowserGlobalErrorListeners, provideZonelessChangeDetection } from '@angular/core';
 import { provideHttpClient, withInterceptors, withXsrfConfiguration } from '@angular/common/http';
 import { provideRouter, withComponentInputBinding } from '@angular/router';
-import { CSRF_COOKIE_NAME, CSRF_HEADER_NAME } from './core/auth-contract';
+import { CSRF_COOKIE, CSRF_HEADER } from '@shared/auth-contract';
 import { routes } from './app-routes';
 import { errorInterceptor } from './core/error-interceptor';
 
@@ -16,7 +16,7 @@ export const appConfig: ApplicationConfig = {
     // same-origin POST/PUT/PATCH/DELETE, which is exactly the contract in shared/auth.ts.
     provideHttpClient(
       withInterceptors([errorInterceptor]),
-      withXsrfConfiguration({ cookieName: CSRF_COOKIE_NAME, headerName: CSRF_HEADER_NAME }),
+      withXsrfConfiguration({ cookieName: CSRF_COOKIE, headerName: CSRF_HEADER }),
     ),
   ],
 };

@@ -3,7 +3,7 @@ import { HttpClient } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import type { Observable } from 'rxjs';
 import type { AccountSettingsRequest, MeResponse } from '@shared/auth';
-import { SIGN_OUT_URL } from './auth-contract';
+import { SIGN_OUT_PATH } from '@shared/auth-contract';
 
 /** Owns the /api/me and /api/auth URLs the shell uses. */
 @Injectable({ providedIn: 'root' })
@@ -22,6 +22,6 @@ export class AccountApi {
 
   /** POST /api/auth/logout: ends the server session. */
   signOut(): Observable<unknown> {
-    return this.http.post<unknown>(SIGN_OUT_URL, {});
+    return this.http.post<unknown>(SIGN_OUT_PATH, {});
   }
 }

@@ -2,7 +2,7 @@
 import { ChangeDetectionStrategy, Component, computed, inject, input } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { RouterLink } from '@angular/router';
-import { SIGN_IN_URL } from './auth-contract';
+import { SIGN_IN_PATH } from '@shared/auth-contract';
 import { Session } from './session';
 
 /** Explains which role an area needs and what the visitor can do about it. */
@@ -15,7 +15,7 @@ import { Session } from './session';
 })
 export default class NotAllowed {
   protected readonly session = inject(Session);
-  protected readonly signInUrl = SIGN_IN_URL;
+  protected readonly signInUrl = SIGN_IN_PATH;
   /** The area that refused entry (query parameter `area`). */
   readonly area = input<string>();
   /** The role that area needs (query parameter `needs`). */

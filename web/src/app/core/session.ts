@@ -2,7 +2,7 @@
 import { Injectable, computed, inject, signal } from '@angular/core';
 import { firstValueFrom } from 'rxjs';
 import type { Account, MeResponse, Role } from '@shared/auth';
-import { isRoleAtLeast } from './auth-contract';
+import { hasRole } from '@shared/auth-contract';
 import { AccountApi } from './account-api';
 
 const VISITOR: MeResponse = { account: null, role: 'visitor' };
@@ -24,7 +24,7 @@ export class Session {
   /** Whether someone is signed in. */
   readonly isSignedIn = computed(() => this.account() !== null);
   /** Whether the current role may use the admin area. */
-  readonly isAdmin = computed(() => isRoleAtLeast(this.role(), 'admin'));
+  readonly isAdmin = computed(() => hasRole(this.role(), 'admin'));
 
   /** Loads the session once; later calls share the first answer. A failed load counts as visitor. */
   load(): Promise<MeResponse> {
@@ -44,7 +44,7 @@ export class Session {
 
   /** Whether the current role is at least `needed`. */
   hasRole(needed: Role): boolean {
-    return isRoleAtLeast(this.role(), needed);
+    return hasRole(this.role(), needed);
   }
 
   /**

@@ -4,7 +4,7 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatToolbarModule } from '@angular/material/toolbar';
 import { RouterLink, RouterLinkActive, RouterOutlet } from '@angular/router';
 import { AccountMenu } from './account-menu';
-import { SIGN_IN_URL } from './auth-contract';
+import { SIGN_IN_PATH } from '@shared/auth-contract';
 import { Session } from './session';
 
 /** One entry of the area navigation. */
@@ -31,7 +31,7 @@ const AREAS: readonly Area[] = [
 export default class Shell {
   protected readonly session = inject(Session);
   protected readonly areas = AREAS;
-  protected readonly signInUrl = SIGN_IN_URL;
+  protected readonly signInUrl = SIGN_IN_PATH;
 
   constructor() {
     void this.session.load();

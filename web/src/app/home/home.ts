@@ -6,7 +6,7 @@ import { MatButtonModule } from '@angular/material/button';
 import { RouterLink } from '@angular/router';
 import { catchError, of } from 'rxjs';
 import type { StatsResponse } from '@shared/auth';
-import { SIGN_IN_URL } from '../core/auth-contract';
+import { SIGN_IN_PATH } from '@shared/auth-contract';
 import { StatsApi } from './stats-api';
 
 /** One counter tile. */
@@ -35,7 +35,7 @@ const COUNTERS: readonly Counter[] = [
 export default class Home {
   private readonly api = inject(StatsApi);
   protected readonly counters = COUNTERS;
-  protected readonly signInUrl = SIGN_IN_URL;
+  protected readonly signInUrl = SIGN_IN_PATH;
   /** Query parameter `signin`; the server's OAuth callback sets it to `failed` (SIGN_IN_FAILED_PATH). */
   readonly signin = input<string>();
   /** Whether the page was reached after a cancelled or refused sign-in. */

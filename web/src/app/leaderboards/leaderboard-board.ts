@@ -20,7 +20,7 @@ import { EXPORT_FORMATS, type ExportFormat } from '@shared/exports-table';
 import {
   COMPARE_METRICS, columnsOf, DEFAULT_VIEW, ENTRY_COLUMNS, parseView, viewToParams, type CompareMetric, type Layout, type LeaderboardView,
 } from '@shared/leaderboards';
-import { isRoleAtLeast } from '../core/auth-contract';
+import { hasRole } from '@shared/auth-contract';
 import { Session } from '../core/session';
 import { LeaderboardApi, type BoardScope } from './leaderboard-api';
 import { gridColumns, type GridRow } from './leaderboard-columns';
@@ -72,7 +72,7 @@ export default class LeaderboardBoard {
     return this.formats.map((f) => ({ ...f, href: this.api.exportUrl(f.id, params) }));
   });
   /** Whether the viewer may submit plans (researchers and up). */
-  protected readonly canSubmit = computed(() => isRoleAtLeast(this.session.role(), 'researcher'));
+  protected readonly canSubmit = computed(() => hasRole(this.session.role(), 'researcher'));
 
   private grid: GridApi<GridRow> | null = null;
 
