@@ -8,6 +8,13 @@
  *   npm run bench:solver -- --agents 10,20 --time-limit 5   # a quick run
  *   npm run bench:solver -- --map empty-8-8 --agents 4,8,12,16 --scen 1,2
  *   npm run bench:solver -- --switches '{"wdg":false}'       # an ablation
+ *   npm run bench:solver -- --models all --agents 10,20,30 --time-limit 10   # the five plan models
+ *
+ * --models classic (default) | all | a comma list of plan models; every model runs through
+ * solveModel on the same instances (k-robust with --k, default 2; start heading --start-heading,
+ * default free; robot profile --forward-ms / --turn-ms / --wait-ms, defaults 1000 / 800 / 1000).
+ * With more than one model a last table compares them: solved (validated) runs, median runtime,
+ * and the median ratio of turn-inclusive makespan to classic's on instances both solved.
  */
 import { mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { dirname, join } from 'node:path';
@@ -15,9 +22,10 @@ import { parseArgs } from 'node:util';
 import { instanceFromScenario } from '../solvers/io/instance-from-scenario';
 import { parseMap } from '../solvers/io/parse-map';
 import { parseScenario } from '../solvers/io/parse-scenario';
-import { solveClassic } from '../solvers/models/classic';
+import { PLAN_MODELS, type PlanModel, type StartHeading } from '../shared/plan';
+import { DEFAULT_ROBOT_PROFILE } from '../solvers/models/heading-schedule';
+import { isPlanModel, solveModel } from '../solvers/models/solve-model';
 import type { CbsSwitches } from '../solvers/search/cbs-types';
-import { validateClassicPlan } from '../solvers/validate/classic';
 
 const root = join(__dirname, '..');
 const dataset = join(root, '..', 'shared', 'datasets', 'grid-benchmarks');
@@ -29,6 +37,12 @@ const { values } = parseArgs({
     agents: { type: 'string', default: '10,20,30,40,50,60' },
     'time-limit': { type: 'string', default: '30' },
     switches: { type: 'string' },
+    models: { type: 'string', default: 'classic' },
+    k: { type: 'string', default: '2' },
+    'start-heading': { type: 'string', default: 'free' },
+    'forward-ms': { type: 'string', default: String(DEFAULT_ROBOT_PROFILE.forwardMs) },
+    'turn-ms': { type: 'string', default: String(DEFAULT_ROBOT_PROFILE.quarterTurnMs) },
+    'wait-ms': { type: 'string', default: String(DEFAULT_ROBOT_PROFILE.waitMs) },
     out: { type: 'string', default: join(root, 'benchmarks', 'results', 'solver.json') },
   },
 });
@@ -37,8 +51,19 @@ const scens = values.scen.split(',').map((s) => s.trim());
 const agentCounts = values.agents.split(',').map(Number);
 const timeLimitMs = Number(values['time-limit']) * 1000;
 const switches = values.switches ? (JSON.parse(values.switches) as Partial<CbsSwitches>) : undefined;
+const models: PlanModel[] = values.models === 'all' ? [...PLAN_MODELS] : values.models.split(',').map((m) => {
+  const name = m.trim();
+  if (!isPlanModel(name)) throw new Error(`--models: unknown plan model '${name}' (expected all or some of ${PLAN_MODELS.join(', ')})`);
+  return name;
+});
+const robustK = Number(values.k);
+const startHeading = values['start-heading'] as StartHeading;
+const profile = {
+  ...DEFAULT_ROBOT_PROFILE, forwardMs: Number(values['forward-ms']), quarterTurnMs: Number(values['turn-ms']), waitMs: Number(values['wait-ms']),
+};
 
 interface Run {
+  model: PlanModel;
   map: string;
   scenario: string;
   agents: number;
@@ -50,11 +75,12 @@ interface Run {
   nodesGenerated: number;
   nodesExpanded: number;
   lowLevelExpansions: number;
+  turnInclusiveMakespanMs: number | null;
 }
 
 const runs: Run[] = [];
 const started = new Date().toISOString();
-console.log(`map scenario agents status soc lowerBound runtimeMs expanded generated lowLevel valid (limit ${timeLimitMs / 1000} s)`);
+console.log(`model map scenario agents status soc lowerBound runtimeMs expanded generated lowLevel valid turnInclusiveMakespanMs (limit ${timeLimitMs / 1000} s)`);
 for (const mapName of maps) {
   const mapFile = join(dataset, `${mapName}.map`);
   const map = parseMap(readFileSync(mapFile, 'utf8'), { name: mapName });
@@ -67,14 +93,20 @@ for (const mapName of maps) {
       if (k > scen.value.rows.length) continue;
       const inst = instanceFromScenario(map.value, scen.value, k);
       if (!inst.ok) throw new Error(`${scenFile}: ${inst.errors.map((e) => e.message).join('; ')}`);
-      const r = solveClassic(inst.value, { timeLimitMs, now: () => performance.now(), switches });
-      const valid = r.status === 'solved' ? validateClassicPlan(inst.value, r.paths).ok : null;
-      const run: Run = {
-        map: mapName, scenario: `${mapName}-even-${s}`, agents: k, status: r.status, valid, soc: r.soc, lowerBound: r.lowerBound,
-        runtimeMs: Math.round(r.runtimeMs), nodesGenerated: r.nodesGenerated, nodesExpanded: r.nodesExpanded, lowLevelExpansions: r.lowLevelExpansions,
-      };
-      runs.push(run);
-      console.log([mapName, s, k, r.status, r.soc ?? '-', r.lowerBound ?? '-', run.runtimeMs, r.nodesExpanded, r.nodesGenerated, r.lowLevelExpansions, valid ?? '-'].join(' '));
+      for (const model of models) {
+        const r = solveModel(model, inst.value, {
+          timeLimitMs, now: () => performance.now(), switches, profile, startHeading, k: model === 'k-robust' ? robustK : undefined,
+        });
+        // solveModel has already passed the plan through the model's independent validator.
+        const valid = r.status === 'solved' ? r.isValidated : null;
+        const run: Run = {
+          model, map: mapName, scenario: `${mapName}-even-${s}`, agents: k, status: r.status, valid, soc: r.soc, lowerBound: r.lowerBound,
+          runtimeMs: Math.round(r.runtimeMs), nodesGenerated: r.nodesGenerated, nodesExpanded: r.nodesExpanded, lowLevelExpansions: r.lowLevelExpansions,
+          turnInclusiveMakespanMs: r.turnInclusiveMakespanMs,
+        };
+        runs.push(run);
+        console.log([model, mapName, s, k, r.status, r.soc ?? '-', r.lowerBound ?? '-', run.runtimeMs, r.nodesExpanded, r.nodesGenerated, r.lowLevelExpansions, valid ?? '-', r.turnInclusiveMakespanMs ?? '-'].join(' '));
+      }
     }
   }
 }
@@ -85,10 +117,10 @@ const median = (xs: number[]): number => {
   return s.length % 2 ? s[(s.length - 1) / 2] : (s[s.length / 2 - 1] + s[s.length / 2]) / 2;
 };
 const summary = [];
-console.log('\nmap agents solved/runs invalid median-ms max-ms median-expanded LL-exp/s (runtimes over all runs; unsolved count at the limit)');
-for (const mapName of maps) {
+console.log('\nmodel map agents solved/runs invalid median-ms max-ms median-expanded LL-exp/s (runtimes over all runs; unsolved count at the limit)');
+for (const model of models) for (const mapName of maps) {
   for (const k of agentCounts) {
-    const rs = runs.filter((r) => r.map === mapName && r.agents === k);
+    const rs = runs.filter((r) => r.model === model && r.map === mapName && r.agents === k);
     if (rs.length === 0) continue;
     const solved = rs.filter((r) => r.status === 'solved' && r.valid === true).length;
     const invalid = rs.filter((r) => r.valid === false).length;
@@ -96,18 +128,34 @@ for (const mapName of maps) {
     const totalMs = times.reduce((a, b) => a + b, 0);
     const ll = rs.reduce((a, r) => a + r.lowLevelExpansions, 0);
     const row = {
-      map: mapName, agents: k, runs: rs.length, solved, invalid, medianMs: median(times), maxMs: Math.max(...times),
+      model, map: mapName, agents: k, runs: rs.length, solved, invalid, medianMs: median(times), maxMs: Math.max(...times),
       medianExpanded: median(rs.map((r) => r.nodesExpanded)), lowLevelPerSecond: totalMs > 0 ? Math.round((ll / totalMs) * 1000) : 0,
     };
     summary.push(row);
-    console.log([mapName, k, `${solved}/${rs.length}`, invalid, row.medianMs, row.maxMs, row.medianExpanded, row.lowLevelPerSecond].join(' '));
+    console.log([model, mapName, k, `${solved}/${rs.length}`, invalid, row.medianMs, row.maxMs, row.medianExpanded, row.lowLevelPerSecond].join(' '));
   }
 }
 const totalSolved = runs.filter((r) => r.status === 'solved' && r.valid === true).length;
 console.log(`\ntotal solved (valid, proven optimal): ${totalSolved}/${runs.length}`);
+
+// One table comparing the models on the same instances.
+const comparison = [];
+if (models.length > 1) {
+  const key = (r: Run): string => `${r.scenario}/${r.agents}`;
+  const classicMs = new Map(runs.filter((r) => r.model === 'classic' && r.valid === true).map((r) => [key(r), r.turnInclusiveMakespanMs as number]));
+  console.log(`\nmodel | solved | median ms | median turn-inclusive makespan / classic (k = ${robustK}, start ${startHeading}, forward ${profile.forwardMs} ms, quarter turn ${profile.quarterTurnMs} ms, wait ${profile.waitMs} ms)`);
+  for (const model of models) {
+    const rs = runs.filter((r) => r.model === model);
+    const solved = rs.filter((r) => r.valid === true);
+    const ratios = solved.filter((r) => classicMs.has(key(r))).map((r) => (r.turnInclusiveMakespanMs as number) / (classicMs.get(key(r)) as number));
+    const row = { model, runs: rs.length, solved: solved.length, medianMs: median(rs.map((r) => r.runtimeMs)), makespanRatioToClassic: ratios.length ? median(ratios) : null, ratioPairs: ratios.length };
+    comparison.push(row);
+    console.log(`${model} | ${solved.length}/${rs.length} | ${row.medianMs} | ${row.makespanRatioToClassic === null ? '-' : row.makespanRatioToClassic.toFixed(3)} (${ratios.length} pairs)`);
+  }
+}
 mkdirSync(dirname(values.out), { recursive: true });
 writeFileSync(values.out, JSON.stringify({
   started, finished: new Date().toISOString(), node: process.version, timeLimitMs, switches: switches ?? 'default (all on)',
-  totalSolved, totalRuns: runs.length, summary, runs,
+  models, k: robustK, startHeading, profile, totalSolved, totalRuns: runs.length, summary, comparison, runs,
 }, null, 2));
 console.log(`wrote ${values.out}`);
