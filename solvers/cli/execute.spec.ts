@@ -28,11 +28,24 @@ describe('npm run execute', () => {
   });
 
   it('rejects an unknown model and a bad number with exit code 2', () => {
-    const model = execute(...files, '--model', 'k-robust', '--policy', 'lockstep');
+    const model = execute(...files, '--model', 'diagonal', '--policy', 'lockstep');
     expect(model.status).toBe(2);
-    expect(model.stderr).toContain('--model k-robust: not available');
+    expect(model.stderr).toContain('--model: expected one of classic');
+    const noK = execute(...files, '--model', 'k-robust', '--policy', 'lockstep');
+    expect([noK.status, noK.stderr.trim()]).toEqual([2, 'execute: --k is required with --model k-robust']);
     const runs = execute(...files, '--model', 'classic', '--policy', 'lockstep', '--runs', '0');
     expect([runs.status, runs.stderr.trim()]).toEqual([2, 'execute: --runs: a positive integer, got "0"']);
+  });
+
+  it.each([
+    ['orientation-split', []],
+    ['k-robust', ['--k', '1']],
+  ])('solves under %s and replays the plan without collision under dependency gating', (model, extra) => {
+    const run = execute(...files, '--model', model, ...extra, '--policy', 'dependency-gated', '--jitter', '0.2', '--runs', '10', '--json');
+    expect(run.status).toBe(0);
+    const out = JSON.parse(run.stdout);
+    expect(out.runs).toBe(10);
+    expect(out.collisions.total).toBe(0);
   });
 
   it('names the file, line and column of a broken input', () => {

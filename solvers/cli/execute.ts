@@ -5,7 +5,7 @@
  * Solves the instance under the plan model, then simulates the plan on the robot fleet.
  * Model options: --start-heading N|E|S|W|free (default free), --forward-ms, --quarter-turn-ms,
  * --wait-ms, --pitch-mm, --diameter-mm (robot profile; defaults below), --time-limit-ms (30000).
- * Models available: classic, uniform-duration, weighted-split.
+ * Models: classic, uniform-duration, orientation-split, weighted-split, k-robust (with --k 0..4).
  * With --json it prints exactly one JSON object (a stable contract):
  * {"runs","successRate","collisions":{"mean","total"},"realisedMakespanMs":{"mean","p95"},
  *  "finishSpreadMs":{"mean","p95"},"waitingMs":{"mean"},"firstCollision":null|{"robots","timeMs","at"}}
@@ -15,16 +15,14 @@
  */
 import { readFileSync } from 'node:fs';
 import { parseArgs } from 'node:util';
-import { HEADINGS, type RobotProfile, type StartHeading } from '../../shared/plan';
+import { HEADINGS, PLAN_MODELS, type RobotProfile, type StartHeading } from '../../shared/plan';
 import { EXECUTION_POLICIES, simulateExecution, type ExecutablePlan, type ExecutionPolicy, type ExecutionSummary } from '../execute';
 import type { MapfInstance } from '../instance';
 import { instanceFromScenario } from '../io/instance-from-scenario';
 import { parseMap } from '../io/parse-map';
 import { formatParseError } from '../io/parse-result';
 import { parseScenario } from '../io/parse-scenario';
-import { solveClassic } from '../models/classic';
-import { scheduleFromPaths } from '../models/turn-schedule';
-import { solveWeightedSplit } from '../models/weighted-split';
+import { isPlanModel, solveModel } from '../models/solve-model';
 
 const DEFAULT_PROFILE: RobotProfile = { forwardMs: 1000, quarterTurnMs: 800, waitMs: 1000, cellPitchMm: 500, robotDiameterMm: 400, timingJitter: 0 };
 const SAFETY_NOTE = 'Simulation is no safety assessment: follow the applicable safety standards and local rules before running robots near people.';
@@ -56,22 +54,13 @@ function loadInstance(mapFile: string, scenFile: string, agents: number): MapfIn
   return instance.value;
 }
 
-/** Solves under the model; a plan for the simulator, or the reason there is none. */
-function solve(model: string, instance: MapfInstance, profile: RobotProfile, startHeading: StartHeading, timeLimitMs: number): ExecutablePlan | string {
-  const now = () => performance.now();
-  if (model === 'classic' || model === 'uniform-duration') {
-    const result = solveClassic(instance, { timeLimitMs, now });
-    if (result.status !== 'solved') return `classic CBS: ${result.status}${result.reason ? ` (${result.reason})` : ''}`;
-    const ts = scheduleFromPaths(instance, result.paths, profile, { startHeading, stretch: model === 'classic' ? 'none' : 'uniform' });
-    return { timeline: 'steps', schedule: ts.schedule, paddingWaitMs: ts.waitStepMs };
-  }
-  if (model === 'weighted-split') {
-    const result = solveWeightedSplit(instance, { profile, startHeading, timeLimitMs, now });
-    if (result.status !== 'solved') return `weighted-split: ${result.status}${result.infeasibleReason ? ` (${result.infeasibleReason})` : ''}`;
-    return { timeline: 'ms', schedule: result.schedule };
-  }
-  if (model === 'orientation-split' || model === 'k-robust') throw new UsageError(`--model ${model}: not available in the execute command yet (use classic, uniform-duration or weighted-split)`);
-  throw new UsageError(`--model: expected classic, uniform-duration or weighted-split, got ${JSON.stringify(model)}`);
+/** Solves under the model (validated by its own validator); a plan for the simulator, or the reason there is none. */
+function solve(model: string, instance: MapfInstance, profile: RobotProfile, startHeading: StartHeading, k: number | undefined, timeLimitMs: number): ExecutablePlan | string {
+  if (!isPlanModel(model)) throw new UsageError(`--model: expected one of ${PLAN_MODELS.join(', ')}, got ${JSON.stringify(model)}`);
+  if (model === 'k-robust' && k === undefined) throw new UsageError('--k is required with --model k-robust');
+  const result = solveModel(model, instance, { profile, startHeading, k, timeLimitMs, now: () => performance.now() });
+  if (result.status !== 'solved') return `${model}: ${result.status}${result.reason ? ` (${result.reason})` : ''}`;
+  return { timeline: result.timeline, schedule: result.schedule, paddingWaitMs: result.waitStepMs };
 }
 
 /** The stable JSON contract of `--json`. */
@@ -96,7 +85,7 @@ function main(argv: string[]): number {
       'wait-ms': { type: 'string' }, 'pitch-mm': { type: 'string' }, 'diameter-mm': { type: 'string' },
       'time-limit-ms': { type: 'string' }, policy: { type: 'string' }, jitter: { type: 'string' },
       'stall-prob': { type: 'string' }, 'stall-ms': { type: 'string' }, 'on-collision': { type: 'string' },
-      runs: { type: 'string' }, seed: { type: 'string' }, json: { type: 'boolean' },
+      runs: { type: 'string' }, seed: { type: 'string' }, k: { type: 'string' }, json: { type: 'boolean' },
     },
     strict: true,
   });
@@ -128,7 +117,8 @@ function main(argv: string[]): number {
   const timeLimitMs = number(values['time-limit-ms'], 'time-limit-ms', 30_000, positive, 'a positive number');
 
   const instance = loadInstance(values.map as string, values.scen as string, agents);
-  const plan = solve(values.model as string, instance, profile, startHeading, timeLimitMs);
+  const k = values.k === undefined ? undefined : number(values.k, 'k', 0, (v) => Number.isInteger(v) && v >= 0 && v <= 4, 'an integer from 0 to 4');
+  const plan = solve(values.model as string, instance, profile, startHeading, k, timeLimitMs);
   if (typeof plan === 'string') {
     console.error(`no plan: ${plan}`);
     return 1;
