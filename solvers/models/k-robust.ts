@@ -1,6 +1,6 @@
 /**
- * `solveKRobust`: optimal (minimum sum-of-costs) k-robust CBS (Atzmon, Stern, Felner, Wagner,
- * Barták, Zhou, "Robust multi-agent path finding and executing", JAIR 2020; SoCS 2018): the
+ * `solveKRobust`: optimal (minimum sum-of-costs) k-robust CBS (Atzmon et al.,
+ * "Robust multi-agent path finding and executing", JAIR 2020; SoCS 2018): the
  * model-generic CBS engine on the classic graph with k-delay conflicts split by range
  * constraints (search/range-conflicts.ts). A k-robust plan stays free of collisions when any
  * agents run up to k steps late.

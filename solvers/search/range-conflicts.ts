@@ -1,6 +1,6 @@
 /**
  * k-delay conflicts and their range-constraint split, the model-specific part of the CBS engine
- * for k-robust plans (Atzmon, Stern, Felner, Wagner, Barták, Zhou, "Robust multi-agent path
+ * for k-robust plans (Atzmon et al., "Robust multi-agent path
  * finding and executing", JAIR 2020; first as "k-robust multi-agent path finding", SoCS 2018).
  *
  * A k-delay conflict: agent a1 is in cell v at time t1 and agent a2 at time t2 with
