@@ -19,6 +19,10 @@ export const ERROR_CODES = [
   'INVALID_INSTANCE_FILES',
   'SWEEP_NOT_FOUND',
   'SWEEP_TOO_LARGE',
+  /** The server's interactive worker pool (api/src/workers/interactive-pool.ts): 503, try again later. */
+  'COMPUTE_TIME_LIMIT',
+  'COMPUTE_BUSY',
+  'COMPUTE_MEMORY_LIMIT',
   'INTERNAL',
 ] as const;
 export type ErrorCode = (typeof ERROR_CODES)[number] | (string & {});

@@ -12,7 +12,7 @@ export type ExecutionPolicyName = (typeof EXECUTION_POLICY_NAMES)[number];
 export const COLLISION_MODES = ['count', 'stop'] as const;
 export type CollisionModeName = (typeof COLLISION_MODES)[number];
 
-/** Limits of POST /api/executions (the request runs inline for now, so they are small). */
+/** Limits of POST /api/executions (the request waits for the server's interactive worker pool, so they are small). */
 export const EXECUTION_LIMITS = {
   /** Monte Carlo runs one request may ask for. */
   maxRuns: 500,
@@ -46,8 +46,12 @@ export const STARTER_PROFILE: RobotProfile = {
 export const EXECUTION_ERROR_CODES = [
   /** GET /api/executions/:id of an unknown id, or one the viewer may not see. */
   'EXECUTION_NOT_FOUND',
-  /** `resultId` was sent but stored sweep results cannot be executed in this build yet. */
+  /** No longer answered (stored sweep results are executed now); kept because codes never change once released. */
   'RESULT_EXECUTION_UNAVAILABLE',
+  /** `resultId` names no stored result, or one of an instance set the viewer may not see. */
+  'RESULT_NOT_FOUND',
+  /** The stored result has no plan to execute (it timed out, failed or was infeasible). */
+  'RESULT_NOT_SOLVED',
   /** No plan was sent and the instance is too large for the server to solve inline. */
   'SOLVE_TOO_LARGE',
   /** No plan was sent and the model has no solver in this build. */

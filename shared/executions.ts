@@ -87,6 +87,8 @@ export const InstanceExecutionRequestSchema = z.object({
 
 /** Either request form. */
 export type CreateExecutionRequest = z.output<typeof ResultExecutionRequestSchema> | z.output<typeof InstanceExecutionRequestSchema>;
+/** The stored-result form as a client may send it (defaults optional). */
+export type ResultExecutionInput = z.input<typeof ResultExecutionRequestSchema>;
 /** The instance form as a client may send it (defaults optional). */
 export type InstanceExecutionInput = z.input<typeof InstanceExecutionRequestSchema>;
 /** The instance form after validation. */
@@ -118,12 +120,16 @@ export interface ExecutionSource {
   /** Absent when the tasks were sent with a map. */
   readonly scenarioId?: number;
   readonly scenarioName?: string;
+  /** The stored sweep result whose plan ran (POST with `resultId`). */
+  readonly resultId?: number;
+  /** The sweep that produced that result. */
+  readonly sweepId?: number;
 }
 
 /** The plan the fleet ran. `timeline`: what `step` counts (abstract steps, or ms for weighted-split). */
 export interface ExecutionPlanView {
-  /** `solved`: by the server for this request; `given`: sent in the body. */
-  readonly origin: 'solved' | 'given';
+  /** `solved`: by the server for this request; `given`: sent in the body; `result`: a stored sweep result's plan. */
+  readonly origin: 'solved' | 'given' | 'result';
   readonly timeline: 'steps' | 'ms';
   readonly schedule: Schedule;
 }

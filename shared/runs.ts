@@ -70,6 +70,8 @@ export interface ExecutionView {
 /** One row of a sweep's results table: the run and, when it produced one, its result. */
 export interface SweepResultRow {
   readonly runId: number;
+  /** The stored result once the run is over (POST /api/executions {resultId} replays its plan); null before. */
+  readonly resultId: number | null;
   readonly scenarioId: number;
   readonly scenarioName: string;
   readonly mapName: string;

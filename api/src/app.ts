@@ -32,6 +32,7 @@ import { createStatsService, type StatsService } from './stats/stats.service';
 import { createUsersService } from './users/users.service';
 import { APP_VERSION } from './version';
 import { hasWebBuild, webAppRouter } from './web/web-app';
+import { InteractivePool } from './workers/interactive-pool';
 
 /** What createApp can be handed instead of building it from config (tests pass fakes or shared pools). */
 export interface AppDeps {
@@ -45,6 +46,8 @@ export interface AppDeps {
   readonly fakeOAuthUrl: string;
   /** Mailbox of a running local fake SMTP server; serves GET /api/dev/mailbox when given. */
   readonly mailbox: Mailbox;
+  /** The interactive worker pool; default one of config.interactiveThreads threads, closed by dispose(). */
+  readonly interactivePool: InteractivePool;
 }
 
 /** The Express app plus its context and a dispose() that closes what createApp opened. */
@@ -89,7 +92,14 @@ export function createApp(config: AppConfig, deps: Partial<AppDeps> = {}): Quart
   const onDispose = (close: () => Promise<void>) => {
     owned.unshift(close);
   };
-  const context: AppContext = { config, logger, sequelize, models, users, stats, version: APP_VERSION, onDispose, mailbox: deps.mailbox };
+  let interactive = deps.interactivePool;
+  if (!interactive) {
+    // Threads load on the first job (most test apps never run one) and stay loaded from then on.
+    const created = new InteractivePool({ threads: config.interactiveThreads, timeLimitMs: config.interactiveTimeLimitMs });
+    owned.unshift(() => created.close());
+    interactive = created;
+  }
+  const context: AppContext = { config, logger, sequelize, models, users, stats, version: APP_VERSION, onDispose, interactive, mailbox: deps.mailbox };
   const fakeOAuthUrl = deps.fakeOAuthUrl ?? (config.oauth.mode === 'fake' ? `http://127.0.0.1:${config.oauth.port}` : '');
   const passport = createPassport(config, users, fakeOAuthUrl);
 

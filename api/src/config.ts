@@ -53,6 +53,10 @@ export interface AppConfig {
   readonly fakeSmtpPort: number;
   /** Seconds a run's job may outlive its time limit before the queue hands it to another worker (JOB_EXPIRY_MARGIN_SECONDS). */
   readonly jobExpiryMarginSeconds: number;
+  /** Threads of the server's interactive pool: executions and generation (INTERACTIVE_THREADS, default 1). */
+  readonly interactiveThreads: number;
+  /** Hard limit of one interactive job once its thread began it, ms (INTERACTIVE_TIME_LIMIT_MS, default 30000). */
+  readonly interactiveTimeLimitMs: number;
 }
 
 /** Thrown by loadConfig with one line per bad variable. */
@@ -87,6 +91,8 @@ const EnvSchema = z.object({
   WORKER_THREADS: z.preprocess(emptyAsUndefined, z.coerce.number().int().min(1).max(256).optional()),
   FAKE_SMTP_PORT: port(4302),
   JOB_EXPIRY_MARGIN_SECONDS: z.preprocess(emptyAsUndefined, z.coerce.number().int().min(1).max(86_400).default(60)),
+  INTERACTIVE_THREADS: z.preprocess(emptyAsUndefined, z.coerce.number().int().min(1).max(64).default(1)),
+  INTERACTIVE_TIME_LIMIT_MS: z.preprocess(emptyAsUndefined, z.coerce.number().int().min(1000).max(600_000).default(30_000)),
   NODE_ENV: optionalString,
 });
 
@@ -150,6 +156,8 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): { config: AppC
       workerThreads: e.WORKER_THREADS,
       fakeSmtpPort: e.FAKE_SMTP_PORT,
       jobExpiryMarginSeconds: e.JOB_EXPIRY_MARGIN_SECONDS,
+      interactiveThreads: e.INTERACTIVE_THREADS,
+      interactiveTimeLimitMs: e.INTERACTIVE_TIME_LIMIT_MS,
     },
     warnings,
   };

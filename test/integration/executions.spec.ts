@@ -7,6 +7,7 @@ import PF from 'pathfinding';
 import type { ExecutionView, InstanceExecutionInput } from '@shared/executions';
 import { EXECUTION_LIMITS, SAFETY_NOTE } from '@shared/executions-constants';
 import type { UploadResponse } from '@shared/instance-sets';
+import type { SubmissionView } from '@shared/submissions';
 import { DEMO_IDENTITIES } from '../../api/src/dev/fake-oauth/demo-identities';
 import {
   createSet, json, setRole, signInAs, startLibraryServer, upload, visitorClient,
@@ -240,10 +241,69 @@ describe('executions API', () => {
       expect(body.error?.message).toContain('instance.agents.1.start: agent 1 has the same start as agent 0');
     });
 
-    it('refuses a stored sweep result with 501 while results cannot be executed yet', async () => {
-      const { status, body } = await post(owner, { resultId: 5, policy: 'open-loop' });
-      expect(status).toBe(501);
-      expect(body.error?.code).toBe('RESULT_EXECUTION_UNAVAILABLE');
+  });
+
+  describe('a stored result', () => {
+    let resultId: number;
+
+    beforeAll(async () => {
+      // A result stored the way plans reach the board: a submission, which the classic validator accepted.
+      const text = '(3,0) (4,0) (5,0) (6,0) (7,0) (8,0) (9,0) (10,0)\n(2,0) (3,0) (4,0) (5,0) (6,0) (7,0) (8,0) (9,0)\n';
+      const res = await owner.request('/api/submissions', json('POST', {
+        format: 'text', text, model: 'classic', instance: { scenarioId, agents: 2 }, robotProfile: RELAY_PROFILE,
+        solver: { name: 'Hand-made planner', version: '1.0' },
+      }));
+      expect(res.status).toBe(201);
+      resultId = ((await res.json()) as SubmissionView).resultId;
+    });
+
+    it('replays the stored plan with its model and robot profile under the policy asked for', async () => {
+      const { status, body } = await post(owner, { resultId, policy: 'lockstep', runs: 3, seed: 4 });
+      expect(status).toBe(201);
+      expect(body.source).toMatchObject({ resultId, scenarioId, mapId, scenarioName: RELAY_SCENARIO_NAME });
+      expect(body.model).toBe('classic');
+      expect(body.profile).toEqual(RELAY_PROFILE);
+      expect(body.plan.origin).toBe('result');
+      expect(body.plan.schedule.map((list) => list.filter((a) => a.action === 'forward').length)).toEqual([7, 7]);
+      // Hand-worked: both robots drive 7 forwards of 1000 ms nose to tail, facing east from the start (free heading).
+      expect(body.figures).toMatchObject({ isValid: true, soc: 14, makespan: 7, turnInclusiveMakespanMs: 7000, lowerBound: null });
+      expect(body.summary).toMatchObject({ runs: 3, successRate: 1 });
+      expect(body.summary.realisedMakespanMs.mean).toBe(7000);
+      expect(body.summary.finishSpreadMs.mean).toBe(0);
+    });
+
+    it('with jitter, open-loop followers on the stored plan collide and dependency-gated ones do not', async () => {
+      const noise = { jitterCv: 0.3 };
+      const open = await post(owner, { resultId, policy: 'open-loop', noise, runs: 40, seed: 11 });
+      const gated = await post(owner, { resultId, policy: 'dependency-gated', noise, runs: 40, seed: 11 });
+      expect([open.status, gated.status]).toEqual([201, 201]);
+      expect(open.body.summary.collisions.total).toBeGreaterThan(0);
+      expect(gated.body.summary.collisions.total).toBe(0);
+      expect(gated.body.summary.successRate).toBe(1);
+    });
+
+    it('answers 404 for an unknown result and for one of a set the caller may not see', async () => {
+      const missing = await post(owner, { resultId: 987_654, policy: 'open-loop' });
+      expect(missing.status).toBe(404);
+      expect(missing.body.error?.code).toBe('RESULT_NOT_FOUND');
+      const other = await signInAs(url, otherId.login);
+      const hidden = await post(other, { resultId, policy: 'open-loop' });
+      expect(hidden.status).toBe(404);
+      expect(hidden.body.error?.code).toBe('RESULT_NOT_FOUND');
+    });
+
+    it('answers 409 for a result that has no plan, saying how it ended', async () => {
+      const [row] = await lib.sql<{ id: number }>(
+        `INSERT INTO results (instance_set_id, map_id, scenario_id, agents, model, params, param_hash, seed, status, reason, runtime_ms, nodes,
+           robot_profile, robot_profile_hash, solver_version, solver_commit, node_version, cpu_model, thread_count)
+         SELECT instance_set_id, map_id, scenario_id, agents, model, params, 'timeout-test', seed, 'timeout', 'time limit of 1000 ms', 1000, 5,
+           robot_profile, robot_profile_hash, solver_version, solver_commit, node_version, cpu_model, thread_count FROM results WHERE id = :id RETURNING id`,
+        { id: resultId },
+      );
+      const { status, body } = await post(owner, { resultId: row.id, policy: 'open-loop' });
+      expect(status).toBe(409);
+      expect(body.error?.code).toBe('RESULT_NOT_SOLVED');
+      expect(body.error?.message).toContain('timeout');
     });
   });
 });

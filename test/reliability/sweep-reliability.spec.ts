@@ -111,7 +111,8 @@ describe('sweeps on real worker processes', () => {
     // 60 agents on random-32-32-20: the dataset's TARGETS.md reports up to 25 s for optimal CBS; the limit is 1 s.
     const sweep = await launchSweep(s, baseDefinition(setId, {
       name: 'time limit', instances: { instanceSetId: setId, scenarioIds: [hard.id] }, agentCounts: { kind: 'list', values: [60, 2] },
-      timeLimitMs: 1000, execution: { policies: [], runs: 1 },
+      // 512 MB: the heap limit the worker loads its threads for at start, so the wall time holds no thread start-up.
+      timeLimitMs: 1000, memoryLimitMb: 512, execution: { policies: [], runs: 1 },
     }));
     expect(await waitForSweep(s, sweep.id, 60_000)).toBe('finished');
     const rows = await s.sql<{ agents: number; status: string; lower_bound: number | null; elapsed_ms: number; started_at: Date; finished_at: Date }>(

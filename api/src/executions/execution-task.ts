@@ -1,7 +1,7 @@
 /**
  * What one execution request hands the compute side and what it answers: plain JSON-safe data,
- * the shape a worker-pool task needs (today the inline runner executes it; see
- * inline-execution-runner.ts). Cells inside a task are `y * width + x`.
+ * the shape a worker-pool job needs (the interactive pool runs it; its body is execute-task.ts).
+ * Cells inside a task are `y * width + x`.
  */
 import type { CollisionModeName, ExecutionErrorCode, ExecutionPolicyName } from '@shared/executions-constants';
 import type {
@@ -29,6 +29,8 @@ export interface ExecutionTask {
   readonly modelOptions: { readonly startHeading: Heading | 'free'; readonly k?: number };
   readonly profile: RobotProfile;
   readonly plan?: ExecutionTaskPlan;
+  /** Where a given plan came from: the request body (default) or a stored sweep result. */
+  readonly planOrigin?: 'given' | 'result';
   readonly simulation: {
     readonly policy: ExecutionPolicyName;
     readonly noise: { readonly jitterCv?: number; readonly stallProbability: number; readonly stallMs: number };
@@ -56,5 +58,5 @@ export interface StoredPlan {
   readonly figures: PlanFigures;
 }
 
-/** Runs one task (the inline runner today; a worker pool's `run` later). */
+/** Runs one task (the interactive pool's `execute`; tests may pass their own). */
 export type ExecutionTaskRunner = (task: ExecutionTask) => Promise<ExecutionTaskOutcome>;

@@ -4,15 +4,14 @@ import type { AppContext } from '../app-context';
 import { executionsRouter } from './executions.router';
 import { createExecutionsService } from './executions.service';
 import type { ExecutionTaskRunner } from './execution-task';
-import { runExecutionInline } from './inline-execution-runner';
 import { definePlanExecution } from './plan-execution.model';
 
 /**
  * The /api/executions router for `ctx`. The model is bound here rather than in db/models.ts so
- * this feature stays inside its folder; `runTask` defaults to the inline runner.
- * TODO(sweeps issue): pass the worker pool's runner once AppContext exposes the pool.
+ * this feature stays inside its folder; `runTask` defaults to the app's interactive worker pool,
+ * so no request computes on the event loop.
  */
-export function executionsFeature(ctx: AppContext, runTask: ExecutionTaskRunner = runExecutionInline): Router {
+export function executionsFeature(ctx: AppContext, runTask: ExecutionTaskRunner = (task) => ctx.interactive.execute(task)): Router {
   const PlanExecution = definePlanExecution(ctx.sequelize);
   return executionsRouter(createExecutionsService({ models: ctx.models, PlanExecution, runTask }));
 }

@@ -1,12 +1,14 @@
 /**
  * Rules of POST/GET /api/executions: resolve the instance from the library (respecting set
- * visibility), refuse work too large to run inline, run the task, store request, plan and
- * summary, and read them back for their owner (and maintainers and admins).
+ * visibility) or the stored sweep result and its plan, refuse work too large for one request,
+ * run the task on the worker pool, store request, plan and summary, and read them back for their
+ * owner (and maintainers and admins).
  */
 import { hasRole } from '@shared/auth';
 import { EXECUTION_LIMITS, SAFETY_NOTE } from '@shared/executions-constants';
 import {
   parseCreateExecution, type ExecutionInstanceView, type ExecutionSource, type ExecutionView, type InstanceExecutionRequest,
+  type PlanFigures,
 } from '@shared/executions';
 import type { CellXY } from '@shared/plan';
 import { gridMapFromRows } from '@solvers/io/grid-map';
@@ -16,6 +18,7 @@ import { AppError } from '../errors/app-error';
 import { isSetVisible } from '../instance-sets/instance-set-access';
 import { loadInstance } from '../instance-sets/load-instance';
 import type { ExecutionTask, ExecutionTaskRunner, StoredPlan } from './execution-task';
+import { loadResultPlan } from './result-plan';
 import type { PlanExecution, PlanExecutionModel } from './plan-execution.model';
 
 /** The operations behind the executions routes. */
@@ -28,7 +31,7 @@ export interface ExecutionsService {
 
 /** What the service needs. */
 export interface ExecutionsServiceDeps {
-  readonly models: Pick<Models, 'User' | 'InstanceSet' | 'MapFile' | 'ScenarioFile'>;
+  readonly models: Pick<Models, 'User' | 'InstanceSet' | 'MapFile' | 'ScenarioFile' | 'Result'>;
   readonly PlanExecution: PlanExecutionModel;
   readonly runTask: ExecutionTaskRunner;
 }
@@ -85,9 +88,30 @@ export function createExecutionsService(deps: ExecutionsServiceDeps): Executions
     async create(owner, body) {
       const req = parseCreateExecution(body);
       if ('resultId' in req) {
-        // TODO(sweeps issue): execute a stored sweep result once the results table and its model land.
-        throw new AppError('RESULT_EXECUTION_UNAVAILABLE', 501,
-          `Executing stored sweep result ${req.resultId} is not available yet; send the instance (scenarioId and agents) and the model instead.`);
+        const stored = await loadResultPlan(models as Models, owner, req.resultId);
+        const { loaded, result } = stored;
+        const instanceReq: InstanceExecutionRequest = {
+          instance: { scenarioId: loaded.scenarioId, agents: loaded.instance.agents.length },
+          model: stored.model, modelOptions: stored.modelOptions, profile: stored.profile, plan: stored.plan,
+          policy: req.policy, noise: req.noise, seed: req.seed, runs: req.runs, onCollision: req.onCollision,
+        };
+        checkSize(instanceReq, loaded.instance);
+        const outcome = await runTask({ ...buildTask(instanceReq, loaded.instance), planOrigin: 'result' });
+        if (outcome.kind === 'refused') throw new AppError(outcome.code, outcome.status, outcome.message);
+        const plan: StoredPlan = {
+          source: {
+            instanceSetId: loaded.instanceSetId, mapId: loaded.mapId, mapName: loaded.mapName,
+            scenarioId: loaded.scenarioId, scenarioName: loaded.scenarioName, resultId: result.id, ...(result.sweepId ? { sweepId: result.sweepId } : {}),
+          },
+          instance: instanceView(loaded.instance),
+          model: stored.model,
+          modelOptions: stored.modelOptions,
+          profile: stored.profile,
+          plan: outcome.plan,
+          figures: resultFigures(outcome.figures, result),
+        };
+        const row = await PlanExecution.create({ ownerId: owner.id, request: req, plan, summary: outcome.summary });
+        return toView(row, { id: owner.id, login: owner.login });
       }
       const resolved = await resolveInstance(owner, req.instance);
       checkSize(req, resolved.instance);
@@ -115,6 +139,18 @@ export function createExecutionsService(deps: ExecutionsServiceDeps): Executions
       return toView(row, { id: row.ownerId, login: owner?.login ?? '' });
     },
   };
+}
+
+/**
+ * The figures of a stored result's plan: the re-check's sum-of-costs and makespan, with the
+ * solve's lower bound and time from the result row. An orientation-split schedule has no
+ * stand-alone validator here; the worker's orientation-split validator passed it before the
+ * result was stored as solved (solvers/run/cbs-model-task.ts), which the text says.
+ */
+function resultFigures(figures: PlanFigures, result: { lowerBound: number | null; runtimeMs: number | null; model: string; soc: number | null; makespan: number | null }): PlanFigures {
+  const base = { ...figures, lowerBound: result.lowerBound, solveTimeMs: result.runtimeMs };
+  if (figures.isValid !== null) return base;
+  return { ...base, soc: result.soc, makespan: result.makespan, isValid: true, validation: `stored sweep result: passed the independent ${result.model} validator when the sweep solved it` };
 }
 
 /** Refuses batches too large to run inside a request (checked before any work starts). */

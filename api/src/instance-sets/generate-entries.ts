@@ -15,9 +15,9 @@ export type GenerateRequest = z.output<typeof GenerateInstancesRequest>;
 
 /**
  * Cell visits allowed for one scenario's searches (one full octile search per tried start).
- * Generation runs inside the request, so large maps get fewer tried starts and hence fewer
- * rows; 4·10⁶ keeps one scenario well under a second here (measured: 32 × 32 at 2000 starts
- * ≈ 0.1 s). TODO: move to the worker pool once api/src/workers/ exists, and lift this.
+ * A request waits for its generation (in the server's interactive pool thread), so large maps
+ * get fewer tried starts and hence fewer rows; 4·10⁶ keeps one scenario well under a second
+ * here (measured: 32 × 32 at 2000 starts ≈ 0.1 s).
  */
 const SEARCH_BUDGET_CELLS = 4_000_000;
 

@@ -15,7 +15,7 @@ import { AppError } from '../errors/app-error';
 import { validate } from '../errors/validate';
 import { checkUpload, scenarioMapNames, type CheckedUpload } from './check-upload';
 import { collectUpload, type ReceivedFile } from './collect-upload';
-import { generateEntries } from './generate-entries';
+import { generateEntries, type GenerateRequest } from './generate-entries';
 import { canManageSet, isSetVisible, visibleSetsCondition, type Viewer } from './instance-set-access';
 import type { InstanceSet } from './instance-set.model';
 import {
@@ -96,9 +96,17 @@ function problemsMessage(problems: readonly UploadProblem[]): string {
   return `Nothing was stored: ${problems.length} problem${problems.length === 1 ? '' : 's'} in ${files.size} file${files.size === 1 ? '' : 's'} (first: ${where}: ${first.message}).`;
 }
 
+/** What the service needs; `generate` runs the generators (the app passes its interactive pool; the demo seed runs them in its own process). */
+export interface InstanceSetsServiceDeps {
+  readonly sequelize: Sequelize;
+  readonly models: Models;
+  readonly generate?: (request: GenerateRequest) => Promise<UploadEntry[]>;
+}
+
 /** Builds the service over the library's models. */
-export function createInstanceSetsService(deps: { readonly sequelize: Sequelize; readonly models: Models }): InstanceSetsService {
+export function createInstanceSetsService(deps: InstanceSetsServiceDeps): InstanceSetsService {
   const { sequelize } = deps;
+  const generate = deps.generate ?? (async (request: GenerateRequest) => generateEntries(request));
   const { InstanceSet, MapFile, ScenarioFile } = deps.models;
 
   async function summaryOf(id: number, transaction?: Transaction): Promise<InstanceSetSummary> {
@@ -232,7 +240,7 @@ export function createInstanceSetsService(deps: { readonly sequelize: Sequelize;
     async generate(viewer, body) {
       const request = validate(GenerateInstancesRequest, body);
       const set = await manageableSet(viewer, request.instanceSetId);
-      return storeEntries(set, generateEntries(request), [], []);
+      return storeEntries(set, await generate(request), [], []);
     },
 
     async getMap(viewer, id) {

@@ -3,9 +3,7 @@
  * computes what a sweep result carries: SOC and makespan recomputed from the plan, the
  * turn-inclusive figures under the robot profile, and execution replays under every policy.
  * Never a lower bound: bounds are only computed by our solvers.
- *
- * TODO(sweeps issue: worker pool for plan tasks): the replay runs inline in the request; move it
- * to the piscina pool (api/src/workers/plan-pool.ts) once it takes validate-and-replay tasks.
+ * It runs in a thread of the server's interactive pool (api/src/workers/interactive-pool.ts).
  */
 import type { CellXY, Schedule } from '@shared/plan';
 import { SWEEP_POLICIES } from '@shared/sweeps';

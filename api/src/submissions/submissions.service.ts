@@ -9,12 +9,13 @@ import { QueryTypes, type Sequelize } from 'sequelize';
 import { SubmissionRequestSchema } from '@shared/plan-format';
 import type { PlanModel } from '@shared/plan';
 import { PLAN_REJECTED, type SubmissionListResponse, type SubmissionView } from '@shared/submissions';
+import type { MapfInstance } from '@solvers/instance';
 import type { Models } from '../db/models';
 import { AppError } from '../errors/app-error';
 import { validate } from '../errors/validate';
 import { loadInstance } from '../instance-sets/load-instance';
 import { parameterHash } from '../sweeps/parameter-hash';
-import { checkPlan } from './check-plan';
+import type { PlanVerdict } from './check-plan';
 import { readPlanFile, type ReadSubmission } from './read-plan-file';
 
 /** The submissions service. */
@@ -53,8 +54,15 @@ function toView(r: ListRow): SubmissionView {
   };
 }
 
+/** What the service needs; `checkPlan` validates and replays a plan off the request thread (the app's interactive pool). */
+export interface SubmissionsServiceDeps {
+  readonly sequelize: Sequelize;
+  readonly models: Models;
+  readonly checkPlan: (instance: MapfInstance, submission: ReadSubmission) => Promise<PlanVerdict>;
+}
+
 /** The submissions service on one connection. */
-export function createSubmissionsService(deps: { readonly sequelize: Sequelize; readonly models: Models }): SubmissionsService {
+export function createSubmissionsService(deps: SubmissionsServiceDeps): SubmissionsService {
   const { sequelize, models } = deps;
   const one = async (id: number): Promise<SubmissionView> => {
     const [row] = await sequelize.query<ListRow>(`${LIST_SQL} WHERE sub.id = :id`, { type: QueryTypes.SELECT, replacements: { id } });
@@ -64,7 +72,7 @@ export function createSubmissionsService(deps: { readonly sequelize: Sequelize; 
     async submit(uploader, body) {
       const sub = readPlanFile(validate(SubmissionRequestSchema, body));
       const loaded = await loadInstance(models, sub.scenarioId, sub.agents, { viewer: uploader });
-      const verdict = checkPlan(loaded.instance, sub);
+      const verdict = await deps.checkPlan(loaded.instance, sub);
       if (!verdict.ok) {
         throw new AppError(PLAN_REJECTED, 422, `The ${sub.model} validator rejected the plan: ${verdict.violation.message}`, { violation: verdict.violation });
       }

@@ -65,7 +65,11 @@ export type ResultModel = typeof Result;
 /** The Execution class bound to one Sequelize instance. */
 export type ExecutionModel = typeof Execution;
 
-const num = { type: DataTypes.DOUBLE, allowNull: true };
+/**
+ * A nullable double column. A function, not a shared object: Sequelize writes each attribute's
+ * column name into its definition object, so attributes sharing one object all read one column.
+ */
+const num = () => ({ type: DataTypes.DOUBLE, allowNull: true });
 
 /** Binds fresh subclasses of Result and Execution to `sequelize`. */
 export function defineResultModels(sequelize: Sequelize): { Result: ResultModel; Execution: ExecutionModel } {
@@ -86,7 +90,7 @@ export function defineResultModels(sequelize: Sequelize): { Result: ResultModel;
       seed: { type: DataTypes.BIGINT, allowNull: false },
       status: { type: DataTypes.STRING(16), allowNull: false },
       reason: { type: DataTypes.TEXT, allowNull: true },
-      soc: num, makespan: num, turnInclusiveSocMs: num, turnInclusiveMakespanMs: num, lowerBound: num, runtimeMs: num,
+      soc: num(), makespan: num(), turnInclusiveSocMs: num(), turnInclusiveMakespanMs: num(), lowerBound: num(), runtimeMs: num(),
       nodes: { type: DataTypes.INTEGER, allowNull: true },
       nodesExpanded: { type: DataTypes.INTEGER, allowNull: true },
       turns: { type: DataTypes.INTEGER, allowNull: true },
@@ -112,7 +116,7 @@ export function defineResultModels(sequelize: Sequelize): { Result: ResultModel;
       runs: { type: DataTypes.INTEGER, allowNull: false },
       successRate: { type: DataTypes.DOUBLE, allowNull: false },
       collisionsMean: { type: DataTypes.DOUBLE, allowNull: false },
-      realisedMakespanMeanMs: num, realisedMakespanP95Ms: num, finishSpreadMeanMs: num,
+      realisedMakespanMeanMs: num(), realisedMakespanP95Ms: num(), finishSpreadMeanMs: num(),
       metrics: { type: DataTypes.JSONB, allowNull: false },
       createdAt: DataTypes.DATE,
     },

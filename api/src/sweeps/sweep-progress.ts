@@ -42,7 +42,7 @@ export async function readProgress(sequelize: Sequelize, sweepId: number, nowMs 
 }
 
 interface ResultSqlRow {
-  run_id: number; scenario_id: number; scenario_name: string; map_name: string; agents: number; model_index: number; model: PlanModel;
+  run_id: number; result_id: number | null; scenario_id: number; scenario_name: string; map_name: string; agents: number; model_index: number; model: PlanModel;
   seed: string; status: RunStatus; soc: number | null; makespan: number | null; ti_soc: number | null; ti_makespan: number | null;
   lower_bound: number | null; runtime_ms: number | null; nodes: number | null; reason: string | null; executions: ExecutionView[] | null;
 }
@@ -50,7 +50,7 @@ interface ResultSqlRow {
 /** Result rows of a sweep (every run, with its result when there is one), optionally one run only or only runs that are over. */
 export async function readResultRows(sequelize: Sequelize, sweepId: number, options: { readonly runId?: number } = {}): Promise<SweepResultRow[]> {
   const rows = await sequelize.query<ResultSqlRow>(
-    `SELECT r.id AS run_id, r.scenario_id, sc.name AS scenario_name, m.name AS map_name, r.agents, r.model_index, r.model, r.seed, r.status,
+    `SELECT r.id AS run_id, res.id AS result_id, r.scenario_id, sc.name AS scenario_name, m.name AS map_name, r.agents, r.model_index, r.model, r.seed, r.status,
        res.soc, res.makespan, res.turn_inclusive_soc_ms AS ti_soc, res.turn_inclusive_makespan_ms AS ti_makespan,
        res.lower_bound, res.runtime_ms, res.nodes, COALESCE(res.reason, r.reason) AS reason,
        (SELECT json_agg(json_build_object('policy', e.policy, 'runs', e.runs, 'successRate', e.success_rate, 'collisionsMean', e.collisions_mean,
@@ -65,7 +65,7 @@ export async function readResultRows(sequelize: Sequelize, sweepId: number, opti
     { replacements: { sweepId, runId: options.runId ?? null }, type: QueryTypes.SELECT },
   );
   return rows.map((r) => ({
-    runId: r.run_id, scenarioId: r.scenario_id, scenarioName: r.scenario_name, mapName: r.map_name, agents: r.agents,
+    runId: r.run_id, resultId: r.result_id, scenarioId: r.scenario_id, scenarioName: r.scenario_name, mapName: r.map_name, agents: r.agents,
     modelIndex: r.model_index, model: r.model, seed: Number(r.seed), status: r.status,
     soc: r.soc, makespan: r.makespan, turnInclusiveSocMs: r.ti_soc, turnInclusiveMakespanMs: r.ti_makespan,
     lowerBound: r.lower_bound, runtimeMs: r.runtime_ms, nodes: r.nodes, reason: r.reason,

@@ -53,4 +53,26 @@ describe('PlanPool', () => {
     const out = await pool.run(TASK, { hardLimitMs: 10_000, memoryLimitMb: 128, signal: ctl.signal });
     expect(out.kind).toBe('aborted');
   }, 30_000);
+
+  it('counts the hard limit from the moment the thread begins the job, not from a slow thread load', async () => {
+    // The fixture's module takes 1.5 s to load; the job itself answers at once.
+    pool = new PlanPool({ threads: 1, filename: join(__dirname, 'testing/slow-start-thread.js') });
+    const out = await pool.run(TASK, { hardLimitMs: 500, memoryLimitMb: 128 });
+    expect(out).toEqual({ kind: 'done', result: 'quick' });
+  }, 30_000);
+
+  it('reports a job no thread began within its start limit as not started', async () => {
+    pool = new PlanPool({ threads: 1, filename: join(__dirname, 'testing/slow-start-thread.js') });
+    const out = await pool.run(TASK, { hardLimitMs: 500, memoryLimitMb: 128, startLimitMs: 200 });
+    expect(out.kind).toBe('not-started');
+  }, 30_000);
+
+  it('warms a heap limit: its threads answer a ping before any job', async () => {
+    pool = new PlanPool({ threads: 1 });
+    await pool.warm(128);
+    expect(pool.completed).toBe(1);
+    const out = await pool.run(TASK, { hardLimitMs: 20_000, memoryLimitMb: 128 });
+    expect(out.kind === 'done' && out.result.status).toBe('solved');
+    expect(pool.completed).toBe(2);
+  }, 30_000);
 });

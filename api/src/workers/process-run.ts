@@ -19,7 +19,10 @@ import { recordRunResult, type ClaimedRun, type RecordOutcome } from './record-r
 import type { RunJobData } from './sweep-queue';
 import { withDbRetry } from './with-db-retry';
 
-/** How long after the solver's own time limit the thread is terminated, ms ("stopped within a second of the limit"). */
+/**
+ * How long after the solver's own time limit the thread is terminated, ms ("stopped within a
+ * second of the limit"); both count from the moment the thread begins the run (plan-pool.ts).
+ */
 export const HARD_LIMIT_GRACE_MS = 750;
 
 /** What process-run needs from its worker. */
@@ -90,6 +93,12 @@ export async function processRun(ctx: RunContext, job: RunJobData): Promise<JobO
       return { kind: 'skipped' };
     case 'crashed':
       result = bareResult('error', `the worker thread failed: ${outcome.message}`);
+      break;
+    case 'refused':
+      result = bareResult('error', `the worker thread refused the run: ${outcome.refusal.message}`);
+      break;
+    case 'not-started':
+      result = bareResult('error', 'no worker thread began the run: the pool could not load a thread');
       break;
   }
   const record = await retry(() => recordRunResult(ctx.sequelize, run, result, ctx.build, elapsed));

@@ -32,7 +32,12 @@ export interface SweepWorkerOptions {
   readonly pollingSeconds?: number;
   /** Worker file for the pool (tests). */
   readonly threadFile?: string;
+  /** Heap limits whose threads are loaded before the first job and kept loaded; default WARM_MEMORY_LIMITS_MB. */
+  readonly warmMemoryLimitsMb?: readonly number[];
 }
+
+/** The heap limit of the sweep form's default (web/src/app/sweeps/sweep-form-rules.ts), MB: warmed at start. */
+export const WARM_MEMORY_LIMITS_MB: readonly number[] = [512];
 
 /** A running worker. */
 export interface SweepWorker {
@@ -68,6 +73,17 @@ export async function startSweepWorker(options: SweepWorkerOptions): Promise<Swe
     signalFor(sweepId);
     cancels.get(sweepId)?.abort();
   }, { logger });
+
+  // Load the threads before taking jobs, so the first runs' wall times (claim to result) hold
+  // no thread start-up; a heap limit not warmed here starts its threads on its first run.
+  try {
+    for (const mb of options.warmMemoryLimitsMb ?? WARM_MEMORY_LIMITS_MB) await pool.warm(mb);
+  } catch (err) {
+    await listener.close();
+    await pool.close();
+    await sequelize.close();
+    throw err;
+  }
 
   const ctx: RunContext = { sequelize, models, pool, build, logger, workerName: name, signalFor, isStopping: () => isStopping };
   let boss: PgBoss;

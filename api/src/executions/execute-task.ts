@@ -1,12 +1,10 @@
 /**
- * Runs an execution task in the calling thread: solve when no plan is given (through the sweeps'
- * `runPlanTask`, which solves and checks the plan with the model's independent validator), derive
- * the turn-inclusive schedule, check a client's plan with the model's validator, then simulate the
- * fleet with solvers/execute.
- *
- * TODO(sweeps issue): run this task on the worker pool once `AppContext` exposes one; this is the
- * one place api/ reaches solvers/ outside workers/, and solving blocks the event loop for up to
- * EXECUTION_LIMITS.solveTimeLimitMs, which is why only small instances are solved here.
+ * The body of an execution job, run inside a pool thread (workers/plan-thread.ts, through the
+ * interactive pool): solve when no plan is given (through the sweeps' `runPlanTask`, which
+ * solves and checks the plan with the model's independent validator), derive the turn-inclusive
+ * schedule, check a given plan with the model's validator, then simulate the fleet with
+ * solvers/execute. Never called from a request handler: it blocks its thread for up to
+ * EXECUTION_LIMITS.solveTimeLimitMs plus the simulation.
  */
 import { performance } from 'node:perf_hooks';
 import type { ExecutionSummaryView, PlanFigures } from '@shared/executions';
@@ -24,15 +22,10 @@ import type { ExecutionTask, ExecutionTaskInstance, ExecutionTaskOutcome } from 
 /** Models whose plans are unit-step cell paths (and whose schedules count abstract steps). */
 const PATH_MODELS: readonly PlanModel[] = ['classic', 'uniform-duration', 'k-robust'];
 
-/** Heap limit handed to the solver's memory guard, MB (inline: the API process's own heap). */
+/** Heap limit handed to the solver's memory guard, MB (the interactive pool's thread heap limit is larger). */
 const SOLVE_MEMORY_MB = 512;
 
-/** Runs `task` synchronously and wraps it in a promise, like a pool would answer. */
-export async function runExecutionInline(task: ExecutionTask): Promise<ExecutionTaskOutcome> {
-  return executeTask(task);
-}
-
-/** The synchronous body of runExecutionInline (exported for tests that need no promise). */
+/** Runs one execution task to its outcome (plans that do not fit become `refused`, never a throw). */
 export function executeTask(task: ExecutionTask): ExecutionTaskOutcome {
   const instance = toInstance(task.instance);
   let planned: Planned | Refusal;
@@ -58,7 +51,7 @@ export function executeTask(task: ExecutionTask): ExecutionTaskOutcome {
   }
   return {
     kind: 'done',
-    plan: { origin: task.plan ? 'given' : 'solved', timeline: planned.timeline, schedule: planned.schedule },
+    plan: { origin: task.plan ? (task.planOrigin ?? 'given') : 'solved', timeline: planned.timeline, schedule: planned.schedule },
     figures: planned.figures,
     summary: summaryView(summary),
   };

@@ -1,0 +1,147 @@
+/**
+ * The server's pool for work a request waits on (executions, instance generation, and the check
+ * and execution replays of submitted plans): a small PlanPool (plan-pool.ts, the same threads and
+ * limits as sweeps) with one heap limit, a per-job time limit enforced by AbortSignal (the
+ * thread is terminated when a job ignores it) and a bounded queue, so a request handler never
+ * computes on the event loop. Every failure becomes an AppError the error middleware answers.
+ */
+import type { ExecutionTask, ExecutionTaskOutcome } from '../executions/execution-task';
+import { AppError } from '../errors/app-error';
+import type { GenerateRequest } from '../instance-sets/generate-entries';
+import type { UploadEntry } from '../instance-sets/upload-entry';
+import type { MapfInstance } from '@solvers/instance';
+import type { PlanVerdict } from '../submissions/check-plan';
+import type { ReadSubmission } from '../submissions/read-plan-file';
+import { PlanPool, type PoolOutcome } from './plan-pool';
+import type { ThreadJob, ThreadResults } from './thread-job';
+
+/** Error codes of the interactive pool (HTTP 503: the request may be retried later). */
+export const INTERACTIVE_ERROR_CODES = {
+  /** A job ran past its time limit and its thread was terminated. */
+  timeLimit: 'COMPUTE_TIME_LIMIT',
+  /** Too many jobs wait already, or none began within the wait limit. */
+  busy: 'COMPUTE_BUSY',
+  /** A job outgrew the thread's heap limit. */
+  memory: 'COMPUTE_MEMORY_LIMIT',
+} as const;
+
+/** Options of the interactive pool. */
+export interface InteractivePoolOptions {
+  /** Threads (INTERACTIVE_THREADS, default 1). */
+  readonly threads: number;
+  /** Hard limit of one job from the moment its thread begins it, ms (INTERACTIVE_TIME_LIMIT_MS). */
+  readonly timeLimitMs: number;
+  /** Heap limit of a thread, MB; default INTERACTIVE_MEMORY_MB. */
+  readonly memoryLimitMb?: number;
+  /** Jobs that may wait for a thread beyond the running ones; more are refused at once (503). */
+  readonly maxQueued?: number;
+  /** How long a job may wait for a thread, ms. */
+  readonly startLimitMs?: number;
+  /** Worker file (tests pass a slowed or misbehaving one). */
+  readonly filename?: string;
+}
+
+/** Thread heap limit of interactive jobs, MB: the solver's own guard in execute-task.ts is 512 MB, plus the simulation's room. */
+export const INTERACTIVE_MEMORY_MB = 1024;
+
+/** Default number of jobs that may wait. */
+export const INTERACTIVE_MAX_QUEUED = 8;
+
+/** Default wait for a thread, ms. */
+export const INTERACTIVE_START_LIMIT_MS = 30_000;
+
+/** The pool of interactive jobs (see the module comment). */
+export class InteractivePool {
+  private readonly pool: PlanPool;
+  private pending = 0;
+  private warming: Promise<void> | undefined;
+
+  constructor(private readonly options: InteractivePoolOptions) {
+    this.pool = new PlanPool({ threads: options.threads, filename: options.filename });
+  }
+
+  /** Jobs finished by the threads so far (tests prove a request went through the pool with it). */
+  get completed(): number {
+    return this.pool.completed;
+  }
+
+  /** The per-job time limit, ms. */
+  get timeLimitMs(): number {
+    return this.options.timeLimitMs;
+  }
+
+  /** Loads the threads now instead of on the first job; from then on they stay loaded (a killed one is replaced at once). */
+  warm(): Promise<void> {
+    this.warming ??= this.pool.warm(this.memoryLimitMb);
+    return this.warming;
+  }
+
+  /** Simulates (and, without a plan, solves) one execution task in a thread. */
+  execute(task: ExecutionTask, signal?: AbortSignal): Promise<ExecutionTaskOutcome> {
+    return this.run({ kind: 'execute', task }, 'the execution', signal);
+  }
+
+  /** Runs the seeded generators of one generate request in a thread; throws the generator's refusal as its AppError. */
+  async generate(request: GenerateRequest, signal?: AbortSignal): Promise<UploadEntry[]> {
+    const files = await this.run({ kind: 'generate', request }, 'the generation', signal);
+    return files.map((f) => ({ name: f.name, label: f.name, bytes: Buffer.from(f.bytes.buffer, f.bytes.byteOffset, f.bytes.byteLength) }));
+  }
+
+  /** Validates a submitted plan with its model's validator and, when it passes, replays it under every policy, in a thread. */
+  checkPlan(instance: MapfInstance, submission: ReadSubmission, signal?: AbortSignal): Promise<PlanVerdict> {
+    return this.run({ kind: 'check-plan', instance, submission }, 'the plan check', signal);
+  }
+
+  /** Terminates the threads; later jobs fail. */
+  close(): Promise<void> {
+    return this.pool.close();
+  }
+
+  private get memoryLimitMb(): number {
+    return this.options.memoryLimitMb ?? INTERACTIVE_MEMORY_MB;
+  }
+
+  private async run<J extends ThreadJob>(job: J, what: string, signal?: AbortSignal): Promise<ThreadResults[J['kind']]> {
+    const maxQueued = this.options.maxQueued ?? INTERACTIVE_MAX_QUEUED;
+    if (this.pending >= this.options.threads + maxQueued) {
+      throw new AppError(INTERACTIVE_ERROR_CODES.busy, 503, `The server is busy with ${this.pending} computations; try again in a moment.`);
+    }
+    this.pending++;
+    // The first job loads the threads; a thread that cannot load fails the job itself below.
+    await this.warm().catch(() => undefined);
+    let outcome: PoolOutcome<ThreadResults[J['kind']]>;
+    try {
+      outcome = await this.pool.runJob(job, {
+        hardLimitMs: this.options.timeLimitMs,
+        memoryLimitMb: this.memoryLimitMb,
+        startLimitMs: this.options.startLimitMs ?? INTERACTIVE_START_LIMIT_MS,
+        signal,
+      });
+    } finally {
+      this.pending--;
+    }
+    return resultOf(outcome, what, this.options.timeLimitMs, this.memoryLimitMb);
+  }
+}
+
+/** The job's result, or the AppError its outcome answers. */
+function resultOf<R>(outcome: PoolOutcome<R>, what: string, timeLimitMs: number, memoryLimitMb: number): R {
+  switch (outcome.kind) {
+    case 'done': return outcome.result;
+    case 'refused': throw new AppError(outcome.refusal.code, outcome.refusal.status, outcome.refusal.message, outcome.refusal.details);
+    case 'hard-timeout':
+      throw new AppError(INTERACTIVE_ERROR_CODES.timeLimit, 503, `${capitalised(what)} did not finish within ${timeLimitMs} ms and was stopped; ask for less work (fewer runs or agents), or run a sweep.`);
+    case 'not-started':
+      throw new AppError(INTERACTIVE_ERROR_CODES.busy, 503, `The server was too busy to begin ${what}; try again in a moment.`);
+    case 'memory':
+      throw new AppError(INTERACTIVE_ERROR_CODES.memory, 503, `${capitalised(what)} needed more than ${memoryLimitMb} MB and was stopped; ask for less work, or run a sweep.`);
+    case 'aborted':
+      throw new AppError(INTERACTIVE_ERROR_CODES.busy, 503, `${capitalised(what)} was cancelled.`);
+    case 'crashed':
+      throw new Error(`${what} failed in its worker thread: ${outcome.message}`);
+  }
+}
+
+function capitalised(s: string): string {
+  return s.charAt(0).toUpperCase() + s.slice(1);
+}
