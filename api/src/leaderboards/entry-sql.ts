@@ -1,14 +1,10 @@
 /**
- * The only SQL a board view can reach: each whitelisted column id maps to a fixed expression
- * over `leaderboard_entries e`. View parameters never become SQL text; values travel as
- * replacements, so no request can inject SQL.
+ * The only SQL a board view can reach: each whitelisted column id maps to a fixed column of
+ * `leaderboard_entries e` (or, in the comparison layout, of `leaderboard_compare c`). View
+ * parameters never become SQL text; values travel as replacements, so no request can inject SQL.
  */
-import { LEADERBOARD_POLICIES } from '@shared/leaderboards';
-
-/** The SQL label of a robot profile, equal to shared/leaderboards.ts profileLabel() for stored profiles. */
-export const PROFILE_LABEL_SQL = `format('forward %s ms, quarter turn %s ms, wait %s ms, pitch %s mm, diameter %s mm, jitter %s',
-  e.robot_profile->>'forwardMs', e.robot_profile->>'quarterTurnMs', e.robot_profile->>'waitMs',
-  e.robot_profile->>'cellPitchMm', e.robot_profile->>'robotDiameterMm', e.robot_profile->>'timingJitter')`;
+import { LEADERBOARD_POLICIES, type CompareMetric } from '@shared/leaderboards';
+import type { PlanModel } from '@shared/plan';
 
 const POLICY_SQL: Record<string, string> = Object.fromEntries(
   LEADERBOARD_POLICIES.flatMap((p) => {
@@ -24,7 +20,7 @@ export const ENTRY_SQL: Readonly<Record<string, string>> = {
   agents: 'e.agents',
   model: 'e.model',
   variant: 'e.variant',
-  profile: PROFILE_LABEL_SQL,
+  profile: 'e.profile_label',
   status: 'e.status',
   soc: 'e.soc',
   makespan: 'e.makespan',
@@ -35,8 +31,24 @@ export const ENTRY_SQL: Readonly<Record<string, string>> = {
   runtimeMs: 'e.runtime_ms',
   ...POLICY_SQL,
   source: 'e.source',
-  solver: "(e.solver_name || ' ' || e.solver_version)",
+  solver: 'e.solver',
 };
 
 /** Default order of the entries layout (matches the index leaderboard_entries_default_order). */
 export const ENTRY_DEFAULT_ORDER = 'e.map_name, e.scenario_name, e.agents, e.model, e.id';
+
+/** The entries column of a comparison figure (the `e.` dropped). */
+export function figureColumn(metric: CompareMetric): string {
+  return ENTRY_SQL[metric].slice(2);
+}
+
+/**
+ * The `leaderboard_compare` column of one model's figure (migration 0402); its k-robust
+ * columns hold k = COMPARE_TABLE_K.
+ */
+export function compareColumn(model: PlanModel, metric: CompareMetric): string {
+  return `${model.replace('-', '_')}_${figureColumn(metric)}`;
+}
+
+/** The k whose k-robust figures `leaderboard_compare` holds; other k are looked up per row. */
+export const COMPARE_TABLE_K = 1;

@@ -1,13 +1,15 @@
 /**
  * Builds the paged SQL of a board view: visibility first (only sets the viewer may see), then the
  * view's filters, its sort with a unique tie-break (so offset pages never repeat or skip a row),
- * and LIMIT/OFFSET from the grid's startRow/endRow. The comparison layout pivots entries into one
- * column per plan model for one figure, grouped by instance and robot profile.
+ * and LIMIT/OFFSET from the grid's startRow/endRow. The comparison layout reads
+ * `leaderboard_compare`, where entries are already pivoted into one column per plan model and
+ * figure, one row per instance and robot profile (migration 0402).
  */
-import { PLAN_MODELS } from '@shared/plan';
+import { hasRole } from '@shared/auth';
+import { PLAN_MODELS, type PlanModel } from '@shared/plan';
 import { ENTRY_COLUMNS, modelColumnId, type LeaderboardView, type ViewFilter } from '@shared/leaderboards';
-import { visibleSetsCondition, type Viewer } from '../instance-sets/instance-set-access';
-import { ENTRY_DEFAULT_ORDER, ENTRY_SQL, PROFILE_LABEL_SQL } from './entry-sql';
+import type { Viewer } from '../instance-sets/instance-set-access';
+import { COMPARE_TABLE_K, compareColumn, ENTRY_DEFAULT_ORDER, ENTRY_SQL, figureColumn } from './entry-sql';
 
 /** SQL text plus its named replacements. */
 export interface SqlQuery {
@@ -65,20 +67,44 @@ function filterCondition(f: ViewFilter, expr: string, repl: Record<string, unkno
   }
 }
 
-/** WHERE conditions of the entries the viewer may see within the scope. */
-export function baseWhere(viewer: Viewer, scope: ViewScope, repl: Record<string, unknown>): string[] {
-  const visible = visibleSetsCondition(viewer);
-  Object.assign(repl, visible.replacements);
-  const where = visible.sql === 'TRUE' ? [] : [`e.instance_set_id IN (SELECT s.id FROM instance_sets s WHERE ${visible.sql})`];
+/**
+ * The rows of `alias` (entries or comparison rows) the viewer may see, on their denormalised
+ * visibility columns (migration 0402). Same rule as instance-set-access.ts: public sets for
+ * everyone, private ones for their owner, maintainers and admins.
+ */
+export function visibleRowsCondition(viewer: Viewer, alias: string, repl: Record<string, unknown>): string | null {
+  if (viewer !== null && hasRole(viewer.role, 'maintainer')) return null;
+  if (viewer === null) return `${alias}.is_public`;
+  repl['viewerId'] = viewer.id;
+  return `(${alias}.is_public OR ${alias}.owner_id = :viewerId)`;
+}
+
+/** WHERE conditions of the rows of `alias` the viewer may see within the scope. */
+export function baseWhere(viewer: Viewer, scope: ViewScope, repl: Record<string, unknown>, alias = 'e'): string[] {
+  const visible = visibleRowsCondition(viewer, alias, repl);
+  const where = visible === null ? [] : [visible];
   if (scope.mapId !== undefined) {
     repl['scopeMap'] = scope.mapId;
-    where.push('e.map_id = :scopeMap');
+    where.push(`${alias}.map_id = :scopeMap`);
   }
   if (scope.profileHash !== undefined) {
     repl['scopeProfile'] = scope.profileHash;
-    where.push('e.robot_profile_hash = :scopeProfile');
+    where.push(`${alias}.robot_profile_hash = :scopeProfile`);
   }
   return where;
+}
+
+/**
+ * A "contains" filter on the map or scenario name as a match over the few maps or scenarios
+ * (names are copied from them), so it uses the id index instead of matching every row's name.
+ */
+function nameFilter(f: ViewFilter, alias: string, repl: Record<string, unknown>): string | null {
+  if (f.op !== 'has' || (f.column !== 'map' && f.column !== 'scenario')) return null;
+  const name = `f${Object.keys(repl).length}`;
+  repl[name] = containsPattern(f.value);
+  return f.column === 'map'
+    ? `${alias}.map_id IN (SELECT m.id FROM maps m WHERE m.name ILIKE :${name})`
+    : `${alias}.scenario_id IN (SELECT s.id FROM scenarios s WHERE s.name ILIKE :${name})`;
 }
 
 /** `WHERE a AND b`, or nothing. */
@@ -92,7 +118,7 @@ export function buildViewQueries(view: LeaderboardView, viewer: Viewer, scope: V
 function entryQueries(view: LeaderboardView, viewer: Viewer, scope: ViewScope, window: RowWindow): { page: SqlQuery; count: SqlQuery } {
   const repl: Record<string, unknown> = {};
   const where = baseWhere(viewer, scope, repl);
-  for (const f of view.filters) where.push(filterCondition(f, ENTRY_SQL[f.column], repl));
+  for (const f of view.filters) where.push(nameFilter(f, 'e', repl) ?? filterCondition(f, ENTRY_SQL[f.column], repl));
   // PostgreSQL's default null placement (last ascending, first descending) lets one (col, id)
   // index serve both directions; the id tie-break follows the first key's direction.
   const order = view.sort.length === 0
@@ -100,45 +126,40 @@ function entryQueries(view: LeaderboardView, viewer: Viewer, scope: ViewScope, w
     : [...view.sort.map((s) => `${ENTRY_SQL[s.column]} ${s.direction.toUpperCase()}`), `e.id ${view.sort[0].direction.toUpperCase()}`].join(', ');
   repl['limit'] = window.end - window.start;
   repl['offset'] = window.start;
-  const page = `SELECT e.id, e.scenario_id, e.agents, e.robot_profile_hash, e.result_id, e.robot_profile,
+  // The window is found on ids first: the sort indexes hold the visibility columns, so skipped
+  // rows (deep offsets) are read from the index alone, and only the page's rows are fetched.
+  const page = `WITH w AS (SELECT e.id FROM leaderboard_entries e ${whereSql(where)} ORDER BY ${order} LIMIT :limit OFFSET :offset)
+    SELECT e.id, e.scenario_id, e.agents, e.robot_profile_hash, e.result_id, e.robot_profile,
       ${view.columns.filter((c) => c !== 'profile').map((c) => `${ENTRY_SQL[c]} AS "${c}"`).join(', ') || 'NULL AS none'}
-    FROM leaderboard_entries e ${whereSql(where)} ORDER BY ${order} LIMIT :limit OFFSET :offset`;
+    FROM w JOIN leaderboard_entries e ON e.id = w.id ORDER BY ${order}`;
   const count = `SELECT count(*)::int AS n FROM leaderboard_entries e ${whereSql(where)}`;
   return { page: { sql: page, replacements: repl }, count: { sql: count, replacements: repl } };
 }
 
+/** SQL of a comparison column on `c` (leaderboard_compare). */
+function compareSql(view: LeaderboardView, column: string): string {
+  const keySql: Record<string, string> = { map: 'c.map_name', scenario: 'c.scenario_name', agents: 'c.agents', profile: 'c.profile_label' };
+  if (column in keySql) return keySql[column];
+  const model = PLAN_MODELS.find((m) => modelColumnId(m) === column) as PlanModel;
+  if (model !== 'k-robust' || view.k === COMPARE_TABLE_K) return `c.${compareColumn(model, view.metric)}`;
+  // Another k: the entry of that variant, found through the entries' unique key.
+  return `(SELECT x.${figureColumn(view.metric)} FROM leaderboard_entries x WHERE x.scenario_id = c.scenario_id AND x.agents = c.agents
+    AND x.model = 'k-robust' AND x.variant = :kVariant AND x.robot_profile_hash = c.robot_profile_hash)`;
+}
+
 function compareQueries(view: LeaderboardView, viewer: Viewer, scope: ViewScope, window: RowWindow): { page: SqlQuery; count: SqlQuery } {
-  const repl: Record<string, unknown> = { kVariant: `k=${view.k}` };
-  const where = baseWhere(viewer, scope, repl);
-  const metric = ENTRY_SQL[view.metric];
-  const modelCols = PLAN_MODELS.map((m) => {
-    // A comparison column takes each model's plain variant; k-robust at the view's k.
-    const variant = m === 'k-robust' ? ':kVariant' : "''";
-    return `max(${metric}) FILTER (WHERE e.model = '${m}' AND e.variant = ${variant}) AS ${modelColumnId(m)}`;
-  });
-  // Key columns filter before grouping (cheap, index-friendly); model columns after it.
-  const inner: string[] = [...where];
-  const outer: string[] = [];
-  const groupedSql: Record<string, string> = { map: 'c.map_name', scenario: 'c.scenario_name', agents: 'c.agents', profile: 'c.profile' };
-  for (const f of view.filters) {
-    if (f.column in groupedSql) inner.push(filterCondition(f, f.column === 'profile' ? PROFILE_LABEL_SQL : ENTRY_SQL[f.column], repl));
-    else outer.push(filterCondition(f, `c.${f.column}`, repl));
-  }
-  const grouped = `SELECT e.scenario_id, e.agents, e.robot_profile_hash,
-      min(e.map_name) AS map_name, min(e.scenario_name) AS scenario_name,
-      min(${PROFILE_LABEL_SQL}) AS profile, ${modelCols.join(', ')}
-    FROM leaderboard_entries e ${whereSql(inner)}
-    GROUP BY e.scenario_id, e.agents, e.robot_profile_hash`;
-  const colSql = (c: string): string => groupedSql[c] ?? `c.${c}`;
+  const repl: Record<string, unknown> = view.k === COMPARE_TABLE_K ? {} : { kVariant: `k=${view.k}` };
+  const where = baseWhere(viewer, scope, repl, 'c');
+  for (const f of view.filters) where.push(nameFilter(f, 'c', repl) ?? filterCondition(f, compareSql(view, f.column), repl));
   const order = [
-    ...view.sort.map((s) => `${colSql(s.column)} ${s.direction.toUpperCase()}`),
+    ...view.sort.map((s) => `${compareSql(view, s.column)} ${s.direction.toUpperCase()}`),
     'c.map_name', 'c.scenario_name', 'c.agents', 'c.scenario_id', 'c.robot_profile_hash',
   ].join(', ');
   repl['limit'] = window.end - window.start;
   repl['offset'] = window.start;
-  const page = `SELECT c.scenario_id, c.agents, c.robot_profile_hash, c.profile AS profile_label,
-      ${view.columns.map((col) => `${colSql(col)} AS "${col}"`).join(', ')}
-    FROM (${grouped}) c ${whereSql(outer)} ORDER BY ${order} LIMIT :limit OFFSET :offset`;
-  const count = `SELECT count(*)::int AS n FROM (${grouped}) c ${whereSql(outer)}`;
+  const page = `SELECT c.scenario_id, c.agents, c.robot_profile_hash, c.profile_label,
+      ${view.columns.map((col) => `${compareSql(view, col)} AS "${col}"`).join(', ')}
+    FROM leaderboard_compare c ${whereSql(where)} ORDER BY ${order} LIMIT :limit OFFSET :offset`;
+  const count = `SELECT count(*)::int AS n FROM leaderboard_compare c ${whereSql(where)}`;
   return { page: { sql: page, replacements: repl }, count: { sql: count, replacements: repl } };
 }

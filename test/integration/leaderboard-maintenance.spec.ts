@@ -1,0 +1,174 @@
+/**
+ * The leaderboard's derived tables (`leaderboard_entries`, `leaderboard_compare`) kept up by
+ * triggers must equal a from-scratch `leaderboard_rebuild()` after every kind of change: bulk
+ * result inserts and deletes, executions inserted, updated and deleted, submitted plans added,
+ * renamed and removed, a scenario deleted, and a set's visibility or owner changed. Each step
+ * compares the trigger-kept tables with a rebuild run inside a transaction that is rolled back,
+ * so later steps keep building on the incremental state, never on a repaired one.
+ */
+import { Client } from 'pg';
+import { createRng } from '@solvers/random';
+import { parameterHash } from '../../api/src/sweeps/parameter-hash';
+import { createTestDatabase, type TestDatabase } from '../support/test-database';
+
+const PROFILES = [
+  { forwardMs: 1000, quarterTurnMs: 600, waitMs: 1000, cellPitchMm: 1000, robotDiameterMm: 700, timingJitter: 0.1 },
+  { forwardMs: 800, quarterTurnMs: 900, waitMs: 800, cellPitchMm: 1200, robotDiameterMm: 600, timingJitter: 0 },
+];
+/** Model parameters: the plain variants, a fixed start heading, and k-robust at two k. */
+const MODELS = [
+  { model: 'classic', startHeading: 'free' },
+  { model: 'uniform-duration', startHeading: 'free' },
+  { model: 'orientation-split', startHeading: 'free' },
+  { model: 'orientation-split', startHeading: 'north' },
+  { model: 'weighted-split', startHeading: 'free' },
+  { model: 'k-robust', k: 1, startHeading: 'free' },
+  { model: 'k-robust', k: 2, startHeading: 'free' },
+];
+const STATUSES = ['solved', 'solved', 'solved', 'infeasible', 'timeout', 'memory', 'error'];
+
+interface Snapshot {
+  readonly entries: Record<string, unknown>[];
+  readonly compare: Record<string, unknown>[];
+}
+
+describe('leaderboard tables kept by triggers equal a rebuild', () => {
+  let db: TestDatabase;
+  let c: Client;
+  let scenarios: number[];
+  let privateSet: number;
+  const rng = createRng(8_2026);
+  let seed = 0;
+
+  const rows = async <T = Record<string, unknown>>(sql: string, values: unknown[] = []): Promise<T[]> => (await c.query(sql, values)).rows as T[];
+
+  /** Both tables in key order, without the serial id and timestamp (which a rebuild renews). */
+  async function snapshot(): Promise<Snapshot> {
+    const entries = await rows('SELECT * FROM leaderboard_entries ORDER BY scenario_id, agents, model, variant, robot_profile_hash');
+    for (const e of entries) {
+      delete e['id'];
+      delete e['updated_at'];
+    }
+    const compare = await rows('SELECT * FROM leaderboard_compare ORDER BY scenario_id, agents, robot_profile_hash');
+    return { entries, compare };
+  }
+
+  async function rebuilt(): Promise<Snapshot> {
+    await c.query('BEGIN');
+    try {
+      await c.query('SELECT leaderboard_rebuild()');
+      return await snapshot();
+    } finally {
+      await c.query('ROLLBACK');
+    }
+  }
+
+  /** Runs `act`, checks it changed the tables, and that they now equal a rebuild. */
+  async function expectRebuildEqualAfter(act: () => Promise<unknown>): Promise<Snapshot> {
+    const before = await snapshot();
+    await act();
+    const after = await snapshot();
+    expect(after).not.toEqual(before);
+    expect(after).toEqual(await rebuilt());
+    return after;
+  }
+
+  /** Inserts `n` random results in one statement (as a sweep batch does); submissions when given. */
+  async function insertResults(n: number, submissionIds: readonly number[] = []): Promise<number[]> {
+    const batch = Array.from({ length: n }, (_, i) => {
+      const spec = MODELS[rng.int(MODELS.length)];
+      const p = rng.int(PROFILES.length);
+      const status = submissionIds.length ? 'solved' : STATUSES[rng.int(STATUSES.length)];
+      // Small value ranges on purpose, so ties on every sort key occur and the tie-breaks matter.
+      const soc = status === 'solved' ? 4 + rng.int(4) : null;
+      const params = { model: spec, robotProfile: PROFILES[p], timeLimitMs: 1000 };
+      return {
+        scenario_id: scenarios[rng.int(scenarios.length)], agents: 1 + rng.int(3), model: spec.model, params, param_hash: parameterHash(params),
+        seed: seed++, status, soc, ti: soc === null ? null : soc * 600 + rng.int(3) * 100,
+        lb: status === 'error' || submissionIds.length ? null : 3 + rng.int(2), runtime: submissionIds.length ? null : rng.int(4) * 10,
+        profile: PROFILES[p], hash: parameterHash(PROFILES[p]), submission_id: submissionIds.length ? submissionIds[i % submissionIds.length] : null,
+      };
+    });
+    const inserted = await rows<{ id: number }>(
+      `INSERT INTO results (submission_id, instance_set_id, map_id, scenario_id, agents, model, params, param_hash, seed, status, soc, makespan,
+         turn_inclusive_soc_ms, turn_inclusive_makespan_ms, lower_bound, runtime_ms, nodes, robot_profile, robot_profile_hash,
+         solver_version, solver_commit, node_version, cpu_model, thread_count)
+       SELECT r.submission_id, s.instance_set_id, s.map_id, s.id, r.agents, r.model, r.params, r.param_hash, r.seed, r.status, r.soc, r.soc,
+         r.ti, r.ti, r.lb, r.runtime, 1, r.profile, r.hash, '0.1.0', 'test', 'v20', 'test cpu', 1
+       FROM jsonb_to_recordset($1::jsonb) AS r(submission_id int, scenario_id int, agents int, model text, params jsonb, param_hash text,
+         seed int, status text, soc float8, ti float8, lb float8, runtime float8, profile jsonb, hash text)
+       JOIN scenarios s ON s.id = r.scenario_id RETURNING id`,
+      [JSON.stringify(batch)],
+    );
+    return inserted.map((r) => r.id);
+  }
+
+  beforeAll(async () => {
+    db = await createTestDatabase();
+    c = new Client({ connectionString: db.url });
+    await c.connect();
+    await c.query(`INSERT INTO users (provider, provider_id, login, display_name, role)
+      VALUES ('fake', 'm1', 'maint-a', 'A', 'researcher'), ('fake', 'm2', 'maint-b', 'B', 'researcher')`);
+    const sets = await rows<{ id: number }>(`INSERT INTO instance_sets (owner_id, name, visibility)
+      VALUES (1, 'public one', 'public'), (1, 'public two', 'public'), (2, 'private', 'private') RETURNING id`);
+    privateSet = sets[2].id;
+    await c.query(`INSERT INTO maps (instance_set_id, name, type, width, height, passable_count, cells, checksum, byte_size, original)
+      SELECT s.id, 'map-' || s.id || '.map', 'octile', 8, 8, 64, '', repeat('0', 64), 0, ''::bytea FROM instance_sets s`);
+    const scen = await rows<{ id: number }>(`INSERT INTO scenarios (instance_set_id, map_id, name, rows, row_count, max_agents, checksum, byte_size, original)
+      SELECT m.instance_set_id, m.id, 'scen-' || m.id || '-' || g || '.scen', '[]', 3, 3, repeat('0', 64), 0, ''::bytea
+      FROM maps m CROSS JOIN generate_series(1, 2) g RETURNING id`);
+    scenarios = scen.map((r) => r.id);
+  });
+
+  afterAll(async () => {
+    await c?.end();
+    await db?.drop();
+  });
+
+  it('after bulk result inserts in a few statements', async () => {
+    const after = await expectRebuildEqualAfter(async () => {
+      for (let i = 0; i < 3; i++) await insertResults(150);
+    });
+    // Every instance × profile with a result has exactly one comparison row.
+    const [{ n }] = await rows<{ n: number }>('SELECT count(*)::int AS n FROM (SELECT DISTINCT scenario_id, agents, robot_profile_hash FROM results) k');
+    expect(after.compare).toHaveLength(n);
+  });
+
+  it('after executions are inserted, updated and deleted', async () => {
+    await expectRebuildEqualAfter(() => c.query(`INSERT INTO executions (result_id, policy, noise, runs, success_rate, collisions_mean,
+        realised_makespan_mean_ms, realised_makespan_p95_ms, finish_spread_mean_ms, metrics)
+      SELECT r.id, p.policy, '{}', 10, (abs(hashint4(r.id)) % 11) / 10.0, 0, r.turn_inclusive_makespan_ms * 1.1, r.turn_inclusive_makespan_ms * 1.2,
+        abs(hashint4(r.id)) % 900, '{}'
+      FROM results r CROSS JOIN (VALUES ('open-loop'), ('lockstep')) p(policy) WHERE r.status = 'solved'`));
+    await expectRebuildEqualAfter(() => c.query("UPDATE executions SET success_rate = 1 - success_rate, finish_spread_mean_ms = finish_spread_mean_ms + 7 WHERE id % 3 = 0"));
+    await expectRebuildEqualAfter(() => c.query("DELETE FROM executions WHERE id % 4 = 1 OR policy = 'lockstep' AND id % 2 = 0"));
+  });
+
+  it('after submitted plans are added, renamed and removed', async () => {
+    const subs = await rows<{ id: number }>(`INSERT INTO submissions (uploader_id, instance_set_id, scenario_id, agents, model, params, solver_name, solver_version, format)
+      SELECT 1, s.instance_set_id, s.id, 1, 'classic', '{}', 'Outside solver ' || g, '2.' || g, 'json'
+      FROM scenarios s CROSS JOIN generate_series(1, 2) g RETURNING id`);
+    const ids = subs.map((s) => s.id);
+    const resultIds: number[] = [];
+    await expectRebuildEqualAfter(async () => resultIds.push(...await insertResults(40, ids)));
+    await expectRebuildEqualAfter(() => c.query("UPDATE submissions SET solver_name = solver_name || ' (renamed)' WHERE id = ANY($1)", [ids.slice(0, 3)]));
+    await expectRebuildEqualAfter(async () => {
+      await c.query('DELETE FROM results WHERE id = ANY($1)', [resultIds.slice(0, 20)]);
+      await c.query('DELETE FROM submissions WHERE id = ANY($1)', [ids.slice(0, 2)]);
+    });
+  });
+
+  it('after results are deleted: best ones, whole keys and a whole scenario', async () => {
+    await expectRebuildEqualAfter(() => c.query(`DELETE FROM results r USING leaderboard_entries e
+      WHERE r.id = e.result_id AND e.id % 3 = 0`));
+    await expectRebuildEqualAfter(() => c.query(`DELETE FROM results r USING leaderboard_entries e
+      WHERE e.id % 5 = 0 AND r.scenario_id = e.scenario_id AND r.agents = e.agents AND r.model = e.model
+        AND leaderboard_variant(r.params) = e.variant AND r.robot_profile_hash = e.robot_profile_hash`));
+    await expectRebuildEqualAfter(() => c.query('DELETE FROM scenarios WHERE id = $1', [scenarios[1]]));
+  });
+
+  it('after a set turns public and changes owner', async () => {
+    const after = await expectRebuildEqualAfter(() => c.query("UPDATE instance_sets SET visibility = 'public', owner_id = 1 WHERE id = $1", [privateSet]));
+    expect(after.compare.filter((r) => r['instance_set_id'] === privateSet).every((r) => r['is_public'] === true && r['owner_id'] === 1)).toBe(true);
+  });
+});
