@@ -65,6 +65,12 @@ describe('a sweep from the browser', () => {
     expect(new Set(ledger.map((r) => r.worker)).size).toBe(1);
     expect(ledger[0].worker).toContain(`:${worker.child.pid}`);
 
+    // A solved run's stored plan opens in the plan viewer, replayed on the server by its result id.
+    await page.getByRole('link', { name: `Replay the plan of run ${ledger[0].id}` }).click();
+    await page.waitForURL(/\/plans\/view\?result=\d+$/);
+    await page.locator('.source').filter({ hasText: new RegExp(`stored result \\d+ of sweep ${sweepId}\\b`) }).waitFor({ timeout: 30_000 });
+    expect(await page.locator('article.pane [data-metric="success-rate"] dd').first().innerText()).toMatch(/^\d+%$/);
+
     await page.goto(`${s.url}/sweeps/mailbox`);
     await page.getByText('Quarterturn: sweep "parcel hall check" finished').waitFor({ timeout: 10_000 });
     expect(pageErrors).toEqual([]);

@@ -2,15 +2,15 @@
 import { HttpClient } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import type { Observable } from 'rxjs';
-import type { ExecutionView, InstanceExecutionInput } from '@shared/executions';
+import type { ExecutionView, InstanceExecutionInput, ResultExecutionInput } from '@shared/executions';
 
 /** Owns /api/executions. */
 @Injectable({ providedIn: 'root' })
 export class ExecutionApi {
   private readonly http = inject(HttpClient);
 
-  /** POST /api/executions: simulate (and, without a plan, solve) an instance; answers the stored execution. */
-  create(body: InstanceExecutionInput): Observable<ExecutionView> {
+  /** POST /api/executions: simulate a stored result's plan, or (without a plan, after solving) an instance; answers the stored execution. */
+  create(body: InstanceExecutionInput | ResultExecutionInput): Observable<ExecutionView> {
     return this.http.post<ExecutionView>('/api/executions', body);
   }
 

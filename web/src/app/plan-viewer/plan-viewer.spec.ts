@@ -144,6 +144,25 @@ describe('PlanViewer', () => {
     expect(el.querySelector('[data-testid="noise"]')?.textContent).toContain('lockstep');
   });
 
+  it('replays a stored result by its id, names it as the source, and re-runs it on the server by the same id', async () => {
+    fixture.componentRef.setInput('result', '41');
+    await fixture.whenStable();
+    const req = backend.expectOne({ method: 'POST', url: '/api/executions' });
+    expect(req.request.body).toEqual({ resultId: 41, policy: 'open-loop', noise: { jitterCv: 0, stallProbability: 0, stallMs: 0 }, seed: 1, runs: 20, onCollision: 'count' });
+    const view = serverView(11, 'classic', { ...req.request.body, instance: { scenarioId: 5, agents: 4 }, model: 'classic', profile: TEST_PROFILE } as InstanceExecutionInput);
+    req.flush({ ...view, source: { ...view.source, resultId: 41, sweepId: 3 }, plan: { ...view.plan, origin: 'result' } });
+    await settle();
+    expect(el.querySelector('.source')?.textContent).toContain('stored result 41 of sweep 3');
+    expect(metric(0, 'success-rate')).toBe('100%');
+
+    await (await loader.getHarness(MatButtonHarness.with({ text: 'Re-run on server' }))).click();
+    const again = backend.expectOne({ method: 'POST', url: '/api/executions' });
+    expect(again.request.body).toMatchObject({ resultId: 41, policy: 'open-loop' });
+    expect(again.request.body).not.toHaveProperty('plan');
+    again.flush({ ...view, id: 12, source: { ...view.source, resultId: 41, sweepId: 3 } });
+    await settle();
+  });
+
   it('shows two models side by side, each with its own figures, timeline and histogram', async () => {
     await open('classic', 'uniform-duration');
     await answerPost(11, 'classic');

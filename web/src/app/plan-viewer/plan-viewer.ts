@@ -80,6 +80,8 @@ export default class PlanViewer {
   readonly profile = input<string>();
   /** Query: stored execution ids, comma-separated. */
   readonly execution = input<string>();
+  /** Query: stored result ids (sweep or submitted plans), comma-separated; two are shown side by side. */
+  readonly result = input<string>();
 
   protected readonly safetyNote = SAFETY_NOTE;
   protected readonly policies = EXECUTION_POLICY_NAMES;
@@ -111,7 +113,8 @@ export default class PlanViewer {
     const first = this.panes()[0]?.execution;
     if (!first) return '';
     const s = first.source;
-    return `${s.scenarioName ?? 'tasks on ' + s.mapName} · map ${s.mapName} (${first.instance.width}×${first.instance.height}) · ${first.instance.agents.length} agents`;
+    const stored = s.resultId === undefined ? '' : ` · stored result ${s.resultId}${s.sweepId === undefined ? '' : ` of sweep ${s.sweepId}`}`;
+    return `${s.scenarioName ?? 'tasks on ' + s.mapName} · map ${s.mapName} (${first.instance.width}×${first.instance.height}) · ${first.instance.agents.length} agents${stored}`;
   });
   protected readonly canvasPx = computed(() => (this.panes().length > 1 ? 440 : 620));
 
@@ -120,7 +123,7 @@ export default class PlanViewer {
     effect(() => {
       const query = {
         scenario: this.scenario(), agents: this.agents(), model: this.model(), compare: this.compare(),
-        heading: this.heading(), profile: this.profile(), execution: this.execution(),
+        heading: this.heading(), profile: this.profile(), execution: this.execution(), result: this.result(),
       };
       untracked(() => void this.openFromQuery(query));
     });
@@ -165,7 +168,8 @@ export default class PlanViewer {
       const next: ViewerPane[] = [];
       for (const pane of this.panes()) {
         const e = pane.execution;
-        const fresh = await firstValueFrom(this.api.create({
+        // A stored result's plan is replayed by its id, so the new execution keeps naming its source.
+        const fresh = await firstValueFrom(this.api.create(e.source.resultId !== undefined ? { resultId: e.source.resultId, ...this.requestSettings(settings) } : {
           instance: e.source.scenarioId !== undefined ? { scenarioId: e.source.scenarioId, agents: e.instance.agents.length } : { mapId: e.source.mapId, agents: [...e.instance.agents] },
           model: e.model,
           modelOptions: e.modelOptions,
@@ -186,9 +190,13 @@ export default class PlanViewer {
     await this.busy(async () => {
       let executions: ExecutionView[];
       if (q['execution']) {
-        const ids = q['execution'].split(',').map(Number).filter((n) => Number.isInteger(n) && n > 0).slice(0, 2);
+        const ids = idList(q['execution']);
         executions = await Promise.all(ids.map((id) => firstValueFrom(this.api.get(id))));
         if (executions[0]) this.adoptSettings(executions[0].summary);
+      } else if (q['result']) {
+        const ids = idList(q['result']);
+        executions = [];
+        for (const resultId of ids) executions.push(await firstValueFrom(this.api.create({ resultId, ...this.requestSettings(settings) })));
       } else if (q['scenario'] && q['agents'] && q['model']) {
         const models = [q['model'], q['compare']].filter((m): m is PlanModel => m !== undefined && (PLAN_MODELS as readonly string[]).includes(m));
         const unique = [...new Set(models)];
@@ -281,4 +289,9 @@ function parseProfile(text: string | undefined): RobotProfile {
   const [forwardMs, quarterTurnMs, waitMs, cellPitchMm, robotDiameterMm] = text.split(',').map(Number);
   const ok = [forwardMs, quarterTurnMs, waitMs, cellPitchMm, robotDiameterMm].every((v) => Number.isFinite(v) && v > 0);
   return ok ? { ...base, forwardMs, quarterTurnMs, waitMs, cellPitchMm, robotDiameterMm } : base;
+}
+
+/** Up to two positive ids from a comma-separated query value. */
+function idList(value: string): number[] {
+  return value.split(',').map(Number).filter((n) => Number.isInteger(n) && n > 0).slice(0, 2);
 }

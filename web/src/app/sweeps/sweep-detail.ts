@@ -1,7 +1,9 @@
 /**
  * The page at /sweeps/:id: progress bar, per-model counters, ETA and a live results grid,
  * fed from the sweep's SSE stream (an RxJS stream over EventSource) on top of the rows read at
- * load; and cancel.
+ * load; and cancel. Row events sent before the stream connected (or while it was down) are
+ * lost, so whenever a progress snapshot counts more finished runs than the grid holds, the
+ * page reads the rows again.
  */
 import { ChangeDetectionStrategy, Component, computed, inject, input, signal } from '@angular/core';
 import { takeUntilDestroyed, toObservable } from '@angular/core/rxjs-interop';
@@ -11,7 +13,7 @@ import { ClientSideRowModelModule, ModuleRegistry, type GetRowIdParams } from 'a
 import { MatButtonModule } from '@angular/material/button';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { RouterLink } from '@angular/router';
-import { merge, switchMap, map, catchError, of, EMPTY } from 'rxjs';
+import { auditTime, catchError, EMPTY, map, merge, of, Subject, switchMap } from 'rxjs';
 import { isSweepOver, RUN_STATUSES, type SweepDetail, type SweepProgress, type SweepResultRow } from '@shared/runs';
 import { SweepApi } from './sweep-api';
 import { SWEEP_GRID_THEME, sweepGridColumns } from './sweep-grid-columns';
@@ -56,15 +58,21 @@ export default class SweepDetailPage {
   });
   protected readonly isCancelling = signal(false);
   protected readonly rowId = (p: GetRowIdParams<SweepResultRow>) => String(p.data.runId);
+  /** Fires when the grid holds fewer finished runs than the latest progress snapshot counts. */
+  private readonly rowsBehind = new Subject<void>();
 
   constructor() {
     toObservable(this.id).pipe(
       map(Number),
-      switchMap((id) => merge(
-        this.api.get(id).pipe(map((sweep) => ({ kind: 'sweep' as const, sweep })), catchError(() => of({ kind: 'missing' as const }))),
-        this.api.results(id).pipe(map((r) => ({ kind: 'rows' as const, rows: r.items })), catchError(() => EMPTY)),
-        this.api.events(id).pipe(map((event) => ({ kind: 'event' as const, event }))),
-      )),
+      switchMap((id) => {
+        const readRows = () => this.api.results(id).pipe(map((r) => ({ kind: 'rows' as const, rows: r.items })), catchError(() => EMPTY));
+        return merge(
+          this.api.get(id).pipe(map((sweep) => ({ kind: 'sweep' as const, sweep })), catchError(() => of({ kind: 'missing' as const }))),
+          readRows(),
+          this.api.events(id).pipe(map((event) => ({ kind: 'event' as const, event }))),
+          this.rowsBehind.pipe(auditTime(300), switchMap(readRows)),
+        );
+      }),
       takeUntilDestroyed(),
     ).subscribe((m) => {
       if (m.kind === 'missing') this.sweep.set(null);
@@ -72,8 +80,10 @@ export default class SweepDetailPage {
         this.sweep.set(m.sweep);
         if (!this.progress()) this.progress.set(m.sweep.progress);
       } else if (m.kind === 'rows') this.mergeRows(m.rows);
-      else if (m.event.type === 'progress') this.progress.set(m.event.progress);
-      else this.mergeRows([m.event.row]);
+      else if (m.event.type === 'progress') {
+        this.progress.set(m.event.progress);
+        if (m.event.progress.done > this.rows().length) this.rowsBehind.next();
+      } else this.mergeRows([m.event.row]);
     });
   }
 

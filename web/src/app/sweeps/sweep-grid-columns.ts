@@ -21,6 +21,7 @@ export function sweepGridColumns(policies: readonly string[]): ColDef<SweepResul
     { field: 'model', headerName: 'Plan model', width: 150 },
     { field: 'seed', headerName: 'Seed', width: 80 },
     { field: 'status', headerName: 'Status', width: 120, valueFormatter: (p) => (p.value ? RUN_STATUS_LABEL[p.value as SweepResultRow['status']] : '') },
+    { colId: 'replay', headerName: 'Plan', width: 100, sortable: false, cellRenderer: replayLink },
     { field: 'soc', headerName: 'Sum-of-costs', width: 130, valueFormatter: num(), headerTooltip: 'Steps for unit-step models, ms for weighted-split' },
     { field: 'makespan', headerName: 'Makespan', width: 110, valueFormatter: num() },
     { field: 'turnInclusiveSocMs', headerName: 'Turn-incl. SOC (ms)', width: 160, valueFormatter: num() },
@@ -35,6 +36,17 @@ export function sweepGridColumns(policies: readonly string[]): ColDef<SweepResul
     ]),
     { field: 'reason', headerName: 'Note', flex: 1, minWidth: 200 },
   ];
+}
+
+/** A link to the plan viewer replaying a solved run's stored plan; nothing for runs without a plan. */
+function replayLink(p: { data?: SweepResultRow }): HTMLElement | string {
+  const row = p.data;
+  if (!row || row.status !== 'solved' || row.resultId === null) return '';
+  const a = document.createElement('a');
+  a.href = `/plans/view?result=${row.resultId}`;
+  a.textContent = 'Replay';
+  a.setAttribute('aria-label', `Replay the plan of run ${row.runId}`);
+  return a;
 }
 
 /** Quartz with the Material system colours of the app theme. */
