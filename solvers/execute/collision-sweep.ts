@@ -22,21 +22,30 @@ const CONTACT_SLACK_MM = 1e-6;
 /** Overlaps of one robot pair closer than this in time are one collision. */
 const MERGE_MS = 1e-6;
 
+/** A collision while its pair's overlaps are still being merged (its end may grow). */
+type OpenCollision = { -readonly [K in keyof Collision]: Collision[K] };
+
 /** Reusable collision detector for one prepared plan. */
 export class CollisionSweep {
   private readonly p: PreparedPlan;
-  private readonly pieceCount: number;
   private readonly radius: number;
   private readonly reach: number;
+  /** Per piece its cells: cellA[piece] and cellB[piece] (equal for a piece that stays in one cell). */
+  private readonly cellA: Int32Array;
+  private readonly cellB: Int32Array;
+  /** Per piece the action whose end opens its window (−1: the window opens at 0). */
+  private readonly windowFrom: Int32Array;
+  private readonly nextLive: Int32Array;
   private readonly head: Int32Array;
   private readonly next: Int32Array;
   private readonly prev: Int32Array;
   private readonly stamp: Int32Array;
   private stampValue = 0;
+  /** Per robot its linked piece (−1 none) and the next live piece to enter (−1 none). */
   private readonly current: Int32Array;
+  private readonly pending: Int32Array;
   private readonly heapRobot: Int32Array;
   private readonly heapKey: Float64Array;
-  private heapSize = 0;
   private readonly pairEnd: Float64Array;
   private readonly pairIndex: Int32Array;
   private readonly touchedPairs: number[] = [];
@@ -44,24 +53,89 @@ export class CollisionSweep {
   private readonly cuts = new Float64Array(6);
   private times!: RunTimes;
   private duration!: Float64Array;
-  private found: Collision[] = [];
+  private found: OpenCollision[] = [];
 
   constructor(p: PreparedPlan) {
     this.p = p;
     const n = p.actionCount;
     const robots = p.robotCount;
-    this.pieceCount = n + robots;
+    const pieces = n + robots;
     this.radius = p.profile.robotDiameterMm - CONTACT_SLACK_MM;
     this.reach = Math.max(0, Math.ceil(p.profile.robotDiameterMm / p.profile.cellPitchMm) - 1);
+    this.cellA = new Int32Array(pieces);
+    this.cellB = new Int32Array(pieces);
+    this.cellA.set(p.fromCell);
+    this.cellB.set(p.toCell);
+    this.cellA.set(p.goalCell, n);
+    this.cellB.set(p.goalCell, n);
+    this.windowFrom = new Int32Array(pieces);
+    for (let r = 0; r < robots; r++) {
+      for (let k = p.first[r]; k < p.first[r + 1]; k++) this.windowFrom[k] = k > p.first[r] ? k - 1 : -1;
+      this.windowFrom[n + r] = p.first[r + 1] > p.first[r] ? p.first[r + 1] - 1 : -1;
+    }
+    this.nextLive = this.liveChains();
     this.head = new Int32Array(p.instance.grid.passable.length).fill(-1);
-    this.next = new Int32Array(2 * this.pieceCount);
-    this.prev = new Int32Array(2 * this.pieceCount);
-    this.stamp = new Int32Array(this.pieceCount);
+    this.next = new Int32Array(2 * pieces);
+    this.prev = new Int32Array(2 * pieces);
+    this.stamp = new Int32Array(pieces);
     this.current = new Int32Array(robots);
+    this.pending = new Int32Array(robots);
     this.heapRobot = new Int32Array(robots);
     this.heapKey = new Float64Array(robots);
     this.pairEnd = new Float64Array(robots * robots).fill(-Infinity);
     this.pairIndex = new Int32Array(robots * robots);
+  }
+
+  /**
+   * Per piece (and per robot, at index pieces + r, for its start) the next piece of the same
+   * robot that some other robot's piece comes within `reach` cells of, or −1. The others can
+   * never touch anything (they find nothing and nobody finds them), so the sweep skips them.
+   */
+  private liveChains(): Int32Array {
+    const p = this.p;
+    const n = p.actionCount;
+    const robots = p.robotCount;
+    const pieces = n + robots;
+    const cells = p.instance.grid.passable.length;
+    // Per cell: the one robot whose pieces touch it (−1 none, −2 several).
+    const owner = new Int32Array(cells).fill(-1);
+    const claim = (cell: number, r: number): void => {
+      const o = owner[cell];
+      if (o === -1) owner[cell] = r;
+      else if (o !== r) owner[cell] = -2;
+    };
+    const robotOf = (k: number): number => (k >= n ? k - n : p.robotOf[k]);
+    for (let k = 0; k < pieces; k++) {
+      claim(this.cellA[k], robotOf(k));
+      claim(this.cellB[k], robotOf(k));
+    }
+    const w = p.instance.grid.width;
+    const h = p.instance.grid.height;
+    const isLive = (k: number): boolean => {
+      const r = robotOf(k);
+      const ca = this.cellA[k], cb = this.cellB[k];
+      const ax = ca % w, ay = (ca - ax) / w, bx = cb % w, by = (cb - bx) / w;
+      const x0 = Math.max(0, Math.min(ax, bx) - this.reach), x1 = Math.min(w - 1, Math.max(ax, bx) + this.reach);
+      const y0 = Math.max(0, Math.min(ay, by) - this.reach), y1 = Math.min(h - 1, Math.max(ay, by) + this.reach);
+      for (let y = y0; y <= y1; y++) {
+        for (let x = x0; x <= x1; x++) {
+          const o = owner[y * w + x];
+          if (o !== -1 && o !== r) return true;
+        }
+      }
+      return false;
+    };
+    const next = new Int32Array(pieces + robots).fill(-1);
+    for (let r = 0; r < robots; r++) {
+      let live = isLive(n + r) ? n + r : -1;
+      next[n + r] = -1;
+      for (let k = p.first[r + 1] - 1; k >= p.first[r]; k--) {
+        next[k] = live;
+        if (isLive(k)) live = k;
+      }
+      next[pieces + r] = live;
+    }
+    return next;
   }
 
   /** Every collision of the run described by `times` and `duration`, in the order found (callers sort). */
@@ -70,47 +144,96 @@ export class CollisionSweep {
     this.duration = duration;
     this.found = [];
     const p = this.p;
+    const n = p.actionCount;
+    const pieces = n + p.robotCount;
     const robots = p.robotCount;
+    const end = times.end;
+    const windowFrom = this.windowFrom;
+    const nextLive = this.nextLive;
+    const current = this.current;
+    const pending = this.pending;
+    const heapKey = this.heapKey;
+    const heapRobot = this.heapRobot;
     this.head.fill(-1);
-    this.heapSize = 0;
+    // Each robot's first piece enters at t = 0 in robot order, as in a sweep over every piece;
+    // then a binary min-heap of (time its next live piece enters, robot) orders the robots.
+    // A skipped piece's predecessor is unlinked late, when the next live one enters: tests
+    // against it in between find no common window, so nothing changes.
     for (let r = 0; r < robots; r++) {
-      const piece = p.first[r] < p.first[r + 1] ? p.first[r] : p.actionCount + r;
-      this.current[r] = piece;
-      this.insert(piece, r, 0);
-      this.push(r, this.windowEnd(piece));
+      let live = nextLive[pieces + r];
+      current[r] = -1;
+      if (live !== -1 && windowFrom[live] === -1) {
+        this.insert(live, r, 0);
+        current[r] = live;
+        live = nextLive[live];
+      }
+      pending[r] = live;
+      const wf = live === -1 ? -1 : windowFrom[live];
+      const key = live === -1 ? Infinity : wf === -1 ? 0 : end[wf];
+      let i = r;
+      while (i > 0) {
+        const parent = (i - 1) >> 1;
+        const pk = heapKey[parent];
+        if (!(key < pk || (key === pk && r < heapRobot[parent]))) break;
+        heapKey[i] = pk;
+        heapRobot[i] = heapRobot[parent];
+        i = parent;
+      }
+      heapKey[i] = key;
+      heapRobot[i] = r;
     }
-    while (this.heapSize > 0 && this.heapKey[0] < Infinity) {
-      const r = this.heapRobot[0];
-      const t = this.heapKey[0];
-      this.pop();
-      const old = this.current[r];
-      this.remove(old);
-      const piece = old + 1 < p.first[r + 1] ? old + 1 : p.actionCount + r;
-      this.current[r] = piece;
+    while (robots > 0 && heapKey[0] < Infinity) {
+      const r = heapRobot[0];
+      const t = heapKey[0];
+      const old = current[r];
+      if (old !== -1) this.remove(old);
+      const piece = pending[r];
+      current[r] = piece;
       this.insert(piece, r, t);
-      this.push(r, this.windowEnd(piece));
+      const live = nextLive[piece];
+      pending[r] = live;
+      const key = live === -1 ? Infinity : end[windowFrom[live]];
+      // Replace the root by the robot's new key and sift it down: the same order of robots as
+      // popping and pushing, since (time, robot) keys are all distinct.
+      let i = 0;
+      for (;;) {
+        let c = 2 * i + 1;
+        if (c >= robots) break;
+        let ck = heapKey[c];
+        let cr = heapRobot[c];
+        if (c + 1 < robots) {
+          const k2 = heapKey[c + 1];
+          const r2 = heapRobot[c + 1];
+          if (k2 < ck || (k2 === ck && r2 < cr)) {
+            c++;
+            ck = k2;
+            cr = r2;
+          }
+        }
+        if (!(ck < key || (ck === key && cr < r))) break;
+        heapKey[i] = ck;
+        heapRobot[i] = cr;
+        i = c;
+      }
+      heapKey[i] = key;
+      heapRobot[i] = r;
     }
     for (const key of this.touchedPairs) this.pairEnd[key] = -Infinity;
     this.touchedPairs.length = 0;
     return this.found;
   }
 
-  private windowEnd(piece: number): number {
-    return piece >= this.p.actionCount ? Infinity : this.times.end[piece];
-  }
-
   /** Adds `piece` (robot r, window starting at t) to the buckets after testing it against active pieces nearby. */
   private insert(piece: number, r: number, t: number): void {
-    const p = this.p;
     const stampValue = ++this.stampValue;
-    const cellA = piece >= p.actionCount ? p.goalCell[piece - p.actionCount] : p.fromCell[piece];
-    const cellB = piece >= p.actionCount ? cellA : p.toCell[piece];
+    const cellA = this.cellA[piece];
+    const cellB = this.cellB[piece];
     if (this.reach === 0) {
       this.scan(cellA, piece, r, t, stampValue);
       if (cellB !== cellA) this.scan(cellB, piece, r, t, stampValue);
     } else {
-      const w = p.instance.grid.width;
-      const h = p.instance.grid.height;
+      const w = this.p.instance.grid.width;
+      const h = this.p.instance.grid.height;
       const ax = cellA % w, ay = (cellA - ax) / w, bx = cellB % w, by = (cellB - bx) / w;
       const x0 = Math.max(0, Math.min(ax, bx) - this.reach), x1 = Math.min(w - 1, Math.max(ax, bx) + this.reach);
       const y0 = Math.max(0, Math.min(ay, by) - this.reach), y1 = Math.min(h - 1, Math.max(ay, by) + this.reach);
@@ -122,18 +245,19 @@ export class CollisionSweep {
 
   /** Tests `piece` against every active piece in `cell` not tested yet in this insertion. */
   private scan(cell: number, piece: number, r: number, t: number, stampValue: number): void {
-    for (let node = this.head[cell]; node !== -1; node = this.next[node]) {
+    const next = this.next;
+    const stamp = this.stamp;
+    for (let node = this.head[cell]; node !== -1; node = next[node]) {
       const other = node >> 1;
-      if (this.stamp[other] === stampValue) continue;
-      this.stamp[other] = stampValue;
+      if (stamp[other] === stampValue) continue;
+      stamp[other] = stampValue;
       this.testPair(piece, r, other, t);
     }
   }
 
   private remove(piece: number): void {
-    const p = this.p;
-    const cellA = piece >= p.actionCount ? p.goalCell[piece - p.actionCount] : p.fromCell[piece];
-    const cellB = piece >= p.actionCount ? cellA : p.toCell[piece];
+    const cellA = this.cellA[piece];
+    const cellB = this.cellB[piece];
     this.unlink(piece * 2, cellA);
     if (cellB !== cellA) this.unlink(piece * 2 + 1, cellB);
   }
@@ -159,8 +283,9 @@ export class CollisionSweep {
     const p = this.p;
     const rb = b >= p.actionCount ? b - p.actionCount : p.robotOf[b];
     if (rb === ra) return;
-    const hiA = this.windowEnd(a);
-    const hiB = this.windowEnd(b);
+    const end = this.times.end;
+    const hiA = a >= p.actionCount ? Infinity : end[a];
+    const hiB = b >= p.actionCount ? Infinity : end[b];
     const hi = hiA < hiB ? hiA : hiB;
     if (!(hi > lo)) return;
     const cuts = this.cuts;
@@ -253,7 +378,7 @@ export class CollisionSweep {
     const key = lo * this.p.robotCount + hi;
     if (this.pairEnd[key] >= t0 - MERGE_MS) {
       const c = this.found[this.pairIndex[key]];
-      if (t1 > c.untilMs) this.found[this.pairIndex[key]] = { ...c, untilMs: t1 };
+      if (t1 > c.untilMs) c.untilMs = t1;
       this.pairEnd[key] = Math.max(this.pairEnd[key], t1);
       return;
     }
@@ -264,42 +389,5 @@ export class CollisionSweep {
     const y = (this.posY(a, t0) + this.posY(b, t0)) / 2;
     const pitch = this.p.profile.cellPitchMm;
     this.found.push({ robots: [lo, hi], timeMs: t0, untilMs: t1, at: [x, y], cell: [Math.round(x / pitch), Math.round(y / pitch)] });
-  }
-
-  private push(r: number, key: number): void {
-    let i = this.heapSize++;
-    while (i > 0) {
-      const parent = (i - 1) >> 1;
-      if (!this.less(key, r, this.heapKey[parent], this.heapRobot[parent])) break;
-      this.heapKey[i] = this.heapKey[parent];
-      this.heapRobot[i] = this.heapRobot[parent];
-      i = parent;
-    }
-    this.heapKey[i] = key;
-    this.heapRobot[i] = r;
-  }
-
-  private pop(): void {
-    const n = --this.heapSize;
-    if (n === 0) return;
-    const key = this.heapKey[n];
-    const r = this.heapRobot[n];
-    let i = 0;
-    for (;;) {
-      let c = 2 * i + 1;
-      if (c >= n) break;
-      if (c + 1 < n && this.less(this.heapKey[c + 1], this.heapRobot[c + 1], this.heapKey[c], this.heapRobot[c])) c++;
-      if (!this.less(this.heapKey[c], this.heapRobot[c], key, r)) break;
-      this.heapKey[i] = this.heapKey[c];
-      this.heapRobot[i] = this.heapRobot[c];
-      i = c;
-    }
-    this.heapKey[i] = key;
-    this.heapRobot[i] = r;
-  }
-
-  /** Heap order: earlier time first, then lower robot index (deterministic ties). */
-  private less(k1: number, r1: number, k2: number, r2: number): boolean {
-    return k1 < k2 || (k1 === k2 && r1 < r2);
   }
 }

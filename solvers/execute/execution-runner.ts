@@ -7,7 +7,6 @@
  */
 import type { RobotProfile } from '@shared/plan';
 import type { MapfInstance } from '../instance';
-import { createRng } from '../random';
 import { CollisionSweep } from './collision-sweep';
 import { buildActionDependencies, type ActionDependencies } from './dependency-graph';
 import type { Collision, CollisionMode, ExecutablePlan, ExecutionOptions, NoiseModel, RunMetrics } from './execution-types';
@@ -54,7 +53,7 @@ export class ExecutionRunner {
   /** Simulates run `run` of the batch (deterministic for the batch seed and run index). */
   run(run: number): RunMetrics {
     const p = this.prepared;
-    drawDurations(p, this.noise, createRng(runSeed(this.seed, run)), this.duration);
+    drawDurations(p, this.noise, runSeed(this.seed, run), this.duration);
     this.stoppedAt.fill(Infinity);
     realiseTimes(p, this.release, this.duration, this.stoppedAt, this.times);
     let collisions = this.sweep.detect(this.times, this.duration);

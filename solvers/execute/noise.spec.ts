@@ -12,7 +12,7 @@ describe('drawDurations', () => {
   it('reproduces nominal integer durations exactly with zero noise', () => {
     const p = preparePlan(instance, { timeline: 'steps', schedule: [waits(50)] }, profile);
     const out = new Float64Array(p.actionCount);
-    drawDurations(p, resolveNoise(profile, { jitterCv: 0 }), createRng(1), out);
+    drawDurations(p, resolveNoise(profile, { jitterCv: 0 }), 1, out);
     expect(Array.from(out)).toEqual(Array(50).fill(700));
   });
 
@@ -21,7 +21,7 @@ describe('drawDurations', () => {
     // with σ² = ln(1 + cv²), μ = −σ²/2 the mean is 1 and the standard deviation cv.
     const p = preparePlan(instance, { timeline: 'steps', schedule: [waits(40000)] }, profile);
     const out = new Float64Array(p.actionCount);
-    drawDurations(p, resolveNoise(profile, { jitterCv: 0.4 }), createRng(5), out);
+    drawDurations(p, resolveNoise(profile, { jitterCv: 0.4 }), 5, out);
     const f = Array.from(out, (d) => d / 700);
     const mean = f.reduce((s, v) => s + v, 0) / f.length;
     const sd = Math.sqrt(f.reduce((s, v) => s + (v - mean) ** 2, 0) / f.length);
@@ -34,12 +34,34 @@ describe('drawDurations', () => {
     const p = preparePlan(instance, { timeline: 'steps', schedule: [waits(20000)] }, profile);
     const out = new Float64Array(p.actionCount);
     const noise = resolveNoise({ ...profile, timingJitter: 0 }, { stallProbability: 0.1, stallMs: 3000 });
-    drawDurations(p, noise, createRng(8), out);
+    drawDurations(p, noise, 8, out);
     const stalled = Array.from(out).filter((d) => d === 3700).length;
     expect(Array.from(out).every((d) => d === 700 || d === 3700)).toBe(true);
     expect(Math.abs(stalled / 20000 - 0.1)).toBeLessThan(0.01);
     expect(resolveNoise(profile).jitterCv).toBe(0.15);
     expect(() => resolveNoise(profile, { stallProbability: 2 })).toThrow('noise: field "stallProbability" must be in [0, 1], got 2');
+  });
+  it('draws exactly what createRng(seed) gives, in plan order: factor via normal(), then the stall test via next()', () => {
+    // Reference: the draw order documented in noise.ts, written against the shared generator.
+    const reference = (nominal: Float64Array, cv: number, stallP: number, stallMs: number, seed: number): number[] => {
+      const rng = createRng(seed);
+      const sigma2 = Math.log(1 + cv * cv);
+      return Array.from(nominal, (ms) => {
+        let d = cv > 0 ? ms * Math.exp(-sigma2 / 2 + Math.sqrt(sigma2) * rng.normal()) : ms;
+        if (stallP > 0 && rng.next() < stallP) d += stallMs;
+        return d;
+      });
+    };
+    // An odd count, so a run ends with an unused Box–Muller spare.
+    const p = preparePlan(instance, { timeline: 'steps', schedule: [waits(301)] }, profile);
+    const out = new Float64Array(p.actionCount);
+    const cases = [[0.1, 0.02, 2000], [0.4, 0, 0], [0, 0.3, 500], [0.25, 0.5, 1]] as const;
+    for (const [jitterCv, stallProbability, stallMs] of cases) {
+      for (const seed of [0, 1, 7, 0x7fffffff, 0x80000000, 0xffffffff, 123456789]) {
+        drawDurations(p, { jitterCv, stallProbability, stallMs }, seed, out);
+        expect(Array.from(out)).toEqual(reference(p.nominalMs, jitterCv, stallProbability, stallMs, seed));
+      }
+    }
   });
 });
 
