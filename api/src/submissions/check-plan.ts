@@ -9,6 +9,7 @@ import type { CellXY, Schedule } from '@shared/plan';
 import { SWEEP_POLICIES } from '@shared/sweeps';
 import type { SubmissionViolation } from '@shared/submissions';
 import type { MapfInstance } from '@solvers/instance';
+import { scheduleFromHeadingStates } from '@solvers/models/heading-schedule';
 import { scheduleFromPaths } from '@solvers/models/turn-schedule';
 import { replayPlan } from '@solvers/run/replay-plan';
 import type { TaskExecutionSummary, TaskPlan } from '@solvers/run/plan-task';
@@ -18,7 +19,6 @@ import { validateOrientationPlan } from '@solvers/validate/orientation-split';
 import type { PlanCheck } from '@solvers/validate/plan-check';
 import { validateSchedule } from '@solvers/validate/schedule';
 import type { ReadSubmission } from './read-plan-file';
-import { scheduleFromStates } from './states-schedule';
 
 /** Replay settings of a submitted plan: every policy, 20 Monte Carlo runs, the profile's jitter, seed 1. */
 export const SUBMISSION_EXECUTION = { policies: SWEEP_POLICIES, stallProbability: 0, stallMs: 0, runs: 20 } as const;
@@ -80,12 +80,10 @@ export function checkPlan(instance: MapfInstance, sub: ReadSubmission): PlanVerd
     if (!check.ok) {
       return { ok: false, violation: violationOf(check, (a, t) => { const s = plan.states[a]?.[t]; return s && [s[0], s[1]]; }) };
     }
-    const goals = instance.agents.map((a): CellXY => [a.goal % instance.grid.width, Math.floor(a.goal / instance.grid.width)]);
-    const built = scheduleFromStates(plan.states, goals, profile);
-    const turns = built.schedule.reduce((n, acts) => n + acts.filter((a) => a.action === 'turn-left' || a.action === 'turn-right').length, 0);
+    const built = scheduleFromHeadingStates(instance, states, profile);
     return {
       ok: true, soc: check.soc, makespan: check.makespan,
-      turnInclusiveSocMs: built.turnInclusiveSocMs, turnInclusiveMakespanMs: built.turnInclusiveMakespanMs, turns,
+      turnInclusiveSocMs: built.turnInclusiveSocMs, turnInclusiveMakespanMs: built.turnInclusiveMakespanMs, turns: built.turns,
       storedPlan: { kind: 'schedule', schedule: built.schedule }, executions: replay(built.schedule, 'steps'),
     };
   }
