@@ -103,6 +103,35 @@ describe('plan submissions', () => {
     expect((await submit(priv, world.owner)).status).toBe(201);
   });
 
+  it('accepts an orientation-split plan of (x, y, heading) states and costs its quarter turns', async () => {
+    // Hand-worked, both robots facing north at the start: robot 0 turns right to face east and drives
+    // (0,0)→(2,0); robot 1 turns left to face west and drives (2,2)→(0,2). Three unit steps each: SOC 6,
+    // makespan 3. Starter profile: 600 ms + 2 × 1000 ms = 2600 ms per robot, 2 quarter turns in all.
+    const states = [
+      [[0, 0, 'N'], [0, 0, 'E'], [1, 0, 'E'], [2, 0, 'E']],
+      [[2, 2, 'N'], [2, 2, 'W'], [1, 2, 'W'], [0, 2, 'W']],
+    ];
+    const doc = { format: 'quarterturn-plan', version: 1, model: 'orientation-split', startHeading: 'N', instance: { scenarioId: scenario, agents: 2 }, solver, states };
+    const res = await submit({ format: 'json', text: JSON.stringify(doc) }, world.owner);
+    expect(res.status).toBe(201);
+    const view = (await res.json()) as SubmissionView;
+    expect([view.soc, view.makespan, view.turnInclusiveSocMs, view.turnInclusiveMakespanMs]).toEqual([6, 3, 5200, 2600]);
+    const [row] = await world.lib.sql<{ turns: number }>('SELECT turns FROM results WHERE id = :id', { id: view.resultId });
+    expect(row.turns).toBe(2);
+  });
+
+  it('rejects an orientation-split plan that turns half round in one step', async () => {
+    const before = await stored();
+    const states = [[[0, 0, 'N'], [0, 0, 'S'], [0, 1, 'S']]];
+    const doc = { format: 'quarterturn-plan', version: 1, model: 'orientation-split', startHeading: 'N', instance: { scenarioId: scenario, agents: 1 }, solver, states };
+    const res = await submit({ format: 'json', text: JSON.stringify(doc) }, world.owner);
+    expect(res.status).toBe(422);
+    const body = (await res.json()) as { error: { details: { violation: { agents: number[]; time: number } } } };
+    // The illegal step is the one that begins at time 0.
+    expect(body.error.details.violation).toMatchObject({ agents: [0], time: 0 });
+    expect(await stored()).toEqual(before);
+  });
+
   it('lists the researcher\'s own accepted submissions', async () => {
     const list = (await (await world.other.request('/api/submissions')).json()) as SubmissionListResponse;
     expect(list.items.map((i) => i.model).sort()).toEqual(['classic', 'k-robust']);
