@@ -102,6 +102,14 @@ describe('leaderboard in the browser', () => {
     expect(await rejected.locator('[data-field=time]').innerText()).toBe('2');
     expect(await rejected.locator('[data-field=cell]').innerText()).toBe('(2, 0)');
     expect(await rejected.getByText('Nothing was stored.').isVisible()).toBe(true);
+
+    // The accepted plan is on the board; its Replay link opens it in the plan viewer, replayed on the server.
+    await page.goto(`${server.url}/leaderboards?cols=model,agents,soc,source&agents.eq=3`);
+    await page.waitForFunction(() => document.querySelectorAll('.ag-row').length >= 1);
+    await page.getByRole('link', { name: /^Replay result \d+$/ }).first().click();
+    await page.waitForURL(/\/plans\/view\?result=\d+$/);
+    await page.locator('.source').filter({ hasText: /3 agents · stored result \d+$/ }).waitFor({ timeout: 30_000 });
+    expect(await page.locator('article.pane [data-metric="success-rate"] dd').first().innerText()).toMatch(/^\d+%$/);
   });
 
   it('lets an author download the LaTeX table and a chart as PNG and SVG', async () => {

@@ -23,7 +23,7 @@ import {
 import { hasRole } from '@shared/auth-contract';
 import { Session } from '../core/session';
 import { LeaderboardApi, type BoardScope } from './leaderboard-api';
-import { gridColumns, type GridRow } from './leaderboard-columns';
+import { gridColumns, replayColumn, type GridRow } from './leaderboard-columns';
 import { LEADERBOARD_GRID_THEME } from './leaderboard-grid-theme';
 import LeaderboardCharts from './leaderboard-charts';
 import ModelSummaryPanel from './model-summary';
@@ -65,7 +65,9 @@ export default class LeaderboardBoard {
     const v = this.view();
     const visible = new Set(v.columns);
     const cols = columnsOf(v).filter((c) => visible.has(c.id)).sort((a, b) => v.columns.indexOf(a.id) - v.columns.indexOf(b.id));
-    return gridColumns(cols, v.sort);
+    const shown = gridColumns(cols, v.sort);
+    // Entry rows name one stored result; comparison rows hold several models' bests.
+    return v.layout === 'entries' && this.canSubmit() ? [replayColumn(), ...shown] : shown;
   });
   protected readonly exportLinks = computed(() => {
     const params = viewToParams(this.view());
@@ -108,7 +110,7 @@ export default class LeaderboardBoard {
       const isCounted = params.startRow === 0 || this.rowCount() === null;
       const page = await firstValueFrom(this.api.rows(viewToParams(next), params.startRow, params.endRow, isCounted));
       if (page.rowCount >= 0) this.rowCount.set(page.rowCount);
-      const rows = page.rows.map((r) => ({ ...r.cells, __id: r.id }) as GridRow);
+      const rows = page.rows.map((r) => ({ ...r.cells, __id: r.id, __resultId: r.resultId }) as GridRow);
       params.successCallback(rows, this.rowCount() ?? undefined);
     } catch {
       params.failCallback();

@@ -4,7 +4,7 @@ import type { LeaderboardColumn } from '@shared/leaderboards';
 import { GRID_FILTER_OPTIONS } from './grid-view';
 
 /** A row as the grid holds it: the row id plus one field per column id. */
-export type GridRow = Record<string, string | number | null> & { readonly __id: string };
+export type GridRow = Record<string, string | number | null> & { readonly __id: string; readonly __resultId?: number };
 
 function formatNumber(digits: number | undefined) {
   return (p: ValueFormatterParams<GridRow>): string => {
@@ -35,4 +35,23 @@ export function gridColumns(columns: readonly LeaderboardColumn[], sort: readonl
       width: c.kind === 'number' ? 140 : undefined,
     };
   });
+}
+
+/**
+ * A left-pinned link opening an entry's best plan in the plan viewer (`/plans/view?result=ID`),
+ * which replays it on the server; only for researchers and up, who may run executions.
+ */
+export function replayColumn(): ColDef<GridRow> {
+  return {
+    colId: '__replay', headerName: 'Plan', width: 90, pinned: 'left', sortable: false, filter: false, resizable: false,
+    cellRenderer: (p: { data?: GridRow }) => {
+      const id = p.data?.__resultId;
+      if (id === undefined) return '';
+      const a = document.createElement('a');
+      a.href = `/plans/view?result=${id}`;
+      a.textContent = 'Replay';
+      a.setAttribute('aria-label', `Replay result ${id}`);
+      return a;
+    },
+  };
 }
