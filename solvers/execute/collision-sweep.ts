@@ -11,7 +11,13 @@
  * g · pitch apart, so disks can overlap only when g · pitch < diameter: reach = ⌈d / pitch⌉ − 1
  * (0 when pitch ≥ diameter, wider when cells are closer than a robot is wide).
  * Overlap means centre distance < diameter − 1 nm, so robots exactly touching are fine.
+ *
+ * Most plans instead take the pairs within reach from a list built once per plan
+ * (candidate-pairs.ts) and test those whose time windows meet: the same tests with the same
+ * arguments as the sweep, so the same overlaps, merged per robot pair in time order as the
+ * sweep does; `found` is then put into the sweep's order, which decides ties in the stop rule.
  */
+import { candidatePairs, type CandidatePairs } from './candidate-pairs';
 import { overlapInterval } from './closest-approach';
 import type { Collision } from './execution-types';
 import type { PreparedPlan } from './prepared-plan';
@@ -21,6 +27,14 @@ import type { RunTimes } from './realise-times';
 const CONTACT_SLACK_MM = 1e-6;
 /** Overlaps of one robot pair closer than this in time are one collision. */
 const MERGE_MS = 1e-6;
+/**
+ * Longest candidate list, per piece, that a plan gets: beyond it the sweep is cheaper (a list
+ * entry costs a few loads per run, a sweep event a heap update and a bucket scan).
+ */
+const PAIRS_PER_PIECE = 16;
+
+/** How CollisionSweep finds the pairs to test: `auto` takes the list when it is short enough (tests force one). */
+export type BroadphaseStrategy = 'auto' | 'pairs' | 'sweep';
 
 /** A collision while its pair's overlaps are still being merged (its end may grow). */
 type OpenCollision = { -readonly [K in keyof Collision]: Collision[K] };
@@ -54,8 +68,17 @@ export class CollisionSweep {
   private times!: RunTimes;
   private duration!: Float64Array;
   private found: OpenCollision[] = [];
+  private readonly pairs: CandidatePairs | null;
+  /**
+   * Pair-list detection: per found collision, five numbers placing it in the sweep's order:
+   * the later piece's window start and robot, the other piece's position in its scan, the
+   * other piece's window start and robot (later inserted comes first in a bucket).
+   */
+  private readonly created: number[] = [];
+  private readonly testKey = new Float64Array(5);
+  private isPairList = false;
 
-  constructor(p: PreparedPlan) {
+  constructor(p: PreparedPlan, strategy: BroadphaseStrategy = 'auto') {
     this.p = p;
     const n = p.actionCount;
     const robots = p.robotCount;
@@ -84,6 +107,13 @@ export class CollisionSweep {
     this.heapKey = new Float64Array(robots);
     this.pairEnd = new Float64Array(robots * robots).fill(-Infinity);
     this.pairIndex = new Int32Array(robots * robots);
+    this.pairs = strategy === 'sweep' ? null
+      : candidatePairs(p, this.cellA, this.cellB, this.reach, strategy === 'pairs' ? Infinity : PAIRS_PER_PIECE * pieces);
+  }
+
+  /** Whether this plan's runs test the candidate list rather than sweeping. */
+  get usesPairList(): boolean {
+    return this.pairs !== null;
   }
 
   /**
@@ -138,16 +168,68 @@ export class CollisionSweep {
     return next;
   }
 
-  /** Every collision of the run described by `times` and `duration`, in the order found (callers sort). */
+  /** Every collision of the run described by `times` and `duration`, in the order the sweep finds them (callers sort). */
   detect(times: RunTimes, duration: Float64Array): Collision[] {
     this.times = times;
     this.duration = duration;
     this.found = [];
+    const found = this.pairs ? this.detectByPairs(this.pairs) : this.detectBySweep();
+    for (const key of this.touchedPairs) this.pairEnd[key] = -Infinity;
+    this.touchedPairs.length = 0;
+    return found;
+  }
+
+  private detectByPairs(pairs: CandidatePairs): Collision[] {
+    const p = this.p;
+    const n = p.actionCount;
+    const end = this.times.end;
+    const windowFrom = this.windowFrom;
+    const { low, high, lowScan, highScan, count } = pairs;
+    const key = this.testKey;
+    this.isPairList = true;
+    for (let k = 0; k < count; k++) {
+      const x = low[k];
+      const y = high[k];
+      const fx = windowFrom[x];
+      const fy = windowFrom[y];
+      const sx = fx === -1 ? 0 : end[fx];
+      const sy = fy === -1 ? 0 : end[fy];
+      const ex = x >= n ? Infinity : end[x];
+      const ey = y >= n ? Infinity : end[y];
+      const lo = sx > sy ? sx : sy;
+      const hi = ex < ey ? ex : ey;
+      if (!(hi > lo)) continue;
+      // The sweep tests a pair when the later piece enters; on equal starts the higher robot enters later.
+      const rx = x >= n ? x - n : p.robotOf[x];
+      const ry = y >= n ? y - n : p.robotOf[y];
+      if (sx > sy) {
+        key[0] = sx; key[1] = rx; key[2] = lowScan[k]; key[3] = sy; key[4] = ry;
+        this.testPair(x, rx, y, lo);
+      } else {
+        key[0] = sy; key[1] = ry; key[2] = highScan[k]; key[3] = sx; key[4] = rx;
+        this.testPair(y, ry, x, lo);
+      }
+    }
+    this.isPairList = false;
+    const found = this.found;
+    const c = this.created;
+    if (found.length > 1) {
+      const order = Array.from(found, (_, i) => i).sort((i, j) => {
+        const a = 5 * i, b = 5 * j;
+        return c[a] - c[b] || c[a + 1] - c[b + 1] || c[a + 2] - c[b + 2] || c[b + 3] - c[a + 3] || c[b + 4] - c[a + 4];
+      });
+      this.found = order.map((i) => found[i]);
+    }
+    c.length = 0;
+    return this.found;
+  }
+
+  private detectBySweep(): Collision[] {
     const p = this.p;
     const n = p.actionCount;
     const pieces = n + p.robotCount;
     const robots = p.robotCount;
-    const end = times.end;
+    const end = this.times.end;
     const windowFrom = this.windowFrom;
     const nextLive = this.nextLive;
     const current = this.current;
@@ -218,8 +300,6 @@ export class CollisionSweep {
       heapKey[i] = key;
       heapRobot[i] = r;
     }
-    for (const key of this.touchedPairs) this.pairEnd[key] = -Infinity;
-    this.touchedPairs.length = 0;
     return this.found;
   }
 
@@ -388,6 +468,10 @@ export class CollisionSweep {
     const x = (this.posX(a, t0) + this.posX(b, t0)) / 2;
     const y = (this.posY(a, t0) + this.posY(b, t0)) / 2;
     const pitch = this.p.profile.cellPitchMm;
+    if (this.isPairList) {
+      const k = this.testKey;
+      this.created.push(k[0], k[1], k[2], k[3], k[4]);
+    }
     this.found.push({ robots: [lo, hi], timeMs: t0, untilMs: t1, at: [x, y], cell: [Math.round(x / pitch), Math.round(y / pitch)] });
   }
 }
