@@ -5,6 +5,7 @@
  * Web code imports only types from here (the schemas would pull zod into the bundle); zod-free
  * constants live in shared/executions-constants.ts.
  */
+import type { SolverBuild } from './runs';
 import { z } from 'zod';
 import { COLLISION_MODES, EXECUTION_LIMITS, EXECUTION_POLICY_NAMES, type CollisionModeName, type ExecutionPolicyName } from './executions-constants';
 import { ACTION_KINDS, HEADINGS, PLAN_MODELS, type CellXY, type Heading, type PlanModel, type RobotProfile, type Schedule } from './plan';
@@ -210,6 +211,8 @@ export interface ExecutionView {
   readonly plan: ExecutionPlanView;
   readonly figures: PlanFigures;
   readonly summary: ExecutionSummaryView;
+  /** Solver version, commit, Node and CPU of the server that solved and simulated it (absent on executions stored before it was recorded). */
+  readonly computedBy?: SolverBuild;
   /** The safety sentence (shared/executions-constants.ts SAFETY_NOTE). */
   readonly safetyNote: string;
 }

@@ -264,6 +264,9 @@ describe('executions API', () => {
       expect(body.model).toBe('classic');
       expect(body.profile).toEqual(RELAY_PROFILE);
       expect(body.plan.origin).toBe('result');
+      // Reproducibility: the build that computed it (package.json version, Node of this process).
+      expect(body.computedBy).toMatchObject({ version: expect.stringMatching(/^\d+\.\d+\.\d+/), node: process.version });
+      expect(body.computedBy?.cpuModel).toBeTruthy();
       expect(body.plan.schedule.map((list) => list.filter((a) => a.action === 'forward').length)).toEqual([7, 7]);
       // Hand-worked: both robots drive 7 forwards of 1000 ms nose to tail, facing east from the start (free heading).
       expect(body.figures).toMatchObject({ isValid: true, soc: 14, makespan: 7, turnInclusiveMakespanMs: 7000, lowerBound: null });

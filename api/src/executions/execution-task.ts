@@ -8,6 +8,7 @@ import type {
   ExecutionInstanceView, ExecutionPlanView, ExecutionSource, ExecutionSummaryView, PlanFigures,
 } from '@shared/executions';
 import type { CellXY, Heading, PlanModel, RobotProfile, Schedule } from '@shared/plan';
+import type { SolverBuild } from '@shared/runs';
 
 /** A MAPF instance in transferable form: '1' free / '0' blocked per cell, row by row. */
 export interface ExecutionTaskInstance {
@@ -56,6 +57,8 @@ export interface StoredPlan {
   readonly profile: RobotProfile;
   readonly plan: ExecutionPlanView;
   readonly figures: PlanFigures;
+  /** The build that computed it (reproducibility). */
+  readonly computedBy: SolverBuild;
 }
 
 /** Runs one task (the interactive pool's `execute`; tests may pass their own). */

@@ -13,5 +13,5 @@ import { definePlanExecution } from './plan-execution.model';
  */
 export function executionsFeature(ctx: AppContext, runTask: ExecutionTaskRunner = (task) => ctx.interactive.execute(task)): Router {
   const PlanExecution = definePlanExecution(ctx.sequelize);
-  return executionsRouter(createExecutionsService({ models: ctx.models, PlanExecution, runTask }));
+  return executionsRouter(createExecutionsService({ models: ctx.models, PlanExecution, runTask, build: () => ctx.interactive.build }));
 }

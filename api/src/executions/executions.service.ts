@@ -11,6 +11,7 @@ import {
   type PlanFigures,
 } from '@shared/executions';
 import type { CellXY } from '@shared/plan';
+import type { SolverBuild } from '@shared/runs';
 import { gridMapFromRows } from '@solvers/io/grid-map';
 import type { MapfInstance } from '@solvers/instance';
 import type { Models } from '../db/models';
@@ -34,6 +35,8 @@ export interface ExecutionsServiceDeps {
   readonly models: Pick<Models, 'User' | 'InstanceSet' | 'MapFile' | 'ScenarioFile' | 'Result'>;
   readonly PlanExecution: PlanExecutionModel;
   readonly runTask: ExecutionTaskRunner;
+  /** The build that runs the tasks, recorded with each execution. */
+  readonly build: () => SolverBuild;
 }
 
 /** A resolved instance with what the viewer needs to draw it. */
@@ -109,6 +112,7 @@ export function createExecutionsService(deps: ExecutionsServiceDeps): Executions
           profile: stored.profile,
           plan: outcome.plan,
           figures: resultFigures(outcome.figures, result),
+          computedBy: deps.build(),
         };
         const row = await PlanExecution.create({ ownerId: owner.id, request: req, plan, summary: outcome.summary });
         return toView(row, { id: owner.id, login: owner.login });
@@ -126,6 +130,7 @@ export function createExecutionsService(deps: ExecutionsServiceDeps): Executions
         profile: req.profile,
         plan: outcome.plan,
         figures: outcome.figures,
+        computedBy: deps.build(),
       };
       const row = await PlanExecution.create({ ownerId: owner.id, request: req, plan, summary: outcome.summary });
       return toView(row, { id: owner.id, login: owner.login });

@@ -12,6 +12,8 @@ import type { UploadEntry } from '../instance-sets/upload-entry';
 import type { MapfInstance } from '@solvers/instance';
 import type { PlanVerdict } from '../submissions/check-plan';
 import type { ReadSubmission } from '../submissions/read-plan-file';
+import type { SolverBuild } from '@shared/runs';
+import { readSolverBuild } from './machine-info';
 import { PlanPool, type PoolOutcome } from './plan-pool';
 import type { ThreadJob, ThreadResults } from './thread-job';
 
@@ -55,6 +57,7 @@ export class InteractivePool {
   private readonly pool: PlanPool;
   private pending = 0;
   private warming: Promise<void> | undefined;
+  private solverBuild: SolverBuild | undefined;
 
   constructor(private readonly options: InteractivePoolOptions) {
     this.pool = new PlanPool({ threads: options.threads, filename: options.filename });
@@ -63,6 +66,12 @@ export class InteractivePool {
   /** Jobs finished by the threads so far (tests prove a request went through the pool with it). */
   get completed(): number {
     return this.pool.completed;
+  }
+
+  /** Solver version, commit, Node, CPU and threads of this pool's jobs, read once. */
+  get build(): SolverBuild {
+    this.solverBuild ??= readSolverBuild(this.options.threads);
+    return this.solverBuild;
   }
 
   /** The per-job time limit, ms. */

@@ -2,6 +2,7 @@
 import { ChangeDetectionStrategy, Component, computed, input } from '@angular/core';
 import type { ExecutionSummaryView, PlanFigures } from '@shared/executions';
 import type { PlanModel, RobotProfile } from '@shared/plan';
+import type { SolverBuild } from '@shared/runs';
 import { formatPercent, formatSeconds, profileLine } from './viewer-format';
 
 /** Summary card of one model's plan and execution. */
@@ -19,6 +20,12 @@ export class ExecutionSummaryCard {
   readonly summary = input.required<ExecutionSummaryView>();
   /** Where the summary was computed. */
   readonly computedIn = input.required<'server' | 'browser'>();
+  /** The server build that solved or checked the plan, when the execution recorded it. */
+  readonly computedBy = input<SolverBuild | undefined>(undefined);
+  protected readonly buildText = computed(() => {
+    const b = this.computedBy();
+    return b ? `Quarterturn ${b.version} (commit ${b.commit.slice(0, 10)}), Node ${b.node}, ${b.cpuModel}` : null;
+  });
   protected readonly profileText = computed(() => profileLine(this.profile()));
   protected readonly noiseText = computed(() => {
     const n = this.summary().noise;

@@ -150,9 +150,11 @@ describe('PlanViewer', () => {
     const req = backend.expectOne({ method: 'POST', url: '/api/executions' });
     expect(req.request.body).toEqual({ resultId: 41, policy: 'open-loop', noise: { jitterCv: 0, stallProbability: 0, stallMs: 0 }, seed: 1, runs: 20, onCollision: 'count' });
     const view = serverView(11, 'classic', { ...req.request.body, instance: { scenarioId: 5, agents: 4 }, model: 'classic', profile: TEST_PROFILE } as InstanceExecutionInput);
-    req.flush({ ...view, source: { ...view.source, resultId: 41, sweepId: 3 }, plan: { ...view.plan, origin: 'result' } });
+    const computedBy = { version: '0.1.0', commit: '0123456789abcdef', node: 'v20.20.2', cpuModel: 'Test CPU', threads: 1 };
+    req.flush({ ...view, source: { ...view.source, resultId: 41, sweepId: 3 }, plan: { ...view.plan, origin: 'result' }, computedBy });
     await settle();
     expect(el.querySelector('.source')?.textContent).toContain('stored result 41 of sweep 3');
+    expect(el.querySelector('[data-testid="computed-by"]')?.textContent?.trim()).toBe('Quarterturn 0.1.0 (commit 0123456789), Node v20.20.2, Test CPU');
     expect(metric(0, 'success-rate')).toBe('100%');
 
     await (await loader.getHarness(MatButtonHarness.with({ text: 'Re-run on server' }))).click();
