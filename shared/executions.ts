@@ -9,6 +9,7 @@ import type { SolverBuild } from './runs';
 import { z } from 'zod';
 import { COLLISION_MODES, EXECUTION_LIMITS, EXECUTION_POLICY_NAMES, type CollisionModeName, type ExecutionPolicyName } from './executions-constants';
 import { ACTION_KINDS, HEADINGS, PLAN_MODELS, type CellXY, type Heading, type PlanModel, type RobotProfile, type Schedule } from './plan';
+import { RobotProfileSchema } from './sweeps';
 
 const whole = (min: number, max: number) => z.number().int().min(min).max(max);
 // Read-only so clients can send the CellXY and Schedule values they hold without copying.
@@ -30,15 +31,8 @@ const simulationFields = {
   onCollision: z.enum(COLLISION_MODES).default('count'),
 };
 
-/** Robot profile (ms, mm); the same bounds as a sweep's profile. */
-export const ExecutionProfileSchema = z.object({
-  forwardMs: whole(1, 600_000),
-  quarterTurnMs: whole(1, 600_000),
-  waitMs: whole(1, 600_000),
-  cellPitchMm: z.number().positive().max(100_000),
-  robotDiameterMm: z.number().positive().max(100_000),
-  timingJitter: z.number().min(0).max(2),
-}).strict();
+/** Robot profile (ms, mm): the sweeps' schema, so an execution takes exactly the profiles a sweep takes. */
+export const ExecutionProfileSchema = RobotProfileSchema;
 
 /** Model parameters: the start heading rule (default free) and k for k-robust. */
 export const ModelOptionsSchema = z.object({
