@@ -7,7 +7,7 @@
  */
 import type { RobotProfile } from '@shared/plan';
 import type { MapfInstance } from '../instance';
-import { CollisionSweep } from './collision-sweep';
+import { CollisionSweep, type BroadphaseStrategy } from './collision-sweep';
 import { buildActionDependencies, type ActionDependencies } from './dependency-graph';
 import type { Collision, CollisionMode, ExecutablePlan, ExecutionOptions, NoiseModel, RunMetrics } from './execution-types';
 import { drawDurations, resolveNoise, runSeed } from './noise';
@@ -33,7 +33,11 @@ export class ExecutionRunner {
   readonly times: RunTimes;
   readonly stoppedAt: Float64Array;
 
-  constructor(instance: MapfInstance, plan: ExecutablePlan, profile: RobotProfile, options: Omit<ExecutionOptions, 'runs' | 'signal'>) {
+  /** `broadphase` forces how collision candidates are found (tests); every choice gives the same runs. */
+  constructor(
+    instance: MapfInstance, plan: ExecutablePlan, profile: RobotProfile, options: Omit<ExecutionOptions, 'runs' | 'signal'>,
+    broadphase: BroadphaseStrategy = 'auto',
+  ) {
     if (!['open-loop', 'lockstep', 'dependency-gated'].includes(options.policy)) {
       throw new Error(`execution: unknown policy ${JSON.stringify(options.policy)}`);
     }
@@ -44,7 +48,7 @@ export class ExecutionRunner {
     this.isLockstep = options.policy === 'lockstep';
     this.dependencies = options.policy === 'dependency-gated' ? buildActionDependencies(this.prepared) : undefined;
     this.release = releasePlan(this.prepared, options.policy, this.dependencies);
-    this.sweep = new CollisionSweep(this.prepared);
+    this.sweep = new CollisionSweep(this.prepared, broadphase);
     this.duration = new Float64Array(this.prepared.actionCount);
     this.times = createRunTimes(this.prepared.actionCount);
     this.stoppedAt = new Float64Array(this.prepared.robotCount);
