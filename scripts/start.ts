@@ -15,6 +15,7 @@ import { startFakeSmtp } from '../api/src/dev/fake-smtp/fake-smtp-server';
 import { createLogger } from '../api/src/http/logger';
 import { onShutdownSignals, type ShutdownStep } from '../api/src/lifecycle/on-shutdown';
 import { startEmbeddedWorker } from '../api/src/workers/embedded-worker';
+import { warmInteractivePool } from '../api/src/workers/interactive-pool';
 import { startCluster, type PgCluster } from './postgres';
 import { ensureWebBuild } from './web-build';
 
@@ -69,6 +70,7 @@ async function main(): Promise<void> {
     }
     const server = await startServer({ config: { ...config, databaseUrl, smtpUrl }, logger, mailbox: smtp?.mailbox });
     steps.push({ name: 'HTTP server, fake OAuth provider and database pools', run: () => server.close() });
+    warmInteractivePool(server.app.context.interactive, logger);
     const embedded = await startEmbeddedWorker(config, databaseUrl, logger, smtpUrl);
     if (embedded) {
       steps.unshift({ name: 'embedded sweep worker', run: () => embedded.stop() });

@@ -8,6 +8,7 @@ import { migrate } from './db/migrate';
 import { createLogger } from './http/logger';
 import { onShutdownSignals } from './lifecycle/on-shutdown';
 import { startEmbeddedWorker } from './workers/embedded-worker';
+import { warmInteractivePool } from './workers/interactive-pool';
 
 async function main(): Promise<void> {
   const { config, warnings } = loadConfig();
@@ -16,6 +17,7 @@ async function main(): Promise<void> {
   if (!config.databaseUrl) throw new Error('DATABASE_URL is required (or use `npm start` for a private development database)');
   await migrate(config.databaseUrl);
   const server = await startServer({ config, logger });
+  warmInteractivePool(server.app.context.interactive, logger);
   const embedded = await startEmbeddedWorker(config, config.databaseUrl, logger);
   onShutdownSignals(logger, [
     ...(embedded ? [{ name: 'embedded sweep worker', run: () => embedded.stop() }] : []),

@@ -154,3 +154,12 @@ function resultOf<R>(outcome: PoolOutcome<R>, what: string, timeLimitMs: number,
 function capitalised(s: string): string {
   return s.charAt(0).toUpperCase() + s.slice(1);
 }
+
+/** Loads the pool's threads in the background so the first replay a visitor asks for does not wait for them; logs the outcome. */
+export function warmInteractivePool(pool: InteractivePool, logger: { info(o: object, msg: string): void; warn(o: object, msg: string): void }): void {
+  const started = performance.now();
+  pool.warm().then(
+    () => logger.info({ ms: Math.round(performance.now() - started) }, 'interactive pool threads loaded'),
+    (err: Error) => logger.warn({ err: err.message }, 'interactive pool threads did not load at start; each job loads its thread itself'),
+  );
+}
