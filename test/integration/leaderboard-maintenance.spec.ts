@@ -1,6 +1,6 @@
 /**
- * The leaderboard's derived tables (`leaderboard_entries`, `leaderboard_compare`) kept up by
- * triggers must equal a from-scratch `leaderboard_rebuild()` after every kind of change: bulk
+ * The leaderboard's derived tables (`leaderboard_entries`, `leaderboard_compare`,
+ * `leaderboard_counts`) kept up by triggers must equal a from-scratch `leaderboard_rebuild()` after every kind of change: bulk
  * result inserts and deletes, executions inserted, updated and deleted, submitted plans added,
  * renamed and removed, a scenario deleted, and a set's visibility or owner changed. Each step
  * compares the trigger-kept tables with a rebuild run inside a transaction that is rolled back,
@@ -30,6 +30,7 @@ const STATUSES = ['solved', 'solved', 'solved', 'infeasible', 'timeout', 'memory
 interface Snapshot {
   readonly entries: Record<string, unknown>[];
   readonly compare: Record<string, unknown>[];
+  readonly counts: Record<string, unknown>[];
 }
 
 describe('leaderboard tables kept by triggers equal a rebuild', () => {
@@ -50,7 +51,8 @@ describe('leaderboard tables kept by triggers equal a rebuild', () => {
       delete e['updated_at'];
     }
     const compare = await rows('SELECT * FROM leaderboard_compare ORDER BY scenario_id, agents, robot_profile_hash');
-    return { entries, compare };
+    const counts = await rows('SELECT * FROM leaderboard_counts ORDER BY instance_set_id, map_id, robot_profile_hash');
+    return { entries, compare, counts };
   }
 
   async function rebuilt(): Promise<Snapshot> {
@@ -129,9 +131,10 @@ describe('leaderboard tables kept by triggers equal a rebuild', () => {
     const after = await expectRebuildEqualAfter(async () => {
       for (let i = 0; i < 3; i++) await insertResults(150);
     });
-    // Every instance × profile with a result has exactly one comparison row.
+    // Every instance × profile with a result has exactly one comparison row, and the counts add up to the entries.
     const [{ n }] = await rows<{ n: number }>('SELECT count(*)::int AS n FROM (SELECT DISTINCT scenario_id, agents, robot_profile_hash FROM results) k');
     expect(after.compare).toHaveLength(n);
+    expect(after.counts.reduce((sum, r) => sum + (r['entries'] as number), 0)).toBe(after.entries.length);
   });
 
   it('after executions are inserted, updated and deleted', async () => {

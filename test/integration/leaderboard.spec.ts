@@ -91,6 +91,23 @@ describe('leaderboard over SQL', () => {
     for (const r of got) expect(r.cells['status']).toBe('solved');
   });
 
+  it('sorts by several keys led by a column of few values, in every page', async () => {
+    const nullsFirstDesc = (a: number | null, b: number | null) => (a === b ? 0 : a === null ? -1 : b === null ? 1 : b - a);
+    const want = [...expected]
+      .sort((a, b) => (a.model < b.model ? -1 : a.model > b.model ? 1 : 0) || nullsFirstDesc(a.best.soc, b.best.soc) || a.id - b.id)
+      .map((e) => String(e.id));
+    const got = await allPages(world.curator, 'cols=model,soc&sort=model,-soc', 9);
+    expect(got.map((r) => r.id)).toEqual(want);
+  });
+
+  it('matches "contains" filters on map, scenario, profile and solver names', async () => {
+    // Scenario "tiny-a.scen" exists in both sets (world.scenarios[0] and [2]); profile 0 has jitter 0.1.
+    const want = expected.filter((e) => (e.scenarioId === world.scenarios[0] || e.scenarioId === world.scenarios[2]) && e.profile === 0);
+    const got = await allPages(world.curator, `map.has=TINY&scenario.has=a.scen&profile.has=${encodeURIComponent('jitter 0.1')}&solver.has=cbs`, 6);
+    expect(new Set(got.map((r) => r.id))).toEqual(new Set(want.map((e) => String(e.id))));
+    expect(want.length).toBeGreaterThan(0);
+  });
+
   it('shows private sets only to their owner and maintainers', async () => {
     const privateScenario = world.scenarios[2];
     const publicCount = expected.filter((e) => e.scenarioId !== privateScenario).length;

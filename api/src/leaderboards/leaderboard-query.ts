@@ -8,7 +8,7 @@
 import { hasRole } from '@shared/auth';
 import { PLAN_MODELS, type PlanModel } from '@shared/plan';
 import { ENTRY_COLUMNS, modelColumnId, type LeaderboardView, type ViewFilter } from '@shared/leaderboards';
-import type { Viewer } from '../instance-sets/instance-set-access';
+import { visibleSetsCondition, type Viewer } from '../instance-sets/instance-set-access';
 import { COMPARE_TABLE_K, compareColumn, ENTRY_DEFAULT_ORDER, ENTRY_SQL, figureColumn } from './entry-sql';
 
 /** SQL text plus its named replacements. */
@@ -94,72 +94,159 @@ export function baseWhere(viewer: Viewer, scope: ViewScope, repl: Record<string,
   return where;
 }
 
+/** Columns of few distinct values whose "contains" filter matches the distinct values first (each has an index leading on it). */
+const FEW_VALUES: Readonly<Record<string, string>> = { variant: 'variant', profile: 'profile_label', solver: 'solver' };
+
 /**
- * A "contains" filter on the map or scenario name as a match over the few maps or scenarios
- * (names are copied from them), so it uses the id index instead of matching every row's name.
+ * A "contains" filter matched against the few distinct names instead of every row: map and
+ * scenario names against `maps`/`scenarios` (entries copy their names) and then by id; variant,
+ * profile and solver against their distinct values, walked through their index one value at a
+ * time. The matches become an array (computed once), so the rows are then found, and counted,
+ * through an index condition without reading the table. Null for any other filter.
  */
-function nameFilter(f: ViewFilter, alias: string, repl: Record<string, unknown>): string | null {
-  if (f.op !== 'has' || (f.column !== 'map' && f.column !== 'scenario')) return null;
+function fewValuesFilter(f: ViewFilter, table: string, alias: string, repl: Record<string, unknown>): string | null {
+  if (f.op !== 'has') return null;
   const name = `f${Object.keys(repl).length}`;
+  if (f.column === 'map') {
+    repl[name] = containsPattern(f.value);
+    return `${alias}.map_id = ANY(ARRAY(SELECT m.id FROM maps m WHERE m.name ILIKE :${name}))`;
+  }
+  if (f.column === 'scenario') {
+    repl[name] = containsPattern(f.value);
+    return `${alias}.scenario_id = ANY(ARRAY(SELECT s.id FROM scenarios s WHERE s.name ILIKE :${name}))`;
+  }
+  const col = FEW_VALUES[f.column];
+  if (col === undefined || (table === 'leaderboard_compare' && col !== 'profile_label')) return null;
   repl[name] = containsPattern(f.value);
-  return f.column === 'map'
-    ? `${alias}.map_id IN (SELECT m.id FROM maps m WHERE m.name ILIKE :${name})`
-    : `${alias}.scenario_id IN (SELECT s.id FROM scenarios s WHERE s.name ILIKE :${name})`;
+  return `${alias}.${col} = ANY(ARRAY(WITH RECURSIVE d(v) AS (
+      SELECT min(${col}) FROM ${table}
+      UNION ALL SELECT (SELECT min(${col}) FROM ${table} WHERE ${col} > d.v) FROM d WHERE d.v IS NOT NULL
+    ) SELECT v FROM d WHERE v ILIKE :${name}))`;
 }
 
 /** `WHERE a AND b`, or nothing. */
 export const whereSql = (conds: readonly string[]): string => (conds.length ? `WHERE ${conds.join(' AND ')}` : '');
 
-/** The page query and the count query of `view` for `viewer`. */
-export function buildViewQueries(view: LeaderboardView, viewer: Viewer, scope: ViewScope, window: RowWindow): { page: SqlQuery; count: SqlQuery } {
-  return view.layout === 'compare' ? compareQueries(view, viewer, scope, window) : entryQueries(view, viewer, scope, window);
+/**
+ * The page query and the count query of `view` for `viewer`. `groupValues`: the rows of
+ * sortGroupsQuery(view, window), when it returned a query.
+ */
+export function buildViewQueries(view: LeaderboardView, viewer: Viewer, scope: ViewScope, window: RowWindow, groupValues?: readonly string[]): { page: SqlQuery; count: SqlQuery } {
+  return view.layout === 'compare' ? compareQueries(view, viewer, scope, window) : entryQueries(view, viewer, scope, window, groupValues);
 }
 
-function entryQueries(view: LeaderboardView, viewer: Viewer, scope: ViewScope, window: RowWindow): { page: SqlQuery; count: SqlQuery } {
+function entryQueries(view: LeaderboardView, viewer: Viewer, scope: ViewScope, rows: RowWindow, groupValues?: readonly string[]): { page: SqlQuery; count: SqlQuery } {
   const repl: Record<string, unknown> = {};
   const where = baseWhere(viewer, scope, repl);
-  for (const f of view.filters) where.push(nameFilter(f, 'e', repl) ?? filterCondition(f, ENTRY_SQL[f.column], repl));
+  for (const f of view.filters) where.push(fewValuesFilter(f, 'leaderboard_entries', 'e', repl) ?? filterCondition(f, ENTRY_SQL[f.column], repl));
   // PostgreSQL's default null placement (last ascending, first descending) lets one (col, id)
   // index serve both directions; the id tie-break follows the first key's direction.
   const order = view.sort.length === 0
     ? ENTRY_DEFAULT_ORDER
     : [...view.sort.map((s) => `${ENTRY_SQL[s.column]} ${s.direction.toUpperCase()}`), `e.id ${view.sort[0].direction.toUpperCase()}`].join(', ');
-  repl['limit'] = window.end - window.start;
-  repl['offset'] = window.start;
+  repl['limit'] = rows.end - rows.start;
+  repl['offset'] = rows.start;
   // The window is found on ids first: the sort indexes hold the visibility columns, so skipped
   // rows (deep offsets) are read from the index alone, and only the page's rows are fetched.
-  const page = `WITH w AS (SELECT e.id FROM leaderboard_entries e ${whereSql(where)} ORDER BY ${order} LIMIT :limit OFFSET :offset)
+  const ids = groupValues !== undefined && groupValues.length > 0 && groupValues.length <= GROUPED_MAX_VALUES
+    ? groupedWindow(view, groupValues, where, repl)
+    : `SELECT e.id FROM leaderboard_entries e ${whereSql(where)} ORDER BY ${order} LIMIT :limit OFFSET :offset`;
+  const page = `WITH w AS (${ids})
     SELECT e.id, e.scenario_id, e.agents, e.robot_profile_hash, e.result_id, e.robot_profile,
       ${view.columns.filter((c) => c !== 'profile').map((c) => `${ENTRY_SQL[c]} AS "${c}"`).join(', ') || 'NULL AS none'}
     FROM w JOIN leaderboard_entries e ON e.id = w.id ORDER BY ${order}`;
-  const count = `SELECT count(*)::int AS n FROM leaderboard_entries e ${whereSql(where)}`;
+  const count = view.filters.length === 0 ? countsQuery(viewer, scope, repl) : `SELECT count(*)::int AS n FROM leaderboard_entries e ${whereSql(where)}`;
   return { page: { sql: page, replacements: repl }, count: { sql: count, replacements: repl } };
 }
 
-/** SQL of a comparison column on `c` (leaderboard_compare). */
+/** Entry columns of few values that may lead a sort of several keys (each has a (column, id) index). */
+const GROUPABLE: Readonly<Record<string, string>> = { model: 'model', variant: 'variant', status: 'status', source: 'source', profile: 'profile_label', solver: 'solver' };
+
+/** Windows ending past this row, and first keys with more values than this, use one plain sort. */
+export const GROUPED_MAX_END = 500;
+export const GROUPED_MAX_VALUES = 20;
+
+/**
+ * For a sort of several keys led by a column of few values (shown near the top), the query of
+ * that column's distinct values in sort order, walked through its index; null otherwise.
+ * PostgreSQL would sort the whole first group (a fifth of the board for `model`) to answer one
+ * page; with the values known, each group's first rows come from an index on the next key.
+ */
+export function sortGroupsQuery(view: LeaderboardView, window: RowWindow): SqlQuery | null {
+  const [first, ...rest] = view.sort;
+  const col = view.layout === 'entries' && rest.length > 0 && window.end <= GROUPED_MAX_END ? GROUPABLE[first.column] : undefined;
+  if (col === undefined) return null;
+  const [pick, step] = first.direction === 'asc' ? ['min', '>'] : ['max', '<'];
+  return {
+    sql: `WITH RECURSIVE d(v, i) AS (
+        SELECT ${pick}(${col}), 1 FROM leaderboard_entries
+        UNION ALL SELECT (SELECT ${pick}(${col}) FROM leaderboard_entries WHERE ${col} ${step} d.v), d.i + 1 FROM d WHERE d.v IS NOT NULL AND d.i <= ${GROUPED_MAX_VALUES}
+      ) SELECT v FROM d WHERE v IS NOT NULL ORDER BY i`,
+    replacements: {},
+  };
+}
+
+/**
+ * The window's ids as one branch per value of the first sort key (values from sortGroupsQuery,
+ * passed as literals so the planner estimates each group from its statistics: a rare status
+ * sorts its few rows, a common one walks the next key's index), merged and cut.
+ */
+function groupedWindow(view: LeaderboardView, values: readonly string[], where: readonly string[], repl: Record<string, unknown>): string {
+  const [first, ...rest] = view.sort;
+  const col = GROUPABLE[first.column];
+  repl['groupTop'] = (repl['limit'] as number) + (repl['offset'] as number);
+  const idDir = first.direction.toUpperCase();
+  const keys = rest.map((s, n) => ({ expr: ENTRY_SQL[s.column], alias: `k${n}`, dir: s.direction.toUpperCase() }));
+  const branches = values.map((v, i) => {
+    repl[`g${i}`] = v;
+    return `(SELECT ${i} AS g, e.id, ${keys.map((k) => `${k.expr} AS ${k.alias}`).join(', ')} FROM leaderboard_entries e
+      ${whereSql([...where, `e.${col} = :g${i}`])} ORDER BY ${keys.map((k) => `${k.expr} ${k.dir}`).join(', ')}, e.id ${idDir} LIMIT :groupTop)`;
+  });
+  return `SELECT t.id FROM (${branches.join(' UNION ALL ')}) t
+    ORDER BY t.g, ${keys.map((k) => `t.${k.alias} ${k.dir}`).join(', ')}, t.id ${idDir} LIMIT :limit OFFSET :offset`;
+}
+
+/** The row count of an unfiltered entries view from `leaderboard_counts` (kept by the entries' triggers, migration 0402). */
+function countsQuery(viewer: Viewer, scope: ViewScope, repl: Record<string, unknown>): string {
+  const visible = visibleSetsCondition(viewer);
+  Object.assign(repl, visible.replacements);
+  const where = [visible.sql];
+  if (scope.mapId !== undefined) where.push('k.map_id = :scopeMap');
+  if (scope.profileHash !== undefined) where.push('k.robot_profile_hash = :scopeProfile');
+  return `SELECT coalesce(sum(k.entries), 0)::int AS n FROM leaderboard_counts k JOIN instance_sets s ON s.id = k.instance_set_id ${whereSql(where)}`;
+}
+
+/** SQL of a comparison column on `c` (leaderboard_compare), or `x` (the k-robust entry) for another k. */
 function compareSql(view: LeaderboardView, column: string): string {
   const keySql: Record<string, string> = { map: 'c.map_name', scenario: 'c.scenario_name', agents: 'c.agents', profile: 'c.profile_label' };
   if (column in keySql) return keySql[column];
   const model = PLAN_MODELS.find((m) => modelColumnId(m) === column) as PlanModel;
-  if (model !== 'k-robust' || view.k === COMPARE_TABLE_K) return `c.${compareColumn(model, view.metric)}`;
-  // Another k: the entry of that variant, found through the entries' unique key.
-  return `(SELECT x.${figureColumn(view.metric)} FROM leaderboard_entries x WHERE x.scenario_id = c.scenario_id AND x.agents = c.agents
-    AND x.model = 'k-robust' AND x.variant = :kVariant AND x.robot_profile_hash = c.robot_profile_hash)`;
+  return model === 'k-robust' && view.k !== COMPARE_TABLE_K ? `x.${figureColumn(view.metric)}` : `c.${compareColumn(model, view.metric)}`;
 }
 
 function compareQueries(view: LeaderboardView, viewer: Viewer, scope: ViewScope, window: RowWindow): { page: SqlQuery; count: SqlQuery } {
-  const repl: Record<string, unknown> = view.k === COMPARE_TABLE_K ? {} : { kVariant: `k=${view.k}` };
+  const repl: Record<string, unknown> = {};
+  // The table holds k-robust at one k; another k joins that variant's entry by the entries' unique key.
+  let from = 'leaderboard_compare c';
+  if (view.k !== COMPARE_TABLE_K) {
+    repl['kVariant'] = `k=${view.k}`;
+    from += ` LEFT JOIN leaderboard_entries x ON x.scenario_id = c.scenario_id AND x.agents = c.agents
+      AND x.model = 'k-robust' AND x.variant = :kVariant AND x.robot_profile_hash = c.robot_profile_hash`;
+  }
   const where = baseWhere(viewer, scope, repl, 'c');
-  for (const f of view.filters) where.push(nameFilter(f, 'c', repl) ?? filterCondition(f, compareSql(view, f.column), repl));
+  for (const f of view.filters) where.push(fewValuesFilter(f, 'leaderboard_compare', 'c', repl) ?? filterCondition(f, compareSql(view, f.column), repl));
   const order = [
     ...view.sort.map((s) => `${compareSql(view, s.column)} ${s.direction.toUpperCase()}`),
     'c.map_name', 'c.scenario_name', 'c.agents', 'c.scenario_id', 'c.robot_profile_hash',
   ].join(', ');
   repl['limit'] = window.end - window.start;
   repl['offset'] = window.start;
-  const page = `SELECT c.scenario_id, c.agents, c.robot_profile_hash, c.profile_label,
+  // As in the entries layout: the window is found on keys first (index-only for deep offsets), then its rows are read.
+  const page = `WITH w AS (SELECT c.scenario_id, c.agents, c.robot_profile_hash FROM ${from} ${whereSql(where)} ORDER BY ${order} LIMIT :limit OFFSET :offset)
+    SELECT c.scenario_id, c.agents, c.robot_profile_hash, c.profile_label,
       ${view.columns.map((col) => `${compareSql(view, col)} AS "${col}"`).join(', ')}
-    FROM leaderboard_compare c ${whereSql(where)} ORDER BY ${order} LIMIT :limit OFFSET :offset`;
-  const count = `SELECT count(*)::int AS n FROM leaderboard_compare c ${whereSql(where)}`;
+    FROM w JOIN ${from.replace('leaderboard_compare c', 'leaderboard_compare c ON c.scenario_id = w.scenario_id AND c.agents = w.agents AND c.robot_profile_hash = w.robot_profile_hash')}
+    ORDER BY ${order}`;
+  const count = `SELECT count(*)::int AS n FROM ${from} ${whereSql(where)}`;
   return { page: { sql: page, replacements: repl }, count: { sql: count, replacements: repl } };
 }

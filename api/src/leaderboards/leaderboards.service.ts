@@ -10,7 +10,7 @@ import {
 } from '@shared/leaderboards';
 import { PLAN_MODELS, type PlanModel, type RobotProfile } from '@shared/plan';
 import type { Viewer } from '../instance-sets/instance-set-access';
-import { buildViewQueries, type RowWindow, type SqlQuery, type ViewScope } from './leaderboard-query';
+import { buildViewQueries, sortGroupsQuery, type RowWindow, type SqlQuery, type ViewScope } from './leaderboard-query';
 import { scopedEntries } from './scoped-entries';
 
 /** The leaderboard read service. */
@@ -44,7 +44,9 @@ export function createLeaderboardsService(deps: { readonly sequelize: Sequelize 
 
   return {
     async page(view, viewer, scope, window, isCounted = true) {
-      const { page, count } = buildViewQueries(view, viewer, scope, window);
+      const groups = sortGroupsQuery(view, window);
+      const groupValues = groups ? (await select<{ v: string }>(groups)).map((g) => g.v) : undefined;
+      const { page, count } = buildViewQueries(view, viewer, scope, window, groupValues);
       // Counting a large view costs as much as the page itself, so a grid asks for it once.
       const [rows, [{ n }]] = await Promise.all([select(page), isCounted ? select<{ n: number }>(count) : Promise.resolve([{ n: -1 }])]);
       const profileLabels: Record<string, string> = {};

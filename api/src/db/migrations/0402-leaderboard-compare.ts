@@ -155,17 +155,47 @@ export const up: Migration = async ({ context: qi }) => {
       AND NOT EXISTS (SELECT 1 FROM leaderboard_entries e WHERE e.scenario_id = c.scenario_id AND e.agents = c.agents
         AND e.robot_profile_hash = c.robot_profile_hash);
   END $$`);
-  const fromEntries = (table: string) => `PERFORM leaderboard_compare_refresh(array_agg(scenario_id), array_agg(agents), array_agg(robot_profile_hash::text))
+
+  // Entry counts per set × map × robot profile: the row count of a board view without filters
+  // (the default view) is a sum over a few rows instead of a count over every entry. Concurrent
+  // writers to one map and profile queue on its row until they commit; keys are locked in order.
+  await q(`CREATE TABLE leaderboard_counts (
+    instance_set_id integer NOT NULL,
+    map_id integer NOT NULL,
+    robot_profile_hash char(16) NOT NULL,
+    entries integer NOT NULL,
+    PRIMARY KEY (instance_set_id, map_id, robot_profile_hash)
+  )`);
+  await q(`CREATE FUNCTION leaderboard_counts_add(k_set integer[], k_map integer[], k_hash text[], k_n integer[]) RETURNS void LANGUAGE plpgsql AS $$
+  BEGIN
+    IF coalesce(cardinality(k_set), 0) = 0 THEN RETURN; END IF;
+    INSERT INTO leaderboard_counts AS k (instance_set_id, map_id, robot_profile_hash, entries)
+    SELECT d.s, d.m, d.h, sum(d.n) FROM unnest(k_set, k_map, k_hash, k_n) AS d(s, m, h, n)
+    GROUP BY d.s, d.m, d.h HAVING sum(d.n) <> 0 ORDER BY d.s, d.m, d.h
+    ON CONFLICT (instance_set_id, map_id, robot_profile_hash) DO UPDATE SET entries = k.entries + EXCLUDED.entries;
+    DELETE FROM leaderboard_counts k USING unnest(k_set, k_map, k_hash) AS d(s, m, h)
+    WHERE k.instance_set_id = d.s AND k.map_id = d.m AND k.robot_profile_hash = d.h::char(16) AND k.entries = 0;
+  END $$`);
+
+  // Statement triggers on the entries: refresh the comparison rows of the instances touched and move the counts.
+  const compareFrom = (table: string) => `PERFORM leaderboard_compare_refresh(array_agg(scenario_id), array_agg(agents), array_agg(robot_profile_hash::text))
       FROM (SELECT DISTINCT scenario_id, agents, robot_profile_hash FROM ${table}) d;`;
-  await q(`CREATE FUNCTION leaderboard_compare_on_insert() RETURNS trigger LANGUAGE plpgsql AS $$
-    BEGIN ${fromEntries('new_rows')} RETURN NULL; END $$`);
-  await q(`CREATE FUNCTION leaderboard_compare_on_update() RETURNS trigger LANGUAGE plpgsql AS $$
-    BEGIN ${fromEntries('(SELECT scenario_id, agents, robot_profile_hash FROM old_rows UNION SELECT scenario_id, agents, robot_profile_hash FROM new_rows) u')} RETURN NULL; END $$`);
-  await q(`CREATE FUNCTION leaderboard_compare_on_delete() RETURNS trigger LANGUAGE plpgsql AS $$
-    BEGIN ${fromEntries('old_rows')} RETURN NULL; END $$`);
-  await q('CREATE TRIGGER leaderboard_compare_insert AFTER INSERT ON leaderboard_entries REFERENCING NEW TABLE AS new_rows FOR EACH STATEMENT EXECUTE FUNCTION leaderboard_compare_on_insert()');
-  await q('CREATE TRIGGER leaderboard_compare_update AFTER UPDATE ON leaderboard_entries REFERENCING OLD TABLE AS old_rows NEW TABLE AS new_rows FOR EACH STATEMENT EXECUTE FUNCTION leaderboard_compare_on_update()');
-  await q('CREATE TRIGGER leaderboard_compare_delete AFTER DELETE ON leaderboard_entries REFERENCING OLD TABLE AS old_rows FOR EACH STATEMENT EXECUTE FUNCTION leaderboard_compare_on_delete()');
+  const countsFrom = (signed: string) => `PERFORM leaderboard_counts_add(array_agg(s), array_agg(m), array_agg(h::text), array_agg(n::integer))
+      FROM (SELECT instance_set_id AS s, map_id AS m, robot_profile_hash AS h, sum(n) AS n FROM (${signed}) u GROUP BY 1, 2, 3 HAVING sum(n) <> 0) d;`;
+  const signedRows = (table: string, sign: number) => `SELECT instance_set_id, map_id, robot_profile_hash, ${sign} AS n FROM ${table}`;
+  await q(`CREATE FUNCTION leaderboard_entries_on_insert() RETURNS trigger LANGUAGE plpgsql AS $$
+    BEGIN ${compareFrom('new_rows')} ${countsFrom(signedRows('new_rows', 1))} RETURN NULL; END $$`);
+  await q(`CREATE FUNCTION leaderboard_entries_on_update() RETURNS trigger LANGUAGE plpgsql AS $$
+    BEGIN
+      ${compareFrom('(SELECT scenario_id, agents, robot_profile_hash FROM old_rows UNION SELECT scenario_id, agents, robot_profile_hash FROM new_rows) u')}
+      ${countsFrom(`${signedRows('new_rows', 1)} UNION ALL ${signedRows('old_rows', -1)}`)}
+      RETURN NULL;
+    END $$`);
+  await q(`CREATE FUNCTION leaderboard_entries_on_delete() RETURNS trigger LANGUAGE plpgsql AS $$
+    BEGIN ${compareFrom('old_rows')} ${countsFrom(signedRows('old_rows', -1))} RETURN NULL; END $$`);
+  await q('CREATE TRIGGER leaderboard_entries_insert AFTER INSERT ON leaderboard_entries REFERENCING NEW TABLE AS new_rows FOR EACH STATEMENT EXECUTE FUNCTION leaderboard_entries_on_insert()');
+  await q('CREATE TRIGGER leaderboard_entries_update AFTER UPDATE ON leaderboard_entries REFERENCING OLD TABLE AS old_rows NEW TABLE AS new_rows FOR EACH STATEMENT EXECUTE FUNCTION leaderboard_entries_on_update()');
+  await q('CREATE TRIGGER leaderboard_entries_delete AFTER DELETE ON leaderboard_entries REFERENCING OLD TABLE AS old_rows FOR EACH STATEMENT EXECUTE FUNCTION leaderboard_entries_on_delete()');
 
   // The best-result refresh of 0401, now also writing the visibility and label columns and
   // skipping unchanged rows. Same signature, so the results triggers of 0401 call it unchanged.
@@ -266,11 +296,11 @@ export const up: Migration = async ({ context: qi }) => {
   await q('CREATE TRIGGER leaderboard_submissions_update AFTER UPDATE ON submissions REFERENCING NEW TABLE AS new_rows FOR EACH STATEMENT EXECUTE FUNCTION leaderboard_on_submissions_update()');
   await q('CREATE TRIGGER leaderboard_submissions_delete AFTER DELETE ON submissions REFERENCING OLD TABLE AS old_rows FOR EACH STATEMENT EXECUTE FUNCTION leaderboard_on_submissions_delete()');
 
-  // Full rebuild of both derived tables, for bulk loads and repairs.
+  // Full rebuild of both derived tables, for bulk loads and repairs. TRUNCATE (not DELETE) leaves
+  // compact tables and indexes behind; it locks readers out until the rebuild commits.
   await q(`CREATE OR REPLACE FUNCTION leaderboard_rebuild() RETURNS void LANGUAGE plpgsql AS $$
     BEGIN
-      DELETE FROM leaderboard_entries;
-      DELETE FROM leaderboard_compare;
+      TRUNCATE leaderboard_entries, leaderboard_compare, leaderboard_counts;
       PERFORM leaderboard_refresh(array_agg(scenario_id), array_agg(agents), array_agg(model::text), array_agg(variant), array_agg(robot_profile_hash::text))
       FROM (SELECT DISTINCT scenario_id, agents, model, leaderboard_variant(params) AS variant, robot_profile_hash FROM results) d;
     END $$`);
@@ -284,12 +314,14 @@ export const down: Migration = async (params) => {
   for (const t of ['leaderboard_submissions_update', 'leaderboard_submissions_delete']) await q(`DROP TRIGGER IF EXISTS ${t} ON submissions`);
   await q('DROP TRIGGER IF EXISTS leaderboard_executions_delete ON executions');
   for (const f of ['leaderboard_on_sets_update', 'leaderboard_on_submissions_update', 'leaderboard_on_submissions_delete', 'leaderboard_on_executions_delete',
-    'leaderboard_compare_on_insert', 'leaderboard_compare_on_update', 'leaderboard_compare_on_delete']) {
+    'leaderboard_entries_on_insert', 'leaderboard_entries_on_update', 'leaderboard_entries_on_delete']) {
     await q(`DROP FUNCTION IF EXISTS ${f}() CASCADE`);
   }
   await q('DROP FUNCTION IF EXISTS leaderboard_refresh_executions(integer[])');
   await q('DROP FUNCTION IF EXISTS leaderboard_compare_refresh(integer[], integer[], text[])');
+  await q('DROP FUNCTION IF EXISTS leaderboard_counts_add(integer[], integer[], text[], integer[])');
   await q('DROP TABLE IF EXISTS leaderboard_compare');
+  await q('DROP TABLE IF EXISTS leaderboard_counts');
   await q('DROP INDEX IF EXISTS results_submission');
   await entriesMigration.down(params);
   await entriesMigration.up(params);
