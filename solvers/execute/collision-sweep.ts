@@ -77,6 +77,9 @@ export class CollisionSweep {
   private readonly created: number[] = [];
   private readonly testKey = new Float64Array(5);
   private isPairList = false;
+  /** Pair-list detection: per piece its window [winStart, winEnd) in the current run (goal pieces end at Infinity). */
+  private readonly winStart: Float64Array;
+  private readonly winEnd: Float64Array;
 
   constructor(p: PreparedPlan, strategy: BroadphaseStrategy = 'auto') {
     this.p = p;
@@ -97,6 +100,8 @@ export class CollisionSweep {
       this.windowFrom[n + r] = p.first[r + 1] > p.first[r] ? p.first[r + 1] - 1 : -1;
     }
     this.nextLive = this.liveChains();
+    this.winStart = new Float64Array(pieces);
+    this.winEnd = new Float64Array(pieces).fill(Infinity);
     this.head = new Int32Array(p.instance.grid.passable.length).fill(-1);
     this.next = new Int32Array(2 * pieces);
     this.prev = new Int32Array(2 * pieces);
@@ -186,16 +191,26 @@ export class CollisionSweep {
     const windowFrom = this.windowFrom;
     const { low, high, lowScan, highScan, count } = pairs;
     const key = this.testKey;
+    // Every piece's time window, so that the pair loop reads four numbers per pair.
+    const winStart = this.winStart;
+    const winEnd = this.winEnd;
+    for (let k = 0; k < n; k++) {
+      const f = windowFrom[k];
+      winStart[k] = f === -1 ? 0 : end[f];
+      winEnd[k] = end[k];
+    }
+    for (let k = n; k < winStart.length; k++) {
+      const f = windowFrom[k];
+      winStart[k] = f === -1 ? 0 : end[f];
+    }
     this.isPairList = true;
     for (let k = 0; k < count; k++) {
       const x = low[k];
       const y = high[k];
-      const fx = windowFrom[x];
-      const fy = windowFrom[y];
-      const sx = fx === -1 ? 0 : end[fx];
-      const sy = fy === -1 ? 0 : end[fy];
-      const ex = x >= n ? Infinity : end[x];
-      const ey = y >= n ? Infinity : end[y];
+      const sx = winStart[x];
+      const sy = winStart[y];
+      const ex = winEnd[x];
+      const ey = winEnd[y];
       const lo = sx > sy ? sx : sy;
       const hi = ex < ey ? ex : ey;
       if (!(hi > lo)) continue;

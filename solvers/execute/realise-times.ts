@@ -56,10 +56,14 @@ export function realiseTimes(p: PreparedPlan, release: ReleasePlan, duration: Fl
   const first = p.first;
   const robotOf = p.robotOf;
   const stepOf = p.step;
-  start.fill(Infinity);
-  end.fill(Infinity);
-  cutAt.fill(Infinity);
-  waited.fill(0);
+  // The loop writes every action in the order; only actions left out of it (on or behind a
+  // dependency cycle) need the never-started defaults.
+  if (order.length < p.actionCount) {
+    start.fill(Infinity);
+    end.fill(Infinity);
+    cutAt.fill(Infinity);
+    waited.fill(0);
+  }
   let barrier = 0;
   let runningMax = 0;
   let currentStep = -1;
@@ -88,9 +92,19 @@ export function realiseTimes(p: PreparedPlan, release: ReleasePlan, duration: Fl
       start[a] = ready;
       waited[a] = ready - own;
       const e = ready + duration[a];
-      if (e > stop) cutAt[a] = stop;
-      else end[a] = e;
-    } // else it never starts: start and end stay Infinity
+      if (e > stop) {
+        cutAt[a] = stop;
+        end[a] = Infinity;
+      } else {
+        cutAt[a] = Infinity;
+        end[a] = e;
+      }
+    } else {
+      start[a] = Infinity;
+      end[a] = Infinity;
+      cutAt[a] = Infinity;
+      waited[a] = 0;
+    }
     if (isLockstep && end[a] > runningMax) runningMax = end[a];
   }
 }
