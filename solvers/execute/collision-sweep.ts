@@ -77,9 +77,8 @@ export class CollisionSweep {
   private readonly created: number[] = [];
   private readonly testKey = new Float64Array(5);
   private isPairList = false;
-  /** Pair-list detection: per piece its window [winStart, winEnd) in the current run (goal pieces end at Infinity). */
-  private readonly winStart: Float64Array;
-  private readonly winEnd: Float64Array;
+  /** Pair-list detection: piece k's window in the current run is [windows[2k], windows[2k + 1]), side by side for locality. */
+  private readonly windows: Float64Array;
 
   constructor(p: PreparedPlan, strategy: BroadphaseStrategy = 'auto') {
     this.p = p;
@@ -100,8 +99,7 @@ export class CollisionSweep {
       this.windowFrom[n + r] = p.first[r + 1] > p.first[r] ? p.first[r + 1] - 1 : -1;
     }
     this.nextLive = this.liveChains();
-    this.winStart = new Float64Array(pieces);
-    this.winEnd = new Float64Array(pieces).fill(Infinity);
+    this.windows = new Float64Array(2 * pieces).fill(Infinity);
     this.head = new Int32Array(p.instance.grid.passable.length).fill(-1);
     this.next = new Int32Array(2 * pieces);
     this.prev = new Int32Array(2 * pieces);
@@ -192,25 +190,24 @@ export class CollisionSweep {
     const { low, high, lowScan, highScan, count } = pairs;
     const key = this.testKey;
     // Every piece's time window, so that the pair loop reads four numbers per pair.
-    const winStart = this.winStart;
-    const winEnd = this.winEnd;
+    const windows = this.windows;
     for (let k = 0; k < n; k++) {
       const f = windowFrom[k];
-      winStart[k] = f === -1 ? 0 : end[f];
-      winEnd[k] = end[k];
+      windows[2 * k] = f === -1 ? 0 : end[f];
+      windows[2 * k + 1] = end[k];
     }
-    for (let k = n; k < winStart.length; k++) {
+    for (let k = n; k < windowFrom.length; k++) {
       const f = windowFrom[k];
-      winStart[k] = f === -1 ? 0 : end[f];
+      windows[2 * k] = f === -1 ? 0 : end[f]; // goal pieces end at Infinity
     }
     this.isPairList = true;
     for (let k = 0; k < count; k++) {
       const x = low[k];
       const y = high[k];
-      const sx = winStart[x];
-      const sy = winStart[y];
-      const ex = winEnd[x];
-      const ey = winEnd[y];
+      const sx = windows[2 * x];
+      const ex = windows[2 * x + 1];
+      const sy = windows[2 * y];
+      const ey = windows[2 * y + 1];
       const lo = sx > sy ? sx : sy;
       const hi = ex < ey ? ex : ey;
       if (!(hi > lo)) continue;
