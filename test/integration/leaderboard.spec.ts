@@ -4,6 +4,9 @@
  * checked against a brute-force recomputation in TypeScript (leaderboard-support.ts).
  */
 import type { LeaderboardCharts, LeaderboardPage, LeaderboardSummary } from '@shared/leaderboards';
+import { parseView } from '@shared/leaderboards';
+import { createSequelize } from '../../api/src/db/sequelize';
+import { createLeaderboardsService } from '../../api/src/leaderboards/leaderboards.service';
 import { parameterHash } from '../../api/src/sweeps/parameter-hash';
 import {
   expectedEntries, insertResults, PROFILES, randomResults, startBoardWorld, type BoardWorld, type ExpectedEntry, type SeedResult, type SignedInClient,
@@ -106,6 +109,27 @@ describe('leaderboard over SQL', () => {
     const got = await allPages(world.curator, `map.has=TINY&scenario.has=a.scen&profile.has=${encodeURIComponent('jitter 0.1')}&solver.has=cbs`, 6);
     expect(new Set(got.map((r) => r.id))).toEqual(new Set(want.map((e) => String(e.id))));
     expect(want.length).toBeGreaterThan(0);
+  });
+
+  it('reads a deep page from the far end of an unfiltered view with exactly the same rows', async () => {
+    const sequelize = createSequelize(world.lib.db.url, { poolMax: 2 });
+    try {
+      // From row 1 on, every page nearer the end than the start is counted off from the end.
+      const mirrored = createLeaderboardsService({ sequelize, reverseFromRow: 1 });
+      const forward = createLeaderboardsService({ sequelize, reverseFromRow: Number.MAX_SAFE_INTEGER });
+      const owner = { id: (await world.lib.sql<{ id: number }>("SELECT owner_id AS id FROM instance_sets WHERE id = :id", { id: world.privateSet }))[0].id, role: 'researcher' } as Express.User;
+      for (const query of [{}, { sort: '-soc' }, { sort: 'successOpenLoop,-agents' }, { sort: 'model,runtimeMs' }]) {
+        const view = parseView(query);
+        const total = (await forward.page(view, owner, {}, { start: 0, end: 1 })).rowCount;
+        for (const start of [total - 7, total - 30, Math.floor(total / 2) + 3]) {
+          const [a, b] = await Promise.all([forward, mirrored].map((svc) => svc.page(view, owner, {}, { start, end: start + 11 })));
+          expect({ query, start, rows: b.rows, rowCount: b.rowCount }).toEqual({ query, start, rows: a.rows, rowCount: a.rowCount });
+          expect(a.rows.length).toBe(Math.min(11, total - start));
+        }
+      }
+    } finally {
+      await sequelize.close();
+    }
   });
 
   it('shows private sets only to their owner and maintainers', async () => {

@@ -127,15 +127,34 @@ function fewValuesFilter(f: ViewFilter, table: string, alias: string, repl: Reco
 /** `WHERE a AND b`, or nothing. */
 export const whereSql = (conds: readonly string[]): string => (conds.length ? `WHERE ${conds.join(' AND ')}` : '');
 
-/**
- * The page query and the count query of `view` for `viewer`. `groupValues`: the rows of
- * sortGroupsQuery(view, window), when it returned a query.
- */
-export function buildViewQueries(view: LeaderboardView, viewer: Viewer, scope: ViewScope, window: RowWindow, groupValues?: readonly string[]): { page: SqlQuery; count: SqlQuery } {
-  return view.layout === 'compare' ? compareQueries(view, viewer, scope, window) : entryQueries(view, viewer, scope, window, groupValues);
+/** What the service looked up before building a page's queries. */
+export interface PageHints {
+  /** The rows of sortGroupsQuery(view, window), when it returned a query. */
+  readonly groupValues?: readonly string[];
+  /** The view's row count, when known (from unfilteredCountQuery). */
+  readonly total?: number;
+  /** Pages starting at least this deep may be read from the far end (default REVERSE_FROM_ROW). */
+  readonly reverseFromRow?: number;
 }
 
-function entryQueries(view: LeaderboardView, viewer: Viewer, scope: ViewScope, rows: RowWindow, groupValues?: readonly string[]): { page: SqlQuery; count: SqlQuery } {
+/** Pages starting this deep into an unfiltered view of known size are read from its far end when nearer to that. */
+export const REVERSE_FROM_ROW = 10_000;
+
+/** The page query and the count query of `view` for `viewer`. */
+export function buildViewQueries(view: LeaderboardView, viewer: Viewer, scope: ViewScope, window: RowWindow, hints: PageHints = {}): { page: SqlQuery; count: SqlQuery } {
+  return view.layout === 'compare' ? compareQueries(view, viewer, scope, window) : entryQueries(view, viewer, scope, window, hints);
+}
+
+/** The cheap row count of an entries view without filters (see countsQuery), or null for any other view. */
+export function unfilteredCountQuery(view: LeaderboardView, viewer: Viewer, scope: ViewScope): SqlQuery | null {
+  if (view.layout !== 'entries' || view.filters.length > 0) return null;
+  const repl: Record<string, unknown> = {};
+  baseWhere(viewer, scope, repl);
+  return { sql: countsQuery(viewer, scope, repl), replacements: repl };
+}
+
+function entryQueries(view: LeaderboardView, viewer: Viewer, scope: ViewScope, rows: RowWindow, hints: PageHints): { page: SqlQuery; count: SqlQuery } {
+  const { groupValues, total, reverseFromRow = REVERSE_FROM_ROW } = hints;
   const repl: Record<string, unknown> = {};
   const where = baseWhere(viewer, scope, repl);
   for (const f of view.filters) where.push(fewValuesFilter(f, 'leaderboard_entries', 'e', repl) ?? filterCondition(f, ENTRY_SQL[f.column], repl));
@@ -146,11 +165,21 @@ function entryQueries(view: LeaderboardView, viewer: Viewer, scope: ViewScope, r
     : [...view.sort.map((s) => `${ENTRY_SQL[s.column]} ${s.direction.toUpperCase()}`), `e.id ${view.sort[0].direction.toUpperCase()}`].join(', ');
   repl['limit'] = rows.end - rows.start;
   repl['offset'] = rows.start;
+  // Near the far end of a view of known size, the same rows are counted off from that end in the
+  // opposite order (PostgreSQL's null placement flips with the direction, so it is the exact mirror).
+  const isReversed = total !== undefined && view.filters.length === 0 && rows.start >= reverseFromRow && rows.start > total - rows.end;
+  if (isReversed) {
+    repl['limit'] = Math.max(0, Math.min(rows.end, total) - rows.start);
+    repl['offset'] = Math.max(0, total - rows.end);
+  }
+  const reversed = view.sort.length === 0
+    ? ENTRY_DEFAULT_ORDER.split(', ').map((k) => `${k} DESC`).join(', ')
+    : [...view.sort.map((s) => `${ENTRY_SQL[s.column]} ${s.direction === 'asc' ? 'DESC' : 'ASC'}`), `e.id ${view.sort[0].direction === 'asc' ? 'DESC' : 'ASC'}`].join(', ');
   // The window is found on ids first: the sort indexes hold the visibility columns, so skipped
   // rows (deep offsets) are read from the index alone, and only the page's rows are fetched.
-  const ids = groupValues !== undefined && groupValues.length > 0 && groupValues.length <= GROUPED_MAX_VALUES
+  const ids = !isReversed && groupValues !== undefined && groupValues.length > 0 && groupValues.length <= GROUPED_MAX_VALUES
     ? groupedWindow(view, groupValues, where, repl)
-    : `SELECT e.id FROM leaderboard_entries e ${whereSql(where)} ORDER BY ${order} LIMIT :limit OFFSET :offset`;
+    : `SELECT e.id FROM leaderboard_entries e ${whereSql(where)} ORDER BY ${isReversed ? reversed : order} LIMIT :limit OFFSET :offset`;
   const page = `WITH w AS (${ids})
     SELECT e.id, e.scenario_id, e.agents, e.robot_profile_hash, e.result_id, e.robot_profile,
       ${view.columns.filter((c) => c !== 'profile').map((c) => `${ENTRY_SQL[c]} AS "${c}"`).join(', ') || 'NULL AS none'}

@@ -10,7 +10,9 @@ import {
 } from '@shared/leaderboards';
 import { PLAN_MODELS, type PlanModel, type RobotProfile } from '@shared/plan';
 import type { Viewer } from '../instance-sets/instance-set-access';
-import { buildViewQueries, sortGroupsQuery, type RowWindow, type SqlQuery, type ViewScope } from './leaderboard-query';
+import {
+  buildViewQueries, REVERSE_FROM_ROW, sortGroupsQuery, unfilteredCountQuery, type RowWindow, type SqlQuery, type ViewScope,
+} from './leaderboard-query';
 import { scopedEntries } from './scoped-entries';
 
 /** The leaderboard read service. */
@@ -27,9 +29,12 @@ type Row = Record<string, unknown>;
 
 const modelOrder = (m: string): number => PLAN_MODELS.indexOf(m as PlanModel);
 
-/** The leaderboards service on one connection. */
-export function createLeaderboardsService(deps: { readonly sequelize: Sequelize }): LeaderboardsService {
-  const { sequelize } = deps;
+/**
+ * The leaderboards service on one connection. `reverseFromRow` (tests only) lowers the depth from
+ * which a page may be read from the far end of its view.
+ */
+export function createLeaderboardsService(deps: { readonly sequelize: Sequelize; readonly reverseFromRow?: number }): LeaderboardsService {
+  const { sequelize, reverseFromRow = REVERSE_FROM_ROW } = deps;
   const select = <T extends object = Row>(q: SqlQuery): Promise<T[]> => sequelize.query<T>(q.sql, { type: QueryTypes.SELECT, replacements: q.replacements });
 
   async function profiles(viewer: Viewer, scope: ViewScope): Promise<ProfileOption[]> {
@@ -44,11 +49,16 @@ export function createLeaderboardsService(deps: { readonly sequelize: Sequelize 
 
   return {
     async page(view, viewer, scope, window, isCounted = true) {
+      // Small look-ups that shape the page query: a deep page of an unfiltered view needs its
+      // size (read from the far end when nearer), a sort led by a few-valued column its values.
+      const sized = window.start >= reverseFromRow ? unfilteredCountQuery(view, viewer, scope) : null;
+      const total = sized ? (await select<{ n: number }>(sized))[0].n : undefined;
       const groups = sortGroupsQuery(view, window);
       const groupValues = groups ? (await select<{ v: string }>(groups)).map((g) => g.v) : undefined;
-      const { page, count } = buildViewQueries(view, viewer, scope, window, groupValues);
+      const { page, count } = buildViewQueries(view, viewer, scope, window, { groupValues, total, reverseFromRow });
       // Counting a large view costs as much as the page itself, so a grid asks for it once.
-      const [rows, [{ n }]] = await Promise.all([select(page), isCounted ? select<{ n: number }>(count) : Promise.resolve([{ n: -1 }])]);
+      const counted = !isCounted ? Promise.resolve([{ n: -1 }]) : total !== undefined ? Promise.resolve([{ n: total }]) : select<{ n: number }>(count);
+      const [rows, [{ n }]] = await Promise.all([select(page), counted]);
       const profileLabels: Record<string, string> = {};
       const out: LeaderboardRow[] = rows.map((r) => {
         profileLabels[String(r['robot_profile_hash'])] = view.layout === 'entries' ? profileLabel(r['robot_profile'] as RobotProfile) : String(r['profile_label']);
