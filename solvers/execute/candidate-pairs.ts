@@ -44,35 +44,38 @@ export function candidatePairs(p: PreparedPlan, cellA: Int32Array, cellB: Int32A
     if (cellB[k] !== cellA[k]) cellPieces[fill[cellB[k]]++] = k;
   }
 
-  const low: number[] = [];
-  const high: number[] = [];
-  const lowScan: number[] = [];
-  const seen = new Int32Array(pieces).fill(-1);
+  // Pass 1 counts the pairs of each robot pair (group g = rLow · robots + rHigh); pass 2 writes
+  // them in place. Both visit each robot's pieces in chain order (its actions, then its goal
+  // piece), so within a group the low pieces already come in time order.
   const scan = new ScanOrder(p, cellA, cellB, reach);
-  for (let x = 0; x < pieces; x++) {
-    const rx = robotOf(x);
-    const m = scan.cellsOf(x);
-    for (let pos = 0; pos < m; pos++) {
-      const cell = scan.cells[pos];
-      for (let j = cellStart[cell]; j < cellStart[cell + 1]; j++) {
-        const y = cellPieces[j];
-        if (robotOf(y) <= rx || seen[y] === x) continue;
-        seen[y] = x;
-        if (low.length === limit) return null;
-        low.push(x);
-        high.push(y);
-        lowScan.push(pos);
+  const seen = new Int32Array(pieces).fill(-1);
+  const groupStart = new Int32Array(robots * robots + 1);
+  let count = 0;
+  const visit = (write: ((x: number, y: number, pos: number, g: number) => void) | null): boolean => {
+    seen.fill(-1);
+    for (let rx = 0; rx < robots; rx++) {
+      for (let k = p.first[rx]; k <= p.first[rx + 1]; k++) {
+        const x = k < p.first[rx + 1] ? k : n + rx;
+        const m = scan.cellsOf(x);
+        for (let pos = 0; pos < m; pos++) {
+          const cell = scan.cells[pos];
+          for (let j = cellStart[cell]; j < cellStart[cell + 1]; j++) {
+            const y = cellPieces[j];
+            const ry = robotOf(y);
+            if (ry <= rx || seen[y] === x) continue;
+            seen[y] = x;
+            const g = rx * robots + ry;
+            if (write) write(x, y, pos, g);
+            else if (++count > limit) return false;
+            else groupStart[g + 1]++;
+          }
+        }
       }
     }
-  }
-
-  // Chain order: a robot's actions, then its goal piece.
-  const chain = (k: number): number => (k >= n ? p.first[k - n + 1] + (k - n) : k + p.robotOf[k]);
-  const order = Int32Array.from(low, (_, i) => i).sort((i, j) => {
-    const a = low[i], b = low[j], c = high[i], d = high[j];
-    return robotOf(a) - robotOf(b) || robotOf(c) - robotOf(d) || chain(a) - chain(b) || chain(c) - chain(d);
-  });
-  const count = low.length;
+    return true;
+  };
+  if (!visit(null)) return null;
+  for (let g = 0; g < robots * robots; g++) groupStart[g + 1] += groupStart[g];
   const out: CandidatePairs = {
     count,
     low: new Int32Array(count),
@@ -80,13 +83,28 @@ export function candidatePairs(p: PreparedPlan, cellA: Int32Array, cellB: Int32A
     lowScan: new Int32Array(count),
     highScan: new Int32Array(count),
   };
-  for (let i = 0; i < count; i++) {
-    const k = order[i];
-    out.low[i] = low[k];
-    out.high[i] = high[k];
-    out.lowScan[i] = lowScan[k];
-    out.highScan[i] = scan.position(high[k], low[k]);
+  const at = groupStart.slice(0, robots * robots);
+  visit((x, y, pos, g) => {
+    const i = at[g]++;
+    out.low[i] = x;
+    out.high[i] = y;
+    out.lowScan[i] = pos;
+  });
+  // One low piece's partners of one robot come cell by cell: put them in chain order too
+  // (insertion sort; the runs are a few entries long).
+  const chain = (k: number): number => (k >= n ? p.first[k - n + 1] + (k - n) : k + p.robotOf[k]);
+  for (let i = 1; i < count; i++) {
+    const x = out.low[i], y = out.high[i], pos = out.lowScan[i];
+    let j = i - 1;
+    while (j >= 0 && out.low[j] === x && chain(out.high[j]) > chain(y)) {
+      out.high[j + 1] = out.high[j];
+      out.lowScan[j + 1] = out.lowScan[j];
+      j--;
+    }
+    out.high[j + 1] = y;
+    out.lowScan[j + 1] = pos;
   }
+  for (let i = 0; i < count; i++) out.highScan[i] = scan.position(out.high[i], out.low[i]);
   return out;
 }
 
