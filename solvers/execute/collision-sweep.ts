@@ -49,6 +49,7 @@ export class CollisionSweep {
   private readonly cellB: Int32Array;
   /** Per piece the action whose end opens its window (−1: the window opens at 0). */
   private readonly windowFrom: Int32Array;
+  /** Sweep only: see liveChains (empty when the plan uses the candidate list). */
   private readonly nextLive: Int32Array;
   private readonly head: Int32Array;
   private readonly next: Int32Array;
@@ -98,7 +99,9 @@ export class CollisionSweep {
       for (let k = p.first[r]; k < p.first[r + 1]; k++) this.windowFrom[k] = k > p.first[r] ? k - 1 : -1;
       this.windowFrom[n + r] = p.first[r + 1] > p.first[r] ? p.first[r + 1] - 1 : -1;
     }
-    this.nextLive = this.liveChains();
+    this.pairs = strategy === 'sweep' ? null
+      : candidatePairs(p, this.cellA, this.cellB, this.reach, strategy === 'pairs' ? Infinity : PAIRS_PER_PIECE * pieces);
+    this.nextLive = this.pairs ? new Int32Array(0) : this.liveChains();
     this.windows = new Float64Array(2 * pieces).fill(Infinity);
     this.head = new Int32Array(p.instance.grid.passable.length).fill(-1);
     this.next = new Int32Array(2 * pieces);
@@ -110,8 +113,6 @@ export class CollisionSweep {
     this.heapKey = new Float64Array(robots);
     this.pairEnd = new Float64Array(robots * robots).fill(-Infinity);
     this.pairIndex = new Int32Array(robots * robots);
-    this.pairs = strategy === 'sweep' ? null
-      : candidatePairs(p, this.cellA, this.cellB, this.reach, strategy === 'pairs' ? Infinity : PAIRS_PER_PIECE * pieces);
   }
 
   /** Whether this plan's runs test the candidate list rather than sweeping. */
