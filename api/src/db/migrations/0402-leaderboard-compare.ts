@@ -7,8 +7,10 @@
  *   `leaderboard_entries` only, by statement-level triggers on that table, so every path that
  *   changes entries (refresh, cascades, visibility) keeps it right. It has no foreign keys: a
  *   cascade may delete a scenario before its entries, and the entries trigger removes the row.
- *   Its k-robust columns hold the k=1 variant (the board's default); other k are looked up in
- *   `leaderboard_entries` per row.
+ *   Its k-robust columns hold the k=1 variant (the board's default); another k joins that
+ *   variant's entries by their unique key.
+ * - `leaderboard_counts`: entries per set × map × robot profile, also kept by the entries'
+ *   triggers, so the row count of an unfiltered view (the board's default) is a small sum.
  * - Entries and comparison rows carry the set's visibility and owner, the profile label and the
  *   solver label, so visibility and every sort run on indexed columns of one table.
  * - Executions no longer re-rank results: they only change the figures of the entry whose best
@@ -18,7 +20,7 @@
  * - Upserts skip rows whose values did not change, so a refresh writes (and re-indexes) only
  *   real changes.
  *
- * `SELECT leaderboard_rebuild()` still rebuilds both tables from `results`.
+ * `SELECT leaderboard_rebuild()` rebuilds all three tables from `results`.
  */
 import type { Migration } from '../migration';
 import * as entriesMigration from './0401-leaderboard-entries';
