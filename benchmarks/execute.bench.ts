@@ -97,7 +97,7 @@ for (const policy of ['open-loop', 'lockstep', 'dependency-gated'] as ExecutionP
   const best = Math.min(...wall);
   console.log(`${policy.padEnd(18)} ${best.toFixed(3).padStart(12)} ${median(wall).toFixed(3).padStart(15)} ${Math.min(...cpu).toFixed(3).padStart(17)} ${summary.collisions.mean.toFixed(2).padStart(16)} ${summary.successRate.toFixed(3).padStart(9)}`);
   results.push({
-    policy, robots: ROBOTS, actions: ACTIONS, runs: RUNS, rounds: ROUNDS, perRunMs: wall, cpuPerRunMs: cpu,
+    policy, robots: ROBOTS, actions: ACTIONS, runs: RUNS, rounds: ROUNDS, perRunMsByRound: wall, cpuPerRunMsByRound: cpu,
     bestPerRunMs: best, medianPerRunMs: median(wall), collisionsMean: summary.collisions.mean, successRate: summary.successRate,
   });
 }
