@@ -28,8 +28,9 @@ const CONTACT_SLACK_MM = 1e-6;
 /** Overlaps of one robot pair closer than this in time are one collision. */
 const MERGE_MS = 1e-6;
 /**
- * Longest candidate list, per piece, that a plan gets: beyond it the sweep is cheaper (a list
- * entry costs a few loads per run, a sweep event a heap update and a bucket scan).
+ * Longest candidate list, per piece, that a plan gets. A list entry costs a few loads per run, a
+ * sweep event a heap update and a bucket scan; on the benchmark's random walks the list stays
+ * cheaper up to roughly 30 pairs per piece, and 16 leaves margin and bounds its memory.
  */
 const PAIRS_PER_PIECE = 16;
 
