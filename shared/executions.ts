@@ -210,3 +210,22 @@ export interface ExecutionView {
   /** The safety sentence (shared/executions-constants.ts SAFETY_NOTE). */
   readonly safetyNote: string;
 }
+
+/** A collision as the simulator gives it: `untilMs` is Infinity when the robots never separate. */
+type SimulatedCollision<C> = Omit<C, 'untilMs'> & { readonly untilMs: number };
+
+/** A Monte Carlo summary as the simulator (solvers/execute) gives it. */
+export type SimulatedSummary = Omit<ExecutionSummaryView, 'firstCollision' | 'perRun'> & {
+  readonly firstCollision: SimulatedCollision<CollisionView & { readonly run: number }> | null;
+  readonly perRun: readonly (Omit<RunMetricsView, 'collisions'> & { readonly collisions: readonly SimulatedCollision<CollisionView>[] })[];
+};
+
+/** The summary as JSON: a collision that never ends carries `untilMs: null` instead of Infinity (which JSON cannot hold). */
+export function summaryView(s: SimulatedSummary): ExecutionSummaryView {
+  const collision = <C extends { readonly untilMs: number }>(c: C) => ({ ...c, untilMs: Number.isFinite(c.untilMs) ? c.untilMs : null });
+  return {
+    ...s,
+    firstCollision: s.firstCollision ? collision(s.firstCollision) : null,
+    perRun: s.perRun.map((m) => ({ ...m, collisions: m.collisions.map(collision) })),
+  };
+}

@@ -7,7 +7,7 @@ export type {
   RealisedAction, RunMetrics, RunTimeline,
 } from './execution-types';
 export { EXECUTION_POLICIES } from './execution-types';
-export { simulateExecution } from './simulate-execution';
+export { simulateExecution, summariseRuns } from './simulate-execution';
 export { realisedTimeline } from './realised-timeline';
 export { ExecutionRunner } from './execution-runner';
 export { closestApproach, overlapInterval, type ClosestApproach } from './closest-approach';

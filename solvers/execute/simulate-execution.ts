@@ -28,10 +28,13 @@ export function simulateExecution(
     }
     perRun.push(runner.run(r));
   }
-  return summarise(runner, options, perRun, isAborted);
+  return summariseRuns(runner, options, perRun, isAborted);
 }
 
-function summarise(runner: ExecutionRunner, options: ExecutionOptions, perRun: readonly RunMetrics[], isAborted: boolean): ExecutionSummary {
+/** The Monte Carlo summary of runs `perRun` of `runner` (the web viewer's chunked re-runs summarise with it too). */
+export function summariseRuns(
+  runner: ExecutionRunner, options: Pick<ExecutionOptions, 'policy' | 'seed'>, perRun: readonly RunMetrics[], isAborted: boolean,
+): ExecutionSummary {
   const n = perRun.length;
   const counts = perRun.map((m) => m.collisions.length);
   const hit = perRun.find((m) => m.collisions.length > 0);

@@ -7,7 +7,7 @@
  * EXECUTION_LIMITS.solveTimeLimitMs plus the simulation.
  */
 import { performance } from 'node:perf_hooks';
-import type { ExecutionSummaryView, PlanFigures } from '@shared/executions';
+import { summaryView, type PlanFigures } from '@shared/executions';
 import type { PlanModel, Schedule } from '@shared/plan';
 import { simulateExecution, type ExecutionSummary } from '@solvers/execute';
 import type { MapfInstance } from '@solvers/instance';
@@ -169,16 +169,6 @@ function arrivalFigures(schedule: Schedule): Pick<PlanFigures, 'turnInclusiveSoc
     makespan = Math.max(makespan, arrival);
   }
   return { turnInclusiveSocMs: soc, turnInclusiveMakespanMs: makespan };
-}
-
-/** The summary as JSON: a collision that never ends carries `untilMs: null` instead of Infinity. */
-function summaryView(s: ExecutionSummary): ExecutionSummaryView {
-  const collision = <C extends { untilMs: number }>(c: C) => ({ ...c, untilMs: Number.isFinite(c.untilMs) ? c.untilMs : null });
-  return {
-    ...s,
-    firstCollision: s.firstCollision ? collision(s.firstCollision) : null,
-    perRun: s.perRun.map((m) => ({ ...m, collisions: m.collisions.map(collision) })),
-  };
 }
 
 function toInstance(t: ExecutionTaskInstance): MapfInstance {

@@ -4,11 +4,10 @@
  * the track of the run to show. The summary follows simulateExecution exactly (same runs, same
  * run seeds, same statistics), checked against it in fleet-rerun.spec.ts.
  */
-import type { ExecutionInstanceView, ExecutionSummaryView, RunMetricsView } from '@shared/executions';
+import { summaryView, type ExecutionInstanceView, type ExecutionSummaryView } from '@shared/executions';
 import type { CollisionModeName, ExecutionPolicyName } from '@shared/executions-constants';
 import type { RobotProfile, Schedule } from '@shared/plan';
-import { ExecutionRunner, type NoiseModel, type RunMetrics } from '@solvers/execute';
-import { metricStats } from '@solvers/execute/metric-stats';
+import { ExecutionRunner, summariseRuns, type NoiseModel, type RunMetrics } from '@solvers/execute';
 import type { MapfInstance } from '@solvers/instance';
 import { trackFromRunner, type FleetTrack } from './fleet-track';
 
@@ -104,29 +103,7 @@ export function trackOfRun(
   return trackFromRunner(runner);
 }
 
-/** The summary of a batch, field for field as simulateExecution computes it, in JSON form. */
+/** The summary of a batch: simulateExecution's own summary of the same runs, in JSON form. */
 function summarise(runner: ExecutionRunner, settings: RerunSettings, perRun: readonly RunMetrics[], isAborted: boolean): ExecutionSummaryView {
-  const n = perRun.length;
-  const counts = perRun.map((m) => m.collisions.length);
-  const collisionStats = metricStats(counts);
-  const views: RunMetricsView[] = perRun.map((m) => ({
-    ...m, collisions: m.collisions.map((c) => ({ ...c, untilMs: Number.isFinite(c.untilMs) ? c.untilMs : null })),
-  }));
-  const hit = views.find((m) => m.collisions.length > 0);
-  return {
-    policy: settings.policy,
-    noise: runner.noise,
-    onCollision: runner.onCollision,
-    seed: settings.seed,
-    runs: n,
-    isAborted,
-    successRate: n === 0 ? 0 : perRun.filter((m) => m.isSuccess).length / n,
-    collisions: { mean: collisionStats.mean ?? 0, p95: collisionStats.p95 ?? 0, total: counts.reduce((s, c) => s + c, 0) },
-    realisedMakespanMs: metricStats(perRun.map((m) => m.realisedMakespanMs)),
-    realisedSocMs: metricStats(perRun.map((m) => m.realisedSocMs)),
-    finishSpreadMs: metricStats(perRun.map((m) => m.finishSpreadMs)),
-    waitingMs: metricStats(perRun.map((m) => m.waitingMs)),
-    firstCollision: hit ? { ...hit.collisions[0], run: hit.run } : null,
-    perRun: views,
-  };
+  return summaryView(summariseRuns(runner, settings, perRun, isAborted));
 }
