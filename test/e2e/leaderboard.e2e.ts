@@ -65,6 +65,8 @@ describe('leaderboard in the browser', () => {
     const models = await page.locator('.ag-cell[col-id=model]').allInnerTexts();
     expect([...models].sort()).toEqual(['classic', 'k-robust', 'uniform-duration']);
     expect(await page.locator('.ag-cell[col-id=soc]').allInnerTexts()).toEqual(['4', '4', '4']);
+    // Numbers align right (the column type's cell class needs AG Grid's CellStyleModule).
+    expect(await page.locator('.ag-cell[col-id=soc]').first().evaluate((e) => getComputedStyle(e).textAlign)).toBe('right');
     expect(await page.getByText('Simulation is no safety assessment').first().isVisible()).toBe(true);
 
     await page.locator('.ag-header-cell[col-id=model]').click();

@@ -9,7 +9,7 @@ import { ActivatedRoute, Router, RouterLink } from '@angular/router';
 import { firstValueFrom } from 'rxjs';
 import { AgGridAngular } from 'ag-grid-angular';
 import {
-  InfiniteRowModelModule, ModuleRegistry, NumberFilterModule, TextFilterModule,
+  CellStyleModule, InfiniteRowModelModule, ModuleRegistry, NumberFilterModule, TextFilterModule,
   type GridApi, type GridReadyEvent, type IDatasource, type IGetRowsParams,
 } from 'ag-grid-community';
 import { MatButtonModule } from '@angular/material/button';
@@ -29,7 +29,8 @@ import LeaderboardCharts from './leaderboard-charts';
 import ModelSummaryPanel from './model-summary';
 import { filtersToGrid, withGridState, type GridFilter, type GridSort } from './grid-view';
 
-ModuleRegistry.registerModules([InfiniteRowModelModule, TextFilterModule, NumberFilterModule]);
+// CellStyleModule applies the cell classes of column types (right-aligned numbers).
+ModuleRegistry.registerModules([InfiniteRowModelModule, TextFilterModule, NumberFilterModule, CellStyleModule]);
 
 /** Rows the grid asks for at a time. */
 const PAGE_ROWS = 100;

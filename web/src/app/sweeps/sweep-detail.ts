@@ -9,7 +9,7 @@ import { ChangeDetectionStrategy, Component, computed, inject, input, signal } f
 import { takeUntilDestroyed, toObservable } from '@angular/core/rxjs-interop';
 import { DatePipe } from '@angular/common';
 import { AgGridAngular } from 'ag-grid-angular';
-import { ClientSideRowModelModule, ModuleRegistry, type GetRowIdParams } from 'ag-grid-community';
+import { CellStyleModule, ClientSideRowModelModule, ModuleRegistry, type GetRowIdParams } from 'ag-grid-community';
 import { MatButtonModule } from '@angular/material/button';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { RouterLink } from '@angular/router';
@@ -19,7 +19,8 @@ import { SweepApi } from './sweep-api';
 import { SWEEP_GRID_THEME, sweepGridColumns } from './sweep-grid-columns';
 import { formatDuration, RUN_STATUS_LABEL, SWEEP_STATUS_LABEL } from './sweep-status';
 
-ModuleRegistry.registerModules([ClientSideRowModelModule]);
+// CellStyleModule applies the cell classes of column types (right-aligned numbers).
+ModuleRegistry.registerModules([ClientSideRowModelModule, CellStyleModule]);
 
 /** What the page shows of one sweep. */
 @Component({
