@@ -51,7 +51,7 @@ export class ExecutionSummaryCard {
       { key: 'makespan', label: 'Makespan', value: f.makespan === null ? '–' : `${f.makespan}${unit}` },
       { key: 'turn-inclusive-makespan', label: 'Turn-inclusive makespan', value: formatSeconds(f.turnInclusiveMakespanMs) },
       { key: 'lower-bound', label: 'Lower bound', value: f.lowerBound === null ? '–' : `${f.lowerBound}${unit}` },
-      { key: 'solve-time', label: 'Solve time', value: f.solveTimeMs === null ? '–' : `${Math.round(f.solveTimeMs)} ms` },
+      { key: 'solve-time', label: 'Solve time', value: f.solveTimeMs === null ? '–' : `${f.solveTimeMs < 10 ? f.solveTimeMs.toFixed(1) : Math.round(f.solveTimeMs)} ms` },
     ];
   });
 }
