@@ -14,12 +14,12 @@ const policyValue = (policy: string, pick: (e: SweepResultRow['executions'][numb
 /** The grid's columns; one success-rate and realised-makespan pair per replayed policy. */
 export function sweepGridColumns(policies: readonly string[]): ColDef<SweepResultRow>[] {
   return [
-    { field: 'runId', headerName: 'Run', width: 80 },
+    { field: 'runId', headerName: 'Run', width: 80, type: 'rightAligned' },
     { field: 'mapName', headerName: 'Map', width: 150 },
     { field: 'scenarioName', headerName: 'Scenario', width: 190 },
-    { field: 'agents', headerName: 'Agents', width: 90 },
+    { field: 'agents', headerName: 'Agents', width: 90, type: 'rightAligned' },
     { field: 'model', headerName: 'Plan model', width: 150 },
-    { field: 'seed', headerName: 'Seed', width: 80 },
+    { field: 'seed', headerName: 'Seed', width: 80, type: 'rightAligned' },
     { field: 'status', headerName: 'Status', width: 120, valueFormatter: (p) => (p.value ? RUN_STATUS_LABEL[p.value as SweepResultRow['status']] : '') },
     { colId: 'replay', headerName: 'Plan', width: 100, sortable: false, cellRenderer: replayLink },
     { field: 'soc', headerName: 'Sum-of-costs', width: 130, type: 'rightAligned', valueFormatter: num(), headerTooltip: 'Steps for unit-step models, ms for weighted-split' },
