@@ -1,8 +1,10 @@
 /**
  * Choosing what to view: instance set → scenario → number of agents → plan model (and a second
  * model to compare) → start heading and robot profile. Emits the choice; the page solves it.
+ * When the page shows a plan opened another way (a stored result or execution), the form takes
+ * its instance, model and profile, so comparing it with a second model is one click.
  */
-import { ChangeDetectionStrategy, Component, computed, inject, output, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, effect, inject, input, output, signal, untracked } from '@angular/core';
 import { toSignal } from '@angular/core/rxjs-interop';
 import { ReactiveFormsModule, NonNullableFormBuilder, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
@@ -11,6 +13,7 @@ import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
 import { catchError, of } from 'rxjs';
 import { EXECUTION_LIMITS, STARTER_PROFILE } from '@shared/executions-constants';
+import type { ExecutionView } from '@shared/executions';
 import type { InstanceSetDetail } from '@shared/instance-sets';
 import { HEADINGS, PLAN_MODELS, type PlanModel, type RobotProfile, type StartHeading } from '@shared/plan';
 import { InstanceSetApi } from '../instance-sets/instance-set-api';
@@ -37,6 +40,8 @@ export class PlanPicker {
   private readonly fb = inject(NonNullableFormBuilder);
   /** Emitted with the choice when the user opens it. */
   readonly openPlan = output<PlanChoice>();
+  /** The execution the page shows first, if any: the form takes its instance, model and profile. */
+  readonly shown = input<ExecutionView | null>(null);
   protected readonly models = PLAN_MODELS;
   protected readonly headings = ['free', ...HEADINGS] as const;
   protected readonly maxSolveAgents = EXECUTION_LIMITS.maxSolveAgents;
@@ -56,6 +61,34 @@ export class PlanPicker {
     robotDiameterMm: this.fb.control(STARTER_PROFILE.robotDiameterMm, [Validators.required, Validators.min(1)]),
   });
   protected readonly scenarios = computed(() => this.set()?.scenarios ?? []);
+
+  /** Id of the execution last adopted: re-runs of it keep what the user changed since. */
+  private adoptedId: number | null = null;
+
+  constructor() {
+    effect(() => {
+      const e = this.shown();
+      if (e && e.id !== this.adoptedId) {
+        this.adoptedId = e.id;
+        untracked(() => this.adopt(e));
+      }
+    });
+  }
+
+  /** Fills the form from a shown execution of a stored scenario (tasks sent with a map have no scenario to pick). */
+  private adopt(e: ExecutionView): void {
+    const { instanceSetId, scenarioId } = e.source;
+    if (scenarioId === undefined) return;
+    const p = e.profile;
+    this.form.patchValue({
+      setId: instanceSetId, agents: e.instance.agents.length, model: e.model, compare: 'none', startHeading: e.modelOptions.startHeading,
+      forwardMs: p.forwardMs, quarterTurnMs: p.quarterTurnMs, waitMs: p.waitMs, cellPitchMm: p.cellPitchMm, robotDiameterMm: p.robotDiameterMm,
+    });
+    this.api.get(instanceSetId).pipe(catchError(() => of(null))).subscribe((detail) => {
+      this.set.set(detail);
+      if (detail?.scenarios.some((s) => s.id === scenarioId)) this.form.controls.scenarioId.setValue(scenarioId);
+    });
+  }
 
   /** Loads the chosen set's scenarios. */
   protected chooseSet(id: number): void {

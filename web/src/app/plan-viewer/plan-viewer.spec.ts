@@ -77,6 +77,10 @@ describe('PlanViewer', () => {
     for (let i = 0; i < 5; i++) {
       await new Promise((r) => setTimeout(r, 0));
       await fixture.whenStable();
+      // The picker reads the shown plan's instance set to offer its scenarios.
+      for (const r of backend.match((q) => /^\/api\/instance-sets\/\d+$/.test(q.url))) {
+        r.flush({ id: 1, name: 'lanes', scenarios: [{ id: 5, name: 'lane-queue.scen', mapId: 2, rows: 4, maxAgents: 4 }] });
+      }
     }
   }
 
@@ -155,6 +159,11 @@ describe('PlanViewer', () => {
     await settle();
     expect(el.querySelector('.source')?.textContent).toContain('stored result 41 of sweep 3');
     expect(el.querySelector('[data-testid="computed-by"]')?.textContent?.trim()).toBe('Quarterturn 0.1.0 (commit 0123456789), Node v20.20.2, Test CPU');
+    // The picker took the shown plan's instance and profile, ready to compare it with a second model.
+    const scenarioSelect = await loader.getHarness(MatSelectHarness.with({ selector: '[formControlName="scenarioId"]' }));
+    expect(await scenarioSelect.getValueText()).toBe('lane-queue.scen (up to 4 agents)');
+    const quarterTurn = await loader.getHarness(MatInputHarness.with({ selector: '[formControlName="quarterTurnMs"]' }));
+    expect(await quarterTurn.getValue()).toBe(String(TEST_PROFILE.quarterTurnMs));
     expect(metric(0, 'success-rate')).toBe('100%');
 
     await (await loader.getHarness(MatButtonHarness.with({ text: 'Re-run on server' }))).click();
