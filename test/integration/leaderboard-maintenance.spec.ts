@@ -1,6 +1,6 @@
 /**
  * The leaderboard's derived tables (`leaderboard_entries`, `leaderboard_compare`,
- * `leaderboard_counts`) kept up by triggers must equal a from-scratch `leaderboard_rebuild()` after every kind of change: bulk
+ * `leaderboard_counts`, `leaderboard_group_counts`) kept up by triggers must equal a from-scratch `leaderboard_rebuild()` after every kind of change: bulk
  * result inserts and deletes, executions inserted, updated and deleted, submitted plans added,
  * renamed and removed, a scenario deleted, and a set's visibility or owner changed. Each step
  * compares the trigger-kept tables with a rebuild run inside a transaction that is rolled back,
@@ -31,6 +31,7 @@ interface Snapshot {
   readonly entries: Record<string, unknown>[];
   readonly compare: Record<string, unknown>[];
   readonly counts: Record<string, unknown>[];
+  readonly groupCounts: Record<string, unknown>[];
 }
 
 describe('leaderboard tables kept by triggers equal a rebuild', () => {
@@ -43,7 +44,7 @@ describe('leaderboard tables kept by triggers equal a rebuild', () => {
 
   const rows = async <T = Record<string, unknown>>(sql: string, values: unknown[] = []): Promise<T[]> => (await c.query(sql, values)).rows as T[];
 
-  /** Both tables in key order, without the serial id and timestamp (which a rebuild renews). */
+  /** The tables in key order, without the serial id and timestamp (which a rebuild renews). */
   async function snapshot(): Promise<Snapshot> {
     const entries = await rows('SELECT * FROM leaderboard_entries ORDER BY scenario_id, agents, model, variant, robot_profile_hash');
     for (const e of entries) {
@@ -52,7 +53,9 @@ describe('leaderboard tables kept by triggers equal a rebuild', () => {
     }
     const compare = await rows('SELECT * FROM leaderboard_compare ORDER BY scenario_id, agents, robot_profile_hash');
     const counts = await rows('SELECT * FROM leaderboard_counts ORDER BY instance_set_id, map_id, robot_profile_hash');
-    return { entries, compare, counts };
+    const groupCounts = await rows(`SELECT * FROM leaderboard_group_counts
+      ORDER BY map_id, robot_profile_hash, is_public, owner_id, model, variant, status, source, solver, profile_label`);
+    return { entries, compare, counts, groupCounts };
   }
 
   async function rebuilt(): Promise<Snapshot> {
@@ -135,6 +138,7 @@ describe('leaderboard tables kept by triggers equal a rebuild', () => {
     const [{ n }] = await rows<{ n: number }>('SELECT count(*)::int AS n FROM (SELECT DISTINCT scenario_id, agents, robot_profile_hash FROM results) k');
     expect(after.compare).toHaveLength(n);
     expect(after.counts.reduce((sum, r) => sum + (r['entries'] as number), 0)).toBe(after.entries.length);
+    expect(after.groupCounts.reduce((sum, r) => sum + (r['entries'] as number), 0)).toBe(after.entries.length);
   });
 
   it('after executions are inserted, updated and deleted', async () => {

@@ -132,6 +132,68 @@ describe('leaderboard over SQL', () => {
     }
   });
 
+  it('pages deep windows of a sort led by a few-valued column group by group with exactly the rows of a plain ORDER BY … OFFSET', async () => {
+    const sequelize = createSequelize(world.lib.db.url, { poolMax: 2 });
+    try {
+      // From row 0 on, every window of such a sort is read group by group (the bench's depths need 1,000,000 results).
+      const grouped = createLeaderboardsService({ sequelize, groupsFromRow: 0 });
+      const pageSql: string[] = [];
+      const query = sequelize.query.bind(sequelize) as (sql: string, opts: object) => Promise<unknown>;
+      jest.spyOn(sequelize, 'query').mockImplementation(((sql: string, opts: object) => {
+        pageSql.push(sql);
+        return query(sql, opts);
+      }) as typeof sequelize.query);
+      const ownerId = (await world.lib.sql<{ id: number }>('SELECT owner_id AS id FROM instance_sets WHERE id = :id', { id: world.privateSet }))[0].id;
+      const viewers: { viewer: Express.User | null; visible: string }[] = [
+        { viewer: null, visible: 'e.is_public' },
+        { viewer: { id: ownerId, role: 'researcher' } as Express.User, visible: `(e.is_public OR e.owner_id = ${ownerId})` },
+        { viewer: { id: 9999, role: 'maintainer' } as Express.User, visible: 'TRUE' },
+      ];
+      // Each view with its hand-written ORDER BY (the id follows the first key's direction) and filter.
+      const views: { query: Record<string, string>; order: string; where?: string }[] = [
+        { query: { sort: 'model,tiMakespanMs' }, order: 'e.model, e.ti_makespan_ms, e.id' },
+        { query: { sort: '-model,-soc' }, order: 'e.model DESC, e.soc DESC, e.id DESC' },
+        { query: { sort: 'model,-soc' }, order: 'e.model, e.soc DESC, e.id' },
+        { query: { sort: '-status,runtimeMs' }, order: 'e.status DESC, e.runtime_ms, e.id DESC' },
+        { query: { sort: 'variant,-successOpenLoop' }, order: 'e.variant, e.success_open_loop DESC, e.id' },
+        { query: { sort: '-profile,agents' }, order: 'e.profile_label DESC, e.agents, e.id DESC' },
+        { query: { sort: 'source,map' }, order: 'e.source, e.map_name, e.id' },
+        { query: { sort: 'solver,-gap' }, order: 'e.solver, e.gap DESC, e.id' },
+        { query: { sort: 'status,soc,-agents' }, order: 'e.status, e.soc, e.agents DESC, e.id' },
+        { query: { sort: 'model,-status' }, order: 'e.model, e.status DESC, e.id' },
+        { query: { sort: '-source,profile,-soc' }, order: 'e.source DESC, e.profile_label, e.soc DESC, e.id DESC' },
+        { query: { sort: 'status,-variant,model' }, order: 'e.status, e.variant DESC, e.model, e.id' },
+        { query: { sort: 'profile,-variant', 'soc.lte': '5' }, order: 'e.profile_label, e.variant DESC, e.id', where: 'e.soc <= 5' },
+        { query: { sort: 'model,-tiMakespanMs', 'agents.gte': '2' }, order: 'e.model, e.ti_makespan_ms DESC, e.id', where: 'e.agents >= 2' },
+        { query: { sort: '-profile,soc', 'status.in': 'solved,timeout' }, order: 'e.profile_label DESC, e.soc, e.id DESC', where: "e.status IN ('solved', 'timeout')" },
+      ];
+      let straddling = 0;
+      for (const { query: params, order, where } of views) {
+        const view = parseView(params);
+        for (const { viewer, visible } of viewers) {
+          const cond = where ? `${visible} AND ${where}` : visible;
+          const all = (await world.lib.sql<{ id: number; g: string }>(
+            `SELECT e.id, ${order.split(',')[0].replace(/ DESC$/, '')} AS g FROM leaderboard_entries e WHERE ${cond} ORDER BY ${order}`)).map((r) => ({ id: String(r.id), g: r.g }));
+          for (const [start, size] of [[0, 7], [5, 30], [Math.floor(all.length / 3), 17], [Math.floor(all.length / 2) - 4, 11], [all.length - 9, 9], [all.length - 3, 10], [all.length + 2, 5]]) {
+            const { rows, rowCount } = await grouped.page(view, viewer, {}, { start, end: start + size });
+            const want = all.slice(start, start + size);
+            expect({ params, start, ids: rows.map((r) => r.id), rowCount }).toEqual({ params, start, ids: want.map((r) => r.id), rowCount: all.length });
+            if (want.length > 1 && want[0].g !== want[want.length - 1].g) straddling++;
+          }
+          // Every block of one view, so each boundary between two groups falls inside some block.
+          const blocks: string[] = [];
+          for (let start = 0; start < all.length; start += 13) blocks.push(...(await grouped.page(view, viewer, {}, { start, end: start + 13 }, false)).rows.map((r) => r.id));
+          expect(blocks).toEqual(all.map((r) => r.id));
+        }
+      }
+      expect(straddling).toBeGreaterThan(20);
+      expect(pageSql.some((sql) => sql.includes('FROM leaderboard_group_counts g'))).toBe(true);
+      expect(pageSql.some((sql) => sql.includes('OFFSET :go1'))).toBe(true);
+    } finally {
+      await sequelize.close();
+    }
+  });
+
   it('shows private sets only to their owner and maintainers', async () => {
     const privateScenario = world.scenarios[2];
     const publicCount = expected.filter((e) => e.scenarioId !== privateScenario).length;

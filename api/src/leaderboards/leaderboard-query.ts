@@ -131,6 +131,8 @@ export const whereSql = (conds: readonly string[]): string => (conds.length ? `W
 export interface PageHints {
   /** The rows of sortGroupsQuery(view, window), when it returned a query. */
   readonly groupValues?: readonly string[];
+  /** The rows of groupCountsQuery(view, viewer, scope, window), when it returned a query. */
+  readonly groupCounts?: readonly GroupCount[];
   /** The view's row count, when known (from unfilteredCountQuery). */
   readonly total?: number;
   /** Pages starting at least this deep may be read from the far end (default REVERSE_FROM_ROW). */
@@ -153,11 +155,17 @@ export function unfilteredCountQuery(view: LeaderboardView, viewer: Viewer, scop
   return { sql: countsQuery(viewer, scope, repl), replacements: repl };
 }
 
-function entryQueries(view: LeaderboardView, viewer: Viewer, scope: ViewScope, rows: RowWindow, hints: PageHints): { page: SqlQuery; count: SqlQuery } {
-  const { groupValues, total, reverseFromRow = REVERSE_FROM_ROW } = hints;
-  const repl: Record<string, unknown> = {};
+/** WHERE conditions of an entries view: visibility, scope and the view's filters. */
+function entryWhere(view: LeaderboardView, viewer: Viewer, scope: ViewScope, repl: Record<string, unknown>): string[] {
   const where = baseWhere(viewer, scope, repl);
   for (const f of view.filters) where.push(fewValuesFilter(f, 'leaderboard_entries', 'e', repl) ?? filterCondition(f, ENTRY_SQL[f.column], repl));
+  return where;
+}
+
+function entryQueries(view: LeaderboardView, viewer: Viewer, scope: ViewScope, rows: RowWindow, hints: PageHints): { page: SqlQuery; count: SqlQuery } {
+  const { groupValues, groupCounts, total, reverseFromRow = REVERSE_FROM_ROW } = hints;
+  const repl: Record<string, unknown> = {};
+  const where = entryWhere(view, viewer, scope, repl);
   // PostgreSQL's default null placement (last ascending, first descending) lets one (col, id)
   // index serve both directions; the id tie-break follows the first key's direction.
   const order = view.sort.length === 0
@@ -177,7 +185,8 @@ function entryQueries(view: LeaderboardView, viewer: Viewer, scope: ViewScope, r
     : [...view.sort.map((s) => `${ENTRY_SQL[s.column]} ${s.direction === 'asc' ? 'DESC' : 'ASC'}`), `e.id ${view.sort[0].direction === 'asc' ? 'DESC' : 'ASC'}`].join(', ');
   // The window is found on ids first: the sort indexes hold the visibility columns, so skipped
   // rows (deep offsets) are read from the index alone, and only the page's rows are fetched.
-  const ids = !isReversed && groupValues !== undefined && groupValues.length > 0 && groupValues.length <= GROUPED_MAX_VALUES
+  const deep = groupCounts === undefined ? null : groupWindow(view, groupCounts, where, repl, rows);
+  const ids = deep !== null ? deep : !isReversed && groupValues !== undefined && groupValues.length > 0 && groupValues.length <= GROUPED_MAX_VALUES
     ? groupedWindow(view, groupValues, where, repl)
     : `SELECT e.id FROM leaderboard_entries e ${whereSql(where)} ORDER BY ${isReversed ? reversed : order} LIMIT :limit OFFSET :offset`;
   const page = `WITH w AS (${ids})
@@ -233,6 +242,95 @@ function groupedWindow(view: LeaderboardView, values: readonly string[], where: 
   });
   return `SELECT t.id FROM (${branches.join(' UNION ALL ')}) t
     ORDER BY t.g, ${keys.map((k) => `t.${k.alias} ${k.dir}`).join(', ')}, t.id ${idDir} LIMIT :limit OFFSET :offset`;
+}
+
+/** Visible rows of one combination of values of a sort's few-valued leading columns; with the profile among them, one row per robot profile hash. */
+export interface GroupCount {
+  readonly v: readonly string[];
+  readonly h: string | null;
+  readonly n: number;
+}
+
+/** The sort's leading keys of few values (each in GROUPABLE). */
+const leadingGroups = (view: LeaderboardView) => {
+  const n = view.sort.findIndex((s) => GROUPABLE[s.column] === undefined);
+  return view.sort.slice(0, n === -1 ? view.sort.length : n);
+};
+
+/**
+ * For a deep window (past GROUPED_MAX_END) of a sort of several keys led by a column of few
+ * values, the query of the visible rows per combination of values of its leading few-valued
+ * columns (all of them, so that ties of a second few-valued key sorted against the id's
+ * direction are never sorted at length), in sort order; null otherwise. Without filters it sums
+ * `leaderboard_group_counts` (kept by the entries' triggers, migration 0403); with filters it
+ * groups the matching entries. `fromRow` (tests only) lowers the depth.
+ */
+export function groupCountsQuery(view: LeaderboardView, viewer: Viewer, scope: ViewScope, window: RowWindow, fromRow = GROUPED_MAX_END): SqlQuery | null {
+  const lead = leadingGroups(view);
+  if (view.layout !== 'entries' || view.sort.length < 2 || lead.length === 0 || window.end <= fromRow) return null;
+  const repl: Record<string, unknown> = {};
+  const isCounted = view.filters.length === 0;
+  const alias = isCounted ? 'g' : 'e';
+  const where = isCounted ? baseWhere(viewer, scope, repl, 'g') : entryWhere(view, viewer, scope, repl);
+  const cols = lead.map((s) => `${alias}.${GROUPABLE[s.column]}`);
+  // A profile group is found by its hashes, which the sort indexes carry (the label they do not).
+  const hash = lead.some((s) => s.column === 'profile') ? `${alias}.robot_profile_hash` : 'NULL::text';
+  const n = isCounted ? 'sum(g.entries)' : 'count(*)';
+  return {
+    sql: `SELECT ARRAY[${cols.map((c) => `${c}::text`).join(', ')}] AS v, ${hash} AS h, ${n}::int AS n
+      FROM ${isCounted ? 'leaderboard_group_counts g' : 'leaderboard_entries e'} ${whereSql(where)}
+      GROUP BY ${[...cols, hash].join(', ')} ORDER BY ${lead.map((s, i) => `${cols[i]} ${s.direction.toUpperCase()}`).join(', ')}, ${hash}`,
+    replacements: repl,
+  };
+}
+
+/**
+ * The window's ids group by group: the counts place the window's first and last row in their
+ * groups, and each group it covers pages its own rows on the next key's index (which carries the
+ * few-valued columns, so skipped rows are read from the index alone), counted off from the
+ * group's nearer end. Null when a profile hash has two labels (then the hashes cannot stand for the label).
+ */
+function groupWindow(view: LeaderboardView, counts: readonly GroupCount[], where: readonly string[], repl: Record<string, unknown>, rows: RowWindow): string | null {
+  const lead = leadingGroups(view);
+  const rest = view.sort.slice(lead.length);
+  const first = view.sort[0];
+  const profileAt = lead.findIndex((s) => s.column === 'profile');
+  const groups = new Map<string, { v: readonly string[]; n: number; hashes: string[] }>();
+  const labels = new Map<string, string>();
+  for (const c of counts) {
+    const key = c.v.join('\u0000');
+    const g = groups.get(key) ?? { v: c.v, n: 0, hashes: [] };
+    groups.set(key, { v: c.v, n: g.n + c.n, hashes: c.h === null ? g.hashes : [...g.hashes, c.h] });
+    if (c.h !== null) {
+      if ((labels.get(c.h) ?? c.v[profileAt]) !== c.v[profileAt]) return null;
+      labels.set(c.h, c.v[profileAt]);
+    }
+  }
+  const flip = (d: 'asc' | 'desc') => (d === 'asc' ? 'DESC' : 'ASC');
+  const forward = [...rest.map((s) => `${ENTRY_SQL[s.column]} ${s.direction.toUpperCase()}`), `e.id ${first.direction.toUpperCase()}`].join(', ');
+  const backward = [...rest.map((s) => `${ENTRY_SQL[s.column]} ${flip(s.direction)}`), `e.id ${flip(first.direction)}`].join(', ');
+  const branches: string[] = [];
+  let from = 0;
+  for (const g of groups.values()) {
+    const lo = Math.max(rows.start, from);
+    const hi = Math.min(rows.end, from + g.n);
+    if (lo < hi) {
+      const i = branches.length;
+      const skip = lo - from;
+      const after = from + g.n - hi;
+      const conds = lead.map((s, j) => {
+        const name = `g${i}_${j}`;
+        repl[name] = j === profileAt ? g.hashes : g.v[j];
+        return j === profileAt ? `e.robot_profile_hash IN (:${name})` : `e.${GROUPABLE[s.column]} = :${name}`;
+      });
+      repl[`gl${i}`] = hi - lo;
+      repl[`go${i}`] = Math.min(skip, after);
+      branches.push(`(SELECT e.id FROM leaderboard_entries e ${whereSql([...where, ...conds])}
+        ORDER BY ${after < skip ? backward : forward} LIMIT :gl${i} OFFSET :go${i})`);
+    }
+    from += g.n;
+  }
+  return branches.length > 0 ? branches.join(' UNION ALL ') : 'SELECT e.id FROM leaderboard_entries e WHERE FALSE';
 }
 
 /** The row count of an unfiltered entries view from `leaderboard_counts` (kept by the entries' triggers, migration 0402). */

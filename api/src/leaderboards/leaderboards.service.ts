@@ -11,7 +11,7 @@ import {
 import { PLAN_MODELS, type PlanModel, type RobotProfile } from '@shared/plan';
 import type { Viewer } from '../instance-sets/instance-set-access';
 import {
-  buildViewQueries, REVERSE_FROM_ROW, sortGroupsQuery, unfilteredCountQuery, type RowWindow, type SqlQuery, type ViewScope,
+  buildViewQueries, groupCountsQuery, REVERSE_FROM_ROW, sortGroupsQuery, unfilteredCountQuery, type GroupCount, type RowWindow, type SqlQuery, type ViewScope,
 } from './leaderboard-query';
 import { scopedEntries } from './scoped-entries';
 
@@ -30,11 +30,11 @@ type Row = Record<string, unknown>;
 const modelOrder = (m: string): number => PLAN_MODELS.indexOf(m as PlanModel);
 
 /**
- * The leaderboards service on one connection. `reverseFromRow` (tests only) lowers the depth from
- * which a page may be read from the far end of its view.
+ * The leaderboards service on one connection. `reverseFromRow` and `groupsFromRow` (tests only)
+ * lower the depth from which a page may be read from the far end of its view, or group by group.
  */
-export function createLeaderboardsService(deps: { readonly sequelize: Sequelize; readonly reverseFromRow?: number }): LeaderboardsService {
-  const { sequelize, reverseFromRow = REVERSE_FROM_ROW } = deps;
+export function createLeaderboardsService(deps: { readonly sequelize: Sequelize; readonly reverseFromRow?: number; readonly groupsFromRow?: number }): LeaderboardsService {
+  const { sequelize, reverseFromRow = REVERSE_FROM_ROW, groupsFromRow } = deps;
   const select = <T extends object = Row>(q: SqlQuery): Promise<T[]> => sequelize.query<T>(q.sql, { type: QueryTypes.SELECT, replacements: q.replacements });
 
   async function profiles(viewer: Viewer, scope: ViewScope): Promise<ProfileOption[]> {
@@ -50,12 +50,15 @@ export function createLeaderboardsService(deps: { readonly sequelize: Sequelize;
   return {
     async page(view, viewer, scope, window, isCounted = true) {
       // Small look-ups that shape the page query: a deep page of an unfiltered view needs its
-      // size (read from the far end when nearer), a sort led by a few-valued column its values.
-      const sized = window.start >= reverseFromRow ? unfilteredCountQuery(view, viewer, scope) : null;
-      const total = sized ? (await select<{ n: number }>(sized))[0].n : undefined;
+      // size (read from the far end when nearer), a sort led by a few-valued column its values
+      // (near the top) or its rows per value (deeper; they also add up to the row count).
+      const grouped = groupCountsQuery(view, viewer, scope, window, groupsFromRow);
+      const groupCounts = grouped ? await select<GroupCount>(grouped) : undefined;
+      const sized = !grouped && window.start >= reverseFromRow ? unfilteredCountQuery(view, viewer, scope) : null;
+      const total = sized ? (await select<{ n: number }>(sized))[0].n : groupCounts?.reduce((sum, g) => sum + g.n, 0);
       const groups = sortGroupsQuery(view, window);
       const groupValues = groups ? (await select<{ v: string }>(groups)).map((g) => g.v) : undefined;
-      const { page, count } = buildViewQueries(view, viewer, scope, window, { groupValues, total, reverseFromRow });
+      const { page, count } = buildViewQueries(view, viewer, scope, window, { groupValues, groupCounts, total, reverseFromRow });
       // Counting a large view costs as much as the page itself, so a grid asks for it once.
       const counted = !isCounted ? Promise.resolve([{ n: -1 }]) : total !== undefined ? Promise.resolve([{ n: total }]) : select<{ n: number }>(count);
       const [rows, [{ n }]] = await Promise.all([select(page), counted]);
