@@ -13,7 +13,12 @@ export function executionsRouter(svc: ExecutionsService): Router {
   r.use(requireRole('researcher'));
 
   r.post('/', async (req, res) => {
-    res.status(201).json(await svc.create(requireUser(req), req.body));
+    // A client that goes away (closed tab, new request from the viewer) cancels its computation.
+    const gone = new AbortController();
+    res.on('close', () => {
+      if (!res.writableFinished) gone.abort();
+    });
+    res.status(201).json(await svc.create(requireUser(req), req.body, gone.signal));
   });
 
   r.get('/:id', async (req, res) => {

@@ -25,7 +25,8 @@ import type { PlanExecution, PlanExecutionModel } from './plan-execution.model';
 /** The operations behind the executions routes. */
 export interface ExecutionsService {
   /** Validates the body, runs the simulation (solving first when no plan is sent) and stores it. */
-  create(owner: Express.User, body: unknown): Promise<ExecutionView>;
+  /** `signal` cancels the computation (the client went away); nothing is stored then. */
+  create(owner: Express.User, body: unknown, signal?: AbortSignal): Promise<ExecutionView>;
   /** One stored execution; 404 for an unknown id or one the viewer may not see. */
   get(viewer: Express.User, id: number): Promise<ExecutionView>;
 }
@@ -88,7 +89,7 @@ export function createExecutionsService(deps: ExecutionsServiceDeps): Executions
   }
 
   return {
-    async create(owner, body) {
+    async create(owner, body, signal) {
       const req = parseCreateExecution(body);
       if ('resultId' in req) {
         const stored = await loadResultPlan(models as Models, owner, req.resultId);
@@ -99,7 +100,7 @@ export function createExecutionsService(deps: ExecutionsServiceDeps): Executions
           policy: req.policy, noise: req.noise, seed: req.seed, runs: req.runs, onCollision: req.onCollision,
         };
         checkSize(instanceReq, loaded.instance);
-        const outcome = await runTask({ ...buildTask(instanceReq, loaded.instance), planOrigin: 'result' });
+        const outcome = await runTask({ ...buildTask(instanceReq, loaded.instance), planOrigin: 'result' }, signal);
         if (outcome.kind === 'refused') throw new AppError(outcome.code, outcome.status, outcome.message);
         const plan: StoredPlan = {
           source: {
@@ -120,7 +121,7 @@ export function createExecutionsService(deps: ExecutionsServiceDeps): Executions
       const resolved = await resolveInstance(owner, req.instance);
       checkSize(req, resolved.instance);
       const task = buildTask(req, resolved.instance);
-      const outcome = await runTask(task);
+      const outcome = await runTask(task, signal);
       if (outcome.kind === 'refused') throw new AppError(outcome.code, outcome.status, outcome.message);
       const plan: StoredPlan = {
         source: resolved.source,

@@ -83,4 +83,15 @@ describe('InteractivePool', () => {
     expect([err.status, err.code]).toEqual([503, 'COMPUTE_BUSY']);
     expect(((await first) as AppError).code).toBe('COMPUTE_TIME_LIMIT');
   }, 60_000);
+
+  it('cancels a job when its signal fires (a client that went away), long before the time limit', async () => {
+    pool = new InteractivePool({ threads: 1, timeLimitMs: 20_000, filename: SPIN });
+    await pool.warm();
+    const gone = new AbortController();
+    setTimeout(() => gone.abort(), 200);
+    const t0 = performance.now();
+    const err = await refusal(pool.execute(TASK, gone.signal));
+    expect(err.message).toContain('cancelled');
+    expect(performance.now() - t0).toBeLessThan(10_000);
+  }, 60_000);
 });
