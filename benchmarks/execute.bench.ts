@@ -11,11 +11,9 @@
 import { mkdirSync, writeFileSync } from 'node:fs';
 import { loadavg } from 'node:os';
 import { join } from 'node:path';
-import type { Heading, RobotProfile, ScheduledAction } from '../shared/plan';
+import type { RobotProfile } from '../shared/plan';
 import { simulateExecution, type ExecutionPolicy } from '../solvers/execute';
-import { gridFromRows } from '../solvers/grid/grid';
-import type { MapfInstance } from '../solvers/instance';
-import { createRng } from '../solvers/random';
+import { randomWalks } from '../solvers/execute/testing/random-walks';
 
 const ROBOTS = 50;
 const ACTIONS = 100;
@@ -25,47 +23,8 @@ const roundsArg = process.argv.indexOf('--rounds');
 const ROUNDS = roundsArg >= 0 ? Number(process.argv[roundsArg + 1]) : 5;
 if (!(Number.isInteger(ROUNDS) && ROUNDS >= 1)) throw new Error('--rounds must be a positive integer');
 const profile: RobotProfile = { forwardMs: 1000, quarterTurnMs: 1500, waitMs: 1000, cellPitchMm: 500, robotDiameterMm: 400, timingJitter: 0.1 };
-const DELTA: Record<Heading, [number, number]> = { N: [0, -1], E: [1, 0], S: [0, 1], W: [-1, 0] };
-const ORDER: Heading[] = ['N', 'E', 'S', 'W'];
 
-function generate(seed: number): { instance: MapfInstance; schedule: ScheduledAction[][] } {
-  const rng = createRng(seed);
-  const grid = gridFromRows(Array.from({ length: SIDE }, () => Array(SIDE).fill(1)));
-  const schedule: ScheduledAction[][] = [];
-  const agents = [];
-  for (let r = 0; r < ROBOTS; r++) {
-    let x = 2 + (r % 10) * 6;
-    let y = 2 + Math.floor(r / 10) * 12;
-    const start = y * SIDE + x;
-    let heading: Heading = ORDER[rng.int(4)];
-    let now = 0;
-    const list: ScheduledAction[] = [];
-    for (let k = 0; k < ACTIONS; k++) {
-      const u = rng.next();
-      const [dx, dy] = DELTA[heading];
-      const canMove = x + dx >= 0 && y + dy >= 0 && x + dx < SIDE && y + dy < SIDE;
-      let a: ScheduledAction;
-      if (u < 0.6 && canMove) {
-        a = { action: 'forward', from: [x, y], to: [x + dx, y + dy], heading, start: now, end: now + profile.forwardMs, step: k };
-        x += dx;
-        y += dy;
-      } else if (u < 0.9) {
-        const isRight = rng.next() < 0.5;
-        heading = ORDER[(ORDER.indexOf(heading) + (isRight ? 1 : 3)) % 4];
-        a = { action: isRight ? 'turn-right' : 'turn-left', from: [x, y], to: [x, y], heading, start: now, end: now + profile.quarterTurnMs, step: k };
-      } else {
-        a = { action: 'wait', from: [x, y], to: [x, y], heading, start: now, end: now + profile.waitMs, step: k };
-      }
-      now = a.end;
-      list.push(a);
-    }
-    schedule.push(list);
-    agents.push({ start, goal: y * SIDE + x });
-  }
-  return { instance: { grid, agents }, schedule };
-}
-
-const { instance, schedule } = generate(2024);
+const { instance, schedule } = randomWalks(2024, { robots: ROBOTS, actions: ACTIONS, side: SIDE, spacing: 6, profile, stopsEarly: false });
 const results: Record<string, unknown>[] = [];
 console.log(`execution simulator: ${ROBOTS} robots × ${ACTIONS} actions, ${RUNS} runs, jitter cv 0.1, stalls 2 % × 2 s; ${ROUNDS} rounds per policy`);
 console.log(`load average before: ${loadavg().map((l) => l.toFixed(2)).join(' ')}`);

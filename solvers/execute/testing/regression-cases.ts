@@ -5,11 +5,10 @@
  * and a digest of a batch's per-run metrics so any drift in any run shows.
  */
 import { createHash } from 'node:crypto';
-import type { Heading, RobotProfile, ScheduledAction } from '@shared/plan';
-import { gridFromRows } from '../../grid/grid';
+import type { RobotProfile } from '@shared/plan';
 import type { MapfInstance } from '../../instance';
-import { createRng } from '../../random';
 import type { ExecutablePlan, ExecutionOptions, ExecutionSummary } from '../execution-types';
+import { randomWalks } from './random-walks';
 
 /** One pinned batch. */
 export interface RegressionCase {
@@ -20,46 +19,9 @@ export interface RegressionCase {
   readonly options: ExecutionOptions;
 }
 
-const DELTA: Record<Heading, [number, number]> = { N: [0, -1], E: [1, 0], S: [0, 1], W: [-1, 0] };
-const ORDER: Heading[] = ['N', 'E', 'S', 'W'];
-
-/** Seeded random walks (forward 60 %, quarter turns 30 %, waits), robots on a lattice `spacing` apart; every third robot stops early. */
+/** The walks of the pinned batches: every third robot stops early. */
 function walks(seed: number, robots: number, actions: number, side: number, spacing: number, profile: RobotProfile) {
-  const rng = createRng(seed);
-  const grid = gridFromRows(Array.from({ length: side }, () => Array(side).fill(1)));
-  const schedule: ScheduledAction[][] = [];
-  const agents = [];
-  for (let r = 0; r < robots; r++) {
-    let x = 2 + (r % 10) * spacing;
-    let y = 2 + Math.floor(r / 10) * spacing * 2;
-    const start = y * side + x;
-    let heading: Heading = ORDER[rng.int(4)];
-    let now = 0;
-    const list: ScheduledAction[] = [];
-    const n = actions - (r % 3 === 0 ? rng.int(actions) : 0);
-    for (let k = 0; k < n; k++) {
-      const u = rng.next();
-      const [dx, dy] = DELTA[heading];
-      const canMove = x + dx >= 0 && y + dy >= 0 && x + dx < side && y + dy < side;
-      let a: ScheduledAction;
-      if (u < 0.6 && canMove) {
-        a = { action: 'forward', from: [x, y], to: [x + dx, y + dy], heading, start: now, end: now + profile.forwardMs, step: k };
-        x += dx;
-        y += dy;
-      } else if (u < 0.9) {
-        const isRight = rng.next() < 0.5;
-        heading = ORDER[(ORDER.indexOf(heading) + (isRight ? 1 : 3)) % 4];
-        a = { action: isRight ? 'turn-right' : 'turn-left', from: [x, y], to: [x, y], heading, start: now, end: now + profile.quarterTurnMs, step: k };
-      } else {
-        a = { action: 'wait', from: [x, y], to: [x, y], heading, start: now, end: now + profile.waitMs, step: k };
-      }
-      now = a.end;
-      list.push(a);
-    }
-    schedule.push(list);
-    agents.push({ start, goal: y * side + x });
-  }
-  return { instance: { grid, agents } as MapfInstance, schedule };
+  return randomWalks(seed, { robots, actions, side, spacing, profile, stopsEarly: true });
 }
 
 const base: RobotProfile = { forwardMs: 1000, quarterTurnMs: 1500, waitMs: 1000, cellPitchMm: 500, robotDiameterMm: 400, timingJitter: 0.1 };
