@@ -193,7 +193,8 @@ function entryQueries(view: LeaderboardView, viewer: Viewer, scope: ViewScope, r
     SELECT e.id, e.scenario_id, e.agents, e.robot_profile_hash, e.result_id, e.robot_profile,
       ${view.columns.filter((c) => c !== 'profile').map((c) => `${ENTRY_SQL[c]} AS "${c}"`).join(', ') || 'NULL AS none'}
     FROM w JOIN leaderboard_entries e ON e.id = w.id ORDER BY ${order}`;
-  const count = view.filters.length === 0 ? countsQuery(viewer, scope, repl) : `SELECT count(*)::int AS n FROM leaderboard_entries e ${whereSql(where)}`;
+  const count = view.filters.length === 0 ? countsQuery(viewer, scope, repl)
+    : groupedCountQuery(view, viewer, scope, repl) ?? `SELECT count(*)::int AS n FROM leaderboard_entries e ${whereSql(where)}`;
   return { page: { sql: page, replacements: repl }, count: { sql: count, replacements: repl } };
 }
 
@@ -331,6 +332,19 @@ function groupWindow(view: LeaderboardView, counts: readonly GroupCount[], where
     from += g.n;
   }
   return branches.length > 0 ? branches.join(' UNION ALL ') : 'SELECT e.id FROM leaderboard_entries e WHERE FALSE';
+}
+
+/**
+ * The row count of a view whose filters are all on few-valued columns, summed from
+ * `leaderboard_group_counts` (migration 0403) instead of counting up to every entry; null otherwise.
+ */
+function groupedCountQuery(view: LeaderboardView, viewer: Viewer, scope: ViewScope, repl: Record<string, unknown>): string | null {
+  if (!view.filters.every((f) => GROUPABLE[f.column] !== undefined)) return null;
+  const where = baseWhere(viewer, scope, repl, 'g');
+  for (const f of view.filters) {
+    where.push(fewValuesFilter(f, 'leaderboard_group_counts', 'g', repl) ?? filterCondition(f, `g.${GROUPABLE[f.column]}`, repl));
+  }
+  return `SELECT coalesce(sum(g.entries), 0)::int AS n FROM leaderboard_group_counts g ${whereSql(where)}`;
 }
 
 /** The row count of an unfiltered entries view from `leaderboard_counts` (kept by the entries' triggers, migration 0402). */
