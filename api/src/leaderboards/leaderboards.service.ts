@@ -10,9 +10,9 @@ import {
 } from '@shared/leaderboards';
 import { PLAN_MODELS, type PlanModel, type RobotProfile } from '@shared/plan';
 import type { Viewer } from '../instance-sets/instance-set-access';
-import {
-  buildViewQueries, groupCountsQuery, REVERSE_FROM_ROW, sortGroupsQuery, unfilteredCountQuery, type GroupCount, type RowWindow, type SqlQuery, type ViewScope,
-} from './leaderboard-query';
+import { groupCountsQuery, sortGroupsQuery, type GroupCount } from './grouped-sort';
+import { buildViewQueries, REVERSE_FROM_ROW, unfilteredCountQuery } from './leaderboard-query';
+import type { RowWindow, SqlQuery, ViewScope } from './view-sql';
 import { scopedEntries } from './scoped-entries';
 
 /** The leaderboard read service. */

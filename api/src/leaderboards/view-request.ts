@@ -1,7 +1,7 @@
 /** Reads a board view, its scope and its row window from a request's query string (400 on a bad parameter). */
 import { parseView, ViewParamError, type LeaderboardView } from '@shared/leaderboards';
 import { AppError } from '../errors/app-error';
-import type { RowWindow, ViewScope } from './leaderboard-query';
+import type { RowWindow, ViewScope } from './view-sql';
 
 /** Largest page the grid may ask for. */
 export const MAX_PAGE_ROWS = 500;
