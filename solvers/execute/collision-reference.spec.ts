@@ -56,20 +56,30 @@ const arbitraryCase = fc.record({
   run: fc.integer({ min: 0, max: 5 }),
 });
 
+/** A case's walks, disk size and turn-inclusive plan, and the brute-force overlaps of a realised run of it; null when no walk fits. */
+function caseSetup(k: { seed: number; side: number; robots: number; steps: number; ratio: number }) {
+  const walk = randomWalks(k.seed, k.side, k.robots, k.steps);
+  if (!walk) return null;
+  const profile = { ...base, robotDiameterMm: base.cellPitchMm * k.ratio };
+  const ts = scheduleFromPaths(walk.instance, walk.paths, profile, { startHeading: 'free', stretch: 'none' });
+  const plan = { timeline: 'steps' as const, schedule: ts.schedule };
+  const starts = walk.instance.agents.map((a): CellXY => [a.start % k.side, Math.floor(a.start / k.side)]);
+  const reference = (robots: Parameters<typeof bruteForceOverlaps>[0]) =>
+    bruteForceOverlaps(robots, starts, profile.cellPitchMm, profile.robotDiameterMm - SLACK_MM, MERGE_MS);
+  return { walk, profile, plan, reference };
+}
+
 describe('collision check against a brute-force reference (all pairs, all intervals, exact)', () => {
   it('both broadphases report exactly the overlaps of the reference, when collisions are only counted', () => {
     let seen = 0;
     fc.assert(
       fc.property(arbitraryCase, (k) => {
-        const walk = randomWalks(k.seed, k.side, k.robots, k.steps);
-        if (!walk) return;
-        const profile = { ...base, robotDiameterMm: base.cellPitchMm * k.ratio };
-        const ts = scheduleFromPaths(walk.instance, walk.paths, profile, { startHeading: 'free', stretch: 'none' });
-        const plan = { timeline: 'steps' as const, schedule: ts.schedule };
+        const setup = caseSetup(k);
+        if (!setup) return;
+        const { walk, profile, plan } = setup;
         const options = { policy: k.policy, seed: k.seed, noise: { jitterCv: k.jitterCv, stallProbability: k.stallProbability, stallMs: 700 } };
         const timeline = realisedTimeline(walk.instance, plan, profile, options, k.run);
-        const starts = walk.instance.agents.map((a): CellXY => [a.start % k.side, Math.floor(a.start / k.side)]);
-        const reference = bruteForceOverlaps(timeline.robots, starts, profile.cellPitchMm, profile.robotDiameterMm - SLACK_MM, MERGE_MS);
+        const reference = setup.reference(timeline.robots);
         seen += reference.length;
 
         const runner = new ExecutionRunner(walk.instance, plan, profile, options);
@@ -90,18 +100,15 @@ describe('collision check against a brute-force reference (all pairs, all interv
     let recorded = 0;
     fc.assert(
       fc.property(arbitraryCase, (k) => {
-        const walk = randomWalks(k.seed, k.side, k.robots, k.steps);
-        if (!walk) return;
-        const profile = { ...base, robotDiameterMm: base.cellPitchMm * k.ratio };
-        const ts = scheduleFromPaths(walk.instance, walk.paths, profile, { startHeading: 'free', stretch: 'none' });
-        const plan = { timeline: 'steps' as const, schedule: ts.schedule };
+        const setup = caseSetup(k);
+        if (!setup) return;
+        const { walk, profile, plan } = setup;
         const options = {
           policy: k.policy, seed: k.seed, onCollision: 'stop' as const,
           noise: { jitterCv: k.jitterCv, stallProbability: k.stallProbability, stallMs: 700 },
         };
         const timeline = realisedTimeline(walk.instance, plan, profile, options, k.run);
-        const starts = walk.instance.agents.map((a): CellXY => [a.start % k.side, Math.floor(a.start / k.side)]);
-        const reference = bruteForceOverlaps(timeline.robots, starts, profile.cellPitchMm, profile.robotDiameterMm - SLACK_MM, MERGE_MS);
+        const reference = setup.reference(timeline.robots);
         // A robot already at its goal has no action to carry its stop time: read it from the runner.
         const runner = new ExecutionRunner(walk.instance, plan, profile, options);
         runner.run(k.run);
