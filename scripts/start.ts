@@ -14,6 +14,7 @@ import { seedDemo } from '../api/src/demo/seed-demo';
 import { startFakeSmtp } from '../api/src/dev/fake-smtp/fake-smtp-server';
 import { createLogger } from '../api/src/http/logger';
 import { onShutdownSignals, type ShutdownStep } from '../api/src/lifecycle/on-shutdown';
+import { surviveLostConnections } from '../api/src/lifecycle/survive-lost-connections';
 import { startEmbeddedWorker } from '../api/src/workers/embedded-worker';
 import { warmInteractivePool } from '../api/src/workers/interactive-pool';
 import { startCluster, type PgCluster } from './postgres';
@@ -39,6 +40,7 @@ async function main(): Promise<void> {
   process.chdir(ROOT);
   const { config, warnings } = loadConfig();
   const logger = createLogger(config.logLevel);
+  surviveLostConnections(logger);
   for (const w of warnings) logger.warn(w);
   const steps: ShutdownStep[] = [];
   let cluster: PgCluster | undefined;

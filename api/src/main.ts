@@ -7,12 +7,14 @@ import { loadConfig } from './config';
 import { migrate } from './db/migrate';
 import { createLogger } from './http/logger';
 import { onShutdownSignals } from './lifecycle/on-shutdown';
+import { surviveLostConnections } from './lifecycle/survive-lost-connections';
 import { startEmbeddedWorker } from './workers/embedded-worker';
 import { warmInteractivePool } from './workers/interactive-pool';
 
 async function main(): Promise<void> {
   const { config, warnings } = loadConfig();
   const logger = createLogger(config.logLevel);
+  surviveLostConnections(logger);
   for (const w of warnings) logger.warn(w);
   if (!config.databaseUrl) throw new Error('DATABASE_URL is required (or use `npm start` for a private development database)');
   await migrate(config.databaseUrl);

@@ -145,13 +145,48 @@ describe('sweeps across a PostgreSQL restart', () => {
       const { setId } = await uploadSet(s, 'restart grid', ['empty-16-16.map', 'empty-16-16-even-1.scen', 'empty-16-16-even-2.scen']);
       const sweep = await launchSweep(s, steadyRuns(setId, 'restart test'));
       await waitUntil(async () => (await runLedger(s, sweep.id)).filter((r) => r.status === 'solved').length >= 2, 60_000, 'two runs done');
+      // Hold the queue's job table until the worker has recorded a run and waits to complete its
+      // job, then end that session: the connection is lost under pg-boss's complete(), which
+      // pg-boss does not await; then PostgreSQL restarts. A lock that caught a fetch or a
+      // maintenance query instead is let go and taken again. The waiters are read from a second
+      // session: pg_stat_activity is a snapshot per transaction, so the lock holder would not see them.
+      const [blocker, observer] = [new Client({ connectionString: url }), new Client({ connectionString: url })];
+      for (const c of [blocker, observer]) {
+        c.on('error', () => undefined);
+        await c.connect();
+      }
+      const waiting = async () => (await observer.query<{ pid: number; query: string }>(
+        "SELECT pid, query FROM pg_stat_activity WHERE state = 'active' AND wait_event_type = 'Lock' AND application_name = 'pgboss'")).rows;
+      await waitUntil(async () => {
+        await blocker.query('BEGIN');
+        await blocker.query('LOCK TABLE pgboss.job IN ACCESS EXCLUSIVE MODE');
+        await waitUntil(async () => (await waiting()).length > 0, 30_000, 'a queue query waiting on the lock');
+        const completing = (await waiting()).find((r) => r.query.includes('completed_on = now()'));
+        if (completing) {
+          // Its session goes first (as in a shutdown), while the lock still holds it back.
+          await observer.query('SELECT pg_terminate_backend($1)', [completing.pid]);
+          return true;
+        }
+        await blocker.query('ROLLBACK');
+        await new Promise((r) => setTimeout(r, 20 + Math.random() * 200));
+        return false;
+      }, 60_000, "the worker waiting to complete a recorded run's job");
+      await observer.end();
       cluster.stop();
       await new Promise((r) => setTimeout(r, 2000));
       cluster = startCluster(dataDir, port, { isThrowaway: true, log: () => undefined });
-      expect(await waitForSweep(s, sweep.id, 90_000)).toBe('finished');
+      const status = await waitForSweep(s, sweep.id, 90_000).catch((err: Error) => {
+        throw new Error(`${err.message}; worker ${worker.child.exitCode === null ? 'alive' : `exited ${worker.child.exitCode}`}, its output:\n${worker.output().slice(-3000)}`);
+      });
+      expect(status).toBe('finished');
+      // The worker lived through the restart (it did not need a new process to finish), having
+      // met the lost connection in pg-boss's unawaited complete() (lifecycle/survive-lost-connections.ts).
+      expect(worker.child.exitCode).toBeNull();
+      expect(worker.output()).toContain('database connection lost in a background step');
       const ledger = await runLedger(s, sweep.id);
       expect(ledger).toHaveLength(12);
       expect(ledger.every((r) => r.status === 'solved' && Number(r.results) === 1)).toBe(true);
+      await blocker.end().catch(() => undefined);
     } finally {
       await worker.stop('SIGKILL');
       await s.close().catch(() => undefined);

@@ -1,6 +1,6 @@
 /** Retries a database step through a lost connection (e.g. PostgreSQL restarting) instead of failing the job. */
 
-const CONNECTION_ERROR = /ECONNREFUSED|ECONNRESET|terminat|Connection terminated|the database system is (starting up|shutting down)|connect ETIMEDOUT|57P01|57P03|SequelizeConnection/i;
+const CONNECTION_ERROR = /ECONNREFUSED|ECONNRESET|terminat|Connection terminated|the database system is (starting up|shutting down)|connect ETIMEDOUT|57P01|57P03|SequelizeConnection|not queryable/i;
 
 /** Whether `err` looks like a lost or refused connection rather than a bad statement. */
 export function isConnectionError(err: unknown): boolean {

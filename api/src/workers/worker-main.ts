@@ -4,6 +4,7 @@
  * which finishes the running ones first (a second signal stops at once; those runs are retried).
  */
 import { createLogger } from '../http/logger';
+import { surviveLostConnections } from '../lifecycle/survive-lost-connections';
 import { createMailer } from '../mail/mailer';
 import { startSweepWorker } from './sweep-worker';
 import { loadWorkerConfig } from './worker-config';
@@ -11,6 +12,7 @@ import { loadWorkerConfig } from './worker-config';
 async function main(): Promise<void> {
   const config = loadWorkerConfig();
   const logger = createLogger(config.logLevel);
+  surviveLostConnections(logger);
   const mailer = config.smtpUrl ? createMailer(config.smtpUrl) : undefined;
   const worker = await startSweepWorker({
     databaseUrl: config.databaseUrl, threads: config.threads, logger, mailer, publicUrl: config.publicUrl,
