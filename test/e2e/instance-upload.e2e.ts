@@ -5,7 +5,7 @@
  * viewer, whose canvas draws the map and reads out the cell under the pointer.
  */
 import { join } from 'node:path';
-import type { Page } from 'playwright-core';
+import type { Locator, Page } from 'playwright-core';
 import { buildZip, datasetBytes } from '../integration/instance-library-support';
 import { launchBrowser, type E2eBrowser } from './support/browser';
 import { bootServer, type E2eServer } from './support/server';
@@ -13,6 +13,23 @@ import { demoIdentity, signInThroughUi } from './support/sign-in';
 
 const DATASET = join(__dirname, '../../../shared/datasets/grid-benchmarks');
 const researcher = demoIdentity('researcher');
+
+/** The element's box once it has kept the same size and place over 300 ms (up to 10 s). */
+async function settledBox(target: Locator): Promise<{ x: number; y: number; width: number; height: number }> {
+  const until = Date.now() + 10_000;
+  let last = '';
+  let same = 0;
+  for (;;) {
+    const box = await target.boundingBox();
+    if (!box) throw new Error('the element has no box');
+    const key = JSON.stringify(box);
+    same = key === last ? same + 1 : 0;
+    if (same >= 3) return box;
+    if (Date.now() > until) throw new Error(`the element's box kept changing (last ${key})`);
+    last = key;
+    await new Promise((r) => setTimeout(r, 100));
+  }
+}
 
 describe('uploading and viewing instance files in the browser', () => {
   let server: E2eServer;
@@ -118,14 +135,17 @@ describe('uploading and viewing instance files in the browser', () => {
     // Row 1 of the file: its start cell, hovered, says so.
     const first = datasetBytes('room-32-32-4-even-1.scen').toString('utf8').split('\n')[1].split('\t').map(Number);
     const [sx, sy] = [first[4], first[5]];
-    const box = await page.getByRole('img', { name: /Map of 32 by 32 cells/ }).boundingBox();
-    if (!box) throw new Error('the canvas has no box');
+    // The layout moves while the overlay's controls and rows come in (measured: the canvas box
+    // changed height by ~180 px after the k field was filled); aim only once it has settled.
+    const box = await settledBox(page.getByRole('img', { name: /Map of 32 by 32 cells/ }));
     const scale = Math.min((box.width - 16) / 32, (box.height - 16) / 32);
     const left = box.x + (box.width - 32 * scale) / 2;
     const top = box.y + (box.height - 32 * scale) / 2;
     await page.mouse.move(left + (sx + 0.5) * scale, top + (sy + 0.5) * scale);
     await page.waitForFunction((want) => document.querySelector('[data-testid=hover-readout]')?.textContent?.includes(want) ?? false, `x ${sx}, y ${sy}`);
-    expect(await page.getByTestId('hover-readout').innerText()).toContain('start of agent 1');
+    // The overlay reaches the readout once the scenario's rows are loaded.
+    await page.waitForFunction(() => document.querySelector('[data-testid=hover-readout]')?.textContent?.includes('start of agent 1') ?? false);
+    expect(await page.getByTestId('hover-readout').innerText()).toMatch(new RegExp(`x ${sx}, y ${sy}.*start of agent 1`));
   });
 
   it('raised no script error', () => {
