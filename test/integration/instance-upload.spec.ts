@@ -209,8 +209,9 @@ describe('instance library uploads', () => {
     it('refuses files of other kinds and names with folders or parent segments', async () => {
       // fetch's FormData keeps the file name as given (supertest's form-data would shorten it).
       const form = new FormData();
-      form.append('files', new Blob([text('hello')]), 'notes.txt');
-      form.append('files', new Blob([datasetBytes('empty-8-8.map')]), '../escape.map');
+      // Plain-ArrayBuffer copies: DOM's Blob typing refuses a Buffer (it may view a SharedArrayBuffer).
+      form.append('files', new Blob([new Uint8Array(text('hello'))]), 'notes.txt');
+      form.append('files', new Blob([new Uint8Array(datasetBytes('empty-8-8.map'))]), '../escape.map');
       const res = await owner.request(`/api/instance-sets/${setId}/files`, { method: 'POST', body: form });
       expect(res.status).toBe(400);
       expect(problemsOf(await res.json()).map((p) => [p.file, p.message])).toEqual([
