@@ -39,7 +39,7 @@ module.exports = {
   globalSetup: '<rootDir>/test/support/global-setup.ts',
   globalTeardown: '<rootDir>/test/support/global-teardown.ts',
   projects: [
-    nodeProject('solvers', ['<rootDir>/solvers'], ['**/*.spec.ts']),
+    nodeProject('solvers', ['<rootDir>/solvers', '<rootDir>/benchmarks'], ['**/*.spec.ts']),
     nodeProject('shared', ['<rootDir>/shared'], ['**/*.spec.ts']),
     nodeProject('api', ['<rootDir>/api', '<rootDir>/scripts'], ['**/*.spec.ts']),
     nodeProject('integration', ['<rootDir>/test/integration'], ['**/*.spec.ts']),

@@ -1,6 +1,6 @@
 /**
  * Solver benchmark: optimal classic CBS over the open benchmark files in
- * ../shared/datasets/grid-benchmarks (read in place). Prints one line per run, a summary per
+ * benchmarks/datasets/grid-benchmarks (read in place). Prints one line per run, a summary per
  * map and agent count (solved, median and max runtime, CT nodes expanded, low-level expansions
  * per second) and writes everything to benchmarks/results/solver.json.
  *
@@ -26,9 +26,10 @@ import { PLAN_MODELS, type PlanModel, type StartHeading } from '../shared/plan';
 import { DEFAULT_ROBOT_PROFILE } from '../solvers/models/heading-schedule';
 import { isPlanModel, solveModel } from '../solvers/models/solve-model';
 import type { CbsSwitches } from '../solvers/search/cbs-types';
+import { OPEN_GRID_BENCHMARKS_DIR } from './datasets/open-grid-benchmarks';
 
 const root = join(__dirname, '..');
-const dataset = join(root, '..', 'shared', 'datasets', 'grid-benchmarks');
+const dataset = OPEN_GRID_BENCHMARKS_DIR;
 
 const { values } = parseArgs({
   options: {

@@ -1,14 +1,15 @@
 /// <reference types="node" />
 /**
  * Runs the execute CLI as a user would (a child process) on the open grid benchmark files
- * (../shared/datasets/grid-benchmarks/, read in place; Sturtevant 2012 and Stern et al. 2019,
+ * (benchmarks/datasets/grid-benchmarks/, read in place; Sturtevant 2012 and Stern et al. 2019,
  * see the dataset README).
  */
 import { spawnSync } from 'node:child_process';
 import { join, resolve } from 'node:path';
+import { OPEN_GRID_BENCHMARKS_DIR } from '../../benchmarks/datasets/open-grid-benchmarks';
 
 const ROOT = resolve(__dirname, '../..');
-const DATASET = resolve(ROOT, '../shared/datasets/grid-benchmarks');
+const DATASET = OPEN_GRID_BENCHMARKS_DIR;
 const TSX = join(ROOT, 'node_modules/.bin/tsx');
 const execute = (...args: string[]) => spawnSync(TSX, ['solvers/cli/execute.ts', ...args], { cwd: ROOT, encoding: 'utf8' });
 const files = ['--map', join(DATASET, 'empty-8-8.map'), '--scen', join(DATASET, 'empty-8-8-even-2.scen'), '--agents', '6'];

@@ -1,16 +1,17 @@
 /// <reference types="node" />
 /**
  * Runs the inspect CLI as a user would (a child process) on the open grid benchmark files
- * (../shared/datasets/grid-benchmarks/, read in place; Sturtevant 2012 and Stern et al. 2019,
+ * (benchmarks/datasets/grid-benchmarks/, read in place; Sturtevant 2012 and Stern et al. 2019,
  * see the dataset README) and on broken files of our own.
  */
 import { spawnSync } from 'node:child_process';
 import { mkdtempSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
+import { OPEN_GRID_BENCHMARKS_DIR } from '../../benchmarks/datasets/open-grid-benchmarks';
 
 const ROOT = resolve(__dirname, '../..');
-const DATASET = resolve(ROOT, '../shared/datasets/grid-benchmarks');
+const DATASET = OPEN_GRID_BENCHMARKS_DIR;
 // The local tsx binary is what `npx tsx` resolves to; calling it directly skips npx's start-up.
 const TSX = join(ROOT, 'node_modules/.bin/tsx');
 const inspect = (...files: string[]) => {
@@ -31,12 +32,14 @@ describe('npm run inspect', () => {
     expect(status).toBe(0);
     expect(out).toHaveLength(files.length);
     expect(out.every((r: { ok: boolean; errors: unknown[] }) => r.ok && r.errors.length === 0)).toBe(true);
-    // Values read off the dataset files themselves: den312d is 65 wide, 81 high with 2445 '.' cells.
-    expect(out.find((r: { file: string }) => r.file.endsWith('den312d.map'))).toEqual({
-      file: join(DATASET, 'den312d.map'), kind: 'map', ok: true, width: 65, height: 81, passable: 2445, errors: [],
+    expect(files).toHaveLength(49);
+    // Values read off the dataset files themselves: the warehouse map is 161 wide, 63 high with 5699 '.' cells,
+    // and its even-1 scenario has 450 rows.
+    expect(out.find((r: { file: string }) => r.file.endsWith('warehouse-10-20-10-2-1.map'))).toEqual({
+      file: join(DATASET, 'warehouse-10-20-10-2-1.map'), kind: 'map', ok: true, width: 161, height: 63, passable: 5699, errors: [],
     });
-    expect(out.find((r: { file: string }) => r.file.endsWith('den312d-even-1.scen'))).toEqual({
-      file: join(DATASET, 'den312d-even-1.scen'), kind: 'scenario', ok: true, width: 65, height: 81, rows: 290, errors: [],
+    expect(out.find((r: { file: string }) => r.file.endsWith('warehouse-10-20-10-2-1-even-1.scen'))).toEqual({
+      file: join(DATASET, 'warehouse-10-20-10-2-1-even-1.scen'), kind: 'scenario', ok: true, width: 161, height: 63, rows: 450, errors: [],
     });
   });
 

@@ -1,7 +1,7 @@
 /// <reference types="node" />
 /**
  * Runs the solve CLI as a user would (a child process) on the open grid benchmark files
- * (../shared/datasets/grid-benchmarks/, read in place; Sturtevant 2012 and Stern et al. 2019,
+ * (benchmarks/datasets/grid-benchmarks/, read in place; Sturtevant 2012 and Stern et al. 2019,
  * see the dataset README) and checks the JSON contract other tools rely on.
  */
 import { spawnSync } from 'node:child_process';
@@ -14,9 +14,10 @@ import type { Heading } from '../../shared/plan';
 import { validateClassicPlan } from '../validate/classic';
 import { validateKRobustPlan } from '../validate/k-robust';
 import { validateOrientationPlan } from '../validate/orientation-split';
+import { OPEN_GRID_BENCHMARKS_DIR } from '../../benchmarks/datasets/open-grid-benchmarks';
 
 const ROOT = resolve(__dirname, '../..');
-const DATASET = resolve(ROOT, '../shared/datasets/grid-benchmarks');
+const DATASET = OPEN_GRID_BENCHMARKS_DIR;
 // The local tsx binary is what `npx tsx` resolves to; calling it directly skips npx's start-up.
 const TSX = join(ROOT, 'node_modules/.bin/tsx');
 const solve = (...args: string[]) => spawnSync(TSX, ['solvers/cli/solve.ts', ...args], { cwd: ROOT, encoding: 'utf8' });

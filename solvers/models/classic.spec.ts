@@ -14,6 +14,7 @@ import { createRng } from '../random';
 import { type CbsSwitches, DEFAULT_SWITCHES, PLAIN_CBS_SWITCHES, SWITCH_NAMES } from '../search/cbs-types';
 import { validateClassicPlan } from '../validate/classic';
 import { solveClassic } from './classic';
+import { OPEN_GRID_BENCHMARKS_DIR } from '../../benchmarks/datasets/open-grid-benchmarks';
 
 // ------------------------------------------------------------------ the oracle (test-only code)
 
@@ -273,8 +274,8 @@ describe('solveClassic', () => {
   });
 
   it('solves the open benchmark empty-8-8 with 8 agents to a valid optimal plan identical under plain CBS', () => {
-    // Open dataset (Stern et al., SoCS 2019; Sturtevant, IEEE TCIAIG 2012): ../shared/datasets/grid-benchmarks.
-    const dir = join(__dirname, '../../../shared/datasets/grid-benchmarks');
+    // Open dataset (Stern et al., SoCS 2019; Sturtevant, IEEE TCIAIG 2012): benchmarks/datasets/grid-benchmarks.
+    const dir = OPEN_GRID_BENCHMARKS_DIR;
     const map = parseMap(readFileSync(join(dir, 'empty-8-8.map'), 'utf8'));
     const scen = parseScenario(readFileSync(join(dir, 'empty-8-8-even-1.scen'), 'utf8'));
     if (!map.ok || !scen.ok) throw new Error('dataset files did not parse');
@@ -332,7 +333,7 @@ describe('solveClassic', () => {
   });
 
   it('honours the time limit through the injected clock and an abort signal', () => {
-    const dir = join(__dirname, '../../../shared/datasets/grid-benchmarks');
+    const dir = OPEN_GRID_BENCHMARKS_DIR;
     const map = parseMap(readFileSync(join(dir, 'random-32-32-20.map'), 'utf8'));
     const scen = parseScenario(readFileSync(join(dir, 'random-32-32-20-even-1.scen'), 'utf8'));
     if (!map.ok || !scen.ok) throw new Error('dataset files did not parse');

@@ -20,6 +20,7 @@ import { validateClassicPlan } from '../validate/classic';
 import { validateKRobustPlan } from '../validate/k-robust';
 import { solveClassic } from './classic';
 import { solveKRobust } from './k-robust';
+import { OPEN_GRID_BENCHMARKS_DIR } from '../../benchmarks/datasets/open-grid-benchmarks';
 
 /** A seeded tiny instance: a w × h map with ~15 % walls and `agents` distinct starts and goals. */
 function tinyRandom(seed: number, w: number, h: number, agents: number): MapfInstance | null {
@@ -36,7 +37,7 @@ function tinyRandom(seed: number, w: number, h: number, agents: number): MapfIns
 
 function dataset(name: string, scen: string, agents: number): MapfInstance {
   // Open dataset (Stern et al., SoCS 2019; Sturtevant, IEEE TCIAIG 2012), read in place.
-  const dir = join(__dirname, '../../../shared/datasets/grid-benchmarks');
+  const dir = OPEN_GRID_BENCHMARKS_DIR;
   const map = parseMap(readFileSync(join(dir, `${name}.map`), 'utf8'));
   const sc = parseScenario(readFileSync(join(dir, `${scen}.scen`), 'utf8'));
   if (!map.ok || !sc.ok) throw new Error('dataset files did not parse');

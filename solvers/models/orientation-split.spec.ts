@@ -21,6 +21,7 @@ import { validateOrientationPlan } from '../validate/orientation-split';
 import { solveClassic } from './classic';
 import { solveOrientationSplit } from './orientation-split';
 import { solveModel } from './solve-model';
+import { OPEN_GRID_BENCHMARKS_DIR } from '../../benchmarks/datasets/open-grid-benchmarks';
 
 const HEADING_RULES: readonly StartHeading[] = ['free', 'N', 'E', 'S', 'W'];
 
@@ -38,7 +39,7 @@ function tinyRandom(seed: number, w: number, h: number, agents: number, walls = 
 
 function dataset(agents: number): MapfInstance {
   // Open dataset (Stern et al., SoCS 2019; Sturtevant, IEEE TCIAIG 2012), read in place.
-  const dir = join(__dirname, '../../../shared/datasets/grid-benchmarks');
+  const dir = OPEN_GRID_BENCHMARKS_DIR;
   const map = parseMap(readFileSync(join(dir, 'empty-8-8.map'), 'utf8'));
   const sc = parseScenario(readFileSync(join(dir, 'empty-8-8-even-1.scen'), 'utf8'));
   if (!map.ok || !sc.ok) throw new Error('dataset files did not parse');

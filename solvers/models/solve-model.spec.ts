@@ -14,12 +14,13 @@ import { parseScenario } from '../io/parse-scenario';
 import { referenceTurnCost } from '../testing/heading-graph-reference';
 import { tinyInstance } from '../testing/tiny-instance';
 import { solveModel } from './solve-model';
+import { OPEN_GRID_BENCHMARKS_DIR } from '../../benchmarks/datasets/open-grid-benchmarks';
 
 const PROFILE: RobotProfile = { forwardMs: 1000, quarterTurnMs: 450, waitMs: 600, cellPitchMm: 500, robotDiameterMm: 400, timingJitter: 0 };
 
 function dataset(agents: number): MapfInstance {
   // Open dataset (Stern et al., SoCS 2019; Sturtevant, IEEE TCIAIG 2012), read in place.
-  const dir = join(__dirname, '../../../shared/datasets/grid-benchmarks');
+  const dir = OPEN_GRID_BENCHMARKS_DIR;
   const map = parseMap(readFileSync(join(dir, 'empty-8-8.map'), 'utf8'));
   const sc = parseScenario(readFileSync(join(dir, 'empty-8-8-even-1.scen'), 'utf8'));
   if (!map.ok || !sc.ok) throw new Error('dataset files did not parse');

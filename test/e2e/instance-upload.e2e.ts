@@ -1,6 +1,6 @@
 /**
  * The instance library in Chromium: a researcher creates a set, uploads open benchmark files
- * (read in place from ../shared/datasets/grid-benchmarks/) through the drop zone's file input,
+ * (read in place from benchmarks/datasets/grid-benchmarks/) through the drop zone's file input,
  * then a zip built here, sees a broken map refused with its line and column, and opens the map
  * viewer, whose canvas draws the map and reads out the cell under the pointer.
  */
@@ -10,8 +10,9 @@ import { buildZip, datasetBytes } from '../integration/instance-library-support'
 import { launchBrowser, type E2eBrowser } from './support/browser';
 import { bootServer, type E2eServer } from './support/server';
 import { demoIdentity, signInThroughUi } from './support/sign-in';
+import { OPEN_GRID_BENCHMARKS_DIR } from '../../benchmarks/datasets/open-grid-benchmarks';
 
-const DATASET = join(__dirname, '../../../shared/datasets/grid-benchmarks');
+const DATASET = OPEN_GRID_BENCHMARKS_DIR;
 const researcher = demoIdentity('researcher');
 
 /** The element's box once it has kept the same size and place over 300 ms (up to 10 s). */

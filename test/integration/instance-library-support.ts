@@ -1,7 +1,7 @@
 /**
  * Helpers of the instance library suites: a server on a fresh database, signed-in clients,
  * multipart uploads through supertest (with the session cookie and CSRF header), zips built
- * with yazl, and the open benchmark files read in place from ../shared/datasets/grid-benchmarks/.
+ * with yazl, and the open benchmark files read in place from benchmarks/datasets/grid-benchmarks/.
  */
 import { readdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
@@ -14,9 +14,10 @@ import { createSequelize } from '../../api/src/db/sequelize';
 import { CookieJar } from '../../api/src/dev/cookie-jar';
 import { clientFor, signInAs, type SignedInClient } from '../../api/src/dev/sign-in-as';
 import { createTestDatabase, type TestDatabase } from '../support/test-database';
+import { OPEN_GRID_BENCHMARKS_DIR } from '../../benchmarks/datasets/open-grid-benchmarks';
 
 /** The open benchmark files (N. Sturtevant, IEEE TCIAIG 2012; R. Stern et al., SoCS 2019), read in place. */
-export const DATASET = join(__dirname, '../../../shared/datasets/grid-benchmarks');
+export const DATASET = OPEN_GRID_BENCHMARKS_DIR;
 
 /** Every map and scenario file name of the dataset, sorted. */
 export function datasetFiles(): string[] {

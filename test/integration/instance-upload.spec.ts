@@ -46,10 +46,10 @@ describe('instance library uploads', () => {
       stored = res.body as UploadResponse;
     }, 60_000);
 
-    it('stores all 9 maps and 46 scenarios of the dataset, each scenario on its own map', () => {
-      // The dataset README lists 9 maps and 46 scenarios (source: ../shared/datasets/grid-benchmarks/README.md).
+    it('stores all 8 maps and 41 scenarios of the dataset, each scenario on its own map', () => {
+      // The dataset README lists 8 maps and 41 scenarios (source: benchmarks/datasets/grid-benchmarks/README.md).
       expect(stored.maps.map((m) => m.name)).toEqual(datasetFiles().filter((f) => f.endsWith('.map')));
-      expect(stored.scenarios).toHaveLength(46);
+      expect(stored.scenarios).toHaveLength(41);
       const mapName = new Map(stored.maps.map((m) => [m.id, m.name]));
       for (const s of stored.scenarios) {
         // The dataset's naming: <map>-even-N.scen / <map>-random-N.scen belong to <map>.map.

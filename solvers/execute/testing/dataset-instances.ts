@@ -1,7 +1,7 @@
 /// <reference types="node" />
 /**
  * Test helper: instances from the open grid benchmark files, read in place from
- * ../shared/datasets/grid-benchmarks/ (N. Sturtevant, "Benchmarks for Grid-Based Pathfinding",
+ * benchmarks/datasets/grid-benchmarks/ (N. Sturtevant, "Benchmarks for Grid-Based Pathfinding",
  * IEEE TCIAIG 4(2), 2012; R. Stern et al., "Multi-Agent Pathfinding: Definitions, Variants,
  * and Benchmarks", SoCS 2019). An instance with k agents uses the first k scenario rows.
  */
@@ -11,8 +11,9 @@ import type { MapfInstance } from '../../instance';
 import { instanceFromScenario } from '../../io/instance-from-scenario';
 import { parseMap } from '../../io/parse-map';
 import { parseScenario } from '../../io/parse-scenario';
+import { OPEN_GRID_BENCHMARKS_DIR } from '../../../benchmarks/datasets/open-grid-benchmarks';
 
-const DATASET = join(__dirname, '../../../../shared/datasets/grid-benchmarks');
+const DATASET = OPEN_GRID_BENCHMARKS_DIR;
 
 /** The instance of `mapName` with the first `agents` rows of scenario `scenarioName`. */
 export function datasetInstance(mapName: string, scenarioName: string, agents: number): MapfInstance {

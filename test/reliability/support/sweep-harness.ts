@@ -18,11 +18,12 @@ import { loadConfig } from '../../../api/src/config';
 import { createSequelize } from '../../../api/src/db/sequelize';
 import { startFakeSmtp, type RunningFakeSmtp } from '../../../api/src/dev/fake-smtp/fake-smtp-server';
 import { signInAs, type SignedInClient } from '../../../api/src/dev/sign-in-as';
+import { OPEN_GRID_BENCHMARKS_DIR } from '../../../benchmarks/datasets/open-grid-benchmarks';
 
 /** The repository root. */
 export const ROOT = resolve(__dirname, '../../..');
 /** The open benchmark files (Stern et al., SoCS 2019), read in place. */
-export const DATASET = resolve(ROOT, '../shared/datasets/grid-benchmarks');
+export const DATASET = OPEN_GRID_BENCHMARKS_DIR;
 
 /** A running server with a signed-in maintainer, its mailbox and SQL on its database. */
 export interface SweepServer {
