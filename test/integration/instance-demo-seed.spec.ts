@@ -1,4 +1,12 @@
-/** The demo instance sets: generated once, public, owned by the demo maintainer, every scenario usable. */
+/**
+ * The demo instance sets: the invented ones generated once, and the repository's open grid benchmark files
+ * (benchmarks/datasets/grid-benchmarks/, Sturtevant 2012; Stern et al. 2019) stored unchanged; all public, owned by
+ * the demo maintainer, every scenario usable.
+ */
+import { readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { OPEN_GRID_BENCHMARKS_DIR } from '../../benchmarks/datasets/open-grid-benchmarks';
+import { OPEN_BENCHMARKS_SET_NAME } from '../../api/src/demo/seed-open-benchmarks';
 import { createSequelize } from '../../api/src/db/sequelize';
 import { defineModels } from '../../api/src/db/models';
 import { seedDemo } from '../../api/src/demo/seed-demo';
@@ -31,8 +39,27 @@ describe('demo instance sets', () => {
     const expected = DEMO_INSTANCE_SETS.map((d) => ({
       name: d.name, visibility: 'public', login: 'tobiah-venkat',
       maps: d.generate.length, scenarios: d.generate.reduce((n, g) => n + (g.scenarioCount ?? 1), 0),
-    })).sort((a, b) => a.name.localeCompare(b.name));
+    }));
+    // The README beside the benchmark files lists 8 maps and 41 scenario files.
+    expected.push({ name: OPEN_BENCHMARKS_SET_NAME, visibility: 'public', login: 'tobiah-venkat', maps: 8, scenarios: 41 });
+    expected.sort((a, b) => a.name.localeCompare(b.name));
     expect(await tally()).toEqual(expected);
+  });
+
+  it('stores the open benchmark files byte for byte, with their source and citation', async () => {
+    // SHA256SUMS lists the published files' hashes (benchmarks/datasets/grid-benchmarks/README.md).
+    const published = readFileSync(join(OPEN_GRID_BENCHMARKS_DIR, 'SHA256SUMS'), 'utf8').trim().split('\n')
+      .map((line) => { const [hash, name] = line.split(/\s+/); return { name, checksum: hash }; })
+      .sort((a, b) => a.name.localeCompare(b.name));
+    const [stored] = await sequelize.query(
+      `SELECT f.name, f.checksum FROM (SELECT instance_set_id, name, checksum FROM maps UNION ALL SELECT instance_set_id, name, checksum FROM scenarios) f
+       JOIN instance_sets s ON s.id = f.instance_set_id WHERE s.name = :name`,
+      { replacements: { name: OPEN_BENCHMARKS_SET_NAME } });
+    expect((stored as { name: string; checksum: string }[]).sort((a, b) => a.name.localeCompare(b.name))).toEqual(published);
+    expect(published).toHaveLength(49);
+    const [[set]] = await sequelize.query('SELECT source, description FROM instance_sets WHERE name = :name', { replacements: { name: OPEN_BENCHMARKS_SET_NAME } }) as [{ source: string }[], unknown];
+    expect(set.source).toMatch(/Sturtevant.*2012/);
+    expect(set.source).toMatch(/Stern et al\..*SoCS 2019/);
   });
 
   it('is idempotent: a second run adds nothing and changes no bytes', async () => {
