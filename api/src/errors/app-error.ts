@@ -8,6 +8,8 @@ export class AppError extends Error {
     readonly status: number,
     message: string,
     readonly details?: unknown,
+    /** When the client may retry (503, 429): sent as the Retry-After header, seconds. */
+    readonly retryAfterSeconds?: number,
   ) {
     super(message);
     this.name = 'AppError';

@@ -15,6 +15,9 @@ function appThrowing(): express.Express {
   app.post('/validated', (req, res) => {
     res.json(validate(z.object({ name: z.string().min(1), agents: z.number().int().positive() }).strict(), req.body));
   });
+  app.get('/busy', () => {
+    throw new AppError('COMPUTE_BUSY', 503, 'Busy', undefined, 7.2);
+  });
   app.get('/unique', () => {
     throw new UniqueConstraintError({ message: 'Validation error' });
   });
@@ -33,6 +36,13 @@ describe('errorHandler', () => {
     const res = await request(app).get('/app-error');
     expect(res.status).toBe(404);
     expect(res.body).toEqual({ error: { code: 'SWEEP_NOT_FOUND', message: 'No sweep 42', details: [{ id: 42 }] } });
+  });
+
+  it('sends Retry-After (whole seconds, rounded up) when an AppError says when to retry, and not otherwise', async () => {
+    const busy = await request(app).get('/busy');
+    expect(busy.status).toBe(503);
+    expect(busy.headers['retry-after']).toBe('8');
+    expect((await request(app).get('/app-error')).headers['retry-after']).toBeUndefined();
   });
 
   it('turns a ZodError into 400 VALIDATION_FAILED listing each issue with its path', async () => {

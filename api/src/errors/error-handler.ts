@@ -13,6 +13,7 @@ interface Mapped {
   readonly code: ErrorCode;
   readonly message: string;
   readonly details?: unknown;
+  readonly retryAfterSeconds?: number;
 }
 
 /** Shape of errors raised by body-parser (express.json) and by multer, matched by duck typing. */
@@ -27,7 +28,7 @@ interface HttpishError {
 
 /** Translates a known error into status, code and message; undefined for unexpected errors. */
 export function mapError(err: unknown): Mapped | undefined {
-  if (err instanceof AppError) return { status: err.status, code: err.code, message: err.message, details: err.details };
+  if (err instanceof AppError) return { status: err.status, code: err.code, message: err.message, details: err.details, retryAfterSeconds: err.retryAfterSeconds };
   if (err instanceof ZodError) {
     return {
       status: 400,
@@ -75,6 +76,7 @@ export function errorHandler(): ErrorRequestHandler {
     const mapped = mapError(err);
     if (mapped) {
       if (mapped.status >= 500) req.log?.error({ err }, 'request failed');
+      if (mapped.retryAfterSeconds !== undefined) res.set('Retry-After', String(Math.max(1, Math.ceil(mapped.retryAfterSeconds))));
       res.status(mapped.status).json(errorBody(mapped.code, mapped.message, mapped.details));
       return;
     }
