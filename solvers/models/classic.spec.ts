@@ -1,7 +1,7 @@
 /**
- * solveClassic against outside references: an exhaustive joint-state search written here
- * (it shares no code with the engine), the independent validator (solvers/validate), the
- * worked example of the CBS paper, and the open benchmark files.
+ * solveClassic against independent references: an exhaustive joint-state search written here
+ * (an in-spec oracle: it shares no code with the engine), the independent validator
+ * (solvers/validate), a hand-worked two-agent crossing, and the open benchmark files.
  */
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
@@ -178,12 +178,18 @@ describe('solveClassic', () => {
   it('matches the exhaustive joint-state optimum on 60 small random instances, all plans valid', () => {
     // Reference: the exhaustive joint-state search above (shares no code with the engine).
     let compared = 0;
+    let unsolvable = 0;
+    let tooBig = 0;
     for (const inst of randomInstances(60, 1)) {
       const expected = jointOptimum(inst);
-      if (expected === undefined) continue;
+      if (expected === undefined) {
+        tooBig++;
+        continue;
+      }
       if (expected === null) {
         // No plan exists: CBS cannot prove that, but it must never claim a plan.
         expect(solveClassic(inst, { nodeLimit: 500 }).status).toBe('timeout');
+        unsolvable++;
         continue;
       }
       const r = solveClassic(inst, { nodeLimit: 200_000 });
@@ -196,7 +202,8 @@ describe('solveClassic', () => {
       expect(check.soc).toBe(r.soc);
       expect(check.makespan).toBe(r.makespan);
     }
-    expect(compared).toBeGreaterThanOrEqual(45);
+    // The seeded sample is fixed: 55 compared, 1 without a plan, 4 beyond the oracle's budget.
+    expect([compared, unsolvable, tooBig]).toEqual([55, 1, 4]);
   });
 
   it('gives the same optimal SOC with every combination of the seven switches', () => {
@@ -208,17 +215,21 @@ describe('solveClassic', () => {
       { grid: corridor, agents: [{ start: 0, goal: 26 }, { start: 8, goal: 18 }, { start: 19, goal: 7 }] },
       { grid: room, agents: [{ start: 5, goal: 14 }, { start: 1, goal: 18 }, { start: 4, goal: 15 }] },
     ];
+    let runs = 0;
     for (const inst of insts) {
+      // Every one of these has a plan the oracle finds within its budget (a number, not null or undefined).
       const expected = jointOptimum(inst, 400_000);
-      if (expected === null) continue;
+      expect(typeof expected).toBe('number');
       for (let mask = 0; mask < 1 << SWITCH_NAMES.length; mask++) {
         const switches = Object.fromEntries(SWITCH_NAMES.map((n, i) => [n, (mask & (1 << i)) !== 0])) as unknown as CbsSwitches;
         const r = solveClassic(inst, { switches, nodeLimit: 200_000 });
         expect(r.status).toBe('solved');
-        if (expected !== undefined) expect(r.soc).toBe(expected);
+        expect(r.soc).toBe(expected);
         expect(validateClassicPlan(inst, r.paths).ok).toBe(true);
+        runs++;
       }
     }
+    expect(runs).toBe(insts.length * (1 << SWITCH_NAMES.length));
   });
 
   it('plain CBS and full CBS agree with the oracle on crowded corridor-and-room maps', () => {
@@ -253,15 +264,24 @@ describe('solveClassic', () => {
       if (plain.status === 'solved') expect(plain.soc).toBe(expected);
       else expect(plain.lowerBound as number).toBeLessThanOrEqual(expected);
     }
-    expect(compared).toBeGreaterThanOrEqual(25);
+    // 40 seeded cases, fixed: 3 have no plan or exceed the oracle's budget.
+    expect(compared).toBe(37);
   });
 
-  it('solves the worked example of the CBS paper: root cost 6, optimum 7', () => {
-    // Sharon, Stern, Felner, Sturtevant, AIJ 2015, Fig. 1 (the two-mice example, recalled from memory):
-    // each agent's shortest path has 3 steps and both pass the one shared junction at time 2, so one
-    // must wait: root SOC 6, optimal SOC 7. Laid out here as a plus-shaped grid with the junction at (2, 2).
+  it('solves a hand-worked two-agent crossing at a junction: root cost 6, optimum 7', () => {
+    // Hand-worked case (not taken from any paper). Plus-shaped grid, junction J = (2, 2):
+    //   ##.##    agent 0: (2, 0) → (3, 2), only route (2, 0) (2, 1) J (3, 2): 3 steps, at J at t = 2
+    //   ##.##    agent 1: (0, 2) → (2, 3), only route (0, 2) (1, 2) J (2, 3): 3 steps, at J at t = 2
+    //   .....    Each shortest route is unique and meets J at t = 2, so the root (SOC 3 + 3 = 6) has a
+    //   ##.##    vertex conflict, and any plan makes one agent reach its goal in ≥ 4 steps: SOC ≥ 7.
+    //   ##.##    Met by agent 1 waiting once at (1, 2) (it enters J at t = 3 behind agent 0): SOC 7,
+    //            makespan 4.
+    // Plain CBS: each child constrains one agent off J at t = 2; that agent's cheapest path (cost 4)
+    // waits and passes J at t = 3 behind the other, which is conflict-free, so the first child popped
+    // is the goal: root + 2 children = 3 nodes generated.
     const grid = gridFromText('##.##\n##.##\n.....\n##.##\n##.##');
     const inst: MapfInstance = { grid, agents: [{ start: 2, goal: 2 * 5 + 3 }, { start: 2 * 5, goal: 3 * 5 + 2 }] };
+    expect(jointOptimum(inst)).toBe(7);
     for (const switches of [DEFAULT_SWITCHES, PLAIN_CBS_SWITCHES]) {
       const r = solveClassic(inst, { switches });
       expect(r.status).toBe('solved');
@@ -269,11 +289,10 @@ describe('solveClassic', () => {
       expect(r.makespan).toBe(4);
       expect(validateClassicPlan(inst, r.paths).ok).toBe(true);
     }
-    // Plain CBS: root plus its two children of cost 7, then the first child is conflict-free.
     expect(solveClassic(inst, { switches: PLAIN_CBS_SWITCHES }).nodesGenerated).toBe(3);
   });
 
-  it('solves the open benchmark empty-8-8 with 8 agents to a valid optimal plan identical under plain CBS', () => {
+  it('solves the open benchmark empty-8-8 with 8 agents to a proven optimum, the same under plain CBS', () => {
     // Open dataset (Stern et al., SoCS 2019; Sturtevant, IEEE TCIAIG 2012): benchmarks/datasets/grid-benchmarks.
     const dir = OPEN_GRID_BENCHMARKS_DIR;
     const map = parseMap(readFileSync(join(dir, 'empty-8-8.map'), 'utf8'));
@@ -285,9 +304,17 @@ describe('solveClassic', () => {
     const plain = solveClassic(inst.value, { switches: PLAIN_CBS_SWITCHES, nodeLimit: 100_000 });
     expect(full.status).toBe('solved');
     expect(validateClassicPlan(inst.value, full.paths).ok).toBe(true);
-    if (plain.status === 'solved') expect(plain.soc).toBe(full.soc);
-    // The sum of single-agent distances is a lower bound every solver must respect.
-    expect(full.soc).toBeGreaterThanOrEqual(full.lowerBound as number);
+    // Too big for the joint-state oracle, but optimality is proven here another way: every agent
+    // pays at least its own shortest distance (bfs above, written in this spec), so their sum bounds
+    // every plan's SOC from below, and a valid plan that meets it is optimal. The root has
+    // conflicts (more than one node), so the bound is met by resolving them, not for free.
+    const independentBound = inst.value.agents.reduce((sum, a) => sum + bfs(inst.value.grid, a.goal)[a.start], 0);
+    expect(independentBound).toBe(46);
+    expect(full.soc).toBe(independentBound);
+    expect(full.nodesGenerated).toBeGreaterThan(1);
+    expect(plain.status).toBe('solved');
+    expect(plain.soc).toBe(full.soc);
+    expect(validateClassicPlan(inst.value, plain.paths).ok).toBe(true);
   });
 
   it('detects infeasible instances up front with a reason', () => {
@@ -324,12 +351,13 @@ describe('solveClassic', () => {
     const opt = solveClassic(inst, { switches: PLAIN_CBS_SWITCHES });
     const cut = solveClassic(inst, { switches: PLAIN_CBS_SWITCHES, nodeLimit: 2 });
     expect(opt.status).toBe('solved');
-    if (opt.nodesGenerated > 2) {
-      expect(cut.status).toBe('timeout');
-      expect(cut.paths).toEqual([]);
-      expect(cut.lowerBound).not.toBeNull();
-      expect(cut.lowerBound as number).toBeLessThanOrEqual(opt.soc as number);
-    }
+    // The instance does not solve at the root (plain CBS generated 47 nodes when this was written),
+    // so the limit of 2 must bite.
+    expect(opt.nodesGenerated).toBeGreaterThan(2);
+    expect(cut.status).toBe('timeout');
+    expect(cut.paths).toEqual([]);
+    expect(cut.lowerBound).not.toBeNull();
+    expect(cut.lowerBound as number).toBeLessThanOrEqual(opt.soc as number);
   });
 
   it('honours the time limit through the injected clock and an abort signal', () => {
