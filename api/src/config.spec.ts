@@ -55,6 +55,28 @@ describe('loadConfig', () => {
     expect(() => loadConfig({ PUBLIC_URL: 'https://bench.example.org' })).toThrow(/GITHUB_CLIENT_ID[\s\S]*SESSION_SECRET/);
   });
 
+  it('refuses a wildcard or public HOST with the fake sign-in provider and the development secret, one line per problem', () => {
+    let caught: unknown;
+    try {
+      loadConfig({ HOST: '0.0.0.0' });
+    } catch (err) {
+      caught = err;
+    }
+    expect(caught).toBeInstanceOf(ConfigError);
+    const { problems } = caught as ConfigError;
+    expect(problems).toHaveLength(2);
+    expect(problems[0]).toMatch(/^HOST: .*0\.0\.0\.0.*not a loopback address.*GITHUB_CLIENT_ID/);
+    expect(problems[1]).toMatch(/^SESSION_SECRET: required when HOST .*0\.0\.0\.0/);
+    for (const line of problems) expect(line).not.toContain('\n');
+    expect(() => loadConfig({ HOST: '192.168.1.20', SESSION_SECRET: 'x'.repeat(32) })).toThrow(/HOST: .*192\.168\.1\.20/);
+    expect(() => loadConfig({ HOST: '::', GITHUB_CLIENT_ID: 'id', GITHUB_CLIENT_SECRET: 'secret' })).toThrow(/SESSION_SECRET: required when HOST/);
+  });
+
+  it('accepts loopback hosts in development and any host with a GitHub app and a secret', () => {
+    for (const host of ['127.0.0.1', 'localhost', '::1', '127.0.0.2']) expect(loadConfig({ HOST: host }).config.host).toBe(host);
+    expect(loadConfig({ HOST: '0.0.0.0', SESSION_SECRET: 'x'.repeat(32), GITHUB_CLIENT_ID: 'id', GITHUB_CLIENT_SECRET: 'secret' }).config.host).toBe('0.0.0.0');
+  });
+
   it('wants both GitHub credentials or neither', () => {
     expect(() => loadConfig({ GITHUB_CLIENT_ID: 'only-id' })).toThrow(/set both or neither/);
   });

@@ -115,6 +115,9 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): { config: AppC
   const warnings: string[] = [];
   const publicUrl = new URL(e.PUBLIC_URL);
   const isPublicLoopback = isLoopbackHost(publicUrl.hostname);
+  // A wildcard (0.0.0.0, ::) or LAN HOST makes the app reachable from other machines whatever
+  // PUBLIC_URL says, so it needs the same protection as a public URL.
+  const isHostLoopback = isLoopbackHost(e.HOST);
 
   let oauth: OAuthSettings;
   if (e.GITHUB_CLIENT_ID && e.GITHUB_CLIENT_SECRET) {
@@ -127,12 +130,16 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): { config: AppC
     if (!isPublicLoopback) {
       problems.push(`GITHUB_CLIENT_ID: required when PUBLIC_URL (${e.PUBLIC_URL}) is not a loopback address; the fake sign-in provider is for local use only`);
     }
+    if (!isHostLoopback) {
+      problems.push(`HOST: ${e.HOST} is not a loopback address; the fake sign-in provider is for local use only: bind to 127.0.0.1 or set GITHUB_CLIENT_ID and GITHUB_CLIENT_SECRET`);
+    }
     oauth = { mode: 'fake', port: e.FAKE_OAUTH_PORT };
   }
 
   if (!e.SESSION_SECRET) {
-    if (isPublicLoopback) warnings.push('SESSION_SECRET is not set: using the development default (fine on this machine only).');
-    else problems.push('SESSION_SECRET: required when PUBLIC_URL is not a loopback address');
+    if (!isPublicLoopback) problems.push('SESSION_SECRET: required when PUBLIC_URL is not a loopback address');
+    else if (!isHostLoopback) problems.push(`SESSION_SECRET: required when HOST (${e.HOST}) is not a loopback address; the development default is public`);
+    else warnings.push('SESSION_SECRET is not set: using the development default (fine on this machine only).');
   }
   if (problems.length > 0) throw new ConfigError(problems);
 
