@@ -1,7 +1,9 @@
 // The soundness lemma of the weighted-split splits, checked by sampling: whenever two plans
 // violate BOTH children's constraints of a split, the independent schedule validator
 // (solvers/validate/schedule.ts) must find an overlap between them. Also checks progress:
-// the plans the split came from violate their own child's constraints.
+// the plans the split came from violate their own child's constraints. Whether a plan breaks a
+// constraint is judged by code written in this spec (heldIntervals, violates), not by the
+// engine's cellVisits.
 import type { RobotProfile, Schedule } from '@shared/plan';
 import { gridFromText, type Grid } from '../grid/grid';
 import { forwardCell, headingLetter, turnedLeft, turnedRight } from '../grid/heading-graph';
@@ -81,12 +83,39 @@ function endCell(start: number, plan: SippPlan): number {
   return plan.steps.reduce((c, s) => s.to, start);
 }
 
-/** Whether a plan breaks a ban, by the plain reading of each ban's definition. */
-function violates(agent: number, start: number, plan: SippPlan, ban: AgentBan, F: number): boolean {
-  const visits = cellVisits(agent, start, plan, F);
-  if (ban.kind === 'occupancy') return visits.some((v) => v.cell === ban.cell && v.enter < ban.to && ban.from < v.leave);
-  if (ban.kind === 'move') return plan.steps.some((s) => s.kind === 'forward' && s.from === ban.fromCell && s.to === ban.toCell && ban.from <= s.start && s.start < ban.to);
-  return visits[visits.length - 1].enter < ban.notBefore;
+/**
+ * The half-open intervals in which a plan holds each cell, by the occupancy rule as stated in
+ * sipp.ts (written out again here, apart from the engine's cellVisits, so the judge below does
+ * not check the splits against the code that made them): the start cell until the first action,
+ * the current cell during every action, the target cell too during a forward move, and the
+ * last cell forever after the last action.
+ */
+function heldIntervals(start: number, plan: SippPlan): { cell: number; from: number; to: number }[] {
+  const held: { cell: number; from: number; to: number }[] = [];
+  const steps = plan.steps;
+  held.push({ cell: start, from: 0, to: steps.length > 0 ? steps[0].start : Infinity });
+  for (const s of steps) {
+    held.push({ cell: s.from, from: s.start, to: s.end });
+    if (s.kind === 'forward') held.push({ cell: s.to, from: s.start, to: s.end });
+  }
+  if (steps.length > 0) held.push({ cell: steps[steps.length - 1].to, from: steps[steps.length - 1].end, to: Infinity });
+  return held;
+}
+
+/** Whether a plan breaks a ban, by the plain reading of each ban's definition (sipp-constraints.ts). */
+function violates(start: number, plan: SippPlan, ban: AgentBan): boolean {
+  if (ban.kind === 'occupancy') {
+    // "must not occupy `cell` at any instant of [from, to)": some held interval of the cell meets the window.
+    return heldIntervals(start, plan).some((h) => h.cell === ban.cell && h.from < ban.to && ban.from < h.to);
+  }
+  if (ban.kind === 'move') {
+    // "must not START the forward move fromCell → toCell at any time in [from, to)".
+    return plan.steps.some((s) => s.kind === 'forward' && s.from === ban.fromCell && s.to === ban.toCell && ban.from <= s.start && s.start < ban.to);
+  }
+  // "the final visit of its goal must begin at or after notBefore": that visit begins when the
+  // last forward move (into the final cell, which it then holds) starts, or at 0 if it never moves.
+  const lastForward = [...plan.steps].reverse().find((s) => s.kind === 'forward');
+  return (lastForward ? lastForward.start : 0) < ban.notBefore;
 }
 
 function toSchedule(plans: readonly SippPlan[]): Schedule {
@@ -112,13 +141,13 @@ describe('branchOptions', () => {
           kinds.add(option.kind);
           // Assert progress: each agent's current plan breaks its own child's bans.
           for (const child of option.children) {
-            expect(child.bans.some((b) => violates(child.agent, starts[child.agent], base[child.agent], b, F))).toBe(true);
+            expect(child.bans.some((b) => violates(starts[child.agent], base[child.agent], b))).toBe(true);
           }
           // Act / Assert soundness on 60 fresh plan pairs from the same starts.
           for (let k = 0; k < 60; k++) {
             const plans = starts.map((s, a) => samePlanGoal(rng, s, base[a], F, profile.quarterTurnMs));
             if (plans.some((p) => p === null)) continue;
-            const isBoth = option.children.every((child) => child.bans.some((b) => violates(child.agent, starts[child.agent], plans[child.agent] as SippPlan, b, F)));
+            const isBoth = option.children.every((child) => child.bans.some((b) => violates(starts[child.agent], plans[child.agent] as SippPlan, b)));
             if (!isBoth) continue;
             bothViolated++;
             const inst = { grid, agents: starts.map((s, a) => ({ start: s, goal: endCell(s, base[a]) })) };
