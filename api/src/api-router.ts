@@ -3,6 +3,8 @@ import { Router } from 'express';
 import type { AppContext } from './app-context';
 import { executionsFeature } from './executions/executions.feature';
 import { healthRouter } from './health/health.router';
+import { repositoryHelpFiles } from './help/help-files';
+import { helpRouter, schemasRouter } from './help/help.router';
 import { instanceLibraryRouter } from './instance-sets/instance-library.router';
 import { leaderboardsFeature } from './leaderboards/leaderboards.feature';
 import { statsRouter } from './stats/stats.router';
@@ -17,6 +19,8 @@ export function apiRouter(ctx: AppContext): Router {
   r.use('/me', meRouter(ctx.users));
   r.use('/admin/users', adminUsersRouter(ctx.users));
   r.use('/stats', statsRouter(ctx.stats));
+  r.use('/help', helpRouter(repositoryHelpFiles()));
+  r.use('/schemas', schemasRouter(repositoryHelpFiles()));
   r.use(instanceLibraryRouter(ctx));
   r.use(sweepsFeature(ctx));
   r.use('/executions', executionsFeature(ctx));
