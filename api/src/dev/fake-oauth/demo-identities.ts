@@ -19,8 +19,8 @@ export interface DemoIdentity {
 
 /** The demo identities, least privileged first. */
 export const DEMO_IDENTITIES: readonly DemoIdentity[] = [
-  { id: '710001', login: 'marguerite-oyelaran', name: 'Marguerite Oyelaran', email: 'marguerite@demo.quarterturn.invalid', demoRole: 'researcher', blurb: 'Researcher: uploads instance sets and launches sweeps' },
-  { id: '710002', login: 'tobiah-venkat', name: 'Tobiah Venkat', email: 'tobiah@demo.quarterturn.invalid', demoRole: 'maintainer', blurb: 'Maintainer: curates instance sets and leaderboards' },
+  { id: '710001', login: 'marguerite-oyelaran', name: 'Marguerite Oyelaran', email: 'marguerite@demo.quarterturn.invalid', demoRole: 'researcher', blurb: 'Researcher: uploads instance sets, submits and replays plans' },
+  { id: '710002', login: 'tobiah-venkat', name: 'Tobiah Venkat', email: 'tobiah@demo.quarterturn.invalid', demoRole: 'maintainer', blurb: 'Maintainer: launches sweeps, curates every instance set' },
   { id: '710003', login: 'ilse-marchetti', name: 'Ilse Marchetti', email: 'ilse@demo.quarterturn.invalid', demoRole: 'admin', blurb: 'Admin: manages accounts and roles' },
 ];
 
