@@ -1,8 +1,9 @@
 /**
  * LaTeX export: a booktabs table (\toprule, \midrule, \bottomrule; needs \usepackage{booktabs})
- * with the best value per row among the plan model columns in \textbf{}. Every text cell is
- * escaped, so names such as "room_32 %5 & #2" typeset literally.
+ * with the best value per row among the plan model columns in \textbf{}. Every text cell and
+ * the caption are escaped, so names such as "room_32 %5 & #2" or "\input{x}" typeset literally.
  */
+import { foldControlCharacters } from './control-characters';
 import { bestCells, displayCell, headerOf, type ExportTable } from './exports-table';
 
 const LATEX_SPECIALS: Readonly<Record<string, string>> = {
@@ -16,11 +17,22 @@ const LATEX_SPECIALS: Readonly<Record<string, string>> = {
   '}': '\\}',
   '~': '\\textasciitilde{}',
   '^': '\\textasciicircum{}',
+  // Not special, but `\\` at a row end reads a following `*` or `[` as its own (star form, space
+  // argument), so a cell starting with one would lose it or fail (common practice: brace them).
+  '[': '{[}',
+  ']': '{]}',
+  '*': '{*}',
 };
 
-/** Escapes LaTeX's special characters in one pass (so the braces a replacement adds are never escaped again). */
+/**
+ * Escapes LaTeX's ten special characters (LaTeX2e unofficial reference manual, "Reserved
+ * characters": # $ % & ~ _ ^ \ { }), brackets and stars in one pass (so the braces a
+ * replacement adds are never escaped again), after folding control characters and line breaks
+ * to spaces: a blank line would end a \caption{} or a table cell with "Paragraph ended before …
+ * was complete".
+ */
 export function latexEscape(text: string): string {
-  return text.replace(/[\\_%&#${}~^]/g, (c) => LATEX_SPECIALS[c]);
+  return foldControlCharacters(text).replace(/[\\_%&#${}~^[\]*]/g, (c) => LATEX_SPECIALS[c]);
 }
 
 /** The table as a LaTeX `table` float with a booktabs `tabular`. */

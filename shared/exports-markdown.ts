@@ -1,9 +1,27 @@
-/** Markdown export: a pipe table (GitHub Flavored Markdown), pipes and backslashes in cells escaped, best values in bold. */
+/** Markdown export: a pipe table (GitHub Flavored Markdown), every cell and the caption escaped, best values in bold. */
+import { foldControlCharacters } from './control-characters';
 import { bestCells, displayCell, headerOf, type ExportTable } from './exports-table';
 
-/** One cell: `|` and `\` escaped with a backslash, line breaks as spaces (a table row is one line). */
+/**
+ * What each markup character is written as. Backslash escapes (CommonMark 0.31, §2.4: any ASCII
+ * punctuation may be escaped) for the escape itself, code spans, emphasis, GFM strikethrough,
+ * links and images, GFM table cell ends and headings; entities (§2.5) for raw HTML and entity
+ * references, so they show as text.
+ */
+const MARKDOWN_ESCAPES: Readonly<Record<string, string>> = {
+  ...Object.fromEntries([...'\\`*_~[]|#'].map((c) => [c, `\\${c}`])),
+  '<': '&lt;',
+  '>': '&gt;',
+  '&': '&amp;',
+};
+
+/**
+ * One cell (or the caption) as literal text: control characters, CR and LF as spaces (a table
+ * row is one line, and a line break could start a heading), then markup characters escaped in
+ * one pass (so the `&` of an entity written here is never escaped again).
+ */
 export function markdownCell(text: string): string {
-  return text.replace(/\\/g, '\\\\').replace(/\|/g, '\\|').replace(/\*/g, '\\*').replace(/\r?\n/g, ' ');
+  return foldControlCharacters(text).replace(/[\\`*_~[\]|#<>&]/g, (c) => MARKDOWN_ESCAPES[c]);
 }
 
 /** The table as Markdown, with the caption as a paragraph above it. */

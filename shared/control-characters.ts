@@ -1,0 +1,17 @@
+/**
+ * The one definition of control characters in user text, zod-free so exporters and the web
+ * bundle can use it: C0 controls (NUL to U+001F: PostgreSQL refuses NUL in text, and CR, LF and
+ * tab end rows and lines in every export format), DEL, C1 controls (U+0080 to U+009F) and the
+ * Unicode line and paragraph separators U+2028 and U+2029.
+ */
+
+/** Control characters, line breaks and tabs included (global: for replacing). */
+export const CONTROL_CHARACTERS = /[\u0000-\u001F\u007F-\u009F\u2028\u2029]/g;
+
+/** Control characters other than tab, line feed and carriage return (the ones multi-line text may hold). */
+export const CONTROL_CHARACTERS_BUT_LINE_BREAKS = /[\u0000-\u0008\u000B\u000C\u000E-\u001F\u007F-\u009F\u2028\u2029]/g;
+
+/** `text` with every control character, tab and line break replaced by a space. */
+export function foldControlCharacters(text: string): string {
+  return text.replace(CONTROL_CHARACTERS, ' ');
+}
