@@ -9,7 +9,9 @@ import { ClassicModel, solveClassic } from '../models/classic';
 import { classicOracle } from '../testing/classic-oracle';
 import { validateClassicPlan } from '../validate/classic';
 import { Budget } from './budget';
-import { DEFAULT_SWITCHES, PLAIN_CBS_SWITCHES } from './cbs-types';
+import { CbsEngine } from './cbs';
+import { type CbsSwitches, DEFAULT_SWITCHES, PLAIN_CBS_SWITCHES } from './cbs-types';
+import { ConflictAvoidanceTable } from './conflict-avoidance-table';
 import { C_RANGE, C_VERTEX, type Constraint } from './constraint';
 import { ConstraintTable } from './constraint-table';
 import { type Conflict, K_CORRIDOR, K_RECTANGLE, K_TARGET, K_VERTEX, makeConflict, P_CARDINAL, P_NON, P_SEMI } from './conflict';
@@ -31,6 +33,30 @@ function root(inst: MapfInstance) {
   const conflicts: Conflict[] = [];
   model.findConflicts(0, paths[0], 1, paths[1], conflicts);
   return { model, planner, tables, paths, mdds, conflicts };
+}
+
+/**
+ * The CBS engine's own classification of a raw conflict between two root paths: its private
+ * `refine` step (target relabelling, MDD priority, rectangle), reached through element access
+ * because the engine exposes it only inside a search.
+ */
+function classifyByEngine(inst: MapfInstance, switches: CbsSwitches, raw: Conflict, r: ReturnType<typeof root>): Conflict {
+  const budget = new Budget(undefined, undefined, undefined);
+  const engine = new CbsEngine({
+    model: r.model,
+    agents: inst.agents.map((_, i) => i),
+    switches,
+    budget,
+    planner: new SpaceTimeAStar(r.model, budget),
+    cat: new ConflictAvoidanceTable(r.model.cellCount),
+    degree: r.model.degree,
+    nodeLimit: 1_000,
+    expandLimit: 1_000,
+    isLimitFatal: true,
+    memoryLimitBytes: 64 * 1024 * 1024,
+    isSub: false,
+  });
+  return engine['refine'](raw, r.paths[raw.a1], r.paths[raw.a2], r.mdds[raw.a1], r.mdds[raw.a2]);
 }
 
 function expectOptimal(inst: MapfInstance, expectedSoc: number): void {
@@ -148,14 +174,23 @@ describe('target reasoning', () => {
   const inst: MapfInstance = { grid, agents: [{ start: at(5, 2, 1), goal: at(5, 2, 0) }, { start: at(5, 0, 0), goal: at(5, 4, 0) }] };
 
   it('classifies the goal conflict as a target conflict and keeps the optimum', () => {
+    // Arrange: the real root paths and the conflict the model finds between them.
     const r = root(inst);
+    expect(r.conflicts).toHaveLength(1);
     const v = r.conflicts[0];
     expect(v.kind).toBe(K_VERTEX);
     expect(v.a1).toBe(0); // the agent resting at its goal comes first
+    expect(v.cell).toBe(at(5, 2, 0));
     expect(v.t).toBeGreaterThan(r.paths[0].length - 1);
-    const target = makeConflict(K_TARGET, v.a1, v.a2, v.cell, -1, v.t);
-    classifyByMdds(target, r.mdds[0], r.mdds[1]);
-    expect(target.priority).toBe(P_CARDINAL); // agent 1's only shortest route runs through (2, 0)
+    // Act: the engine classifies it, with target reasoning and MDD priorities on, and with target reasoning off.
+    const target = classifyByEngine(inst, DEFAULT_SWITCHES, v, r);
+    const plain = classifyByEngine(inst, { ...DEFAULT_SWITCHES, targetReasoning: false }, v, r);
+    // Assert: a target conflict on agent 0's goal, cardinal because agent 1's only shortest route
+    // runs through (2, 0) at that time and agent 0 cannot finish later without paying more.
+    expect(target.kind).toBe(K_TARGET);
+    expect([target.a1, target.a2, target.cell, target.t]).toEqual([0, 1, at(5, 2, 0), v.t]);
+    expect(target.priority).toBe(P_CARDINAL);
+    expect(plain.kind).toBe(K_VERTEX);
     const oracle = classicOracle(inst);
     if (oracle.kind !== 'solved') throw new Error('oracle');
     expectOptimal(inst, oracle.soc);
