@@ -17,14 +17,14 @@ import { apiRouter } from './api-router';
 import { authRouter } from './auth/auth.router';
 import { callbackUrl } from './auth/github-strategy';
 import { createPassport } from './auth/passport-setup';
-import { createSessionStore, sessionMiddleware } from './auth/session';
+import { createSessionStore, SESSION_COOKIE, sessionMiddleware } from './auth/session';
 import { defineModels } from './db/models';
 import { createSequelize } from './db/sequelize';
 import { startFakeOAuth, type RunningFakeOAuth } from './dev/fake-oauth/start-fake-oauth';
 import type { Mailbox } from './dev/fake-smtp/mailbox';
 import { errorHandler, notFound } from './errors/error-handler';
 import { authRateLimit } from './http/auth-rate-limit';
-import { csrfProtection } from './http/csrf';
+import { createCsrf } from './http/csrf';
 import { closeServer, listen } from './http/listen';
 import { createLogger } from './http/logger';
 import { securityHeaders } from './http/security-headers';
@@ -95,7 +95,10 @@ export function createApp(config: AppConfig, deps: Partial<AppDeps> = {}): Quart
   let interactive = deps.interactivePool;
   if (!interactive) {
     // Threads load on the first job (most test apps never run one) and stay loaded from then on.
-    const created = new InteractivePool({ threads: config.interactiveThreads, timeLimitMs: config.interactiveTimeLimitMs });
+    const created = new InteractivePool({
+      threads: config.interactiveThreads, timeLimitMs: config.interactiveTimeLimitMs,
+      perRequesterRunning: config.interactivePerUserRunning, perRequesterQueued: config.interactivePerUserQueued,
+    });
     owned.unshift(() => created.close());
     interactive = created;
   }
@@ -122,14 +125,15 @@ export function createApp(config: AppConfig, deps: Partial<AppDeps> = {}): Quart
     customLogLevel: (_req, res, err) => (err || res.statusCode >= 500 ? 'error' : res.statusCode >= 400 ? 'warn' : 'info'),
   }));
   app.use(securityHeaders(config.publicUrl));
-  app.use(csrfProtection({ publicUrl: config.publicUrl }));
+  const csrf = createCsrf({ publicUrl: config.publicUrl, secret: config.sessionSecret, sessionCookie: SESSION_COOKIE });
+  app.use(csrf.protect);
 
   const api = Router();
   api.use(express.json({ limit: '1mb' }));
   api.use(sessionMiddleware(config, store));
   api.use(passport.initialize());
   api.use(passport.session());
-  api.use('/auth', authRateLimit(config.authRateLimit, config.authRateWindowMs), authRouter(passport));
+  api.use('/auth', authRateLimit(config.authRateLimit, config.authRateWindowMs), authRouter(passport, csrf));
   api.use(apiRouter(context));
   api.use(notFound());
   app.use('/api', api);

@@ -2,13 +2,14 @@
 import { Router, type NextFunction, type Request, type Response } from 'express';
 import type { Passport } from 'passport';
 import { SIGN_IN_FAILED_PATH } from '@shared/auth';
+import type { Csrf } from '../http/csrf';
 import { SESSION_COOKIE } from './session';
 
 /** Errors passport-oauth2 raises when the provider misbehaves or refuses; they end in a redirect, not a 500. */
 const PROVIDER_ERRORS = new Set(['AuthorizationError', 'TokenError', 'InternalOAuthError']);
 
-/** Routes under /api/auth. */
-export function authRouter(passport: InstanceType<typeof Passport>): Router {
+/** Routes under /api/auth; `csrf` reissues the token bound to the session when sign-in or sign-out replaces it. */
+export function authRouter(passport: InstanceType<typeof Passport>, csrf: Csrf): Router {
   const r = Router();
 
   r.get('/github', passport.authenticate('github', { session: true }));
@@ -28,6 +29,7 @@ export function authRouter(passport: InstanceType<typeof Passport>): Router {
       req.logIn(user, (loginErr: unknown) => {
         if (loginErr) return next(loginErr);
         req.log?.info({ userId: user.id, login: user.login }, 'signed in');
+        csrf.reissue(res, req.sessionID);
         res.redirect(302, '/');
       });
     })(req, res, next);
@@ -40,6 +42,7 @@ export function authRouter(passport: InstanceType<typeof Passport>): Router {
       req.session.destroy((destroyErr: unknown) => {
         if (destroyErr) return next(destroyErr);
         res.clearCookie(SESSION_COOKIE, { path: '/' });
+        csrf.reissue(res, undefined);
         res.status(204).end();
       });
     });
