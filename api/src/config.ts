@@ -4,6 +4,7 @@
  * The defaults make `npm start` work on a fresh machine with nothing set.
  */
 import { z } from 'zod';
+import type { QuotaAmounts } from '@shared/storage-quota';
 
 /** The session secret used when SESSION_SECRET is unset; fine on a laptop, refused on a public host. */
 export const DEV_SESSION_SECRET = 'quarterturn-dev-session-secret-change-me';
@@ -57,6 +58,14 @@ export interface AppConfig {
   readonly interactiveThreads: number;
   /** Hard limit of one interactive job once its thread began it, ms (INTERACTIVE_TIME_LIMIT_MS, default 30000). */
   readonly interactiveTimeLimitMs: number;
+  /** Interactive threads one user may hold at once (INTERACTIVE_PER_USER_RUNNING, default 1). */
+  readonly interactivePerUserRunning: number;
+  /** Interactive jobs one user may have waiting; more are refused with 503 and Retry-After (INTERACTIVE_PER_USER_QUEUED, default 2). */
+  readonly interactivePerUserQueued: number;
+  /** Uploads one user may have in progress at once; more are refused with 429 (UPLOADS_PER_USER, default 2). */
+  readonly uploadsPerUser: number;
+  /** Default storage quota of a person's instance sets (QUOTA_FILES, QUOTA_CELLS, QUOTA_BYTES); admins set others per person. */
+  readonly storageQuota: QuotaAmounts;
 }
 
 /** Thrown by loadConfig with one line per bad variable. */
@@ -70,6 +79,18 @@ export class ConfigError extends Error {
 const emptyAsUndefined = (v: unknown) => (typeof v === 'string' && v.trim() === '' ? undefined : v);
 const optionalString = z.preprocess(emptyAsUndefined, z.string().trim().optional());
 const port = (fallback: number) => z.preprocess(emptyAsUndefined, z.coerce.number().int().min(0).max(65535).default(fallback));
+
+const quota = (fallback: number) => z.preprocess(emptyAsUndefined, z.coerce.number().int().min(0).max(Number.MAX_SAFE_INTEGER).default(fallback));
+
+/** Uploads one user may have in progress at once unless UPLOADS_PER_USER says otherwise. */
+export const DEFAULT_UPLOADS_PER_USER = 2;
+
+/**
+ * Storage quota of a person's instance sets unless QUOTA_* say otherwise: room for a full grid
+ * benchmark collection (a few million map cells, under 2,000 files, under 100 MB), not for sixty
+ * 1024 × 1024 maps.
+ */
+export const DEFAULT_STORAGE_QUOTA: QuotaAmounts = { files: 5_000, cells: 16 * 1024 * 1024, bytes: 256 * 1024 * 1024 };
 
 const EnvSchema = z.object({
   PORT: port(4300),
@@ -93,6 +114,12 @@ const EnvSchema = z.object({
   JOB_EXPIRY_MARGIN_SECONDS: z.preprocess(emptyAsUndefined, z.coerce.number().int().min(1).max(86_400).default(60)),
   INTERACTIVE_THREADS: z.preprocess(emptyAsUndefined, z.coerce.number().int().min(1).max(64).default(1)),
   INTERACTIVE_TIME_LIMIT_MS: z.preprocess(emptyAsUndefined, z.coerce.number().int().min(1000).max(600_000).default(30_000)),
+  INTERACTIVE_PER_USER_RUNNING: z.preprocess(emptyAsUndefined, z.coerce.number().int().min(1).max(64).default(1)),
+  INTERACTIVE_PER_USER_QUEUED: z.preprocess(emptyAsUndefined, z.coerce.number().int().min(0).max(64).default(2)),
+  UPLOADS_PER_USER: z.preprocess(emptyAsUndefined, z.coerce.number().int().min(1).max(64).default(DEFAULT_UPLOADS_PER_USER)),
+  QUOTA_FILES: quota(DEFAULT_STORAGE_QUOTA.files),
+  QUOTA_CELLS: quota(DEFAULT_STORAGE_QUOTA.cells),
+  QUOTA_BYTES: quota(DEFAULT_STORAGE_QUOTA.bytes),
   NODE_ENV: optionalString,
 });
 
@@ -165,6 +192,10 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): { config: AppC
       jobExpiryMarginSeconds: e.JOB_EXPIRY_MARGIN_SECONDS,
       interactiveThreads: e.INTERACTIVE_THREADS,
       interactiveTimeLimitMs: e.INTERACTIVE_TIME_LIMIT_MS,
+      interactivePerUserRunning: e.INTERACTIVE_PER_USER_RUNNING,
+      interactivePerUserQueued: e.INTERACTIVE_PER_USER_QUEUED,
+      uploadsPerUser: e.UPLOADS_PER_USER,
+      storageQuota: { files: e.QUOTA_FILES, cells: e.QUOTA_CELLS, bytes: e.QUOTA_BYTES },
     },
     warnings,
   };

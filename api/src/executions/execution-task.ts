@@ -61,5 +61,5 @@ export interface StoredPlan {
   readonly computedBy: SolverBuild;
 }
 
-/** Runs one task (the interactive pool's `execute`; tests may pass their own); `signal` cancels it. */
-export type ExecutionTaskRunner = (task: ExecutionTask, signal?: AbortSignal) => Promise<ExecutionTaskOutcome>;
+/** Runs one task for `requester` (the interactive pool's `execute`, which takes turns between requesters; tests may pass their own); `signal` cancels it. */
+export type ExecutionTaskRunner = (task: ExecutionTask, requester: string, signal?: AbortSignal) => Promise<ExecutionTaskOutcome>;

@@ -11,7 +11,7 @@ import { definePlanExecution } from './plan-execution.model';
  * this feature stays inside its folder; `runTask` defaults to the app's interactive worker pool,
  * so no request computes on the event loop.
  */
-export function executionsFeature(ctx: AppContext, runTask: ExecutionTaskRunner = (task, signal) => ctx.interactive.execute(task, signal)): Router {
+export function executionsFeature(ctx: AppContext, runTask: ExecutionTaskRunner = (task, requester, signal) => ctx.interactive.execute(task, requester, signal)): Router {
   const PlanExecution = definePlanExecution(ctx.sequelize);
   return executionsRouter(createExecutionsService({ models: ctx.models, PlanExecution, runTask, build: () => ctx.interactive.build }));
 }

@@ -21,6 +21,7 @@ import { loadInstance } from '../instance-sets/load-instance';
 import type { ExecutionTask, ExecutionTaskRunner, StoredPlan } from './execution-task';
 import { loadResultPlan } from './result-plan';
 import type { PlanExecution, PlanExecutionModel } from './plan-execution.model';
+import { requesterKey } from '../workers/interactive-pool';
 
 /** The operations behind the executions routes. */
 export interface ExecutionsService {
@@ -100,7 +101,7 @@ export function createExecutionsService(deps: ExecutionsServiceDeps): Executions
           policy: req.policy, noise: req.noise, seed: req.seed, runs: req.runs, onCollision: req.onCollision,
         };
         checkSize(instanceReq, loaded.instance);
-        const outcome = await runTask({ ...buildTask(instanceReq, loaded.instance), planOrigin: 'result' }, signal);
+        const outcome = await runTask({ ...buildTask(instanceReq, loaded.instance), planOrigin: 'result' }, requesterKey(owner), signal);
         if (outcome.kind === 'refused') throw new AppError(outcome.code, outcome.status, outcome.message);
         const plan: StoredPlan = {
           source: {
@@ -121,7 +122,7 @@ export function createExecutionsService(deps: ExecutionsServiceDeps): Executions
       const resolved = await resolveInstance(owner, req.instance);
       checkSize(req, resolved.instance);
       const task = buildTask(req, resolved.instance);
-      const outcome = await runTask(task, signal);
+      const outcome = await runTask(task, requesterKey(owner), signal);
       if (outcome.kind === 'refused') throw new AppError(outcome.code, outcome.status, outcome.message);
       const plan: StoredPlan = {
         source: resolved.source,

@@ -10,7 +10,7 @@ import { mapsRouter, scenariosRouter } from './library-files.router';
 
 /** Builds the service from the app context and mounts its routes. */
 export function instanceLibraryRouter(ctx: AppContext): Router {
-  const svc = createInstanceSetsService({ sequelize: ctx.sequelize, models: ctx.models, generate: (request) => ctx.interactive.generate(request) });
+  const svc = createInstanceSetsService({ sequelize: ctx.sequelize, models: ctx.models, generate: (request, requester) => ctx.interactive.generate(request, requester) });
   ctx.stats.register('instanceSets', (viewer) => svc.count(viewer, 'instanceSets'));
   ctx.stats.register('maps', (viewer) => svc.count(viewer, 'maps'));
   ctx.stats.register('scenarios', (viewer) => svc.count(viewer, 'scenarios'));

@@ -24,6 +24,7 @@ import {
 import type { MapFile } from './map-file.model';
 import type { ScenarioFile, StoredScenarioRow } from './scenario-file.model';
 import type { UploadEntry } from './upload-entry';
+import { requesterKey } from '../workers/interactive-pool';
 
 /** A file to send back exactly as uploaded. */
 export interface StoredFileBytes {
@@ -100,7 +101,7 @@ function problemsMessage(problems: readonly UploadProblem[]): string {
 export interface InstanceSetsServiceDeps {
   readonly sequelize: Sequelize;
   readonly models: Models;
-  readonly generate?: (request: GenerateRequest) => Promise<UploadEntry[]>;
+  readonly generate?: (request: GenerateRequest, requester: string) => Promise<UploadEntry[]>;
 }
 
 /** Builds the service over the library's models. */
@@ -240,7 +241,7 @@ export function createInstanceSetsService(deps: InstanceSetsServiceDeps): Instan
     async generate(viewer, body) {
       const request = validate(GenerateInstancesRequest, body);
       const set = await manageableSet(viewer, request.instanceSetId);
-      return storeEntries(set, await generate(request), [], []);
+      return storeEntries(set, await generate(request, requesterKey(viewer)), [], []);
     },
 
     async getMap(viewer, id) {

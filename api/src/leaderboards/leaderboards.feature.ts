@@ -13,6 +13,6 @@ export function leaderboardsFeature(ctx: AppContext): Router {
   const r = Router();
   r.use('/leaderboards', leaderboardsRouter(boards));
   r.use('/exports', exportsRouter(boards));
-  r.use('/submissions', submissionsRouter(createSubmissionsService({ sequelize: ctx.sequelize, models: ctx.models, checkPlan: (instance, sub) => ctx.interactive.checkPlan(instance, sub) })));
+  r.use('/submissions', submissionsRouter(createSubmissionsService({ sequelize: ctx.sequelize, models: ctx.models, checkPlan: (instance, sub, requester) => ctx.interactive.checkPlan(instance, sub, requester) })));
   return r;
 }

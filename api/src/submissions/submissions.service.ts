@@ -17,6 +17,7 @@ import { loadInstance } from '../instance-sets/load-instance';
 import { parameterHash } from '../sweeps/parameter-hash';
 import type { PlanVerdict } from './check-plan';
 import { readPlanFile, type ReadSubmission } from './read-plan-file';
+import { requesterKey } from '../workers/interactive-pool';
 
 /** The submissions service. */
 export interface SubmissionsService {
@@ -58,7 +59,7 @@ function toView(r: ListRow): SubmissionView {
 export interface SubmissionsServiceDeps {
   readonly sequelize: Sequelize;
   readonly models: Models;
-  readonly checkPlan: (instance: MapfInstance, submission: ReadSubmission) => Promise<PlanVerdict>;
+  readonly checkPlan: (instance: MapfInstance, submission: ReadSubmission, requester: string) => Promise<PlanVerdict>;
 }
 
 /** The submissions service on one connection. */
@@ -72,7 +73,7 @@ export function createSubmissionsService(deps: SubmissionsServiceDeps): Submissi
     async submit(uploader, body) {
       const sub = readPlanFile(validate(SubmissionRequestSchema, body));
       const loaded = await loadInstance(models, sub.scenarioId, sub.agents, { viewer: uploader });
-      const verdict = await deps.checkPlan(loaded.instance, sub);
+      const verdict = await deps.checkPlan(loaded.instance, sub, requesterKey(uploader));
       if (!verdict.ok) {
         throw new AppError(PLAN_REJECTED, 422, `The ${sub.model} validator rejected the plan: ${verdict.violation.message}`, { violation: verdict.violation });
       }

@@ -38,7 +38,7 @@ describe('InteractivePool', () => {
 
   it('solves and simulates an execution task in a thread, not on the calling thread', async () => {
     pool = new InteractivePool({ threads: 1, timeLimitMs: 20_000 });
-    const out = await pool.execute(TASK);
+    const out = await pool.execute(TASK, 'user:1');
     expect(out.kind).toBe('done');
     if (out.kind !== 'done') return;
     // Hand-worked: one robot steps into the bay (1, 1) and back out, so its path is 2 steps
@@ -53,7 +53,7 @@ describe('InteractivePool', () => {
 
   it('generates the same bytes as the generators run in this thread', async () => {
     pool = new InteractivePool({ threads: 1, timeLimitMs: 20_000 });
-    const pooled = await pool.generate(GENERATE);
+    const pooled = await pool.generate(GENERATE, 'user:1');
     const local = generateEntries(GENERATE);
     expect(pooled.map((e) => e.name)).toEqual(local.map((e) => e.name));
     pooled.forEach((e, i) => expect(Buffer.compare(e.bytes, local[i].bytes)).toBe(0));
@@ -61,7 +61,7 @@ describe('InteractivePool', () => {
 
   it('passes a refusal raised in the thread on as the same AppError', async () => {
     pool = new InteractivePool({ threads: 1, timeLimitMs: 20_000 });
-    const err = await refusal(pool.generate({ ...GENERATE, map: { kind: 'rooms', roomsX: 64, roomsY: 64, roomWidth: 64, roomHeight: 64 } }));
+    const err = await refusal(pool.generate({ ...GENERATE, map: { kind: 'rooms', roomsX: 64, roomsY: 64, roomWidth: 64, roomHeight: 64 } }, 'user:1'));
     expect([err.status, err.code]).toEqual([400, 'VALIDATION_FAILED']);
     expect(err.message).toContain('at most');
   }, 60_000);
@@ -69,19 +69,33 @@ describe('InteractivePool', () => {
   it('stops a job past its time limit with 503 COMPUTE_TIME_LIMIT and keeps serving', async () => {
     // The fixture spins forever on an execute job.
     pool = new InteractivePool({ threads: 1, timeLimitMs: 1000, filename: SPIN });
-    const err = await refusal(pool.execute(TASK));
+    const err = await refusal(pool.execute(TASK, 'user:1'));
     expect([err.status, err.code]).toEqual([503, 'COMPUTE_TIME_LIMIT']);
     expect(err.message).toContain('1000 ms');
-    const again = await refusal(pool.execute(TASK));
+    const again = await refusal(pool.execute(TASK, 'user:1'));
     expect(again.code).toBe('COMPUTE_TIME_LIMIT');
   }, 60_000);
 
   it('refuses at once with 503 COMPUTE_BUSY when the queue is full', async () => {
     pool = new InteractivePool({ threads: 1, timeLimitMs: 3000, maxQueued: 0, filename: SPIN });
-    const first = pool.execute(TASK).catch((e: unknown) => e);
-    const err = await refusal(pool.execute(TASK));
+    const first = pool.execute(TASK, 'user:1').catch((e: unknown) => e);
+    const err = await refusal(pool.execute(TASK, 'user:1'));
     expect([err.status, err.code]).toEqual([503, 'COMPUTE_BUSY']);
     expect(((await first) as AppError).code).toBe('COMPUTE_TIME_LIMIT');
+  }, 60_000);
+
+  it('serves a second user before the rest of a flood from one user, and refuses the flood past its queue', async () => {
+    // Each spinning job holds the one thread for its whole 1 s limit.
+    pool = new InteractivePool({ threads: 1, timeLimitMs: 1000, filename: SPIN });
+    await pool.warm();
+    const finished: string[] = [];
+    const send = (who: string, label: string) => pool!.execute(TASK, who).catch((e: unknown) => { finished.push(label); return e; });
+    const flood = [send('user:1', 'a1'), send('user:1', 'a2'), send('user:1', 'a3')];
+    const beyond = await refusal(pool.execute(TASK, 'user:1'));
+    expect([beyond.status, beyond.code, beyond.retryAfterSeconds! >= 1]).toEqual([503, 'COMPUTE_BUSY', true]);
+    const other = send('user:2', 'b1');
+    await Promise.all([...flood, other]);
+    expect(finished).toEqual(['a1', 'b1', 'a2', 'a3']);
   }, 60_000);
 
   it('cancels a job when its signal fires (a client that went away), long before the time limit', async () => {
@@ -90,7 +104,7 @@ describe('InteractivePool', () => {
     const gone = new AbortController();
     setTimeout(() => gone.abort(), 200);
     const t0 = performance.now();
-    const err = await refusal(pool.execute(TASK, gone.signal));
+    const err = await refusal(pool.execute(TASK, 'user:1', gone.signal));
     expect(err.message).toContain('cancelled');
     expect(performance.now() - t0).toBeLessThan(10_000);
   }, 60_000);

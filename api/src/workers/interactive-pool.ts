@@ -2,8 +2,9 @@
  * The server's pool for work a request waits on (executions, instance generation, and the check
  * and execution replays of submitted plans): a small PlanPool (plan-pool.ts, the same threads and
  * limits as sweeps) with one heap limit, a per-job time limit enforced by AbortSignal (the
- * thread is terminated when a job ignores it) and a bounded queue, so a request handler never
- * computes on the event loop. Every failure becomes an AppError the error middleware answers.
+ * thread is terminated when a job ignores it) and a FairGate (fair-gate.ts) in front of it, so one user
+ * cannot hold every thread while others wait and a request handler never computes on the event loop. Every
+ * failure becomes an AppError the error middleware answers.
  */
 import type { ExecutionTask, ExecutionTaskOutcome } from '../executions/execution-task';
 import { AppError } from '../errors/app-error';
@@ -13,6 +14,7 @@ import type { MapfInstance } from '@solvers/instance';
 import type { PlanVerdict } from '../submissions/check-plan';
 import type { ReadSubmission } from '../submissions/read-plan-file';
 import type { SolverBuild } from '@shared/runs';
+import { FairGate } from './fair-gate';
 import { readSolverBuild } from './machine-info';
 import { PlanPool, type PoolOutcome } from './plan-pool';
 import type { ThreadJob, ThreadResults } from './thread-job';
@@ -37,6 +39,10 @@ export interface InteractivePoolOptions {
   readonly memoryLimitMb?: number;
   /** Jobs that may wait for a thread beyond the running ones; more are refused at once (503). */
   readonly maxQueued?: number;
+  /** Threads one requester may hold at once (INTERACTIVE_PER_USER_RUNNING, default 1). */
+  readonly perRequesterRunning?: number;
+  /** Jobs one requester may have waiting (INTERACTIVE_PER_USER_QUEUED, default 2). */
+  readonly perRequesterQueued?: number;
   /** How long a job may wait for a thread, ms. */
   readonly startLimitMs?: number;
   /** Worker file (tests pass a slowed or misbehaving one). */
@@ -52,15 +58,30 @@ export const INTERACTIVE_MAX_QUEUED = 8;
 /** Default wait for a thread, ms. */
 export const INTERACTIVE_START_LIMIT_MS = 30_000;
 
+/** Default jobs one requester may have waiting. */
+export const INTERACTIVE_PER_REQUESTER_QUEUED = 2;
+
+/** Who asks for a computation, for turn-taking: one key per signed-in account (every computation needs one). */
+export function requesterKey(account: { readonly id: number } | null): string {
+  return account ? `user:${account.id}` : 'visitor';
+}
+
 /** The pool of interactive jobs (see the module comment). */
 export class InteractivePool {
   private readonly pool: PlanPool;
-  private pending = 0;
+  private readonly gate: FairGate;
   private warming: Promise<void> | undefined;
   private solverBuild: SolverBuild | undefined;
 
   constructor(private readonly options: InteractivePoolOptions) {
     this.pool = new PlanPool({ threads: options.threads, filename: options.filename });
+    this.gate = new FairGate({
+      slots: options.threads,
+      perRequesterRunning: options.perRequesterRunning ?? 1,
+      perRequesterQueued: options.perRequesterQueued ?? INTERACTIVE_PER_REQUESTER_QUEUED,
+      maxQueued: options.maxQueued ?? INTERACTIVE_MAX_QUEUED,
+      startLimitMs: options.startLimitMs ?? INTERACTIVE_START_LIMIT_MS,
+    });
   }
 
   /** Jobs finished by the threads so far (tests prove a request went through the pool with it). */
@@ -86,19 +107,19 @@ export class InteractivePool {
   }
 
   /** Simulates (and, without a plan, solves) one execution task in a thread. */
-  execute(task: ExecutionTask, signal?: AbortSignal): Promise<ExecutionTaskOutcome> {
-    return this.run({ kind: 'execute', task }, 'the execution', signal);
+  execute(task: ExecutionTask, requester: string, signal?: AbortSignal): Promise<ExecutionTaskOutcome> {
+    return this.run({ kind: 'execute', task }, 'the execution', requester, signal);
   }
 
   /** Runs the seeded generators of one generate request in a thread; throws the generator's refusal as its AppError. */
-  async generate(request: GenerateRequest, signal?: AbortSignal): Promise<UploadEntry[]> {
-    const files = await this.run({ kind: 'generate', request }, 'the generation', signal);
+  async generate(request: GenerateRequest, requester: string, signal?: AbortSignal): Promise<UploadEntry[]> {
+    const files = await this.run({ kind: 'generate', request }, 'the generation', requester, signal);
     return files.map((f) => ({ name: f.name, label: f.name, bytes: Buffer.from(f.bytes.buffer, f.bytes.byteOffset, f.bytes.byteLength) }));
   }
 
   /** Validates a submitted plan with its model's validator and, when it passes, replays it under every policy, in a thread. */
-  checkPlan(instance: MapfInstance, submission: ReadSubmission, signal?: AbortSignal): Promise<PlanVerdict> {
-    return this.run({ kind: 'check-plan', instance, submission }, 'the plan check', signal);
+  checkPlan(instance: MapfInstance, submission: ReadSubmission, requester: string, signal?: AbortSignal): Promise<PlanVerdict> {
+    return this.run({ kind: 'check-plan', instance, submission }, 'the plan check', requester, signal);
   }
 
   /** Terminates the threads; later jobs fail. */
@@ -110,16 +131,12 @@ export class InteractivePool {
     return this.options.memoryLimitMb ?? INTERACTIVE_MEMORY_MB;
   }
 
-  private async run<J extends ThreadJob>(job: J, what: string, signal?: AbortSignal): Promise<ThreadResults[J['kind']]> {
-    const maxQueued = this.options.maxQueued ?? INTERACTIVE_MAX_QUEUED;
-    if (this.pending >= this.options.threads + maxQueued) {
-      throw new AppError(INTERACTIVE_ERROR_CODES.busy, 503, `The server is busy with ${this.pending} computations; try again in a moment.`);
-    }
-    this.pending++;
-    // The first job loads the threads; a thread that cannot load fails the job itself below.
-    await this.warm().catch(() => undefined);
+  private async run<J extends ThreadJob>(job: J, what: string, requester: string, signal?: AbortSignal): Promise<ThreadResults[J['kind']]> {
+    const leave = await this.gate.enter(requester, what, signal);
     let outcome: PoolOutcome<ThreadResults[J['kind']]>;
     try {
+      // The first job loads the threads; a thread that cannot load fails the job itself below.
+      await this.warm().catch(() => undefined);
       outcome = await this.pool.runJob(job, {
         hardLimitMs: this.options.timeLimitMs,
         memoryLimitMb: this.memoryLimitMb,
@@ -127,7 +144,7 @@ export class InteractivePool {
         signal,
       });
     } finally {
-      this.pending--;
+      leave();
     }
     return resultOf(outcome, what, this.options.timeLimitMs, this.memoryLimitMb);
   }
