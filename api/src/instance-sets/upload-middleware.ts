@@ -1,7 +1,8 @@
 /**
  * Multipart parsing for uploads: multer's memory storage with the per-file and file-count
  * limits of UPLOAD_LIMITS, behind a Content-Length check so a request can never make the
- * server buffer more than the upload allows in all.
+ * server buffer more than the upload allows in all. A body multer cannot read (empty, cut off,
+ * no boundary, a malformed part header) is the client's mistake: 400 VALIDATION_FAILED, never 500.
  */
 import type { RequestHandler } from 'express';
 import multer from 'multer';
@@ -34,7 +35,27 @@ export function uploadFiles(): RequestHandler[] {
     // Keep client paths so '../x.map' is refused by name rather than silently shortened.
     preservePath: true,
     defParamCharset: 'utf8',
-    limits: { fileSize: UPLOAD_LIMITS.maxFileBytes, files: UPLOAD_LIMITS.maxFilesPerUpload, fields: 0, parts: UPLOAD_LIMITS.maxFilesPerUpload },
+    limits: {
+      fileSize: UPLOAD_LIMITS.maxFileBytes, files: UPLOAD_LIMITS.maxFilesPerUpload, fields: 0, parts: UPLOAD_LIMITS.maxFilesPerUpload,
+      // Part headers are all that is buffered besides the files: keep them small too.
+      fieldNameSize: 100, headerPairs: 20,
+    },
   }).array(UPLOAD_FIELD, UPLOAD_LIMITS.maxFilesPerUpload);
-  return [limitRequestBytes(UPLOAD_LIMITS.maxTotalBytes + FRAMING_BYTES), parse];
+  const parseOrRefuse: RequestHandler = (req, res, next) => {
+    parse(req, res, (err?: unknown) => next(asClientError(err)));
+  };
+  return [limitRequestBytes(UPLOAD_LIMITS.maxTotalBytes + FRAMING_BYTES), parseOrRefuse];
+}
+
+/**
+ * A parse error as the error middleware should answer it: multer's own limit errors and
+ * AppErrors as they are, and every other error of the multipart parser (busboy's 'Unexpected end
+ * of form', 'Multipart: Boundary not found', 'Malformed part header', a client that went away)
+ * as 400, since it describes the body the client sent.
+ */
+export function asClientError(err: unknown): unknown {
+  if (err === undefined || err === null) return undefined;
+  if (err instanceof AppError || (err as { name?: string }).name === 'MulterError') return err;
+  const reason = err instanceof Error ? err.message : String(err);
+  return new AppError('VALIDATION_FAILED', 400, `The upload is not a complete multipart/form-data body (${reason}); send the files again.`);
 }
