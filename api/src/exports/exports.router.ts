@@ -6,6 +6,7 @@
 import { Router } from 'express';
 import { EXPORT_FORMATS, type ExportFormat } from '@shared/exports-table';
 import { AppError } from '../errors/app-error';
+import { attachmentDisposition } from '../http/content-disposition';
 import type { LeaderboardsService } from '../leaderboards/leaderboards.service';
 import { flatQuery, scopeOf, viewOf, windowOf } from '../leaderboards/view-request';
 import { buildExport } from './build-export';
@@ -38,7 +39,7 @@ export function exportsRouter(boards: LeaderboardsService): Router {
     }
     const file = FILE_TYPES[format];
     res.setHeader('content-type', file.type);
-    res.setHeader('content-disposition', `attachment; filename="quarterturn-leaderboard.${file.ext}"`);
+    res.setHeader('content-disposition', attachmentDisposition(`quarterturn-leaderboard.${file.ext}`));
     res.send(buildExport(format, view, page));
   });
   return r;

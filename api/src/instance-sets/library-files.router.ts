@@ -2,6 +2,7 @@
 import { Router, type Response } from 'express';
 import { requireRole } from '../auth/require-role';
 import { validate } from '../errors/validate';
+import { attachmentDisposition } from '../http/content-disposition';
 import { IdParam } from './instance-sets.router';
 import type { InstanceSetsService, StoredFileBytes } from './instance-sets.service';
 
@@ -9,7 +10,7 @@ import type { InstanceSetsService, StoredFileBytes } from './instance-sets.servi
 function sendFile(res: Response, file: StoredFileBytes): void {
   res.set({
     'content-type': 'application/octet-stream',
-    'content-disposition': `attachment; filename="${file.name.replace(/["\\\r\n]/g, '_')}"`,
+    'content-disposition': attachmentDisposition(file.name),
     etag: `"${file.checksum}"`,
     'x-checksum-sha256': file.checksum,
   });
