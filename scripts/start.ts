@@ -11,6 +11,7 @@ import { ConfigError, loadConfig } from '../api/src/config';
 import { migrate } from '../api/src/db/migrate';
 import { createSequelize } from '../api/src/db/sequelize';
 import { seedDemo } from '../api/src/demo/seed-demo';
+import { isDevelopmentMode } from '../api/src/dev/development-mode';
 import { startFakeSmtp } from '../api/src/dev/fake-smtp/fake-smtp-server';
 import { createLogger } from '../api/src/http/logger';
 import { onShutdownSignals, type ShutdownStep } from '../api/src/lifecycle/on-shutdown';
@@ -63,12 +64,15 @@ async function main(): Promise<void> {
     const web = ensureWebBuild({ root: ROOT, webDist: config.webDist, log: (m) => logger.info(m) });
     logger.info({ web }, 'web app build checked');
 
-    // Without SMTP_URL, e-mail goes to a local fake SMTP server whose mailbox the app shows at /dev/mailbox.
+    // Without SMTP_URL, e-mail goes to a local fake SMTP server whose mailbox admins see at /sweeps/mailbox;
+    // only in development mode: the mailbox holds everyone's sweep e-mail (issue 13).
     let smtpUrl = config.smtpUrl;
-    const smtp = smtpUrl ? undefined : await startFakeSmtp(config.fakeSmtpPort);
+    const smtp = smtpUrl || !isDevelopmentMode(config) ? undefined : await startFakeSmtp(config.fakeSmtpPort);
     if (smtp) {
       smtpUrl = smtp.url;
-      logger.info(`local fake SMTP server on ${smtp.url} (messages at ${config.publicUrl}/sweeps/mailbox)`);
+      logger.info(`local fake SMTP server on ${smtp.url} (messages for admins at ${config.publicUrl}/sweeps/mailbox)`);
+    } else if (!smtpUrl) {
+      logger.warn('SMTP_URL is not set: no e-mail is sent (the local fake SMTP server runs only in development mode)');
     }
     const server = await startServer({ config: { ...config, databaseUrl, smtpUrl }, logger, mailbox: smtp?.mailbox });
     steps.push({ name: 'HTTP server, fake OAuth provider and database pools', run: () => server.close() });

@@ -1,11 +1,13 @@
 /**
  * Wires the sweeps feature into an app: the service, the SSE hub, a lazily started job queue
  * (pg-boss connects on the first launch or cancel, so apps that never launch open nothing) and
- * the home-page counter. Also mounts the dev mailbox when a fake SMTP server runs.
+ * the home-page counter. Also mounts the dev mailbox (admins only) when a fake SMTP server runs
+ * and the app is in development mode.
  */
 import { Router } from 'express';
 import type PgBoss from 'pg-boss';
 import type { AppContext } from '../app-context';
+import { isDevelopmentMode } from '../dev/development-mode';
 import { mailboxRouter } from '../dev/fake-smtp/mailbox.router';
 import { AppError } from '../errors/app-error';
 import { createBoss } from '../workers/sweep-queue';
@@ -35,6 +37,7 @@ export function sweepsFeature(ctx: AppContext): Router {
   });
   const r = Router();
   r.use('/sweeps', sweepsRouter(svc, events));
-  if (ctx.mailbox) r.use('/dev/mailbox', mailboxRouter(ctx.mailbox));
+  if (ctx.mailbox && isDevelopmentMode(ctx.config)) r.use('/dev/mailbox', mailboxRouter(ctx.mailbox));
+  else if (ctx.mailbox) ctx.logger.warn('local mailbox not served: it needs development mode (fake sign-in, loopback PUBLIC_URL and HOST)');
   return r;
 }

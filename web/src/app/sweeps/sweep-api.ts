@@ -42,7 +42,7 @@ export class SweepApi {
     return this.http.post<SweepDetail>(`/api/sweeps/${id}/cancel`, {});
   }
 
-  /** GET /api/dev/mailbox (404 unless the local fake SMTP server runs). */
+  /** GET /api/dev/mailbox (admins only; 404 unless the local fake SMTP server runs in development mode). */
   mailbox(): Observable<MailboxResponse> {
     return this.http.get<MailboxResponse>('/api/dev/mailbox', { context: new HttpContext().set(IS_QUIET, true) });
   }

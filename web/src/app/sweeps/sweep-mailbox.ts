@@ -1,4 +1,7 @@
-/** The page at /sweeps/mailbox: messages the local fake SMTP server received (development only; the API answers 404 elsewhere). */
+/**
+ * The page at /sweeps/mailbox: messages the local fake SMTP server received. Admins only (the route's
+ * guard; the API answers 401/403 to others) and development only (the API answers 404 elsewhere).
+ */
 import { ChangeDetectionStrategy, Component, inject } from '@angular/core';
 import { toSignal } from '@angular/core/rxjs-interop';
 import { DatePipe } from '@angular/common';
@@ -12,7 +15,7 @@ import { SweepApi } from './sweep-api';
   selector: 'app-sweep-mailbox',
   template: `
     <h1>Local mailbox</h1>
-    <p class="note">E-mail sent while no SMTP_URL is set lands here instead of being delivered. This page exists only in development.</p>
+    <p class="note">E-mail sent while no SMTP_URL is set lands here instead of being delivered: everyone's sweep e-mail, so this page is for admins only, and it exists only in development (fake sign-in on this machine).</p>
     @if (messages(); as list) {
       @for (m of list; track m.id) {
         <mat-card appearance="outlined" class="mail">
@@ -22,7 +25,7 @@ import { SweepApi } from './sweep-api';
         </mat-card>
       } @empty { <p class="note">No messages yet.</p> }
     } @else if (messages() === null) {
-      <p class="note">No local mailbox here: the fake SMTP server is not running (it runs only with <code>npm start</code> and no SMTP_URL).</p>
+      <p class="note">No local mailbox here: the fake SMTP server runs only in development (<code>npm start</code> with the fake sign-in on this machine and no SMTP_URL).</p>
     }
   `,
   styles: `.note { color: var(--mat-sys-on-surface-variant); } .mail { margin: 12px 0; } pre { white-space: pre-wrap; font: var(--mat-sys-body-medium); }`,
