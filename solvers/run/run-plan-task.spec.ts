@@ -1,5 +1,7 @@
 import PF from 'pathfinding';
 import type { RobotProfile } from '@shared/plan';
+import { generateMap } from '../generate/generate-map';
+import { createRng } from '../random';
 import { classicOracle } from '../testing/classic-oracle';
 import { tinyInstance } from '../testing/tiny-instance';
 import { datasetInstance } from '../execute/testing/dataset-instances';
@@ -42,6 +44,46 @@ describe('runPlanTask', () => {
       expect(r.soc).toBe(ref.length - 1);
       expect(r.lowerBound).toBe(ref.length - 1);
     }
+  });
+
+  it('solves single agents on seeded generated maps with obstacles at the pathfinding library\'s BFS distance, unreachable goals as infeasible', () => {
+    // Outside check: pathfinding@0.4.18 BreadthFirstFinder (4-connected by default; an empty path
+    // when the goal cannot be reached). Maps: the project's seeded generators, one of each kind
+    // with obstacles; random start/goal pairs, so the random map's pockets give unreachable goals.
+    const maps = [
+      generateMap({ kind: 'random', width: 12, height: 10, density: 0.4, seed: 5 }).map,
+      generateMap({ kind: 'rooms', roomsX: 3, roomsY: 3, roomWidth: 4, roomHeight: 3, seed: 6 }).map,
+      generateMap({ kind: 'maze', cellsX: 6, cellsY: 5, seed: 7 }).map,
+      generateMap({ kind: 'warehouse', shelfColumns: 3, shelfRows: 3, shelfLength: 3, seed: 8 }).map,
+    ];
+    const rng = createRng(2024);
+    let solved = 0;
+    let unreachable = 0;
+    for (const { grid } of maps) {
+      const { width, height } = grid;
+      const free = [...grid.passable.keys()].filter((c) => grid.passable[c] === 1);
+      expect(free.length).toBeLessThan(width * height); // the map has obstacles
+      const matrix = Array.from({ length: height }, (_, y) => Array.from({ length: width }, (_, x) => 1 - grid.passable[y * width + x]));
+      for (let k = 0; k < 10; k++) {
+        const start = free[rng.int(free.length)];
+        let goal = free[rng.int(free.length)];
+        while (goal === start) goal = free[rng.int(free.length)];
+        const one: MapfInstance = { grid, agents: [{ start, goal }] };
+        const r = runPlanTask(task(one, classic), { now });
+        const ref = new PF.BreadthFirstFinder().findPath(start % width, Math.floor(start / width),
+          goal % width, Math.floor(goal / width), new PF.Grid(width, height, matrix)) as number[][];
+        if (ref.length === 0) {
+          expect(r.status).toBe('infeasible');
+          unreachable++;
+        } else {
+          expect(r.status).toBe('solved');
+          expect(r.soc).toBe(ref.length - 1);
+          solved++;
+        }
+      }
+    }
+    // The seeded sample is fixed: 40 pairs, 35 reachable and 5 unreachable (in the random map's pockets).
+    expect([solved, unreachable]).toEqual([35, 5]);
   });
 
   it('matches the exhaustive classic oracle on a corridor with a bay and reports turn-inclusive figures', () => {
