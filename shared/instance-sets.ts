@@ -5,6 +5,7 @@
  */
 import { z } from 'zod';
 import type { CellXY } from './plan';
+import { multiLineText, singleLineText } from './text-field';
 
 /** Who may see a set: everyone, or only its owner plus maintainers and admins. */
 export const VISIBILITIES = ['public', 'private'] as const;
@@ -29,17 +30,17 @@ export const UPLOAD_FIELD = 'files';
 
 /** POST /api/instance-sets: answers the new InstanceSetDetail with 201. */
 export const CreateInstanceSetRequest = z.object({
-  name: z.string().trim().min(1, 'a name is required').max(120),
-  description: z.string().trim().max(4000).default(''),
+  name: singleLineText().min(1, 'a name is required').max(120),
+  description: multiLineText().max(4000).default(''),
   visibility: z.enum(VISIBILITIES).default('private'),
   /** Where the files come from and under which licence they may be used. */
-  source: z.string().trim().max(2000).default(''),
+  source: multiLineText().max(2000).default(''),
 }).strict();
 export type CreateInstanceSetRequest = z.input<typeof CreateInstanceSetRequest>;
 
 /** Query of GET /api/instance-sets: a search text on name and description, 1-based page. */
 export const InstanceSetListQuery = z.object({
-  q: z.string().trim().max(120).optional(),
+  q: singleLineText().max(120).optional(),
   page: z.coerce.number().int().min(1).max(100_000).default(1),
   pageSize: z.coerce.number().int().min(1).max(100).default(20),
 });

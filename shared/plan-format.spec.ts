@@ -21,6 +21,9 @@ const docs: readonly [string, unknown, boolean][] = [
   ['a cell with three numbers', { ...base, model: 'classic', paths: [[[0, 0, 1]]] }, false],
   ['a fractional cell', { ...base, model: 'classic', paths: [[[0.5, 0]]] }, false],
   ['another format', { ...base, format: 'other', model: 'classic', paths: [[[0, 0]]] }, false],
+  ['a NUL in the solver name', { ...base, model: 'classic', solver: { name: 'x\u0000y', version: '1' }, paths: [[[0, 0]]] }, false],
+  ['a line break in the solver version', { ...base, model: 'classic', solver: { name: 'x', version: '1\n2' }, paths: [[[0, 0]]] }, false],
+  ['a solver name outside ASCII', { ...base, model: 'classic', solver: { name: 'Planificateur café 地图', version: '1' }, paths: [[[0, 0]]] }, true],
   ['with a robot profile', { ...base, model: 'classic', robotProfile: { forwardMs: 1, quarterTurnMs: 1, waitMs: 1, cellPitchMm: 1, robotDiameterMm: 1, timingJitter: 0 }, paths: [[[0, 0]]] }, true],
 ];
 

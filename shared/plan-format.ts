@@ -11,6 +11,7 @@
 import { z } from 'zod';
 import { ACTION_KINDS, HEADINGS } from './plan';
 import { RobotProfileSchema } from './sweeps';
+import { singleLineText } from './text-field';
 
 const cell = z.tuple([z.number().int(), z.number().int()]);
 const heading = z.enum(HEADINGS);
@@ -18,8 +19,8 @@ const startHeading = z.enum([...HEADINGS, 'free']).default('free');
 
 /** The solver that produced a plan. */
 export const SolverInfoSchema = z.object({
-  name: z.string().trim().min(1, 'a solver name is required').max(120),
-  version: z.string().trim().min(1, 'a solver version is required').max(64),
+  name: singleLineText().min(1, 'a solver name is required').max(120),
+  version: singleLineText().min(1, 'a solver version is required').max(64),
 }).strict();
 
 /** Which stored instance a plan is for. */
@@ -65,10 +66,10 @@ export const TEXT_FORMAT_MODELS = ['classic', 'uniform-duration', 'k-robust', 'o
 
 /** POST /api/submissions: a plan file's text and, for the text format, what it is a plan for. */
 export const SubmissionRequestSchema = z.discriminatedUnion('format', [
-  z.object({ format: z.literal('json'), fileName: z.string().max(255).optional(), text: z.string().min(1, 'the plan file is empty').max(900_000) }).strict(),
+  z.object({ format: z.literal('json'), fileName: singleLineText().max(255).optional(), text: z.string().min(1, 'the plan file is empty').max(900_000) }).strict(),
   z.object({
     format: z.literal('text'),
-    fileName: z.string().max(255).optional(),
+    fileName: singleLineText().max(255).optional(),
     text: z.string().min(1, 'the plan file is empty').max(900_000),
     model: z.enum(TEXT_FORMAT_MODELS),
     k: z.number().int().min(0).max(20).optional(),

@@ -6,6 +6,7 @@
  */
 import { z } from 'zod';
 import { HEADINGS, PLAN_MODELS, type PlanModel } from './plan';
+import { singleLineText } from './text-field';
 
 /** Execution policies a sweep may replay plans under (same names as solvers/execute). */
 export const SWEEP_POLICIES = ['open-loop', 'lockstep', 'dependency-gated'] as const;
@@ -93,7 +94,7 @@ export const SweepExecutionSchema = z.object({
 
 /** POST /api/sweeps: the definition of a sweep. */
 export const SweepDefinitionSchema = z.object({
-  name: z.string().trim().min(1, 'a name is required').max(120),
+  name: singleLineText().min(1, 'a name is required').max(120),
   instances: SweepInstancesSchema,
   agentCounts: AgentCountsSchema,
   models: z.array(ModelSpecSchema).min(1, 'choose at least one plan model').max(20),
