@@ -51,7 +51,7 @@ function dataset(agents: number): MapfInstance {
 
 describe('solveOrientationSplit', () => {
   it('matches the exhaustive orientation oracle on tiny seeded instances under every start-heading rule, plans valid', () => {
-    // Reference: orientationOracle (exhaustive A* over joint (cell, heading) states).
+    // Independent in-project oracle: orientationOracle (exhaustive A* over joint (cell, heading) states).
     let compared = 0;
     let unsolvable = 0;
     for (let seed = 1; seed <= 40; seed++) {
@@ -191,7 +191,7 @@ describe('solveOrientationSplit', () => {
   });
 
   it('resolves a head-on meeting in a corridor with a side pocket, valid and optimal', () => {
-    // Two robots facing each other in a 4-cell corridor with one pocket below (1, 0): the oracle is the reference.
+    // Two robots facing each other in a 4-cell corridor with one pocket below (1, 0): the in-project oracle is the reference.
     const inst = tinyInstance('....\n.#.#', [[[0, 0], [3, 0], 'E'], [[3, 0], [0, 0], 'W']]);
     const r = solveOrientationSplit(inst);
     const oracle = orientationOracle(inst, 'free');

@@ -1,6 +1,7 @@
-// Joint optimality of the weighted-split solver against the exhaustive joint-state oracle
-// (solvers/testing/weighted-oracle.ts, written independently of solvers/search/), and every
-// plan against the independent schedule validator (solvers/validate/schedule.ts).
+// Joint optimality of the weighted-split solver against an independent in-project oracle, the
+// exhaustive joint-state search of solvers/testing/weighted-oracle.ts (written independently of
+// solvers/search/, but in this project: no outside reference checks the weighted-split optimum
+// yet), and every plan against the independent schedule validator (solvers/validate/schedule.ts).
 import type { RobotProfile, StartHeading } from '@shared/plan';
 import type { Grid } from '../grid/grid';
 import type { MapfInstance } from '../instance';
