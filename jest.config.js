@@ -61,7 +61,8 @@ module.exports = {
         }],
       },
       transformIgnorePatterns: ['node_modules/(?!.*\\.mjs$)'],
-      moduleNameMapper: aliases,
+      // marked ships only ES modules to Node (exports "default"), which this CommonJS run cannot load; its UMD build is the same code.
+      moduleNameMapper: { ...aliases, '^marked$': '<rootDir>/node_modules/marked/lib/marked.umd.js' },
     },
   ],
 };

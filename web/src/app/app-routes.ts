@@ -9,6 +9,7 @@ export const routes: Routes = [
   { path: 'sweeps', loadChildren: () => import('./sweeps/sweeps.routes') },
   { path: 'leaderboards', loadChildren: () => import('./leaderboards/leaderboards.routes') },
   { path: 'plans', loadChildren: () => import('./plan-viewer/plan-viewer.routes') },
+  { path: 'help', title: 'Help · Quarterturn', loadComponent: () => import('./help/help-page') },
   {
     path: 'admin',
     canActivate: [roleGuard('admin', 'Admin')],

@@ -53,6 +53,14 @@ describe('Shell', () => {
     expect(await (await signIn.host()).getAttribute('href')).toBe('/api/auth/github');
   });
 
+  it('offers the Help page in the top bar to everyone, outside the area navigation', async () => {
+    await renderAs({ account: null, role: 'visitor' });
+
+    const help = await loader.getHarness(MatButtonHarness.with({ text: 'Help' }));
+    expect(await (await help.host()).getAttribute('href')).toBe('/help');
+    expect(await navLabels()).not.toContain('Help');
+  });
+
   it('hides the Admin link from a researcher', async () => {
     await renderAs({ account: ADA, role: 'researcher' });
 
