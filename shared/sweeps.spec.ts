@@ -1,4 +1,4 @@
-import { agentCountsOf, canonicalJson, checkSweepSize, expandSweep, SweepDefinitionSchema, sweepSize, type SweepDefinition } from './sweeps';
+import { agentCountsOf, canonicalJson, checkSweepSize, expandSweep, ModelSpecSchema, repeatedModels, SweepDefinitionSchema, sweepSize, type SweepDefinition } from './sweeps';
 
 const def = (over: Record<string, unknown> = {}): SweepDefinition => SweepDefinitionSchema.parse({
   name: 'floor test',
@@ -49,6 +49,19 @@ describe('sweep definitions', () => {
 
   it('fills model defaults: free start heading, every CBS switch on', () => {
     expect(def().models[0]).toEqual({ model: 'classic', startHeading: 'free', switches: {} });
+  });
+
+  it('names every model spec that repeats an earlier one, defaults and switches left on included', () => {
+    const models = ModelSpecSchema.array().parse([
+      { model: 'classic' }, { model: 'k-robust', k: 1 }, { model: 'k-robust', k: 2 }, { model: 'classic', switches: { wdg: false, bypass: false } },
+      { model: 'classic', startHeading: 'free', switches: { bypass: true } }, { model: 'classic', switches: { bypass: false, wdg: false, rectangleReasoning: true } },
+    ]);
+    expect(repeatedModels(models)).toEqual([
+      { index: 4, message: 'models[4] repeats models[0]: classic, start heading free' },
+      { index: 5, message: 'models[5] repeats models[3]: classic, start heading free, switched off: bypass, wdg' },
+    ]);
+    expect(SweepDefinitionSchema.safeParse({ ...def(), models: [{ model: 'weighted-split' }, { model: 'weighted-split', startHeading: 'free' }] }).error?.issues)
+      .toEqual([expect.objectContaining({ path: ['models', 1], message: 'models[1] repeats models[0]: weighted-split, start heading free' })]);
   });
 
   it('writes canonical JSON whatever the key order', () => {

@@ -103,11 +103,43 @@ export const SweepDefinitionSchema = z.object({
   memoryLimitMb: whole(SWEEP_LIMITS.minMemoryLimitMb, SWEEP_LIMITS.maxMemoryLimitMb),
   execution: SweepExecutionSchema.default({ policies: [], stallProbability: 0, stallMs: 0, runs: 20 }),
   seeds: z.array(z.number().int().min(0).max(0xffffffff)).min(1).max(SWEEP_LIMITS.maxSeeds).default([1]),
-}).strict();
+}).strict().superRefine((def, ctx) => {
+  // In the schema, so preview, launch and the web form apply the one rule (issue 13, item 8).
+  for (const repeat of repeatedModels(def.models)) ctx.addIssue({ code: 'custom', path: ['models', repeat.index], message: repeat.message });
+});
 /** A validated sweep definition (defaults filled in). */
 export type SweepDefinition = z.output<typeof SweepDefinitionSchema>;
 /** A sweep definition as a client may send it (defaults optional). */
 export type SweepDefinitionInput = z.input<typeof SweepDefinitionSchema>;
+
+/** CBS switches a unit-step spec turns off, in CBS_SWITCH_NAMES order (a switch set to true is the same as absent). */
+function switchesOff(m: ModelSpec): CbsSwitchName[] {
+  return 'switches' in m ? CBS_SWITCH_NAMES.filter((n) => m.switches[n] === false) : [];
+}
+
+/** A model spec for people, e.g. "k-robust k=2, start heading free, switched off: bypass, wdg". */
+export function describeModelSpec(m: ModelSpec): string {
+  const off = switchesOff(m);
+  return [`${m.model}${'k' in m ? ` k=${m.k}` : ''}`, `start heading ${m.startHeading}`, ...(off.length > 0 ? [`switched off: ${off.join(', ')}`] : [])].join(', ');
+}
+
+/**
+ * Every spec that asks for the same runs as an earlier one (same model, k, start heading and
+ * switches turned off), with a sentence naming both. Such a sweep would compute everything
+ * twice, and when both specs are written alike their runs share one identity, which the runs
+ * table refuses (launch answered a bare 409).
+ */
+export function repeatedModels(models: readonly ModelSpec[]): { readonly index: number; readonly message: string }[] {
+  const first = new Map<string, number>();
+  const repeats: { index: number; message: string }[] = [];
+  models.forEach((m, index) => {
+    const key = canonicalJson({ model: m.model, k: 'k' in m ? m.k : undefined, startHeading: m.startHeading, off: switchesOff(m) });
+    const earlier = first.get(key);
+    if (earlier === undefined) first.set(key, index);
+    else repeats.push({ index, message: `models[${index}] repeats models[${earlier}]: ${describeModelSpec(m)}` });
+  });
+  return repeats;
+}
 
 /** The distinct agent counts of a definition, ascending. */
 export function agentCountsOf(counts: SweepDefinition['agentCounts']): number[] {
