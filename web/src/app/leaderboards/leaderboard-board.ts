@@ -9,7 +9,7 @@ import { ActivatedRoute, Router, RouterLink } from '@angular/router';
 import { firstValueFrom } from 'rxjs';
 import { AgGridAngular } from 'ag-grid-angular';
 import {
-  CellStyleModule, InfiniteRowModelModule, ModuleRegistry, NumberFilterModule, TextFilterModule,
+  CellStyleModule, InfiniteRowModelModule, ModuleRegistry, NumberFilterModule, TextFilterModule, TooltipModule,
   type GridApi, type GridReadyEvent, type IDatasource, type IGetRowsParams,
 } from 'ag-grid-community';
 import { MatButtonModule } from '@angular/material/button';
@@ -29,8 +29,9 @@ import LeaderboardCharts from './leaderboard-charts';
 import ModelSummaryPanel from './model-summary';
 import { filtersToGrid, withGridState, type GridFilter, type GridSort } from './grid-view';
 
-// CellStyleModule applies the cell classes of column types (right-aligned numbers).
-ModuleRegistry.registerModules([InfiniteRowModelModule, TextFilterModule, NumberFilterModule, CellStyleModule]);
+// CellStyleModule applies the cell classes of column types (right-aligned numbers); TooltipModule shows
+// the columns' headerTooltip (without it AG Grid logs error #200 and drops the tooltip).
+ModuleRegistry.registerModules([InfiniteRowModelModule, TextFilterModule, NumberFilterModule, CellStyleModule, TooltipModule]);
 
 /** Rows the grid asks for at a time. */
 const PAGE_ROWS = 100;

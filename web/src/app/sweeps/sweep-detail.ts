@@ -9,7 +9,7 @@ import { ChangeDetectionStrategy, Component, computed, inject, input, signal } f
 import { takeUntilDestroyed, toObservable } from '@angular/core/rxjs-interop';
 import { DatePipe } from '@angular/common';
 import { AgGridAngular } from 'ag-grid-angular';
-import { CellStyleModule, ClientSideRowModelModule, ModuleRegistry, type GetRowIdParams } from 'ag-grid-community';
+import { CellStyleModule, ClientSideRowModelModule, ModuleRegistry, TooltipModule, type GetRowIdParams } from 'ag-grid-community';
 import { MatButtonModule } from '@angular/material/button';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { RouterLink } from '@angular/router';
@@ -19,8 +19,9 @@ import { SweepApi } from './sweep-api';
 import { SWEEP_GRID_THEME, sweepGridColumns } from './sweep-grid-columns';
 import { formatDuration, RUN_STATUS_LABEL, SWEEP_STATUS_LABEL } from './sweep-status';
 
-// CellStyleModule applies the cell classes of column types (right-aligned numbers).
-ModuleRegistry.registerModules([ClientSideRowModelModule, CellStyleModule]);
+// CellStyleModule applies the cell classes of column types (right-aligned numbers); TooltipModule shows
+// the columns' headerTooltip (without it AG Grid logs error #200 and drops the tooltip).
+ModuleRegistry.registerModules([ClientSideRowModelModule, CellStyleModule, TooltipModule]);
 
 /** What the page shows of one sweep. */
 @Component({
