@@ -17,6 +17,7 @@ import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
 import { SAFETY_NOTE } from '@shared/executions-constants';
+import { schemaUrl } from '@shared/help';
 import type { SubmissionRequest } from '@shared/plan-format';
 import type { SubmissionView } from '@shared/submissions';
 import { SubmissionApi } from './submission-api';
@@ -37,6 +38,7 @@ export default class SubmissionForm {
 
   protected readonly models = TEXT_MODELS;
   protected readonly safetyNote = SAFETY_NOTE;
+  protected readonly planSchemaUrl = schemaUrl('plan-format.schema.json');
   protected readonly form = this.fb.group({
     format: this.fb.control<'text' | 'json'>('text'),
     scenarioId: this.fb.control(1, [Validators.required, Validators.min(1)]),
