@@ -17,6 +17,8 @@ export const ERROR_CODES = [
   'MAP_NOT_FOUND',
   'SCENARIO_NOT_FOUND',
   'INVALID_INSTANCE_FILES',
+  /** 429: the user has UPLOADS_PER_USER uploads in progress already. */
+  'TOO_MANY_UPLOADS',
   'SWEEP_NOT_FOUND',
   'SWEEP_TOO_LARGE',
   /** The server's interactive worker pool (api/src/workers/interactive-pool.ts): 503, try again later. */

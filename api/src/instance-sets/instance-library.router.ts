@@ -7,15 +7,20 @@ import type { AppContext } from '../app-context';
 import { createInstanceSetsService } from './instance-sets.service';
 import { instanceSetsRouter } from './instance-sets.router';
 import { mapsRouter, scenariosRouter } from './library-files.router';
+import { UploadGate } from './upload-gate';
 
 /** Builds the service from the app context and mounts its routes. */
 export function instanceLibraryRouter(ctx: AppContext): Router {
-  const svc = createInstanceSetsService({ sequelize: ctx.sequelize, models: ctx.models, generate: (request, requester) => ctx.interactive.generate(request, requester) });
+  const svc = createInstanceSetsService({
+    sequelize: ctx.sequelize, models: ctx.models,
+    generate: (request, requester) => ctx.interactive.generate(request, requester),
+    prepare: (job, loadMaps, requester, signal) => ctx.interactive.prepareUpload(job, loadMaps, requester, signal),
+  });
   ctx.stats.register('instanceSets', (viewer) => svc.count(viewer, 'instanceSets'));
   ctx.stats.register('maps', (viewer) => svc.count(viewer, 'maps'));
   ctx.stats.register('scenarios', (viewer) => svc.count(viewer, 'scenarios'));
   const r = Router();
-  r.use('/instance-sets', instanceSetsRouter(svc));
+  r.use('/instance-sets', instanceSetsRouter(svc, new UploadGate(ctx.config.uploadsPerUser)));
   r.use('/maps', mapsRouter(svc));
   r.use('/scenarios', scenariosRouter(svc));
   return r;

@@ -4,13 +4,14 @@ import { z } from 'zod';
 import { requireRole, requireUser } from '../auth/require-role';
 import { validate } from '../errors/validate';
 import type { InstanceSetsService } from './instance-sets.service';
+import type { UploadGate } from './upload-gate';
 import { uploadFiles } from './upload-middleware';
 
 /** An id path parameter (a positive 32-bit integer). */
 export const IdParam = z.object({ id: z.coerce.number().int().positive().max(2_147_483_647) });
 
-/** Instance set routes over the service. */
-export function instanceSetsRouter(svc: InstanceSetsService): Router {
+/** Instance set routes over the service; `uploads` limits each user's uploads in progress. */
+export function instanceSetsRouter(svc: InstanceSetsService, uploads: UploadGate): Router {
   const r = Router();
 
   r.get('/', async (req, res) => {
@@ -45,11 +46,18 @@ export function instanceSetsRouter(svc: InstanceSetsService): Router {
       await svc.assertCanManage(req.user ?? null, id);
       next();
     },
+    // Counted before the body is read, so a refused upload never holds its bytes here.
+    uploads.middleware(),
     ...uploadFiles(),
     async (req, res) => {
       const { id } = validate(IdParam, req.params);
       const files = (req.files as Express.Multer.File[] | undefined) ?? [];
-      res.status(201).json(await svc.upload(req.user ?? null, id, files));
+      // A client that goes away cancels the checks of its upload.
+      const gone = new AbortController();
+      res.on('close', () => {
+        if (!res.writableFinished) gone.abort();
+      });
+      res.status(201).json(await svc.upload(req.user ?? null, id, files, gone.signal));
     },
   );
 

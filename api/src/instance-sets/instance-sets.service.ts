@@ -1,20 +1,21 @@
 /**
  * Rules of the instance library: creating, listing, reading and deleting sets, storing
  * uploaded or generated files (one transaction per upload, nothing stored when any file has a
- * problem), and reading maps and scenarios back. Visibility follows instance-set-access.ts.
+ * problem), and reading maps and scenarios back.
+ * Visibility follows instance-set-access.ts. Files are opened and checked off the event loop
+ * (`prepare`: the app's interactive pool) and stored row by row with bound parameters, so no
+ * step of a large upload holds the event loop for long.
  */
 import { Op, QueryTypes, type Sequelize, type Transaction } from 'sequelize';
 import {
   CreateInstanceSetRequest, GenerateInstancesRequest, INVALID_INSTANCE_FILES, InstanceSetListQuery,
   type InstanceSetDetail, type InstanceSetListResponse, type InstanceSetSummary, type MapDetail,
-  type ScenarioDetail, type UploadProblem, type UploadResponse, type Visibility,
+  type MapSummary, type ScenarioDetail, type ScenarioSummary, type UploadProblem, type UploadResponse, type Visibility,
 } from '@shared/instance-sets';
-import { gridMapFromRows, type GridMap } from '@solvers/io/grid-map';
 import type { Models } from '../db/models';
 import { AppError } from '../errors/app-error';
 import { validate } from '../errors/validate';
-import { checkUpload, scenarioMapNames, type CheckedUpload } from './check-upload';
-import { collectUpload, type ReceivedFile } from './collect-upload';
+import type { ReceivedFile } from './collect-upload';
 import { generateEntries, type GenerateRequest } from './generate-entries';
 import { canManageSet, isSetVisible, visibleSetsCondition, type Viewer } from './instance-set-access';
 import type { InstanceSet } from './instance-set.model';
@@ -22,7 +23,10 @@ import {
   MAP_SUMMARY_ATTRIBUTES, SCENARIO_SUMMARY_ATTRIBUTES, toMapSummary, toRowView, toScenarioSummary,
 } from './library-views';
 import type { MapFile } from './map-file.model';
-import type { ScenarioFile, StoredScenarioRow } from './scenario-file.model';
+import {
+  asBuffer, prepareUpload, type LoadMaps, type PreparedUpload, type PrepareUploadJob, type UploadFileBytes,
+} from './prepare-upload';
+import type { ScenarioFile } from './scenario-file.model';
 import type { UploadEntry } from './upload-entry';
 import { requesterKey } from '../workers/interactive-pool';
 
@@ -41,7 +45,8 @@ export interface InstanceSetsService {
   /** 404 when invisible, 403 when visible but not the viewer's to change. */
   assertCanManage(viewer: Viewer, id: number): Promise<void>;
   remove(viewer: Viewer, id: number): Promise<void>;
-  upload(viewer: Viewer, id: number, files: readonly ReceivedFile[]): Promise<UploadResponse>;
+  /** `signal` cancels the checks (the client went away); nothing is stored then. */
+  upload(viewer: Viewer, id: number, files: readonly ReceivedFile[], signal?: AbortSignal): Promise<UploadResponse>;
   generate(viewer: Viewer, body: unknown): Promise<UploadResponse>;
   getMap(viewer: Viewer, id: number): Promise<MapDetail>;
   mapBytes(viewer: Viewer, id: number): Promise<StoredFileBytes>;
@@ -97,17 +102,37 @@ function problemsMessage(problems: readonly UploadProblem[]): string {
   return `Nothing was stored: ${problems.length} problem${problems.length === 1 ? '' : 's'} in ${files.size} file${files.size === 1 ? '' : 's'} (first: ${where}: ${first.message}).`;
 }
 
-/** What the service needs; `generate` runs the generators (the app passes its interactive pool; the demo seed runs them in its own process). */
+/**
+ * What the service needs. `generate` runs the generators and `prepare` opens and checks files (the app passes
+ * its interactive pool for both; the demo seed runs them in its own process).
+ */
 export interface InstanceSetsServiceDeps {
   readonly sequelize: Sequelize;
   readonly models: Models;
   readonly generate?: (request: GenerateRequest, requester: string) => Promise<UploadEntry[]>;
+  readonly prepare?: (job: PrepareUploadJob, loadMaps: LoadMaps, requester: string, signal?: AbortSignal) => Promise<PreparedUpload>;
 }
+
+/** Columns of a map summary as INSERT … RETURNING gives them. */
+const MAP_RETURNING = `id, instance_set_id AS "instanceSetId", name, width, height, passable_count AS "passableCount",
+  checksum, byte_size AS "byteSize"`;
+
+/** Columns of a scenario summary as INSERT … RETURNING gives them. */
+const SCENARIO_RETURNING = `id, instance_set_id AS "instanceSetId", map_id AS "mapId", name, row_count AS "rowCount",
+  max_agents AS "maxAgents", checksum, byte_size AS "byteSize"`;
+
+// Bytes are bound as Buffers, which pg sends in binary format: no hex or escaped copy of a large file
+// is built on the event loop, and the server reads text and JSON straight from the bytes.
+const INSERT_MAP = `INSERT INTO maps (instance_set_id, name, type, width, height, passable_count, cells, checksum, byte_size, original)
+  VALUES ($1, $2, $3, $4, $5, $6, $7::text, $8, $9, $10::bytea) RETURNING ${MAP_RETURNING}`;
+const INSERT_SCENARIO = `INSERT INTO scenarios (instance_set_id, map_id, name, rows, row_count, max_agents, checksum, byte_size, original)
+  VALUES ($1, $2, $3, $4::text::jsonb, $5, $6, $7, $8, $9::bytea) RETURNING ${SCENARIO_RETURNING}`;
 
 /** Builds the service over the library's models. */
 export function createInstanceSetsService(deps: InstanceSetsServiceDeps): InstanceSetsService {
   const { sequelize } = deps;
   const generate = deps.generate ?? (async (request: GenerateRequest) => generateEntries(request));
+  const prepare = deps.prepare ?? ((job: PrepareUploadJob, loadMaps: LoadMaps) => prepareUpload(job, loadMaps));
   const { InstanceSet, MapFile, ScenarioFile } = deps.models;
 
   async function summaryOf(id: number, transaction?: Transaction): Promise<InstanceSetSummary> {
@@ -153,44 +178,57 @@ export function createInstanceSetsService(deps: InstanceSetsServiceDeps): Instan
     return scenario;
   }
 
-  /** Checks the entries against the set, then stores all of them in one transaction. */
-  async function storeEntries(set: InstanceSet, entries: readonly UploadEntry[], skipped: readonly string[], earlier: readonly UploadProblem[]): Promise<UploadResponse> {
+  /**
+   * Opens and checks the files against the set (off the event loop), then stores all of them in one
+   * transaction.
+   */
+  async function storeFiles(set: InstanceSet, files: readonly UploadFileBytes[], requester: string, signal?: AbortSignal): Promise<UploadResponse> {
     const [mapRows, scenarioRows] = await Promise.all([
       MapFile.findAll({ where: { instanceSetId: set.id }, attributes: ['name'] }),
       ScenarioFile.findAll({ where: { instanceSetId: set.id }, attributes: ['name'] }),
     ]);
-    const wanted = scenarioMapNames(entries).filter((n) => mapRows.some((m) => m.name === n));
-    const referenced = wanted.length === 0 ? [] : await MapFile.findAll({
-      where: { instanceSetId: set.id, name: { [Op.in]: wanted } }, attributes: ['id', 'name', 'type', 'cells'],
-    });
-    const existingMaps = new Map<string, GridMap>(referenced.map((m) => [m.name, gridMapFromRows(m.cells.split('\n'), { name: m.name, type: m.type })]));
-    const checked: CheckedUpload = checkUpload(entries, {
-      mapNames: new Set(mapRows.map((m) => m.name)),
-      scenarioNames: new Set(scenarioRows.map((s) => s.name)),
-      maps: existingMaps,
-    });
-    const problems = [...earlier, ...checked.problems];
-    if (problems.length > 0) throw new AppError(INVALID_INSTANCE_FILES, 400, problemsMessage(problems), problems);
+    const loadMaps: LoadMaps = async (names) => {
+      const maps = await MapFile.findAll({ where: { instanceSetId: set.id, name: { [Op.in]: [...names] } }, attributes: ['name', 'type', 'cells'] });
+      return maps.map((m) => ({ name: m.name, type: m.type, cells: m.cells }));
+    };
+    const prepared = await prepare({ files, mapNames: mapRows.map((m) => m.name), scenarioNames: scenarioRows.map((c) => c.name) }, loadMaps, requester, signal);
+    if (prepared.kind === 'refused') throw new AppError(INVALID_INSTANCE_FILES, 400, problemsMessage(prepared.problems), prepared.problems);
 
     return sequelize.transaction(async (transaction) => {
-      const storedMaps = await MapFile.bulkCreate(checked.maps.map((m) => ({
-        instanceSetId: set.id, name: m.name, type: m.map.type, width: m.map.width, height: m.map.height,
-        passableCount: m.passableCount, cells: m.map.cellsText.join('\n'), checksum: m.checksum,
-        byteSize: m.bytes.length, original: m.bytes,
-      })), { transaction, returning: [...MAP_SUMMARY_ATTRIBUTES] });
-      const mapIds = new Map<string, number>([
-        ...referenced.map((m) => [m.name, m.id] as const),
-        ...storedMaps.map((m) => [m.name, m.id] as const),
-      ]);
-      const storedScenarios = await ScenarioFile.bulkCreate(checked.scenarios.map((s) => ({
-        instanceSetId: set.id, mapId: mapIds.get(s.mapName) as number, name: s.name,
-        rows: s.scenario.rows.map((r): StoredScenarioRow => [r.bucket, r.start[0], r.start[1], r.goal[0], r.goal[1], r.optimalLength]),
-        rowCount: s.scenario.rows.length, maxAgents: s.maxAgents, checksum: s.checksum,
-        byteSize: s.bytes.length, original: s.bytes,
-      })), { transaction, returning: [...SCENARIO_SUMMARY_ATTRIBUTES] });
+      // A set deleted meanwhile is a 404, not a foreign-key error.
+      const [locked] = await sequelize.query<{ owner_id: number }>(
+        'SELECT owner_id FROM instance_sets WHERE id = :id FOR UPDATE', { type: QueryTypes.SELECT, replacements: { id: set.id }, transaction });
+      if (!locked) throw new AppError('INSTANCE_SET_NOT_FOUND', 404, `No instance set ${set.id}`);
+
+      const uploadedMapNames = new Set(prepared.maps.map((m) => m.name));
+      const storedMapNames = [...new Set(prepared.scenarios.map((c) => c.mapName).filter((n) => !uploadedMapNames.has(n)))];
+      const referenced = storedMapNames.length === 0 ? [] : await MapFile.findAll({
+        where: { instanceSetId: set.id, name: { [Op.in]: storedMapNames } }, attributes: ['id', 'name'], transaction,
+      });
+      const mapIds = new Map<string, number>(referenced.map((m) => [m.name, m.id]));
+      const storedMaps: MapSummary[] = [];
+      for (const m of prepared.maps) {
+        const [row] = await sequelize.query<MapSummary>(INSERT_MAP, {
+          type: QueryTypes.SELECT, transaction,
+          bind: [set.id, m.name, m.type, m.width, m.height, m.passableCount, asBuffer(m.cells), m.checksum, m.original.byteLength, asBuffer(m.original)],
+        });
+        mapIds.set(row.name, row.id);
+        storedMaps.push(toMapSummary(row));
+      }
+      const storedScenarios: ScenarioSummary[] = [];
+      for (const c of prepared.scenarios) {
+        const mapId = mapIds.get(c.mapName);
+        // A stored map the check used was deleted since: the scenario would have nothing to point to.
+        if (mapId === undefined) throw new AppError('CONFLICT', 409, `Nothing was stored: map '${c.mapName}' of ${c.name} was deleted meanwhile; upload it again.`);
+        const [row] = await sequelize.query<ScenarioSummary>(INSERT_SCENARIO, {
+          type: QueryTypes.SELECT, transaction,
+          bind: [set.id, mapId, c.name, asBuffer(c.rows), c.rowCount, c.maxAgents, c.checksum, c.original.byteLength, asBuffer(c.original)],
+        });
+        storedScenarios.push(toScenarioSummary(row));
+      }
       set.changed('updatedAt', true);
       await set.save({ transaction });
-      return { maps: storedMaps.map(toMapSummary), scenarios: storedScenarios.map(toScenarioSummary), skipped };
+      return { maps: storedMaps, scenarios: storedScenarios, skipped: prepared.skipped };
     });
   }
 
@@ -230,18 +268,16 @@ export function createInstanceSetsService(deps: InstanceSetsServiceDeps): Instan
       await set.destroy();
     },
 
-    async upload(viewer, id, files) {
+    async upload(viewer, id, files, signal) {
       const set = await manageableSet(viewer, id);
-      const collected = await collectUpload(files);
-      // Past the byte limit the upload is refused whatever its files say; parsing them would only cost time.
-      if (collected.isOverBudget) throw new AppError(INVALID_INSTANCE_FILES, 400, problemsMessage(collected.problems), collected.problems);
-      return storeEntries(set, collected.entries, collected.skipped, collected.problems);
+      return storeFiles(set, files.map((f) => ({ name: f.originalname, bytes: f.buffer })), requesterKey(viewer), signal);
     },
 
     async generate(viewer, body) {
       const request = validate(GenerateInstancesRequest, body);
       const set = await manageableSet(viewer, request.instanceSetId);
-      return storeEntries(set, await generate(request, requesterKey(viewer)), [], []);
+      const entries = await generate(request, requesterKey(viewer));
+      return storeFiles(set, entries.map((e) => ({ name: e.name, bytes: e.bytes })), requesterKey(viewer));
     },
 
     async getMap(viewer, id) {

@@ -1,14 +1,16 @@
 /**
- * The server's pool for work a request waits on (executions, instance generation, and the check
- * and execution replays of submitted plans): a small PlanPool (plan-pool.ts, the same threads and
- * limits as sweeps) with one heap limit, a per-job time limit enforced by AbortSignal (the
- * thread is terminated when a job ignores it) and a FairGate (fair-gate.ts) in front of it, so one user
+ * The server's pool for work a request waits on (executions, instance generation, the checks of
+ * uploaded files, and the check and execution replays of submitted plans): a small PlanPool
+ * (plan-pool.ts, the same threads and limits as sweeps) with one heap limit, a per-job time limit
+ * enforced by AbortSignal (the thread is terminated when a job ignores it) and a FairGate (fair-gate.ts) in front of it, so one user
  * cannot hold every thread while others wait and a request handler never computes on the event loop. Every
  * failure becomes an AppError the error middleware answers.
  */
+import { MessageChannel } from 'node:worker_threads';
 import type { ExecutionTask, ExecutionTaskOutcome } from '../executions/execution-task';
 import { AppError } from '../errors/app-error';
 import type { GenerateRequest } from '../instance-sets/generate-entries';
+import { transferableJob, type LoadMaps, type PreparedUpload, type PrepareUploadJob } from '../instance-sets/prepare-upload';
 import type { UploadEntry } from '../instance-sets/upload-entry';
 import type { MapfInstance } from '@solvers/instance';
 import type { PlanVerdict } from '../submissions/check-plan';
@@ -16,8 +18,8 @@ import type { ReadSubmission } from '../submissions/read-plan-file';
 import type { SolverBuild } from '@shared/runs';
 import { FairGate } from './fair-gate';
 import { readSolverBuild } from './machine-info';
-import { PlanPool, type PoolOutcome } from './plan-pool';
-import type { ThreadJob, ThreadResults } from './thread-job';
+import { PlanPool, type PoolOutcome, type PoolRunOptions } from './plan-pool';
+import type { MapRequest, ThreadJob, ThreadResults } from './thread-job';
 
 /** Error codes of the interactive pool (HTTP 503: the request may be retried later). */
 export const INTERACTIVE_ERROR_CODES = {
@@ -122,6 +124,27 @@ export class InteractivePool {
     return this.run({ kind: 'check-plan', instance, submission }, 'the plan check', requester, signal);
   }
 
+  /**
+   * Opens, parses and checks the files of one upload in a thread (issue 13: on the event loop a maximal upload
+   * stalled every request for seconds). The file bytes move to the thread and the prepared bytes move back
+   * (transferred, not copied); the thread asks for stored maps of the set through `loadMaps` on a MessagePort.
+   */
+  async prepareUpload(upload: PrepareUploadJob, loadMaps: LoadMaps, requester: string, signal?: AbortSignal): Promise<PreparedUpload> {
+    const { port1, port2 } = new MessageChannel();
+    port1.on('message', (request: MapRequest) => {
+      loadMaps(request.names).then(
+        (maps) => port1.postMessage(maps),
+        (err: unknown) => port1.postMessage({ error: err instanceof Error ? err.message : String(err) }),
+      );
+    });
+    try {
+      const moved = transferableJob(upload);
+      return await this.run({ kind: 'prepare-upload', upload: moved.job, maps: port2 }, 'the upload check', requester, signal, [port2, ...moved.transferList]);
+    } finally {
+      port1.close();
+    }
+  }
+
   /** Terminates the threads; later jobs fail. */
   close(): Promise<void> {
     return this.pool.close();
@@ -131,7 +154,9 @@ export class InteractivePool {
     return this.options.memoryLimitMb ?? INTERACTIVE_MEMORY_MB;
   }
 
-  private async run<J extends ThreadJob>(job: J, what: string, requester: string, signal?: AbortSignal): Promise<ThreadResults[J['kind']]> {
+  private async run<J extends ThreadJob>(
+    job: J, what: string, requester: string, signal?: AbortSignal, transferList?: PoolRunOptions['transferList'],
+  ): Promise<ThreadResults[J['kind']]> {
     const leave = await this.gate.enter(requester, what, signal);
     let outcome: PoolOutcome<ThreadResults[J['kind']]>;
     try {
@@ -142,6 +167,7 @@ export class InteractivePool {
         memoryLimitMb: this.memoryLimitMb,
         startLimitMs: this.options.startLimitMs ?? INTERACTIVE_START_LIMIT_MS,
         signal,
+        transferList,
       });
     } finally {
       leave();

@@ -16,7 +16,7 @@
  * is replaced at once).
  */
 import { join } from 'node:path';
-import { MessageChannel } from 'node:worker_threads';
+import { MessageChannel, type MessagePort } from 'node:worker_threads';
 import { Piscina } from 'piscina';
 import type { PlanTask, PlanTaskResult } from '@solvers/run/plan-task';
 import type { ThreadAnswer, ThreadEnvelope, ThreadJob, ThreadRefusal, ThreadResults } from './thread-job';
@@ -41,6 +41,8 @@ export interface PoolRunOptions {
   readonly signal?: AbortSignal;
   /** How long the job may wait for a thread to begin it, ms; default DEFAULT_START_LIMIT_MS. */
   readonly startLimitMs?: number;
+  /** Buffers and ports the job holds that move to the thread instead of being copied (they are unusable here afterwards). */
+  readonly transferList?: readonly (ArrayBuffer | MessagePort)[];
 }
 
 /** Options of the pool. */
@@ -99,7 +101,7 @@ export class PlanPool {
     });
     const signal = options.signal ? AbortSignal.any([limit.signal, options.signal]) : limit.signal;
     try {
-      const answer = await pool.run({ job, started: port2 }, { signal, transferList: [port2] });
+      const answer = await pool.run({ job, started: port2 }, { signal, transferList: [port2, ...(options.transferList ?? [])] });
       if (answer.ok) return { kind: 'done', result: answer.value as ThreadResults[J['kind']] };
       return { kind: 'refused', refusal: answer.refusal };
     } catch (err) {

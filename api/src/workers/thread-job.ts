@@ -1,7 +1,7 @@
 /**
  * What crosses into a pool thread and back: one envelope per task holding the job (a sweep run,
- * an interactive execution, an instance generation, a submitted plan's check and replays, or a
- * ping that only loads the thread) and
+ * an interactive execution, an instance generation, a submitted plan's check and replays, the
+ * checks of an upload, or a ping that only loads the thread) and
  * the port on which the thread says "started", so the pool's hard time limit measures the job's
  * own work and never the thread's start-up or the wait in the queue. Plain JSON-safe data.
  */
@@ -9,6 +9,7 @@ import type { MessagePort } from 'node:worker_threads';
 import type { PlanTask, PlanTaskResult } from '@solvers/run/plan-task';
 import type { ExecutionTask, ExecutionTaskOutcome } from '../executions/execution-task';
 import type { GenerateRequest } from '../instance-sets/generate-entries';
+import type { PreparedUpload, PrepareUploadJob } from '../instance-sets/prepare-upload';
 import type { MapfInstance } from '@solvers/instance';
 import type { PlanVerdict } from '../submissions/check-plan';
 import type { ReadSubmission } from '../submissions/read-plan-file';
@@ -19,6 +20,8 @@ export type ThreadJob =
   | { readonly kind: 'execute'; readonly task: ExecutionTask }
   | { readonly kind: 'generate'; readonly request: GenerateRequest }
   | { readonly kind: 'check-plan'; readonly instance: MapfInstance; readonly submission: ReadSubmission }
+  /** `maps` answers the thread's requests for stored maps of the set (see MapRequest). */
+  | { readonly kind: 'prepare-upload'; readonly upload: PrepareUploadJob; readonly maps: MessagePort }
   | { readonly kind: 'ping' };
 
 /** A generated file as it comes back from a thread (a Buffer arrives as a plain Uint8Array). */
@@ -33,11 +36,17 @@ export interface ThreadResults {
   readonly execute: ExecutionTaskOutcome;
   readonly generate: readonly GeneratedFile[];
   readonly 'check-plan': PlanVerdict;
+  readonly 'prepare-upload': PreparedUpload;
   readonly ping: 'pong';
 }
 
 /** The job kinds. */
 export type ThreadJobKind = ThreadJob['kind'];
+
+/** A prepare-upload thread asks for stored maps by name on its `maps` port; the answer is ExistingMapRows[] or `{ error }`. */
+export interface MapRequest {
+  readonly names: readonly string[];
+}
 
 /** What the pool posts to a thread. */
 export interface ThreadEnvelope {
