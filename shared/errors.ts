@@ -19,6 +19,8 @@ export const ERROR_CODES = [
   'INVALID_INSTANCE_FILES',
   /** 429: the user has UPLOADS_PER_USER uploads in progress already. */
   'TOO_MANY_UPLOADS',
+  /** 413: storing the files would take the set owner past a storage quota (details: QuotaExceededDetails). */
+  'QUOTA_EXCEEDED',
   'SWEEP_NOT_FOUND',
   'SWEEP_TOO_LARGE',
   /** The server's interactive worker pool (api/src/workers/interactive-pool.ts): 503, try again later. */

@@ -80,4 +80,11 @@ describe('loadConfig', () => {
   it('wants both GitHub credentials or neither', () => {
     expect(() => loadConfig({ GITHUB_CLIENT_ID: 'only-id' })).toThrow(/set both or neither/);
   });
+
+  it('reads the uploads per user and the default storage quota, with documented defaults', () => {
+    expect(loadConfig({}).config).toMatchObject({ uploadsPerUser: 2, storageQuota: { files: 5000, cells: 16_777_216, bytes: 268_435_456 } });
+    const { config } = loadConfig({ UPLOADS_PER_USER: '1', QUOTA_FILES: '10', QUOTA_CELLS: '0', QUOTA_BYTES: '1048576' });
+    expect(config).toMatchObject({ uploadsPerUser: 1, storageQuota: { files: 10, cells: 0, bytes: 1_048_576 } });
+    expect(() => loadConfig({ UPLOADS_PER_USER: '0', QUOTA_BYTES: '-1' })).toThrow(/UPLOADS_PER_USER[\s\S]*QUOTA_BYTES/);
+  });
 });

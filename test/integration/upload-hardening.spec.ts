@@ -1,18 +1,21 @@
 /**
- * Attacks on the upload routes (issue 13, items 1 and 7), against a real PostgreSQL: a
- * maximal upload must not stall other requests, uploads per user are limited, and an empty or
- * cut-off multipart body is a 4xx in the error shape.
+ * Attacks on the upload routes (issue 13, items 1, 7 and 10), against a real PostgreSQL: a
+ * maximal upload must not stall other requests, uploads per user are limited, an empty or cut-off
+ * multipart body is a 4xx in the error shape, and storage quotas hold even under concurrent uploads.
  */
 import { request as httpRequest } from 'node:http';
 import { CSRF_HEADER } from '@shared/auth';
+import type { ErrorBody } from '@shared/errors';
 import { UPLOAD_LIMITS } from '@shared/instance-sets';
-import { DEFAULT_UPLOADS_PER_USER } from '../../api/src/config';
+import type { QuotaExceededDetails, StorageQuotaView } from '@shared/storage-quota';
+import { DEFAULT_STORAGE_QUOTA, DEFAULT_UPLOADS_PER_USER } from '../../api/src/config';
 import { DEMO_IDENTITIES } from '../../api/src/dev/fake-oauth/demo-identities';
+import { createStorageQuotas } from '../../api/src/instance-sets/storage-quota';
 import {
-  createSet, signInAs, startLibraryServer, type LibraryServer, type SignedInClient,
+  createSet, json, setRole, signInAs, startLibraryServer, type LibraryServer, type SignedInClient,
 } from './instance-library-support';
 
-const [researcherId, maintainerId] = DEMO_IDENTITIES;
+const [researcherId, maintainerId, adminId] = DEMO_IDENTITIES;
 
 /** A multipart body with one part per file in field `files`, and its content type. */
 function multipart(files: readonly { name: string; bytes: Buffer }[], boundary = 'qt-test-boundary-0123456789'): { body: Buffer; contentType: string } {
@@ -228,6 +231,124 @@ describe('upload hardening', () => {
       const [stored] = await lib.sql<{ cells: string; original: Buffer }>("SELECT cells, original FROM maps WHERE name = 'pooled.map'");
       expect(stored.original.equals(squareMap(16))).toBe(true);
       expect(stored.cells).toBe(squareMap(16).toString('utf8').split('\n').slice(4, 20).join('\n'));
+    });
+  });
+
+  describe('storage quotas (item 10)', () => {
+    let quotaOwner: SignedInClient;
+    let admin: SignedInClient;
+    let ownerId: number;
+    const mapsBody = (names: readonly string[], side = 8) => multipart(names.map((name) => ({ name, bytes: squareMap(side) })));
+    const uploadAs = (client: SignedInClient, setId: number, names: readonly string[], side = 8) =>
+      postRaw(url, client, `/api/instance-sets/${setId}/files`, mapsBody(names, side).body, mapsBody(names, side).contentType);
+    const fileCount = async () => (await lib.sql<{ n: number }>('SELECT (SELECT count(*) FROM maps)::int + (SELECT count(*) FROM scenarios)::int AS n'))[0].n;
+    const patchQuota = (client: SignedInClient, id: number, body: unknown) => client.request(`/api/admin/users/${id}/quota`, json('PATCH', body));
+
+    beforeAll(async () => {
+      quotaOwner = await signInAs(url, maintainerId.login);
+      admin = await signInAs(url, adminId.login);
+      await setRole(lib, adminId.login, 'admin');
+      ownerId = (await lib.sql<{ id: number }>('SELECT id FROM users WHERE login = :login', { login: maintainerId.login }))[0].id;
+    });
+
+    it('refuses one request of 17 maps of 1024 × 1024 under the default cell quota with 413, storing none', async () => {
+      const setId = await createSet(quotaOwner, 'too many cells');
+      const before = await fileCount();
+      const names = Array.from({ length: 17 }, (_, i) => `wide-${i}.map`);
+      const res = await uploadAs(quotaOwner, setId, names, 1024);
+      expect(res.status).toBe(413);
+      const used = (await lib.sql<{ cells: string }>(
+        'SELECT coalesce(sum(m.width * m.height), 0)::text AS cells FROM maps m JOIN instance_sets s ON s.id = m.instance_set_id WHERE s.owner_id = :id', { id: ownerId }))[0];
+      expect(res.body.error).toMatchObject({
+        code: 'QUOTA_EXCEEDED', message: expect.stringMatching(/cells quota/),
+        details: { quota: 'cells', used: Number(used.cells), adding: 17 * 1024 * 1024, limit: DEFAULT_STORAGE_QUOTA.cells, ownerId } satisfies QuotaExceededDetails,
+      });
+      expect(await fileCount()).toBe(before);
+    }, 60_000);
+
+    it('lets an admin read and set one person\'s limits, and null return a kind to the default', async () => {
+      const view = (await (await admin.request(`/api/admin/users/${ownerId}/quota`)).json()) as StorageQuotaView;
+      expect(view).toMatchObject({ userId: ownerId, limits: DEFAULT_STORAGE_QUOTA, isDefault: { files: true, cells: true, bytes: true } });
+      const changed = await patchQuota(admin, ownerId, { files: 7, bytes: 1_000_000 });
+      expect(changed.status).toBe(200);
+      expect(await changed.json()).toMatchObject({ limits: { files: 7, cells: DEFAULT_STORAGE_QUOTA.cells, bytes: 1_000_000 }, isDefault: { files: false, cells: true, bytes: false } });
+      const reset = (await (await patchQuota(admin, ownerId, { bytes: null })).json()) as StorageQuotaView;
+      expect(reset).toMatchObject({ limits: { files: 7, bytes: DEFAULT_STORAGE_QUOTA.bytes }, isDefault: { files: false, bytes: true } });
+    });
+
+    it('refuses quota changes from non-admins, for unknown people and with bad limits, in the error shape', async () => {
+      const asOwner = await patchQuota(quotaOwner, ownerId, { files: 1_000_000 });
+      expect(asOwner.status).toBe(403);
+      expect(((await asOwner.json()) as ErrorBody).error.code).toBe('FORBIDDEN');
+      expect((await patchQuota(admin, 999_999, { files: 1 })).status).toBe(404);
+      for (const bad of [{}, { files: -1 }, { files: 1.5 }, { disk: 3 }]) {
+        const res = await patchQuota(admin, ownerId, bad);
+        expect(res.status).toBe(400);
+        expect(((await res.json()) as ErrorBody).error.code).toBe('VALIDATION_FAILED');
+      }
+    });
+
+    it('refuses an upload past the files quota with 413 naming the quota, use and limit, storing none of it', async () => {
+      const setId = await createSet(quotaOwner, 'file quota');
+      const used = (await (await admin.request(`/api/admin/users/${ownerId}/quota`)).json()) as StorageQuotaView;
+      await patchQuota(admin, ownerId, { files: used.used.files + 3 });
+      expect((await uploadAs(quotaOwner, setId, ['q1.map', 'q2.map'])).status).toBe(201);
+      const before = await fileCount();
+      const res = await uploadAs(quotaOwner, setId, ['q3.map', 'q4.map']);
+      expect(res.status).toBe(413);
+      expect(res.body.error).toMatchObject({
+        code: 'QUOTA_EXCEEDED',
+        message: expect.stringMatching(new RegExp(`files quota.*hold ${used.used.files + 2} files.*add 2.*limit is ${used.used.files + 3}`)),
+        details: { quota: 'files', used: used.used.files + 2, adding: 2, limit: used.used.files + 3, ownerId },
+      });
+      expect(await fileCount()).toBe(before);
+    });
+
+    it('counts generated instances too', async () => {
+      const setId = await createSet(quotaOwner, 'generated quota');
+      const used = (await (await admin.request(`/api/admin/users/${ownerId}/quota`)).json()) as StorageQuotaView;
+      await patchQuota(admin, ownerId, { files: used.used.files + 1 });
+      const generate = () => quotaOwner.request('/api/instance-sets/generate', json('POST', {
+        instanceSetId: setId, name: 'gen', seed: 3, scenarioCount: 2, scenarioMode: 'random', rowCount: 5,
+        map: { kind: 'empty', width: 8, height: 8 },
+      }));
+      const refused = await generate();
+      expect(refused.status).toBe(413);
+      expect(((await refused.json()) as ErrorBody).error.details).toMatchObject({ quota: 'files', adding: 3, limit: used.used.files + 1 });
+      await patchQuota(admin, ownerId, { files: null });
+      expect((await generate()).status).toBe(201);
+    });
+
+    it('checks concurrent stores one after the other: the second waits for the first and then sees its files', async () => {
+      const { sequelize } = lib.server.app.context;
+      const quotas = createStorageQuotas({ sequelize, defaults: DEFAULT_STORAGE_QUOTA });
+      const setId = await createSet(quotaOwner, 'concurrent quota');
+      const used = (await (await admin.request(`/api/admin/users/${ownerId}/quota`)).json()) as StorageQuotaView;
+      await patchQuota(admin, ownerId, { files: used.used.files + 1 });
+      const first = await sequelize.transaction();
+      const second = await sequelize.transaction();
+      try {
+        await quotas.assertRoom(ownerId, { files: 1, cells: 64, bytes: 100 }, first);
+        await sequelize.query(
+          `INSERT INTO maps (instance_set_id, name, type, width, height, passable_count, cells, checksum, byte_size, original)
+           VALUES (:set, 'race.map', 'octile', 8, 8, 64, :cells, :sum, 100, ''::bytea)`,
+          { replacements: { set: setId, cells: Array(8).fill('.'.repeat(8)).join('\n'), sum: '0'.repeat(64) }, transaction: first },
+        );
+        let isSettled = false;
+        const secondCheck = quotas.assertRoom(ownerId, { files: 1, cells: 64, bytes: 100 }, second).finally(() => {
+          isSettled = true;
+        });
+        secondCheck.catch(() => undefined);
+        await new Promise((r) => setTimeout(r, 300));
+        // Without the lock on the owner's row the second check would already have passed on the old usage.
+        expect(isSettled).toBe(false);
+        await first.commit();
+        await expect(secondCheck).rejects.toMatchObject({ status: 413, code: 'QUOTA_EXCEEDED', details: { quota: 'files', used: used.used.files + 1 } });
+      } finally {
+        await second.rollback();
+        if (!(first as unknown as { finished?: string }).finished) await first.rollback();
+        await patchQuota(admin, ownerId, { files: null });
+      }
     });
   });
 });

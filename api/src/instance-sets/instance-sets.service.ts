@@ -1,7 +1,7 @@
 /**
  * Rules of the instance library: creating, listing, reading and deleting sets, storing
  * uploaded or generated files (one transaction per upload, nothing stored when any file has a
- * problem), and reading maps and scenarios back.
+ * problem or the owner's storage quota would be passed), and reading maps and scenarios back.
  * Visibility follows instance-set-access.ts. Files are opened and checked off the event loop
  * (`prepare`: the app's interactive pool) and stored row by row with bound parameters, so no
  * step of a large upload holds the event loop for long.
@@ -12,6 +12,7 @@ import {
   type InstanceSetDetail, type InstanceSetListResponse, type InstanceSetSummary, type MapDetail,
   type MapSummary, type ScenarioDetail, type ScenarioSummary, type UploadProblem, type UploadResponse, type Visibility,
 } from '@shared/instance-sets';
+import { DEFAULT_STORAGE_QUOTA } from '../config';
 import type { Models } from '../db/models';
 import { AppError } from '../errors/app-error';
 import { validate } from '../errors/validate';
@@ -27,6 +28,7 @@ import {
   asBuffer, prepareUpload, type LoadMaps, type PreparedUpload, type PrepareUploadJob, type UploadFileBytes,
 } from './prepare-upload';
 import type { ScenarioFile } from './scenario-file.model';
+import { createStorageQuotas, quotaAmountsOf, type StorageQuotas } from './storage-quota';
 import type { UploadEntry } from './upload-entry';
 import { requesterKey } from '../workers/interactive-pool';
 
@@ -104,13 +106,15 @@ function problemsMessage(problems: readonly UploadProblem[]): string {
 
 /**
  * What the service needs. `generate` runs the generators and `prepare` opens and checks files (the app passes
- * its interactive pool for both; the demo seed runs them in its own process).
+ * its interactive pool for both; the demo seed runs them in its own process); `quotas` default to the server's
+ * default limits.
  */
 export interface InstanceSetsServiceDeps {
   readonly sequelize: Sequelize;
   readonly models: Models;
   readonly generate?: (request: GenerateRequest, requester: string) => Promise<UploadEntry[]>;
   readonly prepare?: (job: PrepareUploadJob, loadMaps: LoadMaps, requester: string, signal?: AbortSignal) => Promise<PreparedUpload>;
+  readonly quotas?: StorageQuotas;
 }
 
 /** Columns of a map summary as INSERT … RETURNING gives them. */
@@ -133,6 +137,7 @@ export function createInstanceSetsService(deps: InstanceSetsServiceDeps): Instan
   const { sequelize } = deps;
   const generate = deps.generate ?? (async (request: GenerateRequest) => generateEntries(request));
   const prepare = deps.prepare ?? ((job: PrepareUploadJob, loadMaps: LoadMaps) => prepareUpload(job, loadMaps));
+  const quotas = deps.quotas ?? createStorageQuotas({ sequelize, defaults: DEFAULT_STORAGE_QUOTA });
   const { InstanceSet, MapFile, ScenarioFile } = deps.models;
 
   async function summaryOf(id: number, transaction?: Transaction): Promise<InstanceSetSummary> {
@@ -180,7 +185,7 @@ export function createInstanceSetsService(deps: InstanceSetsServiceDeps): Instan
 
   /**
    * Opens and checks the files against the set (off the event loop), then stores all of them in one
-   * transaction.
+   * transaction, after the owner's quota check in that same transaction.
    */
   async function storeFiles(set: InstanceSet, files: readonly UploadFileBytes[], requester: string, signal?: AbortSignal): Promise<UploadResponse> {
     const [mapRows, scenarioRows] = await Promise.all([
@@ -195,10 +200,11 @@ export function createInstanceSetsService(deps: InstanceSetsServiceDeps): Instan
     if (prepared.kind === 'refused') throw new AppError(INVALID_INSTANCE_FILES, 400, problemsMessage(prepared.problems), prepared.problems);
 
     return sequelize.transaction(async (transaction) => {
-      // A set deleted meanwhile is a 404, not a foreign-key error.
+      // The set row first (a set deleted meanwhile is a 404, not a foreign-key error), then the owner's account row.
       const [locked] = await sequelize.query<{ owner_id: number }>(
         'SELECT owner_id FROM instance_sets WHERE id = :id FOR UPDATE', { type: QueryTypes.SELECT, replacements: { id: set.id }, transaction });
       if (!locked) throw new AppError('INSTANCE_SET_NOT_FOUND', 404, `No instance set ${set.id}`);
+      await quotas.assertRoom(locked.owner_id, quotaAmountsOf(prepared), transaction);
 
       const uploadedMapNames = new Set(prepared.maps.map((m) => m.name));
       const storedMapNames = [...new Set(prepared.scenarios.map((c) => c.mapName).filter((n) => !uploadedMapNames.has(n)))];
