@@ -7,6 +7,12 @@
  * Why LISTEN/NOTIFY rather than polling: workers may run on other machines and NOTIFY reaches
  * every server without extra infrastructure; nothing is read while nobody watches; and after a
  * lost connection the hub reconnects and resends every watched sweep's snapshot.
+ *
+ * Access is checked again before every event and every heartbeat, with roles read afresh from
+ * the database (`allowedViewers`, the rule of sweep-access.ts): a watcher who may no longer see
+ * the sweep (demoted, or the set turned private) gets nothing more and his stream is ended. Role
+ * changes may happen on another server, so the hub asks instead of waiting to be told. When the
+ * check itself fails (database down) no data is sent, but streams stay open.
  */
 import type { Response } from 'express';
 import type { Logger } from 'pino';
@@ -21,24 +27,66 @@ const HEARTBEAT_MS = 15_000;
 
 /** The SSE hub of one app. */
 export interface SweepEvents {
-  /** Streams sweep `sweepId` to `res` until the client goes away. */
-  stream(sweepId: number, res: Response): Promise<void>;
+  /** Streams sweep `sweepId` to `res`, watched by account `viewerId`, until the client goes away or loses access. */
+  stream(sweepId: number, res: Response, viewerId: number): Promise<void>;
   close(): Promise<void>;
 }
 
+/** Which of the accounts `userIds` may see sweep `sweepId` now (SweepsService.allowedViewers). */
+export type AllowedViewers = (sweepId: number, userIds: readonly number[]) => Promise<Set<number>>;
+
+/** One open stream. */
+interface Watcher {
+  readonly res: Response;
+  readonly viewerId: number;
+}
+
 /** Builds the hub; it connects to `databaseUrl` when the first client arrives. */
-export function createSweepEvents(sequelize: Sequelize, databaseUrl: string | undefined, logger: Logger): SweepEvents {
-  const watchers = new Map<number, Set<Response>>();
+export function createSweepEvents(sequelize: Sequelize, databaseUrl: string | undefined, logger: Logger, allowedViewers: AllowedViewers): SweepEvents {
+  const watchers = new Map<number, Set<Watcher>>();
   const pendingProgress = new Map<number, NodeJS.Timeout>();
   let listener: ChannelListener | undefined;
+  let heartbeat: NodeJS.Timeout | undefined;
 
-  const send = (sweepId: number, event: string, data: unknown): void => {
+  const forget = (sweepId: number, watcher: Watcher): void => {
+    const set = watchers.get(sweepId);
+    set?.delete(watcher);
+    if (set && set.size === 0) watchers.delete(sweepId);
+    if (watchers.size === 0 && heartbeat) {
+      clearInterval(heartbeat);
+      heartbeat = undefined;
+    }
+  };
+  /** The watchers of `sweepId` who may still see it; the others' streams are ended. */
+  const authorised = async (sweepId: number): Promise<Watcher[]> => {
+    const current = [...(watchers.get(sweepId) ?? [])];
+    if (current.length === 0) return [];
+    const allowed = await allowedViewers(sweepId, [...new Set(current.map((w) => w.viewerId))]);
+    for (const w of current.filter((x) => !allowed.has(x.viewerId))) {
+      logger.info({ sweepId, userId: w.viewerId }, 'sweep stream ended: the viewer may no longer see the sweep');
+      forget(sweepId, w);
+      w.res.end();
+    }
+    return current.filter((w) => allowed.has(w.viewerId) && watchers.get(sweepId)?.has(w));
+  };
+  const send = (to: readonly Watcher[], event: string, data: unknown): void => {
     const text = `event: ${event}\ndata: ${JSON.stringify(data)}\n\n`;
-    for (const res of watchers.get(sweepId) ?? []) res.write(text);
+    for (const w of to) w.res.write(text);
   };
   const sendProgress = async (sweepId: number): Promise<void> => {
-    const progress = await readProgress(sequelize, sweepId);
-    if (progress) send(sweepId, SWEEP_EVENT_NAMES.progress, progress);
+    const [progress, to] = await Promise.all([readProgress(sequelize, sweepId), authorised(sweepId)]);
+    if (progress) send(to, SWEEP_EVENT_NAMES.progress, progress);
+  };
+  /** Re-checks every watched sweep and keeps the allowed streams alive through proxies. */
+  const beat = (): void => {
+    for (const sweepId of watchers.keys()) {
+      authorised(sweepId)
+        .then((to) => to.forEach((w) => w.res.write(': keep-alive\n\n')))
+        .catch((err: Error) => {
+          logger.warn({ err: err.message, sweepId }, 'sweep stream access check failed');
+          watchers.get(sweepId)?.forEach((w) => w.res.write(': keep-alive\n\n'));
+        });
+    }
   };
   const queueProgress = (sweepId: number): void => {
     if (pendingProgress.has(sweepId)) return;
@@ -52,8 +100,8 @@ export function createSweepEvents(sequelize: Sequelize, databaseUrl: string | un
     if (!notice || typeof notice.sweepId !== 'number' || !watchers.has(notice.sweepId)) return;
     const { sweepId, runId } = notice;
     if (typeof runId === 'number') {
-      readResultRows(sequelize, sweepId, { runId })
-        .then((rows) => rows.forEach((row) => send(sweepId, SWEEP_EVENT_NAMES.result, row)))
+      Promise.all([readResultRows(sequelize, sweepId, { runId }), authorised(sweepId)])
+        .then(([rows, to]) => rows.forEach((row) => send(to, SWEEP_EVENT_NAMES.result, row)))
         .catch((err: Error) => logger.warn({ err: err.message, sweepId }, 'sweep result read failed'));
     }
     queueProgress(sweepId);
@@ -68,7 +116,7 @@ export function createSweepEvents(sequelize: Sequelize, databaseUrl: string | un
   };
 
   return {
-    async stream(sweepId, res) {
+    async stream(sweepId, res, viewerId) {
       ensureListening();
       res.status(200);
       res.setHeader('content-type', 'text/event-stream; charset=utf-8');
@@ -83,14 +131,10 @@ export function createSweepEvents(sequelize: Sequelize, databaseUrl: string | un
         set = new Set();
         watchers.set(sweepId, set);
       }
-      set.add(res);
-      const heartbeat = setInterval(() => res.write(': keep-alive\n\n'), HEARTBEAT_MS);
-      res.on('close', () => {
-        clearInterval(heartbeat);
-        const s = watchers.get(sweepId);
-        s?.delete(res);
-        if (s && s.size === 0) watchers.delete(sweepId);
-      });
+      const watcher: Watcher = { res, viewerId };
+      set.add(watcher);
+      heartbeat ??= setInterval(beat, HEARTBEAT_MS);
+      res.on('close', () => forget(sweepId, watcher));
       const progress = await readProgress(sequelize, sweepId);
       if (progress) res.write(`event: ${SWEEP_EVENT_NAMES.progress}\ndata: ${JSON.stringify(progress)}\n\n`);
       if (progress && isSweepOver(progress.status)) res.write(': sweep over\n\n');
@@ -98,7 +142,9 @@ export function createSweepEvents(sequelize: Sequelize, databaseUrl: string | un
     async close() {
       for (const t of pendingProgress.values()) clearTimeout(t);
       pendingProgress.clear();
-      for (const set of watchers.values()) for (const res of set) res.end();
+      if (heartbeat) clearInterval(heartbeat);
+      heartbeat = undefined;
+      for (const set of watchers.values()) for (const w of set) w.res.end();
       watchers.clear();
       await listener?.close();
       listener = undefined;

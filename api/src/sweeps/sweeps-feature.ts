@@ -27,7 +27,7 @@ export function sweepsFeature(ctx: AppContext): Router {
     return boss;
   };
   const svc = createSweepsService({ sequelize: ctx.sequelize, models: ctx.models, boss: bossReady, jobExpiryMarginSeconds: ctx.config.jobExpiryMarginSeconds });
-  const events = createSweepEvents(ctx.sequelize, ctx.config.databaseUrl, ctx.logger);
+  const events = createSweepEvents(ctx.sequelize, ctx.config.databaseUrl, ctx.logger, (id, userIds) => svc.allowedViewers(id, userIds));
   ctx.stats.register('sweeps', (viewer) => svc.count(viewer));
   ctx.onDispose(async () => {
     await events.close();

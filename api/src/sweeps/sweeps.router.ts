@@ -28,8 +28,9 @@ export function sweepsRouter(svc: SweepsService, events: SweepEvents): Router {
   });
   r.get('/:id/events', async (req, res) => {
     const id = Number(req.params.id);
-    await svc.assertVisible(requireUser(req), id);
-    await events.stream(id, res);
+    const viewer = requireUser(req);
+    await svc.assertVisible(viewer, id);
+    await events.stream(id, res, viewer.id);
   });
   return r;
 }

@@ -16,7 +16,8 @@ import { isSetVisible } from '../instance-sets/instance-set-access';
 import { SWEEP_CANCEL_CHANNEL } from '../workers/sweep-channels';
 import { RUN_QUEUE, runJob, sendRunJobs } from '../workers/sweep-queue';
 import { parameterHash } from './parameter-hash';
-import { canSeeSweep } from './sweep-access';
+import { toAccount } from '../users/account';
+import { canSeeSweep, visibleSweepsCondition } from './sweep-access';
 import { readProgress, readResultRows } from './sweep-progress';
 
 /** The service behind /api/sweeps. */
@@ -29,6 +30,8 @@ export interface SweepsService {
   cancel(viewer: Express.User, id: number): Promise<SweepDetail>;
   /** Throws 404 unless `viewer` may see sweep `id`. */
   assertVisible(viewer: Express.User, id: number): Promise<void>;
+  /** Which of the accounts `userIds` may see sweep `id` now (roles read afresh; for live streams). */
+  allowedViewers(id: number, userIds: readonly number[]): Promise<Set<number>>;
   count(viewer: Express.User | null): Promise<number>;
 }
 
@@ -70,9 +73,13 @@ export function createSweepsService(deps: SweepsDeps): SweepsService {
     }));
   }
 
+  /** The sweep's instance set as the access rule needs it; null when the set is gone. */
+  const setOf = (sweep: { definition: SweepDefinition }) =>
+    models.InstanceSet.findByPk(sweep.definition.instances.instanceSetId, { attributes: ['id', 'ownerId', 'visibility'] });
+
   async function visibleSweep(viewer: Express.User, id: number) {
     const sweep = Number.isInteger(id) ? await models.Sweep.findByPk(id) : null;
-    if (!sweep || !canSeeSweep(sweep.ownerId, viewer)) throw new AppError('SWEEP_NOT_FOUND', 404, `No sweep ${id}`);
+    if (!sweep || !canSeeSweep(sweep, await setOf(sweep), viewer)) throw new AppError('SWEEP_NOT_FOUND', 404, `No sweep ${id}`);
     return sweep;
   }
 
@@ -134,8 +141,8 @@ export function createSweepsService(deps: SweepsDeps): SweepsService {
     },
 
     async list(viewer) {
-      const items = hasRole(viewer.role, 'maintainer') ? await summaryRows('TRUE', {}) : await summaryRows('s.owner_id = :owner', { owner: viewer.id });
-      return { items };
+      const visible = visibleSweepsCondition(viewer);
+      return { items: await summaryRows(visible.sql, visible.replacements) };
     },
 
     get: detail,
@@ -174,10 +181,21 @@ export function createSweepsService(deps: SweepsDeps): SweepsService {
       await visibleSweep(viewer, id);
     },
 
+    async allowedViewers(id, userIds) {
+      const allowed = new Set<number>();
+      const sweep = userIds.length > 0 ? await models.Sweep.findByPk(id, { attributes: ['id', 'ownerId', 'definition'] }) : null;
+      if (!sweep) return allowed;
+      const set = await setOf(sweep);
+      for (const user of await models.User.findAll({ where: { id: [...userIds] } })) {
+        if (canSeeSweep(sweep, set, toAccount(user))) allowed.add(user.id);
+      }
+      return allowed;
+    },
+
     async count(viewer) {
       if (!viewer) return 0;
-      const where = hasRole(viewer.role, 'maintainer') ? '' : 'WHERE owner_id = :owner';
-      const [row] = await sequelize.query<{ n: string }>(`SELECT count(*) AS n FROM sweeps ${where}`, { replacements: { owner: viewer.id }, type: QueryTypes.SELECT });
+      const visible = visibleSweepsCondition(viewer);
+      const [row] = await sequelize.query<{ n: string }>(`SELECT count(*) AS n FROM sweeps s WHERE ${visible.sql}`, { replacements: visible.replacements, type: QueryTypes.SELECT });
       return Number(row?.n ?? 0);
     },
   };
