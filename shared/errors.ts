@@ -27,6 +27,8 @@ export const ERROR_CODES = [
   'COMPUTE_TIME_LIMIT',
   'COMPUTE_BUSY',
   'COMPUTE_MEMORY_LIMIT',
+  /** PostgreSQL is not answering (stopped, restarting, unreachable): 503 with Retry-After; the session is kept. */
+  'DATABASE_UNAVAILABLE',
   'INTERNAL',
 ] as const;
 export type ErrorCode = (typeof ERROR_CODES)[number] | (string & {});

@@ -129,8 +129,11 @@ export interface SweepResultsResponse {
   readonly items: readonly SweepResultRow[];
 }
 
-/** Names of the SSE events of GET /api/sweeps/:id/events. */
-export const SWEEP_EVENT_NAMES = { progress: 'progress', result: 'result' } as const;
+/**
+ * Names of the SSE events of GET /api/sweeps/:id/events. `unavailable` (data `{}`) says the
+ * server lost its database: figures stop until the next `progress` event.
+ */
+export const SWEEP_EVENT_NAMES = { progress: 'progress', result: 'result', unavailable: 'unavailable' } as const;
 
 /** The data of an SSE event: `progress` carries SweepProgress, `result` a SweepResultRow. */
 export type SweepEvent =

@@ -1,6 +1,6 @@
 import express from 'express';
 import request from 'supertest';
-import { UniqueConstraintError } from 'sequelize';
+import { ConnectionRefusedError, UniqueConstraintError } from 'sequelize';
 import { z } from 'zod';
 import { AppError } from './app-error';
 import { errorHandler, notFound } from './error-handler';
@@ -21,6 +21,13 @@ function appThrowing(): express.Express {
   app.get('/unique', () => {
     throw new UniqueConstraintError({ message: 'Validation error' });
   });
+  app.get('/db-refused', async () => {
+    throw new ConnectionRefusedError(Object.assign(new Error('connect ECONNREFUSED 127.0.0.1:5432'), { code: 'ECONNREFUSED' }));
+  });
+  app.get('/db-shutdown', async () => {
+    // What pg raises when PostgreSQL shuts down under a query (SQLSTATE 57P01 admin_shutdown).
+    throw Object.assign(new Error('terminating connection due to administrator command'), { code: '57P01' });
+  });
   app.get('/boom', async () => {
     throw new Error('secret connection string postgres://u:pw@db');
   });
@@ -31,6 +38,14 @@ function appThrowing(): express.Express {
 
 describe('errorHandler', () => {
   const app = appThrowing();
+
+  it.each(['/db-refused', '/db-shutdown'])('answers a lost database connection (%s) with 503 DATABASE_UNAVAILABLE and Retry-After', async (path) => {
+    const res = await request(app).get(path);
+    expect(res.status).toBe(503);
+    expect(res.body.error.code).toBe('DATABASE_UNAVAILABLE');
+    expect(res.body.error.message).not.toMatch(/ECONNREFUSED|5432|administrator/);
+    expect(res.headers['retry-after']).toBe('5');
+  });
 
   it('sends an AppError with its status, code, message and details', async () => {
     const res = await request(app).get('/app-error');

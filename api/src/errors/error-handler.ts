@@ -6,6 +6,7 @@
 import type { ErrorRequestHandler, RequestHandler } from 'express';
 import { ZodError } from 'zod';
 import type { ErrorBody, ErrorCode } from '@shared/errors';
+import { isConnectionError } from '../workers/with-db-retry';
 import { AppError } from './app-error';
 
 interface Mapped {
@@ -26,6 +27,9 @@ interface HttpishError {
   readonly field?: string;
 }
 
+/** Seconds a client is asked to wait before retrying while the database is unavailable. */
+export const DATABASE_RETRY_AFTER_SECONDS = 5;
+
 /** Translates a known error into status, code and message; undefined for unexpected errors. */
 export function mapError(err: unknown): Mapped | undefined {
   if (err instanceof AppError) return { status: err.status, code: err.code, message: err.message, details: err.details, retryAfterSeconds: err.retryAfterSeconds };
@@ -38,6 +42,14 @@ export function mapError(err: unknown): Mapped | undefined {
     };
   }
   if (!err || typeof err !== 'object') return undefined;
+  // A refused or lost PostgreSQL connection, wherever it surfaced (a query, the session store, loading
+  // the account): the request may work in a moment, so 503 with Retry-After instead of a 500.
+  if (isConnectionError(err)) {
+    return {
+      status: 503, code: 'DATABASE_UNAVAILABLE', retryAfterSeconds: DATABASE_RETRY_AFTER_SECONDS,
+      message: 'The database is not answering right now. You are still signed in; try again in a few seconds.',
+    };
+  }
   const e = err as HttpishError;
   // Sequelize is matched by name so this module does not load it.
   if (e.name === 'SequelizeUniqueConstraintError') {

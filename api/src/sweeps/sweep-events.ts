@@ -12,7 +12,8 @@
  * the database (`allowedViewers`, the rule of sweep-access.ts): a watcher who may no longer see
  * the sweep (demoted, or the set turned private) gets nothing more and his stream is ended. Role
  * changes may happen on another server, so the hub asks instead of waiting to be told. When the
- * check itself fails (database down) no data is sent, but streams stay open.
+ * check itself fails (database down) no data is sent, but streams stay open: losing the database
+ * sends every watcher an `unavailable` event, and the snapshots resent on reconnecting end it.
  */
 import type { Response } from 'express';
 import type { Logger } from 'pino';
@@ -112,6 +113,8 @@ export function createSweepEvents(sequelize: Sequelize, databaseUrl: string | un
       logger,
       // Events sent while the connection was down are lost: resend every snapshot.
       onReconnect: () => watchers.forEach((_s, id) => queueProgress(id)),
+      // No figures can be read until then; say so rather than let pages show stale ones as live.
+      onLost: () => watchers.forEach((set) => set.forEach((w) => w.res.write(`event: ${SWEEP_EVENT_NAMES.unavailable}\ndata: {}\n\n`))),
     });
   };
 

@@ -25,14 +25,14 @@ export interface ChannelListener {
 
 /**
  * Listens on `channels` with one dedicated connection; when the connection is lost (e.g. a
- * PostgreSQL restart) it reconnects with a growing delay (0.5 s … 5 s) and calls `onReconnect`,
- * so the owner can catch up on what it missed.
+ * PostgreSQL restart) it calls `onLost`, reconnects with a growing delay (0.5 s … 5 s) and calls
+ * `onReconnect`, so the owner can say it is out of touch and then catch up on what it missed.
  */
 export function listenChannels(
   databaseUrl: string,
   channels: readonly string[],
   onNotice: (channel: string, payload: unknown) => void,
-  options: { readonly logger: Logger; readonly onReconnect?: () => void },
+  options: { readonly logger: Logger; readonly onReconnect?: () => void; readonly onLost?: () => void },
 ): ChannelListener {
   let client: pg.Client | undefined;
   let isClosed = false;
@@ -45,7 +45,10 @@ export function listenChannels(
     const c = new pg.Client({ connectionString: databaseUrl });
     c.on('error', () => undefined);
     c.on('end', () => {
-      if (client === c) client = undefined;
+      if (client === c) {
+        client = undefined;
+        if (!isClosed) options.onLost?.();
+      }
       schedule();
     });
     c.on('notification', (n) => {
