@@ -3,10 +3,13 @@ import { HttpTestingController, provideHttpClientTesting } from '@angular/common
 import { TestBed, type ComponentFixture } from '@angular/core/testing';
 import type { HarnessLoader } from '@angular/cdk/testing';
 import { TestbedHarnessEnvironment } from '@angular/cdk/testing/testbed';
+import { MatButtonHarness } from '@angular/material/button/testing';
+import { MatInputHarness } from '@angular/material/input/testing';
 import { MatSelectHarness } from '@angular/material/select/testing';
 import { MatSnackBarHarness } from '@angular/material/snack-bar/testing';
 import { MatTableHarness } from '@angular/material/table/testing';
 import type { Account, UserListResponse } from '@shared/auth';
+import type { StorageQuotaView } from '@shared/storage-quota';
 import { errorInterceptor } from '../core/error-interceptor';
 import UserAdmin from './user-admin';
 
@@ -22,6 +25,13 @@ const account = (id: number, login: string, displayName: string, role: Account['
 
 const USERS: UserListResponse = {
   users: [account(1, 'cyra-admin', 'Cyra Node', 'admin'), account(2, 'dev-pathson', 'Dev Pathson', 'researcher')],
+};
+
+const QUOTA: StorageQuotaView = {
+  userId: 2,
+  limits: { files: 40, cells: 16_777_216, bytes: 268_435_456 },
+  used: { files: 12, cells: 4096, bytes: 51_200 },
+  isDefault: { files: false, cells: true, bytes: true },
 };
 
 describe('UserAdmin', () => {
@@ -87,5 +97,48 @@ describe('UserAdmin', () => {
     const bar = await TestbedHarnessEnvironment.documentRootLoader(fixture).getHarness(MatSnackBarHarness);
     expect(await bar.getMessage()).toBe('Cyra Node is the last admin and cannot be demoted.');
     expect(await select.getValueText()).toBe('admin');
+  });
+
+  describe('storage quota', () => {
+    // A plain click: a harness click waits for stability, which includes the quota request it starts.
+    function openQuota(login: string): void {
+      (fixture.nativeElement as HTMLElement).querySelector<HTMLButtonElement>(`[aria-label="Storage quota of ${login}"]`)?.click();
+      fixture.detectChanges();
+    }
+    const field = (label: string, login: string) => loader.getHarness(MatInputHarness.with({ selector: `[aria-label="${label} limit of ${login}"]` }));
+
+    it("shows a person's use and own limits, with default limits as empty fields", async () => {
+      openQuota('dev-pathson');
+      backend.expectOne({ method: 'GET', url: '/api/admin/users/2/quota' }).flush(QUOTA);
+      await fixture.whenStable();
+
+      expect(await (await field('Files', 'dev-pathson')).getValue()).toBe('40');
+      expect(await (await field('Map cells', 'dev-pathson')).getValue()).toBe('');
+      expect(fixture.nativeElement.textContent).toContain('uses 4,096 of 16,777,216 (default)');
+    });
+
+    it('sends every kind, an emptied field as null (back to the default)', async () => {
+      openQuota('dev-pathson');
+      backend.expectOne('/api/admin/users/2/quota').flush(QUOTA);
+      await fixture.whenStable();
+      await (await field('Files', 'dev-pathson')).setValue('');
+      await (await field('Bytes', 'dev-pathson')).setValue('1000000');
+      await (await loader.getHarness(MatButtonHarness.with({ text: 'Save quota' }))).click();
+
+      const req = backend.expectOne({ method: 'PATCH', url: '/api/admin/users/2/quota' });
+      expect(req.request.body).toEqual({ files: null, cells: null, bytes: 1_000_000 });
+      req.flush({ ...QUOTA, limits: { ...QUOTA.limits, files: 5000, bytes: 1_000_000 }, isDefault: { files: true, cells: true, bytes: false } });
+      await fixture.whenStable();
+      expect(await (await field('Bytes', 'dev-pathson')).getValue()).toBe('1000000');
+    });
+
+    it('does not send a limit that is not a whole number', async () => {
+      openQuota('dev-pathson');
+      backend.expectOne('/api/admin/users/2/quota').flush(QUOTA);
+      await fixture.whenStable();
+      await (await field('Files', 'dev-pathson')).setValue('12.5');
+
+      expect(await (await loader.getHarness(MatButtonHarness.with({ text: 'Save quota' }))).isDisabled()).toBe(true);
+    });
   });
 });

@@ -1,7 +1,8 @@
-/** Admin page: every account with a role picker per row. */
+/** Admin page: every account with a role picker per row, and one person's storage quota at a time. */
 import { ChangeDetectionStrategy, Component, DestroyRef, inject, signal } from '@angular/core';
 import { takeUntilDestroyed } from '@angular/core/rxjs-interop';
 import { DatePipe } from '@angular/common';
+import { MatButtonModule } from '@angular/material/button';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatSelectModule, type MatSelectChange } from '@angular/material/select';
 import { MatTableModule } from '@angular/material/table';
@@ -9,6 +10,7 @@ import { firstValueFrom } from 'rxjs';
 import type { Account, ChangeRoleRequest } from '@shared/auth';
 import { Session } from '../core/session';
 import { AdminApi } from './admin-api';
+import { StorageQuotaEditor } from './storage-quota-editor';
 
 type AssignableRole = ChangeRoleRequest['role'];
 
@@ -24,7 +26,7 @@ const ROLE_CHOICES: readonly { readonly role: AssignableRole; readonly hint: str
   selector: 'app-user-admin',
   templateUrl: './user-admin.html',
   styleUrl: './user-admin.scss',
-  imports: [MatTableModule, MatSelectModule, MatProgressBarModule, DatePipe],
+  imports: [MatTableModule, MatSelectModule, MatButtonModule, MatProgressBarModule, DatePipe, StorageQuotaEditor],
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export default class UserAdmin {
@@ -32,13 +34,16 @@ export default class UserAdmin {
   private readonly destroyRef = inject(DestroyRef);
   protected readonly session = inject(Session);
   protected readonly roleChoices = ROLE_CHOICES;
-  protected readonly columns = ['displayName', 'login', 'email', 'createdAt', 'role'];
+  protected readonly columns = ['displayName', 'login', 'email', 'createdAt', 'role', 'storage'];
   /** undefined while loading. */
   protected readonly users = signal<readonly Account[] | undefined>(undefined);
   /** Whether the list could not be loaded. */
   protected readonly hasFailed = signal(false);
   /** Id of the account whose role is being saved, so its picker is locked meanwhile. */
   protected readonly savingId = signal<number | null>(null);
+
+  /** The account whose storage quota is open below the table. */
+  protected readonly quotaOf = signal<Account | null>(null);
 
   /** Keeps each row (and its open picker) in place when one account changes. */
   protected readonly byId = (_: number, user: Account): number => user.id;
@@ -48,6 +53,11 @@ export default class UserAdmin {
       next: (res) => this.users.set(res.users),
       error: () => this.hasFailed.set(true),
     });
+  }
+
+  /** Opens the storage quota of `user` below the table, or closes it when it is open already. */
+  protected toggleQuota(user: Account): void {
+    this.quotaOf.update((open) => (open?.id === user.id ? null : user));
   }
 
   /**
