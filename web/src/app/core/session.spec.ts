@@ -2,6 +2,7 @@ import { provideHttpClient } from '@angular/common/http';
 import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
 import { TestBed } from '@angular/core/testing';
 import type { Account } from '@shared/auth';
+import { DatabaseStatus } from './database-status';
 import { Session } from './session';
 
 const EVE: Account = {
@@ -42,6 +43,25 @@ describe('Session', () => {
 
     await expect(loading).resolves.toEqual({ account: null, role: 'visitor' });
     expect([session.isLoaded(), session.isSignedIn(), session.role()]).toEqual([true, false, 'visitor']);
+  });
+
+  it('does not turn a signed-in person into a visitor while the database is down: waits and asks again', async () => {
+    const loading = session.load();
+    backend.expectOne('/api/me').flush(
+      { error: { code: 'DATABASE_UNAVAILABLE', message: 'The database is not answering right now.' } },
+      { status: 503, statusText: 'Service Unavailable', headers: { 'Retry-After': '5' } },
+    );
+    await new Promise((resolve) => setTimeout(resolve, 0));
+    expect([session.isLoaded(), session.isSignedIn()]).toEqual([false, false]);
+    expect(TestBed.inject(DatabaseStatus).isUnavailable()).toBe(true);
+
+    TestBed.inject(DatabaseStatus).checkNow();
+    backend.expectOne('/api/health').flush({ status: 'ok', db: 'up', version: '0.1.0' });
+    await new Promise((resolve) => setTimeout(resolve, 0));
+    backend.expectOne('/api/me').flush({ account: EVE, role: 'maintainer' });
+
+    await expect(loading).resolves.toEqual({ account: EVE, role: 'maintainer' });
+    expect([session.isLoaded(), session.isSignedIn(), session.role()]).toEqual([true, true, 'maintainer']);
   });
 
   it('asks again on reload', async () => {

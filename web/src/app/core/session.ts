@@ -4,6 +4,8 @@ import { firstValueFrom } from 'rxjs';
 import type { Account, MeResponse, Role } from '@shared/auth';
 import { hasRole } from '@shared/auth-contract';
 import { AccountApi } from './account-api';
+import { DatabaseStatus } from './database-status';
+import { errorCode } from './error-message';
 
 const VISITOR: MeResponse = { account: null, role: 'visitor' };
 
@@ -11,6 +13,7 @@ const VISITOR: MeResponse = { account: null, role: 'visitor' };
 @Injectable({ providedIn: 'root' })
 export class Session {
   private readonly api = inject(AccountApi);
+  private readonly database = inject(DatabaseStatus);
   /** null until the first GET /api/me has answered. */
   private readonly state = signal<MeResponse | null>(null);
   private pending: Promise<MeResponse> | null = null;
@@ -26,13 +29,13 @@ export class Session {
   /** Whether the current role may use the admin area. */
   readonly isAdmin = computed(() => hasRole(this.role(), 'admin'));
 
-  /** Loads the session once; later calls share the first answer. A failed load counts as visitor. */
+  /**
+   * Loads the session once; later calls share the first answer. A failed load counts as visitor,
+   * except while the database is unavailable: the server kept the session, so the load waits for
+   * the database and asks again rather than show a signed-in person as signed out.
+   */
   load(): Promise<MeResponse> {
-    this.pending ??= firstValueFrom(this.api.me()).then(
-      (me) => this.settle(me),
-      // The error interceptor has already told the user; a visitor shell still works.
-      () => this.settle(VISITOR),
-    );
+    this.pending ??= this.ask();
     return this.pending;
   }
 
@@ -68,6 +71,21 @@ export class Session {
     await firstValueFrom(this.api.signOut());
     this.settle(VISITOR);
     this.pending = Promise.resolve(VISITOR);
+  }
+
+  private async ask(): Promise<MeResponse> {
+    for (;;) {
+      try {
+        return this.settle(await firstValueFrom(this.api.me()));
+      } catch (err) {
+        if (errorCode(err) !== 'DATABASE_UNAVAILABLE') {
+          // The error interceptor has already told the user; a visitor shell still works.
+          return this.settle(VISITOR);
+        }
+        this.database.report(err);
+        await this.database.whenAvailable();
+      }
+    }
   }
 
   private settle(me: MeResponse): MeResponse {

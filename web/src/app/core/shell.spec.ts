@@ -8,6 +8,7 @@ import { MatMenuHarness } from '@angular/material/menu/testing';
 import { MatSlideToggleHarness } from '@angular/material/slide-toggle/testing';
 import { provideRouter } from '@angular/router';
 import type { Account, MeResponse } from '@shared/auth';
+import { DatabaseStatus } from './database-status';
 import Shell from './shell';
 
 const ADA: Account = {
@@ -123,5 +124,27 @@ describe('Shell', () => {
     expect(await loader.getAllHarnesses(MatMenuHarness)).toHaveLength(0);
     expect(await navLabels()).not.toContain('Admin');
     expect(await loader.getAllHarnesses(MatButtonHarness.with({ text: 'Sign in' }))).toHaveLength(1);
+  });
+
+  it('shows the database banner instead of a sign-in link while /api/me answers DATABASE_UNAVAILABLE, then the account', async () => {
+    TestBed.configureTestingModule({ imports: [Shell], providers: [provideRouter([]), provideHttpClient(), provideHttpClientTesting()] });
+    backend = TestBed.inject(HttpTestingController);
+    fixture = TestBed.createComponent(Shell);
+    loader = TestbedHarnessEnvironment.loader(fixture);
+    backend.expectOne('/api/me').flush(
+      { error: { code: 'DATABASE_UNAVAILABLE', message: 'The database is not answering right now.' } },
+      { status: 503, statusText: 'Service Unavailable', headers: { 'Retry-After': '5' } },
+    );
+    await fixture.whenStable();
+
+    expect(fixture.nativeElement.querySelector('[role="alert"]')?.textContent).toMatch(/database is not answering[\s\S]*still signed in/i);
+    expect(await loader.getAllHarnesses(MatButtonHarness.with({ text: 'Sign in' }))).toHaveLength(0);
+
+    TestBed.inject(DatabaseStatus).clear();
+    await new Promise((resolve) => setTimeout(resolve, 0));
+    backend.expectOne('/api/me').flush({ account: ADA, role: 'researcher' });
+    await fixture.whenStable();
+    expect(fixture.nativeElement.querySelector('[role="alert"]')).toBeNull();
+    expect(await (await loader.getHarness(MatMenuHarness)).getTriggerText()).toBe('Ada Gridley researcher');
   });
 });

@@ -4,6 +4,7 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatToolbarModule } from '@angular/material/toolbar';
 import { RouterLink, RouterLinkActive, RouterOutlet } from '@angular/router';
 import { AccountMenu } from './account-menu';
+import { DatabaseBanner } from './database-banner';
 import { SIGN_IN_PATH } from '@shared/auth-contract';
 import { Session } from './session';
 
@@ -25,7 +26,7 @@ const AREAS: readonly Area[] = [
   selector: 'app-root',
   templateUrl: './shell.html',
   styleUrl: './shell.scss',
-  imports: [MatToolbarModule, MatButtonModule, RouterLink, RouterLinkActive, RouterOutlet, AccountMenu],
+  imports: [MatToolbarModule, MatButtonModule, RouterLink, RouterLinkActive, RouterOutlet, AccountMenu, DatabaseBanner],
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export default class Shell {

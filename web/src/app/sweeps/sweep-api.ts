@@ -7,6 +7,17 @@ import type { MailboxResponse, SweepDetail, SweepEvent, SweepListResponse, Sweep
 import { SWEEP_EVENT_NAMES } from '@shared/runs';
 import type { SweepDefinitionInput } from '@shared/sweeps';
 
+/**
+ * What the page's sweep stream emits: the server's events, and `lost` when the page is out of touch
+ * with live figures (the stream dropped, or the server lost its database); the next `progress`
+ * snapshot means it is in touch again.
+ */
+export type SweepStreamEvent = SweepEvent | { readonly type: 'lost' };
+
+/** Delay before reopening a stream the browser gave up on, ms (doubling up to the maximum). */
+const REOPEN_MS = 2000;
+const REOPEN_MAX_MS = 30_000;
+
 /** Owns the sweeps URLs. */
 @Injectable({ providedIn: 'root' })
 export class SweepApi {
@@ -50,16 +61,37 @@ export class SweepApi {
   /**
    * The live events of a sweep as a cold stream over EventSource: subscribing opens it,
    * unsubscribing closes it; the browser reconnects by itself after a dropped connection
-   * (the server then sends a fresh progress snapshot).
+   * (the server then sends a fresh progress snapshot). A reconnection answered with an error
+   * (503 while the database is down) makes the browser give up, so the stream is then reopened
+   * here with a growing delay. Every drop, and the server's `unavailable` event, emit `lost`.
    */
-  events(id: number): Observable<SweepEvent> {
-    return new Observable<SweepEvent>((subscriber) => {
-      const source = new EventSource(`/api/sweeps/${id}/events`, { withCredentials: true });
-      const onProgress = (e: MessageEvent<string>) => subscriber.next({ type: 'progress', progress: JSON.parse(e.data) as SweepProgress });
-      const onResult = (e: MessageEvent<string>) => subscriber.next({ type: 'result', row: JSON.parse(e.data) as SweepResultRow });
-      source.addEventListener(SWEEP_EVENT_NAMES.progress, onProgress);
-      source.addEventListener(SWEEP_EVENT_NAMES.result, onResult);
-      return () => source.close();
+  events(id: number): Observable<SweepStreamEvent> {
+    return new Observable<SweepStreamEvent>((subscriber) => {
+      let source: EventSource | undefined;
+      let reopen: ReturnType<typeof setTimeout> | undefined;
+      let delay = REOPEN_MS;
+      const open = () => {
+        const s = new EventSource(`/api/sweeps/${id}/events`, { withCredentials: true });
+        source = s;
+        s.addEventListener(SWEEP_EVENT_NAMES.progress, (e: MessageEvent<string>) => {
+          delay = REOPEN_MS;
+          subscriber.next({ type: 'progress', progress: JSON.parse(e.data) as SweepProgress });
+        });
+        s.addEventListener(SWEEP_EVENT_NAMES.result, (e: MessageEvent<string>) => subscriber.next({ type: 'result', row: JSON.parse(e.data) as SweepResultRow }));
+        s.addEventListener(SWEEP_EVENT_NAMES.unavailable, () => subscriber.next({ type: 'lost' }));
+        s.addEventListener('error', () => {
+          subscriber.next({ type: 'lost' });
+          if (s.readyState !== EventSource.CLOSED) return;
+          s.close();
+          reopen = setTimeout(open, delay);
+          delay = Math.min(REOPEN_MAX_MS, delay * 2);
+        });
+      };
+      open();
+      return () => {
+        if (reopen) clearTimeout(reopen);
+        source?.close();
+      };
     });
   }
 }

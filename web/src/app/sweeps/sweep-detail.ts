@@ -3,7 +3,9 @@
  * fed from the sweep's SSE stream (an RxJS stream over EventSource) on top of the rows read at
  * load; and cancel. Row events sent before the stream connected (or while it was down) are
  * lost, so whenever a progress snapshot counts more finished runs than the grid holds, the
- * page reads the rows again.
+ * page reads the rows again. When the stream drops or the server loses its database, the page
+ * says it lost contact (with the time of the last figures) instead of showing a time left that
+ * no longer moves, until the next snapshot arrives.
  */
 import { ChangeDetectionStrategy, Component, computed, inject, input, signal } from '@angular/core';
 import { takeUntilDestroyed, toObservable } from '@angular/core/rxjs-interop';
@@ -58,6 +60,10 @@ export default class SweepDetailPage {
     const p = this.progress();
     return p !== null && !isSweepOver(p.status);
   });
+  /** Whether the live figures stopped arriving (stream dropped or database unavailable). */
+  protected readonly isOutOfContact = signal(false);
+  /** When the last progress snapshot arrived. */
+  protected readonly lastHeardAt = signal<Date | null>(null);
   protected readonly isCancelling = signal(false);
   protected readonly rowId = (p: GetRowIdParams<SweepResultRow>) => String(p.data.runId);
   /** Fires when the grid holds fewer finished runs than the latest progress snapshot counts. */
@@ -82,7 +88,10 @@ export default class SweepDetailPage {
         this.sweep.set(m.sweep);
         if (!this.progress()) this.progress.set(m.sweep.progress);
       } else if (m.kind === 'rows') this.mergeRows(m.rows);
+      else if (m.event.type === 'lost') this.isOutOfContact.set(true);
       else if (m.event.type === 'progress') {
+        this.isOutOfContact.set(false);
+        this.lastHeardAt.set(new Date());
         this.progress.set(m.event.progress);
         if (m.event.progress.done > this.rows().length) this.rowsBehind.next();
       } else this.mergeRows([m.event.row]);
