@@ -101,6 +101,7 @@ describe('demotion ends access to sweeps', () => {
     const list = (await (await s.client.request('/api/sweeps')).json()) as SweepListResponse;
     expect(list.items.map((i) => i.id)).toEqual([kept.id]);
     expect((await s.client.request(`/api/sweeps/${kept.id}/results`)).status).toBe(200);
+    expect(((await (await s.client.request('/api/stats')).json()) as { sweeps: number }).sweeps).toBe(1);
   });
 
   it('reads the role from the database on each request: the session row holds the account id only', async () => {
