@@ -5,7 +5,7 @@
  * failing session store must not sign anyone out), an open sweep stream is told the database
  * is gone, and once PostgreSQL is back the same session works and the stream resumes.
  */
-import { mkdtempSync } from 'node:fs';
+import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { Client } from 'pg';
@@ -60,6 +60,7 @@ describe('a PostgreSQL outage', () => {
   afterAll(async () => {
     await s?.close().catch(() => undefined);
     cluster?.stop();
+    if (dataDir) rmSync(dataDir, { recursive: true, force: true });
   });
 
   it('answers 503 DATABASE_UNAVAILABLE with Retry-After, keeps the session and tells an open sweep stream, then recovers', async () => {
