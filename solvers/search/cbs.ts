@@ -8,7 +8,7 @@
  *   pathfinding", IJCAI 2015);
  * - the WDG heuristic (Li, Felner, Boyarski, Ma, Koenig, "Improved heuristics for multi-agent
  *   path finding with conflict-based search", IJCAI 2019), computed lazily when a node is
- *   popped, with pair weights from exact two-agent sub-searches, memoised;
+ *   popped, with pair weights from exact two-agent sub-searches, memoised (pair-weight-memo.ts);
  * - disjoint splitting (Li, Harabor, Stuckey, Ma, Koenig, "Disjoint splitting for multi-agent
  *   path finding with conflict-based search", ICAPS 2019);
  * - target, corridor and rectangle reasoning (Li, Harabor, Stuckey, Koenig, "Pairwise symmetry
@@ -36,6 +36,7 @@ import { buildMdd, haveConflictFreePair, type Mdd } from './mdd';
 import { findRectangleConflict } from './rectangle-reasoning';
 import { classifyRangeConflict, K_RANGE } from './range-conflicts';
 import { SpaceTimeAStar } from './space-time-astar';
+import { PairWeightMemo, type PairWeightKey } from './pair-weight-memo';
 import { minWeightedVertexCover, type WeightedEdge } from './weighted-vertex-cover';
 
 /** CT expansions a WDG sub-search may use before it reports its lower bound instead. */
@@ -43,6 +44,9 @@ export const SUB_EXPAND_LIMIT = 16;
 
 /** A WDG weight that makes the node infeasible (the pair has no joint solution). */
 const INFEASIBLE = Number.POSITIVE_INFINITY;
+
+/** WDG pair weights a run keeps before it forgets them all (a memory bound). */
+const PAIR_WEIGHT_CAPACITY = 50000;
 
 /** Settings of one CBS run (the main search or a two-agent WDG sub-search). */
 export interface CbsEngineConfig {
@@ -73,6 +77,8 @@ export interface CbsEngineConfig {
   readonly memoryLimitBytes: number;
   /** Whether this is a two-agent sub-search (uses the DG bound instead of WDG). */
   readonly isSub: boolean;
+  /** WDG pair weights kept before the memo is cleared (default {@link PAIR_WEIGHT_CAPACITY}; tests make clears frequent). */
+  readonly pairWeightCapacity?: number;
 }
 
 /** Outcome of one CBS run. */
@@ -127,7 +133,8 @@ export class CbsEngine {
   private readonly open = new BinaryHeap<CtNode>(lessNode);
   private readonly tables = new Map<number, ConstraintTable>();
   private readonly mdds = new Map<number, Mdd | null>();
-  private readonly weights = new Map<number, Map<number, number>>();
+  /** Constraint sets are named by their owner node (`owner[i]`); one includes another when it is its ancestor. */
+  private readonly weights: PairWeightMemo;
   private bytes = 0;
   private currentF = -1;
   private readonly refined = new WeakMap<Conflict, {
@@ -143,6 +150,7 @@ export class CbsEngine {
     this.sw = cfg.switches;
     this.L = cfg.agents.length;
     this.localOf = new Int32Array(cfg.model.agentCount).fill(-1);
+    this.weights = new PairWeightMemo(cfg.pairWeightCapacity ?? PAIR_WEIGHT_CAPACITY, (a, b) => this.isAncestorOrSelf(a, b));
     cfg.agents.forEach((a, i) => { this.localOf[a] = i; });
     // Root keys are `0 * L + i`.
     cfg.initialTables?.forEach((t, i) => this.tables.set(i, t));
@@ -268,6 +276,13 @@ export class CbsEngine {
     out.reverse();
     const base = this.cfg.baseConstraints?.[i];
     return base ? [...base, ...out] : out;
+  }
+
+  /** Whether CT node `a` is node `b` or one of its ancestors (ids grow from parent to child). */
+  private isAncestorOrSelf(a: number, b: number): boolean {
+    if (a === 0) return true;
+    for (let n: CtNode | null = this.nodes[b]; n !== null && n.id >= a; n = n.parent) if (n.id === a) return true;
+    return false;
   }
 
   private table(node: CtNode, i: number): ConstraintTable {
@@ -588,13 +603,25 @@ export class CbsEngine {
     return minWeightedVertexCover(L, edges);
   }
 
-  /** Extra cost the pair (i, j) needs beyond their individual costs: exact, or a lower bound if the sub-search is cut. */
+  /**
+   * Extra cost the pair (i, j) needs beyond their individual costs: exact, or a lower bound if the
+   * sub-search is cut. It depends on the two agents' whole constraint sets as the sub-search sees
+   * them (implied prohibitions included; named by `owner`) and on their costs, not on their MDDs
+   * alone: nodes with the same MDD owners can differ in constraints that bind only above those
+   * costs, e.g. the children of a positive constraint and of its negation, which weigh a pair
+   * first when their parent never did (its weight was cleared, or the pair conflicts only in paths
+   * the parent adopted by bypass). So the memo reuses a weight only where it cannot overestimate
+   * (issue 11).
+   */
   private pairWeight(node: CtNode, i: number, j: number): number {
     const L = this.L;
-    const ki = node.mddOwner[i] * L + i;
-    const kj = node.mddOwner[j] * L + j;
-    let inner = this.weights.get(ki);
-    const memo = inner?.get(kj);
+    const ci = node.paths[i].length - 1;
+    const cj = node.paths[j].length - 1;
+    const key: PairWeightKey = {
+      mdd1: node.mddOwner[i] * L + i, mdd2: node.mddOwner[j] * L + j,
+      set1: node.owner[i], set2: node.owner[j], cost1: ci, cost2: cj,
+    };
+    const memo = this.weights.get(key);
     if (memo !== undefined) return memo;
     const mi = this.mdd(node, i);
     const mj = this.mdd(node, j);
@@ -604,8 +631,6 @@ export class CbsEngine {
     } else if (haveConflictFreePair(mi, mj, this.model.stateCell)) {
       w = 0;
     } else {
-      const ci = node.paths[i].length - 1;
-      const cj = node.paths[j].length - 1;
       const sub = new CbsEngine({
         model: this.model,
         agents: [this.cfg.agents[i], this.cfg.agents[j]],
@@ -628,13 +653,8 @@ export class CbsEngine {
       else if (sub.kind === 'infeasible') w = INFEASIBLE;
       else w = Math.max(1, sub.lowerBound - ci - cj);
     }
-    if (inner === undefined) {
-      if (this.weights.size > 50000) this.weights.clear();
-      inner = new Map();
-      this.weights.set(ki, inner);
-    }
-    inner.set(kj, w);
-    this.bytes += 24;
+    this.weights.set(key, w);
+    this.bytes += 48;
     return w;
   }
 }
