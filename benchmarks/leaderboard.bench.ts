@@ -13,6 +13,11 @@
  * Prints a table; writes benchmarks/results/leaderboard.json. Noisy when others share the machine:
  * it prints the 1-minute load average before and after the timings.
  * BENCH_DATABASE_URL=postgres://… times an existing database instead (seeding it when it has no results).
+ *
+ * `-- --concurrent 20,50 [--requests 1000] [--max-seconds 60]` instead runs the HTTP load mode
+ * (leaderboard-load.ts): the real app on loopback, that many clients at once asking for the first
+ * page; writes benchmarks/results/leaderboard-concurrent.json. `--attempts N` (1–5, default 5)
+ * seeds N × 200,000 results: the same 200,000 leaderboard entries, fewer results behind them.
  */
 import { mkdirSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { loadavg, tmpdir } from 'node:os';
@@ -26,6 +31,7 @@ import { createLeaderboardsService } from '../api/src/leaderboards/leaderboards.
 import { parameterHash } from '../api/src/sweeps/parameter-hash';
 import { startCluster } from '../scripts/postgres';
 import { freePort } from '../test/support/free-port';
+import { runLoad } from './leaderboard-load';
 
 const PROFILES = [
   { forwardMs: 1000, quarterTurnMs: 600, waitMs: 1000, cellPitchMm: 1000, robotDiameterMm: 700, timingJitter: 0.1 },
@@ -101,6 +107,15 @@ const COMPARE_CASES: readonly Case[] = [
   { name: 'comparison, k=2 (per-row lookup), sort m_k_robust', query: compare('tiMakespanMs', { k: '2', sort: 'm_k_robust' }) },
 ];
 
+/** `--name value` from the command line, or undefined. */
+function option(name: string): string | undefined {
+  const i = process.argv.indexOf(`--${name}`);
+  return i >= 0 ? process.argv[i + 1] : undefined;
+}
+/** Attempts per instance in the seed: 200,000 results each (5 = 1,000,000). */
+const ATTEMPTS = Number(option('attempts') ?? 5);
+if (!Number.isInteger(ATTEMPTS) || ATTEMPTS < 1 || ATTEMPTS > 5) throw new Error('--attempts must be 1 … 5');
+
 function quantile(sorted: readonly number[], q: number): number {
   return sorted[Math.min(sorted.length - 1, Math.ceil(q * sorted.length) - 1)];
 }
@@ -120,7 +135,7 @@ async function seed(url: string): Promise<Record<string, number>> {
   const started = performance.now();
   await q(`WITH sc AS (SELECT id, map_id, instance_set_id, row_number() OVER (ORDER BY id) - 1 AS n FROM scenarios),
     g AS (SELECT g, g % 1000 AS n, 1 + 2 * ((g / 1000) % 20) AS agents, (g / 20000) % 5 AS m, (g / 100000) % 2 AS p,
-                 abs(hashint4(g)) AS h FROM generate_series(0, 999999) g)
+                 abs(hashint4(g)) AS h FROM generate_series(0, $4::int - 1) g)
     INSERT INTO results (instance_set_id, map_id, scenario_id, agents, model, params, param_hash, seed, status, soc, makespan,
       turn_inclusive_soc_ms, turn_inclusive_makespan_ms, lower_bound, runtime_ms, nodes, robot_profile, robot_profile_hash,
       solver_version, solver_commit, node_version, cpu_model, thread_count)
@@ -134,7 +149,7 @@ async function seed(url: string): Promise<Record<string, number>> {
       CASE WHEN g.h % 10 < 7 THEN (g.agents * 20 + g.h % 50) * 900 END, CASE WHEN g.h % 10 < 7 THEN (20 + g.h % 30) * 950 + g.h % 700 END,
       CASE WHEN g.h % 10 < 9 THEN g.agents * 20 END, (g.h % 60000) / 10.0, g.h % 100000,
       ($2::jsonb[])[g.p + 1], ($3::text[])[g.p + 1], '0.1.0', 'bench', 'v20', 'bench cpu', 1
-    FROM g JOIN sc ON sc.n = g.n`, [models, PROFILES.map((p) => JSON.stringify(p)), PROFILES.map((p) => parameterHash(p))]);
+    FROM g JOIN sc ON sc.n = g.n`, [models, PROFILES.map((p) => JSON.stringify(p)), PROFILES.map((p) => parameterHash(p)), ATTEMPTS * 200_000]);
   const resultsMs = performance.now() - started;
   const t2 = performance.now();
   await q(`INSERT INTO executions (result_id, policy, noise, runs, success_rate, collisions_mean, realised_makespan_mean_ms,
@@ -184,7 +199,33 @@ async function database(): Promise<{ url: string; seeding: Record<string, number
   }
 }
 
+/** The concurrent HTTP mode: first pages under load, written to leaderboard-concurrent.json. */
+async function concurrent(levels: readonly number[]): Promise<void> {
+  const db = await database();
+  try {
+    const c = new Client({ connectionString: db.url });
+    await c.connect();
+    const { rows: [size] } = await c.query<{ results: number; entries: number }>(
+      'SELECT (SELECT count(*) FROM results)::int AS results, (SELECT count(*) FROM leaderboard_entries)::int AS entries');
+    await c.end();
+    const requests = Number(option('requests') ?? 1000);
+    const maxSeconds = Number(option('max-seconds') ?? 60);
+    // Bounded whatever is asked: at most 20,000 requests and 5 minutes per level, 200 clients.
+    if (!(requests >= 1 && requests <= 20_000) || !(maxSeconds > 0 && maxSeconds <= 300) || levels.some((n) => !(n >= 1 && n <= 200))) {
+      throw new Error('--requests 1 … 20000, --max-seconds up to 300, --concurrent client counts 1 … 200');
+    }
+    const results = await runLoad(db.url, { levels, requests, maxSeconds });
+    mkdirSync(join(__dirname, 'results'), { recursive: true });
+    writeFileSync(join(__dirname, 'results', 'leaderboard-concurrent.json'),
+      `${JSON.stringify({ seed: { ...size, seeding: db.seeding }, requests, maxSeconds, levels: results }, null, 2)}\n`);
+  } finally {
+    db.close();
+  }
+}
+
 async function main(): Promise<void> {
+  const levels = option('concurrent');
+  if (levels !== undefined) return concurrent(levels.split(',').map(Number));
   const db = await database();
   const { url, seeding } = db;
   try {
