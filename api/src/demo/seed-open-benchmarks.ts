@@ -18,7 +18,7 @@ const DESCRIPTION = 'The synthetic maps of the open MAPF grid benchmark set (emp
   + 'maps) with their "even" scenario files and one "random" scenario file, unchanged. An instance with k agents uses '
   + 'the first k rows of a scenario.';
 
-const SOURCE = 'Source: the open MAPF grid benchmark set, files unchanged (SHA-256 list in the repository, '
+const SOURCE = 'The open MAPF grid benchmark set, files unchanged (SHA-256 list in the repository, '
   + 'benchmarks/datasets/grid-benchmarks/SHA256SUMS). Cite: N. Sturtevant, "Benchmarks for Grid-Based Pathfinding", '
   + 'IEEE Transactions on Computational Intelligence and AI in Games 4(2):144–148, 2012 (map and scenario formats); '
   + 'R. Stern et al., "Multi-Agent Pathfinding: Definitions, Variants, and Benchmarks", SoCS 2019 (maps and scenario families).';
