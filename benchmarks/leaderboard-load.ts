@@ -8,7 +8,7 @@
  * fixed number of requests or seconds, whichever comes first. The clients share the server's
  * process, so their own work (fetch, JSON parsing) counts in the figures too.
  */
-import { loadavg } from 'node:os';
+import { cpus, loadavg } from 'node:os';
 import { performance } from 'node:perf_hooks';
 import pino from 'pino';
 import { Client } from 'pg';
@@ -41,6 +41,13 @@ export interface LoadLevel {
   readonly requestsPerS: number;
   readonly seconds: number;
   readonly loadAverage1m: readonly [number, number];
+  /** CPU time per request of this process (server and clients), and of the whole machine (with PostgreSQL and other work). */
+  readonly cpuMsPerRequest: { readonly process: number; readonly machine: number };
+}
+
+/** Busy (non-idle) CPU milliseconds of all cores since boot. */
+function machineBusyMs(): number {
+  return cpus().reduce((sum, c) => sum + c.times.user + c.times.nice + c.times.sys + c.times.irq, 0);
 }
 
 type Kind = 'visitor' | 'researcher' | 'maintainer';
@@ -79,13 +86,18 @@ export async function runLoad(url: string, options: LoadOptions): Promise<LoadLe
     const levels: LoadLevel[] = [];
     for (const level of options.levels) {
       const active = clients.slice(0, level);
-      // Warm-up: one request per client (connections, JIT), not timed.
-      await Promise.all(active.map(async ({ client }) => (await client.request(FIRST_PAGE)).arrayBuffer()));
+      // Warm-up, not timed: connections and JIT (the first few hundred requests are slower).
+      let warm = Math.min(options.requests, 300);
+      await Promise.all(active.map(async ({ client }) => {
+        while (warm-- > 0) await (await client.request(FIRST_PAGE)).arrayBuffer();
+      }));
       const times: number[] = [];
       const byKind: Record<Kind, number[]> = { visitor: [], researcher: [], maintainer: [] };
       let issued = 0;
       let failed = 0;
       const loadBefore = loadavg()[0];
+      const cpuBefore = process.cpuUsage();
+      const busyBefore = machineBusyMs();
       const started = performance.now();
       const deadline = started + options.maxSeconds * 1000;
       await Promise.all(active.map(async ({ kind, client }) => {
@@ -101,6 +113,8 @@ export async function runLoad(url: string, options: LoadOptions): Promise<LoadLe
         }
       }));
       const seconds = (performance.now() - started) / 1000;
+      const cpu = process.cpuUsage(cpuBefore);
+      const busyMs = machineBusyMs() - busyBefore;
       times.sort((a, b) => a - b);
       for (const k of KINDS) byKind[k].sort((a, b) => a - b);
       const row: LoadLevel = {
@@ -109,10 +123,12 @@ export async function runLoad(url: string, options: LoadOptions): Promise<LoadLe
         p95ByViewer: Object.fromEntries(KINDS.map((k) => [k, ms(quantile(byKind[k], 0.95))])),
         requestsPerS: +(times.length / seconds).toFixed(0), seconds: +seconds.toFixed(1),
         loadAverage1m: [+loadBefore.toFixed(1), +loadavg()[0].toFixed(1)],
+        cpuMsPerRequest: { process: +((cpu.user + cpu.system) / 1000 / times.length).toFixed(2), machine: +(busyMs / times.length).toFixed(2) },
       };
       levels.push(row);
       console.log(`${level} clients: ${row.requests} requests (${failed} failed) in ${row.seconds} s, ${row.requestsPerS}/s; `
-        + `p50 ${row.p50} ms, p95 ${row.p95} ms, max ${row.max} ms; p95 by viewer ${JSON.stringify(row.p95ByViewer)}; load ${row.loadAverage1m.join(' → ')}`);
+        + `p50 ${row.p50} ms, p95 ${row.p95} ms, max ${row.max} ms; p95 by viewer ${JSON.stringify(row.p95ByViewer)}; load ${row.loadAverage1m.join(' → ')}; `
+        + `CPU ms per request: this process ${row.cpuMsPerRequest.process}, machine ${row.cpuMsPerRequest.machine}`);
     }
     return levels;
   } finally {
