@@ -60,18 +60,20 @@ export class MapCanvas {
     const destroyRef = inject(DestroyRef);
     afterNextRender(() => {
       const canvas = this.canvasRef().nativeElement;
+      // The frame is sized by the layout (map-canvas.scss); the buffer follows the canvas's
+      // content box, which fills the frame, once per layout change.
       const resize = () => {
-        const box = canvas.getBoundingClientRect();
+        const [width, height] = [canvas.clientWidth, canvas.clientHeight];
         const dpr = window.devicePixelRatio || 1;
-        canvas.width = Math.max(1, Math.round(box.width * dpr));
-        canvas.height = Math.max(1, Math.round(box.height * dpr));
+        canvas.width = Math.max(1, Math.round(width * dpr));
+        canvas.height = Math.max(1, Math.round(height * dpr));
         const isFirst = this.viewSize()[0] === 0;
-        this.viewSize.set([box.width, box.height]);
+        this.viewSize.set([width, height]);
         if (isFirst) this.view.set(this.fitted());
         this.scheduleDraw();
       };
       const observer = new ResizeObserver(resize);
-      observer.observe(canvas);
+      observer.observe(canvas.parentElement ?? canvas);
       resize();
       destroyRef.onDestroy(() => {
         observer.disconnect();
@@ -157,8 +159,10 @@ export class MapCanvas {
   }
 
   private localPoint(event: MouseEvent): readonly [number, number] {
-    const box = this.canvasRef().nativeElement.getBoundingClientRect();
-    return [event.clientX - box.left, event.clientY - box.top];
+    // Relative to the content box (the view's coordinates), inside the canvas's border.
+    const canvas = this.canvasRef().nativeElement;
+    const box = canvas.getBoundingClientRect();
+    return [event.clientX - box.left - canvas.clientLeft, event.clientY - box.top - canvas.clientTop];
   }
 
   private paintBitmap(rows: readonly string[], width: number, height: number): HTMLCanvasElement | null {
