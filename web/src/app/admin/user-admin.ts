@@ -16,8 +16,8 @@ type AssignableRole = ChangeRoleRequest['role'];
 
 /** Roles an admin can hand out, least privileged first, with what each may do. */
 const ROLE_CHOICES: readonly { readonly role: AssignableRole; readonly hint: string }[] = [
-  { role: 'researcher', hint: 'uploads instance sets, runs sweeps' },
-  { role: 'maintainer', hint: 'also curates shared sets and leaderboards' },
+  { role: 'researcher', hint: 'uploads instance sets, submits plans' },
+  { role: 'maintainer', hint: 'also launches sweeps, curates shared sets and leaderboards' },
   { role: 'admin', hint: 'also manages accounts' },
 ];
 
