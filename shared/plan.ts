@@ -12,6 +12,18 @@ export type CellXY = readonly [x: number, y: number];
 export const PLAN_MODELS = ['classic', 'uniform-duration', 'orientation-split', 'weighted-split', 'k-robust'] as const;
 export type PlanModel = (typeof PLAN_MODELS)[number];
 
+/**
+ * Whether an agent may enter, at step t + 1, a cell another agent occupies at step t (unit-step
+ * models: classic, uniform-duration, orientation-split). `forbidden` rules out the "following
+ * conflict" of Stern et al., "Multi-Agent Pathfinding: Definitions, Variants, and Benchmarks",
+ * SoCS 2019; `allowed` is the classic rule. Default `allowed`.
+ */
+export const FOLLOWING_RULES = ['allowed', 'forbidden'] as const;
+export type FollowingRule = (typeof FOLLOWING_RULES)[number];
+
+/** The plan models that take a following rule (k-robust with k ≥ 1 implies it; weighted-split has continuous times). */
+export const FOLLOWING_MODELS = ['classic', 'uniform-duration', 'orientation-split'] as const satisfies readonly PlanModel[];
+
 /** Compass heading of a robot; N is towards row 0 (up), E towards larger x. */
 export const HEADINGS = ['N', 'E', 'S', 'W'] as const;
 export type Heading = (typeof HEADINGS)[number];
