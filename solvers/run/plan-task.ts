@@ -78,4 +78,9 @@ export interface PlanTaskResult {
   readonly turns: number | null;
   readonly plan: TaskPlan | null;
   readonly executions: readonly TaskExecutionSummary[];
+  /**
+   * The plan replayed open-loop with zero noise under its own profile (solvers/run/nominal-check.ts):
+   * whether it is collision-free and how many collisions it has. Absent unless solved.
+   */
+  readonly atNominal?: { readonly isCollisionFree: boolean; readonly collisions: number };
 }

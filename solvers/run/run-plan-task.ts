@@ -9,6 +9,7 @@ import type { MapfInstance } from '../instance';
 import type { RunLimits } from './limits';
 import type { PlanTask, PlanTaskResult } from './plan-task';
 import { runCbsModelTask } from './cbs-model-task';
+import { checkAtNominal, executablePlanOf } from './nominal-check';
 import { fromTaskInstance } from './task-instance';
 import { runUnitStepTask } from './unit-step-task';
 import { runWeightedSplitTask } from './weighted-split-task';
@@ -42,8 +43,23 @@ export function runPlanTask(task: PlanTask, limits: RunLimits = {}): PlanTaskRes
   const runner = RUNNERS[task.model.model];
   if (!runner) return bareResult('error', `plan model ${task.model.model} has no solver in this build yet`);
   try {
-    return runner(task, fromTaskInstance(task.instance), limits);
+    const instance = fromTaskInstance(task.instance);
+    return withNominalCheck(task, instance, runner(task, instance, limits));
   } catch (err) {
     return bareResult('error', err instanceof Error ? err.message : String(err));
+  }
+}
+
+/**
+ * Adds the executable-at-nominal check to a solved result (issue 12, item 4); a check the
+ * simulator refuses leaves the flag unset rather than failing the solve.
+ */
+function withNominalCheck(task: PlanTask, instance: MapfInstance, result: PlanTaskResult): PlanTaskResult {
+  if (result.status !== 'solved' || result.plan === null) return result;
+  try {
+    const plan = executablePlanOf(task.model.model, result.plan, instance, task.profile, task.model.startHeading);
+    return { ...result, atNominal: checkAtNominal(instance, plan, task.profile) };
+  } catch {
+    return result;
   }
 }
