@@ -5,6 +5,7 @@ import { executionsRouter } from './executions.router';
 import { createExecutionsService } from './executions.service';
 import type { ExecutionTaskRunner } from './execution-task';
 import { definePlanExecution } from './plan-execution.model';
+import { loadStoredExecutions } from './stored-executions';
 
 /**
  * The /api/executions router for `ctx`. The model is bound here rather than in db/models.ts so
@@ -13,5 +14,6 @@ import { definePlanExecution } from './plan-execution.model';
  */
 export function executionsFeature(ctx: AppContext, runTask: ExecutionTaskRunner = (task, requester, signal) => ctx.interactive.execute(task, requester, signal)): Router {
   const PlanExecution = definePlanExecution(ctx.sequelize);
-  return executionsRouter(createExecutionsService({ models: ctx.models, PlanExecution, runTask, build: () => ctx.interactive.build }));
+  const svc = createExecutionsService({ models: ctx.models, PlanExecution, runTask, build: () => ctx.interactive.build });
+  return executionsRouter(svc, (viewer, resultId) => loadStoredExecutions(ctx.models, viewer, resultId));
 }

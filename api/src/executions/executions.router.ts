@@ -1,15 +1,31 @@
-/** Routes under /api/executions: simulate a plan on the robot fleet (POST) and read one back (GET). */
+/**
+ * Routes under /api/executions: simulate a plan on the robot fleet (POST), read one back (GET),
+ * and the replays a sweep stored with a result, with their settings (GET /stored/:resultId).
+ */
 import { Router } from 'express';
 import { z } from 'zod';
 import { requireRole, requireUser } from '../auth/require-role';
 import { validate } from '../errors/validate';
+import type { StoredResultExecutionsView } from '@shared/stored-executions';
+import type { Viewer } from '../instance-sets/instance-set-access';
 import type { ExecutionsService } from './executions.service';
 
 const IdParam = z.object({ id: z.coerce.number().int().positive().max(2_147_483_647) });
+const ResultIdParam = z.object({ resultId: z.coerce.number().int().positive().max(2_147_483_647) });
 
-/** The executions routes over the service; researchers and above only. */
-export function executionsRouter(svc: ExecutionsService): Router {
+/** Reads the stored replays of a result for a viewer (null: a visitor). */
+export type StoredExecutionsReader = (viewer: Viewer, resultId: number) => Promise<StoredResultExecutionsView>;
+
+/**
+ * The executions routes over the service: the stored replays of a result for whoever may see the
+ * result (visitors too, like the leaderboard that shows them); everything else researchers and above.
+ */
+export function executionsRouter(svc: ExecutionsService, stored: StoredExecutionsReader): Router {
   const r = Router();
+  r.get('/stored/:resultId', async (req, res) => {
+    const { resultId } = validate(ResultIdParam, req.params);
+    res.json(await stored(req.user ?? null, resultId));
+  });
   r.use(requireRole('researcher'));
 
   r.post('/', async (req, res) => {
