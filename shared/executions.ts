@@ -5,10 +5,11 @@
  * Web code imports only types from here (the schemas would pull zod into the bundle); zod-free
  * constants live in shared/executions-constants.ts.
  */
+import type { Interval95 } from './confidence-interval';
 import type { SolverBuild } from './runs';
 import { z } from 'zod';
 import { COLLISION_MODES, EXECUTION_LIMITS, EXECUTION_POLICY_NAMES, type CollisionModeName, type ExecutionPolicyName } from './executions-constants';
-import { ACTION_KINDS, HEADINGS, PLAN_MODELS, type CellXY, type Heading, type PlanModel, type RobotProfile, type Schedule } from './plan';
+import { ACTION_KINDS, FOLLOWING_RULES, HEADINGS, PLAN_MODELS, type CellXY, type Heading, type PlanModel, type RobotProfile, type Schedule } from './plan';
 import { RobotProfileSchema } from './sweeps';
 
 const whole = (min: number, max: number) => z.number().int().min(min).max(max);
@@ -34,10 +35,15 @@ const simulationFields = {
 /** Robot profile (ms, mm): the sweeps' schema, so an execution takes exactly the profiles a sweep takes. */
 export const ExecutionProfileSchema = RobotProfileSchema;
 
-/** Model parameters: the start heading rule (default free) and k for k-robust. */
+/**
+ * Model parameters: the start heading rule (default free), k for k-robust, and the following
+ * rule of classic, uniform-duration and orientation-split (absent = allowed; shared/plan.ts
+ * FOLLOWING_RULES; the solver refuses it for the other models).
+ */
 export const ModelOptionsSchema = z.object({
   startHeading: z.enum([...HEADINGS, 'free']).default('free'),
   k: whole(0, 20).optional(),
+  following: z.enum(FOLLOWING_RULES).optional(),
 }).strict();
 
 /** Which instance: a stored scenario's first `agents` rows, or a stored map with tasks given here. */
@@ -164,14 +170,26 @@ export interface RunMetricsView {
   readonly collisions: readonly CollisionView[];
   readonly realisedMakespanMs: number | null;
   readonly realisedSocMs: number | null;
+  /** Idle time waiting on barriers, planned starts or dependencies, SUMMED over robots ("total over robots"). */
   readonly waitingMs: number;
+  /** Mean over robots of the time each robot waited. */
+  readonly waitingMeanPerRobotMs: number;
+  /** The longest any one robot waited. */
+  readonly waitingMaxPerRobotMs: number;
   readonly finishSpreadMs: number | null;
 }
 
-/** Mean and nearest-rank p95 of a metric over the runs where it is defined. */
+/**
+ * Mean and nearest-rank p95 of a metric over the runs where it is defined (`count` of them), with
+ * 95 % intervals: Student t for the mean (null below 2 runs), order statistics for the p95 (null
+ * below 72 runs); methods in shared/confidence-interval.ts CI95_METHOD.
+ */
 export interface MetricStatsView {
   readonly mean: number | null;
   readonly p95: number | null;
+  readonly count: number;
+  readonly meanCi95: Interval95 | null;
+  readonly p95Ci95: Interval95 | null;
 }
 
 /** The Monte Carlo summary of one request. */
@@ -182,12 +200,24 @@ export interface ExecutionSummaryView {
   readonly seed: number;
   readonly runs: number;
   readonly isAborted: boolean;
+  /** Execution success rate: fraction of runs with no collision and no deadlock, every robot at its goal. */
   readonly successRate: number;
+  /** Wilson score 95 % interval of the success rate. */
+  readonly successRateCi95: Interval95;
+  /** 95 % intervals of the success rate and of the MEANS of realised makespan and finish spread. */
+  readonly ci95: {
+    readonly successRate: Interval95;
+    readonly realisedMakespanMs: Interval95 | null;
+    readonly finishSpreadMs: Interval95 | null;
+  };
   readonly collisions: { readonly mean: number; readonly p95: number; readonly total: number };
   readonly realisedMakespanMs: MetricStatsView;
   readonly realisedSocMs: MetricStatsView;
   readonly finishSpreadMs: MetricStatsView;
+  /** Per run the waiting SUMMED over robots, then over runs: label it "total over robots". */
   readonly waitingMs: MetricStatsView;
+  /** Per run the mean / max over robots of each robot's waiting, then over runs. */
+  readonly waitingPerRobotMs: { readonly mean: MetricStatsView; readonly max: MetricStatsView };
   readonly firstCollision: (CollisionView & { readonly run: number }) | null;
   readonly perRun: readonly RunMetricsView[];
 }

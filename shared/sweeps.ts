@@ -5,7 +5,7 @@
  * (refusal of absurd sizes), so the two can never disagree.
  */
 import { z } from 'zod';
-import { HEADINGS, PLAN_MODELS, type PlanModel } from './plan';
+import { FOLLOWING_RULES, HEADINGS, PLAN_MODELS, type PlanModel } from './plan';
 import { singleLineText } from './text-field';
 
 /** Execution policies a sweep may replay plans under (same names as solvers/execute). */
@@ -48,11 +48,20 @@ export const CbsSwitchesSchema = z.object(
 
 const unitStepBase = { startHeading: StartHeadingSchema.default('free'), switches: CbsSwitchesSchema.default({}) };
 
+/**
+ * The following rule of classic, uniform-duration and orientation-split (shared/plan.ts
+ * FOLLOWING_RULES; Stern et al., SoCS 2019). Optional, absent = allowed (definitions stored
+ * before the rule existed lack it, so readers write `following ?? 'allowed'`); an allowed spec
+ * is hashed and stored exactly as before the rule existed (see `runParameters`).
+ */
+export const FollowingRuleSchema = z.enum(FOLLOWING_RULES);
+const followingBase = { following: FollowingRuleSchema.optional() };
+
 /** One plan model with its parameters. */
 export const ModelSpecSchema = z.discriminatedUnion('model', [
-  z.object({ model: z.literal('classic'), ...unitStepBase }).strict(),
-  z.object({ model: z.literal('uniform-duration'), ...unitStepBase }).strict(),
-  z.object({ model: z.literal('orientation-split'), ...unitStepBase }).strict(),
+  z.object({ model: z.literal('classic'), ...unitStepBase, ...followingBase }).strict(),
+  z.object({ model: z.literal('uniform-duration'), ...unitStepBase, ...followingBase }).strict(),
+  z.object({ model: z.literal('orientation-split'), ...unitStepBase, ...followingBase }).strict(),
   z.object({ model: z.literal('weighted-split'), startHeading: StartHeadingSchema.default('free') }).strict(),
   z.object({ model: z.literal('k-robust'), k: whole(0, 20), ...unitStepBase }).strict(),
 ]);
@@ -117,10 +126,19 @@ function switchesOff(m: ModelSpec): CbsSwitchName[] {
   return 'switches' in m ? CBS_SWITCH_NAMES.filter((n) => m.switches[n] === false) : [];
 }
 
+/** Whether a spec forbids following (stored definitions from before the rule lack the field: allowed). */
+export function forbidsFollowing(m: ModelSpec): boolean {
+  return 'following' in m && m.following === 'forbidden';
+}
+
 /** A model spec for people, e.g. "k-robust k=2, start heading free, switched off: bypass, wdg". */
 export function describeModelSpec(m: ModelSpec): string {
   const off = switchesOff(m);
-  return [`${m.model}${'k' in m ? ` k=${m.k}` : ''}`, `start heading ${m.startHeading}`, ...(off.length > 0 ? [`switched off: ${off.join(', ')}`] : [])].join(', ');
+  return [
+    `${m.model}${'k' in m ? ` k=${m.k}` : ''}`, `start heading ${m.startHeading}`,
+    ...(forbidsFollowing(m) ? ['following forbidden'] : []),
+    ...(off.length > 0 ? [`switched off: ${off.join(', ')}`] : []),
+  ].join(', ');
 }
 
 /**
@@ -133,7 +151,10 @@ export function repeatedModels(models: readonly ModelSpec[]): { readonly index: 
   const first = new Map<string, number>();
   const repeats: { index: number; message: string }[] = [];
   models.forEach((m, index) => {
-    const key = canonicalJson({ model: m.model, k: 'k' in m ? m.k : undefined, startHeading: m.startHeading, off: switchesOff(m) });
+    const key = canonicalJson({
+      model: m.model, k: 'k' in m ? m.k : undefined, startHeading: m.startHeading, off: switchesOff(m),
+      following: forbidsFollowing(m) ? 'forbidden' : undefined,
+    });
     const earlier = first.get(key);
     if (earlier === undefined) first.set(key, index);
     else repeats.push({ index, message: `models[${index}] repeats models[${earlier}]: ${describeModelSpec(m)}` });
@@ -237,10 +258,21 @@ export function canonicalJson(value: unknown): string {
 /**
  * The parameters that make two runs of one instance, model and seed the same run: the model's
  * parameters, the robot profile and the limits. Hashed (see api/src/sweeps/parameter-hash.ts)
- * into the run's identity.
+ * into the run's identity and stored as the result's params (the leaderboard variant reads
+ * them). `following: 'allowed'` (the default) is left out, so runs and results of the classic
+ * rule keep the params and hash they had before the following rule existed; only
+ * `following: 'forbidden'` appears (params.model.following).
  */
 export function runParameters(def: SweepDefinition, modelIndex: number): Record<string, unknown> {
-  return { model: def.models[modelIndex], robotProfile: def.robotProfile, timeLimitMs: def.timeLimitMs, memoryLimitMb: def.memoryLimitMb };
+  return { model: modelParameters(def.models[modelIndex]), robotProfile: def.robotProfile, timeLimitMs: def.timeLimitMs, memoryLimitMb: def.memoryLimitMb };
+}
+
+/** A model spec as stored in run params: without `following` when it is the default (allowed). */
+export function modelParameters(m: ModelSpec): Readonly<Record<string, unknown>> {
+  if (!('following' in m) || m.following === 'forbidden') return m;
+  const rest: Record<string, unknown> = { ...m };
+  delete rest.following;
+  return rest;
 }
 
 /** Whether a model name is one of PLAN_MODELS. */
