@@ -65,6 +65,15 @@ export interface ExecutionView {
   readonly realisedMakespanMeanMs: number | null;
   readonly realisedMakespanP95Ms: number | null;
   readonly finishSpreadMeanMs: number | null;
+  /**
+   * 95 % intervals stored with the summary (executions.metrics.ci95, issue 12 contract C2); null for rows
+   * stored before them (readers recompute the success-rate interval from successRate × runs).
+   */
+  readonly ci95?: {
+    readonly successRate: readonly [number, number];
+    readonly realisedMakespanMs: readonly [number, number] | null;
+    readonly finishSpreadMs: readonly [number, number] | null;
+  } | null;
 }
 
 /** One row of a sweep's results table: the run and, when it produced one, its result. */

@@ -55,7 +55,7 @@ export async function readResultRows(sequelize: Sequelize, sweepId: number, opti
        res.lower_bound, res.runtime_ms, res.nodes, COALESCE(res.reason, r.reason) AS reason,
        (SELECT json_agg(json_build_object('policy', e.policy, 'runs', e.runs, 'successRate', e.success_rate, 'collisionsMean', e.collisions_mean,
           'realisedMakespanMeanMs', e.realised_makespan_mean_ms, 'realisedMakespanP95Ms', e.realised_makespan_p95_ms,
-          'finishSpreadMeanMs', e.finish_spread_mean_ms) ORDER BY e.policy) FROM executions e WHERE e.result_id = res.id) AS executions
+          'finishSpreadMeanMs', e.finish_spread_mean_ms, 'ci95', e.metrics->'ci95') ORDER BY e.policy) FROM executions e WHERE e.result_id = res.id) AS executions
      FROM runs r
      JOIN scenarios sc ON sc.id = r.scenario_id
      JOIN maps m ON m.id = r.map_id

@@ -16,8 +16,12 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { RouterLink } from '@angular/router';
 import { auditTime, catchError, EMPTY, map, merge, of, Subject, switchMap } from 'rxjs';
+import { CI95_METHOD } from '@shared/confidence-interval';
+import { SAFETY_NOTE } from '@shared/executions-constants';
+import { profileLabel } from '@shared/leaderboards';
 import { isSweepOver, RUN_STATUSES, type SweepDetail, type SweepProgress, type SweepResultRow } from '@shared/runs';
 import { SweepApi } from './sweep-api';
+import { followingWarningFor } from './sweep-editor-advice';
 import { SWEEP_GRID_THEME, sweepGridColumns } from './sweep-grid-columns';
 import { formatDuration, RUN_STATUS_LABEL, SWEEP_STATUS_LABEL } from './sweep-status';
 
@@ -46,7 +50,19 @@ export default class SweepDetailPage {
   private readonly rowsById = signal<ReadonlyMap<number, SweepResultRow>>(new Map());
   /** Rows of runs that are over, newest run last. */
   protected readonly rows = computed(() => [...this.rowsById().values()].filter((r) => r.status !== 'pending' && r.status !== 'running'));
-  protected readonly columns = computed(() => sweepGridColumns(this.sweep()?.definition.execution.policies ?? []));
+  protected readonly columns = computed(() => sweepGridColumns(this.sweep()?.definition.execution.policies ?? [], this.sweep()?.definition.models ?? []));
+  protected readonly safetyNote = SAFETY_NOTE;
+  /** The sweep's robot profile, for people. */
+  protected readonly profile = computed(() => {
+    const p = this.sweep()?.definition.robotProfile;
+    return p ? profileLabel(p) : null;
+  });
+  /** The following hazard of the sweep's profile for its models (as the editor warned at launch). */
+  protected readonly followingWarning = computed(() => {
+    const d = this.sweep()?.definition;
+    return d?.robotProfile ? followingWarningFor(d.robotProfile, d.models ?? []) : null;
+  });
+  protected readonly rateMethod = CI95_METHOD.rate;
   protected readonly percent = computed(() => {
     const p = this.progress();
     return p && p.total > 0 ? (100 * p.done) / p.total : 0;

@@ -1,7 +1,9 @@
 /**
  * The page at /sweeps/new: a typed reactive form for a sweep definition, with a live count of
  * the runs it expands to (computed by the same shared `sweepSize` the server uses to refuse
- * absurd sizes), then launch and go to the sweep's live page.
+ * absurd sizes), then launch and go to the sweep's live page. Beside the fields it says what they
+ * imply: the following hazard of the robot profile, the precision the Monte Carlo run count gives,
+ * and which models use the wait time (sweep-editor-advice.ts).
  */
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
 import { takeUntilDestroyed, toSignal } from '@angular/core/rxjs-interop';
@@ -18,7 +20,8 @@ import type { InstanceSetDetail } from '@shared/instance-sets';
 import { checkSweepSize, sweepSize } from '@shared/sweeps';
 import { InstanceSetApi } from '../instance-sets/instance-set-api';
 import { SweepApi } from './sweep-api';
-import { definitionFromForm, FORM_MODELS, FORM_POLICIES, FORM_SWITCHES, SWEEP_FORM_DEFAULTS, type SweepFormValue } from './sweep-form-rules';
+import { currentPrecisionText, FOLLOWING_EXPLANATION, followingWarning, HALF_WIDTH_CHOICES, percentText, runsNeededText, WAIT_RULE } from './sweep-editor-advice';
+import { definitionFromForm, FORM_MODELS, FORM_POLICIES, FORM_SWITCHES, SWEEP_FORM_DEFAULTS, takesFollowingRule, type SweepFormValue } from './sweep-form-rules';
 
 /** The sweep form. */
 @Component({
@@ -57,6 +60,18 @@ export default class SweepEditor {
     const size = sweepSize(b.definition, set.scenarios.map((s) => ({ id: s.id, maxAgents: s.maxAgents })));
     return { ...size, refusal: checkSweepSize(size) };
   });
+  protected readonly followingExplanation = FOLLOWING_EXPLANATION;
+  protected readonly waitRule = WAIT_RULE;
+  protected readonly halfWidthChoices = HALF_WIDTH_CHOICES.map((h) => ({ value: h, label: percentText(h) }));
+  /** Whether a chosen model takes the following rule (else the choice is hidden). */
+  protected readonly takesFollowing = computed(() => this.value().models.some(takesFollowingRule));
+  /** The profile's following hazard, when a chosen model's plans may follow. */
+  protected readonly followingWarning = computed(() => followingWarning(this.value()));
+  /** What the current Monte Carlo run count gives. */
+  protected readonly precision = computed(() => currentPrecisionText(this.value().monteCarloRuns));
+  /** The interval half-width the user wants runs for. */
+  protected readonly wantedHalfWidth = signal<number>(0.05);
+  protected readonly runsNeeded = computed(() => runsNeededText(this.wantedHalfWidth()));
   /** Whether a launch request is on its way. */
   protected readonly isLaunching = signal(false);
   /** Whether the form may be launched. */
@@ -65,6 +80,12 @@ export default class SweepEditor {
   constructor() {
     // A new set means new scenarios: the previous choice no longer applies.
     this.form.controls.instanceSetId.valueChanges.pipe(takeUntilDestroyed()).subscribe(() => this.form.controls.scenarioIds.setValue([]));
+  }
+
+  /** Sets the Monte Carlo runs to what the wanted interval width needs. */
+  protected useRunsNeeded(): void {
+    const needed = this.runsNeeded();
+    if (needed.isAllowed) this.form.controls.monteCarloRuns.setValue(needed.runs);
   }
 
   /** Sends the definition and opens the sweep's page. */

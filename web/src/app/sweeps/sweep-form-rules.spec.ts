@@ -15,8 +15,24 @@ describe('sweep form rules', () => {
   it('turns ablation checkboxes into switches set to false on unit-step models only', () => {
     const out = definitionFromForm({ ...SWEEP_FORM_DEFAULTS, name: 'x', instanceSetId: 1, models: ['classic', 'weighted-split'], switchesOff: ['wdg'] });
     expect('definition' in out && out.definition.models).toEqual([
-      { model: 'classic', startHeading: 'free', switches: { wdg: false } },
+      { model: 'classic', startHeading: 'free', switches: { wdg: false }, following: 'allowed' },
       { model: 'weighted-split', startHeading: 'free' },
+    ]);
+  });
+
+  it('gives the following rule to classic, uniform-duration and orientation-split only', () => {
+    const out = definitionFromForm({ ...SWEEP_FORM_DEFAULTS, name: 'x', instanceSetId: 1, models: ['orientation-split', 'k-robust', 'weighted-split'], following: 'forbidden' });
+    expect('definition' in out && out.definition.models).toEqual([
+      { model: 'orientation-split', startHeading: 'free', switches: {}, following: 'forbidden' },
+      { model: 'k-robust', k: 1, startHeading: 'free', switches: {} },
+      { model: 'weighted-split', startHeading: 'free' },
+    ]);
+  });
+
+  it('asks for each following model once per rule when both are chosen, and the schema accepts them as different specs', () => {
+    const out = definitionFromForm({ ...SWEEP_FORM_DEFAULTS, name: 'x', instanceSetId: 1, models: ['classic', 'uniform-duration'], following: 'both' });
+    expect('definition' in out && out.definition.models.map((m) => [m.model, 'following' in m ? m.following : null])).toEqual([
+      ['classic', 'allowed'], ['classic', 'forbidden'], ['uniform-duration', 'allowed'], ['uniform-duration', 'forbidden'],
     ]);
   });
 

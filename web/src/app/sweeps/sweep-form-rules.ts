@@ -2,8 +2,10 @@
  * Rules of the sweep form, outside the component: the defaults, and the conversion of the form's
  * values into a SweepDefinitionInput (with the same zod schema the server applies).
  */
-import { PLAN_MODELS, type PlanModel } from '@shared/plan';
+import { FOLLOWING_MODELS, FOLLOWING_RULES, PLAN_MODELS, type FollowingRule, type PlanModel } from '@shared/plan';
 import { CBS_SWITCH_NAMES, SWEEP_POLICIES, SweepDefinitionSchema, type CbsSwitchName, type SweepDefinition, type SweepDefinitionInput, type SweepPolicy } from '@shared/sweeps';
+
+type ModelSpecInput = SweepDefinitionInput['models'][number];
 
 /** The values of the form, flat, as the controls hold them. */
 export interface SweepFormValue {
@@ -18,6 +20,11 @@ export interface SweepFormValue {
   models: PlanModel[];
   k: number;
   startHeading: 'N' | 'E' | 'S' | 'W' | 'free';
+  /**
+   * Following rule of classic, uniform-duration and orientation-split (k-robust and weighted-split take
+   * none); `both` asks for each of those models twice, once per rule, to compare them.
+   */
+  following: FollowingRule | 'both';
   switchesOff: CbsSwitchName[];
   forwardMs: number;
   quarterTurnMs: number;
@@ -37,7 +44,7 @@ export interface SweepFormValue {
 /** A first sweep that finishes in seconds on a laptop. */
 export const SWEEP_FORM_DEFAULTS: SweepFormValue = {
   name: '', instanceSetId: null, scenarioIds: [], countMode: 'list', countList: '2, 4, 6', countFrom: 2, countTo: 10, countStep: 2,
-  models: ['classic', 'weighted-split'], k: 1, startHeading: 'free', switchesOff: [],
+  models: ['classic', 'weighted-split'], k: 1, startHeading: 'free', following: 'allowed', switchesOff: [],
   forwardMs: 1000, quarterTurnMs: 600, waitMs: 1000, cellPitchMm: 500, robotDiameterMm: 350, timingJitter: 0.1,
   timeLimitS: 30, memoryLimitMb: 512, policies: ['open-loop', 'dependency-gated'], stallProbability: 0, stallMs: 0, monteCarloRuns: 20, seeds: '1',
 };
@@ -54,6 +61,16 @@ export function parseIntegers(text: string): number[] {
   return text.split(/[\s,;]+/).filter((t) => t !== '').map((t) => (/^\d+$/.test(t) ? Number(t) : NaN));
 }
 
+/** Whether a plan model takes the following rule. */
+export function takesFollowingRule(model: PlanModel): boolean {
+  return (FOLLOWING_MODELS as readonly PlanModel[]).includes(model);
+}
+
+/** The following rules the form asks for, in FOLLOWING_RULES order. */
+export function followingRulesOf(v: Pick<SweepFormValue, 'following'>): FollowingRule[] {
+  return v.following === 'both' ? [...FOLLOWING_RULES] : [v.following];
+}
+
 /** The definition the form describes, or the first problem with it as a sentence. */
 export function definitionFromForm(v: SweepFormValue): { readonly definition: SweepDefinition; readonly input: SweepDefinitionInput } | { readonly problem: string } {
   if (v.instanceSetId === null) return { problem: 'Choose an instance set.' };
@@ -62,7 +79,9 @@ export function definitionFromForm(v: SweepFormValue): { readonly definition: Sw
     name: v.name,
     instances: { instanceSetId: v.instanceSetId, ...(v.scenarioIds.length ? { scenarioIds: v.scenarioIds } : {}) },
     agentCounts: v.countMode === 'list' ? { kind: 'list', values: parseIntegers(v.countList) } : { kind: 'range', from: v.countFrom, to: v.countTo, step: v.countStep },
-    models: v.models.map((model) => (model === 'weighted-split' ? { model, startHeading: v.startHeading } : model === 'k-robust' ? { model, k: v.k, ...unitStep } : { model, ...unitStep })),
+    models: v.models.flatMap((model): ModelSpecInput[] => (model === 'weighted-split' ? [{ model, startHeading: v.startHeading }]
+      : model === 'k-robust' ? [{ model, k: v.k, ...unitStep }]
+      : followingRulesOf(v).map((following) => ({ model, ...unitStep, following })))),
     robotProfile: { forwardMs: v.forwardMs, quarterTurnMs: v.quarterTurnMs, waitMs: v.waitMs, cellPitchMm: v.cellPitchMm, robotDiameterMm: v.robotDiameterMm, timingJitter: v.timingJitter },
     timeLimitMs: Math.round(v.timeLimitS * 1000),
     memoryLimitMb: v.memoryLimitMb,

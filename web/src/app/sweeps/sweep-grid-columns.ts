@@ -1,38 +1,80 @@
-/** Columns and theme of the live results grid of a sweep. */
+/**
+ * Columns and theme of the live results grid of a sweep. Every number column carries its unit in the
+ * header; steps and ms never share a column (unit-step models count steps, weighted-split plans are in
+ * ms, so the step columns stay empty for weighted-split and its own lower bound has an ms column).
+ * Execution figures say "execution success" (collision-free runs), never plain "success", and carry
+ * their 95 % interval where the stored data gives one (sweep-grid-figures.ts).
+ */
 import { themeQuartz, type ColDef, type ValueFormatterParams } from 'ag-grid-community';
-import type { SweepResultRow } from '@shared/runs';
+import { CI95_METHOD } from '@shared/confidence-interval';
+import type { ExecutionView, SweepResultRow } from '@shared/runs';
+import { forbidsFollowing, type ModelSpec } from '@shared/sweeps';
+import { formatMs, formatRateWithInterval, realisedMakespanInterval, successRateInterval } from './sweep-grid-figures';
 import { RUN_STATUS_LABEL } from './sweep-status';
 
 const num = (digits = 0) => (p: ValueFormatterParams<SweepResultRow, number | null>) =>
   p.value === null || p.value === undefined ? '' : p.value.toLocaleString('en', { maximumFractionDigits: digits });
-const policyValue = (policy: string, pick: (e: SweepResultRow['executions'][number]) => number | null) =>
-  (p: { data?: SweepResultRow }) => {
-    const e = p.data?.executions.find((x) => x.policy === policy);
-    return e ? pick(e) : null;
-  };
+const executionOf = (row: SweepResultRow | undefined, policy: string): ExecutionView | null =>
+  row?.executions.find((x) => x.policy === policy) ?? null;
+const isUnitStep = (row: SweepResultRow | undefined) => row !== undefined && row.model !== 'weighted-split';
+/** A figure in the model's own unit, shown only in the column of that unit. */
+const inSteps = (pick: (r: SweepResultRow) => number | null) => (p: { data?: SweepResultRow }) => (p.data && isUnitStep(p.data) ? pick(p.data) : null);
+const inMs = (pick: (r: SweepResultRow) => number | null) => (p: { data?: SweepResultRow }) => (p.data && !isUnitStep(p.data) ? pick(p.data) : null);
 
-/** The grid's columns; one success-rate and realised-makespan pair per replayed policy. */
-export function sweepGridColumns(policies: readonly string[]): ColDef<SweepResultRow>[] {
+/** "classic, following forbidden" / "k-robust k=2": the plan model with the parameters that make it a variant. */
+export function modelVariantLabel(spec: ModelSpec | undefined, fallback: string): string {
+  if (!spec) return fallback;
+  const parts: string[] = [spec.model + ('k' in spec ? ` k=${spec.k}` : '')];
+  if (forbidsFollowing(spec)) parts.push('following forbidden');
+  return parts.join(', ');
+}
+
+/**
+ * The grid's columns; one execution-success and one realised-makespan column per replayed policy.
+ * `models` are the sweep definition's model specs (row.modelIndex points into them).
+ */
+export function sweepGridColumns(policies: readonly string[], models: readonly ModelSpec[] = []): ColDef<SweepResultRow>[] {
   return [
     { field: 'runId', headerName: 'Run', width: 80, type: 'rightAligned' },
     { field: 'mapName', headerName: 'Map', width: 150 },
     { field: 'scenarioName', headerName: 'Scenario', width: 190 },
     { field: 'agents', headerName: 'Agents', width: 90, type: 'rightAligned' },
-    { field: 'model', headerName: 'Plan model', width: 150 },
+    { colId: 'model', headerName: 'Plan model', width: 190,
+      valueGetter: (p) => (p.data ? modelVariantLabel(models[p.data.modelIndex], p.data.model) : '') },
     { field: 'seed', headerName: 'Seed', width: 80, type: 'rightAligned' },
-    { field: 'status', headerName: 'Status', width: 120, valueFormatter: (p) => (p.value ? RUN_STATUS_LABEL[p.value as SweepResultRow['status']] : '') },
+    { field: 'status', headerName: 'Status', width: 120, valueFormatter: (p) => (p.value ? RUN_STATUS_LABEL[p.value as SweepResultRow['status']] : ''),
+      headerTooltip: '"Solved" means the solver found a plan within the limits; it says nothing about execution.' },
     { colId: 'replay', headerName: 'Plan', width: 100, sortable: false, cellRenderer: replayLink },
-    { field: 'soc', headerName: 'Sum-of-costs', width: 130, type: 'rightAligned', valueFormatter: num(), headerTooltip: 'Steps for unit-step models, ms for weighted-split' },
-    { field: 'makespan', headerName: 'Makespan', width: 110, type: 'rightAligned', valueFormatter: num() },
-    { field: 'turnInclusiveSocMs', headerName: 'Turn-incl. SOC (ms)', width: 160, type: 'rightAligned', valueFormatter: num() },
+    { colId: 'socSteps', headerName: 'Sum-of-costs (steps)', width: 170, type: 'rightAligned', valueGetter: inSteps((r) => r.soc), valueFormatter: num(),
+      headerTooltip: 'Unit-step plan models only; weighted-split plans are in ms (see the turn-inclusive columns)' },
+    { colId: 'makespanSteps', headerName: 'Makespan (steps)', width: 150, type: 'rightAligned', valueGetter: inSteps((r) => r.makespan), valueFormatter: num(),
+      headerTooltip: 'Unit-step plan models only' },
+    { colId: 'lowerBoundSteps', headerName: 'Lower bound (steps)', width: 165, type: 'rightAligned', valueGetter: inSteps((r) => r.lowerBound), valueFormatter: num(),
+      headerTooltip: 'Proven lower bound on the optimal sum-of-costs, unit-step plan models' },
+    { field: 'turnInclusiveSocMs', headerName: 'Turn-incl. SOC (ms)', width: 160, type: 'rightAligned', valueFormatter: num(),
+      headerTooltip: 'Sum-of-costs with turns at the profile\'s quarter-turn time; for weighted-split its own cost' },
     { field: 'turnInclusiveMakespanMs', headerName: 'Turn-incl. makespan (ms)', width: 190, type: 'rightAligned', valueFormatter: num() },
-    { field: 'lowerBound', headerName: 'Lower bound', width: 120, type: 'rightAligned', valueFormatter: num() },
+    { colId: 'lowerBoundMs', headerName: 'Lower bound (ms)', width: 150, type: 'rightAligned', valueGetter: inMs((r) => r.lowerBound), valueFormatter: num(),
+      headerTooltip: 'Proven lower bound on the optimal sum-of-costs in ms, weighted-split only' },
     { field: 'runtimeMs', headerName: 'Solve time (ms)', width: 140, type: 'rightAligned', valueFormatter: num(1) },
-    { field: 'nodes', headerName: 'CT nodes', width: 110, type: 'rightAligned', valueFormatter: num() },
+    { field: 'nodes', headerName: 'CT nodes (count)', width: 140, type: 'rightAligned', valueFormatter: num() },
     ...policies.flatMap((policy): ColDef<SweepResultRow>[] => [
-      { colId: `success-${policy}`, headerName: `Success rate, ${policy}`, width: 170, valueGetter: policyValue(policy, (e) => e.successRate),
-        type: 'rightAligned', valueFormatter: (p) => (p.value === null || p.value === undefined ? '' : `${Math.round(p.value * 100)} %`) },
-      { colId: `realised-${policy}`, headerName: `Realised makespan, ${policy} (ms)`, width: 230, valueGetter: policyValue(policy, (e) => e.realisedMakespanMeanMs), type: 'rightAligned', valueFormatter: num() },
+      { colId: `success-${policy}`, headerName: `Execution success rate, ${policy} (%, 95 % CI)`, width: 280, type: 'rightAligned',
+        headerTooltip: `Share of the Monte Carlo runs under ${policy} with no collision. Interval: ${CI95_METHOD.rate}.`,
+        valueGetter: (p) => executionOf(p.data, policy)?.successRate ?? null,
+        valueFormatter: (p) => {
+          const e = executionOf(p.data, policy);
+          return e ? formatRateWithInterval(e.successRate, successRateInterval(e), e.runs) : '';
+        } },
+      { colId: `realised-${policy}`, headerName: `Realised makespan, ${policy} (ms, mean, 95 % CI)`, width: 320, type: 'rightAligned',
+        headerTooltip: `Mean over the Monte Carlo runs under ${policy}. Interval: ${CI95_METHOD.mean}; none for results stored before intervals were recorded.`,
+        valueGetter: (p) => executionOf(p.data, policy)?.realisedMakespanMeanMs ?? null,
+        valueFormatter: (p) => {
+          const e = executionOf(p.data, policy);
+          if (!e || e.realisedMakespanMeanMs === null) return '';
+          const ci = realisedMakespanInterval(e);
+          return ci ? `${formatMs(e.realisedMakespanMeanMs)} (${formatMs(ci[0])}–${formatMs(ci[1])})` : formatMs(e.realisedMakespanMeanMs);
+        } },
     ]),
     { field: 'reason', headerName: 'Note', flex: 1, minWidth: 200 },
   ];
