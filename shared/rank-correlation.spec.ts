@@ -58,6 +58,17 @@ describe('spearman', () => {
     expect(large.ci95![1] - large.ci95![0]).toBeLessThan(small.ci95![1] - small.ci95![0]);
   });
 
+  it('does not claim certainty from a perfect ρ on few pairs', () => {
+    const r = spearman([1, 2, 3, 4, 5, 6], [2, 4, 8, 16, 32, 64]);
+    expect(r.rho).toBe(1);
+    // Inner end at the nearest tie-free value 1 − 12/(n(n²−1)) = 1 − 12/210, then Fisher's z.
+    expect(r.ci95![0]).toBeCloseTo(Math.tanh(Math.atanh(1 - 12 / 210) - 1.959964 * Math.sqrt(1.06 / 3)), 12);
+    expect(r.ci95![0]).toBeLessThan(0.6);
+    expect(r.ci95![1]).toBe(1);
+    const reversed = spearman([1, 2, 3, 4, 5, 6], [6, 5, 4, 3, 2, 1]);
+    expect(reversed.ci95).toEqual([-1, -r.ci95![0]]);
+  });
+
   it('refuses series of different length or non-finite values', () => {
     expect(() => spearman([1, 2], [1])).toThrow(/2 x values but 1 y values/);
     expect(() => spearman([1, NaN], [1, 2])).toThrow(/finite/);

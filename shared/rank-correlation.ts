@@ -16,7 +16,7 @@ export interface RankCorrelation {
 
 /** Method text for pages and exports. */
 export const RANK_CORRELATION_METHOD =
-  "Spearman's rank correlation (average ranks for ties); 95 % interval by Fisher's z with standard error √(1.06 / (n − 3)) (Fieller, Hartley & Pearson, Biometrika 1957), shown from n = 4.";
+  "Spearman's rank correlation (average ranks for ties); 95 % interval by Fisher's z with standard error √(1.06 / (n − 3)) (Fieller, Hartley & Pearson, Biometrika 1957), shown from n = 4; at ρ = ±1 the inner end is computed at the nearest value without ties, 1 − 12/(n(n²−1)).";
 
 /** Ranks 1..n of `values`, tied values sharing the mean of the ranks they span. */
 export function averageRanks(values: readonly number[]): number[] {
@@ -61,10 +61,16 @@ export function spearman(x: readonly number[], y: readonly number[]): RankCorrel
   const n = x.length;
   const rho = n < 2 ? null : pearson(averageRanks(x), averageRanks(y));
   if (rho === null || n < 4) return { n, rho, ci95: null };
-  // Fisher's z of ρ is roughly normal with variance 1.06/(n−3) (Fieller, Hartley & Pearson 1957);
-  // at |ρ| = 1 the interval collapses to the point.
-  if (Math.abs(rho) === 1) return { n, rho, ci95: [rho, rho] };
-  const z = Math.atanh(rho);
+  // Fisher's z of ρ is roughly normal with variance 1.06/(n−3) (Fieller, Hartley & Pearson 1957).
   const half = Z95 * Math.sqrt(1.06 / (n - 3));
+  if (Math.abs(rho) === 1) {
+    // z is infinite at |ρ| = 1, and a point interval would claim certainty from a few pairs. The
+    // inner end is taken at the nearest value n pairs can give without ties, 1 − 12/(n(n²−1))
+    // (two neighbouring ranks swapped: Σd² = 2), the outer end stays at ±1 (our own conservative
+    // device, stated in RANK_CORRELATION_METHOD).
+    const inner = Math.tanh(Math.atanh(1 - 12 / (n * (n * n - 1))) - half);
+    return { n, rho, ci95: rho > 0 ? [inner, 1] : [-1, -inner] };
+  }
+  const z = Math.atanh(rho);
   return { n, rho, ci95: [Math.tanh(z - half), Math.tanh(z + half)] };
 }

@@ -7,6 +7,7 @@ import { repositoryHelpFiles } from './help/help-files';
 import { helpRouter, schemasRouter } from './help/help.router';
 import { instanceLibraryRouter } from './instance-sets/instance-library.router';
 import { leaderboardsFeature } from './leaderboards/leaderboards.feature';
+import { reportsFeature } from './reports/reports.feature';
 import { statsRouter } from './stats/stats.router';
 import { sweepsFeature } from './sweeps/sweeps-feature';
 import { adminUsersRouter } from './users/admin-users.router';
@@ -25,5 +26,6 @@ export function apiRouter(ctx: AppContext): Router {
   r.use(sweepsFeature(ctx));
   r.use('/executions', executionsFeature(ctx));
   r.use(leaderboardsFeature(ctx));
+  r.use('/reports', reportsFeature(ctx));
   return r;
 }

@@ -1,0 +1,138 @@
+/**
+ * The sentences of the model comparison report, generated from its figures. They claim an order
+ * only when 95 % intervals do not overlap, say "not distinguishable" otherwise, and warn when
+ * samples are small; nothing here is a safety statement (the report carries SAFETY_NOTE).
+ */
+import type { ReportInterval, VariantFigures } from '@shared/reports';
+import type { SweepPolicy } from '@shared/sweeps';
+
+/** Below this many executed instances per variant the summary says the figures are indicative (common practice, not a rule). */
+export const SMALL_SAMPLE_INSTANCES = 10;
+
+/** "12 %" (whole percent; one decimal below 10 % when not whole). */
+export function pct(share: number): string {
+  const p = share * 100;
+  const text = Math.abs(p) < 10 && Math.round(p) !== p ? p.toFixed(1) : Math.round(p).toFixed(0);
+  return `${text === '-0' ? '0' : text} %`;
+}
+
+/** "[8 %, 15 %]". */
+const pctInterval = (ci: ReportInterval): string => `[${pct(ci[0])}, ${pct(ci[1])}]`;
+
+/** Whether two intervals share a point. */
+export const overlaps = (a: ReportInterval, b: ReportInterval): boolean => a[0] <= b[1] && b[0] <= a[1];
+
+/** "a, b and c". */
+function listOf(items: readonly string[]): string {
+  return items.length <= 1 ? items.join('') : `${items.slice(0, -1).join(', ')} and ${items[items.length - 1]}`;
+}
+
+function nominalClause(v: VariantFigures): string {
+  if (v.nominalChecked === 0) return v.solved === 0 ? '' : 'executability at nominal times not checked';
+  if (v.nominalExecutable === v.nominalChecked) return `executable at nominal times in all ${v.nominalChecked} checked solved instances`;
+  return `collided at nominal times in ${v.nominalChecked - v.nominalExecutable} of ${v.nominalChecked} checked solved instances`;
+}
+
+function successClause(v: VariantFigures): string {
+  if (v.runs === 0 || v.executionSuccessRate === null || v.executionSuccessCi95 === null) return 'not executed under this policy';
+  const collided = v.instancesWithCollisions > 0 ? `, collisions in ${v.instancesWithCollisions} of ${v.executedInstances} executed instances` : '';
+  return `execution success ${pct(v.executionSuccessRate)} ${pctInterval(v.executionSuccessCi95)} of ${v.runs} runs${collided}`;
+}
+
+function makespanClause(v: VariantFigures): string {
+  if (v.isReference) return 'reference for realised makespan';
+  const { pairs, ratio, ci95 } = v.makespanVsClassic;
+  if (pairs === 0 || ratio === null) return 'no instance to compare with classic';
+  const word = (r: number) => (r <= 1 ? 'sooner' : 'later');
+  if (ci95 === null) return `finished ${pct(Math.abs(1 - ratio))} ${word(ratio)} than classic on ${pairs} instance (too few for an interval)`;
+  if (ci95[1] < 1 || ci95[0] > 1) {
+    // Sooner by 1 − ratio: the interval's ends swap.
+    const lo = ratio < 1 ? 1 - ci95[1] : ci95[0] - 1;
+    const hi = ratio < 1 ? 1 - ci95[0] : ci95[1] - 1;
+    return `finished ${pct(Math.abs(1 - ratio))} [${pct(lo)}, ${pct(hi)}] ${word(ratio)} than classic (${pairs} paired instances)`;
+  }
+  return `realised makespan not distinguishable from classic (ratio ${ratio.toFixed(3)}, interval [${ci95[0].toFixed(3)}, ${ci95[1].toFixed(3)}] includes 1; ${pairs} paired instances)`;
+}
+
+/** One sentence per variant. */
+function variantSentence(v: VariantFigures): string {
+  const solved = v.solvedRate === null || v.solvedCi95 === null ? 'no instances' : `solved ${v.solved} of ${v.instances} instances (${pct(v.solvedRate)} ${pctInterval(v.solvedCi95)})`;
+  const clauses = [solved, nominalClause(v), v.solved > 0 ? successClause(v) : '', v.solved > 0 ? makespanClause(v) : ''].filter((c) => c !== '');
+  return `${capitalise(v.label)}: ${clauses.join('; ')}.`;
+}
+
+const capitalise = (s: string): string => s.charAt(0).toUpperCase() + s.slice(1);
+
+/** The variants whose execution success interval overlaps the highest one's. */
+function topBySuccess(executed: readonly VariantFigures[]): VariantFigures[] {
+  const best = [...executed].sort((a, b) => (b.executionSuccessRate ?? 0) - (a.executionSuccessRate ?? 0))[0];
+  return executed.filter((v) => overlaps(v.executionSuccessCi95!, best.executionSuccessCi95!));
+}
+
+/** The sentence that answers "which plan model for these robots", as far as the intervals allow. */
+function choiceSentence(variants: readonly VariantFigures[]): string {
+  const executed = variants.filter((v) => v.executionSuccessCi95 !== null);
+  if (executed.length === 0) return 'No variant was executed under this policy, so the report cannot say which plan model suits these robots.';
+  const top = topBySuccess(executed);
+  const collidingAtNominal = top.filter((v) => v.nominalChecked > v.nominalExecutable);
+  // Not seen colliding at nominal times (including variants never checked, named as such below).
+  const candidates = top.filter((v) => v.nominalChecked === v.nominalExecutable);
+  const unchecked = candidates.filter((v) => v.nominalChecked === 0);
+  const parts: string[] = [];
+  if (top.length === 1) parts.push(`${capitalise(top[0].label)} has the highest execution success rate, its interval clear of every other variant's`);
+  else parts.push(`Execution success cannot rank ${listOf(top.map((v) => v.label))}: their intervals overlap`);
+  if (collidingAtNominal.length > 0) parts.push(`of these, ${listOf(collidingAtNominal.map((v) => v.label))} collided at nominal times on some instances`);
+  const withRatio = candidates.filter((v) => v.makespanVsClassic.ci95 !== null || v.isReference);
+  const ciOf = (v: VariantFigures): ReportInterval => (v.isReference ? [1, 1] : v.makespanVsClassic.ci95!);
+  const fastest = [...withRatio].sort((a, b) => ciOf(a)[1] - ciOf(b)[1])[0];
+  if (fastest && withRatio.length > 1 && withRatio.every((v) => v === fastest || ciOf(fastest)[1] < ciOf(v)[0])) {
+    parts.push(`among those not seen colliding at nominal times${unchecked.length ? ` (${listOf(unchecked.map((v) => v.label))} not checked)` : ''}, ${fastest.label} finished soonest, its makespan interval clear of the others'`);
+  } else if (candidates.length > 1) {
+    parts.push(`the realised makespans of ${listOf(candidates.map((v) => v.label))} do not single out one of them (overlapping or missing intervals)`);
+  }
+  return `${parts.join('; ')}.`;
+}
+
+/** How well the planned cost predicts the realised makespan, per variant, in words. */
+function predictionSentence(variants: readonly VariantFigures[]): string | null {
+  const phrases = variants.filter((v) => v.plannedVsRealised.n > 0).map((v) => {
+    const { n, rho, ci95 } = v.plannedVsRealised;
+    if (rho === null) return `cannot be said for ${v.label} (n = ${n}, no spread)`;
+    const figure = `ρ = ${rho.toFixed(2)}${ci95 ? ` [${ci95[0].toFixed(2)}, ${ci95[1].toFixed(2)}]` : ''}, n = ${n}`;
+    if (ci95 === null) return `cannot be judged for ${v.label} (${figure}, too few instances for an interval)`;
+    if (ci95[0] <= 0 && ci95[1] >= 0) return `shows no clear link for ${v.label} (${figure}, the interval includes 0)`;
+    // Judged on the interval's inner end, so a high ρ from few pairs is not called strong.
+    const strength = ci95[1] < 0 ? 'runs against it'
+      : ci95[0] >= 0.8 ? 'predicts it strongly'
+        : ci95[0] >= 0.5 ? 'predicts it at least moderately'
+          : 'is positively linked to it, though how strongly the interval leaves open';
+    return `${strength} for ${v.label} (${figure})`;
+  });
+  if (phrases.length === 0) return null;
+  return `Does the planned cost predict execution? The planned turn-inclusive makespan ${phrases.join('; ')}; the instances mix agent counts, so part of this agreement comes from instance size.`;
+}
+
+/** The report's sentences: scope, one per variant, the choice, the prediction, and a small-sample warning. */
+export function summarise(input: {
+  readonly setName: string;
+  readonly profileLabel: string;
+  readonly policy: SweepPolicy;
+  readonly instances: number;
+  readonly executionSettings: readonly string[];
+  readonly variants: readonly VariantFigures[];
+}): string[] {
+  const { variants } = input;
+  const settings = input.executionSettings.length === 0 ? 'no replays stored' : `replays with ${input.executionSettings.join('; ')}`;
+  const out = [`For robot profile ${input.profileLabel} under ${input.policy} execution on instance set "${input.setName}": ${input.instances} instances (scenario × agent count), ${variants.length} plan model variants, ${settings}.`];
+  if (variants.length === 0) return [...out, 'No computed results match; run a sweep with this robot profile on this set.'];
+  out.push(...variants.map(variantSentence));
+  out.push(choiceSentence(variants));
+  const prediction = predictionSentence(variants);
+  if (prediction) out.push(prediction);
+  const executed = variants.filter((v) => v.executedInstances > 0).map((v) => v.executedInstances);
+  const smallest = executed.length ? Math.min(...executed) : 0;
+  if (smallest < SMALL_SAMPLE_INSTANCES) {
+    out.push(`Small samples (as few as ${smallest} executed instances for a variant): the intervals are wide, so read these figures as indicative, not as a ranking.`);
+  }
+  return out;
+}

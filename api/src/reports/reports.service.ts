@@ -1,0 +1,161 @@
+/**
+ * Reads of the model comparison report: the sets and robot profiles a viewer may pick (from the
+ * leaderboard's best-result table, which is small and indexed for visibility) and, for one set ×
+ * profile × policy, one outcome per instance × variant from `results` and `executions`.
+ * Visibility follows the leaderboard and instance set rule (instance-set-access.ts).
+ */
+import { QueryTypes, type Sequelize } from 'sequelize';
+import type { RobotProfile } from '@shared/plan';
+import { profileLabel } from '@shared/leaderboards';
+import { SAFETY_NOTE } from '@shared/executions-constants';
+import { REPORT_POLICIES, type ModelComparisonReport, type ReportChoices, type ReportSetChoice } from '@shared/reports';
+import type { SweepPolicy } from '@shared/sweeps';
+import type { Models } from '../db/models';
+import { AppError } from '../errors/app-error';
+import { isSetVisible, type Viewer } from '../instance-sets/instance-set-access';
+import { visibleRowsCondition } from '../leaderboards/view-sql';
+import { compareVariants, executionSettingsText, instanceCount, REPORT_METHODS, type InstanceOutcome } from './model-comparison';
+import { summarise } from './report-summary';
+
+/** What a report is asked for. */
+export interface ReportRequest {
+  readonly setId: number;
+  /** Absent: the profile with most leaderboard rows on the set. */
+  readonly profileHash?: string;
+  readonly policy: SweepPolicy;
+}
+
+/** The report read service. */
+export interface ReportsService {
+  choices(viewer: Viewer): Promise<ReportChoices>;
+  modelComparison(viewer: Viewer, request: ReportRequest): Promise<ModelComparisonReport>;
+}
+
+/**
+ * The variant of a result's parameters: the parameters that change the problem (k, a fixed start
+ * heading, the following rule when forbidden), as the leaderboard names them (migration 0401),
+ * plus "following forbidden" (issue 12, item 3). Params text never becomes SQL.
+ */
+const VARIANT_SQL = `concat_ws(' ',
+    CASE WHEN (r.params->'model'->>'k') IS NOT NULL THEN 'k=' || (r.params->'model'->>'k') END,
+    CASE WHEN coalesce(r.params->'model'->>'startHeading', 'free') <> 'free' THEN 'start ' || (r.params->'model'->>'startHeading') END,
+    CASE WHEN r.params->'model'->>'following' = 'forbidden' THEN 'following forbidden' END)`;
+
+/**
+ * Newest computed result per instance × variant (a solved one and one replayed under the policy
+ * first), with its newest replay under the policy. `executable_at_nominal` is read through
+ * to_jsonb so the report also works on a database without that column (null = not checked).
+ */
+const OUTCOMES_SQL = `
+  SELECT DISTINCT ON (r.scenario_id, r.agents, r.model, ${VARIANT_SQL})
+    r.scenario_id, r.agents, r.model, ${VARIANT_SQL} AS variant, r.status,
+    r.turn_inclusive_makespan_ms AS ti_makespan_ms, r.robot_profile,
+    (to_jsonb(r) ->> 'executable_at_nominal')::boolean AS executable_at_nominal,
+    x.runs, x.success_rate, x.realised_makespan_mean_ms, x.finish_spread_mean_ms, x.noise
+  FROM results r
+  LEFT JOIN LATERAL (
+    SELECT * FROM executions ex WHERE ex.result_id = r.id AND ex.policy = :policy ORDER BY ex.id DESC LIMIT 1
+  ) x ON TRUE
+  WHERE r.scenario_id IN (SELECT sc.id FROM scenarios sc WHERE sc.instance_set_id = :setId)
+    AND r.robot_profile_hash = :profileHash AND r.submission_id IS NULL
+  ORDER BY r.scenario_id, r.agents, r.model, ${VARIANT_SQL}, (r.status = 'solved') DESC, (x.id IS NOT NULL) DESC, r.id DESC`;
+
+interface OutcomeRow {
+  scenario_id: number;
+  agents: number;
+  model: string;
+  variant: string;
+  status: string;
+  ti_makespan_ms: number | null;
+  robot_profile: RobotProfile;
+  executable_at_nominal: boolean | null;
+  runs: number | null;
+  success_rate: number | null;
+  realised_makespan_mean_ms: number | null;
+  finish_spread_mean_ms: number | null;
+  noise: { jitterCv?: number; stallProbability?: number; stallMs?: number } | null;
+}
+
+/** The report service on one connection. */
+export function createReportsService(deps: { readonly sequelize: Sequelize; readonly models: Pick<Models, 'InstanceSet'> }): ReportsService {
+  const { sequelize } = deps;
+  const select = <T extends object>(sql: string, replacements: Record<string, unknown>): Promise<T[]> =>
+    sequelize.query<T>(sql, { type: QueryTypes.SELECT, replacements });
+
+  async function choices(viewer: Viewer): Promise<ReportChoices> {
+    const repl: Record<string, unknown> = {};
+    const visible = visibleRowsCondition(viewer, 'e', repl);
+    const rows = await select<{ set_id: number; name: string; visibility: string; hash: string; label: string; entries: number }>(
+      `SELECT e.instance_set_id AS set_id, s.name, s.visibility, e.robot_profile_hash AS hash, min(e.profile_label) AS label, count(*)::int AS entries
+       FROM leaderboard_entries e JOIN instance_sets s ON s.id = e.instance_set_id
+       WHERE e.source = 'sweep'${visible ? ` AND ${visible}` : ''}
+       GROUP BY e.instance_set_id, s.name, s.visibility, e.robot_profile_hash
+       ORDER BY s.name, e.instance_set_id, entries DESC, hash`,
+      repl,
+    );
+    const sets = new Map<number, ReportSetChoice & { profiles: ReportSetChoice['profiles'][number][] }>();
+    for (const r of rows) {
+      let s = sets.get(r.set_id);
+      if (!s) {
+        s = { id: r.set_id, name: r.name, isPublic: r.visibility === 'public', profiles: [] };
+        sets.set(r.set_id, s);
+      }
+      s.profiles.push({ hash: r.hash, label: r.label, entries: r.entries });
+    }
+    return { sets: [...sets.values()], policies: REPORT_POLICIES };
+  }
+
+  return {
+    choices,
+    async modelComparison(viewer, request) {
+      const set = await deps.models.InstanceSet.findByPk(request.setId);
+      // A set the viewer may not see does not exist for him (same 404 as the instance library).
+      if (!set || !isSetVisible(set, viewer)) {
+        throw new AppError('INSTANCE_SET_NOT_FOUND', 404, `Instance set ${request.setId} was not found`, [{ param: 'set' }]);
+      }
+      let profileHash = request.profileHash;
+      if (profileHash === undefined) {
+        const choice = (await choices(viewer)).sets.find((s) => s.id === set.id);
+        profileHash = choice?.profiles[0]?.hash;
+        if (profileHash === undefined) throw new AppError('NOT_FOUND', 404, `Instance set "${set.name}" has no computed results yet; run a sweep on it first`, [{ param: 'set' }]);
+      }
+      const rows = await select<OutcomeRow>(OUTCOMES_SQL, { setId: set.id, profileHash, policy: request.policy });
+      if (rows.length === 0) {
+        throw new AppError('NOT_FOUND', 404, `Instance set "${set.name}" has no computed results for robot profile ${profileHash}`, [{ param: 'profile' }]);
+      }
+      const settings = new Set<string>();
+      const outcomes: InstanceOutcome[] = rows.map((r) => {
+        const executed = r.runs !== null && r.success_rate !== null;
+        if (executed) settings.add(executionSettingsText(r.runs!, r.noise ?? {}));
+        return {
+          scenarioId: r.scenario_id,
+          agents: r.agents,
+          model: r.model as InstanceOutcome['model'],
+          variant: r.variant,
+          status: r.status,
+          tiMakespanMs: r.ti_makespan_ms,
+          executableAtNominal: r.executable_at_nominal,
+          execution: executed
+            ? { runs: r.runs!, successRate: r.success_rate!, realisedMakespanMeanMs: r.realised_makespan_mean_ms, finishSpreadMeanMs: r.finish_spread_mean_ms }
+            : null,
+        };
+      });
+      const profile = rows[0].robot_profile;
+      const variants = compareVariants(outcomes);
+      const instances = instanceCount(outcomes);
+      const executionSettings = [...settings].sort();
+      const label = profileLabel(profile);
+      return {
+        set: { id: set.id, name: set.name },
+        profile: { hash: profileHash, label, value: profile },
+        policy: request.policy,
+        instances,
+        executionSettings,
+        variants,
+        summary: summarise({ setName: set.name, profileLabel: label, policy: request.policy, instances, executionSettings, variants }),
+        methods: REPORT_METHODS,
+        safetyNote: SAFETY_NOTE,
+      };
+    },
+  };
+}
