@@ -47,7 +47,10 @@ describe('execution with zero noise', () => {
       const ts = scheduleFromPaths(instance, paths, profile, { startHeading: 'free', stretch: 'none' });
       const plan = { timeline: 'steps' as const, schedule: ts.schedule };
       const summary = simulateExecution(instance, plan, profile, { policy: 'open-loop', seed: 9, runs: 2 });
-      expect(summary.realisedMakespanMs).toEqual({ mean: ts.turnInclusiveMakespanMs, p95: ts.turnInclusiveMakespanMs });
+      expect(summary.realisedMakespanMs).toMatchObject({ mean: ts.turnInclusiveMakespanMs, p95: ts.turnInclusiveMakespanMs, count: 2 });
+      // Two identical runs: a zero-width mean interval; too few runs for a p95 interval.
+      expect(summary.realisedMakespanMs.meanCi95).toEqual([ts.turnInclusiveMakespanMs, ts.turnInclusiveMakespanMs]);
+      expect(summary.realisedMakespanMs.p95Ci95).toBeNull();
       expect(summary.realisedSocMs.mean).toBe(ts.turnInclusiveSocMs);
       expect(summary.waitingMs.mean).toBe(0);
       const timeline = realisedTimeline(instance, plan, profile, { policy: 'open-loop', seed: 9 });

@@ -103,8 +103,18 @@ export class ExecutionRunner {
       if (finish < firstFinish) firstFinish = finish;
       if (finish > lastFinish) lastFinish = finish;
     }
+    // Waiting: the sum over robots (the historical `waitingMs`) and per robot its mean and max.
     let waiting = 0;
-    for (let a = 0; a < p.actionCount; a++) waiting += waited[a];
+    let waitingMax = 0;
+    for (let r = 0; r < p.robotCount; r++) {
+      let robotWaited = 0;
+      for (let a = p.first[r]; a < p.first[r + 1]; a++) {
+        robotWaited += waited[a];
+        // Added action by action, in plan order, as before the per-robot figures (same bits).
+        waiting += waited[a];
+      }
+      if (robotWaited > waitingMax) waitingMax = robotWaited;
+    }
     const isDeadlocked = this.dependencies?.hasDeadlock ?? false;
     const isComplete = makespan < Infinity;
     return {
@@ -115,6 +125,8 @@ export class ExecutionRunner {
       realisedMakespanMs: isComplete ? makespan : null,
       realisedSocMs: isComplete ? soc : null,
       waitingMs: waiting,
+      waitingMeanPerRobotMs: p.robotCount === 0 ? 0 : waiting / p.robotCount,
+      waitingMaxPerRobotMs: waitingMax,
       finishSpreadMs: p.robotCount === 0 ? 0 : lastFinish === Infinity ? null : this.isLockstep ? 0 : lastFinish - firstFinish,
     };
   }

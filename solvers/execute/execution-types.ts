@@ -8,14 +8,31 @@
  * Simulation is no safety assessment: it checks a plan against an idealised model of the fleet,
  * never replaces the applicable safety standards and local rules for robots near people.
  */
+import type { Interval95 } from '@shared/confidence-interval';
 import type { ActionKind, CellXY, Heading, Schedule } from '@shared/plan';
 
 /**
- * How robots are released onto their actions.
- * - `open-loop`: each robot runs its own action list back to back from t = 0.
- * - `lockstep`: an action of abstract step s starts only when every robot has finished all its
- *   actions of steps < s (a global barrier between `step` values).
- * - `dependency-gated`: the Action Dependency Graph of Hönig et al. (see dependency-graph.ts).
+ * How robots are released onto their actions. Every policy keeps each robot's own order: an
+ * action never starts before the robot's previous action has ended (its first action: at 0).
+ * On top of that, an action a starts at the earliest moment its policy allows:
+ * - `open-loop`: no further condition. Each robot runs its (padded) list back to back from t = 0.
+ * - `lockstep`: synchronise on the plan's own timeline. a waits until every action, of any robot,
+ *   that the plan's timeline has ending at or before a's planned start has actually ended.
+ *   - `steps` timeline (classic, uniform-duration, orientation-split, k-robust): an action of step
+ *     s is planned to start at step s and every action of a step s' < s to end by then, so the
+ *     first action of step s waits for every action of steps < s: one global barrier between
+ *     `step` values. Actions of one robot within a step (turns, then the move) follow each other
+ *     with no further barrier. There is no ms clock: a robot never waits for a planned ms start.
+ *   - `ms` timeline (weighted-split): a waits for every action b (any robot) with planned end
+ *     ≤ a's planned start, AND does not start before its planned start (ms from plan start).
+ *     At zero noise every action then runs exactly at its planned times (realise-times.ts proves
+ *     it by induction; execution-lockstep.spec.ts tests it), so a valid plan never collides.
+ *   Both are one rule: "nothing starts before the plan's clock says so and before everything
+ *   planned to be over by then is over"; on `steps` the clock is the step counter.
+ * - `dependency-gated`: a waits for the end of its cross-robot predecessors in the Action
+ *   Dependency Graph of Hönig et al., RA-L 2019 (see dependency-graph.ts): a move into a cell
+ *   waits until the latest earlier-planned action of every other robot on that cell has ended.
+ *   No clock and no barrier: robots not sharing cells never wait for each other.
  */
 export type ExecutionPolicy = 'open-loop' | 'lockstep' | 'dependency-gated';
 
@@ -91,8 +108,15 @@ export interface RunMetrics {
   readonly realisedMakespanMs: number | null;
   /** Sum over robots of the time each reaches its goal for good; null when some robot never does. */
   readonly realisedSocMs: number | null;
-  /** Time robots stood idle waiting on a barrier (lockstep) or a dependency (dependency-gated). */
+  /**
+   * Time robots stood idle waiting on a barrier or planned start (lockstep) or a dependency
+   * (dependency-gated), SUMMED over robots (so it may exceed the makespan): label it "total over robots".
+   */
   readonly waitingMs: number;
+  /** The same idle time per robot: mean over robots (waitingMs / robots; 0 with no robots). */
+  readonly waitingMeanPerRobotMs: number;
+  /** The same idle time per robot: the largest any one robot waited. */
+  readonly waitingMaxPerRobotMs: number;
   /**
    * Last minus first robot finish of the padded lists; null when some list never finishes.
    * Under lockstep a robot's program ends at the barrier that closes the last step (as every
@@ -101,10 +125,20 @@ export interface RunMetrics {
   readonly finishSpreadMs: number | null;
 }
 
-/** Mean and 95th percentile (nearest rank) of a metric over the runs where it is defined. */
+/**
+ * Mean and 95th percentile (nearest rank) of a metric over the runs where it is defined, with
+ * their 95 % confidence intervals (shared/confidence-interval.ts: Student t for the mean, the
+ * order-statistic interval for the p95).
+ */
 export interface MetricStats {
   readonly mean: number | null;
   readonly p95: number | null;
+  /** Runs where the metric is defined (the n of both intervals). */
+  readonly count: number;
+  /** null with fewer than 2 such runs. */
+  readonly meanCi95: Interval95 | null;
+  /** null with fewer than 72 such runs (too few for a distribution-free p95 interval). */
+  readonly p95Ci95: Interval95 | null;
 }
 
 /** The Monte Carlo summary of a batch. */
@@ -116,13 +150,24 @@ export interface ExecutionSummary {
   /** Runs completed. */
   readonly runs: number;
   readonly isAborted: boolean;
-  /** Fraction of runs that succeeded. */
+  /** Fraction of runs that succeeded (execution success rate). */
   readonly successRate: number;
+  /** Wilson score 95 % interval of the success rate ([0, 1] with no runs). */
+  readonly successRateCi95: Interval95;
+  /** The 95 % intervals of the headline figures (for the means), as `execute --json` prints them. */
+  readonly ci95: {
+    readonly successRate: Interval95;
+    readonly realisedMakespanMs: Interval95 | null;
+    readonly finishSpreadMs: Interval95 | null;
+  };
   readonly collisions: { readonly mean: number; readonly p95: number; readonly total: number };
   readonly realisedMakespanMs: MetricStats;
   readonly realisedSocMs: MetricStats;
   readonly finishSpreadMs: MetricStats;
+  /** Per run the SUM over robots of their waiting (RunMetrics.waitingMs), then over runs. */
   readonly waitingMs: MetricStats;
+  /** Per run the mean / the max over robots of the time each robot waited, then over runs. */
+  readonly waitingPerRobotMs: { readonly mean: MetricStats; readonly max: MetricStats };
   /** The earliest collision of the lowest-numbered run that had one. */
   readonly firstCollision: (Collision & { readonly run: number }) | null;
   readonly perRun: readonly RunMetrics[];
@@ -143,16 +188,59 @@ export interface RealisedAction {
   readonly end: number;
   /** Realised (drawn) duration; for an action cut by a stop, the robot moved at (to − from) / durationMs until `stoppedAt`. */
   readonly durationMs: number;
-  /** Idle time before this action spent waiting on a barrier or dependency. */
+  /** Idle time before this action spent waiting on a barrier, planned start or dependency. */
   readonly waitedMs: number;
+  /** The robot whose action's end released this one (it waited for it); null if it did not wait or waited on its planned start. */
+  readonly waitedFor: number | null;
+  /** What released this action after a wait; null when it did not wait (or never started). */
+  readonly waitReason: WaitReason | null;
   /** When the robot was stopped by a collision during this action, else null. */
   readonly stoppedAt: number | null;
   /** Whether the action is padding added to reach the plan's makespan (not part of the plan). */
   readonly isPadding: boolean;
 }
 
-/** The realised timeline of ONE run: per robot its realised actions, plus the run's metrics. */
+/**
+ * Why an action started later than its robot's previous action ended: `dependency` (an ADG
+ * predecessor of another robot ended), `barrier` (lockstep: the last action planned to end by then
+ * ended), `planned-start` (lockstep on the ms timeline: the plan's clock).
+ */
+export type WaitReason = 'dependency' | 'barrier' | 'planned-start';
+
+/** How long one robot waited in one run, and for whom (planned-start waits count in waitedMs only). */
+export interface RobotWait {
+  readonly robot: number;
+  readonly waitedMs: number;
+  /** Per releasing robot the ms waited for it, largest first; sums to waitedMs minus the planned-start waits. */
+  readonly waitedFor: readonly { readonly robot: number; readonly ms: number }[];
+}
+
+/**
+ * One segment of the critical chain (see critical-chain.ts). `own`: the robot ran its own actions
+ * back to back from fromMs to toMs. `dependency` / `barrier`: the robot stood idle from fromMs
+ * until toMs, when the end of an action of `waitedFor` released it. `planned-start`: the plan's
+ * clock held the robot until toMs (fromMs = 0: nothing before it set the makespan).
+ */
+export interface ChainSegment {
+  readonly robot: number;
+  readonly fromMs: number;
+  readonly toMs: number;
+  readonly reason: 'own' | WaitReason;
+  readonly waitedFor: number | null;
+}
+
+/** The realised timeline of ONE run: per robot its realised actions, plus the run's metrics and who waited for whom. */
 export interface RunTimeline {
   readonly robots: readonly (readonly RealisedAction[])[];
   readonly metrics: RunMetrics;
+  /** Per robot (in robot order) the time it waited and for whom. */
+  readonly waitByRobot: readonly RobotWait[];
+  /**
+   * The chain that set the realised makespan, earliest first: walking back from the robot whose
+   * arrival is the makespan through its own actions to its last wait, then to the robot that
+   * released it, and so on. `own` and `planned-start` segments tile [0, makespan]; each wait
+   * segment ends where the releasing robot's `own` segment before it ends. Empty when the run
+   * has no finite makespan (deadlock, stop) or no robot moves.
+   */
+  readonly criticalChain: readonly ChainSegment[];
 }

@@ -3,8 +3,8 @@
  * Simulation is no safety assessment: defer to the applicable safety standards and local rules.
  */
 export type {
-  Collision, CollisionMode, ExecutablePlan, ExecutionOptions, ExecutionPolicy, ExecutionSummary, MetricStats, NoiseModel,
-  RealisedAction, RunMetrics, RunTimeline,
+  ChainSegment, Collision, CollisionMode, ExecutablePlan, ExecutionOptions, ExecutionPolicy, ExecutionSummary, MetricStats, NoiseModel,
+  RealisedAction, RobotWait, RunMetrics, RunTimeline, WaitReason,
 } from './execution-types';
 export { EXECUTION_POLICIES } from './execution-types';
 export { simulateExecution, summariseRuns } from './simulate-execution';

@@ -1,6 +1,21 @@
 /**
  * Realised start and end times of every action under an execution policy, given the drawn
- * durations and, for `stop` on collision, the times robots were stopped.
+ * durations and, for `stop` on collision, the times robots were stopped. The policies' rules are
+ * stated in execution-types.ts (ExecutionPolicy); here they become, for action a of robot r with
+ * own = end of r's previous action (0 for its first):
+ *   open-loop                start = own
+ *   lockstep, steps timeline start = max(own, max end of every action of steps < step(a))
+ *   lockstep, ms timeline    start = max(own, plannedStart(a), max end of every action b with plannedEnd(b) ≤ plannedStart(a))
+ *   dependency-gated         start = max(own, max end of a's ADG predecessors)
+ * and end = start + drawn duration (cut at the robot's stop time, if any).
+ *
+ * Lockstep on the ms timeline at zero noise runs exactly on the plan's times. By induction over
+ * actions in planned-start order: if every action planned to start earlier started (hence
+ * ended, durations being nominal) at its planned time, then for a: own = plannedEnd(prev) =
+ * plannedStart(a) (lists are back to back), every b with plannedEnd(b) ≤ plannedStart(a)
+ * ended at plannedEnd(b) ≤ plannedStart(a), so start(a) = plannedStart(a). Such a b always has
+ * plannedStart(b) < plannedEnd(b) ≤ plannedStart(a), so computing in planned-start order has
+ * every such b done first. (Times are integer ms in schedules, so the sums are exact.)
  */
 import type { ExecutionPolicy } from './execution-types';
 import type { ActionDependencies } from './dependency-graph';
@@ -12,7 +27,14 @@ export interface ReleasePlan {
   /** Actions in the order their times are computed (every predecessor first). */
   readonly order: Int32Array;
   readonly dependencies?: ActionDependencies;
+  /** Lockstep on the ms timeline: every action sorted by planned end (ties by index). */
+  readonly byPlannedEnd?: Int32Array;
 }
+
+/** `RunTimes.releasedBy` when the action did not wait (or never started). */
+export const RELEASED_BY_NONE = -1;
+/** `RunTimes.releasedBy` when the plan's clock (its planned start) released the action. */
+export const RELEASED_BY_PLANNED_START = -2;
 
 /** Per-action realised times of one run (buffers reused between runs). */
 export interface RunTimes {
@@ -21,22 +43,39 @@ export interface RunTimes {
   readonly end: Float64Array;
   /** When a stop cut the action short (the robot stands there for good), else Infinity. */
   readonly cutAt: Float64Array;
-  /** Idle time before the action (barrier or dependency); 0 when it never starts. */
+  /** Idle time before the action (barrier, planned start or dependency); 0 when it never starts. */
   readonly waited: Float64Array;
+  /**
+   * Whose end released the action after a wait: an action index (of another robot), or
+   * RELEASED_BY_PLANNED_START, or RELEASED_BY_NONE (no wait, or never started).
+   */
+  readonly releasedBy: Int32Array;
 }
 
 /** Allocates buffers for `n` actions. */
 export function createRunTimes(n: number): RunTimes {
-  return { start: new Float64Array(n), end: new Float64Array(n), cutAt: new Float64Array(n), waited: new Float64Array(n) };
+  return {
+    start: new Float64Array(n), end: new Float64Array(n), cutAt: new Float64Array(n), waited: new Float64Array(n), releasedBy: new Int32Array(n),
+  };
 }
 
-/** The release order of a policy: plan order (open-loop), by step (lockstep), topological (dependency-gated). */
+/**
+ * The release order of a policy: plan order (open-loop), by step (lockstep, steps timeline), by
+ * planned start (lockstep, ms timeline), topological (dependency-gated).
+ */
 export function releasePlan(p: PreparedPlan, policy: ExecutionPolicy, dependencies?: ActionDependencies): ReleasePlan {
   if (policy === 'dependency-gated') {
     if (!dependencies) throw new Error('dependency-gated execution needs the action dependency graph');
     return { policy, order: dependencies.order, dependencies };
   }
   const order = Int32Array.from({ length: p.actionCount }, (_, i) => i);
+  if (policy === 'lockstep' && p.timeline === 'ms') {
+    // Ties keep plan order; a robot's own actions have increasing planned starts (positive durations).
+    const byStart = Array.from(order).sort((a, b) => p.plannedStart[a] - p.plannedStart[b] || a - b);
+    const plannedEnd = (a: number): number => p.plannedStart[a] + p.nominalMs[a];
+    const byEnd = Array.from(order).sort((a, b) => plannedEnd(a) - plannedEnd(b) || a - b);
+    return { policy, order: Int32Array.from(byStart), byPlannedEnd: Int32Array.from(byEnd) };
+  }
   if (policy === 'lockstep') {
     // Ties keep plan order (robot, then position), which keeps each robot's actions in sequence.
     const sorted = Array.from(order).sort((a, b) => p.step[a] - p.step[b] || a - b);
@@ -51,11 +90,13 @@ export function releasePlan(p: PreparedPlan, policy: ExecutionPolicy, dependenci
  * in progress is cut there.
  */
 export function realiseTimes(p: PreparedPlan, release: ReleasePlan, duration: Float64Array, stoppedAt: Float64Array, out: RunTimes): void {
-  const { start, end, cutAt, waited } = out;
-  const { order, policy, dependencies } = release;
+  const { start, end, cutAt, waited, releasedBy } = out;
+  const { order, policy, dependencies, byPlannedEnd } = release;
   const first = p.first;
   const robotOf = p.robotOf;
   const stepOf = p.step;
+  const plannedStart = p.plannedStart;
+  const nominal = p.nominalMs;
   // The loop writes every action in the order; only actions left out of it (on or behind a
   // dependency cycle) need the never-started defaults.
   if (order.length < p.actionCount) {
@@ -63,11 +104,17 @@ export function realiseTimes(p: PreparedPlan, release: ReleasePlan, duration: Fl
     end.fill(Infinity);
     cutAt.fill(Infinity);
     waited.fill(0);
+    releasedBy.fill(RELEASED_BY_NONE);
   }
+  // Lockstep: the barrier (latest end so far of the actions it covers) and the action that set it.
   let barrier = 0;
+  let barrierBy = RELEASED_BY_NONE;
   let runningMax = 0;
+  let runningMaxBy = RELEASED_BY_NONE;
   let currentStep = -1;
+  let endCursor = 0;
   const isLockstep = policy === 'lockstep';
+  const isClocked = isLockstep && byPlannedEnd !== undefined;
   const depStart = dependencies?.depStart;
   const deps = dependencies?.deps;
   for (let k = 0; k < order.length; k++) {
@@ -75,22 +122,52 @@ export function realiseTimes(p: PreparedPlan, release: ReleasePlan, duration: Fl
     const r = robotOf[a];
     const own = a > first[r] ? end[a - 1] : 0;
     let ready = own;
-    if (isLockstep) {
+    let by = RELEASED_BY_NONE;
+    if (isClocked) {
+      // Every action planned to end by a's planned start has started (its planned start is
+      // earlier, and `order` is by planned start), so its end is known.
+      const at = plannedStart[a];
+      while (endCursor < byPlannedEnd.length) {
+        const b = byPlannedEnd[endCursor];
+        if (plannedStart[b] + nominal[b] > at) break;
+        if (end[b] > barrier) {
+          barrier = end[b];
+          barrierBy = b;
+        }
+        endCursor++;
+      }
+      if (at > ready) {
+        ready = at;
+        by = RELEASED_BY_PLANNED_START;
+      }
+      if (barrier > ready) {
+        ready = barrier;
+        by = barrierBy;
+      }
+    } else if (isLockstep) {
       if (stepOf[a] !== currentStep) {
         currentStep = stepOf[a];
         barrier = runningMax;
+        barrierBy = runningMaxBy;
       }
-      if (barrier > ready) ready = barrier;
+      if (barrier > ready) {
+        ready = barrier;
+        by = barrierBy;
+      }
     } else if (depStart !== undefined && deps !== undefined) {
       for (let j = depStart[a]; j < depStart[a + 1]; j++) {
         const e = end[deps[j]];
-        if (e > ready) ready = e;
+        if (e > ready) {
+          ready = e;
+          by = deps[j];
+        }
       }
     }
     const stop = stoppedAt[r];
     if (ready < stop) {
       start[a] = ready;
       waited[a] = ready - own;
+      releasedBy[a] = by;
       const e = ready + duration[a];
       if (e > stop) {
         cutAt[a] = stop;
@@ -104,7 +181,11 @@ export function realiseTimes(p: PreparedPlan, release: ReleasePlan, duration: Fl
       end[a] = Infinity;
       cutAt[a] = Infinity;
       waited[a] = 0;
+      releasedBy[a] = RELEASED_BY_NONE;
     }
-    if (isLockstep && end[a] > runningMax) runningMax = end[a];
+    if (isLockstep && !isClocked && end[a] > runningMax) {
+      runningMax = end[a];
+      runningMaxBy = a;
+    }
   }
 }

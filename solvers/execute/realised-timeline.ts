@@ -3,10 +3,12 @@ import type { RobotProfile } from '@shared/plan';
 import type { MapfInstance } from '../instance';
 import { ExecutionRunner } from './execution-runner';
 import type { ExecutablePlan, ExecutionOptions, RealisedAction, RunTimeline } from './execution-types';
+import { actionWait, criticalChain, waitByRobot } from './wait-attribution';
 
 /**
  * Per robot, the realised actions of run `run` of the batch described by `options` (the same
- * run the Monte Carlo batch with that seed simulates), padding included and flagged.
+ * run the Monte Carlo batch with that seed simulates), padding included and flagged; who
+ * waited for whom and the critical chain of the realised makespan (wait-attribution.ts).
  */
 export function realisedTimeline(
   instance: MapfInstance,
@@ -36,11 +38,14 @@ export function realisedTimeline(
         end: end[a],
         durationMs: runner.duration[a],
         waitedMs: waited[a],
+        ...actionWait(p, runner.times, options.policy, a),
         stoppedAt: cutAt[a] < Infinity ? cutAt[a] : start[a] === Infinity && runner.stoppedAt[r] < Infinity && (a === p.first[r] || end[a - 1] < Infinity) ? runner.stoppedAt[r] : null,
         isPadding: p.isPadding[a] === 1,
       });
     }
     robots.push(list);
   }
-  return { robots, metrics };
+  return {
+    robots, metrics, waitByRobot: waitByRobot(p, runner.times), criticalChain: criticalChain(p, runner.times, options.policy),
+  };
 }

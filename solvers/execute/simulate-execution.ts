@@ -1,8 +1,10 @@
 /**
  * Monte Carlo execution of one plan: N seeded runs under one policy and noise model, summarised
- * as success rate and mean / p95 of each metric. Deterministic for a seed.
+ * as success rate and mean / p95 of each metric, each with its 95 % confidence interval
+ * (shared/confidence-interval.ts; computed once per batch, never per run). Deterministic for a seed.
  * Simulation is no safety assessment; see execution-types.ts.
  */
+import { wilsonInterval } from '@shared/confidence-interval';
 import type { RobotProfile } from '@shared/plan';
 import type { MapfInstance } from '../instance';
 import { ExecutionRunner } from './execution-runner';
@@ -39,6 +41,10 @@ export function summariseRuns(
   const counts = perRun.map((m) => m.collisions.length);
   const hit = perRun.find((m) => m.collisions.length > 0);
   const collisionStats = metricStats(counts);
+  const successes = perRun.filter((m) => m.isSuccess).length;
+  const successRateCi95 = wilsonInterval(successes, n);
+  const realisedMakespanMs = metricStats(perRun.map((m) => m.realisedMakespanMs));
+  const finishSpreadMs = metricStats(perRun.map((m) => m.finishSpreadMs));
   return {
     policy: options.policy,
     noise: runner.noise,
@@ -46,12 +52,18 @@ export function summariseRuns(
     seed: options.seed,
     runs: n,
     isAborted,
-    successRate: n === 0 ? 0 : perRun.filter((m) => m.isSuccess).length / n,
+    successRate: n === 0 ? 0 : successes / n,
+    successRateCi95,
+    ci95: { successRate: successRateCi95, realisedMakespanMs: realisedMakespanMs.meanCi95, finishSpreadMs: finishSpreadMs.meanCi95 },
     collisions: { mean: collisionStats.mean ?? 0, p95: collisionStats.p95 ?? 0, total: counts.reduce((s, c) => s + c, 0) },
-    realisedMakespanMs: metricStats(perRun.map((m) => m.realisedMakespanMs)),
+    realisedMakespanMs,
     realisedSocMs: metricStats(perRun.map((m) => m.realisedSocMs)),
-    finishSpreadMs: metricStats(perRun.map((m) => m.finishSpreadMs)),
+    finishSpreadMs,
     waitingMs: metricStats(perRun.map((m) => m.waitingMs)),
+    waitingPerRobotMs: {
+      mean: metricStats(perRun.map((m) => m.waitingMeanPerRobotMs)),
+      max: metricStats(perRun.map((m) => m.waitingMaxPerRobotMs)),
+    },
     firstCollision: hit ? { ...hit.collisions[0], run: hit.run } : null,
     perRun,
   };

@@ -3,6 +3,7 @@
  * cross a thread boundary (structured clone) or be logged. The grid travels as a string of
  * '1' (free) / '0' (blocked) per cell, row by row, so no typed array needs transferring.
  */
+import type { Interval95 } from '@shared/confidence-interval';
 import type { RobotProfile, Schedule } from '@shared/plan';
 import type { RunOutcome } from '@shared/runs';
 import type { ModelSpec, SweepPolicy } from '@shared/sweeps';
@@ -44,17 +45,44 @@ export type TaskPlan =
   | { readonly kind: 'paths'; readonly paths: readonly (readonly number[])[] }
   | { readonly kind: 'schedule'; readonly schedule: Schedule };
 
-/** The Monte Carlo summary of one policy, without the per-run list (kept small for storage). */
+/**
+ * One metric over a batch's runs as stored: mean and nearest-rank p95 with their 95 % intervals
+ * (solvers/execute MetricStats). Rows stored before the intervals existed have mean and p95 only.
+ */
+export interface TaskMetricStats {
+  readonly mean: number | null;
+  readonly p95: number | null;
+  readonly count: number;
+  readonly meanCi95: Interval95 | null;
+  readonly p95Ci95: Interval95 | null;
+}
+
+/**
+ * The Monte Carlo summary of one policy, without the per-run list (kept small for storage; the
+ * worker stores it whole in executions.metrics). `seed`, `onCollision`, `runs`, `policy` and the
+ * resolved `noise` are exactly the settings that reproduce every figure with simulateExecution.
+ */
 export interface TaskExecutionSummary {
   readonly policy: SweepPolicy;
   readonly noise: { readonly jitterCv: number; readonly stallProbability: number; readonly stallMs: number };
   readonly runs: number;
+  /** The batch seed passed to simulateExecution (the run's seed). */
+  readonly seed: number;
+  /** Sweeps only count collisions. */
+  readonly onCollision: 'count';
   readonly successRate: number;
+  /** Wilson score 95 % interval of the success rate. */
+  readonly successRateCi95: Interval95;
+  /** 95 % intervals of the success rate and of the means of realised makespan and finish spread. */
+  readonly ci95: { readonly successRate: Interval95; readonly realisedMakespanMs: Interval95 | null; readonly finishSpreadMs: Interval95 | null };
   readonly collisions: { readonly mean: number; readonly p95: number; readonly total: number };
-  readonly realisedMakespanMs: { readonly mean: number | null; readonly p95: number | null };
-  readonly realisedSocMs: { readonly mean: number | null; readonly p95: number | null };
-  readonly finishSpreadMs: { readonly mean: number | null; readonly p95: number | null };
-  readonly waitingMs: { readonly mean: number | null; readonly p95: number | null };
+  readonly realisedMakespanMs: TaskMetricStats;
+  readonly realisedSocMs: TaskMetricStats;
+  readonly finishSpreadMs: TaskMetricStats;
+  /** Per run the waiting SUMMED over robots, then over runs ("total over robots"). */
+  readonly waitingMs: TaskMetricStats;
+  /** Per run the mean / max over robots of each robot's waiting, then over runs. */
+  readonly waitingPerRobotMs: { readonly mean: TaskMetricStats; readonly max: TaskMetricStats };
   /** Set when the simulator refused the plan; the other figures are then zero/null. */
   readonly error?: string;
 }
