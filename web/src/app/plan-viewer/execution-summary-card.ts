@@ -1,9 +1,27 @@
-/** The figures of one pane: the plan's own (with model and profile) and the simulated fleet's. */
+/**
+ * The figures of one pane: the plan's own (with plan model and robot profile) and the simulated
+ * fleet's, every Monte Carlo figure with its unit and 95 % interval (methods in the footnote).
+ * "Solved" belongs to the plan (the solver found and validated it); "execution success" to the
+ * simulated runs (a run without collision or deadlock).
+ */
 import { ChangeDetectionStrategy, Component, computed, input } from '@angular/core';
-import type { ExecutionSummaryView, PlanFigures } from '@shared/executions';
+import { CI95_METHOD, type Interval95 } from '@shared/confidence-interval';
+import type { ExecutionSummaryView, MetricStatsView, PlanFigures } from '@shared/executions';
 import type { PlanModel, RobotProfile } from '@shared/plan';
 import type { SolverBuild } from '@shared/runs';
+import { meanIntervalOf, p95IntervalOf, successRateInterval, type SummaryWithIntervals } from './summary-intervals';
 import { formatPercent, formatSeconds, profileLine } from './viewer-format';
+
+/** Shown where a figure has no interval. */
+const NO_INTERVAL = 'no interval';
+
+/** One figure row: label with unit, value, its interval text (or why there is none). */
+interface FigureRow {
+  readonly key: string;
+  readonly label: string;
+  readonly value: string;
+  readonly interval: string | null;
+}
 
 /** Summary card of one model's plan and execution. */
 @Component({
@@ -22,36 +40,65 @@ export class ExecutionSummaryCard {
   readonly computedIn = input.required<'server' | 'browser'>();
   /** The server build that solved or checked the plan, when the execution recorded it. */
   readonly computedBy = input<SolverBuild | undefined>(undefined);
+  protected readonly methods = CI95_METHOD;
   protected readonly buildText = computed(() => {
     const b = this.computedBy();
     return b ? `Quarterturn ${b.version} (commit ${b.commit.slice(0, 10)}), Node ${b.node}, ${b.cpuModel}` : null;
   });
   protected readonly profileText = computed(() => profileLine(this.profile()));
   protected readonly noiseText = computed(() => {
-    const n = this.summary().noise;
-    const stall = n.stallProbability > 0 ? ` · stall ${formatPercent(n.stallProbability)} × ${formatSeconds(n.stallMs)}` : '';
-    return `${this.summary().policy} · jitter CV ${n.jitterCv}${stall} · ${this.summary().runs} runs · seed ${this.summary().seed}`;
-  });
-  protected readonly rows = computed(() => {
     const s = this.summary();
-    return [
-      { key: 'success-rate', label: 'Success rate', value: formatPercent(s.successRate) },
-      { key: 'collisions', label: 'Collisions (all runs)', value: String(s.collisions.total) },
-      { key: 'collisions-mean', label: 'Collisions per run (mean / p95)', value: `${+s.collisions.mean.toFixed(2)} / ${s.collisions.p95}` },
-      { key: 'realised-makespan', label: 'Realised makespan (mean / p95)', value: `${formatSeconds(s.realisedMakespanMs.mean)} / ${formatSeconds(s.realisedMakespanMs.p95)}` },
-      { key: 'finish-spread', label: 'Finish spread (mean / p95)', value: `${formatSeconds(s.finishSpreadMs.mean)} / ${formatSeconds(s.finishSpreadMs.p95)}` },
-      { key: 'waiting', label: 'Waiting time (mean)', value: formatSeconds(s.waitingMs.mean) },
-    ];
+    const n = s.noise;
+    const stall = n.stallProbability > 0 ? ` · stall probability ${formatPercent(n.stallProbability)} × ${formatSeconds(n.stallMs)}` : ' · no stalls';
+    return `${s.policy} · timing jitter CV ${n.jitterCv}${stall} · ${s.runs} runs · seed ${s.seed} · on collision: ${s.onCollision === 'count' ? 'count and go on' : 'stop both robots'}`;
   });
+  protected readonly rows = computed((): FigureRow[] => {
+    const s = this.summary() as SummaryWithIntervals;
+    const rate = successRateInterval(s);
+    const perRobot = s.waitingPerRobotMs;
+    const rows: FigureRow[] = [
+      { key: 'success-rate', label: 'Execution success rate (runs without collision or deadlock)', value: formatPercent(s.successRate), interval: rate ? percentRange(rate) : null },
+      { key: 'collisions', label: 'Collisions, all runs (count)', value: String(s.collisions.total), interval: null },
+      { key: 'collisions-mean', label: 'Collisions per run (mean / p95)', value: `${+s.collisions.mean.toFixed(2)} / ${s.collisions.p95}`, interval: null },
+      ...metricRows('realised-makespan', 'Realised makespan, s', s.realisedMakespanMs),
+      ...metricRows('finish-spread', 'Finish spread, s', s.finishSpreadMs),
+    ];
+    if (perRobot) {
+      rows.push(
+        { key: 'waiting-robot-mean', label: 'Waiting per robot, mean over robots, s (mean over runs)', value: formatSeconds(perRobot.mean.mean), interval: secondsRange(meanIntervalOf(perRobot.mean)) },
+        { key: 'waiting-robot-max', label: 'Waiting per robot, longest robot, s (mean over runs)', value: formatSeconds(perRobot.max.mean), interval: secondsRange(meanIntervalOf(perRobot.max)) },
+      );
+    }
+    rows.push({ key: 'waiting', label: 'Waiting, total over robots, s (mean over runs)', value: formatSeconds(s.waitingMs.mean), interval: secondsRange(meanIntervalOf(s.waitingMs)) });
+    return rows;
+  });
+  /** Whether some interval is missing (summary stored before intervals were recorded, or too few runs). */
+  protected readonly hasMissingInterval = computed(() => this.rows().some((r) => r.interval?.includes(NO_INTERVAL) ?? false));
   protected readonly planRows = computed(() => {
     const f = this.figures();
     const unit = f.unit === 'ms' ? ' ms' : ' steps';
     return [
-      { key: 'soc', label: 'Sum-of-costs', value: f.soc === null ? '–' : `${f.soc}${unit}` },
-      { key: 'makespan', label: 'Makespan', value: f.makespan === null ? '–' : `${f.makespan}${unit}` },
-      { key: 'turn-inclusive-makespan', label: 'Turn-inclusive makespan', value: formatSeconds(f.turnInclusiveMakespanMs) },
-      { key: 'lower-bound', label: 'Lower bound', value: f.lowerBound === null ? '–' : `${f.lowerBound}${unit}` },
-      { key: 'solve-time', label: 'Solve time', value: f.solveTimeMs === null ? '–' : `${f.solveTimeMs < 10 ? f.solveTimeMs.toFixed(1) : Math.round(f.solveTimeMs)} ms` },
+      { key: 'soc', label: `Sum-of-costs (${f.unit})`, value: f.soc === null ? '–' : `${f.soc}${unit}` },
+      { key: 'makespan', label: `Makespan (${f.unit})`, value: f.makespan === null ? '–' : `${f.makespan}${unit}` },
+      { key: 'turn-inclusive-makespan', label: 'Turn-inclusive makespan, s', value: formatSeconds(f.turnInclusiveMakespanMs) },
+      { key: 'lower-bound', label: `Lower bound (${f.unit})`, value: f.lowerBound === null ? '–' : `${f.lowerBound}${unit}` },
+      { key: 'solve-time', label: 'Solve time, ms', value: f.solveTimeMs === null ? '–' : `${f.solveTimeMs < 10 ? f.solveTimeMs.toFixed(1) : Math.round(f.solveTimeMs)} ms` },
     ];
   });
+}
+
+/** The mean / p95 row of a metric in seconds, with the interval of each. */
+function metricRows(key: string, label: string, m: MetricStatsView): FigureRow[] {
+  const interval = `mean ${secondsRange(meanIntervalOf(m))} · p95 ${secondsRange(p95IntervalOf(m))}`;
+  return [{ key, label: label.replace(', s', ' (mean / p95 over runs), s'), value: `${formatSeconds(m.mean)} / ${formatSeconds(m.p95)}`, interval }];
+}
+
+function percentRange([lo, hi]: Interval95): string {
+  return `${formatPercent(lo)} – ${formatPercent(hi)}`;
+}
+
+/** "44.1 – 47.3 s", or NO_INTERVAL. */
+function secondsRange(i: Interval95 | null): string {
+  if (!i) return NO_INTERVAL;
+  return `${formatSeconds(i[0]).replace(' s', '')} – ${formatSeconds(i[1])}`;
 }

@@ -1,9 +1,16 @@
-/** The per-robot timeline of one run on a canvas, with a legend and the clock's cursor. */
+/**
+ * The per-robot timeline of one run on a canvas, with a legend and the clock's cursor; the chain
+ * that set the realised makespan (if given) is outlined over the bars.
+ */
 import { ChangeDetectionStrategy, Component, ElementRef, computed, effect, inject, input, viewChild } from '@angular/core';
 import { CONTEXT_2D, offscreenCanvas } from './canvas-context';
 import { GANTT_KINDS, GANTT_LABELS, ganttRowHeight, type GanttSegments } from './gantt-layout';
+import type { ChainSegment } from './run-attribution';
 import type { ReplayClock } from './replay-clock';
 import { GANTT_COLOURS } from './viewer-palette';
+
+/** Outline of the chain that set the realised makespan (near black, apart from every bar colour). */
+const CHAIN_COLOUR = '#1b1b1f';
 
 /** Height left for the time axis under the rows, px. */
 const AXIS_PX = 18;
@@ -26,12 +33,14 @@ export function tickStep(span: number, target = 6): number {
       @for (k of kinds; track k) {
         <li><span class="swatch" [style.background]="colours[k]"></span>{{ labels[k] }}</li>
       }
+      @if (chain().length > 0) { <li><span class="swatch is-chain"></span>Chain that set the realised makespan</li> }
     </ul>`,
   styles: [`
     :host { display: block; }
     canvas { display: block; max-width: 100%; }
     .legend { display: flex; flex-wrap: wrap; gap: 4px 14px; list-style: none; margin: 6px 0 0; padding: 0; font: var(--mat-sys-body-small); }
     .swatch { display: inline-block; width: 10px; height: 10px; margin-right: 5px; border-radius: 2px; vertical-align: -1px; }
+    .swatch.is-chain { width: 8px; height: 8px; border: 1px solid; border-color: #1b1b1f; background: transparent; }
   `],
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
@@ -42,6 +51,8 @@ export class GanttChart {
   readonly clock = input.required<ReplayClock>();
   readonly widthPx = input(560);
   readonly label = input('Per-robot timeline');
+  /** Segments of the chain that set the realised makespan (robots 0-based), outlined. */
+  readonly chain = input<readonly ChainSegment[]>([]);
   private readonly canvas = viewChild.required<ElementRef<HTMLCanvasElement>>('canvas');
   protected readonly kinds = GANTT_KINDS;
   protected readonly labels = GANTT_LABELS;
@@ -73,6 +84,13 @@ export class GanttChart {
           const x0 = segs.t0[i] * scale;
           bctx.fillRect(x0, segs.robot[i] * row + gap, Math.max(1, (segs.t1[i] - segs.t0[i]) * scale), row - 2 * gap);
         }
+      }
+      // The chain on top: a dark outline, thick enough to read on any bar colour.
+      bctx.strokeStyle = CHAIN_COLOUR;
+      bctx.lineWidth = 2;
+      for (const c of this.chain()) {
+        const x0 = c.fromMs * scale;
+        bctx.strokeRect(x0 + 1, c.robot * row + 1, Math.max(2, (c.toMs - c.fromMs) * scale - 2), Math.max(2, row - 2));
       }
       const axisY = this.robotCount() * row;
       const step = tickStep(horizon);

@@ -7,14 +7,17 @@ import { TestbedHarnessEnvironment } from '@angular/cdk/testing/testbed';
 import { MatButtonHarness } from '@angular/material/button/testing';
 import { MatInputHarness } from '@angular/material/input/testing';
 import { MatSelectHarness } from '@angular/material/select/testing';
+import { CI95_METHOD, wilsonInterval } from '@shared/confidence-interval';
 import type { ExecutionView, InstanceExecutionInput } from '@shared/executions';
+import type { StoredResultExecutionsView } from '@shared/stored-executions';
 import { SAFETY_NOTE } from '@shared/executions-constants';
 import type { PlanModel } from '@shared/plan';
-import { simulateExecution } from '@solvers/execute';
+import { realisedTimeline, simulateExecution } from '@solvers/execute';
 import { scheduleFromPaths } from '@solvers/models/turn-schedule';
 import { CONTEXT_2D } from './canvas-context';
 import { TEST_PROFILE, testInstance } from './plan-viewer-testing';
 import PlanViewer from './plan-viewer';
+import { formatPercent, formatSeconds } from './viewer-format';
 
 // Four robots nose to tail in a 12-cell lane, each driving 7 cells east (an invented instance).
 const ROWS = ['............'];
@@ -26,7 +29,7 @@ function serverView(id: number, model: PlanModel, body: InstanceExecutionInput):
   const turned = scheduleFromPaths(instance, paths, TEST_PROFILE, { startHeading: 'free', stretch: model === 'uniform-duration' ? 'uniform' : 'none' });
   const plan = { timeline: 'steps' as const, schedule: turned.schedule };
   const summary = simulateExecution(instance, plan, TEST_PROFILE, {
-    policy: body.policy, noise: body.noise, seed: body.seed ?? 1, runs: body.runs ?? 20,
+    policy: body.policy, noise: body.noise, seed: body.seed ?? 1, runs: body.runs ?? 20, onCollision: body.onCollision,
   });
   return {
     id, createdAt: '2026-05-01T10:00:00.000Z', owner: { id: 1, login: 'someone' },
@@ -129,7 +132,7 @@ describe('PlanViewer', () => {
     await settle();
     expect(metric(0, 'collisions')).toBe('0');
     expect(metric(0, 'success-rate')).toBe('100%');
-    expect(el.querySelector('[data-testid="noise"]')?.textContent).toContain('dependency-gated · jitter CV 0.3');
+    expect(el.querySelector('[data-testid="noise"]')?.textContent).toContain('dependency-gated · timing jitter CV 0.3');
   });
 
   it('re-runs on the server with the same plan sent as a schedule', async () => {
@@ -148,30 +151,162 @@ describe('PlanViewer', () => {
     expect(el.querySelector('[data-testid="noise"]')?.textContent).toContain('lockstep');
   });
 
-  it('replays a stored result by its id, names it as the source, and re-runs it on the server by the same id', async () => {
+  /** What the sweep stored for result 41: its three policies, replayed with jitter 0.15, 5 % stalls of 1.5 s, 25 runs, seed 7. */
+  const STORED_SETTINGS = { noise: { jitterCv: 0.15, stallProbability: 0.05, stallMs: 1500 }, runs: 25, seed: 7, onCollision: 'count' as const };
+  function storedView(profile = TEST_PROFILE): StoredResultExecutionsView {
+    return {
+      resultId: 41, sweepId: 3, model: 'classic', profile,
+      executions: (['open-loop', 'lockstep', 'dependency-gated'] as const).map((policy) => {
+        // The stored figures are what the sweep's simulator computed with these settings (the real simulator here too).
+        const s = serverView(0, 'classic', { policy, ...STORED_SETTINGS } as InstanceExecutionInput).summary;
+        return {
+          settings: { policy, ...STORED_SETTINGS },
+          figures: { successRate: s.successRate, collisions: s.collisions, realisedMakespanMs: s.realisedMakespanMs, realisedSocMs: s.realisedSocMs, finishSpreadMs: s.finishSpreadMs, waitingMs: s.waitingMs },
+          recorded: { seed: true, onCollision: true },
+          error: null,
+        };
+      }),
+    };
+  }
+
+  /** Opens result 41: answers the stored replays, then the POST the page sends, with the real simulator. */
+  async function openStored(policy?: string): Promise<TestRequest> {
+    fixture.componentRef.setInput('result', '41');
+    if (policy) fixture.componentRef.setInput('policy', policy);
+    await fixture.whenStable();
+    backend.expectOne({ method: 'GET', url: '/api/executions/stored/41' }).flush(storedView());
+    await settle();
+    return answerStoredPost(11);
+  }
+
+  async function answerStoredPost(id: number): Promise<TestRequest> {
+    const req = backend.expectOne({ method: 'POST', url: '/api/executions' });
+    const view = serverView(id, 'classic', { ...req.request.body, instance: { scenarioId: 5, agents: 4 }, model: 'classic', profile: TEST_PROFILE } as InstanceExecutionInput);
+    req.flush({ ...view, source: { ...view.source, resultId: 41, sweepId: 3 }, plan: { ...view.plan, origin: 'result' } });
+    await settle();
+    return req;
+  }
+
+  it('opens a stored result with exactly the settings its sweep stored, and says its figures are the stored ones', async () => {
+    const req = await openStored();
+    expect(req.request.body).toEqual({ resultId: 41, policy: 'open-loop', ...STORED_SETTINGS });
+    expect(el.querySelector('.source')?.textContent).toContain('stored result 41 of sweep 3');
+    expect(el.querySelector('[data-testid="stored-check"]')?.textContent).toContain('all 7 stored figures compared equal to the digit');
+    expect(el.querySelector('[data-testid="what-if"]')).toBeNull();
+    expect(el.querySelector('[data-testid="noise"]')?.textContent).toContain('open-loop · timing jitter CV 0.15 · stall probability 5.0% × 1.5 s · 25 runs · seed 7');
+    const stored = storedView().executions[0].figures;
+    expect(metric(0, 'success-rate')).toBe(formatPercent(stored.successRate));
+    // The form shows the stored settings, so a re-run without changes is the stored replay again.
+    const jitter = await loader.getHarness(MatInputHarness.with({ selector: '[formControlName="jitterCv"]' }));
+    expect(await jitter.getValue()).toBe('0.15');
+    expect(await (await loader.getHarness(MatInputHarness.with({ selector: '[formControlName="seed"]' }))).getValue()).toBe('7');
+    // Stored policy buttons: the shown one is pressed.
+    const pressed = Array.from(el.querySelectorAll('[data-testid="stored"] button'), (b) => [b.textContent?.trim(), b.getAttribute('aria-pressed')]);
+    expect(pressed).toEqual([['open-loop', 'true'], ['lockstep', 'false'], ['dependency-gated', 'false']]);
+  });
+
+  it('opens the stored policy named in the query, and switches to another stored policy with its stored settings', async () => {
+    const req = await openStored('dependency-gated');
+    expect(req.request.body).toMatchObject({ policy: 'dependency-gated', seed: 7, runs: 25 });
+    await (await loader.getHarness(MatButtonHarness.with({ text: 'lockstep', ancestor: '[data-testid="stored"]' }))).click();
+    const again = await answerStoredPost(12);
+    expect(again.request.body).toEqual({ resultId: 41, policy: 'lockstep', ...STORED_SETTINGS });
+    expect(el.querySelector('[data-testid="stored-check"]')?.textContent).toContain('(lockstep)');
+  });
+
+  it('a changed setting is a labelled what-if naming what differs, with the stored figures beside it and a way back', async () => {
+    await openStored();
+    const jitter = await loader.getHarness(MatInputHarness.with({ selector: '[formControlName="jitterCv"]' }));
+    await jitter.setValue('0.3');
+    await settle();
+    expect(el.querySelector('[data-testid="pending-what-if"]')?.textContent).toContain('what-if: jitter CV 0.3 instead of 0.15');
+    await (await loader.getHarness(MatButtonHarness.with({ text: 'Re-run in browser' }))).click();
+    await settle();
+
+    const banner = el.querySelector('[data-testid="what-if"]')?.textContent ?? '';
+    expect(banner).toContain('What-if: these are not the stored figures.');
+    expect(banner).toContain('jitter CV 0.3 instead of 0.15');
+    expect(banner).toContain(`Stored figures: open-loop: execution success rate ${formatPercent(storedView().executions[0].figures.successRate)}`);
+    expect(el.querySelector('[data-testid="stored-check"]')).toBeNull();
+    expect(el.querySelector('[data-testid="noise"]')?.textContent).toContain('jitter CV 0.3');
+
+    await (await loader.getHarness(MatButtonHarness.with({ text: 'Back to the stored figures' }))).click();
+    const back = await answerStoredPost(12);
+    expect(back.request.body).toEqual({ resultId: 41, policy: 'open-loop', ...STORED_SETTINGS });
+    expect(el.querySelector('[data-testid="what-if"]')).toBeNull();
+    expect(await jitter.getValue()).toBe('0.15');
+    expect(el.querySelector('[data-testid="stored-check"]')?.textContent).toContain('compared equal');
+  });
+
+  it('a re-run in the browser with the stored settings is no what-if and reproduces the stored figures', async () => {
+    await openStored();
+    await (await loader.getHarness(MatButtonHarness.with({ text: 'Re-run in browser' }))).click();
+    await settle();
+    expect(el.querySelector('app-execution-summary-card')!.textContent).toContain('computed in this browser');
+    expect(el.querySelector('[data-testid="what-if"]')).toBeNull();
+    expect(el.querySelector('[data-testid="stored-check"]')?.textContent).toContain('all 7 stored figures compared equal to the digit');
+  });
+
+  it('a stored result without stored replays (a submitted plan) says so and uses the form settings', async () => {
     fixture.componentRef.setInput('result', '41');
     await fixture.whenStable();
-    const req = backend.expectOne({ method: 'POST', url: '/api/executions' });
+    backend.expectOne({ method: 'GET', url: '/api/executions/stored/41' }).flush({ ...storedView(), sweepId: null, executions: [] });
+    await settle();
+    const req = await answerStoredPost(11);
     expect(req.request.body).toEqual({ resultId: 41, policy: 'open-loop', noise: { jitterCv: 0, stallProbability: 0, stallMs: 0 }, seed: 1, runs: 20, onCollision: 'count' });
-    const view = serverView(11, 'classic', { ...req.request.body, instance: { scenarioId: 5, agents: 4 }, model: 'classic', profile: TEST_PROFILE } as InstanceExecutionInput);
-    const computedBy = { version: '0.1.0', commit: '0123456789abcdef', node: 'v20.20.2', cpuModel: 'Test CPU', threads: 1 };
-    req.flush({ ...view, source: { ...view.source, resultId: 41, sweepId: 3 }, plan: { ...view.plan, origin: 'result' }, computedBy });
-    await settle();
-    expect(el.querySelector('.source')?.textContent).toContain('stored result 41 of sweep 3');
-    expect(el.querySelector('[data-testid="computed-by"]')?.textContent?.trim()).toBe('Quarterturn 0.1.0 (commit 0123456789), Node v20.20.2, Test CPU');
-    // The picker took the shown plan's instance and profile, ready to compare it with a second model.
-    const scenarioSelect = await loader.getHarness(MatSelectHarness.with({ selector: '[formControlName="scenarioId"]' }));
-    expect(await scenarioSelect.getValueText()).toBe('lane-queue.scen (up to 4 agents)');
-    const quarterTurn = await loader.getHarness(MatInputHarness.with({ selector: '[formControlName="quarterTurnMs"]' }));
-    expect(await quarterTurn.getValue()).toBe(String(TEST_PROFILE.quarterTurnMs));
-    expect(metric(0, 'success-rate')).toBe('100%');
+    expect(el.querySelector('[data-testid="stored"]')?.textContent).toContain('has no stored replays');
+    expect(el.querySelector('[data-testid="what-if"]')).toBeNull();
+  });
 
-    await (await loader.getHarness(MatButtonHarness.with({ text: 'Re-run on server' }))).click();
-    const again = backend.expectOne({ method: 'POST', url: '/api/executions' });
-    expect(again.request.body).toMatchObject({ resultId: 41, policy: 'open-loop' });
-    expect(again.request.body).not.toHaveProperty('plan');
-    again.flush({ ...view, id: 12, source: { ...view.source, resultId: 41, sweepId: 3 } });
+  it('every Monte Carlo figure carries its unit and 95 % interval, the methods are named, waiting is per robot and the total is labelled', async () => {
+    await openStored();
+    const card = el.querySelector('app-execution-summary-card')!;
+    const s = storedView().executions[0].figures;
+    // Wilson interval recomputed from rate × runs when the summary has none (shared/confidence-interval.ts).
+    const [lo, hi] = wilsonInterval(Math.round(s.successRate * 25), 25);
+    expect(card.querySelector('[data-interval="success-rate"]')?.textContent).toContain(`${formatPercent(lo)} – ${formatPercent(hi)}`);
+    expect(card.querySelector('[data-metric="realised-makespan"] dt')?.textContent).toContain('Realised makespan (mean / p95 over runs), s');
+    expect(card.querySelector('[data-interval="realised-makespan"]')).not.toBeNull();
+    expect(card.querySelector('[data-metric="waiting"] dt')?.textContent).toContain('total over robots');
+    expect(card.querySelector('[data-testid="ci-methods"]')?.textContent).toContain(CI95_METHOD.rate);
+    expect(card.querySelector('[data-testid="ci-methods"]')?.textContent).toContain(CI95_METHOD.mean);
+    expect(card.querySelector('[data-testid="profile"]')?.textContent).toContain('Robot profile: forward 1000 ms');
+    expect(card.textContent).toContain('Plan model classic');
+    expect(card.textContent).toContain('Execution success rate');
+    expect(el.querySelector('[role="note"]')?.textContent?.trim()).toBe(SAFETY_NOTE);
+  });
+
+  it('names who waited in the drawn run under dependency-gated execution, robot by robot as the simulator attributed it', async () => {
+    await openStored('dependency-gated');
+    const section = el.querySelector('[data-testid="attribution"]');
+    expect(section?.querySelector('h3')?.textContent).toContain('Who waited for whom, run 1');
+    const waits = Array.from(section?.querySelectorAll('.waits li') ?? [], (li) => li.textContent?.trim() ?? '');
+    // The same run, simulated here: the robots that waited, most waiting first.
+    const turned = scheduleFromPaths(instance, paths, TEST_PROFILE, { startHeading: 'free', stretch: 'none' });
+    const timeline = realisedTimeline(instance, { timeline: 'steps', schedule: turned.schedule }, TEST_PROFILE, { policy: 'dependency-gated', ...STORED_SETTINGS }, 0);
+    const waited = timeline.robots.map((a, r) => ({ r, ms: a.reduce((sum, x) => sum + x.waitedMs, 0) })).filter((w) => w.ms > 0).sort((a, b) => b.ms - a.ms || a.r - b.r);
+    // Jitter 0.15 and stalls on nose-to-tail followers: run 1 holds some follower (checked, so the list is not empty by luck).
+    expect(waited.length).toBeGreaterThan(0);
+    expect(waits).toHaveLength(waited.length);
+    waits.forEach((w, i) => expect(w.startsWith(`robot ${waited[i].r + 1} waited ${formatSeconds(waited[i].ms)}`)).toBe(true));
+  });
+
+  it('warns with the derivation when the robot diameter exceeds pitch/√2, and says the plan allows following', async () => {
+    await open('classic');
+    const req = backend.expectOne({ method: 'POST', url: '/api/executions' });
+    // 750 mm robots on a 1000 mm pitch: 750 > 1000/√2 ≈ 707.1 mm but not > 1000 mm (worked by hand).
+    req.flush({ ...serverView(11, 'classic', req.request.body as InstanceExecutionInput), profile: { ...TEST_PROFILE, robotDiameterMm: 750 } });
     await settle();
+    const hazard = el.querySelector('[data-testid="following-hazard"]')?.textContent ?? '';
+    expect(hazard).toContain('collide in right-angle following (diameter above p/√2 = 707.1 mm)');
+    expect(hazard).toContain('The classic plan was solved with following allowed (the classic rule).');
+    expect(hazard).toContain('least distance is p/√2 = 707.1 mm');
+  });
+
+  it('shows no following warning for 700 mm robots on a 1000 mm pitch (700 < 707.1 mm)', async () => {
+    await open('classic');
+    await answerPost(11, 'classic');
+    expect(el.querySelector('[data-testid="following-hazard"]')).toBeNull();
   });
 
   it('shows two models side by side, each with its own figures, timeline and histogram', async () => {

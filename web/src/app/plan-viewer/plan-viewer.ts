@@ -5,9 +5,13 @@
  * here in the browser (solvers/execute) or on the server.
  *
  * Query: `scenario`, `agents`, `model`, optional `compare` (second model), `heading` (start
- * heading) and `profile` (forward,quarterTurn,wait,pitch,diameter); or `execution=ID[,ID]`.
+ * heading) and `profile` (forward,quarterTurn,wait,pitch,diameter); or `execution=ID[,ID]`; or
+ * `result=ID[,ID]` with optional `policy`. A stored sweep result opens with exactly the settings
+ * its sweep replayed it with (GET /api/executions/stored/:id), so the page shows the stored
+ * figures; any other setting is a what-if, labelled with what differs, with a way back.
  */
 import { ChangeDetectionStrategy, Component, DestroyRef, computed, effect, inject, input, signal, untracked } from '@angular/core';
+import { toSignal } from '@angular/core/rxjs-interop';
 import { ReactiveFormsModule, NonNullableFormBuilder, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
@@ -18,6 +22,7 @@ import { MatSliderModule } from '@angular/material/slider';
 import { Router } from '@angular/router';
 import { firstValueFrom } from 'rxjs';
 import type { ExecutionSummaryView, ExecutionView, InstanceExecutionInput } from '@shared/executions';
+import type { StoredResultExecutionsView } from '@shared/stored-executions';
 import {
   COLLISION_MODES, EXECUTION_LIMITS, EXECUTION_POLICY_NAMES, SAFETY_NOTE, STARTER_PROFILE,
   type CollisionModeName, type ExecutionPolicyName,
@@ -27,29 +32,19 @@ import type { MapfInstance } from '@solvers/instance';
 import { ExecutionApi } from './execution-api';
 import { ExecutionSummaryCard } from './execution-summary-card';
 import { FinishHistogramChart } from './finish-histogram-chart';
-import { finishTimes } from './finish-histogram';
 import { FleetCanvas } from './fleet-canvas';
 import { rerunInBrowser, toMapfInstance, trackOfRun, type RerunSettings } from './fleet-rerun';
-import type { FleetTrack } from './fleet-track';
 import { GanttChart } from './gantt-chart';
-import { ganttSegments, type GanttSegments } from './gantt-layout';
 import { PlanPicker, type PlanChoice } from './plan-picker';
 import { REPLAY_SPEEDS, ReplayClock } from './replay-clock';
+import {
+  replayablePolicies, settingsDifferences, storedFiguresLine, storedOfPolicy, storedReplayFor, type BatchSettings,
+} from './stored-settings';
 import { formatSeconds } from './viewer-format';
 import { GANTT_COLOURS } from './viewer-palette';
+import { paneWith, type ViewerPane } from './viewer-pane';
 
-/** One model's column: the stored execution, the summary shown and the run drawn. */
-export interface ViewerPane {
-  readonly execution: ExecutionView;
-  readonly instance: MapfInstance;
-  readonly summary: ExecutionSummaryView;
-  readonly computedIn: 'server' | 'browser';
-  readonly track: FleetTrack | null;
-  readonly segments: GanttSegments | null;
-  readonly finishes: readonly number[];
-  /** Run drawn, 0-based. */
-  readonly shownRun: number;
-}
+export type { ViewerPane } from './viewer-pane';
 
 /** The plan viewer page. */
 @Component({
@@ -82,6 +77,8 @@ export default class PlanViewer {
   readonly execution = input<string>();
   /** Query: stored result ids (sweep or submitted plans), comma-separated; two are shown side by side. */
   readonly result = input<string>();
+  /** Query: with `result`, which of the policies the sweep stored to open (default open-loop, else the first stored). */
+  readonly policy = input<string>();
 
   protected readonly safetyNote = SAFETY_NOTE;
   protected readonly policies = EXECUTION_POLICY_NAMES;
@@ -117,13 +114,38 @@ export default class PlanViewer {
     return `${s.scenarioName ?? 'tasks on ' + s.mapName} · map ${s.mapName} (${first.instance.width}×${first.instance.height}) · ${first.instance.agents.length} agents${stored}`;
   });
   protected readonly canvasPx = computed(() => (this.panes().length > 1 ? 440 : 620));
+  /** The policies the sweep stored for the shown result (the first pane's), each openable with its stored settings. */
+  protected readonly storedPolicies = computed(() => {
+    const stored = this.panes()[0]?.stored;
+    return stored ? replayablePolicies(stored).map((e) => e.settings.policy) : [];
+  });
+  /** The shown policy when it is one of the stored replays with the stored settings, else null. */
+  protected readonly shownStoredPolicy = computed(() => {
+    const first = this.panes()[0];
+    return first && first.stored && first.whatIf.length === 0 && first.stored.executions.length > 0 ? first.summary.policy : null;
+  });
+  private readonly formValue = toSignal(this.settings.valueChanges, { initialValue: this.settings.getRawValue() });
+  /** What re-running with the form's settings would change against the stored settings (a what-if), when it is not what is shown. */
+  protected readonly pendingWhatIf = computed(() => {
+    this.formValue();
+    const first = this.panes()[0];
+    if (!first?.stored || first.stored.executions.length === 0 || this.settings.invalid) return [];
+    const next = settingsDifferences(first.stored, this.batchSettings(this.rerunSettings()));
+    return next.join() === first.whatIf.join() ? [] : next;
+  });
+  /** The stored figures of a pane's shown policy (or its first stored replay), for the what-if banner. */
+  protected storedLine(pane: ViewerPane): string | null {
+    if (!pane.stored) return null;
+    const replay = storedOfPolicy(pane.stored, pane.summary.policy) ?? storedReplayFor(pane.stored);
+    return replay ? storedFiguresLine(replay) : null;
+  }
 
   constructor() {
     inject(DestroyRef).onDestroy(() => this.clock.destroy());
     effect(() => {
       const query = {
         scenario: this.scenario(), agents: this.agents(), model: this.model(), compare: this.compare(),
-        heading: this.heading(), profile: this.profile(), execution: this.execution(), result: this.result(),
+        heading: this.heading(), profile: this.profile(), execution: this.execution(), result: this.result(), policy: this.policy(),
       };
       untracked(() => void this.openFromQuery(query));
     });
@@ -184,19 +206,51 @@ export default class PlanViewer {
     });
   }
 
+  /**
+   * Shows the stored replay of `policy` (or of the shown policy) for every pane that shows a stored
+   * result: re-executes it with exactly the settings its sweep used, so the figures are the stored ones.
+   */
+  protected async showStored(policy?: string): Promise<void> {
+    if (this.panes().length === 0) return;
+    const wanted = policy ?? this.panes()[0].summary.policy;
+    await this.busy(async () => {
+      const next: ViewerPane[] = [];
+      for (const pane of this.panes()) {
+        const replay = pane.stored ? storedReplayFor(pane.stored, wanted) : null;
+        if (!pane.stored || !replay || pane.execution.source.resultId === undefined) {
+          next.push(pane);
+          continue;
+        }
+        const e = await firstValueFrom(this.api.create({ resultId: pane.execution.source.resultId, ...replay.settings }));
+        next.push(this.serverPane(e, pane.stored, pane.shownRun));
+      }
+      const first = next[0];
+      if (first) this.adoptSettings(first.summary);
+      this.showPanes(next);
+    });
+  }
+
   private async openFromQuery(q: Record<string, string | undefined>): Promise<void> {
     this.problem.set(null);
     const settings = this.rerunSettings();
     await this.busy(async () => {
       let executions: ExecutionView[];
-      if (q['execution']) {
+      const storedViews: (StoredResultExecutionsView | null)[] = [];
+      if (q['result']) {
+        // A stored result opens with the settings its sweep replayed it with (same figures as the leaderboard).
+        const ids = idList(q['result']);
+        executions = [];
+        for (const resultId of ids) {
+          const stored = await firstValueFrom(this.api.stored(resultId));
+          const replay = storedReplayFor(stored, q['policy']);
+          executions.push(await firstValueFrom(this.api.create({ resultId, ...(replay ? replay.settings : this.requestSettings(settings)) })));
+          storedViews.push(stored);
+        }
+        if (executions[0]) this.adoptSettings(executions[0].summary);
+      } else if (q['execution']) {
         const ids = idList(q['execution']);
         executions = await Promise.all(ids.map((id) => firstValueFrom(this.api.get(id))));
         if (executions[0]) this.adoptSettings(executions[0].summary);
-      } else if (q['result']) {
-        const ids = idList(q['result']);
-        executions = [];
-        for (const resultId of ids) executions.push(await firstValueFrom(this.api.create({ resultId, ...this.requestSettings(settings) })));
       } else if (q['scenario'] && q['agents'] && q['model']) {
         const models = [q['model'], q['compare']].filter((m): m is PlanModel => m !== undefined && (PLAN_MODELS as readonly string[]).includes(m));
         const unique = [...new Set(models)];
@@ -213,13 +267,24 @@ export default class PlanViewer {
         this.showPanes([]);
         return;
       }
-      this.showPanes(executions.map((e) => {
-        const instance = toMapfInstance(e.instance);
-        const shown = Math.min(settings.shownRun, e.summary.runs - 1);
-        const track = trackOfRun(instance, e.plan, e.profile, { ...this.rerunSettingsFrom(e.summary), shownRun: shown });
-        return paneWith({ execution: e, instance } as ViewerPane, e.summary, 'server', track, shown);
-      }));
+      this.showPanes(executions.map((e, i) => this.serverPane(e, storedViews[i] ?? null, settings.shownRun)));
     });
+  }
+
+  /** A pane of an execution computed on the server, drawing run `shownRun` (clamped to its runs). */
+  private serverPane(e: ExecutionView, stored: StoredResultExecutionsView | null, shownRun: number): ViewerPane {
+    const instance = toMapfInstance(e.instance);
+    const shown = Math.max(0, Math.min(shownRun, e.summary.runs - 1));
+    const track = trackOfRun(instance, e.plan, e.profile, { ...this.rerunSettingsFrom(e.summary), shownRun: shown });
+    return paneWith({ execution: e, instance, stored }, e.summary, 'server', track, shown);
+  }
+
+  /** The batch settings of a re-run (what a stored replay's settings are compared with). */
+  private batchSettings(s: RerunSettings): BatchSettings {
+    return {
+      policy: s.policy, runs: s.runs, seed: s.seed, onCollision: s.onCollision,
+      noise: { jitterCv: s.noise.jitterCv ?? 0, stallProbability: s.noise.stallProbability ?? 0, stallMs: s.noise.stallMs ?? 0 },
+    };
   }
 
   private showPanes(panes: readonly ViewerPane[]): void {
@@ -271,15 +336,6 @@ export default class PlanViewer {
       seed: s.seed, runs: s.runs, onCollision: s.onCollision,
     });
   }
-}
-
-/** A pane with a new summary and shown run (Gantt and finish times derived from the track). */
-function paneWith(pane: ViewerPane, summary: ExecutionSummaryView, computedIn: 'server' | 'browser', track: FleetTrack | null, shownRun: number): ViewerPane {
-  return {
-    ...pane, summary, computedIn, track, shownRun,
-    segments: track ? ganttSegments(track) : null,
-    finishes: track ? finishTimes(track) : [],
-  };
 }
 
 /** The profile from `forward,quarterTurn,wait,pitch,diameter`, or the starter profile (no jitter: noise is set separately). */

@@ -1,0 +1,58 @@
+import type { RunTimeline } from '@solvers/execute';
+import { runAttribution } from './run-attribution';
+import { testInstance } from './plan-viewer-testing';
+import { realisedTimeline } from '@solvers/execute';
+import { scheduleFromPaths } from '@solvers/models/turn-schedule';
+import { TEST_PROFILE } from './plan-viewer-testing';
+
+/** A timeline with the simulator's attribution fields (contract C3 of issue 12), worked by hand. */
+function attributed(extra: object): RunTimeline {
+  return { robots: [[], [], []], metrics: {} as RunTimeline['metrics'], ...extra } as unknown as RunTimeline;
+}
+
+describe('runAttribution', () => {
+  it('says who waited for whom, most waiting first, robots numbered from 1', () => {
+    const a = runAttribution(attributed({
+      waitByRobot: [
+        { robot: 0, waitedMs: 0, waitedFor: [] },
+        { robot: 1, waitedMs: 400, waitedFor: [{ robot: 0, ms: 400 }] },
+        { robot: 2, waitedMs: 1200, waitedFor: [{ robot: 1, ms: 800 }, { robot: 0, ms: 400 }] },
+      ],
+      criticalChain: [
+        { robot: 0, fromMs: 0, toMs: 3000, reason: 'own', waitedFor: null },
+        { robot: 2, fromMs: 3000, toMs: 3400, reason: 'dependency', waitedFor: 0 },
+        { robot: 2, fromMs: 3400, toMs: 9000, reason: 'own', waitedFor: null },
+      ],
+    }), 'dependency-gated');
+    expect(a.waits).toEqual(['robot 3 waited 1.2 s: 0.8 s for robot 2, 0.4 s for robot 1', 'robot 2 waited 0.4 s: 0.4 s for robot 1']);
+    expect(a.chain).toEqual([
+      'robot 1 drove its own actions, 0 s to 3 s',
+      'robot 3 waited on a dependency for robot 1, 3 s to 3.4 s',
+      'robot 3 drove its own actions, 3.4 s to 9 s',
+    ]);
+    expect(a.chainSegments).toHaveLength(3);
+    expect(a.note).toBeNull();
+  });
+
+  it('explains an empty list: open-loop never waits, gating that held nobody leaves the makespan unchanged', () => {
+    const none = { waitByRobot: [{ robot: 0, waitedMs: 0, waitedFor: [] }], criticalChain: [{ robot: 0, fromMs: 0, toMs: 5000, reason: 'own', waitedFor: null }] };
+    expect(runAttribution(attributed(none), 'open-loop').note).toMatch(/^Open-loop: no robot waits/);
+    expect(runAttribution(attributed(none), 'dependency-gated').note).toMatch(/gating never held anyone/);
+  });
+
+  it('without the attribution fields, sums each robot\'s waits from its realised actions and says whom is unknown', () => {
+    // Nose-to-tail lane, dependency-gated with jitter: the simulator holds followers (run 0 of seed 1).
+    const instance = testInstance('........', [[2, 7], [1, 6], [0, 5]]);
+    const paths = [[2, 3, 4, 5, 6, 7], [1, 2, 3, 4, 5, 6], [0, 1, 2, 3, 4, 5]];
+    const { schedule } = scheduleFromPaths(instance, paths, TEST_PROFILE, { startHeading: 'free', stretch: 'none' });
+    const timeline = realisedTimeline(instance, { timeline: 'steps', schedule }, TEST_PROFILE, { policy: 'dependency-gated', noise: { jitterCv: 0.3 }, seed: 1 }, 0);
+    const plain = { robots: timeline.robots, metrics: timeline.metrics } as RunTimeline;
+    const sums = plain.robots.map((acts) => acts.reduce((s, x) => s + x.waitedMs, 0));
+    const a = runAttribution(plain, 'dependency-gated');
+    expect(sums.filter((ms) => ms > 0).length).toBeGreaterThan(0);
+    expect(a.waits).toHaveLength(sums.filter((ms) => ms > 0).length);
+    expect(a.waits.every((w) => /^robot \d waited [\d.]+ s$/.test(w))).toBe(true);
+    expect(a.chain).toEqual([]);
+    expect(a.note).toBe('This build of the simulator does not name whom a robot waited for.');
+  });
+});
