@@ -22,6 +22,12 @@ export interface ExportTable {
    * comparison table); the best one is set in bold where the format can.
    */
   readonly compareColumns: readonly string[];
+  /**
+   * Per row, the ids among `compareColumns` whose plan collides at nominal times: never bold,
+   * so the best value per row is the best executable plan (issue 12, item 4). Absent or empty:
+   * every compared column counts (the view asked for `bestAmong=all`).
+   */
+  readonly notExecutable?: readonly (readonly string[])[];
 }
 
 /** A header with its unit, e.g. "Solve time (ms)". */
@@ -38,12 +44,13 @@ export function displayCell(value: ExportCell, column: LeaderboardColumn): strin
 
 /**
  * Per row, the indices of the best cells among `compareColumns` (ties all count; none when the
- * columns have no direction or the row has no value there).
+ * columns have no direction or the row has no value there), leaving out the row's `notExecutable` columns.
  */
 export function bestCells(table: ExportTable): Set<number>[] {
   const idx = table.columns.map((c, i) => (table.compareColumns.includes(c.id) && c.better ? i : -1)).filter((i) => i >= 0);
-  return table.rows.map((row) => {
-    const values = idx.filter((i) => typeof row[i] === 'number');
+  return table.rows.map((row, r) => {
+    const excluded = table.notExecutable?.[r] ?? [];
+    const values = idx.filter((i) => typeof row[i] === 'number' && !excluded.includes(table.columns[i].id));
     if (values.length === 0) return new Set<number>();
     const better = table.columns[values[0]].better;
     const nums = values.map((i) => row[i] as number);

@@ -26,6 +26,13 @@ export interface LeaderboardColumn {
   readonly better?: BetterDirection;
   /** Digits after the decimal point in exports. */
   readonly digits?: number;
+  /** What the figure means, for header tooltips and export notes. */
+  readonly description?: string;
+  /**
+   * Computed for the page from other stored figures (the Wilson interval of a rate): shown and
+   * exported, but not sortable or filterable.
+   */
+  readonly isComputed?: boolean;
 }
 
 /** Execution policies with the column-id fragment and label used by per-policy columns. */
@@ -42,11 +49,53 @@ export const ENTRY_STATUSES = ['solved', 'infeasible', 'timeout', 'memory', 'err
 export const ENTRY_SOURCES = ['sweep', 'submitted'] as const;
 export type EntrySource = (typeof ENTRY_SOURCES)[number];
 
+/** Values of the executable-at-nominal column. */
+export const NOMINAL_VALUES = ['yes', 'no', 'not checked'] as const;
+
+/** What "executable at nominal times" means, for tooltips, captions and the README glossary. */
+export const NOMINAL_DESCRIPTION = 'Whether the plan, replayed open-loop with zero noise (no timing jitter, no stalls) under its own robot profile, '
+  + 'runs without a collision. "no": it collides even with perfect timing. "not checked": stored before the check existed.';
+
+/** The Wilson-interval columns of one policy: [low id, high id, success column id, policy column suffix]. */
+export const SUCCESS_INTERVAL_COLUMNS: readonly (readonly [string, string, string, string])[] = LEADERBOARD_POLICIES.map(
+  (p) => [`success${p.key}Lo`, `success${p.key}Hi`, `success${p.key}`, p.policy.replace('-', '_')] as const,
+);
+
 const policyColumns: LeaderboardColumn[] = LEADERBOARD_POLICIES.flatMap((p) => [
-  { id: `success${p.key}`, label: `Success rate, ${p.label}`, kind: 'number', better: 'higher', digits: 2 } as const,
-  { id: `spread${p.key}`, label: `Finish spread, ${p.label}`, kind: 'number', unit: 'ms', better: 'lower', digits: 0 } as const,
-  { id: `realised${p.key}`, label: `Realised makespan, ${p.label}`, kind: 'number', unit: 'ms', better: 'lower', digits: 0 } as const,
+  {
+    id: `success${p.key}`, label: `Execution success rate, ${p.label}`, kind: 'number', better: 'higher', digits: 2,
+    description: `Share of Monte Carlo runs under ${p.label} with no collision (not the solved rate).`,
+  } as const,
+  {
+    id: `success${p.key}Lo`, label: `Execution success rate, ${p.label}, 95 % CI low`, kind: 'number', digits: 3, isComputed: true,
+    description: 'Wilson score interval, recomputed from the rate and the number of runs.',
+  } as const,
+  {
+    id: `success${p.key}Hi`, label: `Execution success rate, ${p.label}, 95 % CI high`, kind: 'number', digits: 3, isComputed: true,
+    description: 'Wilson score interval, recomputed from the rate and the number of runs.',
+  } as const,
+  { id: `spread${p.key}`, label: `Finish spread (mean), ${p.label}`, kind: 'number', unit: 'ms', better: 'lower', digits: 0 } as const,
+  { id: `realised${p.key}`, label: `Realised makespan (mean), ${p.label}`, kind: 'number', unit: 'ms', better: 'lower', digits: 0 } as const,
+  {
+    id: `realised${p.key}Lo`, label: `Realised makespan (mean), ${p.label}, 95 % CI low`, kind: 'number', unit: 'ms', digits: 0,
+    description: 'Interval of the mean as stored with the execution; empty: interval not stored (executions recorded before intervals were kept).',
+  } as const,
+  {
+    id: `realised${p.key}Hi`, label: `Realised makespan (mean), ${p.label}, 95 % CI high`, kind: 'number', unit: 'ms', digits: 0,
+    description: 'Interval of the mean as stored with the execution; empty: interval not stored (executions recorded before intervals were kept).',
+  } as const,
 ]);
+
+/**
+ * Column ids renamed when sum-of-costs, makespan and lower bound were split by unit (issue 12,
+ * item 7): old links get an error naming the new ids instead of a column mixing steps and ms.
+ */
+export const RENAMED_COLUMNS: Readonly<Record<string, string>> = {
+  soc: 'socSteps and socMs', makespan: 'makespanSteps and makespanMs', lowerBound: 'lowerBoundSteps and lowerBoundMs',
+};
+
+const STEPS = 'steps (classic, uniform-duration, orientation-split, k-robust)';
+const MS = 'ms (weighted-split plans, whose costs are times)';
 
 /** Every column of the instance × model layout, in default order. */
 export const ENTRY_COLUMNS: readonly LeaderboardColumn[] = [
@@ -57,12 +106,22 @@ export const ENTRY_COLUMNS: readonly LeaderboardColumn[] = [
   { id: 'variant', label: 'Variant', kind: 'text' },
   { id: 'profile', label: 'Robot profile', kind: 'text' },
   { id: 'status', label: 'Status', kind: 'enum', values: ENTRY_STATUSES },
-  { id: 'soc', label: 'Sum-of-costs', kind: 'number', unit: 'model unit', better: 'lower', digits: 0 },
-  { id: 'makespan', label: 'Makespan', kind: 'number', unit: 'model unit', better: 'lower', digits: 0 },
+  {
+    id: 'executableAtNominal', label: 'Executable at nominal times', kind: 'enum', values: NOMINAL_VALUES, description: NOMINAL_DESCRIPTION,
+  },
+  {
+    id: 'nominalCollisions', label: 'Collisions at nominal times', kind: 'number', better: 'lower', digits: 0,
+    description: 'Collisions of the zero-noise open-loop replay (empty: not checked).',
+  },
+  { id: 'socSteps', label: 'Sum-of-costs', kind: 'number', unit: 'steps', better: 'lower', digits: 0, description: `Sum-of-costs in ${STEPS}.` },
+  { id: 'socMs', label: 'Sum-of-costs', kind: 'number', unit: 'ms', better: 'lower', digits: 0, description: `Sum-of-costs in ${MS}.` },
+  { id: 'makespanSteps', label: 'Makespan', kind: 'number', unit: 'steps', better: 'lower', digits: 0, description: `Makespan in ${STEPS}.` },
+  { id: 'makespanMs', label: 'Makespan', kind: 'number', unit: 'ms', better: 'lower', digits: 0, description: `Makespan in ${MS}.` },
   { id: 'tiSocMs', label: 'Turn-inclusive SOC', kind: 'number', unit: 'ms', better: 'lower', digits: 0 },
   { id: 'tiMakespanMs', label: 'Turn-inclusive makespan', kind: 'number', unit: 'ms', better: 'lower', digits: 0 },
-  { id: 'lowerBound', label: 'Lower bound', kind: 'number', unit: 'model unit', digits: 0 },
-  { id: 'gap', label: 'Gap', kind: 'number', better: 'lower', digits: 3 },
+  { id: 'lowerBoundSteps', label: 'Lower bound', kind: 'number', unit: 'steps', digits: 0, description: `Best proven lower bound on the sum-of-costs, ${STEPS}.` },
+  { id: 'lowerBoundMs', label: 'Lower bound', kind: 'number', unit: 'ms', digits: 0, description: `Best proven lower bound on the sum-of-costs, ${MS}.` },
+  { id: 'gap', label: 'Gap', kind: 'number', better: 'lower', digits: 3, description: '(sum-of-costs − lower bound) ÷ lower bound, unitless.' },
   { id: 'runtimeMs', label: 'Solve time', kind: 'number', unit: 'ms', better: 'lower', digits: 1 },
   ...policyColumns,
   { id: 'source', label: 'Source', kind: 'enum', values: ENTRY_SOURCES },
@@ -71,8 +130,8 @@ export const ENTRY_COLUMNS: readonly LeaderboardColumn[] = [
 
 /** Columns shown when a view names none. */
 export const DEFAULT_ENTRY_COLUMNS: readonly string[] = [
-  'map', 'scenario', 'agents', 'model', 'variant', 'status', 'soc', 'tiMakespanMs', 'lowerBound', 'gap', 'runtimeMs',
-  'successOpenLoop', 'spreadOpenLoop', 'source', 'solver',
+  'map', 'scenario', 'agents', 'model', 'variant', 'status', 'executableAtNominal', 'socSteps', 'socMs', 'tiMakespanMs',
+  'lowerBoundSteps', 'lowerBoundMs', 'gap', 'runtimeMs', 'successOpenLoop', 'successOpenLoopLo', 'successOpenLoopHi', 'spreadOpenLoop', 'source', 'solver',
 ];
 
 /** Figures a comparison table may put side by side: all in ms or rates, so model columns share a unit. */
@@ -100,6 +159,13 @@ export function compareColumns(metric: CompareMetric): LeaderboardColumn[] {
     })),
   ];
 }
+
+/**
+ * Which plans "best" considers (best value per row of a comparison, bold in exports, the per-model
+ * summary): by default only plans not known to collide at nominal times; `all` on request.
+ */
+export const BEST_AMONG = ['executable', 'all'] as const;
+export type BestAmong = (typeof BEST_AMONG)[number];
 
 /** Board layouts: one row per instance × model, or models side by side for one figure. */
 export const LAYOUTS = ['entries', 'compare'] as const;
@@ -138,11 +204,13 @@ export interface LeaderboardView {
   readonly columns: readonly string[];
   readonly sort: readonly ViewSort[];
   readonly filters: readonly ViewFilter[];
+  /** Which plans "best" considers (URL `bestAmong=all`; default executable ones only). */
+  readonly bestAmong: BestAmong;
 }
 
 /** The view a board opens with. */
 export const DEFAULT_VIEW: LeaderboardView = {
-  layout: 'entries', metric: 'tiMakespanMs', k: 1, columns: DEFAULT_ENTRY_COLUMNS, sort: [], filters: [],
+  layout: 'entries', metric: 'tiMakespanMs', k: 1, columns: DEFAULT_ENTRY_COLUMNS, sort: [], filters: [], bestAmong: 'executable',
 };
 
 /** The columns of a layout. */
@@ -177,9 +245,12 @@ export function parseView(params: Readonly<Record<string, string | undefined>>):
   const byId = new Map(all.map((c) => [c.id, c]));
   const known = (param: string, id: string): LeaderboardColumn => {
     const col = byId.get(id);
-    if (!col) throw new ViewParamError(param, `unknown column "${id}" for the ${layout} layout`);
+    const renamed = layout === 'entries' ? RENAMED_COLUMNS[id] : undefined;
+    if (!col) throw new ViewParamError(param, `unknown column "${id}" for the ${layout} layout${renamed ? ` (split by unit into ${renamed})` : ''}`);
     return col;
   };
+  const bestAmong = (params['bestAmong'] ?? 'executable') as BestAmong;
+  if (!BEST_AMONG.includes(bestAmong)) throw new ViewParamError('bestAmong', `bestAmong must be one of ${BEST_AMONG.join(', ')}, got "${bestAmong}"`);
 
   const colsText = params['cols'];
   const columns = colsText === undefined || colsText === ''
@@ -191,7 +262,7 @@ export function parseView(params: Readonly<Record<string, string | undefined>>):
   for (const part of (params['sort'] ?? '').split(',').filter((p) => p !== '')) {
     const desc = part.startsWith('-');
     const id = desc ? part.slice(1) : part;
-    known('sort', id);
+    if (known('sort', id).isComputed) throw new ViewParamError('sort', `column "${id}" is computed for the page and cannot be sorted`);
     if (sort.some((s) => s.column === id)) throw new ViewParamError('sort', `column "${id}" is sorted twice`);
     sort.push({ column: id, direction: desc ? 'desc' : 'asc' });
   }
@@ -203,6 +274,7 @@ export function parseView(params: Readonly<Record<string, string | undefined>>):
     const id = key.slice(0, dot);
     const op = key.slice(dot + 1);
     const col = known(key, id);
+    if (col.isComputed) throw new ViewParamError(key, `column "${id}" is computed for the page and cannot be filtered`);
     const ops = FILTER_OPS[col.kind] as readonly string[];
     if (!ops.includes(op)) throw new ViewParamError(key, `column "${id}" filters with ${ops.join(', ')}, not "${op}"`);
     if (col.kind === 'number' && op !== 'blank' && op !== 'set' && !Number.isFinite(Number(raw))) {
@@ -216,7 +288,7 @@ export function parseView(params: Readonly<Record<string, string | undefined>>):
     filters.push({ column: id, op: op as FilterOp, value: raw });
   }
   filters.sort((a, b) => (a.column + a.op < b.column + b.op ? -1 : 1));
-  return { layout, metric, k, columns, sort, filters };
+  return { layout, metric, k, columns, sort, filters, bestAmong };
 }
 
 /** Writes a view as query parameters (defaults left out), the inverse of parseView. */
@@ -231,6 +303,7 @@ export function viewToParams(view: LeaderboardView): Record<string, string> {
   if (view.columns.join(',') !== defaults.join(',')) out['cols'] = view.columns.join(',');
   if (view.sort.length > 0) out['sort'] = view.sort.map((s) => (s.direction === 'desc' ? '-' : '') + s.column).join(',');
   for (const f of view.filters) out[`${f.column}.${f.op}`] = f.value;
+  if (view.bestAmong !== 'executable') out['bestAmong'] = view.bestAmong;
   return out;
 }
 
@@ -243,6 +316,10 @@ export interface LeaderboardRow {
   readonly profileHash: string;
   /** Entries layout: the best result's id (for the plan viewer). */
   readonly resultId?: number;
+  /** Entries layout: whether the row's plan is collision-free at nominal times (null: not checked). */
+  readonly isExecutableAtNominal?: boolean | null;
+  /** Comparison layout: per plan model column id, whether its plan is collision-free at nominal times (null: not checked or no plan). */
+  readonly isExecutableAtNominalByColumn?: Readonly<Record<string, boolean | null>>;
   readonly cells: Readonly<Record<string, string | number | null>>;
 }
 
@@ -281,10 +358,19 @@ export interface ModelSummary {
   readonly pairedWithClassic: number;
   /** Mean execution success rate of solved rows per policy (null when none was replayed). */
   readonly meanSuccess: Readonly<Record<string, number | null>>;
+  /** Solved rows whose plan is collision-free at nominal times. */
+  readonly executableAtNominal: number;
+  /** Solved rows whose plan collides at nominal times. */
+  readonly notExecutableAtNominal: number;
 }
 
 /** GET /api/leaderboards/summary. */
 export interface LeaderboardSummary {
+  /**
+   * Which rows the ratio and mean execution success rate consider: `executable` leaves out rows
+   * (and classic partners) whose plan collides at nominal times.
+   */
+  readonly bestAmong: BestAmong;
   readonly models: readonly ModelSummary[];
   /** The map this summary is narrowed to (drill-down), or null for all maps. */
   readonly map: { readonly id: number; readonly name: string } | null;
@@ -306,7 +392,7 @@ export interface LeaderboardCharts {
   readonly profile: ProfileOption | null;
   /** The execution policy of the execution figures. */
   readonly policy: string;
-  /** [agents, solved fraction] per model. */
+  /** [agents, solved rate] per model: the share of instances solved (not execution success). */
   readonly successByAgents: readonly ChartSeries[];
   /** [agents, mean execution success rate] per model. */
   readonly executionSuccessByAgents: readonly ChartSeries[];

@@ -64,9 +64,9 @@ describe('leaderboard in the browser', () => {
     await page.waitForFunction(() => document.querySelectorAll('.ag-row').length === 3);
     const models = await page.locator('.ag-cell[col-id=model]').allInnerTexts();
     expect([...models].sort()).toEqual(['classic', 'k-robust', 'uniform-duration']);
-    expect(await page.locator('.ag-cell[col-id=soc]').allInnerTexts()).toEqual(['4', '4', '4']);
+    expect(await page.locator('.ag-cell[col-id=socSteps]').allInnerTexts()).toEqual(['4', '4', '4']);
     // Numbers align right (the column type's cell class needs AG Grid's CellStyleModule).
-    expect(await page.locator('.ag-cell[col-id=soc]').first().evaluate((e) => getComputedStyle(e).textAlign)).toBe('right');
+    expect(await page.locator('.ag-cell[col-id=socSteps]').first().evaluate((e) => getComputedStyle(e).textAlign)).toBe('right');
     expect(await page.getByText('Simulation is no safety assessment').first().isVisible()).toBe(true);
 
     await page.locator('.ag-header-cell[col-id=model]').click();
@@ -75,9 +75,9 @@ describe('leaderboard in the browser', () => {
   });
 
   it('opens a shared link with its columns, sort and filter', async () => {
-    await page.goto(`${server.url}/leaderboards?cols=model,variant,soc,source&model.in=k-robust`);
+    await page.goto(`${server.url}/leaderboards?cols=model,variant,socSteps,source&model.in=k-robust`);
     await page.waitForFunction(() => document.querySelectorAll('.ag-row').length === 1);
-    expect(await page.locator('.ag-header-cell[col-id]').evaluateAll((els) => els.map((e) => e.getAttribute('col-id')))).toEqual(['model', 'variant', 'soc', 'source']);
+    expect(await page.locator('.ag-header-cell[col-id]').evaluateAll((els) => els.map((e) => e.getAttribute('col-id')))).toEqual(['model', 'variant', 'socSteps', 'source']);
     expect(await page.locator('.ag-cell[col-id=variant]').innerText()).toBe('k=1');
     expect(await page.locator('.ag-cell[col-id=source]').innerText()).toBe('submitted');
   });
@@ -106,7 +106,7 @@ describe('leaderboard in the browser', () => {
     expect(await rejected.getByText('Nothing was stored.').isVisible()).toBe(true);
 
     // The accepted plan is on the board; its Replay link opens it in the plan viewer, replayed on the server.
-    await page.goto(`${server.url}/leaderboards?cols=model,agents,soc,source&agents.eq=3`);
+    await page.goto(`${server.url}/leaderboards?cols=model,agents,socSteps,source&agents.eq=3`);
     await page.waitForFunction(() => document.querySelectorAll('.ag-row').length >= 1);
     await page.getByRole('link', { name: /^Replay result \d+$/ }).first().click();
     await page.waitForURL(/\/plans\/view\?result=\d+$/);

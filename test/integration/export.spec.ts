@@ -14,7 +14,7 @@ const hasPdflatex = spawnSync('pdflatex', ['--version']).status === 0;
 
 describe('exports', () => {
   let world: BoardWorld;
-  const view = 'cols=map,scenario,agents,model,variant,soc,tiMakespanMs,successOpenLoop&sort=-tiMakespanMs&status.in=solved';
+  const view = 'cols=map,scenario,agents,model,variant,socSteps,socMs,tiMakespanMs,successOpenLoop&sort=-tiMakespanMs&status.in=solved';
 
   beforeAll(async () => {
     world = await startBoardWorld();
@@ -32,7 +32,7 @@ describe('exports', () => {
     const { res, text } = await get(`format=json&${view}`);
     expect(res.headers.get('content-disposition')).toBe('attachment; filename="quarterturn-leaderboard.json"');
     const doc = JSON.parse(text) as ExportJson;
-    expect(doc.columns.map((c) => c.id)).toEqual(['map', 'scenario', 'agents', 'model', 'variant', 'soc', 'tiMakespanMs', 'successOpenLoop']);
+    expect(doc.columns.map((c) => c.id)).toEqual(['map', 'scenario', 'agents', 'model', 'variant', 'socSteps', 'socMs', 'tiMakespanMs', 'successOpenLoop']);
     expect(doc.rows).toEqual(page.rows.map((r) => r.cells));
     expect(doc.rows.length).toBeGreaterThan(5);
     // Execution figures are in it, so the caption carries the safety note.
@@ -45,11 +45,12 @@ describe('exports', () => {
     expect(res.headers.get('content-type')).toMatch(/^text\/csv/);
     const lines = text.trimEnd().split('\r\n');
     expect(lines).toHaveLength(page.rows.length + 1);
-    expect(lines[0]).toBe('Map,Scenario,Agents,Plan model,Variant,Sum-of-costs (model unit),Turn-inclusive makespan (ms),"Success rate, open-loop"');
+    expect(lines[0]).toBe('Map,Scenario,Agents,Plan model,Variant,Sum-of-costs (steps),Sum-of-costs (ms),Turn-inclusive makespan (ms),"Execution success rate, open-loop"');
   });
 
   it('exports a comparison table in LaTeX with the best model per row in bold', async () => {
-    const { text } = await get('format=latex&layout=compare&metric=tiMakespanMs&k=1');
+    // All plans: the executable-only rule has its own spec (leaderboard-nominal.spec.ts).
+    const { text } = await get('format=latex&layout=compare&metric=tiMakespanMs&k=1&bestAmong=all');
     expect(text).toContain('\\toprule');
     const body = text.slice(text.indexOf('\\midrule'), text.indexOf('\\bottomrule')).split('\n').filter((l) => l.endsWith('\\\\'));
     expect(body.length).toBeGreaterThan(0);
@@ -63,7 +64,7 @@ describe('exports', () => {
   });
 
   (hasPdflatex ? it : it.skip)(`compiles the LaTeX table with pdflatex${hasPdflatex ? '' : ' (skipped: pdflatex is not installed; apt-get install texlive-latex-base texlive-latex-recommended)'}`, async () => {
-    const { text } = await get('format=latex&cols=map,scenario,agents,model,variant,profile,soc,gap,solver');
+    const { text } = await get('format=latex&cols=map,scenario,agents,model,variant,profile,socSteps,socMs,gap,solver');
     const dir = mkdtempSync(join(tmpdir(), 'qt-latex-'));
     try {
       writeFileSync(join(dir, 'table.tex'), `\\documentclass{article}\n\\usepackage[T1]{fontenc}\n\\usepackage[utf8]{inputenc}\n\\usepackage{booktabs}\n\\usepackage[margin=5mm,landscape]{geometry}\n\\begin{document}\n\\tiny\n${text}\\end{document}\n`);
@@ -77,7 +78,7 @@ describe('exports', () => {
 
   it('exports Markdown and refuses an unknown format', async () => {
     const { text } = await get(`format=markdown&${view}`);
-    expect(text.split('\n')[2]).toBe('| Map | Scenario | Agents | Plan model | Variant | Sum-of-costs (model unit) | Turn-inclusive makespan (ms) | Success rate, open-loop |');
+    expect(text.split('\n')[2]).toBe('| Map | Scenario | Agents | Plan model | Variant | Sum-of-costs (steps) | Sum-of-costs (ms) | Turn-inclusive makespan (ms) | Execution success rate, open-loop |');
     const bad = await get('format=docx');
     expect(bad.res.status).toBe(400);
   });

@@ -56,7 +56,7 @@ describe('demo results', () => {
       }, { runId: r.id, sweepId: r.sweep_id });
     }
     const board = createLeaderboardsService({ sequelize });
-    const page = await board.page(parseView({ cols: 'model,agents,status,soc,lowerBound,gap,successOpenLoop,source' }), null, {}, { start: 0, end: 500 });
+    const page = await board.page(parseView({ cols: 'model,agents,status,socSteps,socMs,lowerBoundSteps,lowerBoundMs,gap,successOpenLoop,source' }), null, {}, { start: 0, end: 500 });
     expect(page.rowCount).toBe(runs.length);
     const solved = page.rows.filter((r) => r.cells['status'] === 'solved');
     expect(solved.length).toBeGreaterThan(0);

@@ -75,32 +75,37 @@ export interface SeedResult {
   readonly lowerBound: number | null;
   readonly runtimeMs: number;
   readonly seed: number;
-  /** Execution success rate and finish spread under open-loop, when replayed. */
-  readonly openLoop?: { readonly success: number; readonly spread: number; readonly realised: number };
+  /** Execution success rate and finish spread under open-loop, when replayed (runs: default 10). */
+  readonly openLoop?: { readonly success: number; readonly spread: number; readonly realised: number; readonly runs?: number };
+  /** Executable at nominal times (migration 0405); absent = not checked. */
+  readonly executableAtNominal?: boolean | null;
+  /** Model parameters beyond model, k and start heading (e.g. the following rule). */
+  readonly extraModelParams?: Record<string, unknown>;
 }
 
 /** Writes results (and their open-loop execution) like the sweep worker does; sets `id` on each. */
 export async function insertResults(lib: LibraryServer, results: SeedResult[]): Promise<void> {
   for (const r of results) {
-    const params = { model: { model: r.model, startHeading: 'free', switches: {}, ...(r.k !== undefined ? { k: r.k } : {}) }, robotProfile: PROFILES[r.profile], timeLimitMs: 1000, memoryLimitMb: 256 };
+    const params = { model: { model: r.model, startHeading: 'free', switches: {}, ...(r.k !== undefined ? { k: r.k } : {}), ...r.extraModelParams }, robotProfile: PROFILES[r.profile], timeLimitMs: 1000, memoryLimitMb: 256 };
     const [row] = await lib.sql<{ id: number }>(
       `INSERT INTO results (instance_set_id, map_id, scenario_id, agents, model, params, param_hash, seed, status, soc, makespan,
          turn_inclusive_soc_ms, turn_inclusive_makespan_ms, lower_bound, runtime_ms, nodes, robot_profile, robot_profile_hash,
-         solver_version, solver_commit, node_version, cpu_model, thread_count)
+         solver_version, solver_commit, node_version, cpu_model, thread_count, executable_at_nominal, nominal_collisions)
        SELECT s.instance_set_id, s.map_id, s.id, :agents, :model, :params, :hash, :seed, :status, :soc, :soc, :ti, :ti, :lb, :runtime, 1,
-         :profile, :profileHash, '0.1.0', 'test', 'v20', 'test cpu', 1 FROM scenarios s WHERE s.id = :scenario RETURNING id`,
+         :profile, :profileHash, '0.1.0', 'test', 'v20', 'test cpu', 1, :nominal, :nominalCollisions FROM scenarios s WHERE s.id = :scenario RETURNING id`,
       {
         agents: r.agents, model: r.model, params: JSON.stringify(params), hash: parameterHash(params), seed: r.seed, status: r.status,
         soc: r.soc, ti: r.tiMakespanMs, lb: r.lowerBound, runtime: r.runtimeMs, profile: JSON.stringify(PROFILES[r.profile]),
         profileHash: parameterHash(PROFILES[r.profile]), scenario: r.scenarioId,
+        nominal: r.executableAtNominal ?? null, nominalCollisions: r.executableAtNominal === undefined || r.executableAtNominal === null ? null : r.executableAtNominal ? 0 : 2,
       },
     );
     r.id = row.id;
     if (r.openLoop) {
       await lib.sql(
         `INSERT INTO executions (result_id, policy, noise, runs, success_rate, collisions_mean, realised_makespan_mean_ms, realised_makespan_p95_ms, finish_spread_mean_ms, metrics)
-         VALUES (:id, 'open-loop', '{}', 10, :success, 0, :realised, :realised, :spread, '{}')`,
-        { id: row.id, success: r.openLoop.success, realised: r.openLoop.realised, spread: r.openLoop.spread },
+         VALUES (:id, 'open-loop', '{}', :runs, :success, 0, :realised, :realised, :spread, '{}')`,
+        { id: row.id, success: r.openLoop.success, realised: r.openLoop.realised, spread: r.openLoop.spread, runs: r.openLoop.runs ?? 10 },
       );
     }
   }
@@ -122,6 +127,8 @@ export function randomResults(world: BoardWorld, seed: number, count: number): S
       lowerBound: status === 'error' ? null : soc === null ? 1 + rng.int(3) : Math.max(1, soc - rng.int(2)),
       runtimeMs: Math.round(rng.next() * 5000) / 10, seed: i,
       openLoop: soc !== null && rng.next() < 0.7 ? { success: rng.int(11) / 10, spread: rng.int(4000), realised: soc * 800 + rng.int(900) } : undefined,
+      // Executable at nominal times: checked (either way) or not, for solved results only.
+      executableAtNominal: soc === null ? undefined : ([true, false, null] as const)[rng.int(3)],
     });
   }
   return out;
@@ -144,7 +151,7 @@ export interface ExpectedEntry {
 const STATUS_RANK = { solved: 0, infeasible: 1, timeout: 2, memory: 3, error: 4 } as const;
 const cmpNullLast = (a: number | null, b: number | null) => (a === b ? 0 : a === null ? 1 : b === null ? -1 : a - b);
 
-/** The best-result rule written again in plain TypeScript (see migration 0401): one entry per key. */
+/** The best-result rule written again in plain TypeScript (migrations 0401 and 0405): one entry per key. */
 export function expectedEntries(results: readonly SeedResult[]): ExpectedEntry[] {
   const groups = new Map<string, SeedResult[]>();
   for (const r of results) {
@@ -152,7 +159,9 @@ export function expectedEntries(results: readonly SeedResult[]): ExpectedEntry[]
     groups.set(key, [...(groups.get(key) ?? []), r]);
   }
   return [...groups].map(([key, rs]) => {
-    const best = [...rs].sort((a, b) => STATUS_RANK[a.status] - STATUS_RANK[b.status] || cmpNullLast(a.soc, b.soc)
+    // Migration 0405: among equal statuses a plan known to collide at nominal times comes last.
+    const collides = (r: SeedResult) => (r.executableAtNominal === false ? 1 : 0);
+    const best = [...rs].sort((a, b) => STATUS_RANK[a.status] - STATUS_RANK[b.status] || collides(a) - collides(b) || cmpNullLast(a.soc, b.soc)
       || cmpNullLast(a.tiMakespanMs, b.tiMakespanMs) || a.runtimeMs - b.runtimeMs || (a.id ?? 0) - (b.id ?? 0))[0];
     const lbs = rs.map((r) => r.lowerBound).filter((v): v is number => v !== null);
     const lowerBound = lbs.length ? Math.max(...lbs) : null;

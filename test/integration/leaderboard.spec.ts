@@ -68,15 +68,18 @@ describe('leaderboard over SQL', () => {
     }
   });
 
+  /** The sum-of-costs in steps of an expected entry: weighted-split counts ms, so its steps column is empty. */
+  const socSteps = (e: (typeof expected)[number]): number | null => (e.model === 'weighted-split' ? null : e.best.soc);
+
   it('pages a sorted, filtered view exactly like the brute-force order', async () => {
     const want = expected
       .filter((e) => (e.model === 'classic' || e.model === 'k-robust') && e.agents >= 2)
       // PostgreSQL default: ascending puts nulls last; the id breaks ties in the first key's direction.
       .sort((a, b) => (a.best.soc === b.best.soc ? 0 : a.best.soc === null ? 1 : b.best.soc === null ? -1 : a.best.soc - b.best.soc) || a.id - b.id)
       .map((e) => String(e.id));
-    const got = await allPages(world.curator, 'cols=agents,model,soc&sort=soc&model.in=classic,k-robust&agents.gte=2');
+    const got = await allPages(world.curator, 'cols=agents,model,socSteps&sort=socSteps&model.in=classic,k-robust&agents.gte=2');
     expect(got.map((r) => r.id)).toEqual(want);
-    expect(Object.keys(got[0].cells)).toEqual(['agents', 'model', 'soc']);
+    expect(Object.keys(got[0].cells)).toEqual(['agents', 'model', 'socSteps']);
   });
 
   it('sorts descending with the id tie-break descending', async () => {
@@ -89,7 +92,7 @@ describe('leaderboard over SQL', () => {
     const want = expected
       .filter((e) => e.best.status === 'solved' && (e.best.soc ?? Infinity) <= 4 && e.variant.includes('k='))
       .sort((a, b) => a.scenarioId - b.scenarioId || a.agents - b.agents || a.model.localeCompare(b.model) || a.id - b.id);
-    const got = await allPages(world.curator, 'status.in=solved&soc.lte=4&variant.has=k%3D', 5);
+    const got = await allPages(world.curator, 'status.in=solved&socSteps.lte=4&variant.has=k%3D', 5);
     expect(new Set(got.map((r) => r.id))).toEqual(new Set(want.map((e) => String(e.id))));
     for (const r of got) expect(r.cells['status']).toBe('solved');
   });
@@ -97,9 +100,9 @@ describe('leaderboard over SQL', () => {
   it('sorts by several keys led by a column of few values, in every page', async () => {
     const nullsFirstDesc = (a: number | null, b: number | null) => (a === b ? 0 : a === null ? -1 : b === null ? 1 : b - a);
     const want = [...expected]
-      .sort((a, b) => (a.model < b.model ? -1 : a.model > b.model ? 1 : 0) || nullsFirstDesc(a.best.soc, b.best.soc) || a.id - b.id)
+      .sort((a, b) => (a.model < b.model ? -1 : a.model > b.model ? 1 : 0) || nullsFirstDesc(socSteps(a), socSteps(b)) || a.id - b.id)
       .map((e) => String(e.id));
-    const got = await allPages(world.curator, 'cols=model,soc&sort=model,-soc', 9);
+    const got = await allPages(world.curator, 'cols=model,socSteps&sort=model,-socSteps', 9);
     expect(got.map((r) => r.id)).toEqual(want);
   });
 
@@ -118,7 +121,7 @@ describe('leaderboard over SQL', () => {
       const mirrored = createLeaderboardsService({ sequelize, reverseFromRow: 1 });
       const forward = createLeaderboardsService({ sequelize, reverseFromRow: Number.MAX_SAFE_INTEGER });
       const owner = { id: (await world.lib.sql<{ id: number }>("SELECT owner_id AS id FROM instance_sets WHERE id = :id", { id: world.privateSet }))[0].id, role: 'researcher' } as Express.User;
-      for (const query of [{}, { sort: '-soc' }, { sort: 'successOpenLoop,-agents' }, { sort: 'model,runtimeMs' }]) {
+      for (const query of [{}, { sort: '-socSteps' }, { sort: 'successOpenLoop,-agents' }, { sort: 'model,runtimeMs' }]) {
         const view = parseView(query);
         const total = (await forward.page(view, owner, {}, { start: 0, end: 1 })).rowCount;
         for (const start of [total - 7, total - 30, Math.floor(total / 2) + 3]) {
@@ -152,20 +155,20 @@ describe('leaderboard over SQL', () => {
       // Each view with its hand-written ORDER BY (the id follows the first key's direction) and filter.
       const views: { query: Record<string, string>; order: string; where?: string }[] = [
         { query: { sort: 'model,tiMakespanMs' }, order: 'e.model, e.ti_makespan_ms, e.id' },
-        { query: { sort: '-model,-soc' }, order: 'e.model DESC, e.soc DESC, e.id DESC' },
-        { query: { sort: 'model,-soc' }, order: 'e.model, e.soc DESC, e.id' },
+        { query: { sort: '-model,-socSteps' }, order: 'e.model DESC, e.soc_steps DESC, e.id DESC' },
+        { query: { sort: 'model,-socMs' }, order: 'e.model, e.soc_ms DESC, e.id' },
         { query: { sort: '-status,runtimeMs' }, order: 'e.status DESC, e.runtime_ms, e.id DESC' },
         { query: { sort: 'variant,-successOpenLoop' }, order: 'e.variant, e.success_open_loop DESC, e.id' },
         { query: { sort: '-profile,agents' }, order: 'e.profile_label DESC, e.agents, e.id DESC' },
         { query: { sort: 'source,map' }, order: 'e.source, e.map_name, e.id' },
         { query: { sort: 'solver,-gap' }, order: 'e.solver, e.gap DESC, e.id' },
-        { query: { sort: 'status,soc,-agents' }, order: 'e.status, e.soc, e.agents DESC, e.id' },
+        { query: { sort: 'status,socSteps,-agents' }, order: 'e.status, e.soc_steps, e.agents DESC, e.id' },
         { query: { sort: 'model,-status' }, order: 'e.model, e.status DESC, e.id' },
-        { query: { sort: '-source,profile,-soc' }, order: 'e.source DESC, e.profile_label, e.soc DESC, e.id DESC' },
+        { query: { sort: '-source,profile,-socSteps' }, order: 'e.source DESC, e.profile_label, e.soc_steps DESC, e.id DESC' },
         { query: { sort: 'status,-variant,model' }, order: 'e.status, e.variant DESC, e.model, e.id' },
-        { query: { sort: 'profile,-variant', 'soc.lte': '5' }, order: 'e.profile_label, e.variant DESC, e.id', where: 'e.soc <= 5' },
+        { query: { sort: 'profile,-variant', 'socSteps.lte': '5' }, order: 'e.profile_label, e.variant DESC, e.id', where: 'e.soc_steps <= 5' },
         { query: { sort: 'model,-tiMakespanMs', 'agents.gte': '2' }, order: 'e.model, e.ti_makespan_ms DESC, e.id', where: 'e.agents >= 2' },
-        { query: { sort: '-profile,soc', 'status.in': 'solved,timeout' }, order: 'e.profile_label DESC, e.soc, e.id DESC', where: "e.status IN ('solved', 'timeout')" },
+        { query: { sort: '-profile,socSteps', 'status.in': 'solved,timeout' }, order: 'e.profile_label DESC, e.soc_steps, e.id DESC', where: "e.status IN ('solved', 'timeout')" },
       ];
       let straddling = 0;
       for (const { query: params, order, where } of views) {
@@ -225,7 +228,7 @@ describe('leaderboard over SQL', () => {
       return { status: res.status, body: (await res.json()) as { error: { code: string; details: { param: string }[] } } };
     };
     for (const [q, param] of [['sort=soc%3BDROP%20TABLE%20results', 'sort'], ['cols=map,password', 'cols'], ['agents.gte=abc', 'agents.gte'],
-      ['model.in=classic,sql', 'model.in'], ['soc.has=1', 'soc.has'], ['start=0&end=501', 'end']] as const) {
+      ['model.in=classic,sql', 'model.in'], ['socSteps.has=1', 'socSteps.has'], ['cols=map,soc', 'cols'], ['sort=successOpenLoopLo', 'sort'], ['start=0&end=501', 'end']] as const) {
       const { status, body } = await bad(q);
       expect({ q, status, code: body.error.code, param: body.error.details[0].param }).toEqual({ q, status: 400, code: 'VALIDATION_FAILED', param });
     }

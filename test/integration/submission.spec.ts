@@ -36,9 +36,9 @@ describe('plan submissions', () => {
     expect([view.turnInclusiveSocMs, view.turnInclusiveMakespanMs]).toEqual([4000, 2000]);
     expect(view.executions.map((e) => e.policy).sort()).toEqual(['dependency-gated', 'lockstep', 'open-loop']);
 
-    const page = (await (await world.visitor.request('/api/leaderboards/rows?cols=model,source,solver,soc,lowerBound,runtimeMs,successOpenLoop&source.in=submitted')).json()) as LeaderboardPage;
+    const page = (await (await world.visitor.request('/api/leaderboards/rows?cols=model,source,solver,socSteps,lowerBoundSteps,runtimeMs,successOpenLoop&source.in=submitted')).json()) as LeaderboardPage;
     expect(page.rows).toHaveLength(1);
-    expect(page.rows[0].cells).toMatchObject({ model: 'classic', source: 'submitted', solver: 'Hand-made planner 2.1', soc: 4, lowerBound: null, runtimeMs: null });
+    expect(page.rows[0].cells).toMatchObject({ model: 'classic', source: 'submitted', solver: 'Hand-made planner 2.1', socSteps: 4, lowerBoundSteps: null, runtimeMs: null });
     expect(typeof page.rows[0].cells['successOpenLoop']).toBe('number');
   });
 

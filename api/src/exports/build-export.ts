@@ -14,6 +14,10 @@ export function exportTable(view: LeaderboardView, page: LeaderboardPage): Expor
     columns: page.columns,
     rows: page.rows.map((r) => page.columns.map((c) => r.cells[c.id] ?? null)),
     compareColumns: view.layout === 'compare' ? page.columns.filter((c) => c.id.startsWith('m_')).map((c) => c.id) : [],
+    // Plans that collide at nominal times are never the bold best unless the view asks for all plans.
+    notExecutable: view.bestAmong === 'executable'
+      ? page.rows.map((r) => Object.entries(r.isExecutableAtNominalByColumn ?? {}).filter(([, ok]) => ok === false).map(([id]) => id))
+      : [],
   };
 }
 

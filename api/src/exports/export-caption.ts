@@ -1,6 +1,7 @@
 /** The caption of an export: which figure, plan models and robot profiles the numbers come from, and the safety note when execution figures are in it. */
 import { SAFETY_NOTE } from '@shared/executions-constants';
-import { columnsOf, type LeaderboardView } from '@shared/leaderboards';
+import { CI95_METHOD } from '@shared/confidence-interval';
+import { columnsOf, NOMINAL_DESCRIPTION, type LeaderboardView } from '@shared/leaderboards';
 
 /** Column ids whose figures come from the execution simulator. */
 const isExecutionColumn = (id: string): boolean => /^(success|spread|realised)/.test(id);
@@ -10,15 +11,19 @@ export function exportCaption(view: LeaderboardView, profileLabels: readonly str
   const parts: string[] = [];
   if (view.layout === 'compare') {
     const metric = columnsOf({ layout: 'entries', metric: view.metric }).find((c) => c.id === view.metric);
-    parts.push(`${metric?.label ?? view.metric}${metric?.unit ? ` (${metric.unit})` : ''} of the best result per plan model (k-robust at k = ${view.k}); one row per instance and robot profile; the best value per row in bold.`);
+    parts.push(`${metric?.label ?? view.metric}${metric?.unit ? ` (${metric.unit})` : ''} of the best result per plan model (k-robust at k = ${view.k}); one row per instance and robot profile; the best value per row in bold${view.bestAmong === 'executable' ? ', among plans that are executable at nominal times (a plan that collides when replayed open-loop with zero noise under its robot profile is never bold)' : ', among all plans, including ones that collide at nominal times'}.`);
   } else {
-    parts.push('Best result per instance and plan model; sum-of-costs, makespan and lower bound in the model\'s own unit (steps, or ms for weighted-split).');
+    parts.push('Best result per instance and plan model (a plan executable at nominal times before one that collides at nominal times); sum-of-costs, makespan and lower bound in steps (classic, uniform-duration, orientation-split, k-robust) or ms (weighted-split), each unit in its own column.');
   }
   const profiles = [...new Set(profileLabels)];
   if (profiles.length === 1) parts.push(`Robot profile: ${profiles[0]}.`);
   else if (profiles.length > 1) parts.push(`Robot profiles: ${profiles.join('; ')}.`);
   if (view.filters.length > 0) parts.push(`Filters: ${view.filters.map((f) => `${f.column} ${f.op} ${f.value}`.trim()).join(', ')}.`);
   const shown = view.layout === 'compare' ? [view.metric] : view.columns;
+  if (shown.includes('executableAtNominal')) parts.push(`Executable at nominal times: ${NOMINAL_DESCRIPTION}`);
+  if (shown.some((id) => /^(success|realised).*(Lo|Hi)$/.test(id))) {
+    parts.push(`95 % intervals: execution success rate by the ${CI95_METHOD.rate}, recomputed from rate × runs; realised makespan mean by the ${CI95_METHOD.mean}, as stored with the execution (empty: interval not stored, executions recorded before intervals were kept).`);
+  }
   if (shown.some(isExecutionColumn)) parts.push(SAFETY_NOTE);
   return parts.join(' ');
 }

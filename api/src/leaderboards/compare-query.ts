@@ -17,6 +17,11 @@ function compareSql(view: LeaderboardView, column: string): string {
   return model === 'k-robust' && view.k !== COMPARE_TABLE_K ? `x.${figureColumn(view.metric)}` : `c.${compareColumn(model, view.metric)}`;
 }
 
+/** SQL of one model's executable-at-nominal flag (migration 0405), beside its figure. */
+function executableSql(view: LeaderboardView, model: PlanModel): string {
+  return model === 'k-robust' && view.k !== COMPARE_TABLE_K ? 'x.executable_at_nominal' : `c.${model.replace('-', '_')}_executable`;
+}
+
 /** The page query and the count query of a comparison view. */
 export function compareQueries(view: LeaderboardView, viewer: Viewer, scope: ViewScope, window: RowWindow): { page: SqlQuery; count: SqlQuery } {
   const repl: Record<string, unknown> = {};
@@ -38,6 +43,7 @@ export function compareQueries(view: LeaderboardView, viewer: Viewer, scope: Vie
   // As in the entries layout: the window is found on keys first (index-only for deep offsets), then its rows are read.
   const page = `WITH w AS (SELECT c.scenario_id, c.agents, c.robot_profile_hash FROM ${from} ${whereSql(where)} ORDER BY ${order} LIMIT :limit OFFSET :offset)
     SELECT c.scenario_id, c.agents, c.robot_profile_hash, c.profile_label,
+      ${PLAN_MODELS.map((m) => `${executableSql(view, m)} AS "__nominal_${modelColumnId(m)}"`).join(', ')},
       ${view.columns.map((col) => `${compareSql(view, col)} AS "${col}"`).join(', ')}
     FROM w JOIN ${from.replace('leaderboard_compare c', 'leaderboard_compare c ON c.scenario_id = w.scenario_id AND c.agents = w.agents AND c.robot_profile_hash = w.robot_profile_hash')}
     ORDER BY ${order}`;

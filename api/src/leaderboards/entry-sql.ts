@@ -9,7 +9,12 @@ import type { PlanModel } from '@shared/plan';
 const POLICY_SQL: Record<string, string> = Object.fromEntries(
   LEADERBOARD_POLICIES.flatMap((p) => {
     const suffix = p.policy.replace('-', '_');
-    return [[`success${p.key}`, `e.success_${suffix}`], [`spread${p.key}`, `e.spread_${suffix}`], [`realised${p.key}`, `e.realised_${suffix}`]];
+    return [
+      [`success${p.key}`, `e.success_${suffix}`], [`spread${p.key}`, `e.spread_${suffix}`], [`realised${p.key}`, `e.realised_${suffix}`],
+      // Computed for the page from rate × runs (leaderboards.service.ts); the query reads the runs here.
+      [`success${p.key}Lo`, `e.runs_${suffix}`], [`success${p.key}Hi`, `e.runs_${suffix}`],
+      [`realised${p.key}Lo`, `e.realised_lo_${suffix}`], [`realised${p.key}Hi`, `e.realised_hi_${suffix}`],
+    ];
   }),
 );
 
@@ -22,11 +27,18 @@ export const ENTRY_SQL: Readonly<Record<string, string>> = {
   variant: 'e.variant',
   profile: 'e.profile_label',
   status: 'e.status',
-  soc: 'e.soc',
-  makespan: 'e.makespan',
+  // Migration 0405: "not checked" (null) is spelled out so the enum filter and sort work on one text.
+  executableAtNominal: "(CASE e.executable_at_nominal WHEN true THEN 'yes' WHEN false THEN 'no' ELSE 'not checked' END)",
+  nominalCollisions: 'e.nominal_collisions',
+  // One unit per column (migration 0405 generates them from the model).
+  socSteps: 'e.soc_steps',
+  socMs: 'e.soc_ms',
+  makespanSteps: 'e.makespan_steps',
+  makespanMs: 'e.makespan_ms',
   tiSocMs: 'e.ti_soc_ms',
   tiMakespanMs: 'e.ti_makespan_ms',
-  lowerBound: 'e.lower_bound',
+  lowerBoundSteps: 'e.lower_bound_steps',
+  lowerBoundMs: 'e.lower_bound_ms',
   gap: 'e.gap',
   runtimeMs: 'e.runtime_ms',
   ...POLICY_SQL,

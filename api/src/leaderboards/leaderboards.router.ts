@@ -3,7 +3,7 @@ import { Router } from 'express';
 import { LEADERBOARD_POLICIES } from '@shared/leaderboards';
 import { AppError } from '../errors/app-error';
 import type { LeaderboardsService } from './leaderboards.service';
-import { flatQuery, scopeOf, viewOf, windowOf } from './view-request';
+import { bestAmongOf, flatQuery, scopeOf, viewOf, windowOf } from './view-request';
 
 /** Leaderboard routes over the service. */
 export function leaderboardsRouter(svc: LeaderboardsService): Router {
@@ -15,7 +15,8 @@ export function leaderboardsRouter(svc: LeaderboardsService): Router {
   });
 
   r.get('/summary', async (req, res) => {
-    res.json(await svc.summary(req.user ?? null, scopeOf(flatQuery(req.query))));
+    const params = flatQuery(req.query);
+    res.json(await svc.summary(req.user ?? null, scopeOf(params), bestAmongOf(params)));
   });
 
   r.get('/charts', async (req, res) => {

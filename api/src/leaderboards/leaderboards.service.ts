@@ -4,8 +4,9 @@
  * the viewer may see.
  */
 import { QueryTypes, type Sequelize } from 'sequelize';
+import { wilsonInterval } from '@shared/confidence-interval';
 import {
-  columnsOf, LEADERBOARD_POLICIES, profileLabel, type ChartSeries, type LeaderboardCharts, type LeaderboardPage,
+  columnsOf, LEADERBOARD_POLICIES, modelColumnId, profileLabel, SUCCESS_INTERVAL_COLUMNS, type BestAmong, type ChartSeries, type LeaderboardCharts, type LeaderboardPage,
   type LeaderboardRow, type LeaderboardSummary, type LeaderboardView, type ModelSummary, type ProfileOption,
 } from '@shared/leaderboards';
 import { PLAN_MODELS, type PlanModel, type RobotProfile } from '@shared/plan';
@@ -19,8 +20,8 @@ import { scopedEntries } from './scoped-entries';
 export interface LeaderboardsService {
   /** One page of `view` (rows [start, end)) and, unless `isCounted` is false, the view's row count. */
   page(view: LeaderboardView, viewer: Viewer, scope: ViewScope, window: RowWindow, isCounted?: boolean): Promise<LeaderboardPage>;
-  /** Per-model summary, optionally for one map. */
-  summary(viewer: Viewer, scope: ViewScope): Promise<LeaderboardSummary>;
+  /** Per-model summary, optionally for one map; `bestAmong` = executable leaves out plans that collide at nominal times. */
+  summary(viewer: Viewer, scope: ViewScope, bestAmong?: BestAmong): Promise<LeaderboardSummary>;
   /** Chart data for one robot profile (default: the one with most rows) and one execution policy. */
   charts(viewer: Viewer, scope: ViewScope, policy: string): Promise<LeaderboardCharts>;
 }
@@ -74,31 +75,41 @@ export function createLeaderboardsService(deps: { readonly sequelize: Sequelize;
         const scenarioId = Number(r['scenario_id']);
         const agents = Number(r['agents']);
         const profileHash = String(r['robot_profile_hash']);
-        return view.layout === 'entries'
-          ? { id: String(r['id']), scenarioId, agents, profileHash, resultId: Number(r['result_id']), cells }
-          : { id: `${scenarioId}:${agents}:${profileHash}`, scenarioId, agents, profileHash, cells };
+        if (view.layout === 'compare') {
+          const isExecutableAtNominalByColumn = Object.fromEntries(PLAN_MODELS.map((m) => [modelColumnId(m), (r[`__nominal_${modelColumnId(m)}`] as boolean | null) ?? null]));
+          return { id: `${scenarioId}:${agents}:${profileHash}`, scenarioId, agents, profileHash, cells, isExecutableAtNominalByColumn };
+        }
+        fillSuccessIntervals(cells, r);
+        return {
+          id: String(r['id']), scenarioId, agents, profileHash, resultId: Number(r['result_id']), cells,
+          isExecutableAtNominal: (r['__nominal'] as boolean | null) ?? null,
+        };
       });
       const visible = new Set(view.columns);
       return { rows: out, rowCount: n, profiles: profileLabels, columns: columnsOf(view).filter((c) => visible.has(c.id)).sort((a, b) => view.columns.indexOf(a.id) - view.columns.indexOf(b.id)) };
     },
 
-    async summary(viewer, scope) {
+    async summary(viewer, scope, bestAmong = 'executable') {
       const v = scopedEntries(viewer, scope);
+      // Rows whose plan collides at nominal times take no part in the ratio and mean execution success rate unless asked.
+      const usable = (alias: string) => (bestAmong === 'executable' ? ` AND ${alias}.executable_at_nominal IS NOT FALSE` : '');
       const all = scopedEntries(viewer, { profileHash: scope.profileHash });
       const withV = (sql: string): SqlQuery => ({ sql: `WITH v AS (${v.sql}) ${sql}`, replacements: v.replacements });
       const successCols = LEADERBOARD_POLICIES.map((p) => `avg(success_${p.policy.replace('-', '_')}) FILTER (WHERE status = 'solved') AS "${p.policy}"`).join(', ');
       const [byAgents, ratios, success, maps, profileList] = await Promise.all([
-        select<{ model: string; variant: string; agents: number; instances: number; solved: number }>(withV(
-          `SELECT model, variant, agents, count(*)::int AS instances, (count(*) FILTER (WHERE status = 'solved'))::int AS solved
+        select<{ model: string; variant: string; agents: number; instances: number; solved: number; executable: number; colliding: number }>(withV(
+          `SELECT model, variant, agents, count(*)::int AS instances, (count(*) FILTER (WHERE status = 'solved'))::int AS solved,
+             (count(*) FILTER (WHERE status = 'solved' AND executable_at_nominal))::int AS executable,
+             (count(*) FILTER (WHERE status = 'solved' AND NOT executable_at_nominal))::int AS colliding
            FROM v GROUP BY model, variant, agents ORDER BY model, variant, agents`)),
         // Same instance and robot profile, both solved: the model's turn-inclusive makespan over classic's.
         select<{ model: string; variant: string; ratio: number; pairs: number }>(withV(
           `SELECT e.model, e.variant, avg(e.ti_makespan_ms / c.ti_makespan_ms) AS ratio, count(*)::int AS pairs
            FROM v e JOIN v c ON c.scenario_id = e.scenario_id AND c.agents = e.agents
              AND c.robot_profile_hash = e.robot_profile_hash AND c.model = 'classic' AND c.variant = ''
-           WHERE e.status = 'solved' AND c.status = 'solved' AND c.ti_makespan_ms > 0 AND e.ti_makespan_ms IS NOT NULL
+           WHERE e.status = 'solved' AND c.status = 'solved' AND c.ti_makespan_ms > 0 AND e.ti_makespan_ms IS NOT NULL${usable('e')}${usable('c')}
            GROUP BY e.model, e.variant`)),
-        select<Row>(withV(`SELECT model, variant, ${successCols} FROM v GROUP BY model, variant`)),
+        select<Row>(withV(`SELECT model, variant, ${successCols} FROM v ${bestAmong === 'executable' ? 'WHERE executable_at_nominal IS NOT FALSE' : ''} GROUP BY model, variant`)),
         select<{ id: number; name: string; entries: number }>({
           sql: `WITH v AS (${all.sql}) SELECT map_id AS id, min(map_name) AS name, count(*)::int AS entries FROM v GROUP BY map_id ORDER BY name, id`,
           replacements: all.replacements,
@@ -111,11 +122,17 @@ export function createLeaderboardsService(deps: { readonly sequelize: Sequelize;
         const k = key(r.model, r.variant);
         let s = models.get(k);
         if (!s) {
-          s = { model: r.model as PlanModel, variant: r.variant, instances: 0, solved: 0, byAgents: [], meanTiMakespanVsClassic: null, pairedWithClassic: 0, meanSuccess: {} };
+          s = {
+            model: r.model as PlanModel, variant: r.variant, instances: 0, solved: 0, byAgents: [], meanTiMakespanVsClassic: null, pairedWithClassic: 0,
+            meanSuccess: Object.fromEntries(LEADERBOARD_POLICIES.map((p) => [p.policy, null])), executableAtNominal: 0, notExecutableAtNominal: 0,
+          };
           models.set(k, s);
         }
         s.byAgents.push({ agents: r.agents, instances: r.instances, solved: r.solved });
-        Object.assign(s, { instances: s.instances + r.instances, solved: s.solved + r.solved });
+        Object.assign(s, {
+          instances: s.instances + r.instances, solved: s.solved + r.solved,
+          executableAtNominal: s.executableAtNominal + r.executable, notExecutableAtNominal: s.notExecutableAtNominal + r.colliding,
+        });
       }
       for (const r of ratios) {
         const s = models.get(key(r.model, r.variant));
@@ -127,6 +144,7 @@ export function createLeaderboardsService(deps: { readonly sequelize: Sequelize;
       }
       const map = scope.mapId === undefined ? null : maps.find((m) => m.id === scope.mapId) ?? null;
       return {
+        bestAmong,
         models: [...models.values()].sort((a, b) => modelOrder(a.model) - modelOrder(b.model) || a.variant.localeCompare(b.variant)),
         map: map && { id: map.id, name: map.name },
         maps,
@@ -179,6 +197,22 @@ export function createLeaderboardsService(deps: { readonly sequelize: Sequelize;
       };
     },
   };
+}
+
+/**
+ * The Wilson 95 % interval cells of each policy's execution success rate (shared/confidence-interval.ts),
+ * recomputed from the stored rate × runs; the page query put the runs into the interval columns
+ * and the rate and runs into `__success_*` / `__runs_*`.
+ */
+function fillSuccessIntervals(cells: Record<string, string | number | null>, r: Row): void {
+  for (const [lo, hi, , suffix] of SUCCESS_INTERVAL_COLUMNS) {
+    if (!(lo in cells) && !(hi in cells)) continue;
+    const rate = r[`__success_${suffix}`] as number | null;
+    const runs = r[`__runs_${suffix}`] as number | null;
+    const ci = rate === null || runs === null || runs <= 0 ? null : wilsonInterval(Math.round(rate * runs), runs);
+    if (lo in cells) cells[lo] = ci ? ci[0] : null;
+    if (hi in cells) cells[hi] = ci ? ci[1] : null;
+  }
 }
 
 /** A bin width giving about 20 bins up to `max`, rounded to 1, 2 or 5 × 10^n ms. */

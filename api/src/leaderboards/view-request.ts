@@ -1,5 +1,5 @@
 /** Reads a board view, its scope and its row window from a request's query string (400 on a bad parameter). */
-import { parseView, ViewParamError, type LeaderboardView } from '@shared/leaderboards';
+import { BEST_AMONG, parseView, ViewParamError, type BestAmong, type LeaderboardView } from '@shared/leaderboards';
 import { AppError } from '../errors/app-error';
 import type { RowWindow, ViewScope } from './view-sql';
 
@@ -51,4 +51,13 @@ export function windowOf(params: Record<string, string>, max = MAX_PAGE_ROWS): R
   if (end <= start) throw new AppError('VALIDATION_FAILED', 400, `Query parameter "end" (${end}) must be greater than "start" (${start})`, [{ param: 'end' }]);
   if (end - start > max) throw new AppError('VALIDATION_FAILED', 400, `At most ${max} rows per request; asked for ${end - start}`, [{ param: 'end' }]);
   return { start, end };
+}
+
+/** The `bestAmong` parameter of the summary (default `executable`), or 400 naming it. */
+export function bestAmongOf(params: Record<string, string>): BestAmong {
+  const raw = params['bestAmong'] ?? 'executable';
+  if (!(BEST_AMONG as readonly string[]).includes(raw)) {
+    throw new AppError('VALIDATION_FAILED', 400, `Query parameter "bestAmong" must be one of ${BEST_AMONG.join(', ')}, got "${raw}"`, [{ param: 'bestAmong' }]);
+  }
+  return raw as BestAmong;
 }

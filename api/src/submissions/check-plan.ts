@@ -11,6 +11,7 @@ import type { SubmissionViolation } from '@shared/submissions';
 import type { MapfInstance } from '@solvers/instance';
 import { scheduleFromHeadingStates } from '@solvers/models/heading-schedule';
 import { scheduleFromPaths } from '@solvers/models/turn-schedule';
+import { checkAtNominal, type NominalCheck } from '@solvers/run/nominal-check';
 import { replayPlan } from '@solvers/run/replay-plan';
 import type { TaskExecutionSummary, TaskPlan } from '@solvers/run/plan-task';
 import { validateClassicPlan } from '@solvers/validate/classic';
@@ -38,6 +39,8 @@ export type PlanVerdict =
     /** What the results table stores in plan_gz (the sweeps' TaskPlan shape). */
     readonly storedPlan: TaskPlan;
     readonly executions: readonly TaskExecutionSummary[];
+    /** The plan replayed open-loop with zero noise under its profile (executable at nominal times). */
+    readonly atNominal: NominalCheck;
   };
 
 /** Cell index of [x, y], or -1 off the grid (so the validator reports it instead of wrapping to another row). */
@@ -60,6 +63,7 @@ export function checkPlan(instance: MapfInstance, sub: ReadSubmission): PlanVerd
   const profile = sub.robotProfile;
   const replay = (schedule: Schedule, timeline: 'steps' | 'ms') =>
     replayPlan(instance, { timeline, schedule }, profile, SUBMISSION_EXECUTION, SUBMISSION_SEED);
+  const nominal = (schedule: Schedule, timeline: 'steps' | 'ms') => checkAtNominal(instance, { timeline, schedule }, profile);
   const plan = sub.plan;
 
   if (plan.kind === 'paths') {
@@ -71,7 +75,7 @@ export function checkPlan(instance: MapfInstance, sub: ReadSubmission): PlanVerd
     return {
       ok: true, soc: check.soc, makespan: check.makespan,
       turnInclusiveSocMs: turned.turnInclusiveSocMs, turnInclusiveMakespanMs: turned.turnInclusiveMakespanMs, turns: turned.turns,
-      storedPlan: { kind: 'paths', paths }, executions: replay(turned.schedule, 'steps'),
+      storedPlan: { kind: 'paths', paths }, executions: replay(turned.schedule, 'steps'), atNominal: nominal(turned.schedule, 'steps'),
     };
   }
   if (plan.kind === 'states') {
@@ -84,7 +88,7 @@ export function checkPlan(instance: MapfInstance, sub: ReadSubmission): PlanVerd
     return {
       ok: true, soc: check.soc, makespan: check.makespan,
       turnInclusiveSocMs: built.turnInclusiveSocMs, turnInclusiveMakespanMs: built.turnInclusiveMakespanMs, turns: built.turns,
-      storedPlan: { kind: 'schedule', schedule: built.schedule }, executions: replay(built.schedule, 'steps'),
+      storedPlan: { kind: 'schedule', schedule: built.schedule }, executions: replay(built.schedule, 'steps'), atNominal: nominal(built.schedule, 'steps'),
     };
   }
   const check = validateSchedule(instance, plan.schedule, profile, { startHeading: sub.startHeading });
@@ -92,6 +96,6 @@ export function checkPlan(instance: MapfInstance, sub: ReadSubmission): PlanVerd
   const turns = plan.schedule.reduce((n, acts) => n + acts.filter((a) => a.action === 'turn-left' || a.action === 'turn-right').length, 0);
   return {
     ok: true, soc: check.soc, makespan: check.makespan, turnInclusiveSocMs: check.soc, turnInclusiveMakespanMs: check.makespan, turns,
-    storedPlan: { kind: 'schedule', schedule: plan.schedule }, executions: replay(plan.schedule, 'ms'),
+    storedPlan: { kind: 'schedule', schedule: plan.schedule }, executions: replay(plan.schedule, 'ms'), atNominal: nominal(plan.schedule, 'ms'),
   };
 }

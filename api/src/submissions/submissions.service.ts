@@ -93,16 +93,19 @@ export function createSubmissionsService(deps: SubmissionsServiceDeps): Submissi
         const [r] = await q<{ id: number }>(
           `INSERT INTO results (submission_id, instance_set_id, map_id, scenario_id, agents, model, params, param_hash, seed, status,
              soc, makespan, turn_inclusive_soc_ms, turn_inclusive_makespan_ms, lower_bound, runtime_ms, turns,
-             robot_profile, robot_profile_hash, solver_version, solver_commit, node_version, cpu_model, thread_count, plan_gz)
+             robot_profile, robot_profile_hash, solver_version, solver_commit, node_version, cpu_model, thread_count, plan_gz,
+             executable_at_nominal, nominal_collisions)
            VALUES (:sub, :set, :map, :scenario, :agents, :model, :params, :paramHash, 0, 'solved',
              :soc, :makespan, :tiSoc, :tiMakespan, NULL, NULL, :turns,
-             :profile, :profileHash, :version, 'submitted', 'unknown', 'unknown', 0, :plan) RETURNING id`,
+             :profile, :profileHash, :version, 'submitted', 'unknown', 'unknown', 0, :plan,
+             :atNominal, :nominalCollisions) RETURNING id`,
           {
             sub: s.id, set: loaded.instanceSetId, map: loaded.mapId, scenario: loaded.scenarioId, agents: sub.agents, model: sub.model,
             params: JSON.stringify(params), paramHash: parameterHash(params), soc: verdict.soc, makespan: verdict.makespan,
             tiSoc: verdict.turnInclusiveSocMs, tiMakespan: verdict.turnInclusiveMakespanMs, turns: verdict.turns,
             profile: JSON.stringify(sub.robotProfile), profileHash: parameterHash(sub.robotProfile), version: sub.solver.version,
             plan: gzipSync(JSON.stringify(verdict.storedPlan)),
+            atNominal: verdict.atNominal.isCollisionFree, nominalCollisions: verdict.atNominal.collisions,
           },
         );
         const ex = verdict.executions;

@@ -41,6 +41,10 @@ export class Result extends Model<InferAttributes<Result>, InferCreationAttribut
   declare threadCount: number;
   /** gzip of the plan JSON ({ kind: 'paths' | 'schedule', … }). */
   declare planGz: Buffer | null;
+  /** Collision-free when replayed open-loop with zero noise under its own profile; null = not checked (migration 0405). */
+  declare isExecutableAtNominal: boolean | null;
+  /** Collisions of that replay; null = not checked. */
+  declare nominalCollisions: number | null;
   declare createdAt: CreationOptional<Date>;
 }
 
@@ -102,6 +106,8 @@ export function defineResultModels(sequelize: Sequelize): { Result: ResultModel;
       cpuModel: { type: DataTypes.STRING(200), allowNull: false },
       threadCount: { type: DataTypes.INTEGER, allowNull: false },
       planGz: { type: DataTypes.BLOB, allowNull: true },
+      isExecutableAtNominal: { type: DataTypes.BOOLEAN, allowNull: true, field: 'executable_at_nominal' },
+      nominalCollisions: { type: DataTypes.INTEGER, allowNull: true },
       createdAt: DataTypes.DATE,
     },
     { sequelize, tableName: 'results', modelName: 'Result', underscored: true, updatedAt: false },

@@ -57,11 +57,11 @@ export async function recordRunResult(
       `INSERT INTO results (run_id, sweep_id, instance_set_id, map_id, scenario_id, agents, model, params, param_hash, seed,
          status, reason, soc, makespan, turn_inclusive_soc_ms, turn_inclusive_makespan_ms, lower_bound, runtime_ms,
          nodes, nodes_expanded, turns, robot_profile, robot_profile_hash, solver_version, solver_commit, node_version,
-         cpu_model, thread_count, plan_gz)
+         cpu_model, thread_count, plan_gz, executable_at_nominal, nominal_collisions)
        VALUES (:runId, :sweepId, :instanceSetId, :mapId, :scenarioId, :agents, :model, :params, :paramHash, :seed,
          :status, :reason, :soc, :makespan, :tiSoc, :tiMakespan, :lowerBound, :runtimeMs,
          :nodes, :nodesExpanded, :turns, :profile, :profileHash, :version, :commit, :node,
-         :cpu, :threads, :plan)
+         :cpu, :threads, :plan, :atNominal, :nominalCollisions)
        ON CONFLICT DO NOTHING RETURNING id`,
       {
         runId: run.id, sweepId: run.sweepId, instanceSetId: run.instanceSetId, mapId: run.mapId, scenarioId: run.scenarioId,
@@ -72,6 +72,8 @@ export async function recordRunResult(
         profile: JSON.stringify(profile), profileHash: parameterHash(profile),
         version: build.version, commit: build.commit, node: build.node, cpu: build.cpuModel, threads: build.threads,
         plan: result.plan ? gzipSync(JSON.stringify(result.plan)) : null,
+        // Executable at nominal times (migration 0405); null when the run was not solved or not checked.
+        atNominal: result.atNominal?.isCollisionFree ?? null, nominalCollisions: result.atNominal?.collisions ?? null,
       },
     );
     const resultId = inserted[0]?.id;

@@ -29,10 +29,10 @@ describe('grid view mapping', () => {
   });
 
   it('keeps sort and filters through the URL parameters of a shared link', () => {
-    const view = withGridState(parseView({ cols: 'map,agents,soc' }), [{ colId: 'soc', sort: 'desc' }, { colId: 'agents', sort: 'asc' }],
+    const view = withGridState(parseView({ cols: 'map,agents,socSteps' }), [{ colId: 'socSteps', sort: 'desc' }, { colId: 'agents', sort: 'asc' }],
       { agents: { filterType: 'number', type: 'greaterThan', filter: 3 } }, ENTRY_COLUMNS);
     const params = viewToParams(view);
-    expect(params).toEqual({ cols: 'map,agents,soc', sort: '-soc,agents', 'agents.gt': '3' });
+    expect(params).toEqual({ cols: 'map,agents,socSteps', sort: '-socSteps,agents', 'agents.gt': '3' });
     expect(parseView(params)).toEqual(view);
   });
 });
