@@ -45,8 +45,23 @@ const { values } = parseArgs({
     'turn-ms': { type: 'string', default: String(DEFAULT_ROBOT_PROFILE.quarterTurnMs) },
     'wait-ms': { type: 'string', default: String(DEFAULT_ROBOT_PROFILE.waitMs) },
     out: { type: 'string', default: join(root, 'benchmarks', 'results', 'solver.json') },
+    help: { type: 'boolean', short: 'h' },
   },
 });
+if (values.help) {
+  // The header comment above is the help: the options, their defaults and the examples.
+  process.stdout.write([
+    'usage: npm run bench:solver -- [--map NAME]... [--scen 1,2,...] [--agents 10,20,...] [--time-limit SECONDS]',
+    '         [--models classic|all|M1,M2] [--k K] [--start-heading N|E|S|W|free] [--forward-ms MS] [--turn-ms MS] [--wait-ms MS]',
+    "         [--switches JSON] [--out FILE]",
+    'defaults: --map random-32-32-20 --scen 1,2,3,4,5 --agents 10,20,30,40,50,60 --time-limit 30 --models classic --k 2',
+    `          --start-heading free --forward-ms ${DEFAULT_ROBOT_PROFILE.forwardMs} --turn-ms ${DEFAULT_ROBOT_PROFILE.quarterTurnMs} --wait-ms ${DEFAULT_ROBOT_PROFILE.waitMs}`,
+    '          --out benchmarks/results/solver.json',
+    'maps and scenarios are read from benchmarks/datasets/grid-benchmarks (NAME without .map; --scen numbers the even-N scenarios)',
+    '',
+  ].join('\n'));
+  process.exit(0);
+}
 const maps = values.map ?? ['random-32-32-20'];
 const scens = values.scen.split(',').map((s) => s.trim());
 const agentCounts = values.agents.split(',').map(Number);
