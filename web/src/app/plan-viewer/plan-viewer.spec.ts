@@ -258,6 +258,17 @@ describe('PlanViewer', () => {
     expect(el.querySelector('[data-testid="what-if"]')).toBeNull();
   });
 
+  it('a kept execution of a stored result (execution=ID) is labelled against the stored settings', async () => {
+    fixture.componentRef.setInput('execution', '12');
+    await fixture.whenStable();
+    const view = serverView(12, 'classic', { policy: 'open-loop', ...STORED_SETTINGS, seed: 9 } as InstanceExecutionInput);
+    backend.expectOne({ method: 'GET', url: '/api/executions/12' }).flush({ ...view, source: { ...view.source, resultId: 41, sweepId: 3 } });
+    await settle();
+    backend.expectOne({ method: 'GET', url: '/api/executions/stored/41' }).flush(storedView());
+    await settle();
+    expect(el.querySelector('[data-testid="what-if"]')?.textContent).toContain('seed 9 instead of 7');
+  });
+
   it('every Monte Carlo figure carries its unit and 95 % interval, the methods are named, waiting is per robot and the total is labelled', async () => {
     await openStored();
     const card = el.querySelector('app-execution-summary-card')!;

@@ -20,7 +20,7 @@ import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatSelectModule } from '@angular/material/select';
 import { MatSliderModule } from '@angular/material/slider';
 import { Router } from '@angular/router';
-import { firstValueFrom } from 'rxjs';
+import { catchError, firstValueFrom, of } from 'rxjs';
 import type { ExecutionSummaryView, ExecutionView, InstanceExecutionInput } from '@shared/executions';
 import type { StoredResultExecutionsView } from '@shared/stored-executions';
 import {
@@ -250,6 +250,10 @@ export default class PlanViewer {
       } else if (q['execution']) {
         const ids = idList(q['execution']);
         executions = await Promise.all(ids.map((id) => firstValueFrom(this.api.get(id))));
+        // A kept replay of a stored result is labelled against that result's stored settings too.
+        for (const e of executions) {
+          storedViews.push(e.source.resultId === undefined ? null : await firstValueFrom(this.api.stored(e.source.resultId).pipe(catchError(() => of(null)))));
+        }
         if (executions[0]) this.adoptSettings(executions[0].summary);
       } else if (q['scenario'] && q['agents'] && q['model']) {
         const models = [q['model'], q['compare']].filter((m): m is PlanModel => m !== undefined && (PLAN_MODELS as readonly string[]).includes(m));
