@@ -78,12 +78,6 @@ describe('npm run execute', () => {
     expect(run.stdout).toContain(SAFETY_NOTE);
   });
 
-  it('replays a plan solved with --following forbidden', () => {
-    const run = execute(...files, '--model', 'classic', '--following', 'forbidden', '--policy', 'open-loop', '--runs', '1', '--json');
-    expect(run.status).toBe(0);
-    expect(JSON.parse(run.stdout).runs).toBe(1);
-  });
-
   it('prints its help on stdout with exit code 0', () => {
     const run = execute('--help');
     expect(run.status).toBe(0);

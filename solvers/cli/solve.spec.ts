@@ -117,7 +117,7 @@ describe('npm run solve', () => {
     expect(solve(...base, '--turn-ms', '0').stderr).toMatch(/--turn-ms must be a whole number/);
   });
 
-  it('solves with --following forbidden and allowed on a tiny map, and prints the rule', () => {
+  it('names the following rule in its figures and refuses it for k-robust (following-option.spec.ts solves with it)', () => {
     const base = ['--map', join(DATASET, 'empty-8-8.map'), '--scen', join(DATASET, 'empty-8-8-even-1.scen'), '--agents', '4'];
     const forbidden = solve(...base, '--following', 'forbidden');
     expect(forbidden.status).toBe(0);
