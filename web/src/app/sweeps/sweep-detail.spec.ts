@@ -22,22 +22,61 @@ const SWEEP = {
   definition: { timeLimitMs: 10_000, memoryLimitMb: 256, execution: { policies: [], runs: 1 } },
 } as unknown as SweepDetail;
 
+/** A sweep of 400 mm robots on a 500 mm pitch replaying classic plans (following allowed) and weighted-split ones. */
+const WIDE_ROBOT_SWEEP = {
+  ...SWEEP,
+  definition: {
+    timeLimitMs: 10_000, memoryLimitMb: 256,
+    models: [{ model: 'classic', startHeading: 'free', switches: {} }, { model: 'weighted-split', startHeading: 'free' }],
+    robotProfile: { forwardMs: 1000, quarterTurnMs: 600, waitMs: 1000, cellPitchMm: 500, robotDiameterMm: 400, timingJitter: 0.1 },
+    execution: { policies: ['open-loop'], runs: 40, stallProbability: 0, stallMs: 0 },
+  },
+} as unknown as SweepDetail;
+
+async function openPage(sweep: SweepDetail, events: Subject<SweepStreamEvent>): Promise<ComponentFixture<SweepDetailPage>> {
+  const api: Partial<SweepApi> = { get: () => of(sweep), results: () => of({ items: [] }), events: () => events };
+  TestBed.configureTestingModule({
+    imports: [SweepDetailPage],
+    providers: [provideHttpClient(), provideHttpClientTesting(), provideRouter([]), { provide: SweepApi, useValue: api }],
+  });
+  // jsdom has no layout for the results grid; these specs are about the lines around it.
+  TestBed.overrideComponent(SweepDetailPage, { remove: { imports: [AgGridAngular] }, add: { schemas: [CUSTOM_ELEMENTS_SCHEMA] } });
+  const fixture = TestBed.createComponent(SweepDetailPage);
+  fixture.componentRef.setInput('id', '12');
+  await fixture.whenStable();
+  return fixture;
+}
+
+describe('SweepDetailPage around the results', () => {
+  it('shows the robot profile, the following hazard with its derivation, and what the execution figures mean', async () => {
+    const fixture = await openPage(WIDE_ROBOT_SWEEP, new Subject<SweepStreamEvent>());
+    const page = fixture.nativeElement as HTMLElement;
+    expect(page.querySelector('[data-testid="sweep-profile"]')?.textContent).toContain('pitch 500 mm, diameter 400 mm');
+    const hazard = page.querySelector('[data-testid="following-hazard"]')?.textContent ?? '';
+    expect(hazard).toContain('classic (following allowed)');
+    expect(hazard).not.toContain('weighted-split');
+    expect(hazard).toContain('p/√2 = 353.6 mm');
+    const note = page.querySelector('[data-testid="execution-note"]')?.textContent ?? '';
+    expect(note).toContain('execution success rate is the share of the');
+    expect(note).toContain('40 simulated runs');
+    expect(note).toContain('Wilson');
+    expect(page.textContent).toContain('Simulation is no safety assessment');
+  });
+
+  it('shows no hazard when the sweep forbids following', async () => {
+    const forbidden = { ...WIDE_ROBOT_SWEEP, definition: { ...WIDE_ROBOT_SWEEP.definition, models: [{ model: 'classic', startHeading: 'free', switches: {}, following: 'forbidden' }] } } as unknown as SweepDetail;
+    const fixture = await openPage(forbidden, new Subject<SweepStreamEvent>());
+    expect((fixture.nativeElement as HTMLElement).querySelector('[data-testid="following-hazard"]')).toBeNull();
+  });
+});
+
 describe('SweepDetailPage', () => {
   let fixture: ComponentFixture<SweepDetailPage>;
   let events: Subject<SweepStreamEvent>;
 
   beforeEach(async () => {
     events = new Subject<SweepStreamEvent>();
-    const api: Partial<SweepApi> = { get: () => of(SWEEP), results: () => of({ items: [] }), events: () => events };
-    TestBed.configureTestingModule({
-      imports: [SweepDetailPage],
-      providers: [provideHttpClient(), provideHttpClientTesting(), provideRouter([]), { provide: SweepApi, useValue: api }],
-    });
-    // jsdom has no layout for the results grid; this spec is about the progress lines.
-    TestBed.overrideComponent(SweepDetailPage, { remove: { imports: [AgGridAngular] }, add: { schemas: [CUSTOM_ELEMENTS_SCHEMA] } });
-    fixture = TestBed.createComponent(SweepDetailPage);
-    fixture.componentRef.setInput('id', '12');
-    await fixture.whenStable();
+    fixture = await openPage(SWEEP, events);
   });
 
   const progressText = () => (fixture.nativeElement.querySelector('[aria-label="Progress"]') as HTMLElement).textContent ?? '';
