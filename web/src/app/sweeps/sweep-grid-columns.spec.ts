@@ -1,0 +1,90 @@
+import type { ColDef, ValueFormatterParams, ValueGetterParams } from 'ag-grid-community';
+import { wilsonInterval } from '@shared/confidence-interval';
+import type { ExecutionView, SweepResultRow } from '@shared/runs';
+import type { ModelSpec } from '@shared/sweeps';
+import { modelVariantLabel, sweepGridColumns } from './sweep-grid-columns';
+import { formatRateWithInterval, successRateInterval } from './sweep-grid-figures';
+
+const row = (over: Partial<SweepResultRow>): SweepResultRow => ({
+  runId: 1, resultId: 10, scenarioId: 1, scenarioName: 'sc-1', mapName: 'quay', agents: 4, modelIndex: 0, model: 'classic', seed: 1,
+  status: 'solved', soc: 20, makespan: 8, turnInclusiveSocMs: 26_400, turnInclusiveMakespanMs: 9_800, lowerBound: 19, runtimeMs: 3.2, nodes: 5,
+  reason: null, executions: [], ...over,
+});
+const execution = (over: Partial<ExecutionView>): ExecutionView => ({
+  policy: 'open-loop', runs: 40, successRate: 0.85, collisionsMean: 0.2, realisedMakespanMeanMs: 10_250.4, realisedMakespanP95Ms: 11_000,
+  finishSpreadMeanMs: 900, ...over,
+});
+
+/** What a column shows for a row: its value getter (or field), then its formatter. */
+function shown(col: ColDef<SweepResultRow>, data: SweepResultRow): string {
+  const value = typeof col.valueGetter === 'function'
+    ? col.valueGetter({ data } as ValueGetterParams<SweepResultRow>)
+    : (data as unknown as Record<string, unknown>)[col.field as string];
+  if (typeof col.valueFormatter === 'function') return col.valueFormatter({ value, data } as ValueFormatterParams<SweepResultRow>);
+  return value === null || value === undefined ? '' : String(value);
+}
+const column = (cols: ColDef<SweepResultRow>[], id: string) => {
+  const c = cols.find((x) => (x.colId ?? x.field) === id);
+  if (!c) throw new Error(`no column ${id}`);
+  return c;
+};
+
+describe('sweep grid columns', () => {
+  const cols = sweepGridColumns(['open-loop', 'dependency-gated']);
+
+  it('puts a unit in the header of every number column and never mixes steps with ms', () => {
+    const numeric = cols.filter((c) => c.type === 'rightAligned' && !['runId', 'agents', 'seed'].includes((c.colId ?? c.field) as string));
+    expect(numeric.length).toBe(12); // 6 plan figures, solve time, CT nodes, 2 per policy × 2
+    for (const c of numeric) expect(c.headerName).toMatch(/\((steps|ms|count|%)[,)]/);
+    expect(cols.some((c) => /^Sum-of-costs$|model unit/.test(c.headerName ?? ''))).toBe(false);
+  });
+
+  it('shows step figures only for unit-step models and the ms lower bound only for weighted-split', () => {
+    const classic = row({});
+    const weighted = row({ model: 'weighted-split', soc: 26_400, makespan: 9_800, lowerBound: 25_000 });
+    expect(shown(column(cols, 'socSteps'), classic)).toBe('20');
+    expect(shown(column(cols, 'socSteps'), weighted)).toBe('');
+    expect(shown(column(cols, 'makespanSteps'), weighted)).toBe('');
+    expect(shown(column(cols, 'lowerBoundSteps'), classic)).toBe('19');
+    expect(shown(column(cols, 'lowerBoundMs'), classic)).toBe('');
+    expect(shown(column(cols, 'lowerBoundMs'), weighted)).toBe('25,000');
+  });
+
+  it('labels execution figures as execution success, with the Wilson interval recomputed for rows stored without one', () => {
+    const success = column(cols, 'success-open-loop');
+    expect(success.headerName).toBe('Execution success rate, open-loop (%, 95 % CI)');
+    // 34 of 40 collision-free: Wilson [0.709, 0.929] (checked by hand: centre 0.819, half-width 0.110).
+    const [lo, hi] = wilsonInterval(34, 40);
+    expect(lo).toBeCloseTo(0.709, 3);
+    expect(hi).toBeCloseTo(0.929, 3);
+    expect(shown(success, row({ executions: [execution({})] }))).toBe('85 % (71–93 %) of 40 runs');
+    expect(shown(column(cols, 'success-dependency-gated'), row({ executions: [execution({})] }))).toBe('');
+  });
+
+  it('prefers the interval stored with the result, and shows a mean makespan without an interval when none was stored', () => {
+    const stored = execution({ ci95: { successRate: [0.7, 0.95], realisedMakespanMs: [10_000, 10_500], finishSpreadMs: null } });
+    expect(shown(column(cols, 'success-open-loop'), row({ executions: [stored] }))).toBe('85 % (70–95 %) of 40 runs');
+    expect(shown(column(cols, 'realised-open-loop'), row({ executions: [stored] }))).toBe('10,250 (10,000–10,500)');
+    expect(shown(column(cols, 'realised-open-loop'), row({ executions: [execution({ ci95: null })] }))).toBe('10,250');
+    expect(column(cols, 'realised-open-loop').headerName).toBe('Realised makespan, open-loop (ms, mean, 95 % CI)');
+  });
+
+  it('names the variant of the plan model from the sweep definition', () => {
+    const spec = { model: 'classic', startHeading: 'free', switches: {}, following: 'forbidden' } as unknown as ModelSpec;
+    expect(modelVariantLabel(spec, 'classic')).toBe('classic, following forbidden');
+    expect(modelVariantLabel({ model: 'k-robust', k: 2, startHeading: 'free', switches: {} } as ModelSpec, 'k-robust')).toBe('k-robust k=2');
+    expect(modelVariantLabel(undefined, 'classic')).toBe('classic');
+  });
+});
+
+describe('sweep grid figures', () => {
+  it('keeps rates near the ends distinguishable from 0 and 100 %', () => {
+    expect(formatRateWithInterval(0.998, [0.99, 1], 500)).toBe('99.8 % (99–100 %) of 500 runs');
+    expect(formatRateWithInterval(0.002, null, 500)).toBe('0.2 % of 500 runs');
+  });
+
+  it('has no interval when a summary has no runs', () => {
+    expect(successRateInterval({ successRate: 0, runs: 0 })).toBeNull();
+    expect(successRateInterval({ successRate: 1, runs: 20 })).toEqual(wilsonInterval(20, 20));
+  });
+});
