@@ -63,12 +63,12 @@ export function followingHazard(profile: { readonly cellPitchMm: number; readonl
     message =
       `Robots of ${mm(d)} on a ${mm(p)} pitch collide in any following, straight or at a right angle, even with ` +
       `perfect timing: plans with following allowed may collide however exactly they are executed. ` +
-      `Choose following forbidden, or k-robust plans.`;
+      `Choose following forbidden, or k-robust plans with k ≥ 1.`;
   } else if (rightAngle) {
     message =
       `Robots of ${mm(d)} on a ${mm(p)} pitch collide in right-angle following (diameter above p/√2 = ` +
       `${mm(rightAngleLimitMm)}) even with perfect timing: plans with following allowed may collide however ` +
-      `exactly they are executed. Choose following forbidden, or k-robust plans.`;
+      `exactly they are executed. Choose following forbidden, or k-robust plans with k ≥ 1.`;
   }
   return { rightAngle, straight, rightAngleLimitMm, straightLimitMm, message, derivation };
 }

@@ -36,7 +36,7 @@ describe('SweepEditor advice', () => {
     const hazard = text('following-hazard');
     expect(hazard).toContain('classic (following allowed)');
     expect(hazard).toContain('least distance is p/√2 = 353.6 mm');
-    expect(hazard).toContain('Choose following forbidden, or k-robust plans');
+    expect(hazard).toContain('Choose following forbidden, or k-robust plans with k ≥ 1');
   });
 
   it('clears the warning when following is forbidden', async () => {
