@@ -74,7 +74,8 @@ describe('npm run execute', () => {
     expect(line('realised makespan')).toMatch(/^realised makespan +mean \d+ ms \(95 % CI \d+–\d+ ms\), p95 \d+ ms \(95 % CI (\d+–\d+ ms|n\/a)\)$/);
     expect(line('finish spread')).toMatch(/mean \d+ ms \(95 % CI \d+–\d+ ms\)/);
     expect(line('waiting per robot')).toMatch(/^waiting per robot +mean \d+ ms \(95 % CI \d+–\d+ ms\), max \d+ ms \(95 % CI \d+–\d+ ms\)$/);
-    expect(line('waiting, total over robots')).toMatch(/mean \d+ ms per run$/);
+    expect(line('waiting, total over robots')).toMatch(/mean \d+ ms per run \(95 % CI \d+–\d+ ms\)$/);
+    expect(line('collisions per run')).toMatch(/^collisions per run +mean \d+\.\d\d \(95 % CI (\d+\.\d\d–\d+\.\d\d|n\/a)\), total \d+ over all runs$/);
     expect(run.stdout).toContain(SAFETY_NOTE);
   });
 

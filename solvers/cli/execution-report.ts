@@ -3,21 +3,11 @@
  * person reads. Every figure drawn from random runs carries its 95 % interval; waiting is given
  * per robot (mean and max over robots) and, labelled apart, as the total over robots.
  */
-import { CI95_METHOD, meanInterval } from '../../shared/confidence-interval';
+import { CI95_METHOD, meanInterval, type Interval95 } from '../../shared/confidence-interval';
 import type { PlanModel, RobotProfile } from '../../shared/plan';
 import type { ExecutionSummary, MetricStats } from '../execute';
 
-type Interval = readonly [number, number];
-type StatsWithIntervals = MetricStats & { readonly meanCi95?: Interval | null; readonly p95Ci95?: Interval | null };
-
-/**
- * The interval fields of the summary (contract C2 of issue 12, solvers/execute/execution-types.ts):
- * read structurally so this file states exactly which ones it uses.
- */
-interface SummaryIntervals {
-  readonly ci95?: { readonly successRate: Interval; readonly realisedMakespanMs: Interval | null; readonly finishSpreadMs: Interval | null };
-  readonly waitingPerRobotMs?: { readonly mean: StatsWithIntervals; readonly max: StatsWithIntervals };
-}
+type Interval = Interval95;
 
 /** The keys of `execute --json`, in order; `ci95` is the one addition of issue 12 (item 5). */
 export const EXECUTE_JSON_KEYS = ['runs', 'successRate', 'collisions', 'realisedMakespanMs', 'finishSpreadMs', 'waitingMs', 'firstCollision', 'ci95'] as const;
@@ -29,15 +19,10 @@ export interface JsonCi95 {
   readonly finishSpreadMs: Interval | null;
 }
 
-function intervalsOf(s: ExecutionSummary): SummaryIntervals {
-  return s as ExecutionSummary & SummaryIntervals;
-}
-
 /** The stable JSON contract of `execute --json`. */
 export function executeJson(s: ExecutionSummary): Record<(typeof EXECUTE_JSON_KEYS)[number], unknown> {
-  const ci = intervalsOf(s).ci95;
-  const pair = (i: Interval | null | undefined): Interval | null => (i ? [i[0], i[1]] : null);
-  const ci95: JsonCi95 = { successRate: pair(ci?.successRate), realisedMakespanMs: pair(ci?.realisedMakespanMs), finishSpreadMs: pair(ci?.finishSpreadMs) };
+  // From the summary's intervals (solvers/execute): the rate's Wilson interval, the Student t intervals of the means.
+  const ci95: JsonCi95 = { successRate: s.ci95.successRate, realisedMakespanMs: s.ci95.realisedMakespanMs, finishSpreadMs: s.ci95.finishSpreadMs };
   return {
     runs: s.runs,
     successRate: s.successRate,
@@ -67,23 +52,21 @@ export interface ReportContext {
 
 /** The lines of the human-readable report (without the safety note, which the CLI adds). */
 export function executeReportLines(s: ExecutionSummary, c: ReportContext): string[] {
-  const { ci95, waitingPerRobotMs: perRobot } = intervalsOf(s);
+  const perRobot = s.waitingPerRobotMs;
   const p = c.profile;
-  const stats = (m: StatsWithIntervals) => `mean ${ms(m.mean)} (${ciMs(m.meanCi95)}), p95 ${ms(m.p95)} (${ciMs(m.p95Ci95)})`;
+  const stats = (m: MetricStats) => `mean ${ms(m.mean)} (${ciMs(m.meanCi95)}), p95 ${ms(m.p95)} (${ciMs(m.p95Ci95)})`;
   const lines = [
     `plan model ${c.model}${c.following ? ` (following ${c.following})` : ''}, policy ${s.policy}, ${s.runs} runs (seed ${c.seed}),`
       + ` noise: jitter cv ${s.noise.jitterCv}, stalls p = ${c.stallProbability} × ${c.stallMs} ms`,
     `robot profile: forward ${p.forwardMs} ms, quarter turn ${p.quarterTurnMs} ms, wait ${p.waitMs} ms, pitch ${p.cellPitchMm} mm, diameter ${p.robotDiameterMm} mm`,
-    `execution success rate        ${(s.successRate * 100).toFixed(1)} % (${ciPercent(ci95?.successRate)})`,
+    `execution success rate        ${(s.successRate * 100).toFixed(1)} % (${ciPercent(s.ci95.successRate)})`,
     `collisions per run            mean ${s.collisions.mean.toFixed(2)} (${ciCount(meanInterval(s.perRun.map((r) => r.collisions.length)))}),`
       + ` total ${s.collisions.total} over all runs`,
-    `realised makespan             ${stats({ ...s.realisedMakespanMs, meanCi95: ci95?.realisedMakespanMs ?? (s.realisedMakespanMs as StatsWithIntervals).meanCi95 })}`,
-    `finish spread                 ${stats({ ...s.finishSpreadMs, meanCi95: ci95?.finishSpreadMs ?? (s.finishSpreadMs as StatsWithIntervals).meanCi95 })}`,
-    perRobot
-      ? `waiting per robot             mean ${ms(perRobot.mean.mean)} (${ciMs(perRobot.mean.meanCi95)}), max ${ms(perRobot.max.mean)} (${ciMs(perRobot.max.meanCi95)})`
-      : 'waiting per robot             n/a',
+    `realised makespan             ${stats(s.realisedMakespanMs)}`,
+    `finish spread                 ${stats(s.finishSpreadMs)}`,
+    `waiting per robot             mean ${ms(perRobot.mean.mean)} (${ciMs(perRobot.mean.meanCi95)}), max ${ms(perRobot.max.mean)} (${ciMs(perRobot.max.meanCi95)})`,
     '                              (per run: mean and max over robots of the time each waited; then the mean over runs)',
-    `waiting, total over robots    mean ${ms(s.waitingMs.mean)} per run`,
+    `waiting, total over robots    mean ${ms(s.waitingMs.mean)} per run (${ciMs(s.waitingMs.meanCi95)})`,
   ];
   lines.push(`95 % intervals (CI): rate: ${CI95_METHOD.rate}; means: ${CI95_METHOD.mean}; p95: ${CI95_METHOD.quantile}`);
   const f = s.firstCollision;
