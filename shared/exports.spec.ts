@@ -55,6 +55,15 @@ describe('LaTeX', () => {
     expect(tex).toContain('\\caption{Turn-inclusive makespan 50\\% of "budget" \\& more}');
   });
 
+  it('never bolds a plan that collides at nominal times: the best executable value is bold instead', () => {
+    const guarded: ExportTable = { ...table, notExecutable: [['m_weighted_split'], ['m_weighted_split'], []] };
+    expect(bestCells(guarded).map((s) => [...s])).toEqual([[1], [], [1, 2]]);
+    const tex = toLatex(guarded);
+    expect(tex).toContain('room\\_32 \\#2 \\& co, "east" & \\textbf{5200} & 4100 \\\\');
+    expect(tex).toContain('a|b\\textbackslash{}c & – & 900 \\\\');
+    expect(toMarkdown(guarded)).toContain('| **5200** | 4100 |');
+  });
+
   it('bolds the higher value for rates', () => {
     const rates: ExportTable = { ...table, columns: table.columns.map((c) => (c.kind === 'number' ? { ...c, better: 'higher' as const } : c)) };
     expect([...bestCells(rates)[0]]).toEqual([1]);

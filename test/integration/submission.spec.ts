@@ -40,6 +40,10 @@ describe('plan submissions', () => {
     expect(page.rows).toHaveLength(1);
     expect(page.rows[0].cells).toMatchObject({ model: 'classic', source: 'submitted', solver: 'Hand-made planner 2.1', socSteps: 4, lowerBoundSteps: null, runtimeMs: null });
     expect(typeof page.rows[0].cells['successOpenLoop']).toBe('number');
+    // Two robots on rows 0 and 2 never come near each other: the zero-noise open-loop replay is collision-free.
+    expect(page.rows[0].isExecutableAtNominal).toBe(true);
+    const stored = await world.lib.sql('SELECT executable_at_nominal, nominal_collisions FROM results WHERE submission_id IS NOT NULL');
+    expect(stored).toEqual([{ executable_at_nominal: true, nominal_collisions: 0 }]);
   });
 
   it('accepts a k-robust plan as a JSON document and keeps k apart as its variant', async () => {

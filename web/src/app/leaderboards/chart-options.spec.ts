@@ -1,6 +1,6 @@
 /** Chart options name the robot profile and policy, and carry one series per plan model with its colour. */
 import type { LeaderboardCharts } from '@shared/leaderboards';
-import { CHART_IDS, chartOption } from './chart-options';
+import { CHART_IDS, chartOption, PLAN_CHARTS } from './chart-options';
 import { MODEL_COLOURS } from './model-colours';
 
 const data: LeaderboardCharts = {
@@ -15,9 +15,22 @@ const data: LeaderboardCharts = {
 };
 
 describe('chart options', () => {
-  it.each(CHART_IDS)('the %s chart says which robot profile and policy produced it', (id) => {
+  it.each(CHART_IDS.filter((id) => !PLAN_CHARTS.includes(id)))('the %s chart says which robot profile and policy produced it', (id) => {
     const option = chartOption(id, data) as { title: { subtext: string } };
     expect(option.title.subtext).toBe('Robot profile: forward 1000 ms, quarter turn 600 ms · execution policy lockstep');
+  });
+
+  it.each(PLAN_CHARTS)('the %s chart shows plan figures and names no execution policy', (id) => {
+    const option = chartOption(id, data) as { title: { subtext: string } };
+    expect(option.title.subtext).toBe('Robot profile: forward 1000 ms, quarter turn 600 ms · plan figures (no execution policy)');
+  });
+
+  it('never calls the solved rate a success rate, and names the execution success rate on its own chart', () => {
+    const solved = chartOption('success', data) as { title: { text: string }; yAxis: { name: string } };
+    const executed = chartOption('execution', data) as { title: { text: string }; yAxis: { name: string } };
+    expect([solved.title.text, solved.yAxis.name]).toEqual(['Solved rate by agent count', 'solved rate']);
+    expect(executed.yAxis.name).toBe('execution success rate');
+    expect(executed.title.text).toContain('Execution success rate');
   });
 
   it('names series by model and variant in the model colours', () => {

@@ -7,7 +7,10 @@ import type { ChartSeries, LeaderboardCharts } from '@shared/leaderboards';
 import { MODEL_COLOURS } from './model-colours';
 
 /** Names of the charts (also their ids in the page). */
-export const CHART_IDS = ['success', 'cactus', 'realised', 'spread'] as const;
+export const CHART_IDS = ['success', 'execution', 'cactus', 'realised', 'spread'] as const;
+
+/** Charts of plan figures only (solving), whose subtitle names no execution policy. */
+export const PLAN_CHARTS: readonly ChartId[] = ['success', 'cactus'];
 export type ChartId = (typeof CHART_IDS)[number];
 
 /** An option object (ECharts' option shape, kept loose here). */
@@ -18,13 +21,13 @@ export function seriesName(s: Pick<ChartSeries, 'model' | 'variant'>): string {
   return s.variant ? `${s.model} (${s.variant})` : s.model;
 }
 
-function frame(title: string, data: LeaderboardCharts, xName: string, yName: string, extra: ChartOption = {}): ChartOption {
+function frame(title: string, data: LeaderboardCharts, xName: string, yName: string, extra: ChartOption = {}, isExecution = true): ChartOption {
   const profile = data.profile ? `Robot profile: ${data.profile.label}` : 'No robot profile';
   return {
     animation: false,
     backgroundColor: '#ffffff',
     textStyle: { fontFamily: 'Fira Sans, system-ui, sans-serif' },
-    title: { text: title, subtext: `${profile} · execution policy ${data.policy}`, left: 8, top: 4, textStyle: { fontSize: 15 }, subtextStyle: { fontSize: 11, width: 700, overflow: 'break' } },
+    title: { text: title, subtext: isExecution ? `${profile} · execution policy ${data.policy}` : `${profile} · plan figures (no execution policy)`, left: 8, top: 4, textStyle: { fontSize: 15 }, subtextStyle: { fontSize: 11, width: 700, overflow: 'break' } },
     legend: { bottom: 0, type: 'scroll' },
     tooltip: { trigger: 'item' },
     grid: { left: 64, right: 24, top: 84, bottom: 64 },
@@ -47,21 +50,28 @@ function lines(series: readonly ChartSeries[], kind: 'line' | 'scatter' | 'bar',
 export function chartOption(id: ChartId, data: LeaderboardCharts): ChartOption {
   switch (id) {
     case 'success':
-      return frame('Solved instances by agent count', data, 'agents', 'success rate', {
-        yAxis: { type: 'value', name: 'success rate', nameLocation: 'middle', nameGap: 46, min: 0, max: 1 },
+      // The share of instances solved: the solved rate, never called success (that word belongs to execution).
+      return frame('Solved rate by agent count', data, 'agents', 'solved rate', {
+        yAxis: { type: 'value', name: 'solved rate', nameLocation: 'middle', nameGap: 46, min: 0, max: 1 },
         series: lines(data.successByAgents, 'line'),
+      }, false);
+    case 'execution':
+      // Collision-free share of simulated runs, averaged over the solved instances of each agent count.
+      return frame('Execution success rate by agent count (mean over solved instances)', data, 'agents', 'execution success rate', {
+        yAxis: { type: 'value', name: 'execution success rate', nameLocation: 'middle', nameGap: 46, min: 0, max: 1 },
+        series: lines(data.executionSuccessByAgents, 'line'),
       });
     case 'cactus':
       return frame('Instances solved within a solve time', data, 'solve time (ms, log scale)', 'instances solved', {
         xAxis: { type: 'log', name: 'solve time (ms, log scale)', nameLocation: 'middle', nameGap: 28 },
         series: lines(data.cactus.map((s) => ({ ...s, points: s.points.map(([t, n]) => [Math.max(t, 0.01), n] as const) })), 'line', 'end'),
-      });
+      }, false);
     case 'realised':
-      return frame('Computed against realised makespan', data, 'turn-inclusive makespan (ms)', 'realised makespan (ms)', {
+      return frame('Planned against realised makespan', data, 'turn-inclusive makespan, planned (ms)', 'realised makespan, mean over runs (ms)', {
         series: lines(data.computedVsRealised, 'scatter'),
       });
     case 'spread':
-      return frame(`Finish spread distribution (bins of ${data.spreadBinMs} ms)`, data, 'finish spread (ms)', 'instances', {
+      return frame(`Finish spread distribution (bins of ${data.spreadBinMs} ms)`, data, 'finish spread, mean over runs (ms)', 'instances', {
         series: lines(data.spreadHistogram, 'bar'),
       });
   }

@@ -3,7 +3,7 @@ import { HttpClient, HttpParams } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import type { Observable } from 'rxjs';
 import type { ExportFormat } from '@shared/exports-table';
-import type { LeaderboardCharts, LeaderboardPage, LeaderboardSummary } from '@shared/leaderboards';
+import type { BestAmong, LeaderboardCharts, LeaderboardPage, LeaderboardSummary } from '@shared/leaderboards';
 
 /** Drill-down and profile scope of the summary and the charts. */
 export interface BoardScope {
@@ -29,9 +29,9 @@ export class LeaderboardApi {
     return this.http.get<LeaderboardPage>('/api/leaderboards/rows', { params });
   }
 
-  /** GET /api/leaderboards/summary. */
-  summary(scope: BoardScope): Observable<LeaderboardSummary> {
-    return this.http.get<LeaderboardSummary>('/api/leaderboards/summary', { params: new HttpParams({ fromObject: scopeParams(scope) }) });
+  /** GET /api/leaderboards/summary; `bestAmong` = executable leaves out plans that collide at nominal times. */
+  summary(scope: BoardScope, bestAmong: BestAmong = 'executable'): Observable<LeaderboardSummary> {
+    return this.http.get<LeaderboardSummary>('/api/leaderboards/summary', { params: new HttpParams({ fromObject: { ...scopeParams(scope), bestAmong } }) });
   }
 
   /** GET /api/leaderboards/charts for one execution policy. */

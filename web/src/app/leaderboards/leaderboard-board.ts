@@ -15,15 +15,18 @@ import {
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatSelectModule } from '@angular/material/select';
+import { MatSlideToggleModule } from '@angular/material/slide-toggle';
 import { SAFETY_NOTE } from '@shared/executions-constants';
 import { EXPORT_FORMATS, type ExportFormat } from '@shared/exports-table';
 import {
-  COMPARE_METRICS, columnsOf, DEFAULT_VIEW, ENTRY_COLUMNS, parseView, viewToParams, type CompareMetric, type Layout, type LeaderboardView,
+  COMPARE_METRICS, columnsOf, DEFAULT_VIEW, ENTRY_COLUMNS, NOMINAL_DESCRIPTION, parseView, viewToParams,
+  type BestAmong, type CompareMetric, type Layout, type LeaderboardView,
 } from '@shared/leaderboards';
 import { hasRole } from '@shared/auth-contract';
 import { Session } from '../core/session';
 import { LeaderboardApi, type BoardScope } from './leaderboard-api';
 import { gridColumns, replayColumn, type GridRow } from './leaderboard-columns';
+import { gridRows } from './grid-rows';
 import { LEADERBOARD_GRID_THEME } from './leaderboard-grid-theme';
 import LeaderboardCharts from './leaderboard-charts';
 import ModelSummaryPanel from './model-summary';
@@ -43,7 +46,7 @@ const FORMAT_LABELS: Readonly<Record<ExportFormat, string>> = { csv: 'CSV', late
   selector: 'app-leaderboard-board',
   templateUrl: './leaderboard-board.html',
   styleUrl: './leaderboard-board.scss',
-  imports: [AgGridAngular, RouterLink, MatButtonModule, MatFormFieldModule, MatSelectModule, ModelSummaryPanel, LeaderboardCharts],
+  imports: [AgGridAngular, RouterLink, MatButtonModule, MatFormFieldModule, MatSelectModule, MatSlideToggleModule, ModelSummaryPanel, LeaderboardCharts],
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export default class LeaderboardBoard {
@@ -57,6 +60,7 @@ export default class LeaderboardBoard {
   protected readonly metrics = COMPARE_METRICS.map((id) => ({ id, label: ENTRY_COLUMNS.find((c) => c.id === id)?.label ?? id }));
   protected readonly formats = EXPORT_FORMATS.map((f) => ({ id: f, label: FORMAT_LABELS[f] }));
   protected readonly allEntryColumns = ENTRY_COLUMNS;
+  protected readonly nominalDescription = NOMINAL_DESCRIPTION;
 
   /** The view on screen; the URL mirrors it. */
   protected readonly view = signal<LeaderboardView>(this.initialView());
@@ -112,7 +116,7 @@ export default class LeaderboardBoard {
       const isCounted = params.startRow === 0 || this.rowCount() === null;
       const page = await firstValueFrom(this.api.rows(viewToParams(next), params.startRow, params.endRow, isCounted));
       if (page.rowCount >= 0) this.rowCount.set(page.rowCount);
-      const rows = page.rows.map((r) => ({ ...r.cells, __id: r.id, __resultId: r.resultId }) as GridRow);
+      const rows = gridRows(page, next);
       params.successCallback(rows, this.rowCount() ?? undefined);
     } catch {
       params.failCallback();
@@ -132,6 +136,12 @@ export default class LeaderboardBoard {
   protected chooseLayout(layout: Layout): void {
     const base: LeaderboardView = { ...this.view(), layout, sort: [], filters: [] };
     this.resetGrid({ ...base, columns: layout === 'compare' ? columnsOf(base).map((c) => c.id) : DEFAULT_VIEW.columns });
+  }
+
+  /** Whether "best" (bold per comparison row, exports, per-model summary) considers only plans executable at nominal times. */
+  protected chooseBestAmong(isExecutableOnly: boolean): void {
+    const bestAmong: BestAmong = isExecutableOnly ? 'executable' : 'all';
+    this.resetGrid({ ...this.view(), bestAmong });
   }
 
   protected chooseMetric(metric: CompareMetric): void {
@@ -165,3 +175,4 @@ export default class LeaderboardBoard {
     this.scope.update((s) => ({ ...s, profile }));
   }
 }
+

@@ -3,8 +3,25 @@ import type { ColDef, ValueFormatterParams } from 'ag-grid-community';
 import type { LeaderboardColumn } from '@shared/leaderboards';
 import { GRID_FILTER_OPTIONS } from './grid-view';
 
-/** A row as the grid holds it: the row id plus one field per column id. */
-export type GridRow = Record<string, string | number | null> & { readonly __id: string; readonly __resultId?: number };
+/**
+ * A row as the grid holds it: the row id plus one field per column id. Comparison rows also carry
+ * `__best` (comma list of the model columns holding the row's best value) and `__colliding` (model
+ * columns whose plan collides at nominal times).
+ */
+export type GridRow = Record<string, string | number | null> & {
+  readonly __id: string;
+  readonly __resultId?: number;
+  readonly __best?: string;
+  readonly __colliding?: string;
+};
+
+const listed = (list: string | undefined, id: string): boolean => (list ?? '').split(',').includes(id);
+
+/** Header tooltip: the description, or the values of an enum column. */
+function tooltipOf(c: LeaderboardColumn): string | undefined {
+  if (c.description) return c.values ? `${c.description} Values: ${c.values.join(', ')}.` : c.description;
+  return c.values ? `${c.label}: ${c.values.join(', ')}` : undefined;
+}
 
 function formatNumber(digits: number | undefined) {
   return (p: ValueFormatterParams<GridRow>): string => {
@@ -22,11 +39,20 @@ export function gridColumns(columns: readonly LeaderboardColumn[], sort: readonl
       colId: c.id,
       field: c.id,
       headerName: c.unit ? `${c.label} (${c.unit})` : c.label,
-      headerTooltip: c.values ? `${c.label}: ${c.values.join(', ')}` : undefined,
-      sortable: true,
+      headerTooltip: tooltipOf(c),
+      // Interval columns are computed per page (Wilson from rate × runs): shown, not sorted or filtered.
+      sortable: !c.isComputed,
       sort: sortAt >= 0 ? sort[sortAt].direction : null,
       sortIndex: sortAt >= 0 ? sortAt : null,
-      filter: c.kind === 'number' ? 'agNumberColumnFilter' : 'agTextColumnFilter',
+      filter: c.isComputed ? false : c.kind === 'number' ? 'agNumberColumnFilter' : 'agTextColumnFilter',
+      // Comparison layout: the row's best value in bold; a plan that collides at nominal times is marked and never best.
+      cellClassRules: c.id.startsWith('m_') ? {
+        'best-cell': (p: { data?: GridRow }) => listed(p.data?.__best, c.id),
+        'colliding-cell': (p: { data?: GridRow }) => listed(p.data?.__colliding, c.id),
+      } : undefined,
+      tooltipValueGetter: c.id.startsWith('m_')
+        ? (p: { data?: GridRow }) => (listed(p.data?.__colliding, c.id) ? 'This plan collides at nominal times (open-loop replay with zero noise).' : undefined)
+        : undefined,
       filterParams: { filterOptions: [...GRID_FILTER_OPTIONS[c.kind]], maxNumConditions: 1, debounceMs: 300 },
       type: c.kind === 'number' ? 'rightAligned' : undefined,
       valueFormatter: c.kind === 'number' ? formatNumber(c.digits) : undefined,

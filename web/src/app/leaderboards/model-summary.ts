@@ -5,7 +5,7 @@ import { DecimalPipe, PercentPipe } from '@angular/common';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatSelectModule } from '@angular/material/select';
 import { MatTableModule } from '@angular/material/table';
-import { LEADERBOARD_POLICIES } from '@shared/leaderboards';
+import { LEADERBOARD_POLICIES, NOMINAL_DESCRIPTION, type BestAmong } from '@shared/leaderboards';
 import { LeaderboardApi, type BoardScope } from './leaderboard-api';
 
 @Component({
@@ -19,13 +19,19 @@ export default class ModelSummaryPanel {
   private readonly api = inject(LeaderboardApi);
   /** Map and profile the summary is narrowed to. */
   readonly scope = input.required<BoardScope>();
+  /** Whether plans that collide at nominal times are left out of the ratio and the execution success rate. */
+  readonly bestAmong = input<BestAmong>('executable');
   /** The map picked for the drill-down (null = all maps). */
   readonly mapChange = output<number | null>();
   /** The robot profile picked (null = all). */
   readonly profileChange = output<string | null>();
 
-  protected readonly summary = rxResource({ params: () => this.scope(), stream: ({ params }) => this.api.summary(params) });
+  protected readonly summary = rxResource({
+    params: () => ({ scope: this.scope(), bestAmong: this.bestAmong() }),
+    stream: ({ params }) => this.api.summary(params.scope, params.bestAmong),
+  });
   protected readonly policies = LEADERBOARD_POLICIES;
-  protected readonly columns = ['model', 'solved', 'byAgents', 'ratio', ...LEADERBOARD_POLICIES.map((p) => p.policy)];
+  protected readonly nominalDescription = NOMINAL_DESCRIPTION;
+  protected readonly columns = ['model', 'solved', 'nominal', 'byAgents', 'ratio', ...LEADERBOARD_POLICIES.map((p) => p.policy)];
   protected readonly rows = computed(() => this.summary.value()?.models ?? []);
 }

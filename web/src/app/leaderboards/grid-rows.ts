@@ -1,0 +1,24 @@
+/** The grid rows of a board page, with the best value per comparison row marked as the exports mark it. */
+import { bestCells } from '@shared/exports-table';
+import type { LeaderboardPage, LeaderboardView } from '@shared/leaderboards';
+import type { GridRow } from './leaderboard-columns';
+
+/**
+ * Grid rows of a page. Comparison rows get the columns holding the row's best value (the rule of
+ * the exports' bold, shared/exports-table.ts bestCells) and the columns whose plan collides at
+ * nominal times, which are never best unless the view asks for all plans.
+ */
+export function gridRows(page: LeaderboardPage, view: LeaderboardView): GridRow[] {
+  if (view.layout !== 'compare') return page.rows.map((r) => ({ ...r.cells, __id: r.id, __resultId: r.resultId }) as GridRow);
+  const colliding = page.rows.map((r) => Object.entries(r.isExecutableAtNominalByColumn ?? {}).filter(([, ok]) => ok === false).map(([id]) => id));
+  const best = bestCells({
+    caption: '', columns: page.columns, rows: page.rows.map((r) => page.columns.map((c) => r.cells[c.id] ?? null)),
+    compareColumns: page.columns.filter((c) => c.id.startsWith('m_')).map((c) => c.id),
+    notExecutable: view.bestAmong === 'executable' ? colliding : [],
+  });
+  return page.rows.map((r, i) => ({
+    ...r.cells, __id: r.id,
+    __best: [...best[i]].map((j) => page.columns[j].id).join(','),
+    __colliding: colliding[i].join(','),
+  }) as GridRow);
+}
