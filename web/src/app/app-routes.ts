@@ -8,6 +8,7 @@ export const routes: Routes = [
   { path: 'instance-sets', loadChildren: () => import('./instance-sets/instance-sets.routes') },
   { path: 'sweeps', loadChildren: () => import('./sweeps/sweeps.routes') },
   { path: 'leaderboards', loadChildren: () => import('./leaderboards/leaderboards.routes') },
+  { path: 'reports', loadChildren: () => import('./reports/reports.routes') },
   { path: 'plans', loadChildren: () => import('./plan-viewer/plan-viewer.routes') },
   { path: 'help', title: 'Help · Quarterturn', loadComponent: () => import('./help/help-page') },
   {

@@ -45,11 +45,11 @@ describe('Shell', () => {
     return Promise.all(links.map((l) => l.getText()));
   }
 
-  it('shows the product name and the three public areas to a visitor, with a sign-in link', async () => {
+  it('shows the product name and the four public areas to a visitor, with a sign-in link', async () => {
     await renderAs({ account: null, role: 'visitor' });
 
     expect(fixture.nativeElement.textContent).toContain('Quarterturn');
-    expect(await navLabels()).toEqual(['Instance sets', 'Sweeps', 'Leaderboards']);
+    expect(await navLabels()).toEqual(['Instance sets', 'Sweeps', 'Leaderboards', 'Model comparison']);
     const signIn = await loader.getHarness(MatButtonHarness.with({ text: 'Sign in' }));
     expect(await (await signIn.host()).getAttribute('href')).toBe('/api/auth/github');
   });
@@ -72,7 +72,7 @@ describe('Shell', () => {
   it('shows the Admin link to an admin', async () => {
     await renderAs({ account: { ...ADA, role: 'admin' }, role: 'admin' });
 
-    expect(await navLabels()).toEqual(['Instance sets', 'Sweeps', 'Leaderboards', 'Admin']);
+    expect(await navLabels()).toEqual(['Instance sets', 'Sweeps', 'Leaderboards', 'Model comparison', 'Admin']);
   });
 
   it('shows the display name and role in the account menu', async () => {

@@ -19,6 +19,7 @@ const AREAS: readonly Area[] = [
   { path: '/instance-sets', label: 'Instance sets' },
   { path: '/sweeps', label: 'Sweeps' },
   { path: '/leaderboards', label: 'Leaderboards' },
+  { path: '/reports', label: 'Model comparison' },
 ];
 
 /** App shell; `app-root` in index.html. */
