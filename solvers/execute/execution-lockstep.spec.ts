@@ -1,59 +1,13 @@
 // Lockstep on the ms timeline (weighted-split plans): the rule of execution-types.ts
 // (ExecutionPolicy) and its zero-noise property, over many optimal plans of random instances.
-import type { RobotProfile, StartHeading } from '@shared/plan';
-import type { Grid } from '../grid/grid';
-import type { MapfInstance } from '../instance';
-import { solveModel } from '../models/solve-model';
-import { createRng, type Rng } from '../random';
 import { realisedTimeline, simulateExecution } from './index';
-
-// Several timing profiles: turns slower, faster and as fast as moves; waits shorter and longer.
-// Diameter ≤ pitch: the geometry under which a plan that keeps the occupancy rule at nominal
-// times cannot collide at those times (common practice; see dependency-graph.ts).
-const profiles: RobotProfile[] = [
-  { forwardMs: 1000, quarterTurnMs: 1500, waitMs: 1000, cellPitchMm: 500, robotDiameterMm: 400, timingJitter: 0 },
-  { forwardMs: 800, quarterTurnMs: 300, waitMs: 500, cellPitchMm: 1000, robotDiameterMm: 700, timingJitter: 0 },
-  { forwardMs: 1200, quarterTurnMs: 1200, waitMs: 1700, cellPitchMm: 500, robotDiameterMm: 500, timingJitter: 0 },
-  { forwardMs: 700, quarterTurnMs: 2100, waitMs: 300, cellPitchMm: 600, robotDiameterMm: 450, timingJitter: 0 },
-];
-
-/** A random small instance: 3–5 × 3–5 cells, about 15 % blocked, 2–4 agents on distinct starts and goals. */
-function randomInstance(rng: Rng): MapfInstance {
-  const width = 3 + rng.int(3);
-  const height = 3 + rng.int(3);
-  const passable = new Uint8Array(width * height).map(() => (rng.next() < 0.15 ? 0 : 1));
-  const grid: Grid = { width, height, passable };
-  const free = [...passable.keys()].filter((c) => passable[c] === 1);
-  const pick = (taken: Set<number>): number => {
-    const left = free.filter((c) => !taken.has(c));
-    const c = left[rng.int(left.length)];
-    taken.add(c);
-    return c;
-  };
-  const count = Math.min(2 + rng.int(3), Math.floor(free.length / 2));
-  const starts = new Set<number>();
-  const goals = new Set<number>();
-  return { grid, agents: Array.from({ length: count }, () => ({ start: pick(starts), goal: pick(goals) })) };
-}
-
-/** Optimal weighted-split plans of random instances (solveModel validates each one), at least `wanted`. */
-function solvedPlans(wanted: number) {
-  const rng = createRng(1212);
-  const plans = [];
-  for (let trial = 0; trial < 400 && plans.length < wanted; trial++) {
-    const instance = randomInstance(rng);
-    const profile = profiles[trial % profiles.length];
-    const startHeading: StartHeading = trial % 3 === 0 ? 'free' : (['N', 'E', 'S', 'W'] as const)[rng.int(4)];
-    const solved = solveModel('weighted-split', instance, { profile, startHeading, nodeLimit: 3000 });
-    if (solved.status !== 'solved') continue;
-    expect(solved.isValidated).toBe(true);
-    plans.push({ instance, profile, solved });
-  }
-  return plans;
-}
+import { weightedTestPlans } from './testing/weighted-plans';
 
 describe('lockstep on the ms timeline (weighted-split plans)', () => {
-  const plans = solvedPlans(64);
+  // Optimal plans of random instances, each passed by the independent schedule validator
+  // (solveModel); four timing profiles, diameter ≤ pitch (the geometry under which a plan keeping
+  // the occupancy rule at nominal times cannot collide at those times; see dependency-graph.ts).
+  const plans = weightedTestPlans(64);
 
   it('at zero noise runs every valid plan exactly on its planned times, with no collision', () => {
     let compared = 0;
