@@ -76,6 +76,9 @@ describe('a stored sweep result replayed with its stored settings', () => {
           .toEqual([row.success_rate, row.realised_makespan_mean_ms, row.realised_makespan_p95_ms, row.finish_spread_mean_ms, row.collisions_mean]);
         expect({ s: replay.successRate, m: replay.realisedMakespanMs, f: replay.finishSpreadMs, w: replay.waitingMs, c: replay.collisions })
           .toEqual({ s: e.figures.successRate, m: e.figures.realisedMakespanMs, f: e.figures.finishSpreadMs, w: e.figures.waitingMs, c: e.figures.collisions });
+        // Rows written since issue 12 record seed, collision mode and the 95 % intervals themselves.
+        expect(e.recorded).toEqual({ seed: true, onCollision: true });
+        expect({ ci: replay.successRateCi95, perRobot: replay.waitingPerRobotMs }).toEqual({ ci: e.figures.successRateCi95, perRobot: e.figures.waitingPerRobotMs });
         expect(replay.runs).toBe(25);
         compared++;
       }

@@ -40,19 +40,23 @@ describe('runAttribution', () => {
     expect(runAttribution(attributed(none), 'dependency-gated').note).toMatch(/gating never held anyone/);
   });
 
-  it('without the attribution fields, sums each robot\'s waits from its realised actions and says whom is unknown', () => {
-    // Nose-to-tail lane, dependency-gated with jitter: the simulator holds followers (run 0 of seed 1).
+  it('on a real run: one sentence per robot that waited, naming whom, and a chain from 0 to the realised makespan', () => {
+    // Nose-to-tail lane, dependency-gated with jitter 0.3 (run 0 of seed 1): followers are held by the robot ahead.
     const instance = testInstance('........', [[2, 7], [1, 6], [0, 5]]);
     const paths = [[2, 3, 4, 5, 6, 7], [1, 2, 3, 4, 5, 6], [0, 1, 2, 3, 4, 5]];
     const { schedule } = scheduleFromPaths(instance, paths, TEST_PROFILE, { startHeading: 'free', stretch: 'none' });
     const timeline = realisedTimeline(instance, { timeline: 'steps', schedule }, TEST_PROFILE, { policy: 'dependency-gated', noise: { jitterCv: 0.3 }, seed: 1 }, 0);
-    const plain = { robots: timeline.robots, metrics: timeline.metrics } as RunTimeline;
-    const sums = plain.robots.map((acts) => acts.reduce((s, x) => s + x.waitedMs, 0));
-    const a = runAttribution(plain, 'dependency-gated');
-    expect(sums.filter((ms) => ms > 0).length).toBeGreaterThan(0);
-    expect(a.waits).toHaveLength(sums.filter((ms) => ms > 0).length);
-    expect(a.waits.every((w) => /^robot \d waited [\d.]+ s$/.test(w))).toBe(true);
-    expect(a.chain).toEqual([]);
-    expect(a.note).toBe('This build of the simulator does not name whom a robot waited for.');
+    const waited = timeline.waitByRobot.filter((w) => w.waitedMs > 0);
+    expect(waited.length).toBeGreaterThan(0);
+    const a = runAttribution(timeline, 'dependency-gated');
+    expect(a.waits).toHaveLength(waited.length);
+    // In a lane only the robot ahead can hold a follower: robot i + 1 (screen numbering) waits for robot i.
+    for (const w of a.waits) {
+      const [, me, them] = /^robot (\d) waited [\d.]+ s: [\d.]+ s for robot (\d)$/.exec(w) ?? [];
+      expect(Number(them)).toBe(Number(me) - 1);
+    }
+    expect(a.chainSegments[0].fromMs).toBe(0);
+    expect(a.chainSegments.at(-1)!.toMs).toBe(timeline.metrics.realisedMakespanMs);
+    expect(a.chain).toHaveLength(a.chainSegments.length);
   });
 });
