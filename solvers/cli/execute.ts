@@ -10,7 +10,8 @@
  * --quarter-turn-ms and --time-limit-ms are refused with a message naming the new option (a
  * silent alias would let a time limit in ms be read as seconds or the other way round).
  * Own options: the execution policy, the noise, the collision mode, runs, seed and the robot's
- * geometry (pitch and diameter, mm).
+ * geometry (pitch and diameter, mm). When the plan may contain following and the diameter
+ * exceeds pitch/√2 (right-angle following collides at any timing), a warning goes to stderr.
  * With --json it prints exactly one JSON object (a stable contract):
  * {"runs","successRate","collisions":{"mean","total"},"realisedMakespanMs":{"mean","p95"},
  *  "finishSpreadMs":{"mean","p95"},"waitingMs":{"mean"},"firstCollision":null|{"robots","timeMs","at"},
@@ -21,7 +22,8 @@
  * Simulation is no safety assessment: follow the applicable safety standards and local rules.
  */
 import { parseArgs } from 'node:util';
-import type { RobotProfile } from '../../shared/plan';
+import { followingHazard } from '../../shared/following-hazard';
+import { FOLLOWING_MODELS, type RobotProfile } from '../../shared/plan';
 import { SAFETY_NOTE } from '../../shared/executions-constants';
 import { EXECUTION_POLICIES, simulateExecution, type CollisionMode, type ExecutionPolicy } from '../execute';
 import { solveModel } from '../models/solve-model';
@@ -120,6 +122,11 @@ function main(argv: string[]): number {
   const runs = numberOption(raw.runs, 'runs', EXECUTE_DEFAULTS.runs, (v) => Number.isInteger(v) && v >= 1, 'a whole number ≥ 1');
   const seed = numberOption(raw.seed, 'seed', EXECUTE_DEFAULTS.seed, Number.isInteger, 'a whole number');
   for (const note of notes) console.error(`execute: ${note}`);
+  // Plans that may contain following (the unit-step models unless it is forbidden; k-robust only at k = 0) collide at
+  // nominal times when the robots are too wide for it (shared/following-hazard.ts): say so before the figures show it.
+  const mayFollow = (options.following !== 'forbidden' && (FOLLOWING_MODELS as readonly string[]).includes(options.model)) || options.k === 0;
+  const hazard = followingHazard(profile);
+  if (mayFollow && hazard.message !== null) console.error(`execute: warning: ${hazard.message}`);
 
   const instance = loadInstance(options.mapFile, options.scenFile, options.agents);
   const result = solveModel(options.model, instance, modelSolveOptions(options, profile));

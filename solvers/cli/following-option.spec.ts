@@ -38,13 +38,18 @@ describe('--following on solve and execute', () => {
   });
 
   it('execute: the allowed plan collides open-loop at zero noise, the forbidden one does not', () => {
+    const stderr: Record<string, string> = {};
     const run = (following: string) => {
       const r = cli('execute', [...files, '--following', following, '--policy', 'open-loop', '--runs', '1', '--json']);
       expect(r.status).toBe(0);
+      stderr[following] = r.stderr;
       return JSON.parse(r.stdout);
     };
     const allowed = run('allowed');
     const forbidden = run('forbidden');
+    // The warning of shared/following-hazard.ts comes only where the plan may contain following.
+    expect(stderr.allowed).toMatch(/^execute: warning: Robots of 400 mm on a 500 mm pitch collide in right-angle following/);
+    expect(stderr.forbidden).toBe('');
     expect([allowed.successRate, allowed.collisions.total, allowed.firstCollision.robots]).toEqual([0, 1, [0, 1]]);
     expect([forbidden.successRate, forbidden.collisions.total, forbidden.firstCollision]).toEqual([1, 0, null]);
     expect(forbidden.realisedMakespanMs.mean).toBe(2000);
