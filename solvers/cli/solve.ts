@@ -14,7 +14,7 @@
  * With --json it prints exactly one JSON object on stdout (a stable contract other tools use):
  *   {"status", "soc", "makespan", "lowerBound", "runtimeMs", "nodes": {"generated", "expanded"},
  *    "lowLevelExpansions", "paths": [[[x, y], ...], ...],
- *    "model", "parameters": {"startHeading", "k"?, "switches"?}, "profile", "units": "steps"|"ms",
+ *    "model", "parameters": {"startHeading", "k"?, "following"?, "switches"?}, "profile", "units": "steps"|"ms",
  *    "turnInclusiveSocMs", "turnInclusiveMakespanMs", "turns",
  *    "schedule": [[{"action", "from": [x, y], "to": [x, y], "heading", "start", "end", "step"}, ...], ...]}
  *   (+ "reason" when not solved; + "states": [[[x, y, heading], ...], ...] for orientation-split)
