@@ -9,7 +9,7 @@ import { CI95_METHOD, type Interval95 } from '@shared/confidence-interval';
 import type { ExecutionSummaryView, MetricStatsView, PlanFigures } from '@shared/executions';
 import type { PlanModel, RobotProfile } from '@shared/plan';
 import type { SolverBuild } from '@shared/runs';
-import { meanIntervalOf, p95IntervalOf, successRateInterval, type SummaryWithIntervals } from './summary-intervals';
+import { collisionIntervals, meanIntervalOf, p95IntervalOf, successRateInterval, type SummaryWithIntervals } from './summary-intervals';
 import { formatPercent, formatSeconds, profileLine } from './viewer-format';
 
 /** Shown where a figure has no interval. */
@@ -59,7 +59,7 @@ export class ExecutionSummaryCard {
     const rows: FigureRow[] = [
       { key: 'success-rate', label: 'Execution success rate (runs without collision or deadlock)', value: formatPercent(s.successRate), interval: rate ? percentRange(rate) : null },
       { key: 'collisions', label: 'Collisions, all runs (count)', value: String(s.collisions.total), interval: null },
-      { key: 'collisions-mean', label: 'Collisions per run (mean / p95)', value: `${+s.collisions.mean.toFixed(2)} / ${s.collisions.p95}`, interval: null },
+      { key: 'collisions-mean', label: 'Collisions per run, count (mean / p95 over runs)', value: `${+s.collisions.mean.toFixed(2)} / ${s.collisions.p95}`, interval: countInterval(s) },
       ...metricRows('realised-makespan', 'Realised makespan, s', s.realisedMakespanMs),
       ...metricRows('finish-spread', 'Finish spread, s', s.finishSpreadMs),
     ];
@@ -91,6 +91,13 @@ export class ExecutionSummaryCard {
 function metricRows(key: string, label: string, m: MetricStatsView): FigureRow[] {
   const interval = `mean ${secondsRange(meanIntervalOf(m))} · p95 ${secondsRange(p95IntervalOf(m))}`;
   return [{ key, label: label.replace(', s', ' (mean / p95 over runs), s'), value: `${formatSeconds(m.mean)} / ${formatSeconds(m.p95)}`, interval }];
+}
+
+/** The collisions-per-run intervals as text ("mean 0.1 – 0.4 · p95 no interval"). */
+function countInterval(s: ExecutionSummaryView): string {
+  const { mean, p95 } = collisionIntervals(s);
+  const range = (i: Interval95 | null) => (i ? `${+i[0].toFixed(2)} – ${+i[1].toFixed(2)}` : NO_INTERVAL);
+  return `mean ${range(mean)} · p95 ${range(p95)}`;
 }
 
 function percentRange([lo, hi]: Interval95): string {

@@ -6,7 +6,7 @@
  * needs nothing else) and the others are shown as not available.
  */
 import type { ExecutionSummaryView, MetricStatsView } from '@shared/executions';
-import { wilsonInterval, type Interval95 } from '@shared/confidence-interval';
+import { meanInterval, quantileInterval, wilsonInterval, type Interval95 } from '@shared/confidence-interval';
 
 /** A metric with the interval fields it may carry. */
 export type MetricWithIntervals = MetricStatsView & { readonly meanCi95?: Interval95 | null; readonly p95Ci95?: Interval95 | null };
@@ -33,4 +33,13 @@ export function meanIntervalOf(m: MetricStatsView): Interval95 | null {
 /** The interval of a metric's p95, or null. */
 export function p95IntervalOf(m: MetricStatsView): Interval95 | null {
   return (m as MetricWithIntervals).p95Ci95 ?? null;
+}
+
+/**
+ * Intervals of the collisions per run (mean by Student t, p95 by order statistics), from the
+ * per-run counts the summary lists (the simulator's summary gives the counts no interval itself).
+ */
+export function collisionIntervals(s: ExecutionSummaryView): { readonly mean: Interval95 | null; readonly p95: Interval95 | null } {
+  const counts = s.perRun.map((r) => r.collisions.length);
+  return { mean: meanInterval(counts), p95: quantileInterval(counts, 0.95) };
 }
