@@ -1,13 +1,16 @@
 /**
  * The classic plan model: unit-time moves to a 4-neighbour or waits, vertex, swap and goal
- * conflicts, minimum sum-of-costs; and `solveClassic`, optimal CBS on it.
+ * conflicts (plus following conflicts with `following: forbidden`, Stern et al., SoCS 2019),
+ * minimum sum-of-costs; and `solveClassic`, optimal CBS on it.
  */
+import type { FollowingRule } from '@shared/plan';
 import { type CbsOptions, type CbsResult, type CbsSwitches, DEFAULT_SWITCHES } from '../search/cbs-types';
 import { Budget, LimitReached } from '../search/budget';
 import { CbsEngine } from '../search/cbs';
 import type { Conflict } from '../search/conflict';
 import { ConflictAvoidanceTable } from '../search/conflict-avoidance-table';
 import { SpaceTimeAStar } from '../search/space-time-astar';
+import { findFollowingConflicts } from '../search/following-conflicts';
 import { findUnitStepConflicts } from '../search/unit-step-conflicts';
 import { cellDegrees, DistanceCache, UNREACHABLE } from '../grid/distance';
 import type { Grid } from '../grid/grid';
@@ -30,8 +33,12 @@ export class ClassicModel implements SearchModel {
   readonly degree: Uint8Array;
   private readonly distances: DistanceCache;
 
+  /** Whether following conflicts are conflicts (`following: forbidden`). */
+  readonly forbidsFollowing: boolean;
+
   /** Builds the state graph of `instance` (no validation: see {@link checkInstance}). */
-  constructor(readonly grid: Grid, instance: MapfInstance) {
+  constructor(readonly grid: Grid, instance: MapfInstance, following: FollowingRule = 'allowed') {
+    this.forbidsFollowing = following === 'forbidden';
     const { width, height, passable } = grid;
     const n = width * height;
     this.cellCount = n;
@@ -69,9 +76,10 @@ export class ClassicModel implements SearchModel {
     return this.distances.from(cell);
   }
 
-  /** Vertex, swap and goal conflicts. */
+  /** Vertex, swap and goal conflicts; following conflicts too when forbidden (the allowed path pays nothing for them). */
   findConflicts(a: number, pathA: Int32Array, b: number, pathB: Int32Array, out: Conflict[]): void {
     findUnitStepConflicts(this.stateCell, a, pathA, b, pathB, out);
+    if (this.forbidsFollowing) findFollowingConflicts(this.stateCell, a, pathA, b, pathB, out);
   }
 }
 
@@ -112,16 +120,22 @@ export function checkInstance(instance: MapfInstance, model?: ClassicModel): Ins
   return null;
 }
 
+/** Options of a classic solve: the CBS limits and the following rule (default allowed). */
+export interface ClassicOptions extends CbsOptions {
+  readonly following?: FollowingRule;
+}
+
 /**
  * Optimal (minimum sum-of-costs) CBS for the classic model. Deterministic; honours
  * `timeLimitMs` (only with an injected `now`), `nodeLimit`, `memoryLimitMb` and `signal`, and on
- * a limit returns `timeout` with the best proven lower bound.
+ * a limit returns `timeout` with the best proven lower bound. With `following: forbidden` the
+ * optimum is over plans without following conflicts (every improvement stays on: see cbs.ts).
  */
-export function solveClassic(instance: MapfInstance, options: CbsOptions = {}): CbsResult {
+export function solveClassic(instance: MapfInstance, options: ClassicOptions = {}): CbsResult {
   const switches: CbsSwitches = { ...DEFAULT_SWITCHES, ...options.switches };
   const budget = new Budget(options.now, options.timeLimitMs, options.signal);
   const base = { switches, nodesGenerated: 0, nodesExpanded: 0, lowLevelExpansions: 0 };
-  const model = new ClassicModel(instance.grid, instance);
+  const model = new ClassicModel(instance.grid, instance, options.following ?? 'allowed');
   const problem = checkInstance(instance, model);
   if (problem !== null) {
     return { ...base, status: problem.status, reason: problem.reason, paths: [], soc: null, makespan: null, lowerBound: null, runtimeMs: budget.elapsedMs() };

@@ -15,8 +15,9 @@ import type { Grid } from '../grid/grid';
 import { forwardCell, HEADING_COUNT, HEADING_DX, HEADING_DY, headingIndex, turnedLeft, turnedRight } from '../grid/heading-graph';
 import type { MapfInstance } from '../instance';
 import type { Conflict } from '../search/conflict';
+import { findFollowingConflicts } from '../search/following-conflicts';
 import { findUnitStepConflicts } from '../search/unit-step-conflicts';
-import type { StartHeading } from '@shared/plan';
+import type { FollowingRule, StartHeading } from '@shared/plan';
 import type { SearchModel } from './model';
 
 /** The orientation-split model of one instance. */
@@ -36,8 +37,16 @@ export class OrientationSplitModel implements SearchModel {
   readonly degree: Uint8Array;
   private readonly distances = new Map<number, Int32Array>();
 
+  /**
+   * Whether following conflicts are conflicts (`following: forbidden`; Stern et al., SoCS 2019).
+   * They are read on cells whatever the heading: an agent waiting or turning in a cell occupies
+   * it, so no agent may enter a cell at t that another occupied (in any heading) at t − 1.
+   */
+  readonly forbidsFollowing: boolean;
+
   /** Builds the state graph; agents without a start heading of their own use `startHeading`. */
-  constructor(readonly grid: Grid, instance: MapfInstance, startHeading: StartHeading) {
+  constructor(readonly grid: Grid, instance: MapfInstance, startHeading: StartHeading, following: FollowingRule = 'allowed') {
+    this.forbidsFollowing = following === 'forbidden';
     const { passable } = grid;
     const n = grid.width * grid.height;
     this.cellCount = n;
@@ -97,9 +106,10 @@ export class OrientationSplitModel implements SearchModel {
     return d;
   }
 
-  /** Vertex, swap and goal conflicts on cells. */
+  /** Vertex, swap and goal conflicts on cells; following conflicts too when forbidden. */
   findConflicts(a: number, pathA: Int32Array, b: number, pathB: Int32Array, out: Conflict[]): void {
     findUnitStepConflicts(this.stateCell, a, pathA, b, pathB, out);
+    if (this.forbidsFollowing) findFollowingConflicts(this.stateCell, a, pathA, b, pathB, out);
   }
 
   /** Breadth-first search over reversed unit-cost actions from every heading of `target`. */

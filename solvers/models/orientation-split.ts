@@ -11,8 +11,10 @@
  * - Corridor and rectangle reasoning derive their constraints from Manhattan-shortest cell
  *   paths, which turn steps break; the model reports `supportsGridSymmetry = false` and the
  *   result reports them as off.
+ * - With `following: forbidden` following conflicts (on cells) join the rule; how each
+ *   improvement treats them is stated in solvers/search/cbs.ts.
  */
-import type { RobotProfile, Schedule, StartHeading } from '@shared/plan';
+import type { FollowingRule, RobotProfile, Schedule, StartHeading } from '@shared/plan';
 import type { MapfInstance } from '../instance';
 import { type CbsOptions, type CbsResult, type CbsSwitches, DEFAULT_SWITCHES } from '../search/cbs-types';
 import { runModelCbs } from '../search/run-model-cbs';
@@ -28,6 +30,8 @@ export interface OrientationSplitOptions extends CbsOptions {
   readonly startHeading?: StartHeading;
   /** Robot timing for the schedule and the turn-inclusive figures (default DEFAULT_ROBOT_PROFILE). */
   readonly profile?: RobotProfile;
+  /** Following rule on cells (default allowed); forbidden adds following conflicts, Stern et al., SoCS 2019. */
+  readonly following?: FollowingRule;
 }
 
 /** An orientation-split result: the classic result shape (paths = the cells per step) plus the model fields. */
@@ -70,7 +74,7 @@ export function solveOrientationSplit(instance: MapfInstance, options: Orientati
       runtimeMs: 0, nodesGenerated: 0, nodesExpanded: 0, lowLevelExpansions: 0,
     };
   }
-  const model = new OrientationSplitModel(instance.grid, instance, startHeading);
+  const model = new OrientationSplitModel(instance.grid, instance, startHeading, options.following ?? 'allowed');
   const out = runModelCbs(model, model.degree, switches, options);
   const counters = {
     runtimeMs: out.runtimeMs, nodesGenerated: out.nodesGenerated, nodesExpanded: out.nodesExpanded, lowLevelExpansions: out.lowLevelExpansions,

@@ -7,8 +7,8 @@
  * bound in the model's own unit (steps; ms for weighted-split), turn-inclusive SOC and
  * makespan in ms, quarter turns, the schedule, runtime and node counts.
  */
-import type { PlanModel, RobotProfile, Schedule, StartHeading } from '@shared/plan';
-import { PLAN_MODELS } from '@shared/plan';
+import type { FollowingRule, PlanModel, RobotProfile, Schedule, StartHeading } from '@shared/plan';
+import { FOLLOWING_MODELS, FOLLOWING_RULES, PLAN_MODELS } from '@shared/plan';
 import type { MapfInstance } from '../instance';
 import type { CbsOptions, CbsStatus, CbsSwitches } from '../search/cbs-types';
 import { validateClassicPlan } from '../validate/classic';
@@ -32,6 +32,12 @@ export interface ModelSolveOptions extends CbsOptions {
   readonly startHeading?: StartHeading;
   /** k-robust only: tolerated delay in steps (required there). */
   readonly k?: number;
+  /**
+   * Classic, uniform-duration and orientation-split only (default allowed): whether an agent may
+   * enter at t + 1 a cell another agent occupies at t (following conflict, Stern et al., SoCS
+   * 2019). Refused for k-robust (k ≥ 1 already forbids following) and weighted-split (ms times).
+   */
+  readonly following?: FollowingRule;
 }
 
 /** The parameters a result was produced with. */
@@ -39,6 +45,8 @@ export interface ModelParameters {
   readonly startHeading: StartHeading;
   /** k-robust only. */
   readonly k?: number;
+  /** Classic, uniform-duration and orientation-split only: the following rule the plan obeys. */
+  readonly following?: FollowingRule;
   /** The CBS improvements in effect (unit-step models; weighted-split has its own search). */
   readonly switches?: CbsSwitches;
 }
@@ -101,15 +109,16 @@ export function solveModel(model: PlanModel, instance: MapfInstance, options: Mo
   const profile = checkProfile(options.profile ?? DEFAULT_ROBOT_PROFILE);
   const startHeading = checkStartHeading(options.startHeading ?? 'free', model);
   if (model === 'k-robust' && options.k === undefined) throw new RangeError('k-robust: option k is required');
+  const following = checkFollowing(options.following, model);
   const head = { model, profile };
   switch (model) {
     case 'classic':
     case 'uniform-duration': {
-      const r = solveClassic(instance, options);
-      const parameters = { startHeading, switches: r.switches };
+      const r = solveClassic(instance, { ...options, following });
+      const parameters = { startHeading, following, switches: r.switches };
       if (r.status !== 'solved') return unsolved(head, parameters, 'steps', r);
       const turned = scheduleFromPaths(instance, r.paths, profile, { startHeading, stretch: model === 'classic' ? 'none' : 'uniform' });
-      return finish(head, parameters, 'steps', r, validateClassicPlan(instance, r.paths), 'classic', {
+      return finish(head, parameters, 'steps', r, validateClassicPlan(instance, r.paths, { following }), 'classic', {
         soc: r.soc, makespan: r.makespan, lowerBound: r.lowerBound, plan: { kind: 'paths', paths: r.paths },
         schedule: turned.schedule, timeline: 'steps', waitStepMs: turned.waitStepMs,
         turnInclusiveSocMs: turned.turnInclusiveSocMs, turnInclusiveMakespanMs: turned.turnInclusiveMakespanMs, turns: turned.turns,
@@ -127,10 +136,10 @@ export function solveModel(model: PlanModel, instance: MapfInstance, options: Mo
       });
     }
     case 'orientation-split': {
-      const r = solveOrientationSplit(instance, { ...options, profile, startHeading });
-      const parameters = { startHeading, switches: r.switches };
+      const r = solveOrientationSplit(instance, { ...options, profile, startHeading, following });
+      const parameters = { startHeading, following, switches: r.switches };
       if (r.status !== 'solved') return unsolved(head, parameters, 'steps', r);
-      return finish(head, parameters, 'steps', r, validateOrientationPlan(instance, r.states, startHeading), 'orientation-split', {
+      return finish(head, parameters, 'steps', r, validateOrientationPlan(instance, r.states, startHeading, { following }), 'orientation-split', {
         soc: r.soc, makespan: r.makespan, lowerBound: r.lowerBound, plan: { kind: 'states', states: r.states },
         schedule: r.schedule, timeline: 'steps', waitStepMs: profile.waitMs,
         turnInclusiveSocMs: r.turnInclusiveSocMs, turnInclusiveMakespanMs: r.turnInclusiveMakespanMs, turns: r.turns,
@@ -202,6 +211,25 @@ function finish(
     return unsolved(head, parameters, units, { ...counts, status: 'error', reason, lowerBound: null });
   }
   return { ...head, parameters, units, status: 'solved', ...solved, isValidated: true, ...counts };
+}
+
+/**
+ * The following rule of a solve: 'allowed' when not given; a RangeError for an unknown value or
+ * for a model that takes none (k-robust: k ≥ 1 already forbids following and k = 0 is classic;
+ * weighted-split: continuous times, no unit step to follow in).
+ */
+export function checkFollowing(following: unknown, model: PlanModel): FollowingRule {
+  if (following === undefined) return 'allowed';
+  if (!(FOLLOWING_MODELS as readonly string[]).includes(model)) {
+    const why = model === 'k-robust'
+      ? 'k-robust with k ≥ 1 already forbids following (and k = 0 is classic: use classic with following)'
+      : 'weighted-split plans run on a continuous ms timeline, where no unit step defines following';
+    throw new RangeError(`option following applies to ${FOLLOWING_MODELS.join(', ')} only, not ${model}: ${why}`);
+  }
+  if (!(FOLLOWING_RULES as readonly unknown[]).includes(following)) {
+    throw new RangeError(`option following must be one of ${FOLLOWING_RULES.join(', ')}, got ${JSON.stringify(following)}`);
+  }
+  return following as FollowingRule;
 }
 
 /** Returns the profile when its durations are positive integers of ms; otherwise throws a RangeError naming the field. */

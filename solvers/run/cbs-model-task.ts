@@ -26,9 +26,11 @@ export function runCbsModelTask(task: PlanTask, instance: MapfInstance, limits: 
   let check: () => PlanCheck;
   let plan: () => TaskPlan;
   if (spec.model === 'orientation-split') {
-    const r = solveOrientationSplit(instance, { ...common, switches: spec.switches as Partial<CbsSwitches> });
+    // Definitions stored before the following rule existed lack the field: the classic rule.
+    const following = spec.following ?? 'allowed';
+    const r = solveOrientationSplit(instance, { ...common, switches: spec.switches as Partial<CbsSwitches>, following });
     out = r;
-    check = () => validateOrientationPlan(instance, r.states, spec.startHeading);
+    check = () => validateOrientationPlan(instance, r.states, spec.startHeading, { following });
     plan = () => ({ kind: 'schedule', schedule: r.schedule });
   } else if (spec.model === 'k-robust') {
     const r = solveKRobust(instance, { ...common, k: spec.k, switches: spec.switches as Partial<CbsSwitches> });

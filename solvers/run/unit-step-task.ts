@@ -16,12 +16,15 @@ import { replayPlan } from './replay-plan';
 export function runUnitStepTask(task: PlanTask, instance: MapfInstance, limits: RunLimits): PlanTaskResult {
   const spec = task.model;
   if (spec.model !== 'classic' && spec.model !== 'uniform-duration') throw new Error(`runUnitStepTask: model ${spec.model} is not a unit-step model`);
+  // Definitions stored before the following rule existed lack the field: the classic rule.
+  const following = spec.following ?? 'allowed';
   const out = solveClassic(instance, {
     timeLimitMs: task.timeLimitMs,
     memoryLimitMb: task.memoryLimitMb,
     signal: limits.signal,
     now: limits.now,
     switches: spec.switches as Partial<CbsSwitches>,
+    following,
   });
   const base = {
     runtimeMs: out.runtimeMs, nodesGenerated: out.nodesGenerated, nodesExpanded: out.nodesExpanded,
@@ -34,7 +37,7 @@ export function runUnitStepTask(task: PlanTask, instance: MapfInstance, limits: 
   }
   if (out.status !== 'solved') return { ...base, status: out.status, reason: out.reason, lowerBound: out.lowerBound };
 
-  const check = validateClassicPlan(instance, out.paths);
+  const check = validateClassicPlan(instance, out.paths, { following });
   if (!check.ok) {
     return { ...base, status: 'error', reason: `the solver's plan failed the classic validator: ${check.violation?.message ?? 'unknown violation'}`, lowerBound: out.lowerBound };
   }

@@ -14,6 +14,23 @@
  * - target, corridor and rectangle reasoning (Li, Harabor, Stuckey, Koenig, "Pairwise symmetry
  *   reasoning for multi-agent path finding search", AIJ 2021).
  *
+ * Following conflicts (models with `following: forbidden`; following-conflicts.ts, after Stern
+ * et al., SoCS 2019) are a conflict kind of their own with their own split; how each
+ * improvement treats them:
+ * - prioritisation: classified by the follower's MDD at t and the leader's at t − 1;
+ * - bypass: unchanged (a child's paths satisfy the parent's constraints whatever the rule);
+ * - disjoint splitting: not applied to them (see following-conflicts.ts); vertex and edge
+ *   conflicts still split disjointly: "others not in v at t" stays a true consequence of a
+ *   positive constraint under the stricter rule, and progress still comes from it;
+ * - target, corridor and rectangle reasoning: they still refine only vertex and edge conflicts.
+ *   Their splits are complete for every plan free of vertex and swap conflicts, and a plan free
+ *   of following conflicts too is one of those, so they stay complete; following conflicts are
+ *   never turned into them;
+ * - WDG and the sub-search DG: the pair weights come from two-agent CBS runs on the same model
+ *   (following conflicts included), so they stay exact or lower bounds; `haveConflictFreePair`
+ *   checks only vertex and swap conflicts, a weaker rule, so "no conflict-free pair" is still
+ *   a proof of dependency and "a pair exists" only yields weight 0 (never an overestimate).
+ *
  * Optimality argument: every split is complete (each solution of a node satisfies one child's
  * constraints), every agent's path is optimal under its constraints, and the node order is by
  * f = g + h with h admissible, so the first conflict-free node popped is optimal.
@@ -32,6 +49,7 @@ import {
 } from './conflict';
 import { classifyByMdds } from './conflict-priority';
 import { findCorridorConflict } from './corridor-reasoning';
+import { classifyFollowingConflict, K_FOLLOW, splitFollowingConflict } from './following-conflicts';
 import { buildMdd, haveConflictFreePair, type Mdd } from './mdd';
 import { findRectangleConflict } from './rectangle-reasoning';
 import { classifyRangeConflict, K_RANGE } from './range-conflicts';
@@ -531,6 +549,8 @@ export class CbsEngine {
     const cost2 = p2.length - 1;
     // k-delay conflicts carry their range-constraint split (k-robust model).
     if (raw.kind === K_RANGE) return classifyRangeConflict(raw, sw.prioritizeConflicts ? m1 : null, m2, this.model.stateCell);
+    // Following conflicts (following: forbidden) carry their own split; never target, corridor or rectangle.
+    if (raw.kind === K_FOLLOW) return classifyFollowingConflict(raw, sw.prioritizeConflicts ? m1 : null, m2);
     let c: Conflict;
     if (raw.kind === K_VERTEX && sw.targetReasoning && raw.t > cost1) c = makeConflict(K_TARGET, raw.a1, raw.a2, raw.cell, -1, raw.t);
     else c = makeConflict(raw.kind, raw.a1, raw.a2, raw.cell, raw.cell2, raw.t);
@@ -570,6 +590,8 @@ export class CbsEngine {
       case K_RECTANGLE:
       case K_RANGE:
         return [c.constraints1 as Constraint[], c.constraints2 as Constraint[]];
+      case K_FOLLOW:
+        return splitFollowingConflict(c);
       default:
         throw new Error(`unknown conflict kind ${c.kind} at node ${node.id}`);
     }

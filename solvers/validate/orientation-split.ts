@@ -7,12 +7,14 @@
  * (same state). Headings N (y−1), E (x+1), S (y+1), W (x−1). Start heading given per agent
  * (`instance.agents[i].startHeading`, which wins when set) or by the plan-wide rule, where
  * `free` means any heading at t = 0 at no cost; goal heading: any. Conflicts on cells
- * whatever the heading: vertex, swap on forward moves, goal. Cost = arrival step of the final
+ * whatever the heading: vertex, swap on forward moves, goal; with `following: forbidden` also
+ * following on cells (following-rule.ts: waiting or turning in a cell occupies it). Cost = arrival step of the final
  * arrival at the goal cell (turns or waits at the goal afterwards cost nothing).
  */
-import type { Heading, StartHeading } from '@shared/plan';
+import type { FollowingRule, Heading, StartHeading } from '@shared/plan';
 import type { MapfInstance } from '../instance';
 import { firstCellConflict } from './cell-conflicts';
+import { firstFollowingViolation } from './following-rule';
 import { arrivalStep, isCellIndex, xyOf } from './grid-cells';
 import { FORWARD_DELTA, isHeading, leftOf, requiredStartHeading, rightOf } from './headings';
 import { agentCountViolation } from './path-rules';
@@ -31,6 +33,7 @@ export function validateOrientationPlan(
   instance: MapfInstance,
   states: readonly (readonly OrientedState[])[],
   startHeading: StartHeading,
+  options: { readonly following?: FollowingRule } = {},
 ): PlanCheck {
   const goals = instance.agents.map((a) => a.goal);
   const cells = states.map((s) => s.map((st) => st.cell));
@@ -39,6 +42,7 @@ export function validateOrientationPlan(
   if (count) return verdict(count, costs);
   const candidates: (RankedViolation | undefined)[] = states.map((s, i) => firstStateRuleViolation(instance, i, s, startHeading));
   candidates.push(firstCellConflict(instance.grid, cells, goals));
+  if (options.following === 'forbidden') candidates.push(firstFollowingViolation(instance.grid, cells));
   return verdict(firstOf(candidates), costs);
 }
 

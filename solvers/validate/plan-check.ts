@@ -27,6 +27,7 @@ export const VIOLATION_KINDS = [
   'vertex',
   'goal',
   'swap',
+  'following',
   'k-robust',
   'overlap',
 ] as const;
