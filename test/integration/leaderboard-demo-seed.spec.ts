@@ -56,7 +56,7 @@ describe('demo results', () => {
       }, { runId: r.id, sweepId: r.sweep_id });
     }
     const board = createLeaderboardsService({ sequelize });
-    const page = await board.page(parseView({ cols: 'model,agents,status,socSteps,socMs,lowerBoundSteps,lowerBoundMs,gap,successOpenLoop,source' }), null, {}, { start: 0, end: 500 });
+    const page = await board.page(parseView({ cols: 'model,agents,status,executableAtNominal,socSteps,socMs,lowerBoundSteps,lowerBoundMs,gap,successOpenLoop,source' }), null, {}, { start: 0, end: 500 });
     expect(page.rowCount).toBe(runs.length);
     const solved = page.rows.filter((r) => r.cells['status'] === 'solved');
     expect(solved.length).toBeGreaterThan(0);
@@ -65,6 +65,9 @@ describe('demo results', () => {
       // Optimal CBS proves its own sum-of-costs, so the board's gap is zero for every solved row.
       expect(r.cells['gap']).toBe(0);
       expect(typeof r.cells['successOpenLoop']).toBe('number');
+      // The worker replays every solved plan open-loop at zero noise (executable at nominal times): checked, never null.
+      expect(typeof r.isExecutableAtNominal).toBe('boolean');
+      expect(r.cells['executableAtNominal']).toBe(r.isExecutableAtNominal ? 'yes' : 'no');
     }
   }, 240_000);
 });

@@ -76,7 +76,11 @@ export interface SeedResult {
   readonly runtimeMs: number;
   readonly seed: number;
   /** Execution success rate and finish spread under open-loop, when replayed (runs: default 10). */
-  readonly openLoop?: { readonly success: number; readonly spread: number; readonly realised: number; readonly runs?: number };
+  readonly openLoop?: {
+    readonly success: number; readonly spread: number; readonly realised: number; readonly runs?: number;
+    /** The stored 95 % interval of the mean realised makespan (metrics.ci95, as sweeps store it since issue 12); absent = not stored. */
+    readonly realisedCi95?: readonly [number, number];
+  };
   /** Executable at nominal times (migration 0405); absent = not checked. */
   readonly executableAtNominal?: boolean | null;
   /** Model parameters beyond model, k and start heading (e.g. the following rule). */
@@ -104,8 +108,11 @@ export async function insertResults(lib: LibraryServer, results: SeedResult[]): 
     if (r.openLoop) {
       await lib.sql(
         `INSERT INTO executions (result_id, policy, noise, runs, success_rate, collisions_mean, realised_makespan_mean_ms, realised_makespan_p95_ms, finish_spread_mean_ms, metrics)
-         VALUES (:id, 'open-loop', '{}', :runs, :success, 0, :realised, :realised, :spread, '{}')`,
-        { id: row.id, success: r.openLoop.success, realised: r.openLoop.realised, spread: r.openLoop.spread, runs: r.openLoop.runs ?? 10 },
+         VALUES (:id, 'open-loop', '{}', :runs, :success, 0, :realised, :realised, :spread, :metrics)`,
+        {
+          id: row.id, success: r.openLoop.success, realised: r.openLoop.realised, spread: r.openLoop.spread, runs: r.openLoop.runs ?? 10,
+          metrics: JSON.stringify(r.openLoop.realisedCi95 ? { ci95: { realisedMakespanMs: r.openLoop.realisedCi95 } } : {}),
+        },
       );
     }
   }

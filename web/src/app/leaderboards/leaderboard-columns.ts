@@ -31,6 +31,20 @@ function formatNumber(digits: number | undefined) {
   };
 }
 
+/**
+ * A realised-makespan interval bound: "interval not stored" when the row has the mean but its
+ * execution was recorded before intervals were kept (issue 12, item 5).
+ */
+function formatIntervalBound(id: string, digits: number | undefined) {
+  const mean = id.replace(/(Lo|Hi)$/, '');
+  const plain = formatNumber(digits);
+  return (p: ValueFormatterParams<GridRow>): string => {
+    const v = p.value as number | null | undefined;
+    if ((v === null || v === undefined) && typeof p.data?.[mean] === 'number') return 'interval not stored';
+    return plain(p);
+  };
+}
+
 /** Column definitions for the visible columns, in order, with the view's sort applied. */
 export function gridColumns(columns: readonly LeaderboardColumn[], sort: readonly { column: string; direction: 'asc' | 'desc' }[]): ColDef<GridRow>[] {
   return columns.map((c) => {
@@ -55,7 +69,7 @@ export function gridColumns(columns: readonly LeaderboardColumn[], sort: readonl
         : undefined,
       filterParams: { filterOptions: [...GRID_FILTER_OPTIONS[c.kind]], maxNumConditions: 1, debounceMs: 300 },
       type: c.kind === 'number' ? 'rightAligned' : undefined,
-      valueFormatter: c.kind === 'number' ? formatNumber(c.digits) : undefined,
+      valueFormatter: /^realised.*(Lo|Hi)$/.test(c.id) ? formatIntervalBound(c.id, c.digits) : c.kind === 'number' ? formatNumber(c.digits) : undefined,
       minWidth: c.kind === 'number' ? 110 : 120,
       flex: c.kind === 'number' ? 0 : 1,
       width: c.kind === 'number' ? 140 : undefined,
