@@ -119,8 +119,10 @@ export interface RunMetrics {
   readonly waitingMaxPerRobotMs: number;
   /**
    * Last minus first robot finish of the padded lists; null when some list never finishes.
-   * Under lockstep a robot's program ends at the barrier that closes the last step (as every
-   * step does), so the fleet finishes together at nominal and noisy times alike.
+   * Under lockstep a robot's program ends at the barrier that closes the plan (the last step on
+   * the `steps` timeline; on the `ms` timeline the moment every action planned to end by the
+   * planned makespan has ended), so the fleet finishes together at nominal and noisy times alike
+   * and this is 0 by definition.
    */
   readonly finishSpreadMs: number | null;
 }
