@@ -8,7 +8,7 @@
  */
 import { performance } from 'node:perf_hooks';
 import { summaryView, type PlanFigures } from '@shared/executions';
-import type { PlanModel, Schedule } from '@shared/plan';
+import { FOLLOWING_MODELS, type FollowingRule, type PlanModel, type Schedule } from '@shared/plan';
 import { simulateExecution, type ExecutionSummary } from '@solvers/execute';
 import type { MapfInstance } from '@solvers/instance';
 import { scheduleFromPaths, type TurnSchedule } from '@solvers/models/turn-schedule';
@@ -64,7 +64,21 @@ interface Planned {
 }
 type Refusal = Extract<ExecutionTaskOutcome, { kind: 'refused' }>;
 
+/** The request's following rule (ModelOptionsSchema `following`; absent = allowed). */
+function followingOf(task: ExecutionTask): FollowingRule {
+  return (task.modelOptions as { readonly following?: FollowingRule }).following ?? 'allowed';
+}
+
+/** A refusal when the request asks for a following rule its model does not take (k-robust, weighted-split). */
+function followingRefusal(task: ExecutionTask): Refusal | null {
+  if (followingOf(task) === 'allowed' || (FOLLOWING_MODELS as readonly PlanModel[]).includes(task.model)) return null;
+  return refuse(400, 'PLAN_REJECTED', `modelOptions.following applies to ${FOLLOWING_MODELS.join(', ')} only, not ${task.model}`
+    + (task.model === 'k-robust' ? ' (k-robust with k ≥ 1 already forbids following).' : ' (its plans run on a continuous ms timeline).'));
+}
+
 function solvedPlan(task: ExecutionTask, instance: MapfInstance): Planned | Refusal {
+  const badFollowing = followingRefusal(task);
+  if (badFollowing) return badFollowing;
   if (!isModelAvailable(task.model)) {
     return refuse(501, 'MODEL_UNAVAILABLE', `The server cannot solve the ${task.model} model yet; send a plan for it in the body.`);
   }
@@ -106,7 +120,11 @@ function givenPlan(task: ExecutionTask, instance: MapfInstance): Planned | Refus
       return refuse(400, 'PLAN_REJECTED', 'modelOptions.k: a k-robust plan needs k.');
     }
     const paths = plan.paths.map((p) => p.map(([x, y]) => y * width + x));
-    const check = task.model === 'k-robust' ? validateKRobustPlan(instance, paths, task.modelOptions.k!) : validateClassicPlan(instance, paths);
+    const badFollowing = followingRefusal(task);
+    if (badFollowing) return badFollowing;
+    const check = task.model === 'k-robust'
+      ? validateKRobustPlan(instance, paths, task.modelOptions.k!)
+      : validateClassicPlan(instance, paths, { following: followingOf(task) });
     const turned = turnSchedule(task, instance, paths);
     return {
       timeline: 'steps',
@@ -143,7 +161,7 @@ function modelSpec(task: ExecutionTask): ModelSpec {
   switch (task.model) {
     case 'weighted-split': return { model: 'weighted-split', startHeading };
     case 'k-robust': return { model: 'k-robust', k: task.modelOptions.k ?? 1, startHeading, switches: {} };
-    default: return { model: task.model, startHeading, switches: {} };
+    default: return { model: task.model, startHeading, switches: {}, following: followingOf(task) };
   }
 }
 
