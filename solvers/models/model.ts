@@ -10,7 +10,9 @@
  *   the goal); SOC = sum of costs, makespan = max. Classic conflicts: vertex (same cell, same t),
  *   swap (exchange cells between t and t+1), and goal (an agent at its goal forever is hit by
  *   another entering that cell later — a vertex conflict at a t beyond the first agent's path
- *   end). Following is allowed.
+ *   end). Following is allowed by default; with `following: forbidden` (classic,
+ *   uniform-duration, orientation-split) no agent may enter at t+1 a cell another agent occupies
+ *   at t (the following conflict of Stern et al., SoCS 2019; solvers/search/following-conflicts.ts).
  * - k-robust (Atzmon et al., "Robust multi-agent path finding and executing", JAIR 2020; SoCS
  *   2018): additionally a conflict when two agents occupy the same cell at times t1, t2 with
  *   |t1 − t2| ≤ k (k = 0 is exactly classic, swaps included).
@@ -60,8 +62,8 @@ export interface SearchModel {
   distancesToCell(cell: number): Int32Array;
   /**
    * Appends every conflict between agents `a` and `b` (paths of states, trimmed at the goal as
-   * described above) to `out`. Classic, orientation-split: vertex, swap, goal; k-robust adds
-   * the time window.
+   * described above) to `out`. Classic, orientation-split: vertex, swap, goal (and following
+   * with `following: forbidden`); k-robust adds the time window.
    */
   findConflicts(a: number, pathA: Int32Array, b: number, pathB: Int32Array, out: Conflict[]): void;
   /**

@@ -1,7 +1,7 @@
 /**
  * The conflict rule of the unit-step models (classic and orientation-split): vertex conflicts,
  * swaps, and goal conflicts (an agent resting at its goal is hit by a later visitor).
- * Following is allowed.
+ * Following is allowed here; models with `following: forbidden` add following-conflicts.ts.
  */
 import { type Conflict, K_EDGE, K_VERTEX, makeConflict } from './conflict';
 
