@@ -218,10 +218,11 @@ export interface RobotWait {
 }
 
 /**
- * One segment of the critical chain (see critical-chain.ts). `own`: the robot ran its own actions
- * back to back from fromMs to toMs. `dependency` / `barrier`: the robot stood idle from fromMs
- * until toMs, when the end of an action of `waitedFor` released it. `planned-start`: the plan's
- * clock held the robot until toMs (fromMs = 0: nothing before it set the makespan).
+ * One segment of the critical chain (see wait-attribution.ts). `own`: the robot ran its own
+ * actions back to back from fromMs to toMs. `dependency` / `barrier`: the robot stood idle from
+ * fromMs until toMs, when the end of an action of `waitedFor` released it. `planned-start`: the
+ * robot stood idle from fromMs until the plan's clock released it at toMs (lockstep, ms
+ * timeline); the chain starts there, since nothing before it set the makespan.
  */
 export interface ChainSegment {
   readonly robot: number;
@@ -240,9 +241,10 @@ export interface RunTimeline {
   /**
    * The chain that set the realised makespan, earliest first: walking back from the robot whose
    * arrival is the makespan through its own actions to its last wait, then to the robot that
-   * released it, and so on. `own` and `planned-start` segments tile [0, makespan]; each wait
-   * segment ends where the releasing robot's `own` segment before it ends. Empty when the run
-   * has no finite makespan (deadlock, stop) or no robot moves.
+   * released it, and so on. `own` and `planned-start` segments tile [start, makespan], start = 0
+   * unless the chain begins with a planned-start wait (then its fromMs); each dependency or
+   * barrier segment ends where the releasing robot's `own` segment before it ends. Empty when the
+   * run has no finite makespan (deadlock, stop) or no robot moves.
    */
   readonly criticalChain: readonly ChainSegment[];
 }

@@ -30,14 +30,23 @@ function expectConsistentAttribution(t: RunTimeline): void {
   });
   expect(t.metrics.waitingMs).toBeCloseTo(t.waitByRobot.reduce((s, w) => s + w.waitedMs, 0), 6);
   expect(t.metrics.waitingMaxPerRobotMs).toBe(Math.max(0, ...t.waitByRobot.map((w) => w.waitedMs)));
-  // The chain: own and planned-start segments tile [0, makespan]; a wait ends where its releaser's segment ends.
+  // The chain: own and planned-start segments tile [0 or the first planned-start wait's start, makespan];
+  // a dependency or barrier wait ends where its releaser's segment ends.
   const makespan = t.metrics.realisedMakespanMs;
   if (makespan === null || makespan === 0) {
     expect(t.criticalChain).toEqual([]);
     return;
   }
   const tiles = t.criticalChain.filter((s) => s.reason === 'own' || s.reason === 'planned-start');
-  expect(tiles[0].fromMs).toBe(0);
+  if (tiles[0].reason === 'planned-start') {
+    // The chain begins with the plan's clock: the robot's previous action ended when the wait began.
+    const robot = t.robots[tiles[0].robot];
+    const released = robot.find((a) => a.start === tiles[0].toMs && a.waitReason === 'planned-start');
+    expect(released?.waitedMs).toBeCloseTo(tiles[0].toMs - tiles[0].fromMs, 9);
+  } else {
+    expect(tiles[0].fromMs).toBe(0);
+  }
+  expect(t.criticalChain.slice(1).some((c) => c.reason === 'planned-start')).toBe(false);
   expect(tiles[tiles.length - 1].toMs).toBe(makespan);
   for (let i = 1; i < tiles.length; i++) expect(tiles[i].fromMs).toBe(tiles[i - 1].toMs);
   t.criticalChain.forEach((s, i) => {
@@ -144,7 +153,7 @@ describe('dependency gating cannot lengthen the realised makespan', () => {
 });
 
 describe('attribution is consistent under every policy and noise', () => {
-  it('waits per robot add up, each release is an end of the named robot, the chain tiles [0, makespan]', () => {
+  it('waits per robot add up, each release is an end of the named robot, the chain tiles up to the makespan', () => {
     let runs = 0;
     let chainWaits = 0;
     const reasons = new Set<string>();

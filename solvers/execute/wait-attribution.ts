@@ -46,9 +46,10 @@ export function waitByRobot(p: PreparedPlan, times: RunTimes): RobotWait[] {
  * last forward move; lowest index on ties) is the realised makespan, at that move. Walk back
  * through its own actions while each started right when the previous one ended: that stretch is
  * an `own` segment. The action where the walk stops started at 0 (chain complete), or was held
- * by the plan's clock (a `planned-start` segment from 0, chain complete), or was released by
- * the end of action b of another robot: a wait segment (the idle stretch, `waitedFor` = b's
- * robot), and the walk continues at b. Empty when the makespan is not finite or is 0.
+ * by the plan's clock (a `planned-start` segment, the idle stretch; chain complete: whatever
+ * happened before it had slack and did not set the makespan), or was released by the end of
+ * action b of another robot: a wait segment (the idle stretch, `waitedFor` = b's robot), and
+ * the walk continues at b. Empty when the makespan is not finite or is 0.
  */
 export function criticalChain(p: PreparedPlan, times: RunTimes, policy: ExecutionPolicy): ChainSegment[] {
   const { start, end, waited, releasedBy } = times;
@@ -76,7 +77,7 @@ export function criticalChain(p: PreparedPlan, times: RunTimes, policy: Executio
     if (start[b] < toMs) reversed.push({ robot: r, fromMs: start[b], toMs, reason: 'own', waitedFor: null });
     if (!isReleased) break;
     if (releasedBy[b] === RELEASED_BY_PLANNED_START) {
-      reversed.push({ robot: r, fromMs: 0, toMs: start[b], reason: 'planned-start', waitedFor: null });
+      reversed.push({ robot: r, fromMs: start[b] - waited[b], toMs: start[b], reason: 'planned-start', waitedFor: null });
       break;
     }
     const by = releasedBy[b];
