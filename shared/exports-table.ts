@@ -2,7 +2,7 @@
  * The table every export format writes: the columns and rows on screen plus the caption that
  * says where the figures come from. Zod-free, pure, shared by the API and tests.
  */
-import type { LeaderboardColumn } from './leaderboards';
+import type { BestAmong, LeaderboardColumn } from './leaderboards';
 
 /** Export formats of GET /api/exports. */
 export const EXPORT_FORMATS = ['csv', 'latex', 'markdown', 'json'] as const;
@@ -23,11 +23,20 @@ export interface ExportTable {
    */
   readonly compareColumns: readonly string[];
   /**
-   * Per row, the ids among `compareColumns` whose plan collides at nominal times: never bold,
-   * so the best value per row is the best executable plan (issue 12, item 4). Absent or empty:
-   * every compared column counts (the view asked for `bestAmong=all`).
+   * Per row, the ids among `compareColumns` whose plan collides at nominal times (issue 12,
+   * item 4): marked with † in Markdown and LaTeX, and never bold unless `bestAmong` is `all`.
    */
   readonly notExecutable?: readonly (readonly string[])[];
+  /** Which plans the bold best value considers (default `executable`). */
+  readonly bestAmong?: BestAmong;
+}
+
+/** The mark after a value whose plan collides at nominal times (explained in the caption). */
+export const COLLISION_MARK = '†';
+
+/** Whether cell (row `r`, column `id`) holds a plan that collides at nominal times. */
+export function isCollidingCell(table: ExportTable, r: number, id: string): boolean {
+  return table.notExecutable?.[r]?.includes(id) ?? false;
 }
 
 /** A header with its unit, e.g. "Solve time (ms)". */
@@ -49,7 +58,7 @@ export function displayCell(value: ExportCell, column: LeaderboardColumn): strin
 export function bestCells(table: ExportTable): Set<number>[] {
   const idx = table.columns.map((c, i) => (table.compareColumns.includes(c.id) && c.better ? i : -1)).filter((i) => i >= 0);
   return table.rows.map((row, r) => {
-    const excluded = table.notExecutable?.[r] ?? [];
+    const excluded = table.bestAmong === 'all' ? [] : table.notExecutable?.[r] ?? [];
     const values = idx.filter((i) => typeof row[i] === 'number' && !excluded.includes(table.columns[i].id));
     if (values.length === 0) return new Set<number>();
     const better = table.columns[values[0]].better;

@@ -58,10 +58,12 @@ describe('LaTeX', () => {
   it('never bolds a plan that collides at nominal times: the best executable value is bold instead', () => {
     const guarded: ExportTable = { ...table, notExecutable: [['m_weighted_split'], ['m_weighted_split'], []] };
     expect(bestCells(guarded).map((s) => [...s])).toEqual([[1], [], [1, 2]]);
+    expect(bestCells({ ...guarded, bestAmong: 'all' }).map((s) => [...s])).toEqual([[2], [2], [1, 2]]);
     const tex = toLatex(guarded);
-    expect(tex).toContain('room\\_32 \\#2 \\& co, "east" & \\textbf{5200} & 4100 \\\\');
-    expect(tex).toContain('a|b\\textbackslash{}c & – & 900 \\\\');
-    expect(toMarkdown(guarded)).toContain('| **5200** | 4100 |');
+    expect(tex).toContain('room\\_32 \\#2 \\& co, "east" & \\textbf{5200} & 4100\\textsuperscript{\\dag} \\\\');
+    expect(tex).toContain('a|b\\textbackslash{}c & – & 900\\textsuperscript{\\dag} \\\\');
+    expect(toMarkdown(guarded)).toContain('| **5200** | 4100 † |');
+    expect(toMarkdown({ ...guarded, bestAmong: 'all' })).toContain('| 5200 | **4100** † |');
   });
 
   it('bolds the higher value for rates', () => {

@@ -55,7 +55,8 @@ describe('exports', () => {
     const body = text.slice(text.indexOf('\\midrule'), text.indexOf('\\bottomrule')).split('\n').filter((l) => l.endsWith('\\\\'));
     expect(body.length).toBeGreaterThan(0);
     for (const line of body) {
-      const cells = line.replace(/ \\\\$/, '').split(' & ').slice(4);
+      // A dagger marks a plan that collides at nominal times; it does not change the value.
+      const cells = line.replace(/ \\\\$/, '').split(' & ').slice(4).map((c) => c.replace('\\textsuperscript{\\dag}', ''));
       const nums = cells.map((c) => Number(c.replace(/\\textbf\{(.*)\}/, '$1'))).filter((n) => Number.isFinite(n));
       const bold = cells.filter((c) => c.startsWith('\\textbf{')).map((c) => Number(c.slice(8, -1)));
       if (nums.length > 0) expect(bold).toEqual(bold.map(() => Math.min(...nums)));

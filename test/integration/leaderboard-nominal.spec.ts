@@ -68,15 +68,19 @@ describe('executable at nominal times on the leaderboard', () => {
     const md = (await exported('format=markdown&layout=compare&metric=tiMakespanMs&scenario.has=tiny-a')).split('\n');
     const line = md.find((l) => l.includes('3000'));
     // Columns: map, scenario, agents, profile, classic, uniform-duration, orientation-split, weighted-split, k-robust.
-    expect(line?.split(' | ').slice(4, 8)).toEqual(['4000', '**3500**', '3000', '3600']);
+    expect(line?.split(' | ').slice(4, 8)).toEqual(['4000', '**3500**', '3000 †', '3600']);
     expect(md[0]).toContain('among plans that are executable at nominal times');
+    expect(md[0]).toContain('† after a value: that plan collides at nominal times');
 
     const all = (await exported('format=markdown&layout=compare&metric=tiMakespanMs&scenario.has=tiny-a&bestAmong=all')).split('\n');
-    expect(all.find((l) => l.includes('3000'))?.split(' | ').slice(4, 8)).toEqual(['4000', '3500', '**3000**', '3600']);
+    expect(all.find((l) => l.includes('3000'))?.split(' | ').slice(4, 8)).toEqual(['4000', '3500', '**3000** †', '3600']);
 
     const tex = await exported('format=latex&layout=compare&metric=tiMakespanMs&scenario.has=tiny-a');
     expect(tex).toContain('\\textbf{3500}');
     expect(tex).not.toContain('\\textbf{3000}');
+    expect(tex).toContain('3000\\textsuperscript{\\dag}');
+    // CSV keeps numbers plain.
+    expect(await exported('format=csv&layout=compare&metric=tiMakespanMs&scenario.has=tiny-a')).toContain(',4000,3500,3000,3600,');
   });
 
   it('keeps steps and ms in separate columns', async () => {

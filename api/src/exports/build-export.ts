@@ -9,15 +9,16 @@ import { exportCaption } from './export-caption';
 
 /** The export table of a page: exactly its columns, in order, and its rows. */
 export function exportTable(view: LeaderboardView, page: LeaderboardPage): ExportTable {
+  const notExecutable = page.rows.map((r) => Object.entries(r.isExecutableAtNominalByColumn ?? {}).filter(([, ok]) => ok === false).map(([id]) => id));
+  const isMarked = notExecutable.some((ids, i) => ids.some((id) => page.rows[i].cells[id] !== null && page.rows[i].cells[id] !== undefined));
   return {
-    caption: exportCaption(view, page.rows.map((r) => page.profiles[r.profileHash] ?? '')),
+    caption: exportCaption(view, page.rows.map((r) => page.profiles[r.profileHash] ?? ''), isMarked),
     columns: page.columns,
     rows: page.rows.map((r) => page.columns.map((c) => r.cells[c.id] ?? null)),
     compareColumns: view.layout === 'compare' ? page.columns.filter((c) => c.id.startsWith('m_')).map((c) => c.id) : [],
-    // Plans that collide at nominal times are never the bold best unless the view asks for all plans.
-    notExecutable: view.bestAmong === 'executable'
-      ? page.rows.map((r) => Object.entries(r.isExecutableAtNominalByColumn ?? {}).filter(([, ok]) => ok === false).map(([id]) => id))
-      : [],
+    // Plans that collide at nominal times are marked, and never the bold best unless the view asks for all plans.
+    notExecutable,
+    bestAmong: view.bestAmong,
   };
 }
 

@@ -1,13 +1,14 @@
 /** The caption of an export: which figure, plan models and robot profiles the numbers come from, and the safety note when execution figures are in it. */
 import { SAFETY_NOTE } from '@shared/executions-constants';
 import { CI95_METHOD } from '@shared/confidence-interval';
+import { COLLISION_MARK } from '@shared/exports-table';
 import { columnsOf, NOMINAL_DESCRIPTION, type LeaderboardView } from '@shared/leaderboards';
 
 /** Column ids whose figures come from the execution simulator. */
 const isExecutionColumn = (id: string): boolean => /^(success|spread|realised)/.test(id);
 
 /** A one-paragraph caption for `view` over rows with the given robot profile labels. */
-export function exportCaption(view: LeaderboardView, profileLabels: readonly string[]): string {
+export function exportCaption(view: LeaderboardView, profileLabels: readonly string[], hasCollidingMarks = false): string {
   const parts: string[] = [];
   if (view.layout === 'compare') {
     const metric = columnsOf({ layout: 'entries', metric: view.metric }).find((c) => c.id === view.metric);
@@ -20,6 +21,7 @@ export function exportCaption(view: LeaderboardView, profileLabels: readonly str
   else if (profiles.length > 1) parts.push(`Robot profiles: ${profiles.join('; ')}.`);
   if (view.filters.length > 0) parts.push(`Filters: ${view.filters.map((f) => `${f.column} ${f.op} ${f.value}`.trim()).join(', ')}.`);
   const shown = view.layout === 'compare' ? [view.metric] : view.columns;
+  if (hasCollidingMarks) parts.push(`${COLLISION_MARK} after a value: that plan collides at nominal times (Markdown and LaTeX only; JSON and CSV leave values plain).`);
   if (shown.includes('executableAtNominal')) parts.push(`Executable at nominal times: ${NOMINAL_DESCRIPTION}`);
   if (shown.some((id) => /^(success|realised).*(Lo|Hi)$/.test(id))) {
     parts.push(`95 % intervals: execution success rate by the ${CI95_METHOD.rate}, recomputed from rate × runs; realised makespan mean by the ${CI95_METHOD.mean}, as stored with the execution (empty: interval not stored, executions recorded before intervals were kept).`);

@@ -14,7 +14,7 @@ export function gridRows(page: LeaderboardPage, view: LeaderboardView): GridRow[
   const best = bestCells({
     caption: '', columns: page.columns, rows: page.rows.map((r) => page.columns.map((c) => r.cells[c.id] ?? null)),
     compareColumns: page.columns.filter((c) => c.id.startsWith('m_')).map((c) => c.id),
-    notExecutable: view.bestAmong === 'executable' ? colliding : [],
+    notExecutable: colliding, bestAmong: view.bestAmong,
   });
   return page.rows.map((r, i) => ({
     ...r.cells, __id: r.id,
