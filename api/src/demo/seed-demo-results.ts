@@ -6,7 +6,7 @@
  */
 import pino from 'pino';
 import { STARTER_PROFILE } from '@shared/executions-constants';
-import type { ModelSpec, SweepDefinitionInput } from '@shared/sweeps';
+import type { SweepDefinitionInput } from '@shared/sweeps';
 import { isModelAvailable } from '@solvers/run/run-plan-task';
 import { DEMO_IDENTITIES } from '../dev/fake-oauth/demo-identities';
 import { createSweepsService } from '../sweeps/sweeps.service';
@@ -19,13 +19,27 @@ export const DEMO_SWEEP_NAME = 'Kestrel Row turn study (demo)';
 /** The demo set it runs on (see seed-demo-instances.ts). */
 const DEMO_SET_NAME = 'Kestrel Row parcel depot';
 
-const CANDIDATE_MODELS: readonly ModelSpec[] = [
+/**
+ * The plan models compared, with following forbidden (Stern et al., SoCS 2019) as a variant of
+ * the two models whose plans may follow at a right angle, so the model comparison report can say
+ * what forbidding it costs and buys on these robots. Input type: the schema fills the defaults.
+ */
+const CANDIDATE_MODELS: SweepDefinitionInput['models'] = [
   { model: 'classic', startHeading: 'free', switches: {} },
+  { model: 'classic', startHeading: 'free', switches: {}, following: 'forbidden' },
   { model: 'uniform-duration', startHeading: 'free', switches: {} },
   { model: 'orientation-split', startHeading: 'free', switches: {} },
+  { model: 'orientation-split', startHeading: 'free', switches: {}, following: 'forbidden' },
   { model: 'weighted-split', startHeading: 'free' },
   { model: 'k-robust', k: 1, startHeading: 'free', switches: {} },
 ];
+
+/**
+ * The demo robots: the starter profile with a 760 mm diameter on the 1000 mm pitch. That exceeds
+ * pitch/√2 ≈ 707 mm, so two robots in right-angle following touch at any timing (issue 12, item 3):
+ * the demo shows a case where the plan model matters for execution (invented figures).
+ */
+export const DEMO_ROBOT_PROFILE = { ...STARTER_PROFILE, robotDiameterMm: 760 };
 
 /** The URL of the connection `sequelize` was opened on. */
 function urlOf(config: { username?: string; password?: string; host?: string; port?: string | number; database?: string }): string {
@@ -48,7 +62,7 @@ export const seedDemoResults: DemoSeedStep = async ({ sequelize, models }) => {
     instances: { instanceSetId: set.id, scenarioIds: scenarios.map((s) => s.id) },
     agentCounts: { kind: 'list', values: [2, 4, 6, 8] },
     models: CANDIDATE_MODELS.filter((m) => isModelAvailable(m.model)),
-    robotProfile: STARTER_PROFILE,
+    robotProfile: DEMO_ROBOT_PROFILE,
     timeLimitMs: 10_000,
     memoryLimitMb: 512,
     execution: { policies: ['open-loop', 'lockstep', 'dependency-gated'], stallProbability: 0, stallMs: 0, runs: 20 },

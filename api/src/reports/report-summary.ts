@@ -69,28 +69,40 @@ function topBySuccess(executed: readonly VariantFigures[]): VariantFigures[] {
   return executed.filter((v) => overlaps(v.executionSuccessCi95!, best.executionSuccessCi95!));
 }
 
-/** The sentence that answers "which plan model for these robots", as far as the intervals allow. */
-function choiceSentence(variants: readonly VariantFigures[]): string {
+/**
+ * The sentence that answers "which plan model for these robots", as far as the intervals allow:
+ * the variants whose execution success interval overlaps the best one's lead (no order among
+ * them); of those, the ones seen colliding at nominal times are named; among the rest one is
+ * named fastest only when its makespan interval is clear of every other one's.
+ */
+function choiceSentence(variants: readonly VariantFigures[], policy: SweepPolicy): string {
   const executed = variants.filter((v) => v.executionSuccessCi95 !== null);
-  if (executed.length === 0) return 'No variant was executed under this policy, so the report cannot say which plan model suits these robots.';
+  if (executed.length === 0) return `No variant was executed under ${policy}, so the report cannot say which plan model suits these robots.`;
   const top = topBySuccess(executed);
   const collidingAtNominal = top.filter((v) => v.nominalChecked > v.nominalExecutable);
   // Not seen colliding at nominal times (including variants never checked, named as such below).
   const candidates = top.filter((v) => v.nominalChecked === v.nominalExecutable);
   const unchecked = candidates.filter((v) => v.nominalChecked === 0);
   const parts: string[] = [];
-  if (top.length === 1) parts.push(`${capitalise(top[0].label)} has the highest execution success rate, its interval clear of every other variant's`);
-  else parts.push(`Execution success cannot rank ${listOf(top.map((v) => v.label))}: their intervals overlap`);
+  if (top.length === 1) parts.push(`${top[0].label} has the highest execution success rate, its interval clear of every other variant's`);
+  else if (top.length === executed.length) parts.push(`execution success does not rank the variants: every interval overlaps the best one's`);
+  else parts.push(`${listOf(top.map((v) => v.label))} lead on execution success (their intervals overlap the best one's, so no order among them; the others' lie wholly below it)`);
   if (collidingAtNominal.length > 0) parts.push(`of these, ${listOf(collidingAtNominal.map((v) => v.label))} collided at nominal times on some instances`);
+  // The variants left, named again only when some were set aside.
+  const remaining = `${collidingAtNominal.length > 0 || top.length === 1 ? listOf(candidates.map((v) => v.label)) : 'these'}${unchecked.length ? ` (${listOf(unchecked.map((v) => v.label))} not checked at nominal times)` : ''}`;
   const withRatio = candidates.filter((v) => v.makespanVsClassic.ci95 !== null || v.isReference);
   const ciOf = (v: VariantFigures): ReportInterval => (v.isReference ? [1, 1] : v.makespanVsClassic.ci95!);
   const fastest = [...withRatio].sort((a, b) => ciOf(a)[1] - ciOf(b)[1])[0];
-  if (fastest && withRatio.length > 1 && withRatio.every((v) => v === fastest || ciOf(fastest)[1] < ciOf(v)[0])) {
-    parts.push(`among those not seen colliding at nominal times${unchecked.length ? ` (${listOf(unchecked.map((v) => v.label))} not checked)` : ''}, ${fastest.label} finished soonest, its makespan interval clear of the others'`);
+  if (fastest && withRatio.length > 1 && withRatio.length === candidates.length && withRatio.every((v) => v === fastest || ciOf(fastest)[1] < ciOf(v)[0])) {
+    parts.push(`of ${remaining}, ${fastest.label} finished soonest, its makespan interval clear of the others'`);
   } else if (candidates.length > 1) {
-    parts.push(`the realised makespans of ${listOf(candidates.map((v) => v.label))} do not single out one of them (overlapping or missing intervals)`);
+    parts.push(collidingAtNominal.length > 0
+      ? `${remaining} remain, and their realised makespans do not single out one of them (overlapping or missing intervals)`
+      : `none of ${remaining} was seen colliding at nominal times, and their realised makespans do not single out one of them (overlapping or missing intervals)`);
+  } else if (candidates.length === 1 && top.length > 1) {
+    parts.push(`${remaining} remains`);
   }
-  return `${parts.join('; ')}.`;
+  return `Which plan model for these robots under ${policy}: ${parts.join('; ')}.`;
 }
 
 /** How well the planned cost predicts the realised makespan, per variant, in words. */
@@ -126,7 +138,7 @@ export function summarise(input: {
   const out = [`For robot profile ${input.profileLabel} under ${input.policy} execution on instance set "${input.setName}": ${input.instances} instances (scenario × agent count), ${variants.length} plan model variants, ${settings}.`];
   if (variants.length === 0) return [...out, 'No computed results match; run a sweep with this robot profile on this set.'];
   out.push(...variants.map(variantSentence));
-  out.push(choiceSentence(variants));
+  out.push(choiceSentence(variants, input.policy));
   const prediction = predictionSentence(variants);
   if (prediction) out.push(prediction);
   const executed = variants.filter((v) => v.executedInstances > 0).map((v) => v.executedInstances);

@@ -188,7 +188,7 @@ describe('GET /api/reports/model-comparison', () => {
     // Orientation-split's Wilson interval for 94/100 ends at 0.972, the 100 % ones (120/120) start
     // at 0.969: they overlap, so no variant may be named the most successful.
     expect(wilsonInterval(94, 100)[1]).toBeGreaterThan(wilsonInterval(120, 120)[0]);
-    expect(text).toContain('Execution success cannot rank classic, classic (following forbidden), orientation-split and weighted-split: their intervals overlap; of these, orientation-split collided at nominal times on some instances; among those not seen colliding at nominal times (classic (following forbidden) not checked), weighted-split finished soonest');
+    expect(text).toContain('Which plan model for these robots under dependency-gated: execution success does not rank the variants: every interval overlaps the best one\'s; of these, orientation-split collided at nominal times on some instances; of classic, classic (following forbidden) and weighted-split (classic (following forbidden) not checked at nominal times), weighted-split finished soonest, its makespan interval clear of the others\'.');
     expect(text).toContain('the instances mix agent counts, so part of this agreement comes from instance size');
     // ρ = 1 from 6 pairs: the interval's inner end comes from 1 − 12/(6·35) (rank-correlation.ts), about 0.54.
     expect(text).toContain('predicts it at least moderately for classic (ρ = 1.00 [0.54, 1.00], n = 6)');
