@@ -6,10 +6,16 @@
  * a rebuild after a backfill); steps and ms never share a column; success rates carry their Wilson
  * interval; the following rule shows in the variant.
  */
+import { spawnSync } from 'node:child_process';
+import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
 import { wilsonInterval } from '@shared/confidence-interval';
 import type { ExportJson } from '@shared/exports-json';
 import type { LeaderboardPage, LeaderboardSummary } from '@shared/leaderboards';
 import { insertResults, startBoardWorld, type BoardWorld, type SeedResult } from './leaderboard-support';
+
+const hasPdflatex = spawnSync('pdflatex', ['--version']).status === 0;
 
 describe('executable at nominal times on the leaderboard', () => {
   let world: BoardWorld;
@@ -82,6 +88,19 @@ describe('executable at nominal times on the leaderboard', () => {
     // CSV keeps numbers plain.
     expect(await exported('format=csv&layout=compare&metric=tiMakespanMs&scenario.has=tiny-a')).toContain(',4000,3500,3000,3600,');
   });
+
+  (hasPdflatex ? it : it.skip)(`compiles the comparison table with its dagger marks${hasPdflatex ? '' : ' (skipped: pdflatex is not installed)'}`, async () => {
+    const tex = await exported('format=latex&layout=compare&metric=tiMakespanMs&scenario.has=tiny-a');
+    expect(tex).toContain('\\dag');
+    const dir = mkdtempSync(join(tmpdir(), 'qt-latex-nominal-'));
+    try {
+      writeFileSync(join(dir, 'table.tex'), `\\documentclass{article}\n\\usepackage[T1]{fontenc}\n\\usepackage[utf8]{inputenc}\n\\usepackage{booktabs}\n\\usepackage[margin=5mm,landscape]{geometry}\n\\begin{document}\n\\tiny\n${tex}\\end{document}\n`);
+      const run = spawnSync('pdflatex', ['-interaction=nonstopmode', '-halt-on-error', 'table.tex'], { cwd: dir, encoding: 'utf8', timeout: 60_000 });
+      expect({ status: run.status, log: run.status === 0 ? '' : run.stdout.slice(-1500) }).toEqual({ status: 0, log: '' });
+    } finally {
+      rmSync(dir, { recursive: true, force: true });
+    }
+  }, 90_000);
 
   it('keeps steps and ms in separate columns', async () => {
     const page = await rows('cols=model,socSteps,socMs,makespanSteps,makespanMs,lowerBoundSteps,lowerBoundMs&scenario.has=tiny-a&sort=model');
