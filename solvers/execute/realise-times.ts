@@ -29,6 +29,8 @@ export interface ReleasePlan {
   readonly dependencies?: ActionDependencies;
   /** Lockstep on the ms timeline: every action sorted by planned end (ties by index). */
   readonly byPlannedEnd?: Int32Array;
+  /** Lockstep on the ms timeline: each action's planned end as the schedule states it (no float sums). */
+  readonly plannedEnd?: Float64Array;
 }
 
 /** `RunTimes.releasedBy` when the action did not wait (or never started). */
@@ -72,9 +74,9 @@ export function releasePlan(p: PreparedPlan, policy: ExecutionPolicy, dependenci
   if (policy === 'lockstep' && p.timeline === 'ms') {
     // Ties keep plan order; a robot's own actions have increasing planned starts (positive durations).
     const byStart = Array.from(order).sort((a, b) => p.plannedStart[a] - p.plannedStart[b] || a - b);
-    const plannedEnd = (a: number): number => p.plannedStart[a] + p.nominalMs[a];
-    const byEnd = Array.from(order).sort((a, b) => plannedEnd(a) - plannedEnd(b) || a - b);
-    return { policy, order: Int32Array.from(byStart), byPlannedEnd: Int32Array.from(byEnd) };
+    const plannedEnd = Float64Array.from(p.actions, (a) => a.end);
+    const byEnd = Array.from(order).sort((a, b) => plannedEnd[a] - plannedEnd[b] || a - b);
+    return { policy, order: Int32Array.from(byStart), byPlannedEnd: Int32Array.from(byEnd), plannedEnd };
   }
   if (policy === 'lockstep') {
     // Ties keep plan order (robot, then position), which keeps each robot's actions in sequence.
@@ -91,12 +93,11 @@ export function releasePlan(p: PreparedPlan, policy: ExecutionPolicy, dependenci
  */
 export function realiseTimes(p: PreparedPlan, release: ReleasePlan, duration: Float64Array, stoppedAt: Float64Array, out: RunTimes): void {
   const { start, end, cutAt, waited, releasedBy } = out;
-  const { order, policy, dependencies, byPlannedEnd } = release;
+  const { order, policy, dependencies, byPlannedEnd, plannedEnd } = release;
   const first = p.first;
   const robotOf = p.robotOf;
   const stepOf = p.step;
   const plannedStart = p.plannedStart;
-  const nominal = p.nominalMs;
   // The loop writes every action in the order; only actions left out of it (on or behind a
   // dependency cycle) need the never-started defaults.
   if (order.length < p.actionCount) {
@@ -114,7 +115,7 @@ export function realiseTimes(p: PreparedPlan, release: ReleasePlan, duration: Fl
   let currentStep = -1;
   let endCursor = 0;
   const isLockstep = policy === 'lockstep';
-  const isClocked = isLockstep && byPlannedEnd !== undefined;
+  const isClocked = isLockstep && byPlannedEnd !== undefined && plannedEnd !== undefined;
   const depStart = dependencies?.depStart;
   const deps = dependencies?.deps;
   for (let k = 0; k < order.length; k++) {
@@ -129,7 +130,7 @@ export function realiseTimes(p: PreparedPlan, release: ReleasePlan, duration: Fl
       const at = plannedStart[a];
       while (endCursor < byPlannedEnd.length) {
         const b = byPlannedEnd[endCursor];
-        if (plannedStart[b] + nominal[b] > at) break;
+        if (plannedEnd[b] > at) break;
         if (end[b] > barrier) {
           barrier = end[b];
           barrierBy = b;
