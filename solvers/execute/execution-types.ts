@@ -23,6 +23,8 @@ import type { ActionKind, CellXY, Heading, Schedule } from '@shared/plan';
  *     first action of step s waits for every action of steps < s: one global barrier between
  *     `step` values. Actions of one robot within a step (turns, then the move) follow each other
  *     with no further barrier. There is no ms clock: a robot never waits for a planned ms start.
+ *     A robot already at its goal runs padding waits (one per step, see ExecutablePlan), which
+ *     take part in the barrier like planned waits: the robot holds its goal for the whole step.
  *   - `ms` timeline (weighted-split): a waits for every action b (any robot) with planned end
  *     ≤ a's planned start, AND does not start before its planned start (ms from plan start).
  *     At zero noise every action then runs exactly at its planned times (realise-times.ts proves
