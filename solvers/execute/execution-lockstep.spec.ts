@@ -71,6 +71,26 @@ describe('lockstep on the ms timeline (weighted-split plans)', () => {
     expect(sawWaitOnClock).toBeGreaterThan(0);
   });
 
+  it('with stop on collision, nothing starts behind an action that never ended (robots wider than the pitch)', () => {
+    let stoppedRuns = 0;
+    let neverStarted = 0;
+    for (const { instance, profile, solved } of plans.slice(0, 24)) {
+      const wide = { ...profile, robotDiameterMm: profile.cellPitchMm * 1.6 };
+      const t = realisedTimeline(instance, { timeline: 'ms', schedule: solved.schedule }, wide, { policy: 'lockstep', seed: 1, onCollision: 'stop', noise: { jitterCv: 0.2 } });
+      if (t.metrics.collisions.length === 0) continue;
+      stoppedRuns++;
+      expect(t.metrics.isSuccess).toBe(false);
+      const all = t.robots.flat();
+      for (const a of all) {
+        const gate = all.filter((b) => b.plannedEnd <= a.plannedStart);
+        if (a.start < Infinity) for (const b of gate) expect(b.end).toBeLessThanOrEqual(a.start);
+        else neverStarted++;
+      }
+    }
+    expect(stoppedRuns).toBeGreaterThan(5);
+    expect(neverStarted).toBeGreaterThan(0);
+  });
+
   it('collides no more than open-loop on the same noisy runs (summed over plans)', () => {
     // Not a theorem for each run, a sanity check of direction: synchronising cannot be worse in total here.
     let lockstep = 0;
