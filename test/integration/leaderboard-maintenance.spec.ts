@@ -8,6 +8,8 @@
  */
 import { Client } from 'pg';
 import { createRng } from '@solvers/random';
+import * as nominalMigration from '../../api/src/db/migrations/0405-executable-at-nominal';
+import { createSequelize } from '../../api/src/db/sequelize';
 import { parameterHash } from '../../api/src/sweeps/parameter-hash';
 import { createTestDatabase, type TestDatabase } from '../support/test-database';
 
@@ -24,6 +26,8 @@ const MODELS = [
   { model: 'weighted-split', startHeading: 'free' },
   { model: 'k-robust', k: 1, startHeading: 'free' },
   { model: 'k-robust', k: 2, startHeading: 'free' },
+  // The following rule forbidden is its own variant (migration 0405).
+  { model: 'classic', startHeading: 'free', following: 'forbidden' },
 ];
 const STATUSES = ['solved', 'solved', 'solved', 'infeasible', 'timeout', 'memory', 'error'];
 
@@ -92,16 +96,18 @@ describe('leaderboard tables kept by triggers equal a rebuild', () => {
         seed: seed++, status, soc, ti: soc === null ? null : soc * 600 + rng.int(3) * 100,
         lb: status === 'error' || submissionIds.length ? null : 3 + rng.int(2), runtime: submissionIds.length ? null : rng.int(4) * 10,
         profile: PROFILES[p], hash: parameterHash(PROFILES[p]), submission_id: submissionIds.length ? submissionIds[i % submissionIds.length] : null,
+        // Executable at nominal times (migration 0405): checked either way, or not checked.
+        nominal: status === 'solved' ? [true, false, null][rng.int(3)] : null,
       };
     });
     const inserted = await rows<{ id: number }>(
       `INSERT INTO results (submission_id, instance_set_id, map_id, scenario_id, agents, model, params, param_hash, seed, status, soc, makespan,
          turn_inclusive_soc_ms, turn_inclusive_makespan_ms, lower_bound, runtime_ms, nodes, robot_profile, robot_profile_hash,
-         solver_version, solver_commit, node_version, cpu_model, thread_count)
+         solver_version, solver_commit, node_version, cpu_model, thread_count, executable_at_nominal, nominal_collisions)
        SELECT r.submission_id, s.instance_set_id, s.map_id, s.id, r.agents, r.model, r.params, r.param_hash, r.seed, r.status, r.soc, r.soc,
-         r.ti, r.ti, r.lb, r.runtime, 1, r.profile, r.hash, '0.1.0', 'test', 'v20', 'test cpu', 1
+         r.ti, r.ti, r.lb, r.runtime, 1, r.profile, r.hash, '0.1.0', 'test', 'v20', 'test cpu', 1, r.nominal, CASE r.nominal WHEN true THEN 0 WHEN false THEN 1 END
        FROM jsonb_to_recordset($1::jsonb) AS r(submission_id int, scenario_id int, agents int, model text, params jsonb, param_hash text,
-         seed int, status text, soc float8, ti float8, lb float8, runtime float8, profile jsonb, hash text)
+         seed int, status text, soc float8, ti float8, lb float8, runtime float8, profile jsonb, hash text, nominal boolean)
        JOIN scenarios s ON s.id = r.scenario_id RETURNING id`,
       [JSON.stringify(batch)],
     );
@@ -145,7 +151,10 @@ describe('leaderboard tables kept by triggers equal a rebuild', () => {
     await expectRebuildEqualAfter(() => c.query(`INSERT INTO executions (result_id, policy, noise, runs, success_rate, collisions_mean,
         realised_makespan_mean_ms, realised_makespan_p95_ms, finish_spread_mean_ms, metrics)
       SELECT r.id, p.policy, '{}', 10, (abs(hashint4(r.id)) % 11) / 10.0, 0, r.turn_inclusive_makespan_ms * 1.1, r.turn_inclusive_makespan_ms * 1.2,
-        abs(hashint4(r.id)) % 900, '{}'
+        abs(hashint4(r.id)) % 900,
+        -- Half with the stored interval of the mean realised makespan (as sweeps store it since issue 12), half without.
+        CASE WHEN r.id % 2 = 0 THEN jsonb_build_object('ci95', jsonb_build_object('realisedMakespanMs',
+          jsonb_build_array(r.turn_inclusive_makespan_ms, r.turn_inclusive_makespan_ms * 1.2))) ELSE '{}' END
       FROM results r CROSS JOIN (VALUES ('open-loop'), ('lockstep')) p(policy) WHERE r.status = 'solved'`));
     await expectRebuildEqualAfter(() => c.query("UPDATE executions SET success_rate = 1 - success_rate, finish_spread_mean_ms = finish_spread_mean_ms + 7 WHERE id % 3 = 0"));
     await expectRebuildEqualAfter(() => c.query("DELETE FROM executions WHERE id % 4 = 1 OR policy = 'lockstep' AND id % 2 = 0"));
@@ -174,8 +183,40 @@ describe('leaderboard tables kept by triggers equal a rebuild', () => {
     await expectRebuildEqualAfter(() => c.query('DELETE FROM scenarios WHERE id = $1', [scenarios[1]]));
   });
 
+  it('after results are backfilled with the check at nominal times (an UPDATE of results)', async () => {
+    const after = await expectRebuildEqualAfter(() => c.query(`UPDATE results SET executable_at_nominal = NOT coalesce(executable_at_nominal, true),
+      nominal_collisions = CASE WHEN coalesce(executable_at_nominal, true) THEN 1 ELSE 0 END WHERE status = 'solved' AND id % 3 = 0`));
+    expect(after.entries.some((e) => e['executable_at_nominal'] === false)).toBe(true);
+    expect(after.entries.some((e) => e['variant'] === 'following forbidden')).toBe(true);
+    expect(after.entries.some((e) => e['realised_lo_open_loop'] !== null)).toBe(true);
+  });
+
   it('after a set turns public and changes owner', async () => {
     const after = await expectRebuildEqualAfter(() => c.query("UPDATE instance_sets SET visibility = 'public', owner_id = 1 WHERE id = $1", [privateSet]));
     expect(after.compare.filter((r) => r['instance_set_id'] === privateSet).every((r) => r['is_public'] === true && r['owner_id'] === 1)).toBe(true);
+  });
+
+  it('undoing and redoing migration 0405 leaves the same tables', async () => {
+    // Down drops the stored checks (the column goes), so compare against tables whose results were never checked.
+    await c.query('UPDATE results SET executable_at_nominal = NULL, nominal_collisions = NULL');
+    const before = await snapshot();
+    expect(before).toEqual(await rebuilt());
+    expect(before.entries.length).toBeGreaterThan(0);
+    const sequelize = createSequelize(db.url, { poolMax: 1 });
+    try {
+      const context = sequelize.getQueryInterface();
+      await nominalMigration.down({ context, name: '0405-executable-at-nominal' } as Parameters<typeof nominalMigration.down>[0]);
+      const undone = await snapshot();
+      // 0401's variant knows no following rule: those results join the plain classic variant again.
+      const forbidden = before.entries.filter((e) => e['variant'] === 'following forbidden').length;
+      expect(forbidden).toBeGreaterThan(0);
+      expect(undone.entries.length).toBeLessThan(before.entries.length);
+      expect(undone.entries.some((e) => e['variant'] === 'following forbidden')).toBe(false);
+      expect(Object.keys(undone.entries[0])).not.toContain('executable_at_nominal');
+      await nominalMigration.up({ context, name: '0405-executable-at-nominal' } as Parameters<typeof nominalMigration.up>[0]);
+    } finally {
+      await sequelize.close();
+    }
+    expect(await snapshot()).toEqual(before);
   });
 });

@@ -240,7 +240,11 @@ export const up: Migration = async ({ context: qi }) => {
   await q('SELECT leaderboard_rebuild()');
 };
 
-/** Back to 0404: this migration's columns, indexes and trigger go, 0402's function bodies and 0401's variant return. */
+/**
+ * Back to 0404: this migration's columns, indexes and trigger go, 0402's function bodies and
+ * 0401's variant return. The stored checks go with their column (an up again reads every
+ * result as not checked).
+ */
 export const down: Migration = async ({ context: qi }) => {
   const q = (sql: string) => qi.sequelize.query(sql);
   await q('DROP TRIGGER IF EXISTS leaderboard_results_update ON results');
