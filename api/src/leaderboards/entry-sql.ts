@@ -27,8 +27,8 @@ export const ENTRY_SQL: Readonly<Record<string, string>> = {
   variant: 'e.variant',
   profile: 'e.profile_label',
   status: 'e.status',
-  // Migration 0405: "not checked" (null) is spelled out so the enum filter and sort work on one text.
-  executableAtNominal: "(CASE e.executable_at_nominal WHEN true THEN 'yes' WHEN false THEN 'no' ELSE 'not checked' END)",
+  // Migration 0405: the flag as yes / no / not checked (a generated, indexed column).
+  executableAtNominal: 'e.nominal_label',
   nominalCollisions: 'e.nominal_collisions',
   // One unit per column (migration 0405 generates them from the model).
   socSteps: 'e.soc_steps',

@@ -12,6 +12,8 @@
  *   mean realised makespan (`metrics.ci95.realisedMakespanMs`, null for rows stored before it).
  * - Sum-of-costs, makespan and lower bound get a steps column and an ms column (generated from the
  *   model: weighted-split counts ms, every other model unit steps), so no column mixes units.
+ *   The flag also has a generated label (yes / no / not checked), so the board filters and sorts
+ *   it on an index.
  * - `leaderboard_compare` gets one executable flag per plan model column, so "best per row"
  *   can skip plans that collide at nominal times.
  * - The variant names `following forbidden` (the default `allowed` adds nothing, so existing
@@ -87,7 +89,7 @@ const UNIT_COLUMNS: readonly (readonly [string, string, boolean])[] = [
   ['lower_bound_steps', 'lower_bound', false], ['lower_bound_ms', 'lower_bound', true],
 ];
 /** New sortable entry columns; each gets a sort index like 0403's. */
-const NEW_SORT_COLUMNS = [...UNIT_COLUMNS.map(([c]) => c), 'executable_at_nominal'];
+const NEW_SORT_COLUMNS = [...UNIT_COLUMNS.map(([c]) => c), 'nominal_label', 'nominal_collisions'];
 const SORT_INCLUDE = ['is_public', 'owner_id', 'model', 'variant', 'status', 'source', 'solver', 'robot_profile_hash'];
 
 const PROFILE_LABEL = (alias: string) => `format('forward %s ms, quarter turn %s ms, wait %s ms, pitch %s mm, diameter %s mm, jitter %s',
@@ -219,7 +221,8 @@ export const up: Migration = async ({ context: qi }) => {
     ADD COLUMN executable_at_nominal boolean,
     ADD COLUMN nominal_collisions integer,
     ${POLICIES.flatMap(([s]) => [`ADD COLUMN runs_${s} integer`, `ADD COLUMN realised_lo_${s} double precision`, `ADD COLUMN realised_hi_${s} double precision`]).join(',\n    ')},
-    ${UNIT_COLUMNS.map(([c, src, isMs]) => `ADD COLUMN ${c} double precision GENERATED ALWAYS AS (CASE WHEN model ${isMs ? '=' : '<>'} 'weighted-split' THEN ${src} END) STORED`).join(',\n    ')}`);
+    ${UNIT_COLUMNS.map(([c, src, isMs]) => `ADD COLUMN ${c} double precision GENERATED ALWAYS AS (CASE WHEN model ${isMs ? '=' : '<>'} 'weighted-split' THEN ${src} END) STORED`).join(',\n    ')},
+    ADD COLUMN nominal_label text GENERATED ALWAYS AS (CASE executable_at_nominal WHEN true THEN 'yes' WHEN false THEN 'no' ELSE 'not checked' END) STORED`);
   for (const col of NEW_SORT_COLUMNS) {
     await q(`CREATE INDEX leaderboard_entries_by_${col} ON leaderboard_entries (${col}, id) INCLUDE (${SORT_INCLUDE.join(', ')})`);
   }
@@ -254,7 +257,7 @@ export const down: Migration = async ({ context: qi }) => {
   for (const col of NEW_SORT_COLUMNS) await q(`DROP INDEX IF EXISTS leaderboard_entries_by_${col}`);
   await q(`ALTER TABLE leaderboard_compare ${compareFlags.map((c) => `DROP COLUMN ${c}`).join(', ')}`);
   await q(`ALTER TABLE leaderboard_entries
-    DROP COLUMN executable_at_nominal, DROP COLUMN nominal_collisions,
+    DROP COLUMN nominal_label, DROP COLUMN executable_at_nominal, DROP COLUMN nominal_collisions,
     ${POLICIES.flatMap(([s]) => [`DROP COLUMN runs_${s}`, `DROP COLUMN realised_lo_${s}`, `DROP COLUMN realised_hi_${s}`]).join(', ')},
     ${UNIT_COLUMNS.map(([c]) => `DROP COLUMN ${c}`).join(', ')}`);
   await q(`CREATE OR REPLACE FUNCTION leaderboard_variant(params jsonb) RETURNS text LANGUAGE sql IMMUTABLE AS $$
