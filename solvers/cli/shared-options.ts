@@ -11,7 +11,7 @@ import {
 } from '../../shared/plan';
 import { DEFAULT_ROBOT_PROFILE } from '../models/heading-schedule';
 import { MAX_K } from '../models/k-robust-model';
-import { isPlanModel, type ModelSolveOptions } from '../models/solve-model';
+import { checkFollowing, isPlanModel, type ModelSolveOptions } from '../models/solve-model';
 
 /** A refused command line (exit code 2). */
 export class UsageError extends Error {}
@@ -142,13 +142,11 @@ export function parseSharedOptions(raw: RawShared): ParsedShared {
     if (!(FOLLOWING_RULES as readonly string[]).includes(raw.following)) {
       throw new UsageError(`--following must be allowed or forbidden, got '${raw.following}'`);
     }
-    following = raw.following as FollowingChoice;
-    if (!(FOLLOWING_MODELS as readonly string[]).includes(model)) {
-      // The reasons solveModel gives (checkFollowing in solvers/models/solve-model.ts), worded alike.
-      const why = model === 'k-robust'
-        ? 'k-robust with k ≥ 1 already forbids following (and k = 0 is classic: use classic with following)'
-        : 'weighted-split plans run on a continuous ms timeline, where no unit step defines following';
-      throw new UsageError(`--following applies to ${FOLLOWING_MODELS.join(', ')} only, not ${model}: ${why}`);
+    try {
+      // solveModel's own check, so the CLIs refuse a model with exactly its reason.
+      following = checkFollowing(raw.following, model);
+    } catch (error) {
+      throw new UsageError((error as Error).message.replace(/^option following/, '--following'));
     }
   }
   const notes = model === 'weighted-split' && raw['wait-ms'] !== undefined ? [WEIGHTED_SPLIT_WAIT_NOTE] : [];
@@ -161,7 +159,7 @@ export function parseSharedOptions(raw: RawShared): ParsedShared {
 }
 
 /** The solveModel options of the shared options under a robot profile; `following` only when given. */
-export function modelSolveOptions(options: SharedOptions, profile: RobotProfile): ModelSolveOptions & { readonly following?: FollowingChoice } {
+export function modelSolveOptions(options: SharedOptions, profile: RobotProfile): ModelSolveOptions {
   return {
     timeLimitMs: options.timeLimitSeconds * 1000, now: () => performance.now(), profile, startHeading: options.startHeading, k: options.k,
     ...(options.following !== undefined ? { following: options.following } : {}),
