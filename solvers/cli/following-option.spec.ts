@@ -53,5 +53,8 @@ describe('--following on solve and execute', () => {
     expect([allowed.successRate, allowed.collisions.total, allowed.firstCollision.robots]).toEqual([0, 1, [0, 1]]);
     expect([forbidden.successRate, forbidden.collisions.total, forbidden.firstCollision]).toEqual([1, 0, null]);
     expect(forbidden.realisedMakespanMs.mean).toBe(2000);
+    // Dependency gating starts the follower's move only after the leader's move out has ended: no collision, no warning.
+    const gated = cli('execute', [...files, '--following', 'allowed', '--policy', 'dependency-gated', '--runs', '1', '--json']);
+    expect([gated.status, gated.stderr, JSON.parse(gated.stdout).collisions.total]).toEqual([0, '', 0]);
   });
 });
