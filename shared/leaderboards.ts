@@ -75,6 +75,14 @@ const policyColumns: LeaderboardColumn[] = LEADERBOARD_POLICIES.flatMap((p) => [
     description: 'Wilson score interval, recomputed from the rate and the number of runs.',
   } as const,
   { id: `spread${p.key}`, label: `Finish spread (mean), ${p.label}`, kind: 'number', unit: 'ms', better: 'lower', digits: 0 } as const,
+  {
+    id: `spread${p.key}Lo`, label: `Finish spread (mean), ${p.label}, 95 % CI low`, kind: 'number', unit: 'ms', digits: 0,
+    description: 'Interval of the mean as stored with the execution; empty: interval not stored (executions recorded before intervals were kept).',
+  } as const,
+  {
+    id: `spread${p.key}Hi`, label: `Finish spread (mean), ${p.label}, 95 % CI high`, kind: 'number', unit: 'ms', digits: 0,
+    description: 'Interval of the mean as stored with the execution; empty: interval not stored (executions recorded before intervals were kept).',
+  } as const,
   { id: `realised${p.key}`, label: `Realised makespan (mean), ${p.label}`, kind: 'number', unit: 'ms', better: 'lower', digits: 0 } as const,
   {
     id: `realised${p.key}Lo`, label: `Realised makespan (mean), ${p.label}, 95 % CI low`, kind: 'number', unit: 'ms', digits: 0,

@@ -28,7 +28,7 @@ describe('executable at nominal times on the leaderboard', () => {
     results = [
       // Scenario a: orientation-split has the lowest turn-inclusive makespan but collides at nominal times.
       { ...base, scenarioId: a, model: 'classic', soc: 6, tiMakespanMs: 4000, seed: 1, executableAtNominal: true, openLoop: { success: 0.7, spread: 100, realised: 4100, runs: 10 } },
-      { ...base, scenarioId: a, model: 'orientation-split', soc: 6, tiMakespanMs: 3000, seed: 2, executableAtNominal: false, openLoop: { success: 0, spread: 100, realised: 3100, runs: 10, realisedCi95: [3050, 3150] } },
+      { ...base, scenarioId: a, model: 'orientation-split', soc: 6, tiMakespanMs: 3000, seed: 2, executableAtNominal: false, openLoop: { success: 0, spread: 100, realised: 3100, runs: 10, realisedCi95: [3050, 3150], spreadCi95: [80, 120] } },
       { ...base, scenarioId: a, model: 'uniform-duration', soc: 6, tiMakespanMs: 3500, seed: 3, executableAtNominal: null },
       // A weighted-split result: its sum-of-costs is in ms.
       { ...base, scenarioId: a, model: 'weighted-split', soc: 5200, tiMakespanMs: 3600, lowerBound: 5000, seed: 4, executableAtNominal: true },
@@ -127,8 +127,11 @@ describe('executable at nominal times on the leaderboard', () => {
     expect(doc.caption).toContain('Wilson score interval');
     expect(doc.caption).toContain('interval not stored');
     // A stored interval of the mean realised makespan is shown as stored; with 0 of 10 runs collision-free, Wilson still gives a non-zero upper end.
-    const stored = await rows('cols=model,successOpenLoopLo,successOpenLoopHi,realisedOpenLoopLo,realisedOpenLoopHi&model.in=orientation-split');
-    expect(stored.rows.map((r) => r.cells)).toEqual([{ model: 'orientation-split', successOpenLoopLo: wilsonInterval(0, 10)[0], successOpenLoopHi: wilsonInterval(0, 10)[1], realisedOpenLoopLo: 3050, realisedOpenLoopHi: 3150 }]);
+    const stored = await rows('cols=model,successOpenLoopLo,successOpenLoopHi,realisedOpenLoopLo,realisedOpenLoopHi,spreadOpenLoopLo,spreadOpenLoopHi&model.in=orientation-split');
+    expect(stored.rows.map((r) => r.cells)).toEqual([{
+      model: 'orientation-split', successOpenLoopLo: wilsonInterval(0, 10)[0], successOpenLoopHi: wilsonInterval(0, 10)[1],
+      realisedOpenLoopLo: 3050, realisedOpenLoopHi: 3150, spreadOpenLoopLo: 80, spreadOpenLoopHi: 120,
+    }]);
     expect(wilsonInterval(0, 10)[1]).toBeGreaterThan(0.2);
     const sorted = await world.visitor.request('/api/leaderboards/rows?sort=successOpenLoopLo');
     expect(sorted.status).toBe(400);

@@ -80,6 +80,8 @@ export interface SeedResult {
     readonly success: number; readonly spread: number; readonly realised: number; readonly runs?: number;
     /** The stored 95 % interval of the mean realised makespan (metrics.ci95, as sweeps store it since issue 12); absent = not stored. */
     readonly realisedCi95?: readonly [number, number];
+    /** The stored 95 % interval of the mean finish spread; absent = not stored. */
+    readonly spreadCi95?: readonly [number, number];
   };
   /** Executable at nominal times (migration 0405); absent = not checked. */
   readonly executableAtNominal?: boolean | null;
@@ -111,7 +113,8 @@ export async function insertResults(lib: LibraryServer, results: SeedResult[]): 
          VALUES (:id, 'open-loop', '{}', :runs, :success, 0, :realised, :realised, :spread, :metrics)`,
         {
           id: row.id, success: r.openLoop.success, realised: r.openLoop.realised, spread: r.openLoop.spread, runs: r.openLoop.runs ?? 10,
-          metrics: JSON.stringify(r.openLoop.realisedCi95 ? { ci95: { realisedMakespanMs: r.openLoop.realisedCi95 } } : {}),
+          metrics: JSON.stringify(r.openLoop.realisedCi95 || r.openLoop.spreadCi95
+            ? { ci95: { realisedMakespanMs: r.openLoop.realisedCi95 ?? null, finishSpreadMs: r.openLoop.spreadCi95 ?? null } } : {}),
         },
       );
     }

@@ -23,8 +23,8 @@ export function exportCaption(view: LeaderboardView, profileLabels: readonly str
   const shown = view.layout === 'compare' ? [view.metric] : view.columns;
   if (hasCollidingMarks) parts.push(`${COLLISION_MARK} after a value: that plan collides at nominal times (Markdown and LaTeX only; JSON and CSV leave values plain).`);
   if (shown.includes('executableAtNominal')) parts.push(`Executable at nominal times: ${NOMINAL_DESCRIPTION}`);
-  if (shown.some((id) => /^(success|realised).*(Lo|Hi)$/.test(id))) {
-    parts.push(`95 % intervals: execution success rate by the ${CI95_METHOD.rate}, recomputed from rate × runs; realised makespan mean by the ${CI95_METHOD.mean}, as stored with the execution (empty: interval not stored, executions recorded before intervals were kept).`);
+  if (shown.some((id) => /^(success|realised|spread).*(Lo|Hi)$/.test(id))) {
+    parts.push(`95 % intervals: execution success rate by the ${CI95_METHOD.rate}, recomputed from rate × runs; means of realised makespan and finish spread by the ${CI95_METHOD.mean}, as stored with the execution (empty: interval not stored, executions recorded before intervals were kept).`);
   }
   if (shown.some(isExecutionColumn)) parts.push(SAFETY_NOTE);
   return parts.join(' ');

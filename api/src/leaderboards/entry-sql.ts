@@ -14,6 +14,7 @@ const POLICY_SQL: Record<string, string> = Object.fromEntries(
       // Computed for the page from rate × runs (leaderboards.service.ts); the query reads the runs here.
       [`success${p.key}Lo`, `e.runs_${suffix}`], [`success${p.key}Hi`, `e.runs_${suffix}`],
       [`realised${p.key}Lo`, `e.realised_lo_${suffix}`], [`realised${p.key}Hi`, `e.realised_hi_${suffix}`],
+      [`spread${p.key}Lo`, `e.spread_lo_${suffix}`], [`spread${p.key}Hi`, `e.spread_hi_${suffix}`],
     ];
   }),
 );

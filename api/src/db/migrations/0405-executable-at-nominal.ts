@@ -8,8 +8,8 @@
  *   (true or not checked before false), then lowest sum-of-costs as before. A plan that collides
  *   even with perfect timing is never preferred to one that does not.
  * - `leaderboard_entries` copies both from its best result, and per policy the number of runs
- *   (so the execution success rate gets its Wilson interval) and the stored 95 % interval of the
- *   mean realised makespan (`metrics.ci95.realisedMakespanMs`, null for rows stored before it).
+ *   (so the execution success rate gets its Wilson interval) and the stored 95 % intervals of the
+ *   mean realised makespan and mean finish spread (`metrics.ci95`, null for rows stored before it).
  * - Sum-of-costs, makespan and lower bound get a steps column and an ms column (generated from the
  *   model: weighted-split counts ms, every other model unit steps), so no column mixes units.
  *   The flag also has a generated label (yes / no / not checked), so the board filters and sorts
@@ -31,6 +31,13 @@ const POLICIES: readonly (readonly [string, string])[] = [
   ['lockstep', 'lockstep'],
   ['dependency_gated', 'dependency-gated'],
 ];
+/** Per-policy columns added here: the runs and the stored 95 % intervals of the mean realised makespan and finish spread. */
+const INTERVAL_COLUMNS = (s: string): readonly (readonly [string, string])[] => [
+  [`runs_${s}`, 'integer'],
+  [`realised_lo_${s}`, 'double precision'], [`realised_hi_${s}`, 'double precision'],
+  [`spread_lo_${s}`, 'double precision'], [`spread_hi_${s}`, 'double precision'],
+];
+
 /**
  * The function bodies are built for this migration's schema (`isNew`) or for 0402's (down), so
  * down re-installs exactly what 0402/0403 left.
@@ -39,17 +46,19 @@ interface Shape { readonly isNew: boolean }
 
 /** Per-policy entry columns: 0401's figures, then (new) the runs and interval columns. */
 const policyNames = ({ isNew }: Shape) => POLICIES.flatMap(([s]) => [
-  `success_${s}`, `spread_${s}`, `realised_${s}`, ...(isNew ? [`runs_${s}`, `realised_lo_${s}`, `realised_hi_${s}`] : []),
+  `success_${s}`, `spread_${s}`, `realised_${s}`, ...(isNew ? INTERVAL_COLUMNS(s).map(([c]) => c) : []),
 ]);
-const ci = (alias: string, bound: 0 | 1) => `(${alias}.metrics->'ci95'->'realisedMakespanMs'->>${bound})::float8`;
+const ci = (alias: string, figure: string, bound: 0 | 1) => `(${alias}.metrics->'ci95'->'${figure}'->>${bound})::float8`;
 const policyAggregates = ({ isNew }: Shape, alias: string) => POLICIES.flatMap(([s, p]) => [
   `max(${alias}.success_rate) FILTER (WHERE ${alias}.policy = '${p}') AS success_${s}`,
   `max(${alias}.finish_spread_mean_ms) FILTER (WHERE ${alias}.policy = '${p}') AS spread_${s}`,
   `max(${alias}.realised_makespan_mean_ms) FILTER (WHERE ${alias}.policy = '${p}') AS realised_${s}`,
   ...(isNew ? [
     `max(${alias}.runs) FILTER (WHERE ${alias}.policy = '${p}') AS runs_${s}`,
-    `max(${ci(alias, 0)}) FILTER (WHERE ${alias}.policy = '${p}') AS realised_lo_${s}`,
-    `max(${ci(alias, 1)}) FILTER (WHERE ${alias}.policy = '${p}') AS realised_hi_${s}`,
+    `max(${ci(alias, 'realisedMakespanMs', 0)}) FILTER (WHERE ${alias}.policy = '${p}') AS realised_lo_${s}`,
+    `max(${ci(alias, 'realisedMakespanMs', 1)}) FILTER (WHERE ${alias}.policy = '${p}') AS realised_hi_${s}`,
+    `max(${ci(alias, 'finishSpreadMs', 0)}) FILTER (WHERE ${alias}.policy = '${p}') AS spread_lo_${s}`,
+    `max(${ci(alias, 'finishSpreadMs', 1)}) FILTER (WHERE ${alias}.policy = '${p}') AS spread_hi_${s}`,
   ] : []),
 ]).join(',\n        ');
 
@@ -220,7 +229,7 @@ export const up: Migration = async ({ context: qi }) => {
   await q(`ALTER TABLE leaderboard_entries
     ADD COLUMN executable_at_nominal boolean,
     ADD COLUMN nominal_collisions integer,
-    ${POLICIES.flatMap(([s]) => [`ADD COLUMN runs_${s} integer`, `ADD COLUMN realised_lo_${s} double precision`, `ADD COLUMN realised_hi_${s} double precision`]).join(',\n    ')},
+    ${POLICIES.flatMap(([s]) => INTERVAL_COLUMNS(s).map(([c, type]) => `ADD COLUMN ${c} ${type}`)).join(',\n    ')},
     ${UNIT_COLUMNS.map(([c, src, isMs]) => `ADD COLUMN ${c} double precision GENERATED ALWAYS AS (CASE WHEN model ${isMs ? '=' : '<>'} 'weighted-split' THEN ${src} END) STORED`).join(',\n    ')},
     ADD COLUMN nominal_label text GENERATED ALWAYS AS (CASE executable_at_nominal WHEN true THEN 'yes' WHEN false THEN 'no' ELSE 'not checked' END) STORED`);
   for (const col of NEW_SORT_COLUMNS) {
@@ -258,7 +267,7 @@ export const down: Migration = async ({ context: qi }) => {
   await q(`ALTER TABLE leaderboard_compare ${compareFlags.map((c) => `DROP COLUMN ${c}`).join(', ')}`);
   await q(`ALTER TABLE leaderboard_entries
     DROP COLUMN nominal_label, DROP COLUMN executable_at_nominal, DROP COLUMN nominal_collisions,
-    ${POLICIES.flatMap(([s]) => [`DROP COLUMN runs_${s}`, `DROP COLUMN realised_lo_${s}`, `DROP COLUMN realised_hi_${s}`]).join(', ')},
+    ${POLICIES.flatMap(([s]) => INTERVAL_COLUMNS(s).map(([c]) => `DROP COLUMN ${c}`)).join(', ')},
     ${UNIT_COLUMNS.map(([c]) => `DROP COLUMN ${c}`).join(', ')}`);
   await q(`CREATE OR REPLACE FUNCTION leaderboard_variant(params jsonb) RETURNS text LANGUAGE sql IMMUTABLE AS $$
     SELECT concat_ws(' ',

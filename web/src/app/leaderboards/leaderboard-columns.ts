@@ -32,7 +32,7 @@ function formatNumber(digits: number | undefined) {
 }
 
 /**
- * A realised-makespan interval bound: "interval not stored" when the row has the mean but its
+ * A realised-makespan or finish-spread interval bound: "interval not stored" when the row has the mean but its
  * execution was recorded before intervals were kept (issue 12, item 5).
  */
 function formatIntervalBound(id: string, digits: number | undefined) {
@@ -69,7 +69,7 @@ export function gridColumns(columns: readonly LeaderboardColumn[], sort: readonl
         : undefined,
       filterParams: { filterOptions: [...GRID_FILTER_OPTIONS[c.kind]], maxNumConditions: 1, debounceMs: 300 },
       type: c.kind === 'number' ? 'rightAligned' : undefined,
-      valueFormatter: /^realised.*(Lo|Hi)$/.test(c.id) ? formatIntervalBound(c.id, c.digits) : c.kind === 'number' ? formatNumber(c.digits) : undefined,
+      valueFormatter: /^(realised|spread).*(Lo|Hi)$/.test(c.id) ? formatIntervalBound(c.id, c.digits) : c.kind === 'number' ? formatNumber(c.digits) : undefined,
       minWidth: c.kind === 'number' ? 110 : 120,
       flex: c.kind === 'number' ? 0 : 1,
       width: c.kind === 'number' ? 140 : undefined,
