@@ -44,10 +44,10 @@ export default class ModelComparisonPage {
   protected readonly sets = computed(() => (this.choices.hasValue() ? this.choices.value().sets : []));
   protected readonly chosenSet = computed(() => {
     const id = Number(this.set());
-    return this.sets().find((s) => s.id === id) ?? this.sets()[0] ?? null;
+    return this.sets().find((s) => s.id === id) ?? this.sets().at(0) ?? null;
   });
   protected readonly profiles = computed(() => this.chosenSet()?.profiles ?? []);
-  protected readonly chosenProfile = computed(() => this.profiles().find((p) => p.hash === this.profile()) ?? this.profiles()[0] ?? null);
+  protected readonly chosenProfile = computed(() => this.profiles().find((p) => p.hash === this.profile()) ?? this.profiles().at(0) ?? null);
   protected readonly chosenPolicy = computed(() => this.policy() ?? DEFAULT_POLICY);
 
   /** What the report is for, once the choices are known. */
