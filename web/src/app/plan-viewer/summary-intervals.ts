@@ -41,5 +41,7 @@ export function p95IntervalOf(m: MetricStatsView): Interval95 | null {
  */
 export function collisionIntervals(s: ExecutionSummaryView): { readonly mean: Interval95 | null; readonly p95: Interval95 | null } {
   const counts = s.perRun.map((r) => r.collisions.length);
-  return { mean: meanInterval(counts), p95: quantileInterval(counts, 0.95) };
+  const mean = meanInterval(counts);
+  // A count is never negative: the symmetric t interval is cut at 0 (its coverage can only grow).
+  return { mean: mean && [Math.max(0, mean[0]), mean[1]], p95: quantileInterval(counts, 0.95) };
 }
