@@ -88,13 +88,13 @@ describe('the plan viewer in the browser', () => {
 
   it('with jitter, open-loop collides; dependency-gated on the same plan and noise does not', async () => {
     await page.getByLabel('Timing jitter (CV)').fill('0.3');
-    await rerunHere('open-loop · jitter CV 0.3');
+    await rerunHere('open-loop · timing jitter CV 0.3');
     expect(Number(await metric('collisions').innerText())).toBeGreaterThan(0);
     expect(await metric('success-rate').innerText()).not.toBe('100%');
 
     await page.getByRole('combobox', { name: 'Execution policy' }).click();
     await page.getByRole('option', { name: 'dependency-gated' }).click();
-    await rerunHere('dependency-gated · jitter CV 0.3');
+    await rerunHere('dependency-gated · timing jitter CV 0.3');
     expect(await metric('collisions').innerText()).toBe('0');
     expect(await metric('success-rate').innerText()).toBe('100%');
   });
@@ -114,7 +114,7 @@ describe('the plan viewer in the browser', () => {
     const { id } = (await res.json()) as { id: number };
     await page.goto(`${server.url}/plans/view?execution=${id}`);
     await page.locator('article.pane').waitFor();
-    await page.locator('[data-metric="success-rate"] dd').waitFor();
+    await page.locator('[data-metric="success-rate"] dd').first().waitFor();
 
     await page.evaluate(() => {
       const w = window as unknown as { qtLong: number[] };
