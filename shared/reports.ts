@@ -113,8 +113,6 @@ export function variantLabel(model: string, variant: string): string {
   return `${model} (${parts.join(', ')})`;
 }
 
-/** Unit of every makespan and spread figure in the report. */
-export const REPORT_TIME_UNIT = 'ms';
 
 /** "12.3 %" of a share, one decimal. */
 const percent = (share: number): string => `${(share * 100).toFixed(1)} %`;
