@@ -15,6 +15,8 @@ import type { PlanModel } from '@shared/plan';
 import type { MapfInstance } from '../instance';
 import { createRng } from '../random';
 import { DEFAULT_SWITCHES, PLAIN_CBS_SWITCHES, SWITCH_NAMES } from '../search/cbs-types';
+import { ConstraintTable } from '../search/constraint-table';
+import { buildMdd, haveConflictFreePair } from '../search/mdd';
 import { cheapestPath, type StateSpace } from '../testing/best-first';
 import { ahead, CLOCKWISE, distancesTo } from '../testing/grid-moves';
 import { kRobustOracle } from '../testing/k-robust-oracle';
@@ -22,7 +24,7 @@ import { tinyInstance, type TinyTask } from '../testing/tiny-instance';
 import { validateClassicPlan } from '../validate/classic';
 import { validateKRobustPlan } from '../validate/k-robust';
 import { validateOrientationPlan } from '../validate/orientation-split';
-import { solveClassic } from './classic';
+import { ClassicModel, solveClassic } from './classic';
 import { solveKRobust } from './k-robust';
 import { solveOrientationSplit } from './orientation-split';
 import { solveModel } from './solve-model';
@@ -239,6 +241,19 @@ describe('following: forbidden', () => {
     // 8 variants per instance; only a few weak-variant runs may hit the node limit.
     expect(solvedVariants + timeouts).toBe(8 * compared);
     expect(timeouts).toBeLessThanOrEqual(compared);
+  });
+
+  it('the DG/WDG dependency test applies the rule: a two-agent chain is dependent only when following is forbidden', () => {
+    // 3 × 1 corridor, agent 0 (1,0) → (2,0), agent 1 (0,0) → (1,0): each MDD of cost 1 is one
+    // path; together they are a following move, fine when allowed, a conflict when forbidden.
+    const inst = tinyInstance('...', [[[1, 0], [2, 0]], [[0, 0], [1, 0]]]);
+    const model = new ClassicModel(inst.grid, inst, 'forbidden');
+    const mdd = (agent: number) => buildMdd(model, agent, new ConstraintTable(agent, model.goalCells[agent], model.cellCount, inst.grid.width, []), 1);
+    const [m0, m1] = [mdd(0), mdd(1)];
+    if (m0 === null || m1 === null) throw new Error('both agents have a cost-1 path');
+    expect(haveConflictFreePair(m0, m1, model.stateCell)).toBe(true);
+    expect(haveConflictFreePair(m0, m1, model.stateCell, true)).toBe(false);
+    expect(model.forbidsFollowing).toBe(true);
   });
 
   it('solveModel records the rule, validates plans under it, and refuses it for k-robust and weighted-split', () => {

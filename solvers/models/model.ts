@@ -71,4 +71,9 @@ export interface SearchModel {
    * (corridor, rectangle; Li et al., AIJ 2021) are sound for this model. True only for classic.
    */
   readonly supportsGridSymmetry: boolean;
+  /**
+   * Whether `findConflicts` reports following conflicts (`following: forbidden`), so that the
+   * DG/WDG dependency test (mdd.ts haveConflictFreePair) uses the same rule. Absent = false.
+   */
+  readonly forbidsFollowing?: boolean;
 }

@@ -28,8 +28,8 @@
  *   never turned into them;
  * - WDG and the sub-search DG: the pair weights come from two-agent CBS runs on the same model
  *   (following conflicts included), so they stay exact or lower bounds; `haveConflictFreePair`
- *   checks only vertex and swap conflicts, a weaker rule, so "no conflict-free pair" is still
- *   a proof of dependency and "a pair exists" only yields weight 0 (never an overestimate).
+ *   applies the model's rule (following included when the model forbids it), so "no
+ *   conflict-free pair of MDD paths" is a proof that the pair's joint cost exceeds its sum.
  *
  * Optimality argument: every split is complete (each solution of a node satisfies one child's
  * constraints), every agent's path is optimal under its constraints, and the node order is by
@@ -606,7 +606,7 @@ export class CbsEngine {
       const m0 = this.mdd(node, 0);
       const m1 = this.mdd(node, 1);
       if (m0 === null || m1 === null) return 0;
-      return haveConflictFreePair(m0, m1, this.model.stateCell) ? 0 : 1;
+      return haveConflictFreePair(m0, m1, this.model.stateCell, this.model.forbidsFollowing === true) ? 0 : 1;
     }
     if (!this.sw.wdg) return 0;
     const L = this.L;
@@ -650,7 +650,7 @@ export class CbsEngine {
     let w: number;
     if (mi === null || mj === null) {
       w = 0;
-    } else if (haveConflictFreePair(mi, mj, this.model.stateCell)) {
+    } else if (haveConflictFreePair(mi, mj, this.model.stateCell, this.model.forbidsFollowing === true)) {
       w = 0;
     } else {
       const sub = new CbsEngine({

@@ -178,10 +178,12 @@ export function buildMdd(model: SearchModel, agent: number, table: ConstraintTab
 
 /**
  * Whether the two agents have a pair of paths of exactly their MDD costs without a vertex,
- * swap or goal conflict (a search over the product of the two MDDs). If not, the pair is
- * dependent: their joint optimum exceeds the sum of their costs.
+ * swap or goal conflict — and, with `forbidsFollowing`, without a following conflict (an agent
+ * entering the cell the other occupied one step earlier; Stern et al., SoCS 2019) — a search
+ * over the product of the two MDDs. If not, the pair is dependent: their joint optimum exceeds
+ * the sum of their costs.
  */
-export function haveConflictFreePair(m1: Mdd, m2: Mdd, stateCell: Int32Array): boolean {
+export function haveConflictFreePair(m1: Mdd, m2: Mdd, stateCell: Int32Array, forbidsFollowing = false): boolean {
   if (stateCell[m1.states[0]] === stateCell[m2.states[0]]) return false;
   const end = Math.max(m1.cost, m2.cost);
   const last1 = m1.states.length - 1;
@@ -221,6 +223,7 @@ export function haveConflictFreePair(m1: Mdd, m2: Mdd, stateCell: Int32Array): b
           const cj2 = stateCell[m2.states[j2]];
           if (ci2 === cj2) continue;
           if (ci2 === cj && cj2 === ci && ci !== ci2) continue;
+          if (forbidsFollowing && ((ci2 === cj && ci2 !== ci) || (cj2 === ci && cj2 !== cj))) continue;
           const key = (i2 - base1) * w2 + (j2 - base2);
           if (pairStamp[key] === gen) continue;
           pairStamp[key] = gen;
