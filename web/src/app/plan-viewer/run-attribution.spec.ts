@@ -31,6 +31,7 @@ describe('runAttribution', () => {
       'robot 3 drove its own actions, 3.4 s to 9 s',
     ]);
     expect(a.chainSegments).toHaveLength(3);
+    expect(a.events).toEqual([]);
     expect(a.note).toBeNull();
   });
 
@@ -53,6 +54,14 @@ describe('runAttribution', () => {
     // In a lane only the robot ahead can hold a follower: robot i + 1 (screen numbering) waits for robot i.
     for (const w of a.waits) {
       const [, me, them] = /^robot (\d) waited [\d.]+ s: [\d.]+ s for robot (\d)$/.exec(w) ?? [];
+      expect(Number(them)).toBe(Number(me) - 1);
+    }
+    // Single waits: as many as actions that waited (up to the cap), each naming the robot ahead and when.
+    const waitingActions = timeline.robots.flatMap((acts, r) => acts.filter((x) => x.waitedMs > 0).map((x) => ({ r, x })));
+    expect(a.events).toHaveLength(Math.min(waitingActions.length, 8));
+    expect(a.moreEvents).toBe(waitingActions.length - a.events.length);
+    for (const w of a.events) {
+      const [, me, them] = /^robot (\d) waited [\d.]+ s for robot (\d) \(dependency\), [\d.]+ s to [\d.]+ s$/.exec(w) ?? [];
       expect(Number(them)).toBe(Number(me) - 1);
     }
     expect(a.chainSegments[0].fromMs).toBe(0);

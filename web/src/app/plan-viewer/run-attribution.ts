@@ -14,6 +14,10 @@ export type { ChainSegment } from '@solvers/execute';
 export interface RunAttribution {
   /** "robot 3 waited 1.2 s: 0.8 s for robot 5, 0.4 s for robot 1", robots that waited only, most waiting first. */
   readonly waits: readonly string[];
+  /** The longest single waits, "robot 3 waited 0.8 s for robot 5 (dependency), 12.1 s to 12.9 s", at most MAX_WAIT_EVENTS. */
+  readonly events: readonly string[];
+  /** How many shorter waits the event list leaves out. */
+  readonly moreEvents: number;
   /** The chain, earliest first: "robot 5 drove its own actions from 0 s to 12.4 s", … */
   readonly chain: readonly string[];
   /** The chain's segments for the Gantt chart. */
@@ -21,6 +25,9 @@ export interface RunAttribution {
   /** Why the list is short or empty, or null. */
   readonly note: string | null;
 }
+
+/** Single waits listed at most (a large fleet can have thousands). */
+export const MAX_WAIT_EVENTS = 8;
 
 const REASON_TEXT: Readonly<Record<ChainSegment['reason'], string>> = {
   own: 'drove its own actions',
@@ -42,6 +49,15 @@ export function runAttribution(timeline: RunTimeline, policy: ExecutionPolicyNam
       if (own > 0.5) whom.push(`${formatSeconds(own)} for its planned start`);
       return `${robotName(w.robot)} waited ${formatSeconds(w.waitedMs)}${whom.length > 0 ? `: ${whom.join(', ')}` : ''}`;
     });
+  const all = timeline.robots.flatMap((actions, robot) => actions
+    .filter((a) => a.waitedMs > 0 && Number.isFinite(a.start))
+    .map((a) => ({ robot, a })));
+  all.sort((x, y) => y.a.waitedMs - x.a.waitedMs || x.a.start - y.a.start);
+  const events = all.slice(0, MAX_WAIT_EVENTS).map(({ robot, a }) => {
+    const whom = a.waitedFor !== null ? ` for ${robotName(a.waitedFor)}` : '';
+    const why = a.waitReason ? ` (${a.waitReason})` : '';
+    return `${robotName(robot)} waited ${formatSeconds(a.waitedMs)}${whom}${why}, ${formatSeconds(a.start - a.waitedMs)} to ${formatSeconds(a.start)}`;
+  });
   const chainSegments = timeline.criticalChain;
   const chain = chainSegments.map((c) => {
     const whom = c.waitedFor !== null ? ` for ${robotName(c.waitedFor)}` : '';
@@ -54,5 +70,5 @@ export function runAttribution(timeline: RunTimeline, policy: ExecutionPolicyNam
       ? 'Open-loop: no robot waits for another; each runs its own plan, so the realised makespan is the slowest robot\'s own time.'
       : 'No robot waited for another in this run: the gating never held anyone, so the realised makespan is the slowest robot\'s own time.';
   }
-  return { waits, chain, chainSegments, note };
+  return { waits, events, moreEvents: all.length - events.length, chain, chainSegments, note };
 }
