@@ -32,7 +32,7 @@ describe('a stored sweep result replayed with its stored settings', () => {
     const sweep = await launchSweep(s, baseDefinition(upload.setId, {
       name: 'stored replay check',
       agentCounts: { kind: 'list', values: [4, 8] },
-      models: [{ model: 'classic' }, { model: 'orientation-split' }, { model: 'weighted-split', startHeading: 'N' }],
+      models: [{ model: 'classic' }, { model: 'classic', following: 'forbidden' }, { model: 'orientation-split' }, { model: 'weighted-split', startHeading: 'N' }],
       robotProfile: { forwardMs: 1000, quarterTurnMs: 600, waitMs: 1000, cellPitchMm: 1000, robotDiameterMm: 700, timingJitter: 0.15 },
       execution: { policies: ['open-loop', 'lockstep', 'dependency-gated'], stallProbability: 0.05, stallMs: 1500, runs: 25 },
       seeds: [7],
@@ -53,10 +53,10 @@ describe('a stored sweep result replayed with its stored settings', () => {
   }
 
   it('answers each policy with the settings it ran with, and a POST with them reproduces the stored figures to the digit', async () => {
-    const results = await s.sql<{ id: number; model: string; seed: string }>(
-      "SELECT id, model, seed FROM results WHERE sweep_id = :sweepId AND status = 'solved' ORDER BY id", { sweepId });
-    // 1 scenario × 2 agent counts × 3 models, all solved on an empty 8×8 map.
-    expect(results).toHaveLength(6);
+    const results = await s.sql<{ id: number; model: string; seed: string; following: string | null }>(
+      "SELECT id, model, seed, params->'model'->>'following' AS following FROM results WHERE sweep_id = :sweepId AND status = 'solved' ORDER BY id", { sweepId });
+    // 1 scenario × 2 agent counts × 4 model specs, all solved on an empty 8×8 map.
+    expect(results).toHaveLength(8);
     let compared = 0;
     for (const r of results) {
       const stored = await storedOf(r.id);
@@ -69,7 +69,11 @@ describe('a stored sweep result replayed with its stored settings', () => {
         expect(e.error).toBeNull();
         const res = await s.client.request('/api/executions', { method: 'POST', body: JSON.stringify({ resultId: r.id, ...e.settings }) });
         expect(res.status).toBe(201);
-        const replay = ((await res.json()) as ExecutionView).summary;
+        const view = (await res.json()) as ExecutionView;
+        const replay = view.summary;
+        // The plan is re-checked under the rule it was solved with, and the viewer can say so.
+        expect((view.modelOptions as { following?: string }).following).toBe(r.following ?? undefined);
+        expect(view.figures.isValid).toBe(true);
         const row = rows.find((x) => x.policy === e.settings.policy)!;
         // The leaderboard's columns, then the rest of the stored metrics: exact equality, no tolerance.
         expect([replay.successRate, replay.realisedMakespanMs.mean, replay.realisedMakespanMs.p95, replay.finishSpreadMs.mean, replay.collisions.mean])
@@ -83,11 +87,12 @@ describe('a stored sweep result replayed with its stored settings', () => {
         compared++;
       }
     }
-    expect(compared).toBe(18);
+    expect(compared).toBe(24);
+    expect(results.filter((r) => r.following === 'forbidden')).toHaveLength(2);
   });
 
   it('the settings matter: the old viewer defaults (no jitter, no stalls, seed 1) give other figures for some result', async () => {
-    const [r] = await s.sql<{ id: number }>("SELECT id FROM results WHERE sweep_id = :sweepId AND model = 'classic' AND agents = 8", { sweepId });
+    const [r] = await s.sql<{ id: number }>("SELECT id FROM results WHERE sweep_id = :sweepId AND model = 'classic' AND agents = 8 AND NOT params->'model' ? 'following'", { sweepId });
     const stored = await storedOf(r.id);
     const open = stored.executions.find((e) => e.settings.policy === 'open-loop')!;
     const res = await s.client.request('/api/executions', { method: 'POST', body: JSON.stringify({ resultId: r.id, policy: 'open-loop', noise: { jitterCv: 0, stallProbability: 0, stallMs: 0 }, seed: 1, runs: 25 }) });
@@ -96,7 +101,7 @@ describe('a stored sweep result replayed with its stored settings', () => {
   });
 
   it('rows stored before the settings were recorded take the run seed and the count mode', async () => {
-    const [r] = await s.sql<{ id: number; seed: string }>("SELECT id, seed FROM results WHERE sweep_id = :sweepId AND model = 'classic' AND agents = 4", { sweepId });
+    const [r] = await s.sql<{ id: number; seed: string }>("SELECT id, seed FROM results WHERE sweep_id = :sweepId AND model = 'classic' AND agents = 4 AND NOT params->'model' ? 'following'", { sweepId });
     await s.sql("UPDATE executions SET metrics = metrics - 'seed' - 'onCollision' WHERE result_id = :id RETURNING id", { id: r.id });
     const stored = await storedOf(r.id);
     expect(stored.executions).toHaveLength(3);

@@ -18,7 +18,7 @@ export interface ResultPlan {
   readonly result: Result;
   readonly loaded: LoadedInstance;
   readonly model: PlanModel;
-  readonly modelOptions: { readonly startHeading: Heading | 'free'; readonly k?: number };
+  readonly modelOptions: { readonly startHeading: Heading | 'free'; readonly k?: number; readonly following?: 'forbidden' };
   readonly profile: RobotProfile;
   /** Cells as [x, y], like a plan sent in a request body. */
   readonly plan: ExecutionTaskPlan;
@@ -53,6 +53,8 @@ export async function loadResultPlan(models: Models, viewer: Express.User, resul
     : { kind: 'schedule', schedule: stored.schedule };
   const spec = (result.params as { model?: ModelSpec }).model;
   const startHeading = spec?.startHeading ?? 'free';
-  const modelOptions = spec?.model === 'k-robust' ? { startHeading, k: spec.k } : { startHeading };
+  // A spec solved with following forbidden keeps the rule, so the re-check applies it and the viewer says so.
+  const following = spec && 'following' in spec && spec.following === 'forbidden' ? { following: 'forbidden' as const } : {};
+  const modelOptions = spec?.model === 'k-robust' ? { startHeading, k: spec.k } : { startHeading, ...following };
   return { result, loaded, model: result.model, modelOptions, profile: result.robotProfile, plan };
 }
