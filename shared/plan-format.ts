@@ -66,7 +66,11 @@ export const TEXT_FORMAT_MODELS = ['classic', 'uniform-duration', 'k-robust', 'o
 
 /** POST /api/submissions: a plan file's text and, for the text format, what it is a plan for. */
 export const SubmissionRequestSchema = z.discriminatedUnion('format', [
-  z.object({ format: z.literal('json'), fileName: singleLineText().max(255).optional(), text: z.string().min(1, 'the plan file is empty').max(900_000) }).strict(),
+  z.object({
+    format: z.literal('json'), fileName: singleLineText().max(255).optional(), text: z.string().min(1, 'the plan file is empty').max(900_000),
+    /** Used when the document names no profile; a document naming another one is refused (400, field robotProfile). */
+    robotProfile: RobotProfileSchema.optional(),
+  }).strict(),
   z.object({
     format: z.literal('text'),
     fileName: singleLineText().max(255).optional(),

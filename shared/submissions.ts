@@ -1,5 +1,5 @@
 /** Responses of POST /api/submissions and GET /api/submissions (zod-free, for the web bundle). */
-import type { CellXY, PlanModel } from './plan';
+import type { CellXY, PlanModel, RobotProfile } from './plan';
 
 /** Error code of a plan the model's validator rejected (422). */
 export const PLAN_REJECTED = 'PLAN_REJECTED';
@@ -42,7 +42,28 @@ export interface SubmissionView {
   readonly turnInclusiveSocMs: number;
   readonly turnInclusiveMakespanMs: number;
   readonly executions: readonly { readonly policy: string; readonly successRate: number; readonly finishSpreadMeanMs: number | null }[];
+  /** The robot profile the plan was scored under (turn-inclusive figures and replays). */
+  readonly robotProfile: RobotProfile;
+  /** profileLabel(robotProfile) from shared/leaderboards.ts, as the board shows it. */
+  readonly profileLabel: string;
   readonly createdAt: string;
+}
+
+/** A robot profile a plan may be scored under, with how many stored results of the instance use it. */
+export interface SubmissionProfileOption {
+  readonly profile: RobotProfile;
+  readonly label: string;
+  /** Results of this instance (scenario and agent count) stored under this profile; 0 for the starter profile. */
+  readonly results: number;
+}
+
+/**
+ * GET /api/submissions/profiles?scenarioId=&agents=: the profiles the instance's stored results use,
+ * most used first, then the starter profile when none of them is it. The first item is the default,
+ * so a submitted plan lands on the board beside the results it is compared with.
+ */
+export interface SubmissionProfilesResponse {
+  readonly items: readonly SubmissionProfileOption[];
 }
 
 /** GET /api/submissions: the signed-in researcher's accepted submissions, newest first. */

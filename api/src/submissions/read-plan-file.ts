@@ -30,6 +30,12 @@ export interface ReadSubmission {
   readonly plan: SubmittedPlan;
 }
 
+/** Whether two robot profiles have the same figures. */
+function sameProfile(a: RobotProfile, b: RobotProfile): boolean {
+  return a.forwardMs === b.forwardMs && a.quarterTurnMs === b.quarterTurnMs && a.waitMs === b.waitMs
+    && a.cellPitchMm === b.cellPitchMm && a.robotDiameterMm === b.robotDiameterMm && a.timingJitter === b.timingJitter;
+}
+
 /** 1-based line and column of offset `at` in `text`. */
 export function lineColumn(text: string, at: number): { line: number; column: number } {
   const before = text.slice(0, Math.max(0, Math.min(at, text.length)));
@@ -73,9 +79,13 @@ export function readPlanFile(req: SubmissionRequest): ReadSubmission {
     const parsed = PlanDocumentSchema.safeParse(parseJson(req.text, file));
     if (!parsed.success) rejectFile(schemaProblems(parsed.error, file));
     const doc = parsed.data;
+    // The form sends the profile the researcher chose; a document that names a different one is not scored silently under either.
+    if (doc.robotProfile && req.robotProfile && !sameProfile(doc.robotProfile, req.robotProfile)) {
+      rejectFile([{ file, line: 0, column: 0, field: 'robotProfile', message: 'the document names a different robot profile than the one chosen for the submission; remove one of them or make them equal' }]);
+    }
     const base = {
       format: 'json' as const, model: doc.model, startHeading: doc.startHeading, scenarioId: doc.instance.scenarioId,
-      agents: doc.instance.agents, solver: doc.solver, robotProfile: doc.robotProfile ?? STARTER_PROFILE,
+      agents: doc.instance.agents, solver: doc.solver, robotProfile: doc.robotProfile ?? req.robotProfile ?? STARTER_PROFILE,
     };
     if (doc.model === 'weighted-split') return { ...base, plan: { kind: 'schedule', schedule: doc.schedule } };
     if (doc.model === 'orientation-split') return { ...base, plan: { kind: 'states', states: doc.states } };

@@ -7,8 +7,9 @@
 import { gzipSync } from 'node:zlib';
 import { QueryTypes, type Sequelize } from 'sequelize';
 import { SubmissionRequestSchema } from '@shared/plan-format';
-import type { PlanModel } from '@shared/plan';
-import { PLAN_REJECTED, type SubmissionListResponse, type SubmissionView } from '@shared/submissions';
+import { profileLabel } from '@shared/leaderboards';
+import type { PlanModel, RobotProfile } from '@shared/plan';
+import { PLAN_REJECTED, type SubmissionListResponse, type SubmissionProfilesResponse, type SubmissionView } from '@shared/submissions';
 import type { MapfInstance } from '@solvers/instance';
 import type { Models } from '../db/models';
 import { AppError } from '../errors/app-error';
@@ -18,6 +19,7 @@ import { parameterHash } from '../sweeps/parameter-hash';
 import type { PlanVerdict } from './check-plan';
 import { readPlanFile, type ReadSubmission } from './read-plan-file';
 import { requesterKey } from '../workers/interactive-pool';
+import { profilesOfInstance } from './instance-profiles';
 
 /** The submissions service. */
 export interface SubmissionsService {
@@ -25,6 +27,8 @@ export interface SubmissionsService {
   submit(uploader: Express.User, body: unknown): Promise<SubmissionView>;
   /** The uploader's accepted submissions, newest first (at most 200). */
   list(uploader: Express.User): Promise<SubmissionListResponse>;
+  /** The robot profiles to offer for an instance, the default first (404 when the viewer may not see the scenario). */
+  profiles(viewer: Express.User, query: unknown): Promise<SubmissionProfilesResponse>;
 }
 
 /** What a submitted result keeps in `params`: the model and what changes its problem (as a sweep's ModelSpec). */
@@ -35,12 +39,12 @@ function paramsOf(sub: ReadSubmission): Record<string, unknown> {
 interface ListRow {
   id: number; result_id: number; scenario_id: number; scenario_name: string; map_name: string; agents: number; model: PlanModel;
   variant: string; solver_name: string; solver_version: string; soc: number; makespan: number; ti_soc: number; ti_makespan: number;
-  executions: { policy: string; successRate: number; finishSpreadMeanMs: number | null }[] | null; created_at: Date;
+  executions: { policy: string; successRate: number; finishSpreadMeanMs: number | null }[] | null; robot_profile: RobotProfile; created_at: Date;
 }
 
 const LIST_SQL = `SELECT sub.id, r.id AS result_id, sub.scenario_id, s.name AS scenario_name, m.name AS map_name, sub.agents, sub.model,
     leaderboard_variant(sub.params) AS variant, sub.solver_name, sub.solver_version, r.soc, r.makespan,
-    r.turn_inclusive_soc_ms AS ti_soc, r.turn_inclusive_makespan_ms AS ti_makespan, sub.created_at,
+    r.turn_inclusive_soc_ms AS ti_soc, r.turn_inclusive_makespan_ms AS ti_makespan, r.robot_profile, sub.created_at,
     (SELECT json_agg(json_build_object('policy', e.policy, 'successRate', e.success_rate, 'finishSpreadMeanMs', e.finish_spread_mean_ms) ORDER BY e.policy)
        FROM executions e WHERE e.result_id = r.id) AS executions
   FROM submissions sub JOIN results r ON r.submission_id = sub.id
@@ -51,7 +55,8 @@ function toView(r: ListRow): SubmissionView {
     id: r.id, resultId: r.result_id, scenarioId: r.scenario_id, scenarioName: r.scenario_name, mapName: r.map_name, agents: r.agents,
     model: r.model, variant: r.variant, solver: { name: r.solver_name, version: r.solver_version },
     soc: r.soc, makespan: r.makespan, turnInclusiveSocMs: r.ti_soc, turnInclusiveMakespanMs: r.ti_makespan,
-    executions: r.executions ?? [], createdAt: new Date(r.created_at).toISOString(),
+    executions: r.executions ?? [], robotProfile: r.robot_profile, profileLabel: profileLabel(r.robot_profile),
+    createdAt: new Date(r.created_at).toISOString(),
   };
 }
 
@@ -136,6 +141,10 @@ export function createSubmissionsService(deps: SubmissionsServiceDeps): Submissi
         type: QueryTypes.SELECT, replacements: { uploader: uploader.id },
       });
       return { items: rows.map(toView) };
+    },
+
+    async profiles(viewer, query) {
+      return profilesOfInstance(sequelize, models, viewer, query);
     },
   };
 }
