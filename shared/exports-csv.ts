@@ -3,7 +3,7 @@
  * doubled), with text cells neutralised against formula injection.
  */
 import type { ColumnKind } from './leaderboards';
-import { headerOf, type ExportCell, type ExportTable } from './exports-table';
+import { headerOf, withIntervalColumns, type ExportCell, type ExportTable } from './exports-table';
 
 /**
  * First characters that make a spreadsheet read a cell as a formula. Source: OWASP, "CSV
@@ -27,8 +27,9 @@ export function csvField(value: ExportCell, kind: ColumnKind = 'text'): string {
   return /[",\r\n]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text;
 }
 
-/** The table as CSV: a header row of labels with units, then the rows; numbers at full precision. */
-export function toCsv(table: ExportTable): string {
+/** The table as CSV: a header row of labels with units, then the rows; numbers at full precision; intervals in their own low / high columns. */
+export function toCsv(exported: ExportTable): string {
+  const table = withIntervalColumns(exported);
   const lines = [
     table.columns.map((c) => csvField(headerOf(c))),
     ...table.rows.map((r) => r.map((v, i) => csvField(v, table.columns[i]?.kind))),

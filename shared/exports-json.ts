@@ -1,5 +1,5 @@
 /** JSON export: the caption, the columns (id, label, unit) and one object per row keyed by column id, numbers at full precision. */
-import type { ExportTable } from './exports-table';
+import { withIntervalColumns, type ExportTable } from './exports-table';
 
 /** The JSON document of an export. */
 export interface ExportJson {
@@ -9,7 +9,9 @@ export interface ExportJson {
 }
 
 /** The table as a JSON text (two-space indent). */
-export function toJsonExport(table: ExportTable): string {
+export function toJsonExport(exported: ExportTable): string {
+  // Intervals as their own low / high columns, so every value stays one plain number.
+  const table = withIntervalColumns(exported);
   const doc: ExportJson = {
     caption: table.caption,
     columns: table.columns.map((c) => ({ id: c.id, label: c.label, unit: c.unit ?? null })),

@@ -4,7 +4,7 @@
  * the caption are escaped, so names such as "room_32 %5 & #2" or "\input{x}" typeset literally.
  */
 import { foldControlCharacters } from './control-characters';
-import { bestCells, displayCell, headerOf, isCollidingCell, type ExportTable } from './exports-table';
+import { bestCells, displayWithInterval, headerOf, isCollidingCell, type ExportTable } from './exports-table';
 
 const LATEX_SPECIALS: Readonly<Record<string, string>> = {
   '\\': '\\textbackslash{}',
@@ -41,7 +41,7 @@ export function toLatex(table: ExportTable): string {
   const align = table.columns.map((c) => (c.kind === 'number' ? 'r' : 'l')).join('');
   const row = (cells: readonly string[]) => `${cells.join(' & ')} \\\\`;
   const body = table.rows.map((r, i) => row(r.map((v, j) => {
-    const text = latexEscape(displayCell(v, table.columns[j]));
+    const text = latexEscape(displayWithInterval(table, i, j));
     const shown = best[i].has(j) ? `\\textbf{${text}}` : text;
     // The dagger of the caption: this plan collides at nominal times.
     return v !== null && isCollidingCell(table, i, table.columns[j].id) ? `${shown}\\textsuperscript{\\dag}` : shown;

@@ -1,6 +1,6 @@
 /** Markdown export: a pipe table (GitHub Flavored Markdown), every cell and the caption escaped, best values in bold. */
 import { foldControlCharacters } from './control-characters';
-import { bestCells, COLLISION_MARK, displayCell, headerOf, isCollidingCell, type ExportTable } from './exports-table';
+import { bestCells, COLLISION_MARK, displayWithInterval, headerOf, isCollidingCell, type ExportTable } from './exports-table';
 
 /**
  * What each markup character is written as. Backslash escapes (CommonMark 0.31, §2.4: any ASCII
@@ -34,7 +34,7 @@ export function toMarkdown(table: ExportTable): string {
     line(table.columns.map((c) => markdownCell(headerOf(c)))),
     line(table.columns.map((c) => (c.kind === 'number' ? '---:' : ':---'))),
     ...table.rows.map((r, i) => line(r.map((v, j) => {
-      const text = markdownCell(displayCell(v, table.columns[j]));
+      const text = markdownCell(displayWithInterval(table, i, j));
       const shown = best[i].has(j) ? `**${text}**` : text;
       return v !== null && isCollidingCell(table, i, table.columns[j].id) ? `${shown} ${COLLISION_MARK}` : shown;
     }))),

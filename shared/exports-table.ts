@@ -2,6 +2,7 @@
  * The table every export format writes: the columns and rows on screen plus the caption that
  * says where the figures come from. Zod-free, pure, shared by the API and tests.
  */
+import type { Interval95 } from './confidence-interval';
 import type { BestAmong, LeaderboardColumn } from './leaderboards';
 
 /** Export formats of GET /api/exports. */
@@ -29,6 +30,62 @@ export interface ExportTable {
   readonly notExecutable?: readonly (readonly string[])[];
   /** Which plans the bold best value considers (default `executable`). */
   readonly bestAmong?: BestAmong;
+  /**
+   * Per row, the 95 % interval of each compare column that has one (a comparison of an execution
+   * figure, issue 12, item 5); null = the value has no interval (not stored). Absent: no intervals.
+   * CSV and JSON write them as separate low / high columns, Markdown and LaTeX as "x [lo, hi]".
+   */
+  readonly intervals?: readonly Readonly<Record<string, Interval95 | null>>[];
+}
+
+/** What Markdown and LaTeX write after a value whose interval was not stored. */
+export const INTERVAL_NOT_STORED = '[interval not stored]';
+
+/** The ids of the low and high columns CSV and JSON add after a compare column with intervals. */
+export function intervalColumnIds(id: string): readonly [lo: string, hi: string] {
+  return [`${id}_lo`, `${id}_hi`];
+}
+
+/**
+ * The table with each compare column that carries intervals followed by its low and high columns
+ * (plain numbers, at full precision), for the formats that keep one number per cell (CSV, JSON).
+ */
+export function withIntervalColumns(table: ExportTable): ExportTable {
+  const intervals = table.intervals;
+  if (!intervals) return table;
+  const carries = (id: string) => table.compareColumns.includes(id);
+  const columns = table.columns.flatMap((c): LeaderboardColumn[] => {
+    if (!carries(c.id)) return [c];
+    const [lo, hi] = intervalColumnIds(c.id);
+    const bound = (id: string, end: string): LeaderboardColumn => ({
+      id, label: `${c.label}, 95 % CI ${end}`, kind: 'number', unit: c.unit, digits: c.digits !== undefined ? c.digits + 1 : undefined, isComputed: true,
+    });
+    return [c, bound(lo, 'low'), bound(hi, 'high')];
+  });
+  const rows = table.rows.map((row, r) => row.flatMap((v, i) => {
+    const id = table.columns[i].id;
+    if (!carries(id)) return [v];
+    const ci = intervals[r]?.[id] ?? null;
+    return [v, ci ? ci[0] : null, ci ? ci[1] : null];
+  }));
+  return { ...table, columns, rows, intervals: undefined };
+}
+
+/**
+ * A cell for people with its interval, "x [lo, hi]" (bounds with one more digit than the value,
+ * so a narrow interval does not collapse onto it), or "x [interval not stored]"; the plain cell
+ * where the table has no interval for it.
+ */
+export function displayWithInterval(table: ExportTable, r: number, j: number): string {
+  const column = table.columns[j];
+  const value = table.rows[r][j];
+  const text = displayCell(value, column);
+  const intervals = table.intervals?.[r];
+  if (value === null || !intervals || !(column.id in intervals)) return text;
+  const ci = intervals[column.id];
+  if (!ci) return `${text} ${INTERVAL_NOT_STORED}`;
+  const bound = { ...column, digits: column.digits !== undefined ? column.digits + 1 : undefined };
+  return `${text} [${displayCell(ci[0], bound)}, ${displayCell(ci[1], bound)}]`;
 }
 
 /** The mark after a value whose plan collides at nominal times (explained in the caption). */

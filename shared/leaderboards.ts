@@ -4,6 +4,7 @@
  * URL encoding, shared by the page URL, GET /api/leaderboards/rows and GET /api/exports, so a
  * link opens exactly the same view and an export holds exactly the rows and columns on screen.
  */
+import { CI95_METHOD, type Interval95 } from './confidence-interval';
 import { PLAN_MODELS, type PlanModel } from './plan';
 
 /** How a column filters: free text, a number, or one of a fixed list. */
@@ -148,6 +149,36 @@ export const COMPARE_METRICS = [
   ...LEADERBOARD_POLICIES.flatMap((p) => [`success${p.key}`, `spread${p.key}`, `realised${p.key}`]),
 ] as const;
 export type CompareMetric = (typeof COMPARE_METRICS)[number];
+
+/**
+ * Which 95 % interval a comparison figure carries per model cell (issue 12, item 5): `rate` for an
+ * execution success rate (Wilson, recomputed per page row from rate × runs), `mean` for a mean
+ * realised makespan or finish spread (the Student t interval stored with the execution), null
+ * for plan figures (deterministic, no interval).
+ */
+export function compareIntervalKind(metric: CompareMetric): 'rate' | 'mean' | null {
+  if (metric.startsWith('success')) return 'rate';
+  return metric.startsWith('realised') || metric.startsWith('spread') ? 'mean' : null;
+}
+
+/** One sentence naming the interval method of a comparison figure, for the grid legend and export captions (null: no interval). */
+export function compareIntervalNote(metric: CompareMetric): string | null {
+  const kind = compareIntervalKind(metric);
+  if (kind === 'rate') return `Each value carries its 95 % interval [low, high]: ${CI95_METHOD.rate}, recomputed from that plan's rate × runs.`;
+  if (kind === 'mean') {
+    return `Each value carries its 95 % interval [low, high] of the mean over runs: ${CI95_METHOD.mean}, as stored with the execution ("interval not stored": executions recorded before intervals were kept).`;
+  }
+  return null;
+}
+
+/**
+ * What the per-model summary's mean execution success rate averages and how its interval is
+ * made: the mean over solved instances (one row each) of their execution success rates, with a
+ * Student t interval over those instances, so it covers the spread between instances as well as
+ * each rate's own Monte Carlo noise; cut to [0, 1]. Also the error band of the execution chart.
+ */
+export const MEAN_SUCCESS_METHOD = 'mean over solved instances of each instance\'s execution success rate; 95 % interval: Student t over those instances, '
+  + 'mean ± t(0.975, n−1)·s/√n with n the instances, cut to [0, 1] (none below 2 instances)';
 
 /** The id of a comparison table's column for one model. */
 export function modelColumnId(model: PlanModel): string {
@@ -328,6 +359,12 @@ export interface LeaderboardRow {
   readonly isExecutableAtNominal?: boolean | null;
   /** Comparison layout: per plan model column id, whether its plan is collision-free at nominal times (null: not checked or no plan). */
   readonly isExecutableAtNominalByColumn?: Readonly<Record<string, boolean | null>>;
+  /**
+   * Comparison layout with an execution figure (compareIntervalKind not null): per plan model
+   * column id, the value's 95 % interval, or null when the cell has no value or no interval
+   * (a mean whose execution was recorded before intervals were stored, a rate without runs).
+   */
+  readonly intervalsByColumn?: Readonly<Record<string, Interval95 | null>>;
   readonly cells: Readonly<Record<string, string | number | null>>;
 }
 
@@ -366,6 +403,10 @@ export interface ModelSummary {
   readonly pairedWithClassic: number;
   /** Mean execution success rate of solved rows per policy (null when none was replayed). */
   readonly meanSuccess: Readonly<Record<string, number | null>>;
+  /** Per policy: the 95 % interval of meanSuccess (MEAN_SUCCESS_METHOD), null below 2 instances. */
+  readonly meanSuccessCi95: Readonly<Record<string, Interval95 | null>>;
+  /** Per policy: the solved instances behind meanSuccess (the n of its interval). */
+  readonly meanSuccessInstances: Readonly<Record<string, number>>;
   /** Solved rows whose plan is collision-free at nominal times. */
   readonly executableAtNominal: number;
   /** Solved rows whose plan collides at nominal times. */
@@ -392,6 +433,8 @@ export interface ChartSeries {
   readonly model: PlanModel;
   readonly variant: string;
   readonly points: readonly (readonly [number, number])[];
+  /** Execution success chart: per point, the 95 % interval of its mean (MEAN_SUCCESS_METHOD), null below 2 instances. */
+  readonly intervals?: readonly (Interval95 | null)[];
 }
 
 /** GET /api/leaderboards/charts: the data of the four charts for one robot profile. */

@@ -19,6 +19,8 @@ export function exportTable(view: LeaderboardView, page: LeaderboardPage): Expor
     // Plans that collide at nominal times are marked, and never the bold best unless the view asks for all plans.
     notExecutable,
     bestAmong: view.bestAmong,
+    // Comparison of an execution figure: each model value with its 95 % interval (issue 12, item 5).
+    ...(view.layout === 'compare' && page.rows.some((r) => r.intervalsByColumn) ? { intervals: page.rows.map((r) => r.intervalsByColumn ?? {}) } : {}),
   };
 }
 

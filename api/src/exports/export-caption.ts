@@ -2,7 +2,7 @@
 import { SAFETY_NOTE } from '@shared/executions-constants';
 import { CI95_METHOD } from '@shared/confidence-interval';
 import { COLLISION_MARK } from '@shared/exports-table';
-import { columnsOf, NOMINAL_DESCRIPTION, type LeaderboardView } from '@shared/leaderboards';
+import { columnsOf, compareIntervalNote, NOMINAL_DESCRIPTION, type LeaderboardView } from '@shared/leaderboards';
 
 /** Column ids whose figures come from the execution simulator. */
 const isExecutionColumn = (id: string): boolean => /^(success|spread|realised)/.test(id);
@@ -23,6 +23,9 @@ export function exportCaption(view: LeaderboardView, profileLabels: readonly str
   const shown = view.layout === 'compare' ? [view.metric] : view.columns;
   if (hasCollidingMarks) parts.push(`${COLLISION_MARK} after a value: that plan collides at nominal times (Markdown and LaTeX only; JSON and CSV leave values plain).`);
   if (shown.includes('executableAtNominal')) parts.push(`Executable at nominal times: ${NOMINAL_DESCRIPTION}`);
+  const compareNote = view.layout === 'compare' ? compareIntervalNote(view.metric) : null;
+  // Markdown and LaTeX write "x [lo, hi]"; CSV and JSON put the bounds in <model column>_lo / _hi columns.
+  if (compareNote) parts.push(`${compareNote} (Markdown and LaTeX: value [low, high]; CSV and JSON: separate low and high columns.)`);
   if (shown.some((id) => /^(success|realised|spread).*(Lo|Hi)$/.test(id))) {
     parts.push(`95 % intervals: execution success rate by the ${CI95_METHOD.rate}, recomputed from rate × runs; means of realised makespan and finish spread by the ${CI95_METHOD.mean}, as stored with the execution (empty: interval not stored, executions recorded before intervals were kept).`);
   }

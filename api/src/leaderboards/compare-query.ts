@@ -4,9 +4,9 @@
  * k joins that variant's entry.
  */
 import { PLAN_MODELS, type PlanModel } from '@shared/plan';
-import { modelColumnId, type LeaderboardView } from '@shared/leaderboards';
+import { compareIntervalKind, modelColumnId, type LeaderboardView } from '@shared/leaderboards';
 import type { Viewer } from '../instance-sets/instance-set-access';
-import { COMPARE_TABLE_K, compareColumn, figureColumn } from './entry-sql';
+import { COMPARE_TABLE_K, compareColumn, ENTRY_SQL, figureColumn } from './entry-sql';
 import { baseWhere, fewValuesFilter, filterCondition, whereSql, type RowWindow, type SqlQuery, type ViewScope } from './view-sql';
 
 /** SQL of a comparison column on `c` (leaderboard_compare), or `x` (the k-robust entry) for another k. */
@@ -20,6 +20,37 @@ function compareSql(view: LeaderboardView, column: string): string {
 /** SQL of one model's executable-at-nominal flag (migration 0405), beside its figure. */
 function executableSql(view: LeaderboardView, model: PlanModel): string {
   return model === 'k-robust' && view.k !== COMPARE_TABLE_K ? 'x.executable_at_nominal' : `c.${model.replace('-', '_')}_executable`;
+}
+
+/** The entry variant each plan model column of `leaderboard_compare` holds (migration 0405's COMPARE_MODELS). */
+const COMPARE_VARIANT: Readonly<Record<PlanModel, string>> = {
+  classic: '', 'uniform-duration': '', 'orientation-split': '', 'weighted-split': '', 'k-robust': `k=${COMPARE_TABLE_K}`,
+};
+
+/**
+ * The interval sources of an execution figure (issue 12, item 5): per plan model, its entry's
+ * runs (a rate: the service recomputes Wilson for the page's rows) or stored interval bounds (a
+ * mean), as `__lo_<col>` / `__hi_<col>`. `leaderboard_compare` keeps no runs or bounds, so the
+ * page's rows (never the whole view) look up their entries by the entries' unique key.
+ */
+function intervalSql(view: LeaderboardView): { joins: string; select: string } | null {
+  if (compareIntervalKind(view.metric) === null) return null;
+  // The entries columns behind the metric's Lo / Hi ids (runs twice for a rate).
+  const lo = ENTRY_SQL[`${view.metric}Lo`].slice(2);
+  const hi = ENTRY_SQL[`${view.metric}Hi`].slice(2);
+  const joins: string[] = [];
+  const select: string[] = [];
+  for (const m of PLAN_MODELS) {
+    const col = modelColumnId(m);
+    let alias = 'x';
+    if (!(m === 'k-robust' && view.k !== COMPARE_TABLE_K)) {
+      alias = `i_${col}`;
+      joins.push(`LEFT JOIN leaderboard_entries ${alias} ON ${alias}.scenario_id = c.scenario_id AND ${alias}.agents = c.agents
+        AND ${alias}.model = '${m}' AND ${alias}.variant = '${COMPARE_VARIANT[m]}' AND ${alias}.robot_profile_hash = c.robot_profile_hash`);
+    }
+    select.push(`${alias}.${lo} AS "__lo_${col}"`, `${alias}.${hi} AS "__hi_${col}"`);
+  }
+  return { joins: joins.join('\n    '), select: select.join(', ') };
 }
 
 /** The page query and the count query of a comparison view. */
@@ -41,11 +72,13 @@ export function compareQueries(view: LeaderboardView, viewer: Viewer, scope: Vie
   repl['limit'] = window.end - window.start;
   repl['offset'] = window.start;
   // As in the entries layout: the window is found on keys first (index-only for deep offsets), then its rows are read.
+  const intervals = intervalSql(view);
   const page = `WITH w AS (SELECT c.scenario_id, c.agents, c.robot_profile_hash FROM ${from} ${whereSql(where)} ORDER BY ${order} LIMIT :limit OFFSET :offset)
     SELECT c.scenario_id, c.agents, c.robot_profile_hash, c.profile_label,
-      ${PLAN_MODELS.map((m) => `${executableSql(view, m)} AS "__nominal_${modelColumnId(m)}"`).join(', ')},
+      ${PLAN_MODELS.map((m) => `${executableSql(view, m)} AS "__nominal_${modelColumnId(m)}"`).join(', ')},${intervals ? `\n      ${intervals.select},` : ''}
       ${view.columns.map((col) => `${compareSql(view, col)} AS "${col}"`).join(', ')}
     FROM w JOIN ${from.replace('leaderboard_compare c', 'leaderboard_compare c ON c.scenario_id = w.scenario_id AND c.agents = w.agents AND c.robot_profile_hash = w.robot_profile_hash')}
+    ${intervals?.joins ?? ''}
     ORDER BY ${order}`;
   const count = `SELECT count(*)::int AS n FROM ${from} ${whereSql(where)}`;
   return { page: { sql: page, replacements: repl }, count: { sql: count, replacements: repl } };

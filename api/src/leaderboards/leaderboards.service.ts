@@ -4,10 +4,10 @@
  * the viewer may see.
  */
 import { QueryTypes, type Sequelize } from 'sequelize';
-import { wilsonInterval } from '@shared/confidence-interval';
+import { studentT975, wilsonInterval, type Interval95 } from '@shared/confidence-interval';
 import {
-  columnsOf, LEADERBOARD_POLICIES, modelColumnId, profileLabel, SUCCESS_INTERVAL_COLUMNS, type BestAmong, type ChartSeries, type LeaderboardCharts, type LeaderboardPage,
-  type LeaderboardRow, type LeaderboardSummary, type LeaderboardView, type ModelSummary, type ProfileOption,
+  columnsOf, compareIntervalKind, LEADERBOARD_POLICIES, modelColumnId, profileLabel, SUCCESS_INTERVAL_COLUMNS, type BestAmong, type ChartSeries, type LeaderboardCharts, type LeaderboardPage,
+  type CompareMetric, type LeaderboardRow, type LeaderboardSummary, type LeaderboardView, type ModelSummary, type ProfileOption,
 } from '@shared/leaderboards';
 import { PLAN_MODELS, type PlanModel, type RobotProfile } from '@shared/plan';
 import type { Viewer } from '../instance-sets/instance-set-access';
@@ -77,7 +77,8 @@ export function createLeaderboardsService(deps: { readonly sequelize: Sequelize;
         const profileHash = String(r['robot_profile_hash']);
         if (view.layout === 'compare') {
           const isExecutableAtNominalByColumn = Object.fromEntries(PLAN_MODELS.map((m) => [modelColumnId(m), (r[`__nominal_${modelColumnId(m)}`] as boolean | null) ?? null]));
-          return { id: `${scenarioId}:${agents}:${profileHash}`, scenarioId, agents, profileHash, cells, isExecutableAtNominalByColumn };
+          const intervalsByColumn = compareIntervals(view.metric, cells, r);
+          return { id: `${scenarioId}:${agents}:${profileHash}`, scenarioId, agents, profileHash, cells, isExecutableAtNominalByColumn, ...(intervalsByColumn ? { intervalsByColumn } : {}) };
         }
         fillSuccessIntervals(cells, r);
         return {
@@ -95,7 +96,12 @@ export function createLeaderboardsService(deps: { readonly sequelize: Sequelize;
       const usable = (alias: string) => (bestAmong === 'executable' ? ` AND ${alias}.executable_at_nominal IS NOT FALSE` : '');
       const all = scopedEntries(viewer, { profileHash: scope.profileHash });
       const withV = (sql: string): SqlQuery => ({ sql: `WITH v AS (${v.sql}) ${sql}`, replacements: v.replacements });
-      const successCols = LEADERBOARD_POLICIES.map((p) => `avg(success_${p.policy.replace('-', '_')}) FILTER (WHERE status = 'solved') AS "${p.policy}"`).join(', ');
+      // Per policy the mean over solved instances, its sample standard deviation and n (for the t interval, MEAN_SUCCESS_METHOD).
+      const successCols = LEADERBOARD_POLICIES.map((p) => {
+        const c = `success_${p.policy.replace('-', '_')}`;
+        const solved = `FILTER (WHERE status = 'solved' AND ${c} IS NOT NULL)`;
+        return `avg(${c}) ${solved} AS "${p.policy}", stddev_samp(${c}) ${solved} AS "sd:${p.policy}", (count(${c}) ${solved})::int AS "n:${p.policy}"`;
+      }).join(', ');
       const [byAgents, ratios, success, maps, profileList] = await Promise.all([
         select<{ model: string; variant: string; agents: number; instances: number; solved: number; executable: number; colliding: number }>(withV(
           `SELECT model, variant, agents, count(*)::int AS instances, (count(*) FILTER (WHERE status = 'solved'))::int AS solved,
@@ -124,7 +130,10 @@ export function createLeaderboardsService(deps: { readonly sequelize: Sequelize;
         if (!s) {
           s = {
             model: r.model as PlanModel, variant: r.variant, instances: 0, solved: 0, byAgents: [], meanTiMakespanVsClassic: null, pairedWithClassic: 0,
-            meanSuccess: Object.fromEntries(LEADERBOARD_POLICIES.map((p) => [p.policy, null])), executableAtNominal: 0, notExecutableAtNominal: 0,
+            meanSuccess: Object.fromEntries(LEADERBOARD_POLICIES.map((p) => [p.policy, null])),
+            meanSuccessCi95: Object.fromEntries(LEADERBOARD_POLICIES.map((p) => [p.policy, null])),
+            meanSuccessInstances: Object.fromEntries(LEADERBOARD_POLICIES.map((p) => [p.policy, 0])),
+            executableAtNominal: 0, notExecutableAtNominal: 0,
           };
           models.set(k, s);
         }
@@ -140,7 +149,13 @@ export function createLeaderboardsService(deps: { readonly sequelize: Sequelize;
       }
       for (const r of success) {
         const s = models.get(key(String(r['model']), String(r['variant'])));
-        if (s) Object.assign(s, { meanSuccess: Object.fromEntries(LEADERBOARD_POLICIES.map((p) => [p.policy, (r[p.policy] as number | null) ?? null])) });
+        if (!s) continue;
+        const num = (v: unknown): number | null => (v === null || v === undefined ? null : Number(v));
+        Object.assign(s, {
+          meanSuccess: Object.fromEntries(LEADERBOARD_POLICIES.map((p) => [p.policy, num(r[p.policy])])),
+          meanSuccessCi95: Object.fromEntries(LEADERBOARD_POLICIES.map((p) => [p.policy, meanRateInterval(num(r[p.policy]), num(r[`sd:${p.policy}`]), Number(r[`n:${p.policy}`] ?? 0))])),
+          meanSuccessInstances: Object.fromEntries(LEADERBOARD_POLICIES.map((p) => [p.policy, Number(r[`n:${p.policy}`] ?? 0)])),
+        });
       }
       const map = scope.mapId === undefined ? null : maps.find((m) => m.id === scope.mapId) ?? null;
       return {
@@ -167,7 +182,8 @@ export function createLeaderboardsService(deps: { readonly sequelize: Sequelize;
       type Point = { model: string; variant: string; x: number; y: number };
       const [success, execution, cactus, scatter, maxSpread] = await Promise.all([
         select<Point>(withV(`SELECT model, variant, agents AS x, avg((status = 'solved')::int)::float8 AS y FROM v GROUP BY model, variant, agents ORDER BY model, variant, x`)),
-        select<Point>(withV(`SELECT model, variant, agents AS x, avg(success_${col})::float8 AS y FROM v WHERE status = 'solved' AND success_${col} IS NOT NULL
+        select<Point & { sd: number | null; n: number }>(withV(`SELECT model, variant, agents AS x, avg(success_${col})::float8 AS y,
+            stddev_samp(success_${col})::float8 AS sd, count(*)::int AS n FROM v WHERE status = 'solved' AND success_${col} IS NOT NULL
           GROUP BY model, variant, agents ORDER BY model, variant, x`)),
         // Cactus: the i-th fastest solve time against i, thinned to about 200 points per model.
         select<Point>(withV(`SELECT model, variant, x, y FROM (
@@ -189,7 +205,11 @@ export function createLeaderboardsService(deps: { readonly sequelize: Sequelize;
       return {
         ...empty,
         successByAgents: toSeries(success),
-        executionSuccessByAgents: toSeries(execution),
+        // Each point carries the t interval of its mean over instances (MEAN_SUCCESS_METHOD), drawn as a band.
+        executionSuccessByAgents: toSeries(execution).map((series) => ({
+          ...series,
+          intervals: execution.filter((p) => p.model === series.model && p.variant === series.variant).map((p) => meanRateInterval(p.y, p.sd, p.n)),
+        })),
         cactus: toSeries(cactus),
         computedVsRealised: toSeries(scatter),
         spreadHistogram: toSeries(histogram),
@@ -213,6 +233,39 @@ function fillSuccessIntervals(cells: Record<string, string | number | null>, r: 
     if (lo in cells) cells[lo] = ci ? ci[0] : null;
     if (hi in cells) cells[hi] = ci ? ci[1] : null;
   }
+}
+
+/**
+ * The 95 % interval of each plan model cell of a comparison row with an execution figure (issue
+ * 12, item 5), from the `__lo_*` / `__hi_*` the page query read from the cells' entries: a rate
+ * gets Wilson from rate × runs (both sources hold the runs), a mean its stored bounds. Null for
+ * a cell without a value or without an interval; undefined for plan figures (no interval).
+ */
+function compareIntervals(metric: CompareMetric, cells: Readonly<Record<string, string | number | null>>, r: Row): Record<string, Interval95 | null> | undefined {
+  const kind = compareIntervalKind(metric);
+  if (kind === null) return undefined;
+  const out: Record<string, Interval95 | null> = {};
+  for (const m of PLAN_MODELS) {
+    const col = modelColumnId(m);
+    if (!(col in cells)) continue;
+    const value = cells[col];
+    const lo = r[`__lo_${col}`] as number | null;
+    const hi = r[`__hi_${col}`] as number | null;
+    if (typeof value !== 'number' || lo === null || hi === null) out[col] = null;
+    else out[col] = kind === 'rate' ? (lo > 0 ? wilsonInterval(Math.round(value * lo), lo) : null) : [Number(lo), Number(hi)];
+  }
+  return out;
+}
+
+/**
+ * The Student t 95 % interval of a mean of rates from its aggregates (mean, sample standard
+ * deviation, n), cut to [0, 1] since a rate's mean cannot leave it; null below 2 values.
+ * Same formula as meanInterval (shared/confidence-interval.ts), which needs the values themselves.
+ */
+export function meanRateInterval(mean: number | null, sd: number | null, n: number): Interval95 | null {
+  if (mean === null || sd === null || n < 2) return null;
+  const half = (studentT975(n - 1) * sd) / Math.sqrt(n);
+  return [Math.max(0, mean - half), Math.min(1, mean + half)];
 }
 
 /** A bin width giving about 20 bins up to `max`, rounded to 1, 2 or 5 × 10^n ms. */
