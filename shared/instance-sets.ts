@@ -38,6 +38,25 @@ export const CreateInstanceSetRequest = z.object({
 }).strict();
 export type CreateInstanceSetRequest = z.input<typeof CreateInstanceSetRequest>;
 
+/**
+ * PATCH /api/instance-sets/:id: the fields to change (at least one); answers the InstanceSetDetail.
+ * A name the set's owner already uses for another set is refused with 409 CONFLICT naming `name`.
+ */
+export const UpdateInstanceSetRequest = z.object({
+  name: singleLineText().min(1, 'a name is required').max(120).optional(),
+  description: multiLineText().max(4000).optional(),
+  visibility: z.enum(VISIBILITIES).optional(),
+  source: multiLineText().max(2000).optional(),
+}).strict().refine((r) => Object.values(r).some((v) => v !== undefined), { message: 'name a field to change: name, description, visibility or source' });
+export type UpdateInstanceSetRequest = z.input<typeof UpdateInstanceSetRequest>;
+
+/** One entry of a 409 CONFLICT answer's `details`: the field whose value is already taken (same shape as validation details). */
+export interface ConflictDetail {
+  readonly path: readonly string[];
+  readonly code: 'taken';
+  readonly message: string;
+}
+
 /** Query of GET /api/instance-sets: a search text on name and description, 1-based page. */
 export const InstanceSetListQuery = z.object({
   q: singleLineText().max(120).optional(),
@@ -119,6 +138,28 @@ export interface MapDetail extends MapSummary {
   readonly rows: readonly string[];
   /** Scenarios of the set that belong to this map. */
   readonly scenarios: readonly ScenarioSummary[];
+}
+
+/**
+ * GET /api/maps/:id/deletion-preview and GET /api/scenarios/:id/deletion-preview: what deleting the
+ * file takes with it. The database cascades (migrations 0100, 0200, 0400): a map takes its
+ * scenarios; a scenario takes the sweep runs, the results (with their execution replays and
+ * leaderboard entries) and the plan submissions over it. The sweeps themselves stay, with fewer runs.
+ */
+export interface DeletionPreview {
+  readonly kind: 'map' | 'scenario';
+  readonly id: number;
+  readonly name: string;
+  /** Scenarios that go too (a map's scenarios; 0 for a scenario). */
+  readonly scenarios: number;
+  /** Sweep runs that go. */
+  readonly runs: number;
+  /** Stored results that go, sweep results and submitted plans together. */
+  readonly results: number;
+  /** Of those results, how many came from plan submissions. */
+  readonly submissions: number;
+  /** Sweeps that lose runs (they stay, with fewer runs). */
+  readonly sweeps: number;
 }
 
 /** One start/goal pair of a scenario as the client sees it. */

@@ -1,4 +1,4 @@
-/** Routes under /api/instance-sets: list, create, read, delete, upload files, generate. */
+/** Routes under /api/instance-sets: list, create, read, change, delete, upload files, generate. */
 import { Router } from 'express';
 import { z } from 'zod';
 import { requireRole, requireUser } from '../auth/require-role';
@@ -35,6 +35,11 @@ export function instanceSetsRouter(svc: InstanceSetsService, uploads: UploadGate
     const { id } = validate(IdParam, req.params);
     await svc.remove(req.user ?? null, id);
     res.status(204).end();
+  });
+
+  r.patch('/:id', requireRole('researcher'), async (req, res) => {
+    const { id } = validate(IdParam, req.params);
+    res.json(await svc.update(req.user ?? null, id, req.body));
   });
 
   r.post(

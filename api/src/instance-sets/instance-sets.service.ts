@@ -8,8 +8,8 @@
  */
 import { Op, QueryTypes, type Sequelize, type Transaction } from 'sequelize';
 import {
-  CreateInstanceSetRequest, GenerateInstancesRequest, INVALID_INSTANCE_FILES, InstanceSetListQuery,
-  type InstanceSetDetail, type InstanceSetListResponse, type InstanceSetSummary, type MapDetail,
+  CreateInstanceSetRequest, GenerateInstancesRequest, INVALID_INSTANCE_FILES, InstanceSetListQuery, UpdateInstanceSetRequest,
+  type ConflictDetail, type DeletionPreview, type InstanceSetDetail, type InstanceSetListResponse, type InstanceSetSummary, type MapDetail,
   type MapSummary, type ScenarioDetail, type ScenarioSummary, type UploadProblem, type UploadResponse, type Visibility,
 } from '@shared/instance-sets';
 import { DEFAULT_STORAGE_QUOTA } from '../config';
@@ -47,6 +47,10 @@ export interface InstanceSetsService {
   /** 404 when invisible, 403 when visible but not the viewer's to change. */
   assertCanManage(viewer: Viewer, id: number): Promise<void>;
   remove(viewer: Viewer, id: number): Promise<void>;
+  /** Renames a set or changes its description, visibility or source (owner, maintainers, admins). */
+  update(viewer: Viewer, id: number, body: unknown): Promise<InstanceSetDetail>;
+  /** What deleting a map or scenario would take with it (only for those who may delete it). */
+  deletionPreview(viewer: Viewer, kind: 'map' | 'scenario', id: number): Promise<DeletionPreview>;
   /** `signal` cancels the checks (the client went away); nothing is stored then. */
   upload(viewer: Viewer, id: number, files: readonly ReceivedFile[], signal?: AbortSignal): Promise<UploadResponse>;
   generate(viewer: Viewer, body: unknown): Promise<UploadResponse>;
@@ -90,6 +94,28 @@ function toSummary(r: ListRow): InstanceSetSummary {
     createdAt: new Date(r.created_at).toISOString(), updatedAt: new Date(r.updated_at).toISOString(),
   };
 }
+
+/** 409 for a set name its owner already uses, naming the field like a validation answer does. */
+function nameTaken(name: string, isViewerOwner: boolean): AppError {
+  const message = isViewerOwner
+    ? `You already have an instance set named "${name}"; choose another name.`
+    : `The owner of this set already has an instance set named "${name}"; choose another name.`;
+  const details: ConflictDetail[] = [{ path: ['name'], code: 'taken', message }];
+  return new AppError('CONFLICT', 409, message, details);
+}
+
+/** Whether `err` is PostgreSQL refusing a duplicate of instance_sets_owner_name (two renames racing past the check). */
+function isDuplicateSetName(err: unknown): boolean {
+  const e = err as { name?: string; parent?: { constraint?: string } } | null;
+  return e?.name === 'SequelizeUniqueConstraintError' && e.parent?.constraint === 'instance_sets_owner_name';
+}
+
+/** Counts of what a map's or scenario's deletion cascades to; `:ids` are the scenarios that go. */
+const PREVIEW_SQL = `SELECT
+    (SELECT count(*) FROM runs WHERE scenario_id IN (:ids))::int AS runs,
+    (SELECT count(*) FROM results WHERE scenario_id IN (:ids))::int AS results,
+    (SELECT count(*) FROM results WHERE scenario_id IN (:ids) AND submission_id IS NOT NULL)::int AS submissions,
+    (SELECT count(DISTINCT sweep_id) FROM runs WHERE scenario_id IN (:ids))::int AS sweeps`;
 
 /** ILIKE pattern matching `text` anywhere, with the wildcard characters escaped. */
 function containsPattern(text: string): string {
@@ -242,7 +268,7 @@ export function createInstanceSetsService(deps: InstanceSetsServiceDeps): Instan
     async create(owner, body) {
       const input = validate(CreateInstanceSetRequest, body);
       const taken = await InstanceSet.count({ where: { ownerId: owner.id, name: input.name } });
-      if (taken > 0) throw new AppError('CONFLICT', 409, `You already have an instance set named "${input.name}".`);
+      if (taken > 0) throw nameTaken(input.name, true);
       const set = await InstanceSet.create({ ownerId: owner.id, ...input });
       return detailOf(set, owner);
     },
@@ -272,6 +298,39 @@ export function createInstanceSetsService(deps: InstanceSetsServiceDeps): Instan
       const set = await manageableSet(viewer, id);
       // Maps and scenarios go with it (ON DELETE CASCADE).
       await set.destroy();
+    },
+
+    async update(viewer, id, body) {
+      const set = await manageableSet(viewer, id);
+      const input = validate(UpdateInstanceSetRequest, body);
+      const isViewerOwner = viewer !== null && viewer.id === set.ownerId;
+      if (input.name !== undefined && input.name !== set.name) {
+        // The unique index is per owner: the set keeps its owner when a maintainer renames it.
+        const taken = await InstanceSet.count({ where: { ownerId: set.ownerId, name: input.name, id: { [Op.ne]: set.id } } });
+        if (taken > 0) throw nameTaken(input.name, isViewerOwner);
+      }
+      for (const key of ['name', 'description', 'visibility', 'source'] as const) {
+        if (input[key] !== undefined) set.set(key, input[key]);
+      }
+      try {
+        await set.save();
+      } catch (err) {
+        if (isDuplicateSetName(err)) throw nameTaken(input.name ?? set.name, isViewerOwner);
+        throw err;
+      }
+      return detailOf(set, viewer);
+    },
+
+    async deletionPreview(viewer, kind, id) {
+      const file = kind === 'map' ? await visibleMap(viewer, id, false) : await visibleScenario(viewer, id, false);
+      await manageableSet(viewer, file.instanceSetId);
+      const scenarioIds = kind === 'map'
+        ? (await ScenarioFile.findAll({ where: { mapId: id }, attributes: ['id'] })).map((c) => c.id)
+        : [id];
+      const counts = scenarioIds.length === 0
+        ? { runs: 0, results: 0, submissions: 0, sweeps: 0 }
+        : (await sequelize.query<Omit<DeletionPreview, 'kind' | 'id' | 'name' | 'scenarios'>>(PREVIEW_SQL, { type: QueryTypes.SELECT, replacements: { ids: scenarioIds } }))[0];
+      return { kind, id, name: file.name, scenarios: kind === 'map' ? scenarioIds.length : 0, ...counts };
     },
 
     async upload(viewer, id, files, signal) {

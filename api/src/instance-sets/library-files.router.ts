@@ -1,4 +1,4 @@
-/** Routes under /api/maps and /api/scenarios: read, download byte for byte, delete. */
+/** Routes under /api/maps and /api/scenarios: read, download byte for byte, what a deletion takes with it, delete. */
 import { Router, type Response } from 'express';
 import { requireRole } from '../auth/require-role';
 import { validate } from '../errors/validate';
@@ -26,6 +26,9 @@ export function mapsRouter(svc: InstanceSetsService): Router {
   r.get('/:id/download', async (req, res) => {
     sendFile(res, await svc.mapBytes(req.user ?? null, validate(IdParam, req.params).id));
   });
+  r.get('/:id/deletion-preview', requireRole('researcher'), async (req, res) => {
+    res.json(await svc.deletionPreview(req.user ?? null, 'map', validate(IdParam, req.params).id));
+  });
   r.delete('/:id', requireRole('researcher'), async (req, res) => {
     await svc.removeMap(req.user ?? null, validate(IdParam, req.params).id);
     res.status(204).end();
@@ -41,6 +44,9 @@ export function scenariosRouter(svc: InstanceSetsService): Router {
   });
   r.get('/:id/download', async (req, res) => {
     sendFile(res, await svc.scenarioBytes(req.user ?? null, validate(IdParam, req.params).id));
+  });
+  r.get('/:id/deletion-preview', requireRole('researcher'), async (req, res) => {
+    res.json(await svc.deletionPreview(req.user ?? null, 'scenario', validate(IdParam, req.params).id));
   });
   r.delete('/:id', requireRole('researcher'), async (req, res) => {
     await svc.removeScenario(req.user ?? null, validate(IdParam, req.params).id);
