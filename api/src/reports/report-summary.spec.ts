@@ -50,6 +50,17 @@ describe('report sentences', () => {
       + 'none of these was seen colliding at nominal times, and their realised makespans do not single out one of them (overlapping or missing intervals).');
   });
 
+  it('does not call unchecked plans collision-free at nominal times', () => {
+    const unchecked = { nominalChecked: 0, nominalExecutable: 0, executableRate: null, executableCi95: null };
+    const text = choice([
+      { ...base, ...unchecked },
+      v('orientation-split', { ...unchecked, makespanVsClassic: { pairs: 20, ratio: 0.97, ci95: [0.95, 1.01] } }),
+    ]);
+    expect(text).toBe("Which plan model for these robots under open-loop: execution success does not rank the variants: every interval overlaps the best one's; "
+      + 'their realised makespans do not single out one of them (overlapping or missing intervals); none of them was checked at nominal times.');
+    expect(text).not.toContain('seen colliding');
+  });
+
   it('judges the planned cost on the interval, not on ρ alone', () => {
     const all = sentences([
       base,

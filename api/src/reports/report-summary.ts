@@ -88,19 +88,24 @@ function choiceSentence(variants: readonly VariantFigures[], policy: SweepPolicy
   else if (top.length === executed.length) parts.push(`execution success does not rank the variants: every interval overlaps the best one's`);
   else parts.push(`${listOf(top.map((v) => v.label))} lead on execution success (their intervals overlap the best one's, so no order among them; the others' lie wholly below it)`);
   if (collidingAtNominal.length > 0) parts.push(`of these, ${listOf(collidingAtNominal.map((v) => v.label))} collided at nominal times on some instances`);
-  // The variants left, named again only when some were set aside.
-  const remaining = `${collidingAtNominal.length > 0 || top.length === 1 ? listOf(candidates.map((v) => v.label)) : 'these'}${unchecked.length ? ` (${listOf(unchecked.map((v) => v.label))} not checked at nominal times)` : ''}`;
+  // The variants left, named again only when some were set aside, and which of them nobody checked.
+  const named = collidingAtNominal.length > 0 || top.length === 1 ? listOf(candidates.map((v) => v.label)) : 'these';
+  const allUnchecked = unchecked.length > 0 && unchecked.length === candidates.length;
+  const uncheckedNote = allUnchecked
+    ? (candidates.length === 1 ? ' (not checked at nominal times)' : ' (none of them checked at nominal times)')
+    : unchecked.length ? ` (${listOf(unchecked.map((v) => v.label))} not checked at nominal times)` : '';
   const withRatio = candidates.filter((v) => v.makespanVsClassic.ci95 !== null || v.isReference);
   const ciOf = (v: VariantFigures): ReportInterval => (v.isReference ? [1, 1] : v.makespanVsClassic.ci95!);
   const fastest = [...withRatio].sort((a, b) => ciOf(a)[1] - ciOf(b)[1])[0];
+  const undecided = 'their realised makespans do not single out one of them (overlapping or missing intervals)';
   if (fastest && withRatio.length > 1 && withRatio.length === candidates.length && withRatio.every((v) => v === fastest || ciOf(fastest)[1] < ciOf(v)[0])) {
-    parts.push(`of ${remaining}, ${fastest.label} finished soonest, its makespan interval clear of the others'`);
+    parts.push(`of ${named}${uncheckedNote}, ${fastest.label} finished soonest, its makespan interval clear of the others'`);
   } else if (candidates.length > 1) {
-    parts.push(collidingAtNominal.length > 0
-      ? `${remaining} remain, and their realised makespans do not single out one of them (overlapping or missing intervals)`
-      : `none of ${remaining} was seen colliding at nominal times, and their realised makespans do not single out one of them (overlapping or missing intervals)`);
+    if (collidingAtNominal.length > 0) parts.push(`${named}${uncheckedNote} remain, and ${undecided}`);
+    else if (allUnchecked) parts.push(`${undecided}; none of them was checked at nominal times`);
+    else parts.push(`none of ${named}${uncheckedNote} was seen colliding at nominal times, and ${undecided}`);
   } else if (candidates.length === 1 && top.length > 1) {
-    parts.push(`${remaining} remains`);
+    parts.push(`${named}${uncheckedNote} remains`);
   }
   return `Which plan model for these robots under ${policy}: ${parts.join('; ')}.`;
 }
