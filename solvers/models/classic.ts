@@ -147,7 +147,7 @@ export function solveClassic(instance: MapfInstance, options: ClassicOptions = {
     switches,
     budget,
     planner,
-    cat: new ConflictAvoidanceTable(model.cellCount),
+    cat: new ConflictAvoidanceTable(model.cellCount, model.forbidsFollowing),
     degree: model.degree,
     nodeLimit: options.nodeLimit ?? Number.MAX_SAFE_INTEGER,
     expandLimit: Number.MAX_SAFE_INTEGER,

@@ -15,8 +15,11 @@ export class ConflictAvoidanceTable {
   /** Number of time steps covered by `counts` (beyond it only resting agents matter). */
   length = 0;
 
-  /** Creates an empty table over `cellCount` cells. */
-  constructor(private readonly cellCount: number) {
+  /**
+   * Creates an empty table over `cellCount` cells; with `countsFollowing` (models with
+   * `following: forbidden`) entering a cell someone occupied one step earlier counts too.
+   */
+  constructor(private readonly cellCount: number, private readonly countsFollowing = false) {
     this.restFrom = new Int32Array(cellCount).fill(NO_TIME);
   }
 
@@ -81,7 +84,8 @@ export class ConflictAvoidanceTable {
       const c = this.counts;
       k += c[t * n + to];
       // Swap: someone was at `to` and is now at `from` (counts only say someone, which is close enough for tie-breaking).
-      if (from !== to && c[(t - 1) * n + to] !== 0 && c[t * n + from] !== 0) k++;
+      // Following (when forbidden): someone was at `to` one step earlier; a swap is one of those.
+      if (from !== to && c[(t - 1) * n + to] !== 0 && (this.countsFollowing || c[t * n + from] !== 0)) k++;
     }
     return k;
   }

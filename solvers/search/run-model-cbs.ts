@@ -40,7 +40,7 @@ export function runModelCbs(model: SearchModel, degree: Uint8Array, switches: Cb
     switches,
     budget,
     planner,
-    cat: new ConflictAvoidanceTable(model.cellCount),
+    cat: new ConflictAvoidanceTable(model.cellCount, model.forbidsFollowing === true),
     degree,
     nodeLimit: options.nodeLimit ?? Number.MAX_SAFE_INTEGER,
     expandLimit: Number.MAX_SAFE_INTEGER,
