@@ -58,7 +58,7 @@ export function withIntervalColumns(table: ExportTable): ExportTable {
     if (!carries(c.id)) return [c];
     const [lo, hi] = intervalColumnIds(c.id);
     const bound = (id: string, end: string): LeaderboardColumn => ({
-      id, label: `${c.label}, 95 % CI ${end}`, kind: 'number', unit: c.unit, digits: c.digits !== undefined ? c.digits + 1 : undefined, isComputed: true,
+      id, label: `${c.label}, 95 % CI ${end}`, kind: 'number', unit: c.unit, digits: c.digits !== undefined && c.digits > 0 ? c.digits + 1 : c.digits, isComputed: true,
     });
     return [c, bound(lo, 'low'), bound(hi, 'high')];
   });
@@ -72,8 +72,9 @@ export function withIntervalColumns(table: ExportTable): ExportTable {
 }
 
 /**
- * A cell for people with its interval, "x [lo, hi]" (bounds with one more digit than the value,
- * so a narrow interval does not collapse onto it), or "x [interval not stored]"; the plain cell
+ * A cell for people with its interval, "x [lo, hi]" (bounds of a fractional figure such as a rate
+ * with one more digit than the value, so a narrow interval does not collapse onto it; whole ms stay
+ * whole), or "x [interval not stored]"; the plain cell
  * where the table has no interval for it.
  */
 export function displayWithInterval(table: ExportTable, r: number, j: number): string {
@@ -84,7 +85,7 @@ export function displayWithInterval(table: ExportTable, r: number, j: number): s
   if (value === null || !intervals || !(column.id in intervals)) return text;
   const ci = intervals[column.id];
   if (!ci) return `${text} ${INTERVAL_NOT_STORED}`;
-  const bound = { ...column, digits: column.digits !== undefined ? column.digits + 1 : undefined };
+  const bound = { ...column, digits: column.digits !== undefined && column.digits > 0 ? column.digits + 1 : column.digits };
   return `${text} [${displayCell(ci[0], bound)}, ${displayCell(ci[1], bound)}]`;
 }
 
