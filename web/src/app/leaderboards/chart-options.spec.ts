@@ -15,9 +15,34 @@ const data: LeaderboardCharts = {
 };
 
 describe('chart options', () => {
-  it.each(CHART_IDS.filter((id) => !PLAN_CHARTS.includes(id)))('the %s chart says which robot profile and policy produced it', (id) => {
+  it.each(CHART_IDS.filter((id) => !PLAN_CHARTS.includes(id)))('the %s chart says which robot profile and policy produced it, and how it shows intervals', (id) => {
     const option = chartOption(id, data) as { title: { subtext: string } };
-    expect(option.title.subtext).toBe('Robot profile: forward 1000 ms, quarter turn 600 ms · execution policy lockstep');
+    const head = 'Robot profile: forward 1000 ms, quarter turn 600 ms · execution policy lockstep · ';
+    expect(option.title.subtext.slice(0, head.length)).toBe(head);
+    // Every chart of Monte Carlo figures states its 95 % interval, or why it draws none (issue 12, item 5).
+    expect(option.title.subtext.slice(head.length)).toMatch(/95 % interval|carries no per-instance interval/);
+  });
+
+  it('draws a 95 % band around each execution success rate series, in the model colour, without tooltips', () => {
+    const withCi: LeaderboardCharts = {
+      ...data,
+      executionSuccessByAgents: [
+        { model: 'classic', variant: '', points: [[2, 0.9], [3, 0.55]], intervals: [null, [0.2, 0.9]] },
+        { model: 'weighted-split', variant: '', points: [[3, 1]], intervals: [null] },
+      ],
+    };
+    const option = chartOption('execution', withCi) as { title: { subtext: string }; series: { name: string; stack?: string; data: unknown[]; areaStyle?: { color: string }; tooltip?: { show: boolean } }[] };
+    expect(option.title.subtext).toContain('Student t over those instances');
+    // Two lines, then the low edge and the stacked width of classic's band; weighted-split has no interval, so no band.
+    expect(option.series.map((s) => [s.name, s.stack ?? null])).toEqual([
+      ['classic', null], ['weighted-split', null], ['classic', 'ci95 classic'], ['classic', 'ci95 classic'],
+    ]);
+    expect(option.series[2].data).toEqual([[2, null], [3, 0.2]]);
+    const width = option.series[3].data as [number, number | null][];
+    expect(width[0]).toEqual([2, null]);
+    expect(width[1][1]).toBeCloseTo(0.7, 12);
+    expect(option.series[3].areaStyle?.color).toBe(MODEL_COLOURS.classic);
+    expect(option.series.slice(2).every((s) => s.tooltip?.show === false)).toBe(true);
   });
 
   it.each(PLAN_CHARTS)('the %s chart shows plan figures and names no execution policy', (id) => {

@@ -3,7 +3,7 @@
  * names the robot profile and execution policy its figures come from in its subtitle, and
  * series are named by plan model (with the variant, e.g. k = 1). Pure functions.
  */
-import type { ChartSeries, LeaderboardCharts } from '@shared/leaderboards';
+import { MEAN_SUCCESS_METHOD, type ChartSeries, type LeaderboardCharts } from '@shared/leaderboards';
 import { MODEL_COLOURS } from './model-colours';
 
 /** Names of the charts (also their ids in the page). */
@@ -21,13 +21,13 @@ export function seriesName(s: Pick<ChartSeries, 'model' | 'variant'>): string {
   return s.variant ? `${s.model} (${s.variant})` : s.model;
 }
 
-function frame(title: string, data: LeaderboardCharts, xName: string, yName: string, extra: ChartOption = {}, isExecution = true): ChartOption {
+function frame(title: string, data: LeaderboardCharts, xName: string, yName: string, extra: ChartOption = {}, isExecution = true, note = ''): ChartOption {
   const profile = data.profile ? `Robot profile: ${data.profile.label}` : 'No robot profile';
   return {
     animation: false,
     backgroundColor: '#ffffff',
     textStyle: { fontFamily: 'Fira Sans, system-ui, sans-serif' },
-    title: { text: title, subtext: isExecution ? `${profile} · execution policy ${data.policy}` : `${profile} · plan figures (no execution policy)`, left: 8, top: 4, textStyle: { fontSize: 15 }, subtextStyle: { fontSize: 11, width: 700, overflow: 'break' } },
+    title: { text: title, subtext: (isExecution ? `${profile} · execution policy ${data.policy}` : `${profile} · plan figures (no execution policy)`) + note, left: 8, top: 4, textStyle: { fontSize: 15 }, subtextStyle: { fontSize: 11, width: 700, overflow: 'break' } },
     legend: { bottom: 0, type: 'scroll' },
     tooltip: { trigger: 'item' },
     grid: { left: 64, right: 24, top: 84, bottom: 64 },
@@ -46,6 +46,27 @@ function lines(series: readonly ChartSeries[], kind: 'line' | 'scatter' | 'bar',
   }));
 }
 
+/**
+ * The 95 % band of each series with intervals (issue 12, item 5): a transparent line at the low
+ * ends and, stacked on it, the width (high − low) as a shaded area in the model's colour. Band
+ * series share their model's name, so the legend shows and hides them together; they take no
+ * tooltip or hover. Points without an interval (fewer than 2 instances) leave a gap.
+ */
+export function intervalBands(series: readonly ChartSeries[]): ChartOption[] {
+  return series.filter((s) => s.intervals?.some((ci) => ci !== null)).flatMap((s) => {
+    const stack = `ci95 ${seriesName(s)}`;
+    const at = (f: (ci: readonly [number, number]) => number) => s.points.map(([x], i) => {
+      const ci = s.intervals?.[i] ?? null;
+      return [x, ci ? f(ci) : null];
+    });
+    const common = { name: seriesName(s), type: 'line', stack, silent: true, symbol: 'none', connectNulls: false, tooltip: { show: false }, z: 1 };
+    return [
+      { ...common, data: at(([lo]) => lo), lineStyle: { opacity: 0 }, color: MODEL_COLOURS[s.model] },
+      { ...common, data: at(([lo, hi]) => hi - lo), lineStyle: { opacity: 0 }, areaStyle: { opacity: 0.15, color: MODEL_COLOURS[s.model] }, color: MODEL_COLOURS[s.model] },
+    ];
+  });
+}
+
 /** The option of one chart. */
 export function chartOption(id: ChartId, data: LeaderboardCharts): ChartOption {
   switch (id) {
@@ -59,8 +80,8 @@ export function chartOption(id: ChartId, data: LeaderboardCharts): ChartOption {
       // Collision-free share of simulated runs, averaged over the solved instances of each agent count.
       return frame('Execution success rate by agent count (mean over solved instances)', data, 'agents', 'execution success rate', {
         yAxis: { type: 'value', name: 'execution success rate', nameLocation: 'middle', nameGap: 46, min: 0, max: 1 },
-        series: lines(data.executionSuccessByAgents, 'line'),
-      });
+        series: [...lines(data.executionSuccessByAgents, 'line'), ...intervalBands(data.executionSuccessByAgents)],
+      }, true, ` · shaded band: ${MEAN_SUCCESS_METHOD}`);
     case 'cactus':
       return frame('Instances solved within a solve time', data, 'solve time (ms, log scale)', 'instances solved', {
         xAxis: { type: 'log', name: 'solve time (ms, log scale)', nameLocation: 'middle', nameGap: 28 },
@@ -69,10 +90,10 @@ export function chartOption(id: ChartId, data: LeaderboardCharts): ChartOption {
     case 'realised':
       return frame('Planned against realised makespan', data, 'turn-inclusive makespan, planned (ms)', 'realised makespan, mean over runs (ms)', {
         series: lines(data.computedVsRealised, 'scatter'),
-      });
+      }, true, ' · each point a mean over runs; its 95 % interval is in the board\'s realised-makespan columns (not drawn: bars on every point of the cloud would hide it)');
     case 'spread':
       return frame(`Finish spread distribution (bins of ${data.spreadBinMs} ms)`, data, 'finish spread, mean over runs (ms)', 'instances', {
         series: lines(data.spreadHistogram, 'bar'),
-      });
+      }, true, ' · counts instances by their mean finish spread; a histogram carries no per-instance interval (see the board\'s finish-spread columns)');
   }
 }

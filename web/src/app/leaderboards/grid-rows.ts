@@ -1,6 +1,6 @@
 /** The grid rows of a board page, with the best value per comparison row marked as the exports mark it. */
 import { bestCells } from '@shared/exports-table';
-import type { LeaderboardPage, LeaderboardView } from '@shared/leaderboards';
+import type { LeaderboardPage, LeaderboardRow, LeaderboardView } from '@shared/leaderboards';
 import type { GridRow } from './leaderboard-columns';
 
 /**
@@ -20,5 +20,20 @@ export function gridRows(page: LeaderboardPage, view: LeaderboardView): GridRow[
     ...r.cells, __id: r.id,
     __best: [...best[i]].map((j) => page.columns[j].id).join(','),
     __colliding: colliding[i].join(','),
+    ...intervalFields(r.intervalsByColumn),
   }) as GridRow);
+}
+
+/**
+ * The 95 % interval of each model cell as `<column>__lo` / `<column>__hi` (null: not stored), and
+ * `__intervals` = 'yes' when the row's figure carries intervals at all (issue 12, item 5).
+ */
+function intervalFields(intervals: LeaderboardRow['intervalsByColumn']): Record<string, string | number | null> {
+  if (!intervals) return {};
+  const out: Record<string, string | number | null> = { __intervals: 'yes' };
+  for (const [id, ci] of Object.entries(intervals)) {
+    out[`${id}__lo`] = ci ? ci[0] : null;
+    out[`${id}__hi`] = ci ? ci[1] : null;
+  }
+  return out;
 }

@@ -19,7 +19,7 @@ import { MatSlideToggleModule } from '@angular/material/slide-toggle';
 import { SAFETY_NOTE } from '@shared/executions-constants';
 import { EXPORT_FORMATS, type ExportFormat } from '@shared/exports-table';
 import {
-  COMPARE_METRICS, columnsOf, DEFAULT_VIEW, ENTRY_COLUMNS, NOMINAL_DESCRIPTION, parseView, viewToParams,
+  COMPARE_METRICS, columnsOf, compareIntervalKind, compareIntervalNote, DEFAULT_VIEW, ENTRY_COLUMNS, NOMINAL_DESCRIPTION, parseView, viewToParams,
   type BestAmong, type CompareMetric, type Layout, type LeaderboardView,
 } from '@shared/leaderboards';
 import { hasRole } from '@shared/auth-contract';
@@ -71,7 +71,7 @@ export default class LeaderboardBoard {
     const v = this.view();
     const visible = new Set(v.columns);
     const cols = columnsOf(v).filter((c) => visible.has(c.id)).sort((a, b) => v.columns.indexOf(a.id) - v.columns.indexOf(b.id));
-    const shown = gridColumns(cols, v.sort);
+    const shown = gridColumns(cols, v.sort, v.layout === 'compare' ? compareIntervalKind(v.metric) : null);
     // Entry rows name one stored result; comparison rows hold several models' bests.
     return v.layout === 'entries' && this.canSubmit() ? [replayColumn(), ...shown] : shown;
   });
@@ -79,6 +79,8 @@ export default class LeaderboardBoard {
     const params = viewToParams(this.view());
     return this.formats.map((f) => ({ ...f, href: this.api.exportUrl(f.id, params) }));
   });
+  /** The interval method of the comparison figure, for the legend (null: a plan figure, no interval). */
+  protected readonly intervalNote = computed(() => (this.view().layout === 'compare' ? compareIntervalNote(this.view().metric) : null));
   /** Whether the viewer may submit plans (researchers and up). */
   protected readonly canSubmit = computed(() => hasRole(this.session.role(), 'researcher'));
 

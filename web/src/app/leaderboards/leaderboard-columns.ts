@@ -1,5 +1,6 @@
 /** Grid column definitions of a board view: ids equal the API's column ids, filters limited to what the API takes. */
 import type { ColDef, ValueFormatterParams } from 'ag-grid-community';
+import { CI95_METHOD } from '@shared/confidence-interval';
 import type { LeaderboardColumn } from '@shared/leaderboards';
 import { GRID_FILTER_OPTIONS } from './grid-view';
 
@@ -13,6 +14,8 @@ export type GridRow = Record<string, string | number | null> & {
   readonly __resultId?: number;
   readonly __best?: string;
   readonly __colliding?: string;
+  /** 'yes' when the comparison figure carries 95 % intervals, then in `<column>__lo` / `<column>__hi` (null: not stored). */
+  readonly __intervals?: string;
 };
 
 const listed = (list: string | undefined, id: string): boolean => (list ?? '').split(',').includes(id);
@@ -45,10 +48,56 @@ function formatIntervalBound(id: string, digits: number | undefined) {
   };
 }
 
-/** Column definitions for the visible columns, in order, with the view's sort applied. */
-export function gridColumns(columns: readonly LeaderboardColumn[], sort: readonly { column: string; direction: 'asc' | 'desc' }[]): ColDef<GridRow>[] {
+/** Which interval a comparison figure's model cells carry: a rate's Wilson interval or a mean's stored one. */
+export type CellIntervalKind = 'rate' | 'mean';
+
+const COLLIDING_TIP = 'This plan collides at nominal times (open-loop replay with zero noise).';
+
+/** A number without digit grouping, so the commas of "x [lo, hi]" only separate the bounds. */
+const plain = (v: number, digits: number | undefined): string =>
+  digits === undefined ? String(v) : v.toLocaleString('en', { minimumFractionDigits: digits, maximumFractionDigits: digits, useGrouping: false });
+
+/**
+ * The compact text of a model cell with its 95 % interval (issue 12, item 5): a rate as whole
+ * percent, "85 % [71, 93]", the bounds rounded outwards (so the text never claims a narrower
+ * interval than computed); a mean as "4100 [4050, 4150]" in the header's unit; "4100 (interval
+ * not stored)" for executions recorded before intervals were kept; "–" without a value.
+ */
+export function cellWithInterval(kind: CellIntervalKind, value: number | null | undefined, lo: number | null | undefined, hi: number | null | undefined, digits?: number): string {
+  if (value === null || value === undefined) return '–';
+  const hasInterval = typeof lo === 'number' && typeof hi === 'number';
+  if (kind === 'rate') {
+    const pct = `${Math.round(value * 100)} %`;
+    return hasInterval ? `${pct} [${Math.floor(lo * 100 + 1e-9)}, ${Math.ceil(hi * 100 - 1e-9)}]` : `${pct} (interval not stored)`;
+  }
+  return hasInterval ? `${plain(value, digits)} [${plain(lo, digits)}, ${plain(hi, digits)}]` : `${plain(value, digits)} (interval not stored)`;
+}
+
+/** Tooltip of a model cell: its interval with the method, and whether its plan collides at nominal times. */
+function modelCellTooltip(id: string, kind: CellIntervalKind | null) {
+  return (p: { data?: GridRow }): string | undefined => {
+    const parts: string[] = [];
+    const lo = p.data?.[`${id}__lo`];
+    const hi = p.data?.[`${id}__hi`];
+    if (kind && typeof p.data?.[id] === 'number') {
+      parts.push(typeof lo === 'number' && typeof hi === 'number'
+        ? `95 % interval ${lo.toPrecision(3)} to ${hi.toPrecision(4)}: ${kind === 'rate' ? `${CI95_METHOD.rate}, from this plan's rate × runs` : `${CI95_METHOD.mean}, as stored with the execution`}.`
+        : 'Interval not stored (execution recorded before intervals were kept).');
+    }
+    if (listed(p.data?.__colliding, id)) parts.push(COLLIDING_TIP);
+    return parts.length > 0 ? parts.join(' ') : undefined;
+  };
+}
+
+/**
+ * Column definitions for the visible columns, in order, with the view's sort applied. In the
+ * comparison layout `intervalKind` says whether model cells show their 95 % interval.
+ */
+export function gridColumns(columns: readonly LeaderboardColumn[], sort: readonly { column: string; direction: 'asc' | 'desc' }[], intervalKind: CellIntervalKind | null = null): ColDef<GridRow>[] {
   return columns.map((c) => {
     const sortAt = sort.findIndex((s) => s.column === c.id);
+    const isModel = c.id.startsWith('m_');
+    const withInterval = isModel && intervalKind !== null;
     return {
       colId: c.id,
       field: c.id,
@@ -64,15 +113,15 @@ export function gridColumns(columns: readonly LeaderboardColumn[], sort: readonl
         'best-cell': (p: { data?: GridRow }) => listed(p.data?.__best, c.id),
         'colliding-cell': (p: { data?: GridRow }) => listed(p.data?.__colliding, c.id),
       } : undefined,
-      tooltipValueGetter: c.id.startsWith('m_')
-        ? (p: { data?: GridRow }) => (listed(p.data?.__colliding, c.id) ? 'This plan collides at nominal times (open-loop replay with zero noise).' : undefined)
-        : undefined,
+      tooltipValueGetter: isModel ? modelCellTooltip(c.id, intervalKind) : undefined,
       filterParams: { filterOptions: [...GRID_FILTER_OPTIONS[c.kind]], maxNumConditions: 1, debounceMs: 300 },
       type: c.kind === 'number' ? 'rightAligned' : undefined,
-      valueFormatter: /^(realised|spread).*(Lo|Hi)$/.test(c.id) ? formatIntervalBound(c.id, c.digits) : c.kind === 'number' ? formatNumber(c.digits) : undefined,
+      valueFormatter: withInterval
+        ? (p: ValueFormatterParams<GridRow>) => cellWithInterval(intervalKind, p.value as number | null, p.data?.[`${c.id}__lo`] as number | null, p.data?.[`${c.id}__hi`] as number | null, c.digits)
+        : /^(realised|spread).*(Lo|Hi)$/.test(c.id) ? formatIntervalBound(c.id, c.digits) : c.kind === 'number' ? formatNumber(c.digits) : undefined,
       minWidth: c.kind === 'number' ? 110 : 120,
       flex: c.kind === 'number' ? 0 : 1,
-      width: c.kind === 'number' ? 140 : undefined,
+      width: withInterval ? 190 : c.kind === 'number' ? 140 : undefined,
     };
   });
 }
