@@ -9,6 +9,8 @@
 import { meanInterval, wilsonInterval, type Interval95 } from '@shared/confidence-interval';
 import type { ExportJson } from '@shared/exports-json';
 import type { LeaderboardCharts, LeaderboardPage, LeaderboardSummary } from '@shared/leaderboards';
+import { parseView } from '@shared/leaderboards';
+import { compareQueries } from '../../api/src/leaderboards/compare-query';
 import { insertResults, startBoardWorld, type BoardWorld, type SeedResult } from './leaderboard-support';
 
 /** The t interval of a mean of rates, cut to [0, 1] as the board cuts it. */
@@ -64,6 +66,17 @@ describe('95 % intervals in the comparison layout, the per-model summary and the
     // Only the shown model columns get one.
     const two = await get<LeaderboardPage>('/api/leaderboards/rows?layout=compare&metric=successOpenLoop&cols=scenario,m_classic');
     expect(rowOfA(two)?.intervalsByColumn).toEqual({ m_classic: wilsonInterval(7, 10) });
+  });
+
+  it('looks the interval sources up for the page\'s rows only, never while finding the window or counting', () => {
+    const { page, count } = compareQueries(parseView({ layout: 'compare', metric: 'successOpenLoop' }), null, {}, { start: 0, end: 100 });
+    const windowEnd = page.sql.indexOf('FROM w JOIN');
+    // The five model entries are joined after the window (at most `end − start` rows), by the entries' unique key.
+    expect(page.sql.slice(windowEnd).match(/LEFT JOIN leaderboard_entries i_m_/g)).toHaveLength(5);
+    expect(page.sql.slice(0, windowEnd)).not.toContain('leaderboard_entries');
+    expect(count.sql).not.toContain('leaderboard_entries');
+    const plan = compareQueries(parseView({ layout: 'compare', metric: 'tiMakespanMs' }), null, {}, { start: 0, end: 100 });
+    expect(plan.page.sql).not.toContain('leaderboard_entries');
   });
 
   it('gives a mean its stored interval, none when not stored, and plan figures none at all', async () => {
