@@ -9,7 +9,7 @@ import type { Interval95 } from './confidence-interval';
 import type { SolverBuild } from './runs';
 import { z } from 'zod';
 import { COLLISION_MODES, EXECUTION_LIMITS, EXECUTION_POLICY_NAMES, type CollisionModeName, type ExecutionPolicyName } from './executions-constants';
-import { ACTION_KINDS, FOLLOWING_RULES, HEADINGS, PLAN_MODELS, type CellXY, type Heading, type PlanModel, type RobotProfile, type Schedule } from './plan';
+import { ACTION_KINDS, FOLLOWING_RULES, HEADINGS, PLAN_MODELS, type CellXY, type FollowingRule, type Heading, type PlanModel, type RobotProfile, type Schedule } from './plan';
 import { RobotProfileSchema } from './sweeps';
 
 const whole = (min: number, max: number) => z.number().int().min(min).max(max);
@@ -230,7 +230,7 @@ export interface ExecutionView {
   readonly source: ExecutionSource;
   readonly instance: ExecutionInstanceView;
   readonly model: PlanModel;
-  readonly modelOptions: { readonly startHeading: Heading | 'free'; readonly k?: number };
+  readonly modelOptions: { readonly startHeading: Heading | 'free'; readonly k?: number; readonly following?: FollowingRule };
   readonly profile: RobotProfile;
   readonly plan: ExecutionPlanView;
   readonly figures: PlanFigures;

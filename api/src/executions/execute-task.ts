@@ -66,7 +66,7 @@ type Refusal = Extract<ExecutionTaskOutcome, { kind: 'refused' }>;
 
 /** The request's following rule (ModelOptionsSchema `following`; absent = allowed). */
 function followingOf(task: ExecutionTask): FollowingRule {
-  return (task.modelOptions as { readonly following?: FollowingRule }).following ?? 'allowed';
+  return task.modelOptions.following ?? 'allowed';
 }
 
 /** A refusal when the request asks for a following rule its model does not take (k-robust, weighted-split). */

@@ -7,7 +7,7 @@ import type { CollisionModeName, ExecutionErrorCode, ExecutionPolicyName } from 
 import type {
   ExecutionInstanceView, ExecutionPlanView, ExecutionSource, ExecutionSummaryView, PlanFigures,
 } from '@shared/executions';
-import type { CellXY, Heading, PlanModel, RobotProfile, Schedule } from '@shared/plan';
+import type { CellXY, FollowingRule, Heading, PlanModel, RobotProfile, Schedule } from '@shared/plan';
 import type { SolverBuild } from '@shared/runs';
 
 /** A MAPF instance in transferable form: '1' free / '0' blocked per cell, row by row. */
@@ -27,7 +27,7 @@ export type ExecutionTaskPlan =
 export interface ExecutionTask {
   readonly instance: ExecutionTaskInstance;
   readonly model: PlanModel;
-  readonly modelOptions: { readonly startHeading: Heading | 'free'; readonly k?: number };
+  readonly modelOptions: { readonly startHeading: Heading | 'free'; readonly k?: number; readonly following?: FollowingRule };
   readonly profile: RobotProfile;
   readonly plan?: ExecutionTaskPlan;
   /** Where a given plan came from: the request body (default) or a stored sweep result. */
@@ -53,7 +53,7 @@ export interface StoredPlan {
   readonly source: ExecutionSource;
   readonly instance: ExecutionInstanceView;
   readonly model: PlanModel;
-  readonly modelOptions: { readonly startHeading: Heading | 'free'; readonly k?: number };
+  readonly modelOptions: { readonly startHeading: Heading | 'free'; readonly k?: number; readonly following?: FollowingRule };
   readonly profile: RobotProfile;
   readonly plan: ExecutionPlanView;
   readonly figures: PlanFigures;

@@ -73,7 +73,7 @@ function attributionOf(instance: MapfInstance, e: ExecutionView, s: ExecutionSum
  * same step; the following conflict of Stern et al., SoCS 2019).
  */
 export function followingRuleText(e: Pick<ExecutionView, 'model' | 'modelOptions'>): string {
-  const options = e.modelOptions as { readonly k?: number; readonly following?: string };
+  const options = e.modelOptions;
   if (e.model === 'k-robust') {
     return (options.k ?? 1) >= 1
       ? `The k-robust plan (k = ${options.k ?? 1}) forbids following: a cell stays free for k steps after an agent leaves it.`
