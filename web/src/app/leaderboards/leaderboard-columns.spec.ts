@@ -44,9 +44,17 @@ describe('model cells with a 95 % interval', () => {
     expect([text('m_classic'), text('m_orientation_split'), text('m_weighted_split'), text('m_k_robust')])
       .toEqual(['70 % [39, 90]', '0 % [0, 28]', '95 % (interval not stored)', '–']);
     const tip = (id: string) => (defs.find((d) => d.colId === id)?.tooltipValueGetter as (p: unknown) => string | undefined)({ data: row });
-    expect(tip('m_classic')).toContain('Wilson score interval');
+    const [lo, hi] = wilsonInterval(7, 10);
+    expect(tip('m_classic')).toContain(`95 % interval ${lo.toFixed(3)} to ${hi.toFixed(3)}: Wilson score interval`);
     expect(tip('m_orientation_split')).toContain('collides at nominal times');
     expect(tip('m_k_robust')).toBeUndefined();
+  });
+
+  it('names a mean\'s stored interval in ms in the tooltip', () => {
+    const defs = gridColumns(compareColumns('realisedOpenLoop'), [], 'mean');
+    const tip = defs.find((d) => d.colId === 'm_classic')?.tooltipValueGetter as (p: unknown) => string | undefined;
+    expect(tip({ data: { m_classic: 4100, m_classic__lo: 4000, m_classic__hi: 4200.4 } })).toContain('95 % interval 4000 to 4200: Student t interval of the mean');
+    expect(tip({ data: { m_classic: 4100, m_classic__lo: null, m_classic__hi: null } })).toBe('Interval not stored (execution recorded before intervals were kept).');
   });
 
   it('leaves plan figures without intervals', () => {

@@ -74,14 +74,14 @@ export function cellWithInterval(kind: CellIntervalKind, value: number | null | 
 }
 
 /** Tooltip of a model cell: its interval with the method, and whether its plan collides at nominal times. */
-function modelCellTooltip(id: string, kind: CellIntervalKind | null) {
+function modelCellTooltip(id: string, kind: CellIntervalKind | null, digits: number | undefined) {
   return (p: { data?: GridRow }): string | undefined => {
     const parts: string[] = [];
     const lo = p.data?.[`${id}__lo`];
     const hi = p.data?.[`${id}__hi`];
     if (kind && typeof p.data?.[id] === 'number') {
       parts.push(typeof lo === 'number' && typeof hi === 'number'
-        ? `95 % interval ${lo.toPrecision(3)} to ${hi.toPrecision(4)}: ${kind === 'rate' ? `${CI95_METHOD.rate}, from this plan's rate × runs` : `${CI95_METHOD.mean}, as stored with the execution`}.`
+        ? `95 % interval ${kind === 'rate' ? `${lo.toFixed(3)} to ${hi.toFixed(3)}` : `${plain(lo, digits)} to ${plain(hi, digits)}`}: ${kind === 'rate' ? `${CI95_METHOD.rate}, from this plan's rate × runs` : `${CI95_METHOD.mean}, as stored with the execution`}.`
         : 'Interval not stored (execution recorded before intervals were kept).');
     }
     if (listed(p.data?.__colliding, id)) parts.push(COLLIDING_TIP);
@@ -113,7 +113,7 @@ export function gridColumns(columns: readonly LeaderboardColumn[], sort: readonl
         'best-cell': (p: { data?: GridRow }) => listed(p.data?.__best, c.id),
         'colliding-cell': (p: { data?: GridRow }) => listed(p.data?.__colliding, c.id),
       } : undefined,
-      tooltipValueGetter: isModel ? modelCellTooltip(c.id, intervalKind) : undefined,
+      tooltipValueGetter: isModel ? modelCellTooltip(c.id, intervalKind, c.digits) : undefined,
       filterParams: { filterOptions: [...GRID_FILTER_OPTIONS[c.kind]], maxNumConditions: 1, debounceMs: 300 },
       type: c.kind === 'number' ? 'rightAligned' : undefined,
       valueFormatter: withInterval
