@@ -5,7 +5,7 @@
  */
 import { toCsv } from './exports-csv';
 import { toJsonExport, type ExportJson } from './exports-json';
-import { toLatex } from './exports-latex';
+import { latexEscape, toLatex } from './exports-latex';
 import { toMarkdown } from './exports-markdown';
 import { displayWithInterval, withIntervalColumns, type ExportTable } from './exports-table';
 
@@ -58,6 +58,10 @@ describe('comparison exports with 95 % intervals', () => {
     const tex = toLatex(table);
     expect(tex).toContain('a & 0.70 {[}0.397, 0.892{]} & \\textbf{0.90 {[}interval not stored{]}} \\\\');
     expect(tex).toContain('b & \\textbf{0.50 {[}0.200, 0.800{]}} & – \\\\');
+  });
+
+  it('writes the math signs of the interval methods as LaTeX math (pdflatex\'s utf8 input knows no −, √, ≥, ≤)', () => {
+    expect(latexEscape('mean ± t(0.975, n−1)·s/√n, n ≥ 2, ≤ 1')).toBe('mean ± t(0.975, n$-$1)·s/$\\surd$n, n $\\geq$ 2, $\\leq$ 1');
   });
 
   it('leaves tables without intervals as they were', () => {

@@ -22,17 +22,26 @@ const LATEX_SPECIALS: Readonly<Record<string, string>> = {
   '[': '{[}',
   ']': '{]}',
   '*': '{*}',
+  // Math signs of the interval method texts (CI95_METHOD) that pdflatex's utf8 input encoding
+  // does not know ("Unicode character − (U+2212) not set up for use with LaTeX"; checked with
+  // pdflatex, TeX Live): written as math. ±, ·, ×, ÷, † and – it knows.
+  '−': '$-$',
+  '√': '$\\surd$',
+  '≥': '$\\geq$',
+  '≤': '$\\leq$',
+  '≈': '$\\approx$',
+  '≠': '$\\neq$',
 };
 
 /**
  * Escapes LaTeX's ten special characters (LaTeX2e unofficial reference manual, "Reserved
- * characters": # $ % & ~ _ ^ \ { }), brackets and stars in one pass (so the braces a
+ * characters": # $ % & ~ _ ^ \ { }), brackets, stars and the math signs above in one pass (so the braces a
  * replacement adds are never escaped again), after folding control characters and line breaks
  * to spaces: a blank line would end a \caption{} or a table cell with "Paragraph ended before …
  * was complete".
  */
 export function latexEscape(text: string): string {
-  return foldControlCharacters(text).replace(/[\\_%&#${}~^[\]*]/g, (c) => LATEX_SPECIALS[c]);
+  return foldControlCharacters(text).replace(/[\\_%&#${}~^[\]*−√≥≤≈≠]/g, (c) => LATEX_SPECIALS[c]);
 }
 
 /** The table as a LaTeX `table` float with a booktabs `tabular`. */

@@ -6,12 +6,18 @@
  * the mean execution success rate a Student t interval over instances. Expected intervals are
  * computed here by shared/confidence-interval.ts from the seeded figures, not copied from output.
  */
+import { spawnSync } from 'node:child_process';
+import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
 import { meanInterval, wilsonInterval, type Interval95 } from '@shared/confidence-interval';
 import type { ExportJson } from '@shared/exports-json';
 import type { LeaderboardCharts, LeaderboardPage, LeaderboardSummary } from '@shared/leaderboards';
 import { parseView } from '@shared/leaderboards';
 import { compareQueries } from '../../api/src/leaderboards/compare-query';
 import { insertResults, startBoardWorld, type BoardWorld, type SeedResult } from './leaderboard-support';
+
+const hasPdflatex = spawnSync('pdflatex', ['--version']).status === 0;
 
 /** The t interval of a mean of rates, cut to [0, 1] as the board cuts it. */
 const rateMean = (values: number[]): Interval95 => {
@@ -121,6 +127,23 @@ describe('95 % intervals in the comparison layout, the per-model summary and the
     expect(realisedMd).toContain('3100 \\[interval not stored\\] †');
     expect(realisedMd.split('\n')[0]).toContain('Student t interval of the mean');
   });
+
+  // Both captions name the t method (mean ± t(0.975, n−1)·s/√n), whose − and √ pdflatex's utf8 input does not know unescaped.
+  (hasPdflatex ? it.each : it.skip.each)([
+    ['the comparison table with its intervals', 'layout=compare&metric=realisedOpenLoop', '{[}interval not stored{]}'],
+    ['the entries table with interval columns', 'cols=model,successOpenLoop,successOpenLoopLo,successOpenLoopHi,realisedOpenLoop,realisedOpenLoopLo,realisedOpenLoopHi', 'Student t interval'],
+  ])(`compiles %s${hasPdflatex ? '' : ' (skipped: pdflatex is not installed)'}`, async (_name, q, expected) => {
+    const tex = await exported(`format=latex&${q}`);
+    expect(tex).toContain(expected);
+    const dir = mkdtempSync(join(tmpdir(), 'qt-latex-intervals-'));
+    try {
+      writeFileSync(join(dir, 'table.tex'), `\\documentclass{article}\n\\usepackage[T1]{fontenc}\n\\usepackage[utf8]{inputenc}\n\\usepackage{booktabs}\n\\usepackage[margin=5mm,landscape]{geometry}\n\\begin{document}\n\\tiny\n${tex}\\end{document}\n`);
+      const run = spawnSync('pdflatex', ['-interaction=nonstopmode', '-halt-on-error', 'table.tex'], { cwd: dir, encoding: 'utf8', timeout: 60_000 });
+      expect({ status: run.status, log: run.status === 0 ? '' : run.stdout.slice(-1500) }).toEqual({ status: 0, log: '' });
+    } finally {
+      rmSync(dir, { recursive: true, force: true });
+    }
+  }, 90_000);
 
   it('gives the per-model mean execution success rate a t interval over its solved instances', async () => {
     const summary = await get<LeaderboardSummary>('/api/leaderboards/summary?bestAmong=all');
