@@ -1,4 +1,4 @@
-import { agentCountsOf, canonicalJson, checkSweepSize, expandSweep, ModelSpecSchema, repeatedModels, SweepDefinitionSchema, sweepSize, type SweepDefinition } from './sweeps';
+import { agentCountsOf, canonicalJson, CBS_SWITCH_NAMES, CBS_SWITCH_TEXT, cbsSwitchLabel, describeModelSpec, checkSweepSize, expandSweep, ModelSpecSchema, repeatedModels, SweepDefinitionSchema, sweepSize, type SweepDefinition } from './sweeps';
 
 const def = (over: Record<string, unknown> = {}): SweepDefinition => SweepDefinitionSchema.parse({
   name: 'floor test',
@@ -58,10 +58,21 @@ describe('sweep definitions', () => {
     ]);
     expect(repeatedModels(models)).toEqual([
       { index: 4, message: 'models[4] repeats models[0]: classic, start heading free' },
-      { index: 5, message: 'models[5] repeats models[3]: classic, start heading free, switched off: bypass, wdg' },
+      { index: 5, message: 'models[5] repeats models[3]: classic, start heading free, switched off: Bypass, WDG heuristic' },
     ]);
     expect(SweepDefinitionSchema.safeParse({ ...def(), models: [{ model: 'weighted-split' }, { model: 'weighted-split', startHeading: 'free' }] }).error?.issues)
       .toEqual([expect.objectContaining({ path: ['models', 1], message: 'models[1] repeats models[0]: weighted-split, start heading free' })]);
+  });
+
+  it('gives every CBS switch a label and an explanation of its own, and describes specs with the labels, not the field names', () => {
+    // The labels are ours; the field names stay the API contract (issue 14, item 11).
+    const labels = CBS_SWITCH_NAMES.map(cbsSwitchLabel);
+    expect(labels).toEqual(['Prioritised conflicts', 'Bypass', 'WDG heuristic', 'Disjoint splitting', 'Target reasoning', 'Corridor reasoning', 'Rectangle reasoning']);
+    expect(new Set(labels).size).toBe(CBS_SWITCH_NAMES.length);
+    expect(Object.keys(CBS_SWITCH_TEXT).sort()).toEqual([...CBS_SWITCH_NAMES].sort());
+    for (const n of CBS_SWITCH_NAMES) expect(CBS_SWITCH_TEXT[n].explanation).toMatch(/^[A-Z].{30,140}\.$/);
+    const spec = ModelSpecSchema.parse({ model: 'k-robust', k: 2, switches: { disjointSplitting: false, prioritizeConflicts: false, corridorReasoning: true } });
+    expect(describeModelSpec(spec)).toBe('k-robust k=2, start heading free, switched off: Prioritised conflicts, Disjoint splitting');
   });
 
   it('writes canonical JSON whatever the key order', () => {

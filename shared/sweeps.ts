@@ -18,6 +18,60 @@ export const CBS_SWITCH_NAMES = [
 ] as const;
 export type CbsSwitchName = (typeof CBS_SWITCH_NAMES)[number];
 
+/** What people read about one CBS switch: a short label and one sentence on what turning it off removes. */
+export interface CbsSwitchText {
+  readonly label: string;
+  readonly explanation: string;
+}
+
+/**
+ * Labels of the CBS switches for screens, progress labels and error messages. The identifiers in
+ * CBS_SWITCH_NAMES stay the API's field names (the stable contract); people see these. Technique
+ * names are kept as published. Papers, cited from memory (not re-checked here):
+ * - prioritised conflicts (cardinal conflicts first, ICBS): Boyarski et al., IJCAI 2015;
+ * - bypass: Boyarski et al., 2015 (bypassing conflicts, ICAPS 2015 as remembered; also part of ICBS);
+ * - WDG heuristic: Li, Felner, Boyarski, Ma, Koenig, IJCAI 2019;
+ * - disjoint splitting: Li, Harabor, Stuckey, Ma, Koenig, ICAPS 2019;
+ * - rectangle reasoning: Li, Harabor, Stuckey, Ma, Koenig, AAAI 2019;
+ * - corridor and target reasoning: Li, Gange, Harabor, Stuckey, Ma, Koenig (ICAPS 2020 as
+ *   remembered), all three reasonings together in Li et al., AIJ 2021.
+ */
+export const CBS_SWITCH_TEXT: Readonly<Record<CbsSwitchName, CbsSwitchText>> = {
+  prioritizeConflicts: {
+    label: 'Prioritised conflicts',
+    explanation: 'Splits first on conflicts that must raise the cost of a node, so the search tree stays small.',
+  },
+  bypass: {
+    label: 'Bypass',
+    explanation: 'Keeps a child\'s paths in place of its parent\'s when they cost the same and conflict less, instead of branching.',
+  },
+  wdg: {
+    label: 'WDG heuristic',
+    explanation: 'Raises each node\'s cost estimate by what pairs of dependent agents must add between them.',
+  },
+  disjointSplitting: {
+    label: 'Disjoint splitting',
+    explanation: 'Branches into "the agent is there" and "the agent is not there", so the two children never share a solution.',
+  },
+  targetReasoning: {
+    label: 'Target reasoning',
+    explanation: 'When an agent passes over another\'s goal after that one has stopped there, branches on the length of the stopped agent\'s path.',
+  },
+  corridorReasoning: {
+    label: 'Corridor reasoning',
+    explanation: 'Settles two agents meeting head-on in a one-cell-wide passage in one branching, with time-range constraints.',
+  },
+  rectangleReasoning: {
+    label: 'Rectangle reasoning',
+    explanation: 'Settles two agents crossing in an open area with many equally short paths in one branching, with barrier constraints.',
+  },
+};
+
+/** The label of a CBS switch for people, e.g. `WDG heuristic` for `wdg`. */
+export function cbsSwitchLabel(name: CbsSwitchName): string {
+  return CBS_SWITCH_TEXT[name].label;
+}
+
 /** Limits on one sweep, checked by `checkSweepSize` on both sides. */
 export const SWEEP_LIMITS = {
   /** Runs (solves) one sweep may expand to. */
@@ -122,7 +176,7 @@ export type SweepDefinition = z.output<typeof SweepDefinitionSchema>;
 export type SweepDefinitionInput = z.input<typeof SweepDefinitionSchema>;
 
 /** CBS switches a unit-step spec turns off, in CBS_SWITCH_NAMES order (a switch set to true is the same as absent). */
-function switchesOff(m: ModelSpec): CbsSwitchName[] {
+export function switchesOff(m: ModelSpec): CbsSwitchName[] {
   return 'switches' in m ? CBS_SWITCH_NAMES.filter((n) => m.switches[n] === false) : [];
 }
 
@@ -131,13 +185,13 @@ export function forbidsFollowing(m: ModelSpec): boolean {
   return 'following' in m && m.following === 'forbidden';
 }
 
-/** A model spec for people, e.g. "k-robust k=2, start heading free, switched off: bypass, wdg". */
+/** A model spec for people, e.g. "k-robust k=2, start heading free, switched off: Bypass, WDG heuristic". */
 export function describeModelSpec(m: ModelSpec): string {
   const off = switchesOff(m);
   return [
     `${m.model}${'k' in m ? ` k=${m.k}` : ''}`, `start heading ${m.startHeading}`,
     ...(forbidsFollowing(m) ? ['following forbidden'] : []),
-    ...(off.length > 0 ? [`switched off: ${off.join(', ')}`] : []),
+    ...(off.length > 0 ? [`switched off: ${off.map(cbsSwitchLabel).join(', ')}`] : []),
   ].join(', ');
 }
 

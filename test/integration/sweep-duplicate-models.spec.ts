@@ -39,7 +39,7 @@ describe('sweeps with duplicate model specs', () => {
     [
       'a switch left on written out (absent means on)',
       [{ model: 'classic', switches: { bypass: false } }, { model: 'classic', switches: { bypass: false, wdg: true } }],
-      1, 'models[1] repeats models[0]: classic, start heading free, switched off: bypass',
+      1, 'models[1] repeats models[0]: classic, start heading free, switched off: Bypass',
     ],
   ] as const)('refuses %s in preview and in launch, naming the repeat', async (_what, models, index, message) => {
     const def = definition(models as unknown as SweepDefinitionInput['models']);
