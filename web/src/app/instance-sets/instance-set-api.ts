@@ -3,8 +3,8 @@ import { HttpClient, HttpContext, HttpParams, type HttpEvent } from '@angular/co
 import { Injectable, inject } from '@angular/core';
 import type { Observable } from 'rxjs';
 import {
-  UPLOAD_FIELD, type CreateInstanceSetRequest, type GenerateInstancesRequest, type InstanceSetDetail,
-  type InstanceSetListResponse, type MapDetail, type ScenarioDetail, type UploadResponse,
+  UPLOAD_FIELD, type CreateInstanceSetRequest, type DeletionPreview, type GenerateInstancesRequest, type InstanceSetDetail,
+  type InstanceSetListResponse, type MapDetail, type ScenarioDetail, type UpdateInstanceSetRequest, type UploadResponse,
 } from '@shared/instance-sets';
 import { IS_QUIET } from '../core/error-interceptor';
 
@@ -36,6 +36,21 @@ export class InstanceSetApi {
   /** POST /api/instance-sets. */
   create(body: CreateInstanceSetRequest): Observable<InstanceSetDetail> {
     return this.http.post<InstanceSetDetail>('/api/instance-sets', body);
+  }
+
+  /** PATCH /api/instance-sets/:id (quiet: the edit dialog shows a refusal beside the field it names). */
+  update(id: number, body: UpdateInstanceSetRequest): Observable<InstanceSetDetail> {
+    return this.http.patch<InstanceSetDetail>(`/api/instance-sets/${id}`, body, { context: new HttpContext().set(IS_QUIET, true) });
+  }
+
+  /** GET /api/maps|scenarios/:id/deletion-preview: what deleting the file takes with it. */
+  deletionPreview(kind: 'maps' | 'scenarios', id: number): Observable<DeletionPreview> {
+    return this.http.get<DeletionPreview>(`/api/${kind}/${id}/deletion-preview`);
+  }
+
+  /** DELETE /api/maps/:id or /api/scenarios/:id. */
+  removeFile(kind: 'maps' | 'scenarios', id: number): Observable<void> {
+    return this.http.delete<void>(`/api/${kind}/${id}`);
   }
 
   /** DELETE /api/instance-sets/:id. */

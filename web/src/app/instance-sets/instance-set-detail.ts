@@ -1,12 +1,14 @@
 /**
  * The page at /instance-sets/:id: the set's facts, the upload panel with a real progress bar and
  * the problems of a refused upload by file, line and column, map previews, the scenario table
- * and the generator form.
+ * and the generator form. Those who may manage the set change its name, description, source and
+ * visibility in a dialog, and delete one map or scenario after a dialog says what goes with it.
  */
 import { ChangeDetectionStrategy, Component, DestroyRef, computed, inject, input, signal } from '@angular/core';
 import { takeUntilDestroyed, toObservable, toSignal } from '@angular/core/rxjs-interop';
 import { DecimalPipe } from '@angular/common';
 import { MatButtonModule } from '@angular/material/button';
+import { MatDialog } from '@angular/material/dialog';
 import { MatExpansionModule } from '@angular/material/expansion';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatTableModule } from '@angular/material/table';
@@ -14,9 +16,11 @@ import { Router, RouterLink } from '@angular/router';
 import { catchError, combineLatest, firstValueFrom, forkJoin, map, of, switchMap } from 'rxjs';
 import type { InstanceSetDetail, MapDetail, UploadResponse } from '@shared/instance-sets';
 import { MapThumbnail } from '../maps/map-thumbnail';
+import { FileDeletionDialog, type FileDeletionTarget } from './file-deletion-dialog';
 import { FileDropZone } from './file-drop-zone';
 import { GeneratorForm } from './generator-form';
 import { InstanceSetApi } from './instance-set-api';
+import { InstanceSetEditDialog } from './instance-set-edit-dialog';
 import { problemPlace, stateAfterError, stateAfterEvent, type UploadState } from './upload-outcome';
 
 /** Previews are drawn for this many maps; the rest are listed by name (each preview loads the map's cells). */
@@ -34,6 +38,7 @@ export default class InstanceSetDetailPage {
   private readonly api = inject(InstanceSetApi);
   private readonly router = inject(Router);
   private readonly destroyRef = inject(DestroyRef);
+  private readonly dialog = inject(MatDialog);
   /** Route parameter. */
   readonly id = input.required<string>();
   private readonly reloads = signal(0);
@@ -59,7 +64,9 @@ export default class InstanceSetDetailPage {
   protected readonly upload = signal<UploadState>({ kind: 'idle' });
   protected readonly isUploading = computed(() => this.upload().kind === 'sending');
   protected readonly mapNames = computed(() => new Map((this.set()?.maps ?? []).map((m) => [m.id, m.name])));
-  protected readonly scenarioColumns = ['name', 'map', 'rowCount', 'maxAgents', 'download'];
+  protected readonly scenarioColumns = ['name', 'map', 'rowCount', 'maxAgents', 'download', 'remove'];
+  /** What the last file deletion did, for the status line. */
+  protected readonly removal = signal<string | null>(null);
   protected readonly problemColumns = ['file', 'place', 'message'];
   protected readonly problemPlace = problemPlace;
   protected readonly previewLimit = PREVIEW_LIMIT;
@@ -81,6 +88,29 @@ export default class InstanceSetDetailPage {
   protected showGenerated(result: UploadResponse): void {
     this.upload.set({ kind: 'stored', result });
     this.reloads.update((n) => n + 1);
+  }
+
+  /** Opens the edit dialog and shows the changed set. */
+  protected editSet(set: InstanceSetDetail): void {
+    this.dialog.open<InstanceSetEditDialog, InstanceSetDetail, InstanceSetDetail>(InstanceSetEditDialog, { data: set })
+      .afterClosed().pipe(takeUntilDestroyed(this.destroyRef)).subscribe((changed) => {
+        if (changed) this.reloads.update((n) => n + 1);
+      });
+  }
+
+  /** Asks (saying what goes with it), then deletes one map or scenario and reloads the set. */
+  protected removeFile(target: FileDeletionTarget): void {
+    this.dialog.open<FileDeletionDialog, FileDeletionTarget, boolean>(FileDeletionDialog, { data: target })
+      .afterClosed().pipe(takeUntilDestroyed(this.destroyRef)).subscribe(async (confirmed) => {
+        if (!confirmed) return;
+        try {
+          await firstValueFrom(this.api.removeFile(target.kind, target.id));
+          this.removal.set(`Deleted ${target.kind === 'maps' ? 'map' : 'scenario'} ${target.name}.`);
+        } catch {
+          // The error interceptor has said why; the set is reloaded either way, so the page shows what is stored.
+        }
+        this.reloads.update((n) => n + 1);
+      });
   }
 
   /** Deletes the set after the user confirms, then returns to the table. */
