@@ -1,12 +1,16 @@
 /** Progress and result rows of a sweep, read with SQL aggregates (shared by the routes and the SSE stream). */
 import { QueryTypes, type Sequelize } from 'sequelize';
 import { emptyRunCounts, isSweepOver, type ExecutionView, type RunStatus, type SweepProgress, type SweepResultRow, type SweepStatus } from '@shared/runs';
-import { forbidsFollowing, type ModelSpec, type SweepDefinition, type SweepPolicy } from '@shared/sweeps';
+import { cbsSwitchLabel, forbidsFollowing, switchesOff, type ModelSpec, type SweepDefinition, type SweepPolicy } from '@shared/sweeps';
 import type { PlanModel } from '@shared/plan';
 
-/** A short label of a model with its parameters, e.g. `k-robust k=2`, `classic following forbidden`. */
+/**
+ * A short label of a model with its parameters, e.g. `k-robust k=2`, `classic following forbidden`,
+ * `classic without Bypass, WDG heuristic` (switches by their labels in shared/sweeps.ts; the
+ * definition in the same response keeps the field names).
+ */
 export function modelLabel(m: ModelSpec): string {
-  const off = 'switches' in m ? Object.entries(m.switches).filter(([, v]) => v === false).map(([k]) => k) : [];
+  const off = switchesOff(m).map(cbsSwitchLabel);
   return [
     m.model, m.model === 'k-robust' ? `k=${m.k}` : '', forbidsFollowing(m) ? 'following forbidden' : '', off.length ? `without ${off.join(', ')}` : '',
   ].filter(Boolean).join(' ');
