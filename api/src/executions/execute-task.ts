@@ -11,13 +11,14 @@ import { summaryView, type PlanFigures } from '@shared/executions';
 import { FOLLOWING_MODELS, type FollowingRule, type PlanModel, type Schedule } from '@shared/plan';
 import { simulateExecution, type ExecutionSummary } from '@solvers/execute';
 import type { MapfInstance } from '@solvers/instance';
-import { scheduleFromPaths, type TurnSchedule } from '@solvers/models/turn-schedule';
+import type { TurnSchedule } from '@solvers/models/turn-schedule';
 import { isModelAvailable, runPlanTask } from '@solvers/run/run-plan-task';
 import { validateClassicPlan } from '@solvers/validate/classic';
 import { validateKRobustPlan } from '@solvers/validate/k-robust';
 import { validateSchedule } from '@solvers/validate/schedule';
 import type { ModelSpec } from '@shared/sweeps';
 import type { ExecutionTask, ExecutionTaskInstance, ExecutionTaskOutcome } from './execution-task';
+import { arrivalFigures, pathsSchedule } from './result-schedule';
 
 /** Models whose plans are unit-step cell paths (and whose schedules count abstract steps). */
 const PATH_MODELS: readonly PlanModel[] = ['classic', 'uniform-duration', 'k-robust'];
@@ -166,27 +167,11 @@ function modelSpec(task: ExecutionTask): ModelSpec {
 }
 
 function turnSchedule(task: ExecutionTask, instance: MapfInstance, paths: readonly (readonly number[])[]): TurnSchedule {
-  return scheduleFromPaths(instance, paths, task.profile, {
-    startHeading: task.modelOptions.startHeading,
-    stretch: task.model === 'uniform-duration' ? 'uniform' : 'none',
-  });
+  return pathsSchedule(task.model, task.modelOptions.startHeading, instance, paths, task.profile);
 }
 
 function turnFigures(t: TurnSchedule): Pick<PlanFigures, 'turnInclusiveSocMs' | 'turnInclusiveMakespanMs'> {
   return { turnInclusiveSocMs: t.turnInclusiveSocMs, turnInclusiveMakespanMs: t.turnInclusiveMakespanMs };
-}
-
-/** Turn-inclusive figures of a timed schedule: each robot's cost is the end of its last forward (0 if it never moves). */
-function arrivalFigures(schedule: Schedule): Pick<PlanFigures, 'turnInclusiveSocMs' | 'turnInclusiveMakespanMs'> {
-  let soc = 0;
-  let makespan = 0;
-  for (const list of schedule) {
-    let arrival = 0;
-    for (const a of list) if (a.action === 'forward') arrival = a.end;
-    soc += arrival;
-    makespan = Math.max(makespan, arrival);
-  }
-  return { turnInclusiveSocMs: soc, turnInclusiveMakespanMs: makespan };
 }
 
 function toInstance(t: ExecutionTaskInstance): MapfInstance {

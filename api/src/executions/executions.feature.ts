@@ -5,6 +5,7 @@ import { executionsRouter } from './executions.router';
 import { createExecutionsService } from './executions.service';
 import type { ExecutionTaskRunner } from './execution-task';
 import { definePlanExecution } from './plan-execution.model';
+import { createResultPlans } from './result-plans';
 import { loadStoredExecutions } from './stored-executions';
 
 /**
@@ -15,5 +16,5 @@ import { loadStoredExecutions } from './stored-executions';
 export function executionsFeature(ctx: AppContext, runTask: ExecutionTaskRunner = (task, requester, signal) => ctx.interactive.execute(task, requester, signal)): Router {
   const PlanExecution = definePlanExecution(ctx.sequelize);
   const svc = createExecutionsService({ models: ctx.models, PlanExecution, runTask, build: () => ctx.interactive.build });
-  return executionsRouter(svc, (viewer, resultId) => loadStoredExecutions(ctx.models, viewer, resultId));
+  return executionsRouter(svc, (viewer, resultId) => loadStoredExecutions(ctx.models, viewer, resultId), createResultPlans(ctx.models));
 }

@@ -19,6 +19,7 @@ import { AppError } from '../errors/app-error';
 import { isSetVisible } from '../instance-sets/instance-set-access';
 import { loadInstance } from '../instance-sets/load-instance';
 import type { ExecutionTask, ExecutionTaskRunner, StoredPlan } from './execution-task';
+import { instanceView } from './instance-view';
 import { loadResultPlan } from './result-plan';
 import type { PlanExecution, PlanExecutionModel } from './plan-execution.model';
 import { requesterKey } from '../workers/interactive-pool';
@@ -187,22 +188,6 @@ function buildTask(req: InstanceExecutionRequest, instance: MapfInstance): Execu
     plan: req.plan,
     simulation: { policy: req.policy, noise: req.noise, seed: req.seed, runs: req.runs, onCollision: req.onCollision },
     solveTimeLimitMs: EXECUTION_LIMITS.solveTimeLimitMs,
-  };
-}
-
-/** The instance as the viewer draws it. */
-function instanceView(instance: MapfInstance): ExecutionInstanceView {
-  const { width, height, passable } = instance.grid;
-  const rows: string[] = [];
-  for (let y = 0; y < height; y++) {
-    let row = '';
-    for (let x = 0; x < width; x++) row += passable[y * width + x] === 1 ? '.' : '@';
-    rows.push(row);
-  }
-  const xy = (c: number): CellXY => [c % width, Math.floor(c / width)];
-  return {
-    width, height, rows,
-    agents: instance.agents.map((a) => (a.startHeading ? { start: xy(a.start), goal: xy(a.goal), startHeading: a.startHeading } : { start: xy(a.start), goal: xy(a.goal) })),
   };
 }
 

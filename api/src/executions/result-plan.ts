@@ -8,7 +8,7 @@ import type { PlanModel, RobotProfile, Heading, CellXY } from '@shared/plan';
 import { isPlanModel, type ModelSpec } from '@shared/sweeps';
 import type { Models } from '../db/models';
 import { AppError } from '../errors/app-error';
-import { isSetVisible } from '../instance-sets/instance-set-access';
+import { isSetVisible, type Viewer } from '../instance-sets/instance-set-access';
 import { loadInstance, type LoadedInstance } from '../instance-sets/load-instance';
 import type { Result } from '../sweeps/result.model';
 import type { ExecutionTaskPlan } from './execution-task';
@@ -30,10 +30,10 @@ type StoredTaskPlan =
   | { readonly kind: 'schedule'; readonly schedule: Extract<ExecutionTaskPlan, { kind: 'schedule' }>['schedule'] };
 
 /**
- * Loads result `resultId` for `viewer`. Throws 404 RESULT_NOT_FOUND for an unknown result or one
+ * Loads result `resultId` for `viewer` (null: a visitor, who sees results of public sets). Throws 404 RESULT_NOT_FOUND for an unknown result or one
  * of a set the viewer may not see, and 409 RESULT_NOT_SOLVED for a result without a plan.
  */
-export async function loadResultPlan(models: Models, viewer: Express.User, resultId: number): Promise<ResultPlan> {
+export async function loadResultPlan(models: Models, viewer: Viewer, resultId: number): Promise<ResultPlan> {
   const notFound = () => new AppError('RESULT_NOT_FOUND', 404, `No result ${resultId}`);
   const result = await models.Result.findByPk(resultId);
   if (!result) throw notFound();
