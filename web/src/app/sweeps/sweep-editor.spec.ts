@@ -57,6 +57,24 @@ describe('SweepEditor advice', () => {
     expect(text('run-precision')).toContain('With 381 Monte Carlo runs per plan and policy, an execution success rate is known to within ±5 %');
   });
 
+  it('offers the CBS switches by label with their explanation, shows the chosen labels, and sends the field names (issue 14, item 11)', async () => {
+    const field = page().querySelector('[data-testid="cbs-switches"]') as HTMLElement;
+    (field.querySelector('.mat-mdc-select-trigger') as HTMLElement).click();
+    await fixture.whenStable();
+    const options = [...document.querySelectorAll<HTMLElement>('mat-option[data-switch]')];
+    expect(options.map((o) => o.querySelector('.switch-label')?.textContent?.trim())).toEqual([
+      'Prioritised conflicts', 'Bypass', 'WDG heuristic', 'Disjoint splitting', 'Target reasoning', 'Corridor reasoning', 'Rectangle reasoning',
+    ]);
+    expect(options.every((o) => (o.querySelector('.switch-explanation')?.textContent?.trim().length ?? 0) > 30)).toBe(true);
+    for (const o of options) expect(o.textContent).not.toMatch(/prioritizeConflicts|disjointSplitting|\bwdg\b|targetReasoning/);
+    options.find((o) => o.dataset['switch'] === 'wdg')?.click();
+    options.find((o) => o.dataset['switch'] === 'disjointSplitting')?.click();
+    await fixture.whenStable();
+    expect(field.querySelector('mat-select-trigger')?.textContent?.trim()).toBe('WDG heuristic, Disjoint splitting');
+    const editor = fixture.componentInstance as unknown as { form: { getRawValue(): { switchesOff: string[] } } };
+    expect(editor.form.getRawValue().switchesOff).toEqual(['wdg', 'disjointSplitting']);
+  });
+
   it('states the wait rule beside the wait time', () => {
     expect(text('wait-rule')).toContain('unit-step models only');
     expect(text('wait-rule')).toContain('weighted-split plans wait any whole number of ms');

@@ -17,7 +17,7 @@ import { MatSelectModule } from '@angular/material/select';
 import { Router } from '@angular/router';
 import { catchError, distinctUntilChanged, map, of, startWith, switchMap } from 'rxjs';
 import type { InstanceSetDetail } from '@shared/instance-sets';
-import { checkSweepSize, sweepSize } from '@shared/sweeps';
+import { CBS_SWITCH_TEXT, cbsSwitchLabel, checkSweepSize, sweepSize } from '@shared/sweeps';
 import { InstanceSetApi } from '../instance-sets/instance-set-api';
 import { SweepApi } from './sweep-api';
 import { currentPrecisionText, FOLLOWING_EXPLANATION, followingWarning, HALF_WIDTH_CHOICES, percentText, runsNeededText, WAIT_RULE } from './sweep-editor-advice';
@@ -37,6 +37,8 @@ export default class SweepEditor {
   private readonly router = inject(Router);
   protected readonly models = FORM_MODELS;
   protected readonly switches = FORM_SWITCHES;
+  /** Label and explanation of each CBS switch (shared/sweeps.ts); the identifiers stay the form values. */
+  protected readonly switchText = CBS_SWITCH_TEXT;
   protected readonly policies = FORM_POLICIES;
   protected readonly form = inject(NonNullableFormBuilder).group({
     ...Object.fromEntries(Object.entries(SWEEP_FORM_DEFAULTS).map(([k, v]) => [k, [v]])),
@@ -52,6 +54,8 @@ export default class SweepEditor {
   ), { initialValue: null as InstanceSetDetail | null });
   /** The definition or the form's first problem. */
   protected readonly built = computed(() => definitionFromForm(this.value()));
+  /** What the closed switch picker shows: the labels of the switches turned off. */
+  protected readonly switchesOffText = computed(() => this.value().switchesOff.map(cbsSwitchLabel).join(', '));
   /** Size and refusal, from the shared rule. */
   protected readonly size = computed(() => {
     const b = this.built();

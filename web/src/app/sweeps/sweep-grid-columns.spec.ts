@@ -75,6 +75,11 @@ describe('sweep grid columns', () => {
     expect(modelVariantLabel({ model: 'k-robust', k: 2, startHeading: 'free', switches: {} } as ModelSpec, 'k-robust')).toBe('k-robust k=2');
     expect(modelVariantLabel(undefined, 'classic')).toBe('classic');
   });
+
+  it('tells specs that differ only in CBS switches apart, by the switches\' labels (issue 14, item 11)', () => {
+    const off = { model: 'classic', startHeading: 'free', switches: { wdg: false, disjointSplitting: false, bypass: true }, following: 'forbidden' } as unknown as ModelSpec;
+    expect(modelVariantLabel(off, 'classic')).toBe('classic, following forbidden, without WDG heuristic, Disjoint splitting');
+  });
 });
 
 describe('sweep grid figures', () => {

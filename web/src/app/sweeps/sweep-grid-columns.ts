@@ -8,7 +8,7 @@
 import { themeQuartz, type ColDef, type ValueFormatterParams } from 'ag-grid-community';
 import { CI95_METHOD } from '@shared/confidence-interval';
 import type { ExecutionView, SweepResultRow } from '@shared/runs';
-import { forbidsFollowing, type ModelSpec } from '@shared/sweeps';
+import { cbsSwitchLabel, forbidsFollowing, switchesOff, type ModelSpec } from '@shared/sweeps';
 import { formatMs, formatRateWithInterval, realisedMakespanInterval, successRateInterval } from './sweep-grid-figures';
 import { RUN_STATUS_LABEL } from './sweep-status';
 
@@ -21,11 +21,16 @@ const isUnitStep = (row: SweepResultRow | undefined) => row !== undefined && row
 const inSteps = (pick: (r: SweepResultRow) => number | null) => (p: { data?: SweepResultRow }) => (p.data && isUnitStep(p.data) ? pick(p.data) : null);
 const inMs = (pick: (r: SweepResultRow) => number | null) => (p: { data?: SweepResultRow }) => (p.data && !isUnitStep(p.data) ? pick(p.data) : null);
 
-/** "classic, following forbidden" / "k-robust k=2": the plan model with the parameters that make it a variant. */
+/**
+ * "classic, following forbidden" / "k-robust k=2" / "classic, without WDG heuristic": the plan model
+ * with the parameters that tell the sweep's model specs apart (CBS switches by their labels).
+ */
 export function modelVariantLabel(spec: ModelSpec | undefined, fallback: string): string {
   if (!spec) return fallback;
   const parts: string[] = [spec.model + ('k' in spec ? ` k=${spec.k}` : '')];
   if (forbidsFollowing(spec)) parts.push('following forbidden');
+  const off = switchesOff(spec);
+  if (off.length > 0) parts.push(`without ${off.map(cbsSwitchLabel).join(', ')}`);
   return parts.join(', ');
 }
 
