@@ -2,6 +2,7 @@ import { provideHttpClient } from '@angular/common/http';
 import { provideHttpClientTesting } from '@angular/common/http/testing';
 import { CUSTOM_ELEMENTS_SCHEMA } from '@angular/core';
 import { TestBed, type ComponentFixture } from '@angular/core/testing';
+import { MATERIAL_ANIMATIONS } from '@angular/material/core';
 import { provideRouter } from '@angular/router';
 import { AgGridAngular } from 'ag-grid-angular';
 import { of, Subject } from 'rxjs';
@@ -33,11 +34,13 @@ const WIDE_ROBOT_SWEEP = {
   },
 } as unknown as SweepDetail;
 
-async function openPage(sweep: SweepDetail, events: Subject<SweepStreamEvent>): Promise<ComponentFixture<SweepDetailPage>> {
-  const api: Partial<SweepApi> = { get: () => of(sweep), results: () => of({ items: [] }), events: () => events };
+async function openPage(sweep: SweepDetail, events: Subject<SweepStreamEvent>, more: Partial<SweepApi> = {}): Promise<ComponentFixture<SweepDetailPage>> {
+  const api: Partial<SweepApi> = { get: () => of(sweep), results: () => of({ items: [] }), events: () => events, ...more };
   TestBed.configureTestingModule({
     imports: [SweepDetailPage],
-    providers: [provideHttpClient(), provideHttpClientTesting(), provideRouter([]), { provide: SweepApi, useValue: api }],
+    providers: [provideHttpClient(), provideHttpClientTesting(), provideRouter([]), { provide: SweepApi, useValue: api },
+      // Without animations a dialog closes at once, so afterClosed() fires within the test.
+      { provide: MATERIAL_ANIMATIONS, useValue: { animationsDisabled: true } }],
   });
   // jsdom has no layout for the results grid; these specs are about the lines around it.
   TestBed.overrideComponent(SweepDetailPage, { remove: { imports: [AgGridAngular] }, add: { schemas: [CUSTOM_ELEMENTS_SCHEMA] } });
@@ -67,6 +70,57 @@ describe('SweepDetailPage around the results', () => {
     const forbidden = { ...WIDE_ROBOT_SWEEP, definition: { ...WIDE_ROBOT_SWEEP.definition, models: [{ model: 'classic', startHeading: 'free', switches: {}, following: 'forbidden' }] } } as unknown as SweepDetail;
     const fixture = await openPage(forbidden, new Subject<SweepStreamEvent>());
     expect((fixture.nativeElement as HTMLElement).querySelector('[data-testid="following-hazard"]')).toBeNull();
+  });
+});
+
+describe('SweepDetailPage ablation and cancel', () => {
+  it('names the CBS improvements the sweep turns off by label, with what each removes, and never by field name', async () => {
+    const ablation = { ...WIDE_ROBOT_SWEEP, definition: { ...WIDE_ROBOT_SWEEP.definition, models: [
+      { model: 'classic', startHeading: 'free', switches: { wdg: false } },
+      { model: 'k-robust', k: 1, startHeading: 'free', switches: { wdg: false, disjointSplitting: false, bypass: true } },
+    ] } } as unknown as SweepDetail;
+    const fixture = await openPage(ablation, new Subject<SweepStreamEvent>());
+    const items = [...(fixture.nativeElement as HTMLElement).querySelectorAll('[data-testid="sweep-switches-off"] li')].map((li) => li.textContent?.trim() ?? '');
+    expect(items).toHaveLength(2);
+    expect(items[0]).toMatch(/^WDG heuristic: \S/);
+    expect(items[1]).toMatch(/^Disjoint splitting: \S/);
+    expect(items.join(' ')).not.toMatch(/\bwdg\b|disjointSplitting|[Bb]ypass/);
+  });
+
+  it('shows no ablation line when every improvement is on', async () => {
+    const fixture = await openPage(WIDE_ROBOT_SWEEP, new Subject<SweepStreamEvent>());
+    expect((fixture.nativeElement as HTMLElement).querySelector('[data-testid="sweep-switches-off"]')).toBeNull();
+  });
+
+  it('asks before cancelling, saying what stops and what stays; keeping it sends nothing, confirming sends the cancel once', async () => {
+    const cancel = jest.fn(() => of({ ...SWEEP, progress: { ...PROGRESS, status: 'cancelled' as const } }));
+    const fixture = await openPage(SWEEP, new Subject<SweepStreamEvent>(), { cancel } as Partial<SweepApi>);
+    const page = fixture.nativeElement as HTMLElement;
+    const cancelButton = () => [...page.querySelectorAll('button')].find((b) => b.textContent?.trim() === 'Cancel sweep') as HTMLButtonElement;
+    const settle = async () => {
+      await fixture.whenStable();
+      await new Promise((r) => setTimeout(r, 0));
+      fixture.detectChanges();
+    };
+
+    cancelButton().click();
+    await settle();
+    const dialog = document.querySelector('mat-dialog-container') as HTMLElement;
+    expect(dialog.querySelector('h2')?.textContent?.trim()).toBe('Cancel sweep “quay night shift”?');
+    expect(dialog.textContent).toContain('6 of its 8 runs are not over yet: they stop and will not be solved.');
+    expect(dialog.textContent).toContain('What the 2 runs already over found stays stored.');
+    (dialog.querySelector('[data-testid="confirm-keep"]') as HTMLButtonElement).click();
+    await settle();
+    expect(document.querySelector('mat-dialog-container')).toBeNull();
+    expect(cancel).not.toHaveBeenCalled();
+
+    cancelButton().click();
+    await settle();
+    (document.querySelector('mat-dialog-container [data-testid="confirm-act"]') as HTMLButtonElement).click();
+    await settle();
+    expect(cancel).toHaveBeenCalledTimes(1);
+    expect(cancel).toHaveBeenCalledWith(12);
+    expect(page.querySelector('[data-testid="sweep-status"]')?.textContent).toBe('Cancelled');
   });
 });
 

@@ -13,6 +13,7 @@ import { DatePipe } from '@angular/common';
 import { AgGridAngular } from 'ag-grid-angular';
 import { CellStyleModule, ClientSideRowModelModule, ModuleRegistry, TooltipModule, type GetRowIdParams } from 'ag-grid-community';
 import { MatButtonModule } from '@angular/material/button';
+import { MatDialog } from '@angular/material/dialog';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { RouterLink } from '@angular/router';
 import { auditTime, catchError, EMPTY, map, merge, of, Subject, switchMap } from 'rxjs';
@@ -20,6 +21,8 @@ import { CI95_METHOD } from '@shared/confidence-interval';
 import { SAFETY_NOTE } from '@shared/executions-constants';
 import { profileLabel } from '@shared/leaderboards';
 import { isSweepOver, RUN_STATUSES, type SweepDetail, type SweepProgress, type SweepResultRow } from '@shared/runs';
+import { CBS_SWITCH_NAMES, CBS_SWITCH_TEXT, switchesOff } from '@shared/sweeps';
+import { askToConfirm } from '../core/confirm-dialog';
 import { SweepApi } from './sweep-api';
 import { followingWarningFor } from './sweep-editor-advice';
 import { SWEEP_GRID_THEME, sweepGridColumns } from './sweep-grid-columns';
@@ -39,6 +42,7 @@ ModuleRegistry.registerModules([ClientSideRowModelModule, CellStyleModule, Toolt
 })
 export default class SweepDetailPage {
   private readonly api = inject(SweepApi);
+  private readonly dialog = inject(MatDialog);
   /** Route parameter. */
   readonly id = input.required<string>();
   protected readonly statusLabel = SWEEP_STATUS_LABEL;
@@ -61,6 +65,11 @@ export default class SweepDetailPage {
   protected readonly followingWarning = computed(() => {
     const d = this.sweep()?.definition;
     return d?.robotProfile ? followingWarningFor(d.robotProfile, d.models ?? []) : null;
+  });
+  /** The CBS improvements some model spec of the sweep turns off, by label with what that removes (an ablation). */
+  protected readonly switchesOff = computed(() => {
+    const names = new Set((this.sweep()?.definition.models ?? []).flatMap(switchesOff));
+    return CBS_SWITCH_NAMES.filter((n) => names.has(n)).map((n) => CBS_SWITCH_TEXT[n]);
   });
   protected readonly rateMethod = CI95_METHOD.rate;
   protected readonly percent = computed(() => {
@@ -114,12 +123,27 @@ export default class SweepDetailPage {
     });
   }
 
-  /** Asks the server to cancel the sweep. */
+  /** Asks whether to cancel (saying what stops and what stays), then asks the server to. */
   protected cancelSweep(): void {
     const s = this.sweep();
-    if (!s) return;
+    const p = this.progress();
+    if (!s || this.isCancelling()) return;
+    askToConfirm(this.dialog, {
+      title: `Cancel sweep “${s.name}”?`,
+      consequences: [
+        p ? `${p.total - p.done} of its ${p.total} runs are not over yet: they stop and will not be solved.`
+          : 'Its runs that are not over yet stop and will not be solved.',
+        `What the ${p ? `${p.done} ` : ''}runs already over found stays stored. A cancelled sweep cannot be resumed; to finish the work, launch a new sweep.`,
+      ],
+      act: 'Cancel sweep', keep: 'Keep it running', isDestructive: true,
+    }).subscribe((isConfirmed) => {
+      if (isConfirmed) this.sendCancel(s.id);
+    });
+  }
+
+  private sendCancel(id: number): void {
     this.isCancelling.set(true);
-    this.api.cancel(s.id).subscribe({
+    this.api.cancel(id).subscribe({
       next: (d) => {
         this.progress.set(d.progress);
         this.isCancelling.set(false);
