@@ -73,7 +73,8 @@ export default class LeaderboardBoard {
     const cols = columnsOf(v).filter((c) => visible.has(c.id)).sort((a, b) => v.columns.indexOf(a.id) - v.columns.indexOf(b.id));
     const shown = gridColumns(cols, v.sort, v.layout === 'compare' ? compareIntervalKind(v.metric) : null);
     // Entry rows name one stored result; comparison rows hold several models' bests.
-    return v.layout === 'entries' && this.canSubmit() ? [replayColumn(), ...shown] : shown;
+    // Everyone may open a visible result: visitors replay it in the browser (issue 14, item 6).
+    return v.layout === 'entries' ? [replayColumn(), ...shown] : shown;
   });
   protected readonly exportLinks = computed(() => {
     const params = viewToParams(this.view());

@@ -128,7 +128,7 @@ export function gridColumns(columns: readonly LeaderboardColumn[], sort: readonl
 
 /**
  * A left-pinned link opening an entry's best plan in the plan viewer (`/plans/view?result=ID`),
- * which replays it on the server; only for researchers and up, who may run executions.
+ * which replays it for everyone: on the server for researchers and up, in the browser for visitors.
  */
 export function replayColumn(): ColDef<GridRow> {
   return {
