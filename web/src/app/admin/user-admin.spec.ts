@@ -4,6 +4,8 @@ import { TestBed, type ComponentFixture } from '@angular/core/testing';
 import type { HarnessLoader } from '@angular/cdk/testing';
 import { TestbedHarnessEnvironment } from '@angular/cdk/testing/testbed';
 import { MatButtonHarness } from '@angular/material/button/testing';
+import { MATERIAL_ANIMATIONS } from '@angular/material/core';
+import { MatDialogHarness } from '@angular/material/dialog/testing';
 import { MatInputHarness } from '@angular/material/input/testing';
 import { MatSelectHarness } from '@angular/material/select/testing';
 import { MatSnackBarHarness } from '@angular/material/snack-bar/testing';
@@ -42,7 +44,9 @@ describe('UserAdmin', () => {
   beforeEach(async () => {
     TestBed.configureTestingModule({
       imports: [UserAdmin],
-      providers: [provideHttpClient(withInterceptors([errorInterceptor])), provideHttpClientTesting()],
+      providers: [provideHttpClient(withInterceptors([errorInterceptor])), provideHttpClientTesting(),
+        // Without animations a dialog closes at once, so afterClosed() fires within the test.
+        { provide: MATERIAL_ANIMATIONS, useValue: { animationsDisabled: true } }],
     });
     backend = TestBed.inject(HttpTestingController);
     fixture = TestBed.createComponent(UserAdmin);
@@ -68,10 +72,53 @@ describe('UserAdmin', () => {
     expect(await (await roleSelect('dev-pathson')).getValueText()).toBe('researcher');
   });
 
-  it('sends PATCH /api/admin/users/:id with the chosen role', async () => {
+  /** The open confirmation dialog, its text, and a click on one of its buttons. */
+  async function confirmation(): Promise<{ title: string; text: string; click: (label: string) => Promise<void> }> {
+    const dialog = await TestbedHarnessEnvironment.documentRootLoader(fixture).getHarness(MatDialogHarness);
+    return {
+      title: await dialog.getTitleText(),
+      text: await dialog.getContentText(),
+      click: async (label) => {
+        await (await dialog.getHarness(MatButtonHarness.with({ text: label }))).click();
+        await fixture.whenStable();
+      },
+    };
+  }
+
+  it('asks before a role change and, when kept, sends nothing and shows the old role', async () => {
     const select = await roleSelect('dev-pathson');
     await select.open();
     await select.clickOptions({ text: 'maintainer' });
+
+    const ask = await confirmation();
+    expect(ask.title).toBe('Make Dev Pathson (dev-pathson) a maintainer?');
+    expect(ask.text).toContain('From researcher to maintainer: a maintainer also launches sweeps');
+    expect(ask.text).toContain('It takes effect at their next request');
+    await ask.click('Keep researcher');
+
+    backend.expectNone('/api/admin/users/2');
+    expect(await TestbedHarnessEnvironment.documentRootLoader(fixture).getAllHarnesses(MatDialogHarness)).toHaveLength(0);
+    expect(await select.getValueText()).toBe('researcher');
+  });
+
+  it('says what a demotion takes away', async () => {
+    const select = await roleSelect('cyra-admin');
+    await select.open();
+    await select.clickOptions({ text: 'researcher' });
+
+    const ask = await confirmation();
+    expect(ask.title).toBe('Make Cyra Node (cyra-admin) a researcher?');
+    expect(ask.text).toContain('Rights they lose (what an admin may and a researcher may not): launches sweeps, curates shared sets and leaderboards; manages accounts.');
+    expect(ask.text).toContain("Sweeps over other people's private sets go out of their sight");
+    await ask.click('Keep admin');
+    backend.expectNone('/api/admin/users/1');
+  });
+
+  it('sends PATCH /api/admin/users/:id with the chosen role once confirmed', async () => {
+    const select = await roleSelect('dev-pathson');
+    await select.open();
+    await select.clickOptions({ text: 'maintainer' });
+    await (await confirmation()).click('Make maintainer');
 
     const req = backend.expectOne({ method: 'PATCH', url: '/api/admin/users/2' });
     expect(req.request.body).toEqual({ role: 'maintainer' });
@@ -87,6 +134,7 @@ describe('UserAdmin', () => {
     const select = await roleSelect('cyra-admin');
     await select.open();
     await select.clickOptions({ text: 'researcher' });
+    await (await confirmation()).click('Make researcher');
 
     backend.expectOne('/api/admin/users/1').flush(
       { error: { code: 'LAST_ADMIN', message: 'Cyra Node is the last admin and cannot be demoted.' } },

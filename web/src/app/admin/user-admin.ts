@@ -3,11 +3,13 @@ import { ChangeDetectionStrategy, Component, DestroyRef, inject, signal } from '
 import { takeUntilDestroyed } from '@angular/core/rxjs-interop';
 import { DatePipe } from '@angular/common';
 import { MatButtonModule } from '@angular/material/button';
+import { MatDialog } from '@angular/material/dialog';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatSelectModule, type MatSelectChange } from '@angular/material/select';
 import { MatTableModule } from '@angular/material/table';
 import { firstValueFrom } from 'rxjs';
 import type { Account, ChangeRoleRequest } from '@shared/auth';
+import { askToConfirm, type ConfirmQuestion } from '../core/confirm-dialog';
 import { Session } from '../core/session';
 import { AdminApi } from './admin-api';
 import { StorageQuotaEditor } from './storage-quota-editor';
@@ -21,6 +23,28 @@ const ROLE_CHOICES: readonly { readonly role: AssignableRole; readonly hint: str
   { role: 'admin', hint: 'also manages accounts' },
 ];
 
+/** Rank of a role for telling a promotion from a demotion. */
+const rankOf = (role: Account['role']): number => ROLE_CHOICES.findIndex((c) => c.role === role);
+const hintOf = (role: Account['role']): string => ROLE_CHOICES.find((c) => c.role === role)?.hint ?? '';
+const withArticle = (role: string): string => `${role === 'admin' ? 'an' : 'a'} ${role}`;
+
+/** What the confirmation says before `user` gets role `next`. */
+export function roleQuestion(user: Account, next: AssignableRole, isSelf: boolean): ConfirmQuestion {
+  const name = `${user.displayName} (${user.login})`;
+  const isDemotion = rankOf(next) < rankOf(user.role);
+  const lost = ROLE_CHOICES.slice(rankOf(next) + 1, rankOf(user.role) + 1).map((c) => c.hint.replace(/^also /, ''));
+  return {
+    title: `Make ${name} ${withArticle(next)}?`,
+    consequences: [
+      `From ${user.role} to ${next}: ${withArticle(next)} ${hintOf(next)}.`,
+      ...(isDemotion ? [`Rights they lose (what ${withArticle(user.role)} may and ${withArticle(next)} may not): ${lost.join('; ')}.`] : []),
+      ...(isDemotion && next === 'researcher' ? ['Sweeps over other people\'s private sets go out of their sight; their sweeps over public sets and their own sets stay.'] : []),
+      isSelf ? 'This is your own account: what you may see and do changes at once.' : 'It takes effect at their next request; nobody is signed out.',
+    ],
+    act: `Make ${next}`, keep: `Keep ${user.role}`, isDestructive: isDemotion,
+  };
+}
+
 /** The page at /admin. */
 @Component({
   selector: 'app-user-admin',
@@ -32,6 +56,7 @@ const ROLE_CHOICES: readonly { readonly role: AssignableRole; readonly hint: str
 export default class UserAdmin {
   private readonly api = inject(AdminApi);
   private readonly destroyRef = inject(DestroyRef);
+  private readonly dialog = inject(MatDialog);
   protected readonly session = inject(Session);
   protected readonly roleChoices = ROLE_CHOICES;
   protected readonly columns = ['displayName', 'login', 'email', 'createdAt', 'role', 'storage'];
@@ -65,6 +90,12 @@ export default class UserAdmin {
    * the server's reason and the picker goes back to the role the server still holds.
    */
   protected async changeRole(user: Account, change: MatSelectChange<AssignableRole>): Promise<void> {
+    // Asked first: a role is a set of rights and takes effect at that person's next request.
+    const isConfirmed = await firstValueFrom(askToConfirm(this.dialog, roleQuestion(user, change.value, user.id === this.session.account()?.id)));
+    if (!isConfirmed) {
+      change.source.value = user.role;
+      return;
+    }
     this.savingId.set(user.id);
     try {
       const updated = await firstValueFrom(this.api.changeRole(user.id, change.value));
