@@ -1,9 +1,9 @@
 /** HTTP calls of plan submissions. */
-import { HttpClient, HttpContext } from '@angular/common/http';
+import { HttpClient, HttpContext, HttpParams } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import type { Observable } from 'rxjs';
 import type { SubmissionRequest } from '@shared/plan-format';
-import type { SubmissionListResponse, SubmissionView } from '@shared/submissions';
+import type { SubmissionListResponse, SubmissionProfilesResponse, SubmissionView } from '@shared/submissions';
 import { IS_QUIET } from '../core/error-interceptor';
 
 /** Owns /api/submissions. */
@@ -19,5 +19,10 @@ export class SubmissionApi {
   /** GET /api/submissions: the researcher's accepted plans. */
   list(): Observable<SubmissionListResponse> {
     return this.http.get<SubmissionListResponse>('/api/submissions');
+  }
+
+  /** GET /api/submissions/profiles: the robot profiles to offer for an instance, the default first. */
+  profiles(scenarioId: number, agents: number): Observable<SubmissionProfilesResponse> {
+    return this.http.get<SubmissionProfilesResponse>('/api/submissions/profiles', { params: new HttpParams().set('scenarioId', scenarioId).set('agents', agents) });
   }
 }
