@@ -14,6 +14,7 @@ import { SAFETY_NOTE } from '@shared/executions-constants';
 import type { PlanModel } from '@shared/plan';
 import { realisedTimeline, simulateExecution } from '@solvers/execute';
 import { scheduleFromPaths } from '@solvers/models/turn-schedule';
+import { Session } from '../core/session';
 import { CONTEXT_2D } from './canvas-context';
 import { TEST_PROFILE, testInstance } from './plan-viewer-testing';
 import PlanViewer from './plan-viewer';
@@ -54,7 +55,11 @@ describe('PlanViewer', () => {
   beforeEach(async () => {
     TestBed.configureTestingModule({
       imports: [PlanViewer],
-      providers: [provideRouter([]), provideHttpClient(), provideHttpClientTesting(), { provide: CONTEXT_2D, useValue: () => null }],
+      providers: [
+        provideRouter([]), provideHttpClient(), provideHttpClientTesting(), { provide: CONTEXT_2D, useValue: () => null },
+        // A researcher: stored results run on the server (visitors: plan-viewer-visitor.spec.ts).
+        { provide: Session, useValue: { load: async () => ({ account: null, role: 'researcher' }), hasRole: () => true } },
+      ],
     });
     backend = TestBed.inject(HttpTestingController);
     fixture = TestBed.createComponent(PlanViewer);

@@ -9,6 +9,9 @@
  * `result=ID[,ID]` with optional `policy`. A stored sweep result opens with exactly the settings
  * its sweep replayed it with (GET /api/executions/stored/:id), so the page shows the stored
  * figures; any other setting is a what-if, labelled with what differs, with a way back.
+ * Visitors (and anyone not allowed to run executions) get the same page without the server:
+ * the result's plan is read (GET /api/executions/results/:id) and replayed in the browser with
+ * the stored settings; the plan downloads as JSON and as text for everyone who may see it.
  */
 import { ChangeDetectionStrategy, Component, DestroyRef, computed, effect, inject, input, signal, untracked } from '@angular/core';
 import { toSignal } from '@angular/core/rxjs-interop';
@@ -22,6 +25,7 @@ import { MatSliderModule } from '@angular/material/slider';
 import { Router } from '@angular/router';
 import { catchError, firstValueFrom, of } from 'rxjs';
 import type { ExecutionSummaryView, ExecutionView, InstanceExecutionInput } from '@shared/executions';
+import { hasTextPlan, type ResultPlanView } from '@shared/result-plan-view';
 import type { StoredResultExecutionsView } from '@shared/stored-executions';
 import {
   COLLISION_MODES, EXECUTION_LIMITS, EXECUTION_POLICY_NAMES, SAFETY_NOTE, STARTER_PROFILE,
@@ -29,6 +33,7 @@ import {
 } from '@shared/executions-constants';
 import { HEADINGS, PLAN_MODELS, type PlanModel, type RobotProfile, type StartHeading } from '@shared/plan';
 import type { MapfInstance } from '@solvers/instance';
+import { Session } from '../core/session';
 import { ExecutionApi } from './execution-api';
 import { ExecutionSummaryCard } from './execution-summary-card';
 import { FinishHistogramChart } from './finish-histogram-chart';
@@ -59,6 +64,7 @@ export type { ViewerPane } from './viewer-pane';
 })
 export default class PlanViewer {
   private readonly api = inject(ExecutionApi);
+  private readonly session = inject(Session);
   private readonly router = inject(Router);
   private readonly fb = inject(NonNullableFormBuilder);
   /** Query: scenario id. */
@@ -114,6 +120,14 @@ export default class PlanViewer {
     return `${s.scenarioName ?? 'tasks on ' + s.mapName} · map ${s.mapName} (${first.instance.width}×${first.instance.height}) · ${first.instance.agents.length} agents${stored}`;
   });
   protected readonly canvasPx = computed(() => (this.panes().length > 1 ? 440 : 620));
+  /** Whether this account may run executions on the server (researchers and up); others replay in the browser. */
+  protected readonly canRunOnServer = computed(() => this.session.hasRole('researcher'));
+  /** Per pane showing a stored result: where its plan downloads (text only for the models the text format carries). */
+  protected readonly downloads = computed(() => this.panes().map((pane) => {
+    const id = pane.execution.source.resultId;
+    if (id === undefined) return null;
+    return { resultId: id, json: this.api.planDownloadUrl(id, 'json'), text: hasTextPlan(pane.execution.model) ? this.api.planDownloadUrl(id, 'txt') : null };
+  }));
   /** The policies the sweep stored for the shown result (the first pane's), each openable with its stored settings. */
   protected readonly storedPolicies = computed(() => {
     const stored = this.panes()[0]?.stored;
@@ -200,7 +214,7 @@ export default class PlanViewer {
           ...this.requestSettings(settings),
         }));
         const track = trackOfRun(pane.instance, e.plan, e.profile, settings);
-        next.push(paneWith({ ...pane, execution: { ...e, summary: fresh.summary } }, fresh.summary, 'server', track, settings.shownRun));
+        next.push(paneWith({ ...pane, execution: e }, fresh.summary, 'server', track, settings.shownRun));
       }
       this.showPanes(next);
     });
@@ -221,6 +235,10 @@ export default class PlanViewer {
           next.push(pane);
           continue;
         }
+        if (!this.canRunOnServer()) {
+          next.push(await this.browserPane(pane.execution, pane.stored, { ...replay.settings, shownRun: pane.shownRun }));
+          continue;
+        }
         const e = await firstValueFrom(this.api.create({ resultId: pane.execution.source.resultId, ...replay.settings }));
         next.push(this.serverPane(e, pane.stored, pane.shownRun));
       }
@@ -236,7 +254,18 @@ export default class PlanViewer {
     await this.busy(async () => {
       let executions: ExecutionView[];
       const storedViews: (StoredResultExecutionsView | null)[] = [];
-      if (q['result']) {
+      if (q['result'] && !(await this.mayRunOnServer())) {
+        // Not allowed to run on the server: read each result's plan and replay it here with its stored settings.
+        const panes: ViewerPane[] = [];
+        for (const resultId of idList(q['result'])) {
+          const [stored, plan] = await Promise.all([firstValueFrom(this.api.stored(resultId)), firstValueFrom(this.api.resultPlan(resultId))]);
+          const replay = storedReplayFor(stored, q['policy']);
+          panes.push(await this.browserPane(plan, stored, replay ? { ...replay.settings, shownRun: settings.shownRun } : settings));
+        }
+        if (panes[0]) this.adoptSettings(panes[0].summary);
+        this.showPanes(panes);
+        return;
+      } else if (q['result']) {
         // A stored result opens with the settings its sweep replayed it with (same figures as the leaderboard).
         const ids = idList(q['result']);
         executions = [];
@@ -281,6 +310,20 @@ export default class PlanViewer {
     const shown = Math.max(0, Math.min(shownRun, e.summary.runs - 1));
     const track = trackOfRun(instance, e.plan, e.profile, { ...this.rerunSettingsFrom(e.summary), shownRun: shown });
     return paneWith({ execution: e, instance, stored }, e.summary, 'server', track, shown);
+  }
+
+  /** A pane of a plan replayed here in the browser, drawing run `settings.shownRun` (clamped to its runs). */
+  private async browserPane(plan: ResultPlanView, stored: StoredResultExecutionsView | null, settings: RerunSettings): Promise<ViewerPane> {
+    const instance = toMapfInstance(plan.instance);
+    const shown = Math.max(0, Math.min(settings.shownRun, settings.runs - 1));
+    const result = await rerunInBrowser(instance, plan.plan, plan.profile, { ...settings, shownRun: shown });
+    return paneWith({ execution: plan, instance, stored }, result.summary, 'browser', result.track, shown);
+  }
+
+  /** Whether the account may run executions on the server, once the session is known. */
+  private async mayRunOnServer(): Promise<boolean> {
+    await this.session.load();
+    return this.canRunOnServer();
   }
 
   /** The batch settings of a re-run (what a stored replay's settings are compared with). */

@@ -5,6 +5,7 @@
  * figures), and the following hazard of its robot profile.
  */
 import type { ExecutionSummaryView, ExecutionView } from '@shared/executions';
+import type { ResultPlanView } from '@shared/result-plan-view';
 import { followingHazard, type FollowingHazard } from '@shared/following-hazard';
 import type { StoredResultExecutionsView } from '@shared/stored-executions';
 import { realisedTimeline } from '@solvers/execute';
@@ -15,9 +16,15 @@ import { ganttSegments, type GanttSegments } from './gantt-layout';
 import { runAttribution, type RunAttribution } from './run-attribution';
 import { settingsDifferences, settingsOfSummary, storedFigureMismatches, storedOfPolicy } from './stored-settings';
 
-/** One model's column: the stored execution, the summary shown and the run drawn. */
+/**
+ * What a pane draws: an execution the server ran and stored, or (a visitor's replay, in the
+ * browser) a stored result's plan read with GET /api/executions/results/:id, which has no id.
+ */
+export type PaneExecution = ResultPlanView & Partial<Pick<ExecutionView, 'id' | 'computedBy'>>;
+
+/** One model's column: the execution or result plan, the summary shown and the run drawn. */
 export interface ViewerPane {
-  readonly execution: ExecutionView;
+  readonly execution: PaneExecution;
   readonly instance: MapfInstance;
   readonly summary: ExecutionSummaryView;
   readonly computedIn: 'server' | 'browser';
@@ -62,7 +69,7 @@ export function paneWith(base: PaneBase, summary: ExecutionSummaryView, computed
 }
 
 /** The drawn run's attribution, simulated again with the summary's settings (the same run as the track). */
-function attributionOf(instance: MapfInstance, e: ExecutionView, s: ExecutionSummaryView, run: number): RunAttribution | null {
+function attributionOf(instance: MapfInstance, e: PaneExecution, s: ExecutionSummaryView, run: number): RunAttribution | null {
   if (s.runs <= 0) return null;
   const timeline = realisedTimeline(instance, e.plan, e.profile, { policy: s.policy, noise: s.noise, seed: s.seed, onCollision: s.onCollision }, run);
   return runAttribution(timeline, s.policy);
