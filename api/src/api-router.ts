@@ -8,7 +8,7 @@ import { helpRouter, schemasRouter } from './help/help.router';
 import { instanceLibraryRouter } from './instance-sets/instance-library.router';
 import { leaderboardsFeature } from './leaderboards/leaderboards.feature';
 import { reportsFeature } from './reports/reports.feature';
-import { statsRouter } from './stats/stats.router';
+import { statsFeature } from './stats/stats.feature';
 import { sweepsFeature } from './sweeps/sweeps-feature';
 import { adminUsersRouter } from './users/admin-users.router';
 import { meRouter } from './users/me.router';
@@ -19,7 +19,7 @@ export function apiRouter(ctx: AppContext): Router {
   r.use('/health', healthRouter(ctx.sequelize, ctx.version));
   r.use('/me', meRouter(ctx.users));
   r.use('/admin/users', adminUsersRouter(ctx.users));
-  r.use('/stats', statsRouter(ctx.stats));
+  r.use('/stats', statsFeature(ctx));
   r.use('/help', helpRouter(repositoryHelpFiles()));
   r.use('/schemas', schemasRouter(repositoryHelpFiles()));
   r.use(instanceLibraryRouter(ctx));
