@@ -27,10 +27,11 @@ export function gridMapFromRows(rows: readonly string[], options: { name?: strin
   const width = height === 0 ? 0 : rows[0].length;
   const passable = new Uint8Array(width * height);
   rows.forEach((row, y) => {
-    if (row.length !== width) throw new Error(`map row ${y} has ${row.length} cells, expected ${width}`);
+    // Cells as [x, y] (0-based, the boundary convention); these inputs have no lines to point at.
+    if (row.length !== width) throw new Error(`map row y = ${y} has ${row.length} cells, expected ${width}`);
     for (let x = 0; x < width; x++) {
       const terrain = terrainOf(row[x]);
-      if (terrain < 0) throw new Error(`map row ${y}, column ${x}: '${row[x]}' is no terrain character`);
+      if (terrain < 0) throw new Error(`cell [${x}, ${y}]: '${row[x]}' is no terrain character`);
       passable[y * width + x] = terrain;
     }
   });

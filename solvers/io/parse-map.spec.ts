@@ -48,7 +48,7 @@ describe('parseMap', () => {
   it('collects every error, not only the first', () => {
     const errors = errorsOf('type octile\nheight 3\nwidth 3\nmap\nx..\n....\n..y\n');
     expect(errors.map((e) => [e.line, e.column])).toEqual([[5, 1], [6, 4], [7, 3]]);
-    expect(errors[1].message).toBe('map row 1 has 4 cells, expected 3 (the width)');
+    expect(errors[1].message).toBe('this map row has 4 cells, expected 3 (the width)');
   });
 
   it('stops after 100 errors with a note', () => {
@@ -63,13 +63,13 @@ describe('parseMap', () => {
       { line: 7, column: 1, message: "expected 3 map rows after 'map', found 2" },
     ]);
     expect(errorsOf('type octile\nheight 1\nwidth 2\nmap\n..\n..\n')).toEqual([
-      { line: 6, column: 1, message: 'unexpected text after the 1 map rows (height 1)' },
+      { line: 6, column: 1, message: 'unexpected text after the 1 map row (height 1)' },
     ]);
   });
 
   it('rejects a blank line inside the rows', () => {
     expect(errorsOf('type octile\nheight 3\nwidth 2\nmap\n..\n\n..\n')).toEqual([
-      { line: 6, column: 1, message: 'map row 1 has 0 cells, expected 2 (the width)' },
+      { line: 6, column: 1, message: 'this map row has 0 cells, expected 2 (the width)' },
     ]);
   });
 

@@ -49,7 +49,7 @@ export function parseMap(text: string, options: ParseMapOptions = {}): ParseResu
   }
   const extra = header.mapLine + 1 + height;
   if (extra < lines.length && !errors.isFull) {
-    errors.add(extra + 1, 1, `unexpected text after the ${height} map rows (height ${height})`);
+    errors.add(extra + 1, 1, `unexpected text after the ${height} map ${height === 1 ? 'row' : 'rows'} (height ${height})`);
   }
   if (errors.hasErrors) return { ok: false, errors: errors.toArray() };
   const map: GridMap = { type, width, height, grid: { width, height, passable }, cellsText };
@@ -124,6 +124,7 @@ function readRow(line: string, lineNo: number, y: number, width: number, passabl
     }
   }
   if (chars.length !== width) {
-    errors.add(lineNo, n + 1, `map row ${y} has ${chars.length} cells, expected ${width} (the width)`);
+    // The location is the line (1-based); a row index here would be 0-based and read as another line.
+    errors.add(lineNo, n + 1, `this map row has ${chars.length} ${chars.length === 1 ? 'cell' : 'cells'}, expected ${width} (the width)`);
   }
 }

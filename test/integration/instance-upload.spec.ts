@@ -173,7 +173,7 @@ describe('instance library uploads', () => {
       const problems = problemsOf(res.body);
       expect(problems).toEqual(expect.arrayContaining([
         { file: 'bad-rows.scen', line: 4, column: 1, message: "bucket 'x' is not a whole number" },
-        { file: 'no-header.map', line: 6, column: 2, message: expect.stringMatching(/map row 1 has 1 cells, expected 2/) },
+        { file: 'no-header.map', line: 6, column: 2, message: expect.stringMatching(/this map row has 1 cell, expected 2/) },
       ]));
     });
 
