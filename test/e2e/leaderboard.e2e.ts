@@ -85,8 +85,13 @@ describe('leaderboard in the browser', () => {
   it('lets a researcher submit a valid plan and shows the first violation of an invalid one', async () => {
     await signInThroughUi(page, server.url, researcher);
     await page.goto(`${server.url}/leaderboards/submit`);
-    await page.getByLabel('Scenario id').fill(String(scenarioId));
+    // The instance is picked from lists, not by its id (issue 14, item 4).
+    for (const [field, option] of [['Instance set', /^Board e2e/], ['Map', /^tiny\.map/], ['Scenario', /^tiny-a\.scen/]] as const) {
+      await page.getByRole('combobox', { name: field }).click();
+      await page.getByRole('option', { name: option }).click();
+    }
     await page.getByLabel('Agents').fill('3');
+    await page.getByRole('combobox', { name: 'Robot profile' }).waitFor();
     await page.getByLabel('Solver name').fill('Hand planner');
     await page.getByLabel('Solver version').fill('1');
     await page.getByLabel('Plan', { exact: true }).fill('(0,0) (1,0) (2,0)\n(2,2) (1,2) (0,2)\n(4,3) (4,2) (4,1) (4,0)\n');
