@@ -1,6 +1,6 @@
 import {
   CI95_METHOD, cornishFisherT, meanInterval, quantileInterval, quantileRanks, runsForRateHalfWidth, studentT975, studentTwoSidedProbability,
-  wilsonInterval,
+  wilsonFromRate, wilsonInterval,
 } from './confidence-interval';
 
 describe('wilsonInterval', () => {
@@ -42,6 +42,36 @@ describe('wilsonInterval', () => {
     expect(() => wilsonInterval(3, 2)).toThrow(/successes/);
     expect(() => wilsonInterval(-1, 2)).toThrow(/successes/);
     expect(() => wilsonInterval(0, 1.5)).toThrow(/n must/);
+  });
+});
+
+describe('wilsonFromRate', () => {
+  it('recovers the success count from a stored rate (k/n as a double) and gives its Wilson interval', () => {
+    let checked = 0;
+    for (const n of [1, 3, 7, 25, 49, 100, 333]) {
+      for (let k = 0; k <= n; k++) {
+        // k / n is what a summary stores; 7/49 etc. are not exact in binary, so the count must be rounded back.
+        expect(wilsonFromRate(k / n, n)).toEqual(wilsonInterval(k, n));
+        checked++;
+      }
+    }
+    expect(checked).toBe(2 + 4 + 8 + 26 + 50 + 101 + 334);
+  });
+
+  it('rounds a rate stored with fewer digits to the nearest count (0.333 of 3 runs is 1 success)', () => {
+    expect(wilsonFromRate(0.333, 3)).toEqual(wilsonInterval(1, 3));
+    expect(wilsonFromRate(0.667, 3)).toEqual(wilsonInterval(2, 3));
+    // Recalled from memory of Newcombe's Table I (Stat Med 17, 1998), as above: 15/148 → [0.0624, 0.1605].
+    const [lo, hi] = wilsonFromRate(15 / 148, 148);
+    expect([Number(lo.toFixed(4)), Number(hi.toFixed(4))]).toEqual([0.0624, 0.1605]);
+  });
+
+  it('is [0, 1] with no runs and refuses a rate outside [0, 1] or a fractional run count', () => {
+    expect(wilsonFromRate(0, 0)).toEqual([0, 1]);
+    expect(() => wilsonFromRate(1.2, 10)).toThrow(/rate must/);
+    expect(() => wilsonFromRate(Number.NaN, 10)).toThrow(/rate must/);
+    expect(() => wilsonFromRate(0.5, 2.5)).toThrow(/runs must/);
+    expect(() => wilsonFromRate(0.5, -1)).toThrow(/runs must/);
   });
 });
 

@@ -35,6 +35,18 @@ export function wilsonInterval(successes: number, n: number): Interval95 {
   return [successes === 0 ? 0 : lo, successes === n ? 1 : hi];
 }
 
+/**
+ * Wilson interval of a stored success rate over `runs` runs, for summaries that keep only the rate
+ * (older stored executions, leaderboard rows): the success count is recovered as
+ * Math.round(rate × runs) — the rate was that count divided by runs, so rounding undoes the
+ * floating-point error of the division. runs = 0 gives [0, 1] (nothing is known).
+ */
+export function wilsonFromRate(rate: number, runs: number): Interval95 {
+  if (!(Number.isInteger(runs) && runs >= 0)) throw new RangeError(`wilsonFromRate: runs must be a whole number ≥ 0, got ${runs}`);
+  if (!(rate >= 0 && rate <= 1)) throw new RangeError(`wilsonFromRate: rate must be in [0, 1], got ${rate}`);
+  return wilsonInterval(Math.round(rate * runs), runs);
+}
+
 /** The Wilson interval at a (possibly fractional) observed rate p over n runs. */
 function wilsonAt(p: number, n: number): Interval95 {
   const z2 = Z95 * Z95;
