@@ -4,14 +4,15 @@
  * the view transform plus the start/goal markers, so a 1024 × 1024 map stays smooth.
  */
 import {
-  ChangeDetectionStrategy, Component, DestroyRef, ElementRef, afterNextRender, afterRenderEffect, computed, inject,
+  ChangeDetectionStrategy, Component, DestroyRef, ElementRef, afterNextRender, afterRenderEffect, inject,
   input, output, signal, viewChild,
 } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import type { CellXY } from '@shared/plan';
 import { CanvasHost } from './canvas-host';
 import { agentColour, paintMap } from './map-bitmap';
-import { cellAt, cellCentre, fitTransform, panBy, scaleLimits, wheelFactor, zoomAt, type ViewTransform } from './map-view-math';
+import { cellAt, cellCentre, type ViewTransform } from './map-view-math';
+import { BUTTON_ZOOM, ViewNavigator, canvasPoint } from './view-navigator';
 
 /** One agent's start and goal to draw over the map. */
 export interface AgentMarker {
@@ -21,8 +22,6 @@ export interface AgentMarker {
 
 /** Grid lines appear once a cell is at least this many pixels wide. */
 const GRID_LINE_SCALE = 10;
-/** Zoom factor of the + and − buttons. */
-const BUTTON_ZOOM = 1.5;
 
 /** The zoomable, pannable map canvas. */
 @Component({
@@ -45,16 +44,16 @@ export class MapCanvas {
   /** The cell under the pointer, or null when the pointer is off the map. */
   readonly hoverCell = output<readonly [number, number] | null>();
 
-  private readonly view = signal<ViewTransform>({ scale: 1, offsetX: 0, offsetY: 0 });
-  private readonly viewSize = signal<readonly [number, number]>([0, 0]);
-  private readonly fitted = computed(() => fitTransform(this.mapWidth(), this.mapHeight(), this.viewSize()[0] || 1, this.viewSize()[1] || 1));
+  /** Zoom and pan (shared with the plan viewer's fleet canvas). */
+  private readonly nav = new ViewNavigator(() => [this.mapWidth(), this.mapHeight()]);
+  private readonly view = this.nav.view;
+  private readonly viewSize = this.nav.viewSize;
   private bitmap: HTMLCanvasElement | null = null;
-  private drag: { x: number; y: number } | null = null;
   private frame = 0;
   /** Whether the canvas can draw at all (false under jsdom). */
   protected readonly hasCanvas = signal(true);
   /** Cells per screen pixel shown to the user, as a zoom readout. */
-  protected readonly zoomText = computed(() => `${Math.round(this.view().scale * 100) / 100} px per cell`);
+  protected readonly zoomText = this.nav.zoomText;
 
   constructor() {
     const destroyRef = inject(DestroyRef);
@@ -67,9 +66,7 @@ export class MapCanvas {
         const dpr = window.devicePixelRatio || 1;
         canvas.width = Math.max(1, Math.round(width * dpr));
         canvas.height = Math.max(1, Math.round(height * dpr));
-        const isFirst = this.viewSize()[0] === 0;
-        this.viewSize.set([width, height]);
-        if (isFirst) this.view.set(this.fitted());
+        this.nav.resize(width, height);
         this.scheduleDraw();
       };
       const observer = new ResizeObserver(resize);
@@ -83,7 +80,7 @@ export class MapCanvas {
     // Repaint the terrain bitmap only when the map itself changes.
     afterRenderEffect(() => {
       this.bitmap = this.paintBitmap(this.rows(), this.mapWidth(), this.mapHeight());
-      this.view.set(this.fitted());
+      this.nav.fit();
       this.scheduleDraw();
     });
     afterRenderEffect(() => {
@@ -95,74 +92,48 @@ export class MapCanvas {
 
   /** Shows the whole map again. */
   protected fitToView(): void {
-    this.view.set(this.fitted());
+    this.nav.fit();
   }
 
   /** Zooms about the centre of the canvas. */
   protected zoomBy(factor: number): void {
-    const [w, h] = this.viewSize();
-    this.view.update((t) => zoomAt(t, factor, w / 2, h / 2, scaleLimits(this.fitted())));
+    this.nav.zoomBy(factor);
   }
 
   protected readonly buttonZoom = BUTTON_ZOOM;
 
   /** Wheel zoom about the pointer. */
   protected zoomWithWheel(event: WheelEvent): void {
-    event.preventDefault();
-    const [px, py] = this.localPoint(event);
-    this.view.update((t) => zoomAt(t, wheelFactor(event.deltaY), px, py, scaleLimits(this.fitted())));
+    this.nav.zoomWithWheel(event, this.localPoint(event));
   }
 
   protected startDrag(event: PointerEvent): void {
-    this.drag = { x: event.clientX, y: event.clientY };
-    (event.target as Element).setPointerCapture?.(event.pointerId);
+    this.nav.startDrag(event);
   }
 
   /** Pans while dragging and reports the cell under the pointer. */
   protected trackPointer(event: PointerEvent): void {
-    if (this.drag) {
-      const dx = event.clientX - this.drag.x;
-      const dy = event.clientY - this.drag.y;
-      this.drag = { x: event.clientX, y: event.clientY };
-      this.view.update((t) => panBy(t, dx, dy));
-    }
+    this.nav.dragTo(event);
     const [px, py] = this.localPoint(event);
     this.hoverCell.emit(cellAt(this.view(), px, py, this.mapWidth(), this.mapHeight()));
   }
 
   protected endDrag(event: PointerEvent): void {
-    this.drag = null;
-    (event.target as Element).releasePointerCapture?.(event.pointerId);
+    this.nav.endDrag(event);
   }
 
   protected leaveCanvas(): void {
-    if (!this.drag) this.hoverCell.emit(null);
+    if (!this.nav.isDragging) this.hoverCell.emit(null);
   }
 
   /** Arrow keys pan, + and − zoom, 0 fits: the canvas is usable without a pointer. */
   protected moveWithKeys(event: KeyboardEvent): void {
-    const step = 40;
-    const moves: Record<string, () => void> = {
-      ArrowLeft: () => this.view.update((t) => panBy(t, step, 0)),
-      ArrowRight: () => this.view.update((t) => panBy(t, -step, 0)),
-      ArrowUp: () => this.view.update((t) => panBy(t, 0, step)),
-      ArrowDown: () => this.view.update((t) => panBy(t, 0, -step)),
-      '+': () => this.zoomBy(BUTTON_ZOOM),
-      '=': () => this.zoomBy(BUTTON_ZOOM),
-      '-': () => this.zoomBy(1 / BUTTON_ZOOM),
-      '0': () => this.fitToView(),
-    };
-    const move = moves[event.key];
-    if (!move) return;
-    event.preventDefault();
-    move();
+    this.nav.handleKey(event);
   }
 
   private localPoint(event: MouseEvent): readonly [number, number] {
     // Relative to the content box (the view's coordinates), inside the canvas's border.
-    const canvas = this.canvasRef().nativeElement;
-    const box = canvas.getBoundingClientRect();
-    return [event.clientX - box.left - canvas.clientLeft, event.clientY - box.top - canvas.clientTop];
+    return canvasPoint(this.canvasRef().nativeElement, event);
   }
 
   private paintBitmap(rows: readonly string[], width: number, height: number): HTMLCanvasElement | null {

@@ -16,9 +16,12 @@ type Ctx = CanvasRenderingContext2D | OffscreenCanvasRenderingContext2D;
 /** How long a collision mark stays after the disks separate, ms of plan time. */
 const COLLISION_LINGER_MS = 400;
 
-/** The pixel size of one cell for a map drawn within `maxPx` (at least 2 px). */
-export function cellPixels(width: number, height: number, maxPx: number): number {
-  return Math.max(2, Math.floor(maxPx / Math.max(1, width, height)));
+/** Largest side of the scene's map bitmap, px (kept well under browsers' canvas limits). */
+const SCENE_MAX_PX = 4096;
+
+/** Scene pixels per cell: sharp up to 16 px per cell when zoomed in, the bitmap never over SCENE_MAX_PX a side (at least 2 px). */
+export function sceneCellPixels(width: number, height: number): number {
+  return Math.max(2, Math.min(16, Math.floor(SCENE_MAX_PX / Math.max(1, width, height))));
 }
 
 /** One map and one run, ready to draw at any t. */

@@ -14,6 +14,8 @@ const CHAIN_COLOUR = '#1b1b1f';
 
 /** Height left for the time axis under the rows, px. */
 const AXIS_PX = 18;
+/** Height of the chart before it scrolls, px. */
+const ROWS_VIEWPORT_PX = 340;
 
 /** A step of 1, 2 or 5 × 10^n ms giving about `target` ticks over `span` (common practice for axis ticks). */
 export function tickStep(span: number, target = 6): number {
@@ -28,7 +30,9 @@ export function tickStep(span: number, target = 6): number {
 @Component({
   selector: 'app-gantt-chart',
   template: `
-    <canvas #canvas role="img" [attr.aria-label]="label()" [style.width.px]="widthPx()" [style.height.px]="heightPx()"></canvas>
+    <div class="rows" role="region" [style.max-height.px]="viewportPx" tabindex="0" [attr.aria-label]="robotCount() + ' robot rows' + (heightPx() > viewportPx ? ', scroll for more' : '')">
+      <canvas #canvas role="img" [attr.aria-label]="label()" [style.width.px]="widthPx()" [style.height.px]="heightPx()"></canvas>
+    </div>
     <ul class="legend" aria-label="Timeline legend">
       @for (k of kinds; track k) {
         <li><span class="swatch" [style.background]="colours[k]"></span>{{ labels[k] }}</li>
@@ -37,7 +41,9 @@ export function tickStep(span: number, target = 6): number {
     </ul>`,
   styles: [`
     :host { display: block; }
-    canvas { display: block; max-width: 100%; }
+    canvas { display: block; }
+    /* Many robots scroll here instead of squeezing their rows (GANTT_MIN_ROW_PX). */
+    .rows { overflow-y: auto; overflow-x: hidden; max-width: 100%; }
     .legend { display: flex; flex-wrap: wrap; gap: 4px 14px; list-style: none; margin: 6px 0 0; padding: 0; font: var(--mat-sys-body-small); }
     .swatch { display: inline-block; width: 10px; height: 10px; margin-right: 5px; border-radius: 2px; vertical-align: -1px; }
     .swatch.is-chain { width: 8px; height: 8px; border: 1px solid; border-color: #1b1b1f; background: transparent; }
@@ -57,7 +63,9 @@ export class GanttChart {
   protected readonly kinds = GANTT_KINDS;
   protected readonly labels = GANTT_LABELS;
   protected readonly colours = GANTT_COLOURS;
-  protected readonly rowPx = computed(() => ganttRowHeight(this.robotCount(), 320));
+  /** Visible height of the rows before they scroll, px. */
+  protected readonly viewportPx = ROWS_VIEWPORT_PX;
+  protected readonly rowPx = computed(() => ganttRowHeight(this.robotCount(), ROWS_VIEWPORT_PX - AXIS_PX));
   protected readonly heightPx = computed(() => this.robotCount() * this.rowPx() + AXIS_PX);
 
   constructor() {

@@ -1,4 +1,4 @@
-import { GANTT_KINDS, ganttRowHeight, ganttSegments } from './gantt-layout';
+import { GANTT_KINDS, GANTT_MIN_ROW_PX, ganttRowHeight, ganttSegments } from './gantt-layout';
 import { runPaths, testInstance } from './plan-viewer-testing';
 
 const named = (s: ReturnType<typeof ganttSegments>) =>
@@ -31,7 +31,10 @@ describe('ganttSegments', () => {
 
   it('keeps rows between 2 and 14 px', () => {
     expect(ganttRowHeight(4, 400)).toBe(14);
-    expect(ganttRowHeight(200, 400)).toBe(2);
-    expect(ganttRowHeight(50, 400)).toBe(8);
+    expect(ganttRowHeight(30, 400)).toBe(13);
+    // Many robots keep a readable row (the chart scrolls): 40 robots in 320 px would be 8 px, 200 would be 2 px.
+    expect(ganttRowHeight(40, 320)).toBe(GANTT_MIN_ROW_PX);
+    expect(ganttRowHeight(200, 400)).toBe(GANTT_MIN_ROW_PX);
+    expect(GANTT_MIN_ROW_PX).toBeGreaterThanOrEqual(10);
   });
 });

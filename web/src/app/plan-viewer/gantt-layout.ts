@@ -77,7 +77,10 @@ function categoryOf(track: FleetTrack, a: number): GanttKind {
   return k === KIND.forward ? 'forward' : k === KIND.wait ? 'wait' : 'turn';
 }
 
-/** Row height (px) for `robots` rows within `maxHeightPx`, between 2 and 14 px. */
+/** The lowest a robot's row gets, px: a bar and its outline stay readable; more robots scroll instead of squeezing. */
+export const GANTT_MIN_ROW_PX = 10;
+
+/** Row height (px) for `robots` rows within `maxHeightPx`, between GANTT_MIN_ROW_PX and 14 px (the chart scrolls past `maxHeightPx`). */
 export function ganttRowHeight(robots: number, maxHeightPx: number): number {
-  return Math.max(2, Math.min(14, Math.floor(maxHeightPx / Math.max(1, robots))));
+  return Math.max(GANTT_MIN_ROW_PX, Math.min(14, Math.floor(maxHeightPx / Math.max(1, robots))));
 }
