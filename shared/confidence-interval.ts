@@ -8,8 +8,8 @@
 /** A two-sided 95 % interval [lo, hi]. */
 export type Interval95 = readonly [lo: number, hi: number];
 
-/** The standard normal 0.975 quantile to 7 digits (common practice; the usual 1.96): the z of the Wilson interval. */
-const Z95 = 1.959964;
+/** The standard normal 0.975 quantile to 7 digits (common practice; the usual 1.96): the z of the Wilson interval and of other two-sided 95 % normal intervals. */
+export const Z95 = 1.959964;
 /** The same quantile to double precision (common practice), for the t expansion. */
 const Z975 = 1.959963984540054;
 

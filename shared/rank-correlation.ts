@@ -5,13 +5,14 @@
  * ρ is computed as Pearson's correlation of the ranks, which is exact with ties (the shortcut
  * 1 − 6Σd²/(n(n²−1)) is only exact without them).
  */
+import { Z95, type Interval95 } from './confidence-interval';
 
 /** Spearman's ρ with the number of pairs and an approximate 95 % interval (null when n < 4 or ρ undefined). */
 export interface RankCorrelation {
   readonly n: number;
   /** Null when fewer than 2 pairs or one side has all values equal (ρ undefined). */
   readonly rho: number | null;
-  readonly ci95: readonly [lo: number, hi: number] | null;
+  readonly ci95: Interval95 | null;
 }
 
 /** Method text for pages and exports. */
@@ -51,8 +52,6 @@ function pearson(x: readonly number[], y: readonly number[]): number | null {
   return Math.max(-1, Math.min(1, sxy / Math.sqrt(sxx * syy)));
 }
 
-/** z of the two-sided 95 % normal interval. */
-const Z95 = 1.959964;
 
 /** Spearman's ρ of paired series `x` and `y` (same length; pairs with a non-finite value are an error). */
 export function spearman(x: readonly number[], y: readonly number[]): RankCorrelation {

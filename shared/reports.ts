@@ -3,11 +3,9 @@
  * profile × execution policy, one row of figures per plan model variant and sentences generated
  * from them. Types and fixed texts only; zod-free, shared by api and web.
  */
+import type { Interval95 } from './confidence-interval';
 import type { PlanModel, RobotProfile } from './plan';
 import { SWEEP_POLICIES, type SweepPolicy } from './sweeps';
-
-/** A 95 % interval [lo, hi]. */
-export type ReportInterval = readonly [lo: number, hi: number];
 
 /** The execution policies a report may be asked for. */
 export const REPORT_POLICIES: readonly SweepPolicy[] = SWEEP_POLICIES;
@@ -42,7 +40,7 @@ export interface ReportChoices {
 export interface PlannedVsRealised {
   readonly n: number;
   readonly rho: number | null;
-  readonly ci95: ReportInterval | null;
+  readonly ci95: Interval95 | null;
 }
 
 /** The figures of one plan model variant (model + parameters that change the problem). */
@@ -58,31 +56,66 @@ export interface VariantFigures {
   readonly instances: number;
   readonly solved: number;
   readonly solvedRate: number | null;
-  readonly solvedCi95: ReportInterval | null;
+  readonly solvedCi95: Interval95 | null;
   /** Solved instances whose plan was checked open-loop at zero noise, and how many ran collision-free. */
   readonly nominalChecked: number;
   readonly nominalExecutable: number;
   readonly executableRate: number | null;
-  readonly executableCi95: ReportInterval | null;
-  /** Solved instances replayed under the policy, their runs, and runs with no collision. */
+  readonly executableCi95: Interval95 | null;
+  /** Solved instances replayed under the policy, their runs, and runs that succeeded. */
   readonly executedInstances: number;
   readonly runs: number;
   readonly successfulRuns: number;
+  /**
+   * Mean over executed instances of each instance's execution success rate, with a Student t
+   * interval over those instances cut to [0, 1] (MEAN_SUCCESS_METHOD; null below 2 instances).
+   * Runs of one plan are strongly correlated, so no interval over pooled runs is given.
+   */
   readonly executionSuccessRate: number | null;
-  readonly executionSuccessCi95: ReportInterval | null;
-  /** Executed instances where at least one run collided. */
+  readonly executionSuccessCi95: Interval95 | null;
+  /** Executed instances where runs collided (mean collisions per run > 0). */
   readonly instancesWithCollisions: number;
+  /** Executed instances where runs failed without any collision (deadlocks). */
+  readonly instancesWithFailuresWithoutCollision: number;
   /** Mean over executed instances of the mean realised makespan, ms. */
   readonly realisedMakespanMeanMs: number | null;
   /**
    * Realised makespan over classic's on the same instances: geometric mean of the per-instance
    * ratios, with its interval; `pairs` instances had both executed.
    */
-  readonly makespanVsClassic: { readonly pairs: number; readonly ratio: number | null; readonly ci95: ReportInterval | null };
+  readonly makespanVsClassic: { readonly pairs: number; readonly ratio: number | null; readonly ci95: Interval95 | null };
   /** Mean over executed instances of the mean finish spread, ms, with its interval. */
-  readonly finishSpreadMs: { readonly n: number; readonly mean: number | null; readonly ci95: ReportInterval | null };
+  readonly finishSpreadMs: { readonly n: number; readonly mean: number | null; readonly ci95: Interval95 | null };
   readonly plannedVsRealised: PlannedVsRealised;
 }
+
+/** One variant on the instances every compared variant solved and replayed. */
+export interface CommonInstanceFigures {
+  readonly label: string;
+  /** Mean over the common instances of the execution success rate; Student t interval over them, cut to [0, 1]. */
+  readonly success: number;
+  readonly successCi95: Interval95 | null;
+  /** Realised makespan over classic's on the common instances (geometric mean, t interval on the logarithms); null without classic. */
+  readonly makespanRatio: number | null;
+  readonly makespanRatioCi95: Interval95 | null;
+}
+
+/**
+ * The variants executed under the policy compared on the same instances: those every one of
+ * them solved and replayed. Null when no variant was executed or the replays' settings differ.
+ */
+export interface CommonInstanceComparison {
+  readonly instances: number;
+  readonly variants: readonly CommonInstanceFigures[];
+}
+
+/** Fewest common instances for an ordering claim (below it the sentence says there are too few to tell; common practice, not a rule). */
+export const MIN_RANKED_INSTANCES = 5;
+
+/** Shown on the page and said in the summary when the replays read were made with different settings. */
+export const MIXED_SETTINGS_NOTE =
+  'The replays read were made with different settings (runs, timing jitter or stalls), so the variants are not ranked: '
+  + 'figures from different noise are not comparable. Replay every variant with one setting to compare them.';
 
 /** GET /api/reports/model-comparison?set=&profile=&policy=. */
 export interface ModelComparisonReport {
@@ -94,6 +127,8 @@ export interface ModelComparisonReport {
   /** Noise and runs of the executions read, e.g. "20 runs, timing jitter CV 0.1, no stalls" (several when mixed). */
   readonly executionSettings: readonly string[];
   readonly variants: readonly VariantFigures[];
+  /** The executed variants on their common instances (null: nothing executed, or mixed settings). */
+  readonly comparison: CommonInstanceComparison | null;
   /** Sentences generated from the figures. */
   readonly summary: readonly string[];
   /** How each figure and interval is computed, one line each. */
@@ -116,14 +151,14 @@ export function variantLabel(model: string, variant: string): string {
 
 /** "12.3 %" of a share, one decimal. */
 const percent = (share: number): string => `${(share * 100).toFixed(1)} %`;
-const ci = (iv: ReportInterval | null, f: (v: number) => string): string => (iv ? ` [${f(iv[0])}, ${f(iv[1])}]` : '');
+const ci = (iv: Interval95 | null, f: (v: number) => string): string => (iv ? ` [${f(iv[0])}, ${f(iv[1])}]` : '');
 
 /** Column headers of the report table, each with its unit. */
 export const REPORT_TABLE_HEADERS: readonly string[] = [
   'Plan model',
   'Solved rate (% of instances, 95 % CI)',
-  'Executable at nominal times (solved instances checked)',
-  'Execution success rate (% of runs, 95 % CI)',
+  'Executable at nominal times (% of checked solved instances, 95 % CI)',
+  'Execution success rate (mean over executed instances, %, 95 % CI)',
   'Realised makespan / classic (ratio, 95 % CI)',
   'Finish spread (ms, mean, 95 % CI)',
   'Planned vs realised makespan (Spearman ρ, 95 % CI, n)',
@@ -134,8 +169,8 @@ export function reportTableRows(report: Pick<ModelComparisonReport, 'variants'>)
   return report.variants.map((v) => [
     v.label,
     v.solvedRate === null ? '–' : `${percent(v.solvedRate)}${ci(v.solvedCi95, percent)} (${v.solved}/${v.instances})`,
-    v.nominalChecked === 0 ? 'not checked' : `${v.nominalExecutable}/${v.nominalChecked}`,
-    v.executionSuccessRate === null ? '–' : `${percent(v.executionSuccessRate)}${ci(v.executionSuccessCi95, percent)} (${v.runs} runs)`,
+    v.executableRate === null ? 'not checked' : `${percent(v.executableRate)}${ci(v.executableCi95, percent)} (${v.nominalExecutable} of ${v.nominalChecked})`,
+    v.executionSuccessRate === null ? '–' : `${percent(v.executionSuccessRate)}${ci(v.executionSuccessCi95, percent)} (${v.executedInstances} instances, ${v.runs} runs)`,
     v.isReference ? '1 (reference)' : v.makespanVsClassic.ratio === null ? '–'
       : `${v.makespanVsClassic.ratio.toFixed(3)}${ci(v.makespanVsClassic.ci95, (x) => x.toFixed(3))} (${v.makespanVsClassic.pairs} pairs)`,
     v.finishSpreadMs.mean === null ? '–' : `${v.finishSpreadMs.mean.toFixed(0)}${ci(v.finishSpreadMs.ci95, (x) => x.toFixed(0))}`,

@@ -1,9 +1,11 @@
 /**
  * The sentences of the model comparison report, generated from its figures. They claim an order
- * only when 95 % intervals do not overlap, say "not distinguishable" otherwise, and warn when
- * samples are small; nothing here is a safety statement (the report carries SAFETY_NOTE).
+ * only when 95 % intervals do not overlap, come from at least MIN_RANKED_INSTANCES instances and
+ * are not both of zero width; they say "not distinguishable" or "too few to tell" otherwise, and
+ * warn when samples are small; nothing here is a safety statement (the report carries SAFETY_NOTE).
  */
-import type { ReportInterval, VariantFigures } from '@shared/reports';
+import type { Interval95 } from '@shared/confidence-interval';
+import { MIN_RANKED_INSTANCES, MIXED_SETTINGS_NOTE, type CommonInstanceComparison, type CommonInstanceFigures, type VariantFigures } from '@shared/reports';
 import type { SweepPolicy } from '@shared/sweeps';
 
 /** Below this many executed instances per variant the summary says the figures are indicative (common practice, not a rule). */
@@ -17,10 +19,17 @@ export function pct(share: number): string {
 }
 
 /** "[8 %, 15 %]". */
-const pctInterval = (ci: ReportInterval): string => `[${pct(ci[0])}, ${pct(ci[1])}]`;
+const pctInterval = (ci: Interval95): string => `[${pct(ci[0])}, ${pct(ci[1])}]`;
 
 /** Whether two intervals share a point. */
-export const overlaps = (a: ReportInterval, b: ReportInterval): boolean => a[0] <= b[1] && b[0] <= a[1];
+export const overlaps = (a: Interval95, b: Interval95): boolean => a[0] <= b[1] && b[0] <= a[1];
+
+/**
+ * Whether interval `a` lies wholly below `b` in a way that may support an ordering claim: no
+ * overlap, and not both of zero width (meanInterval gives [x, x] for constant values, which is no
+ * evidence from a small sample). The caller checks the number of instances.
+ */
+export const clearlyBelow = (a: Interval95, b: Interval95): boolean => a[1] < b[0] && (a[1] > a[0] || b[1] > b[0]);
 
 /** "a, b and c". */
 function listOf(items: readonly string[]): string {
@@ -29,14 +38,21 @@ function listOf(items: readonly string[]): string {
 
 function nominalClause(v: VariantFigures): string {
   if (v.nominalChecked === 0) return v.solved === 0 ? '' : 'executability at nominal times not checked';
-  if (v.nominalExecutable === v.nominalChecked) return `executable at nominal times in all ${v.nominalChecked} checked solved instances`;
-  return `collided at nominal times in ${v.nominalChecked - v.nominalExecutable} of ${v.nominalChecked} checked solved instances`;
+  const rate = v.executableRate !== null && v.executableCi95 !== null ? ` (executable-at-nominal rate ${pct(v.executableRate)} ${pctInterval(v.executableCi95)})` : '';
+  if (v.nominalExecutable === v.nominalChecked) return `executable at nominal times in all ${v.nominalChecked} checked solved instances${rate}`;
+  return `collided at nominal times in ${v.nominalChecked - v.nominalExecutable} of ${v.nominalChecked} checked solved instances${rate}`;
 }
 
 function successClause(v: VariantFigures): string {
-  if (v.runs === 0 || v.executionSuccessRate === null || v.executionSuccessCi95 === null) return 'not executed under this policy';
-  const collided = v.instancesWithCollisions > 0 ? `, collisions in ${v.instancesWithCollisions} of ${v.executedInstances} executed instances` : '';
-  return `execution success ${pct(v.executionSuccessRate)} ${pctInterval(v.executionSuccessCi95)} of ${v.runs} runs${collided}`;
+  if (v.runs === 0 || v.executionSuccessRate === null) return 'not executed under this policy';
+  const n = v.executedInstances;
+  const figure = v.executionSuccessCi95 === null
+    ? `execution success ${pct(v.executionSuccessRate)} on ${n} executed instance (${v.runs} runs; too few instances for an interval)`
+    : `execution success ${pct(v.executionSuccessRate)} ${pctInterval(v.executionSuccessCi95)} (mean over ${n} executed instances, ${v.runs} runs)`;
+  const collided = v.instancesWithCollisions > 0 ? `, collisions in ${v.instancesWithCollisions} of ${n} executed instances` : '';
+  const deadlocked = v.instancesWithFailuresWithoutCollision > 0
+    ? `, failed runs without collision (deadlocks) in ${v.instancesWithFailuresWithoutCollision} of ${n} executed instances` : '';
+  return `${figure}${collided}${deadlocked}`;
 }
 
 function makespanClause(v: VariantFigures): string {
@@ -45,6 +61,9 @@ function makespanClause(v: VariantFigures): string {
   if (pairs === 0 || ratio === null) return 'no instance to compare with classic';
   const word = (r: number) => (r <= 1 ? 'sooner' : 'later');
   if (ci95 === null) return `finished ${pct(Math.abs(1 - ratio))} ${word(ratio)} than classic on ${pairs} instance (too few for an interval)`;
+  if (pairs < MIN_RANKED_INSTANCES || ci95[1] === ci95[0]) {
+    return `realised makespan ${ratio.toFixed(3)} times classic's on ${pairs} paired instances, too few to tell whether it is sooner or later (an order needs at least ${MIN_RANKED_INSTANCES} paired instances and a spread between them)`;
+  }
   if (ci95[1] < 1 || ci95[0] > 1) {
     // Sooner by 1 − ratio: the interval's ends swap.
     const lo = ratio < 1 ? 1 - ci95[1] : ci95[0] - 1;
@@ -63,30 +82,49 @@ function variantSentence(v: VariantFigures): string {
 
 const capitalise = (s: string): string => s.charAt(0).toUpperCase() + s.slice(1);
 
-/** The variants whose execution success interval overlaps the highest one's. */
-function topBySuccess(executed: readonly VariantFigures[]): VariantFigures[] {
-  const best = [...executed].sort((a, b) => (b.executionSuccessRate ?? 0) - (a.executionSuccessRate ?? 0))[0];
-  return executed.filter((v) => overlaps(v.executionSuccessCi95!, best.executionSuccessCi95!));
+/** The variants not clearly below the one with the highest mean execution success on the common instances. */
+function topBySuccess(compared: readonly CommonInstanceFigures[]): CommonInstanceFigures[] {
+  const best = [...compared].sort((a, b) => b.success - a.success)[0];
+  return compared.filter((v) => v === best || !clearlyBelow(v.successCi95!, best.successCi95!));
 }
 
+const successFigure = (v: CommonInstanceFigures): string => `${v.label} (${pct(v.success)} ${pctInterval(v.successCi95!)})`;
+
 /**
- * The sentence that answers "which plan model for these robots", as far as the intervals allow:
- * the variants whose execution success interval overlaps the best one's lead (no order among
- * them); of those, the ones seen colliding at nominal times are named; among the rest one is
- * named fastest only when its makespan interval is clear of every other one's.
+ * The sentence that answers "which plan model for these robots", as far as the intervals allow.
+ * Variants are compared on the instances every executed variant solved and replayed; below
+ * MIN_RANKED_INSTANCES of them, or with mixed replay settings, no order is claimed. The variants
+ * whose mean execution success is not clearly below the best one's lead (no order among them); of
+ * those, the ones seen colliding at nominal times are named; among the rest one is named fastest
+ * only when its makespan interval on the same instances is clearly below every other one's.
  */
-function choiceSentence(variants: readonly VariantFigures[], policy: SweepPolicy): string {
-  const executed = variants.filter((v) => v.executionSuccessCi95 !== null);
-  if (executed.length === 0) return `No variant was executed under ${policy}, so the report cannot say which plan model suits these robots.`;
-  const top = topBySuccess(executed);
-  const collidingAtNominal = top.filter((v) => v.nominalChecked > v.nominalExecutable);
+function choiceSentence(variants: readonly VariantFigures[], comparison: CommonInstanceComparison | null, policy: SweepPolicy, settingsMixed: boolean): string {
+  const head = `Which plan model for these robots under ${policy}: `;
+  if (settingsMixed) return `${head}not ranked. ${MIXED_SETTINGS_NOTE}`;
+  if (comparison === null || comparison.variants.length === 0) return `No variant was executed under ${policy}, so the report cannot say which plan model suits these robots.`;
+  const compared = comparison.variants;
+  if (compared.length === 1) return `${head}only ${compared[0].label} was executed under this policy, so there is nothing to compare it with.`;
+  const n = comparison.instances;
+  const scope = `on the ${n} instances every executed variant solved and replayed`;
+  if (n < MIN_RANKED_INSTANCES || compared.some((v) => v.successCi95 === null)) {
+    const fewest = [...variants].filter((v) => v.executedInstances > 0).sort((a, b) => a.executedInstances - b.executedInstances)[0];
+    return `${head}too few instances to tell the variants apart: only ${n} ${n === 1 ? 'instance was' : 'instances were'} solved and replayed by every executed variant `
+      + `(${fewest.label} on ${fewest.executedInstances}), and an order needs at least ${MIN_RANKED_INSTANCES}.`;
+  }
+  const top = topBySuccess(compared);
+  const byLabel = new Map(variants.map((v) => [v.label, v]));
+  const collidingAtNominal = top.filter((c) => { const v = byLabel.get(c.label)!; return v.nominalChecked > v.nominalExecutable; });
   // Not seen colliding at nominal times (including variants never checked, named as such below).
-  const candidates = top.filter((v) => v.nominalChecked === v.nominalExecutable);
-  const unchecked = candidates.filter((v) => v.nominalChecked === 0);
+  const candidates = top.filter((c) => !collidingAtNominal.includes(c));
+  const unchecked = candidates.filter((c) => byLabel.get(c.label)!.nominalChecked === 0);
   const parts: string[] = [];
-  if (top.length === 1) parts.push(`${top[0].label} has the highest execution success rate, its interval clear of every other variant's`);
-  else if (top.length === executed.length) parts.push(`execution success does not rank the variants: every interval overlaps the best one's`);
-  else parts.push(`${listOf(top.map((v) => v.label))} lead on execution success (their intervals overlap the best one's, so no order among them; the others' lie wholly below it)`);
+  if (top.length === 1) {
+    parts.push(`${scope}, ${successFigure(top[0])} has the highest mean execution success rate, its interval clear of every other variant's (${compared.filter((v) => v !== top[0]).map(successFigure).join('; ')})`);
+  } else if (top.length === compared.length) {
+    parts.push(`${scope}, execution success does not rank the variants: no interval lies clearly below the best one's (${compared.map(successFigure).join('; ')})`);
+  } else {
+    parts.push(`${scope}, ${listOf(top.map(successFigure))} lead on mean execution success (their intervals overlap the best one's, so no order among them; the others' lie wholly below it: ${compared.filter((v) => !top.includes(v)).map(successFigure).join('; ')})`);
+  }
   if (collidingAtNominal.length > 0) parts.push(`of these, ${listOf(collidingAtNominal.map((v) => v.label))} collided at nominal times on some instances`);
   // The variants left, named again only when some were set aside, and which of them nobody checked.
   const named = collidingAtNominal.length > 0 || top.length === 1 ? listOf(candidates.map((v) => v.label)) : 'these';
@@ -94,12 +132,12 @@ function choiceSentence(variants: readonly VariantFigures[], policy: SweepPolicy
   const uncheckedNote = allUnchecked
     ? (candidates.length === 1 ? ' (not checked at nominal times)' : ' (none of them checked at nominal times)')
     : unchecked.length ? ` (${listOf(unchecked.map((v) => v.label))} not checked at nominal times)` : '';
-  const withRatio = candidates.filter((v) => v.makespanVsClassic.ci95 !== null || v.isReference);
-  const ciOf = (v: VariantFigures): ReportInterval => (v.isReference ? [1, 1] : v.makespanVsClassic.ci95!);
+  const withRatio = candidates.filter((v) => v.makespanRatioCi95 !== null);
+  const ciOf = (v: CommonInstanceFigures): Interval95 => v.makespanRatioCi95!;
   const fastest = [...withRatio].sort((a, b) => ciOf(a)[1] - ciOf(b)[1])[0];
-  const undecided = 'their realised makespans do not single out one of them (overlapping or missing intervals)';
-  if (fastest && withRatio.length > 1 && withRatio.length === candidates.length && withRatio.every((v) => v === fastest || ciOf(fastest)[1] < ciOf(v)[0])) {
-    parts.push(`of ${named}${uncheckedNote}, ${fastest.label} finished soonest, its makespan interval clear of the others'`);
+  const undecided = 'their realised makespans on these instances do not single out one of them (overlapping, constant or missing intervals)';
+  if (fastest && withRatio.length > 1 && withRatio.length === candidates.length && withRatio.every((v) => v === fastest || clearlyBelow(ciOf(fastest), ciOf(v)))) {
+    parts.push(`of ${named}${uncheckedNote}, ${fastest.label} finished soonest on these instances, its makespan interval (relative to classic) clear of the others'`);
   } else if (candidates.length > 1) {
     if (collidingAtNominal.length > 0) parts.push(`${named}${uncheckedNote} remain, and ${undecided}`);
     else if (allUnchecked) parts.push(`${undecided}; none of them was checked at nominal times`);
@@ -107,7 +145,7 @@ function choiceSentence(variants: readonly VariantFigures[], policy: SweepPolicy
   } else if (candidates.length === 1 && top.length > 1) {
     parts.push(`${named}${uncheckedNote} remains`);
   }
-  return `Which plan model for these robots under ${policy}: ${parts.join('; ')}.`;
+  return `${head}${parts.join('; ')}.`;
 }
 
 /** How well the planned cost predicts the realised makespan, per variant, in words. */
@@ -137,13 +175,14 @@ export function summarise(input: {
   readonly instances: number;
   readonly executionSettings: readonly string[];
   readonly variants: readonly VariantFigures[];
+  readonly comparison: CommonInstanceComparison | null;
 }): string[] {
   const { variants } = input;
   const settings = input.executionSettings.length === 0 ? 'no replays stored' : `replays with ${input.executionSettings.join('; ')}`;
   const out = [`For robot profile ${input.profileLabel} under ${input.policy} execution on instance set "${input.setName}": ${input.instances} instances (scenario × agent count), ${variants.length} plan model variants, ${settings}.`];
   if (variants.length === 0) return [...out, 'No computed results match; run a sweep with this robot profile on this set.'];
   out.push(...variants.map(variantSentence));
-  out.push(choiceSentence(variants, input.policy));
+  out.push(choiceSentence(variants, input.comparison, input.policy, input.executionSettings.length > 1));
   const prediction = predictionSentence(variants);
   if (prediction) out.push(prediction);
   const executed = variants.filter((v) => v.executedInstances > 0).map((v) => v.executedInstances);

@@ -14,7 +14,7 @@ import type { Models } from '../db/models';
 import { AppError } from '../errors/app-error';
 import { isSetVisible, type Viewer } from '../instance-sets/instance-set-access';
 import { visibleRowsCondition } from '../leaderboards/view-sql';
-import { compareVariants, executionSettingsText, instanceCount, REPORT_METHODS, type InstanceOutcome } from './model-comparison';
+import { compareOnCommonInstances, compareVariants, executionSettingsText, instanceCount, REPORT_METHODS, type InstanceOutcome } from './model-comparison';
 import { summarise } from './report-summary';
 
 /** What a report is asked for. */
@@ -43,15 +43,15 @@ const VARIANT_SQL = `concat_ws(' ',
 
 /**
  * Newest computed result per instance × variant (a solved one and one replayed under the policy
- * first), with its newest replay under the policy. `executable_at_nominal` is read through
- * to_jsonb so the report also works on a database without that column (null = not checked).
+ * first), with its newest replay under the policy. `executable_at_nominal` (migration 0405) is
+ * null when the plan was not checked.
  */
 const OUTCOMES_SQL = `
   SELECT DISTINCT ON (r.scenario_id, r.agents, r.model, ${VARIANT_SQL})
     r.scenario_id, r.agents, r.model, ${VARIANT_SQL} AS variant, r.status,
     r.turn_inclusive_makespan_ms AS ti_makespan_ms, r.robot_profile,
-    (to_jsonb(r) ->> 'executable_at_nominal')::boolean AS executable_at_nominal,
-    x.runs, x.success_rate, x.realised_makespan_mean_ms, x.finish_spread_mean_ms, x.noise
+    r.executable_at_nominal,
+    x.runs, x.success_rate, x.collisions_mean, x.realised_makespan_mean_ms, x.finish_spread_mean_ms, x.noise
   FROM results r
   LEFT JOIN LATERAL (
     SELECT * FROM executions ex WHERE ex.result_id = r.id AND ex.policy = :policy ORDER BY ex.id DESC LIMIT 1
@@ -71,6 +71,7 @@ interface OutcomeRow {
   executable_at_nominal: boolean | null;
   runs: number | null;
   success_rate: number | null;
+  collisions_mean: number | null;
   realised_makespan_mean_ms: number | null;
   finish_spread_mean_ms: number | null;
   noise: { jitterCv?: number; stallProbability?: number; stallMs?: number } | null;
@@ -136,7 +137,7 @@ export function createReportsService(deps: { readonly sequelize: Sequelize; read
           tiMakespanMs: r.ti_makespan_ms,
           executableAtNominal: r.executable_at_nominal,
           execution: executed
-            ? { runs: r.runs!, successRate: r.success_rate!, realisedMakespanMeanMs: r.realised_makespan_mean_ms, finishSpreadMeanMs: r.finish_spread_mean_ms }
+            ? { runs: r.runs!, successRate: r.success_rate!, collisionsMean: r.collisions_mean ?? 0, realisedMakespanMeanMs: r.realised_makespan_mean_ms, finishSpreadMeanMs: r.finish_spread_mean_ms }
             : null,
         };
       });
@@ -144,6 +145,8 @@ export function createReportsService(deps: { readonly sequelize: Sequelize; read
       const variants = compareVariants(outcomes);
       const instances = instanceCount(outcomes);
       const executionSettings = [...settings].sort();
+      // Replays with different runs, jitter or stalls are not comparable: no ranking then (the summary and the page say so).
+      const comparison = executionSettings.length > 1 ? null : compareOnCommonInstances(outcomes);
       const label = profileLabel(profile);
       return {
         set: { id: set.id, name: set.name },
@@ -152,7 +155,8 @@ export function createReportsService(deps: { readonly sequelize: Sequelize; read
         instances,
         executionSettings,
         variants,
-        summary: summarise({ setName: set.name, profileLabel: label, policy: request.policy, instances, executionSettings, variants }),
+        comparison,
+        summary: summarise({ setName: set.name, profileLabel: label, policy: request.policy, instances, executionSettings, variants, comparison }),
         methods: REPORT_METHODS,
         safetyNote: SAFETY_NOTE,
       };

@@ -10,7 +10,7 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatSelectModule } from '@angular/material/select';
 import { ActivatedRoute, Router } from '@angular/router';
-import { REPORT_POLICIES, REPORT_TABLE_HEADERS, reportTableRows } from '@shared/reports';
+import { MIXED_SETTINGS_NOTE, REPORT_POLICIES, REPORT_TABLE_HEADERS, reportTableRows } from '@shared/reports';
 import { SAFETY_NOTE } from '@shared/executions-constants';
 import { errorMessage } from '../core/error-message';
 import { ReportApi, type ReportScope } from './report-api';
@@ -39,6 +39,7 @@ export default class ModelComparisonPage {
   protected readonly policies = REPORT_POLICIES;
   protected readonly headers = REPORT_TABLE_HEADERS;
   protected readonly safetyNote = SAFETY_NOTE;
+  protected readonly mixedSettingsNote = MIXED_SETTINGS_NOTE;
 
   // hasValue() first: reading value() of a resource in its error state throws.
   protected readonly sets = computed(() => (this.choices.hasValue() ? this.choices.value().sets : []));
