@@ -4,7 +4,7 @@
  * the figures recomputed here from the seeded numbers and the generated sentences checked.
  */
 import { meanInterval, wilsonInterval } from '@shared/confidence-interval';
-import type { ModelComparisonReport, ReportChoices, VariantFigures } from '@shared/reports';
+import { MIXED_SETTINGS_NOTE, type ModelComparisonReport, type ReportChoices, type VariantFigures } from '@shared/reports';
 import { parameterHash } from '../sweeps/parameter-hash';
 import { PROFILES, startBoardWorld, type BoardWorld } from '../../../test/integration/leaderboard-support';
 
@@ -22,7 +22,7 @@ interface Seed {
   readonly ti: number | null;
   readonly nominal?: boolean | null;
   /** Replays by policy: success rate over `runs`, mean realised makespan and finish spread (ms). */
-  readonly exec?: Readonly<Record<string, { success: number; realised: number; spread: number; runs?: number }>>;
+  readonly exec?: Readonly<Record<string, { success: number; realised: number; spread: number; runs?: number; collisions?: number; jitterCv?: number }>>;
 }
 
 async function insert(world: BoardWorld, seeds: readonly Seed[]): Promise<void> {
@@ -45,8 +45,11 @@ async function insert(world: BoardWorld, seeds: readonly Seed[]): Promise<void> 
     for (const [policy, e] of Object.entries(s.exec ?? {})) {
       await world.lib.sql(
         `INSERT INTO executions (result_id, policy, noise, runs, success_rate, collisions_mean, realised_makespan_mean_ms, realised_makespan_p95_ms, finish_spread_mean_ms, metrics)
-         VALUES (:id, :policy, :noise, :runs, :success, 0, :realised, :realised, :spread, '{}')`,
-        { id: row.id, policy, noise: JSON.stringify({ jitterCv: 0.1, stallProbability: 0, stallMs: 0 }), runs: e.runs ?? 20, success: e.success, realised: e.realised, spread: e.spread },
+         VALUES (:id, :policy, :noise, :runs, :success, :collisions, :realised, :realised, :spread, '{}')`,
+        {
+          id: row.id, policy, noise: JSON.stringify({ jitterCv: e.jitterCv ?? 0.1, stallProbability: 0, stallMs: 0 }), runs: e.runs ?? 20,
+          success: e.success, collisions: e.collisions ?? 0, realised: e.realised, spread: e.spread,
+        },
       );
     }
   }
@@ -60,6 +63,8 @@ const ORIENTATION_FACTOR = [1.05, 0.93, 1.02, 0.98, 1.07, 0.96];
 /** Orientation-split planned makespans: not in the order of their realised ones (ρ checked below). */
 const ORIENTATION_PLANNED = [9800, 9200, 15000, 12800, 16000, 21000];
 const SPREADS = [1200, 1500, 1800, 2100, 2500, 2600];
+/** Weighted-split's lockstep success per instance (classic's is 0.5 on every instance). */
+const WEIGHTED_LOCKSTEP = [1, 0.95, 1, 0.9, 1, 0.95];
 
 describe('GET /api/reports/model-comparison', () => {
   let world: BoardWorld;
@@ -67,22 +72,29 @@ describe('GET /api/reports/model-comparison', () => {
 
   beforeAll(async () => {
     world = await startBoardWorld();
-    // The executable-at-nominal column comes with migration 0405 (another part of issue 12); the
-    // report reads it when present. Added here if this database predates it.
-    await world.lib.sql('ALTER TABLE results ADD COLUMN IF NOT EXISTS executable_at_nominal boolean');
     const [a, b, priv] = world.scenarios;
     instances = [1, 2, 3].flatMap((agents) => [{ scenario: a, agents }, { scenario: b, agents }]);
     const seeds: Seed[] = [];
     instances.forEach((inst, i) => {
+      // Open-loop replays with two noise settings (classic at jitter CV 0.1, weighted-split at 0.2): not rankable.
       seeds.push({ ...inst, model: 'classic', ti: CLASSIC_PLANNED[i], nominal: true,
-        exec: { 'dependency-gated': { success: 1, realised: CLASSIC_REALISED[i], spread: SPREADS[i] }, lockstep: { success: 0.5, realised: 99999, spread: 1 } } });
+        exec: {
+          'dependency-gated': { success: 1, realised: CLASSIC_REALISED[i], spread: SPREADS[i] },
+          lockstep: { success: 0.5, realised: 99999, spread: 1, collisions: 0.5 },
+          'open-loop': { success: 0.9, realised: CLASSIC_REALISED[i], spread: SPREADS[i], collisions: 0.1 },
+        } });
       seeds.push({ ...inst, model: 'weighted-split', ti: CLASSIC_PLANNED[i] - 500, nominal: true,
-        exec: { 'dependency-gated': { success: 1, realised: CLASSIC_REALISED[i] * WEIGHTED_FACTOR[i], spread: SPREADS[i] / 2 } } });
+        exec: {
+          'dependency-gated': { success: 1, realised: CLASSIC_REALISED[i] * WEIGHTED_FACTOR[i], spread: SPREADS[i] / 2 },
+          'open-loop': { success: 0.6, realised: CLASSIC_REALISED[i], spread: SPREADS[i], collisions: 0.4, jitterCv: 0.2 },
+          lockstep: { success: WEIGHTED_LOCKSTEP[i], realised: 50000, spread: 1, collisions: WEIGHTED_LOCKSTEP[i] < 1 ? 0.05 : 0 },
+        } });
       // Orientation-split: the last instance times out; instances 1 and 3 collide at nominal times.
+      // Under dependency-gated, instance 1's failed runs collided, instance 3's did not (deadlocks).
       seeds.push(i === 5
         ? { ...inst, model: 'orientation-split', status: 'timeout', ti: null }
         : { ...inst, model: 'orientation-split', ti: ORIENTATION_PLANNED[i], nominal: i !== 1 && i !== 3,
-          exec: { 'dependency-gated': { success: i === 1 || i === 3 ? 0.85 : 1, realised: CLASSIC_REALISED[i] * ORIENTATION_FACTOR[i], spread: SPREADS[i] } } });
+          exec: { 'dependency-gated': { success: i === 1 || i === 3 ? 0.85 : 1, collisions: i === 1 ? 0.2 : 0, realised: CLASSIC_REALISED[i] * ORIENTATION_FACTOR[i], spread: SPREADS[i] } } });
     });
     // An older timed-out classic attempt of instance 0 (the solved newer one must be read) and
     // classic results under another robot profile and on the private set (never in this report).
@@ -111,7 +123,7 @@ describe('GET /api/reports/model-comparison', () => {
     return v;
   };
 
-  it('gives one row per variant with solved, nominal and execution rates and their Wilson intervals', async () => {
+  it('gives one row per variant: solved and nominal rates with Wilson intervals over instances, execution success as a mean over instances', async () => {
     const r = await report(`set=${world.publicSet}&profile=${HASH[0]}&policy=dependency-gated`);
     expect(r.instances).toBe(6);
     expect(r.policy).toBe('dependency-gated');
@@ -130,9 +142,17 @@ describe('GET /api/reports/model-comparison', () => {
     expect(orientation.solvedCi95).toEqual(wilsonInterval(5, 6));
     expect([orientation.nominalChecked, orientation.nominalExecutable]).toEqual([5, 3]);
     expect(orientation.executableCi95).toEqual(wilsonInterval(3, 5));
-    // Two instances at 85 % of 20 runs, three at 100 %: 94 of 100 runs.
-    expect([orientation.runs, orientation.successfulRuns, orientation.instancesWithCollisions]).toEqual([100, 94, 2]);
-    expect(orientation.executionSuccessCi95).toEqual(wilsonInterval(94, 100));
+    expect(orientation.executableRate).toBeCloseTo(3 / 5, 12);
+    // Two instances at 85 % of 20 runs, three at 100 %: 94 of 100 runs; one of the two collided, the other deadlocked.
+    expect([orientation.runs, orientation.successfulRuns, orientation.instancesWithCollisions, orientation.instancesWithFailuresWithoutCollision]).toEqual([100, 94, 1, 1]);
+    // Mean over the 5 executed instances, Student t over instances, cut to [0, 1] (not a Wilson interval over pooled runs).
+    const perInstance = [1, 0.85, 1, 0.85, 1];
+    expect(orientation.executionSuccessRate).toBeCloseTo(0.94, 12);
+    const t = meanInterval(perInstance)!;
+    expect(orientation.executionSuccessCi95![0]).toBeCloseTo(t[0], 12);
+    expect(orientation.executionSuccessCi95![1]).toBe(1);
+    expect(t[1]).toBeGreaterThan(1);
+    expect(t[0]).toBeLessThan(wilsonInterval(94, 100)[0]);
 
     const following = byLabel(r, 'classic (following forbidden)');
     expect([following.instances, following.nominalChecked]).toEqual([2, 0]);
@@ -182,13 +202,23 @@ describe('GET /api/reports/model-comparison', () => {
     const soonerLo = Math.round((1 - weighted.ci95![1]) * 100);
     const soonerHi = Math.round((1 - weighted.ci95![0]) * 100);
     const sooner = Math.round((1 - weighted.ratio!) * 100);
-    expect(text).toContain(`Weighted-split: solved 6 of 6 instances (100 % [61 %, 100 %]); executable at nominal times in all 6 checked solved instances; execution success 100 % [97 %, 100 %] of 120 runs; finished ${sooner} % [${soonerLo} %, ${soonerHi} %] sooner than classic (6 paired instances).`);
-    expect(text).toContain('Orientation-split: solved 5 of 6 instances (83 % [44 %, 97 %]); collided at nominal times in 2 of 5 checked solved instances; execution success 94 % [88 %, 97 %] of 100 runs, collisions in 2 of 5 executed instances; realised makespan not distinguishable from classic');
-    expect(text).toContain('Classic (following forbidden): solved 2 of 2 instances (100 % [34 %, 100 %]); executability at nominal times not checked;');
-    // Orientation-split's Wilson interval for 94/100 ends at 0.972, the 100 % ones (120/120) start
-    // at 0.969: they overlap, so no variant may be named the most successful.
-    expect(wilsonInterval(94, 100)[1]).toBeGreaterThan(wilsonInterval(120, 120)[0]);
-    expect(text).toContain('Which plan model for these robots under dependency-gated: execution success does not rank the variants: every interval overlaps the best one\'s; of these, orientation-split collided at nominal times on some instances; of classic, classic (following forbidden) and weighted-split (classic (following forbidden) not checked at nominal times), weighted-split finished soonest, its makespan interval clear of the others\'.');
+    expect(text).toContain('Weighted-split: solved 6 of 6 instances (100 % [61 %, 100 %]); executable at nominal times in all 6 checked solved instances (executable-at-nominal rate 100 % [61 %, 100 %]); '
+      + `execution success 100 % [100 %, 100 %] (mean over 6 executed instances, 120 runs); finished ${sooner} % [${soonerLo} %, ${soonerHi} %] sooner than classic (6 paired instances).`);
+    // Wilson over 5 instances for 3 executable plans: [23 %, 88 %]; the success interval is Student t over the 5 instances (84 %), cut at 100 %.
+    expect(text).toContain('Orientation-split: solved 5 of 6 instances (83 % [44 %, 97 %]); collided at nominal times in 2 of 5 checked solved instances (executable-at-nominal rate 60 % [23 %, 88 %]); '
+      + 'execution success 94 % [84 %, 100 %] (mean over 5 executed instances, 100 runs), collisions in 1 of 5 executed instances, '
+      + 'failed runs without collision (deadlocks) in 1 of 5 executed instances; realised makespan not distinguishable from classic');
+    expect(text).toContain('Classic (following forbidden): solved 2 of 2 instances (100 % [34 %, 100 %]); executability at nominal times not checked; '
+      + 'execution success 100 % [100 %, 100 %] (mean over 2 executed instances, 40 runs); realised makespan');
+    expect(text).toContain("too few to tell whether it is sooner or later (an order needs at least 5 paired instances and a spread between them).");
+    // Classic with following forbidden ran on 2 instances only: every variant is compared on those 2, too few for an order.
+    expect(r.comparison?.instances).toBe(2);
+    expect(r.comparison?.variants.map((v) => v.label)).toEqual(['classic', 'classic (following forbidden)', 'orientation-split', 'weighted-split']);
+    const common = r.comparison!.variants.find((v) => v.label === 'orientation-split')!;
+    expect(common.success).toBeCloseTo((1 + 0.85) / 2, 12);
+    expect(common.makespanRatio).toBeCloseTo(Math.sqrt(ORIENTATION_FACTOR[0] * ORIENTATION_FACTOR[1]), 10);
+    expect(text).toContain('Which plan model for these robots under dependency-gated: too few instances to tell the variants apart: only 2 instances were solved and replayed by every executed variant '
+      + '(classic (following forbidden) on 2), and an order needs at least 5.');
     expect(text).toContain('the instances mix agent counts, so part of this agreement comes from instance size');
     // ρ = 1 from 6 pairs: the interval's inner end comes from 1 − 12/(6·35) (rank-correlation.ts), about 0.54.
     expect(text).toContain('predicts it at least moderately for classic (ρ = 1.00 [0.54, 1.00], n = 6)');
@@ -224,9 +254,34 @@ describe('GET /api/reports/model-comparison', () => {
     expect(r.policy).toBe('dependency-gated');
     const lockstep = await report(`set=${world.publicSet}&policy=lockstep`);
     const classic = byLabel(lockstep, 'classic');
-    expect([classic.runs, classic.successfulRuns]).toEqual([120, 60]);
-    expect(byLabel(lockstep, 'weighted-split').runs).toBe(0);
-    expect(lockstep.summary.join(' ')).toContain('Weighted-split: solved 6 of 6 instances (100 % [61 %, 100 %]); executable at nominal times in all 6 checked solved instances; not executed under this policy');
+    expect([classic.runs, classic.successfulRuns, classic.instancesWithCollisions]).toEqual([120, 60, 6]);
+    expect(byLabel(lockstep, 'orientation-split').runs).toBe(0);
+    expect(lockstep.summary.join(' ')).toContain('Orientation-split: solved 5 of 6 instances (83 % [44 %, 97 %]); collided at nominal times in 2 of 5 checked solved instances (executable-at-nominal rate 60 % [23 %, 88 %]); not executed under this policy');
+  });
+
+  it('ranks on the instances every executed variant solved, with per-instance success means and t intervals', async () => {
+    // Lockstep: classic and weighted-split executed on all 6 instances, the others not at all.
+    const r = await report(`set=${world.publicSet}&policy=lockstep`);
+    expect(r.comparison?.instances).toBe(6);
+    expect(r.comparison?.variants.map((v) => v.label)).toEqual(['classic', 'weighted-split']);
+    const weighted = r.comparison!.variants[1];
+    const t = meanInterval(WEIGHTED_LOCKSTEP)!;
+    expect(weighted.success).toBeCloseTo(WEIGHTED_LOCKSTEP.reduce((a, b) => a + b, 0) / 6, 12);
+    expect(weighted.successCi95![0]).toBeCloseTo(t[0], 12);
+    expect(weighted.successCi95![1]).toBe(1); // cut to [0, 1]
+    // Classic's 0.5 on every instance is a zero-width interval; weighted-split's has a spread and lies clear above it.
+    expect(r.comparison!.variants[0].successCi95).toEqual([0.5, 0.5]);
+    const lo = Math.round(t[0] * 100);
+    expect(r.summary).toContain(`Which plan model for these robots under lockstep: on the 6 instances every executed variant solved and replayed, weighted-split (97 % [${lo} %, 100 %]) `
+      + "has the highest mean execution success rate, its interval clear of every other variant's (classic (50 % [50 %, 50 %])).");
+  });
+
+  it('does not rank replays made with different noise settings, and says so', async () => {
+    const r = await report(`set=${world.publicSet}&policy=open-loop`);
+    expect(r.executionSettings).toEqual(['20 runs, timing jitter CV 0.1, no stalls', '20 runs, timing jitter CV 0.2, no stalls']);
+    expect(r.comparison).toBeNull();
+    expect(r.summary).toContain(`Which plan model for these robots under open-loop: not ranked. ${MIXED_SETTINGS_NOTE}`);
+    expect(r.summary.join(' ')).not.toMatch(/highest|lead on|finished soonest/);
   });
 
   it('follows the instance set visibility rule: a private set is 404 to visitors and others, open to its owner', async () => {
