@@ -13,7 +13,7 @@ import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
 import { catchError, of } from 'rxjs';
 import { EXECUTION_LIMITS, STARTER_PROFILE } from '@shared/executions-constants';
-import type { ExecutionView } from '@shared/executions';
+import type { PaneExecution } from './viewer-pane';
 import type { InstanceSetDetail } from '@shared/instance-sets';
 import { HEADINGS, PLAN_MODELS, type PlanModel, type RobotProfile, type StartHeading } from '@shared/plan';
 import { InstanceSetApi } from '../instance-sets/instance-set-api';
@@ -41,7 +41,7 @@ export class PlanPicker {
   /** Emitted with the choice when the user opens it. */
   readonly openPlan = output<PlanChoice>();
   /** The execution the page shows first, if any: the form takes its instance, model and profile. */
-  readonly shown = input<ExecutionView | null>(null);
+  readonly shown = input<PaneExecution | null>(null);
   protected readonly models = PLAN_MODELS;
   protected readonly headings = ['free', ...HEADINGS] as const;
   protected readonly maxSolveAgents = EXECUTION_LIMITS.maxSolveAgents;
@@ -62,21 +62,22 @@ export class PlanPicker {
   });
   protected readonly scenarios = computed(() => this.set()?.scenarios ?? []);
 
-  /** Id of the execution last adopted: re-runs of it keep what the user changed since. */
-  private adoptedId: number | null = null;
+  /** Key of the execution (or result plan) last adopted: re-runs of it keep what the user changed since. */
+  private adoptedKey: string | null = null;
 
   constructor() {
     effect(() => {
       const e = this.shown();
-      if (e && e.id !== this.adoptedId) {
-        this.adoptedId = e.id;
+      const key = e ? (e.id !== undefined ? `execution ${e.id}` : `result ${e.source.resultId}`) : null;
+      if (e && key !== this.adoptedKey) {
+        this.adoptedKey = key;
         untracked(() => this.adopt(e));
       }
     });
   }
 
   /** Fills the form from a shown execution of a stored scenario (tasks sent with a map have no scenario to pick). */
-  private adopt(e: ExecutionView): void {
+  private adopt(e: PaneExecution): void {
     const { instanceSetId, scenarioId } = e.source;
     if (scenarioId === undefined) return;
     const p = e.profile;
