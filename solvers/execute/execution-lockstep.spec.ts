@@ -21,6 +21,8 @@ describe('lockstep on the ms timeline (weighted-split plans)', () => {
       expect(t.metrics.realisedMakespanMs).toBe(solved.turnInclusiveMakespanMs);
       expect(t.metrics.realisedSocMs).toBe(solved.turnInclusiveSocMs);
       expect(t.metrics.waitingMs).toBe(0);
+      // Every padded list ends at the planned makespan, so at nominal times the fleet finishes together.
+      expect(t.metrics.finishSpreadMs).toBe(0);
       // Plans where some robot waits in the plan itself: the planned timing matters there.
       if (solved.schedule.some((list) => list.some((a) => a.action === 'wait'))) interacting++;
       compared++;
@@ -69,6 +71,31 @@ describe('lockstep on the ms timeline (weighted-split plans)', () => {
     expect(checkedActions).toBeGreaterThan(500);
     expect(sawWaitOnOthers).toBeGreaterThan(0);
     expect(sawWaitOnClock).toBeGreaterThan(0);
+  });
+
+  it('under noise reports the finish spread of the realised timeline: no final barrier makes the fleet finish together', () => {
+    // Until issue 12 lockstep reported 0 here, citing a closing synchronisation the simulator never
+    // modelled: the robots' last actions ended apart (e.g. 10522, 13243 and 11819 ms) and the
+    // figure said 0. Now: last minus first end of the padded lists, run by run, as the timeline shows.
+    let compared = 0;
+    let apart = 0;
+    for (const { instance, profile, solved } of plans.slice(0, 20)) {
+      const plan = { timeline: 'ms' as const, schedule: solved.schedule };
+      const options = { policy: 'lockstep' as const, seed: 6, noise: { jitterCv: 0.3 } };
+      const summary = simulateExecution(instance, plan, profile, { ...options, runs: 3 });
+      for (const m of summary.perRun) {
+        const t = realisedTimeline(instance, plan, profile, options, m.run);
+        const lastEnds = t.robots.map((robot) => robot[robot.length - 1].end);
+        const spread = Math.max(...lastEnds) - Math.min(...lastEnds);
+        expect(t.metrics.finishSpreadMs).toBe(spread);
+        expect(m.finishSpreadMs).toBe(spread);
+        if (spread > 0) apart++;
+        compared++;
+      }
+    }
+    expect(compared).toBe(60);
+    // Continuous jitter on every action: the last ends of different robots practically never coincide.
+    expect(apart).toBeGreaterThan(50);
   });
 
   it('with stop on collision, nothing starts behind an action that never ended (robots wider than the pitch)', () => {

@@ -59,12 +59,11 @@ describe('execution with zero noise', () => {
   });
 
   it('lockstep: every robot starts each step at one barrier, the latest end of the steps before, with and without noise', () => {
-    // What is true, and what is not. Under lockstep the reported finish spread is 0 by definition
-    // (execution-types.ts: a robot's program ends at the barrier that closes the last step), so
-    // asserting it would check a constant. The robots' own last actions do NOT end together once
-    // durations are noisy; what lockstep guarantees is the barrier, computed here from the
-    // realised timeline: each robot's first action of step s starts exactly when the last action
-    // of steps < s has ended (at 0 for step 0).
+    // What lockstep guarantees is the barrier, computed here from the realised timeline: each
+    // robot's first action of step s starts exactly when the last action of steps < s has ended
+    // (at 0 for step 0). No barrier closes the last step, so the robots' last actions do NOT end
+    // together: the finish spread is their last minus first end, as under every other policy
+    // (until issue 12 it was reported as 0 by a 'closing barrier' the simulator never modelled).
     let checkedSteps = 0;
     for (const { instance, paths } of plans) {
       const ts = scheduleFromPaths(instance, paths, profile, { startHeading: 'free', stretch: 'none' });
@@ -80,9 +79,9 @@ describe('execution with zero noise', () => {
         }
         const lastEnds = t.robots.map((robot) => robot[robot.length - 1].end);
         expect(Math.max(...lastEnds)).toBe(barrier);
-        // The reported 0 is the closing barrier's, not the robots': under noise their last actions end apart.
-        expect(t.metrics.finishSpreadMs).toBe(0);
-        if (jitterCv > 0) expect(new Set(lastEnds).size).toBeGreaterThan(1);
+        // The spread is the timeline's: last minus first end of the padded lists; under noise they end apart.
+        expect(t.metrics.finishSpreadMs).toBe(Math.max(...lastEnds) - Math.min(...lastEnds));
+        if (jitterCv > 0) expect(t.metrics.finishSpreadMs).toBeGreaterThan(0);
       }
     }
     expect(checkedSteps).toBeGreaterThan(50);

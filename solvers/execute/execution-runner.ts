@@ -27,7 +27,6 @@ export class ExecutionRunner {
   private readonly release: ReleasePlan;
   private readonly sweep: CollisionSweep;
   private readonly seed: number;
-  private readonly isLockstep: boolean;
   /** Buffers of the last simulated run. */
   readonly duration: Float64Array;
   readonly times: RunTimes;
@@ -45,7 +44,6 @@ export class ExecutionRunner {
     this.noise = resolveNoise(profile, options.noise);
     this.onCollision = options.onCollision ?? 'count';
     this.seed = options.seed;
-    this.isLockstep = options.policy === 'lockstep';
     this.dependencies = options.policy === 'dependency-gated' ? buildActionDependencies(this.prepared) : undefined;
     this.release = releasePlan(this.prepared, options.policy, this.dependencies);
     this.sweep = new CollisionSweep(this.prepared, broadphase);
@@ -103,12 +101,15 @@ export class ExecutionRunner {
       if (finish < firstFinish) firstFinish = finish;
       if (finish > lastFinish) lastFinish = finish;
     }
-    // Waiting: the sum over robots (the historical `waitingMs`) and per robot its mean and max.
+    // Waiting: the sum over robots (the historical `waitingMs`) and per robot its mean and max,
+    // of the idle time before each robot reaches its goal for good (actions up to its last
+    // forward move): a robot holding its goal through barriers or planned starts of padding and
+    // trailing actions is done, not waiting (execution-types.ts, RunMetrics.waitingMs).
     let waiting = 0;
     let waitingMax = 0;
     for (let r = 0; r < p.robotCount; r++) {
       let robotWaited = 0;
-      for (let a = p.first[r]; a < p.first[r + 1]; a++) {
+      for (let a = p.first[r]; a <= p.lastForward[r]; a++) {
         robotWaited += waited[a];
         // Added action by action, in plan order, as before the per-robot figures (same bits).
         waiting += waited[a];
@@ -127,7 +128,9 @@ export class ExecutionRunner {
       waitingMs: waiting,
       waitingMeanPerRobotMs: p.robotCount === 0 ? 0 : waiting / p.robotCount,
       waitingMaxPerRobotMs: waitingMax,
-      finishSpreadMs: p.robotCount === 0 ? 0 : lastFinish === Infinity ? null : this.isLockstep ? 0 : lastFinish - firstFinish,
+      // The same rule under every policy: lockstep closes no barrier after the last step / the
+      // planned makespan, so its robots finish apart once durations are noisy (execution-types.ts).
+      finishSpreadMs: p.robotCount === 0 ? 0 : lastFinish === Infinity ? null : lastFinish - firstFinish,
     };
   }
 }

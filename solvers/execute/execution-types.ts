@@ -112,19 +112,27 @@ export interface RunMetrics {
   readonly realisedSocMs: number | null;
   /**
    * Time robots stood idle waiting on a barrier or planned start (lockstep) or a dependency
-   * (dependency-gated), SUMMED over robots (so it may exceed the makespan): label it "total over robots".
+   * (dependency-gated) BEFORE reaching their goal for good, SUMMED over robots (so it may exceed
+   * the makespan): label it "total over robots". Only waits before a robot's actions up to its
+   * last forward move count (the move whose end is its arrival in realisedSocMs): once there, a
+   * robot that holds its goal while barriers or planned starts hold back its padding (or a
+   * trailing planned wait or turn) is done, not waiting. A robot that never moves waits 0.
    */
   readonly waitingMs: number;
   /** The same idle time per robot: mean over robots (waitingMs / robots; 0 with no robots). */
   readonly waitingMeanPerRobotMs: number;
-  /** The same idle time per robot: the largest any one robot waited. */
+  /** The same idle time per robot: the largest any one robot waited before reaching its goal for good. */
   readonly waitingMaxPerRobotMs: number;
   /**
-   * Last minus first robot finish of the padded lists; null when some list never finishes.
-   * Under lockstep a robot's program ends at the barrier that closes the plan (the last step on
-   * the `steps` timeline; on the `ms` timeline the moment every action planned to end by the
-   * planned makespan has ended), so the fleet finishes together at nominal and noisy times alike
-   * and this is 0 by definition.
+   * Last minus first robot finish of the padded lists (a robot finishes when the last action of
+   * its padded list ends); null when some list never finishes. Computed alike under every policy.
+   * Lockstep closes no final barrier: its barriers only hold actions back from STARTING (on the
+   * `steps` timeline the first action of each step, on the `ms` timeline each action until its
+   * planned start and the ends planned before it), and nothing follows a robot's last action. So
+   * the last step (or the last stretch up to the planned makespan) is run unsynchronised and,
+   * under timing noise, the fleet finishes apart by what the noise of those final actions leaves;
+   * at zero noise it is the spread of the nominal finishes (0 for uniform-duration and
+   * weighted-split plans, whose padded lists all end at the planned makespan).
    */
   readonly finishSpreadMs: number | null;
 }
@@ -192,7 +200,11 @@ export interface RealisedAction {
   readonly end: number;
   /** Realised (drawn) duration; for an action cut by a stop, the robot moved at (to − from) / durationMs until `stoppedAt`. */
   readonly durationMs: number;
-  /** Idle time before this action spent waiting on a barrier, planned start or dependency. */
+  /**
+   * Idle time before this action spent waiting on a barrier, planned start or dependency. Shown
+   * per action, padding included; the run's waiting figures count only actions up to the robot's
+   * last forward move (RunMetrics.waitingMs).
+   */
   readonly waitedMs: number;
   /** The robot whose action's end released this one (it waited for it); null if it did not wait or waited on its planned start. */
   readonly waitedFor: number | null;
@@ -211,7 +223,10 @@ export interface RealisedAction {
  */
 export type WaitReason = 'dependency' | 'barrier' | 'planned-start';
 
-/** How long one robot waited in one run, and for whom (planned-start waits count in waitedMs only). */
+/**
+ * How long one robot waited in one run before reaching its goal for good (as RunMetrics.waitingMs
+ * counts it), and for whom (planned-start waits count in waitedMs only).
+ */
 export interface RobotWait {
   readonly robot: number;
   readonly waitedMs: number;

@@ -11,14 +11,16 @@ const profile: RobotProfile = { forwardMs: 1000, quarterTurnMs: 1500, waitMs: 10
 
 /** The invariants of a run's attribution, checked from its realised actions alone. */
 function expectConsistentAttribution(t: RunTimeline): void {
-  // Per robot: the waits of its actions, and per releasing robot.
+  // Per robot: the waits of its actions up to its last forward move (before it reaches its goal
+  // for good; waits of padding and trailing actions at the goal do not count), and per releasing robot.
   t.robots.forEach((robot, r) => {
     const w = t.waitByRobot[r];
     expect(w.robot).toBe(r);
-    expect(w.waitedMs).toBeCloseTo(robot.reduce((s, a) => s + a.waitedMs, 0), 6);
+    const beforeArrival = robot.slice(0, robot.map((a) => a.action).lastIndexOf('forward') + 1);
+    expect(w.waitedMs).toBeCloseTo(beforeArrival.reduce((s, a) => s + a.waitedMs, 0), 6);
     for (const { robot: other, ms } of w.waitedFor) {
       expect(other).not.toBe(r);
-      expect(ms).toBeCloseTo(robot.filter((a) => a.waitedFor === other).reduce((s, a) => s + a.waitedMs, 0), 6);
+      expect(ms).toBeCloseTo(beforeArrival.filter((a) => a.waitedFor === other).reduce((s, a) => s + a.waitedMs, 0), 6);
     }
     for (const a of robot) {
       expect(a.waitReason === null).toBe(!(a.waitedMs > 0) || a.start === Infinity);
@@ -149,6 +151,40 @@ describe('dependency gating cannot lengthen the realised makespan', () => {
     expect(gated.criticalChain).toEqual([{ robot: 2, fromMs: 0, toMs: 21000, reason: 'own', waitedFor: null }]);
     expect(gated.criticalChain.some((s) => s.robot === 1)).toBe(false);
     expectConsistentAttribution(gated);
+  });
+});
+
+describe('waiting counts idle time before a robot reaches its goal for good', () => {
+  it('lockstep holds a robot at its goal through the barriers of its padding: that is not waiting', () => {
+    // Steps timeline, zero noise, three robots on parallel rows (500 mm apart, 400 mm disks: they
+    // never touch). Step 1 of agent 1 is one slow 2500 ms move, so the step-2 barrier is at 3500.
+    // Agent 0 waits in the plan at step 1 (1000–2000) and then stands idle until 3500 before its
+    // last move: 1500 ms waited before arriving. Agent 2 arrives at 1000 and is padded with one
+    // wait per step: its step-2 padding wait also starts only at 3500, 1500 ms after its step-1
+    // padding ended, idle at its goal, which is not counted.
+    const instance = tinyInstance('....\n....\n....', [[[0, 0], [2, 0], 'E'], [[0, 1], [3, 1], 'E'], [[0, 2], [1, 2], 'E']]);
+    const f = (y: number, x: number, start: number, end: number, step: number) =>
+      ({ action: 'forward' as const, from: [x, y] as [number, number], to: [x + 1, y] as [number, number], heading: 'E' as const, start, end, step });
+    const schedule: Schedule = [
+      [f(0, 0, 0, 1000, 0), { action: 'wait', from: [1, 0], to: [1, 0], heading: 'E', start: 1000, end: 2000, step: 1 }, f(0, 1, 2000, 3000, 2)],
+      [f(1, 0, 0, 1000, 0), f(1, 1, 1000, 3500, 1), f(1, 2, 3500, 4500, 2)],
+      [f(2, 0, 0, 1000, 0)],
+    ];
+    const t = realisedTimeline(instance, { timeline: 'steps', schedule }, profile, { policy: 'lockstep', seed: 1, noise: { jitterCv: 0 } });
+    expect(t.metrics.collisions).toEqual([]);
+    expect(t.robots[0].map((a) => [a.start, a.end, a.waitedMs])).toEqual([[0, 1000, 0], [1000, 2000, 0], [3500, 4500, 1500]]);
+    // Agent 2's padding: the step-2 wait is held back 1500 ms by the barrier (shown per action) …
+    expect(t.robots[2].map((a) => [a.isPadding, a.start, a.end, a.waitedMs])).toEqual([[false, 0, 1000, 0], [true, 1000, 2000, 0], [true, 3500, 4500, 1500]]);
+    // … but only agent 0's 1500 ms count: sum 1500, mean over 3 robots 500, max 1500 (3000 / 1000 / 1500 before issue 12).
+    expect([t.metrics.waitingMs, t.metrics.waitingMeanPerRobotMs, t.metrics.waitingMaxPerRobotMs]).toEqual([1500, 500, 1500]);
+    expect(t.waitByRobot).toEqual([
+      { robot: 0, waitedMs: 1500, waitedFor: [{ robot: 1, ms: 1500 }] },
+      { robot: 1, waitedMs: 0, waitedFor: [] },
+      { robot: 2, waitedMs: 0, waitedFor: [] },
+    ]);
+    expectConsistentAttribution(t);
+    const s = simulateExecution(instance, { timeline: 'steps', schedule }, profile, { policy: 'lockstep', seed: 1, noise: { jitterCv: 0 } });
+    expect([s.waitingMs.mean, s.waitingPerRobotMs.mean.mean, s.waitingPerRobotMs.max.mean]).toEqual([1500, 500, 1500]);
   });
 });
 

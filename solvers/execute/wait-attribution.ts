@@ -22,13 +22,17 @@ export function actionWait(
   return { waitedFor: p.robotOf[by], waitReason: reasonOf(policy) };
 }
 
-/** Per robot, the total it waited and the ms waited for each releasing robot (largest first, then by robot). */
+/**
+ * Per robot, the total it waited before reaching its goal for good (actions up to its last
+ * forward move, as RunMetrics counts waiting) and the ms waited for each releasing robot (largest
+ * first, then by robot).
+ */
 export function waitByRobot(p: PreparedPlan, times: RunTimes): RobotWait[] {
   const out: RobotWait[] = [];
   for (let r = 0; r < p.robotCount; r++) {
     let waitedMs = 0;
     const forRobot = new Map<number, number>();
-    for (let a = p.first[r]; a < p.first[r + 1]; a++) {
+    for (let a = p.first[r]; a <= p.lastForward[r]; a++) {
       const w = times.waited[a];
       if (!(w > 0)) continue;
       waitedMs += w;
