@@ -93,7 +93,7 @@ describe('submitting a plan in the browser', () => {
     await page.getByLabel('Solver name').fill('Hand planner');
     await page.getByLabel('Solver version').fill('0.9');
     await expect(page.getByRole('button', { name: 'Choose a plan file…' }).isVisible()).resolves.toBe(true);
-    await page.getByLabel('Plan file').setInputFiles({ name: 'rows.txt', mimeType: 'text/plain', buffer: Buffer.from(PLAN) });
+    await page.getByLabel('Plan file', { exact: true }).setInputFiles({ name: 'rows.txt', mimeType: 'text/plain', buffer: Buffer.from(PLAN) });
     await page.getByText(`rows.txt, ${Buffer.byteLength(PLAN)} B`).waitFor();
     expect(await page.getByRole('textbox', { name: 'Plan' }).inputValue()).toBe(PLAN);
 
