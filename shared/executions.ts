@@ -172,10 +172,10 @@ export interface RunMetricsView {
   readonly realisedSocMs: number | null;
   /** Idle time waiting on barriers, planned starts or dependencies, SUMMED over robots ("total over robots"). */
   readonly waitingMs: number;
-  /** Mean over robots of the time each robot waited. */
-  readonly waitingMeanPerRobotMs: number;
-  /** The longest any one robot waited. */
-  readonly waitingMaxPerRobotMs: number;
+  /** Mean over robots of the time each robot waited (null: run stored before per-robot waiting was recorded). */
+  readonly waitingMeanPerRobotMs: number | null;
+  /** The longest any one robot waited (null: run stored before per-robot waiting was recorded). */
+  readonly waitingMaxPerRobotMs: number | null;
   readonly finishSpreadMs: number | null;
 }
 
@@ -216,8 +216,11 @@ export interface ExecutionSummaryView {
   readonly finishSpreadMs: MetricStatsView;
   /** Per run the waiting SUMMED over robots, then over runs: label it "total over robots". */
   readonly waitingMs: MetricStatsView;
-  /** Per run the mean / max over robots of each robot's waiting, then over runs. */
-  readonly waitingPerRobotMs: { readonly mean: MetricStatsView; readonly max: MetricStatsView };
+  /**
+   * Per run the mean / max over robots of each robot's waiting, then over runs. null on summaries
+   * stored before per-robot waiting was recorded (their runs did not keep it, so it cannot be recomputed).
+   */
+  readonly waitingPerRobotMs: { readonly mean: MetricStatsView; readonly max: MetricStatsView } | null;
   readonly firstCollision: (CollisionView & { readonly run: number }) | null;
   readonly perRun: readonly RunMetricsView[];
 }

@@ -22,6 +22,7 @@ import type { ExecutionTask, ExecutionTaskRunner, StoredPlan } from './execution
 import { instanceView } from './instance-view';
 import { loadResultPlan } from './result-plan';
 import type { PlanExecution, PlanExecutionModel } from './plan-execution.model';
+import { currentSummary } from './stored-summary';
 import { requesterKey } from '../workers/interactive-pool';
 
 /** The operations behind the executions routes. */
@@ -85,7 +86,8 @@ export function createExecutionsService(deps: ExecutionsServiceDeps): Executions
       createdAt: new Date(row.createdAt).toISOString(),
       owner,
       ...row.plan,
-      summary: row.summary,
+      // Rows stored before issue 12 lack intervals and counts: filled from their own per-run values.
+      summary: currentSummary(row.summary),
       safetyNote: SAFETY_NOTE,
     };
   }

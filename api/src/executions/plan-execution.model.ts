@@ -1,7 +1,7 @@
 /** The `plan_executions` table (created by migration 0300-plan-executions). */
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
-import type { ExecutionSummaryView } from '@shared/executions';
 import type { StoredPlan } from './execution-task';
+import type { StoredSummary } from './stored-summary';
 
 /** One simulation asked for through POST /api/executions. */
 export class PlanExecution extends Model<InferAttributes<PlanExecution>, InferCreationAttributes<PlanExecution>> {
@@ -10,7 +10,8 @@ export class PlanExecution extends Model<InferAttributes<PlanExecution>, InferCr
   /** The validated request body. */
   declare request: unknown;
   declare plan: StoredPlan;
-  declare summary: ExecutionSummaryView;
+  /** As stored: rows written before issue 12 lack the intervals (read through currentSummary). */
+  declare summary: StoredSummary;
   declare createdAt: CreationOptional<Date>;
 }
 

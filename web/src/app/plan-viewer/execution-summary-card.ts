@@ -9,7 +9,7 @@ import { CI95_METHOD, type Interval95 } from '@shared/confidence-interval';
 import type { ExecutionSummaryView, MetricStatsView, PlanFigures } from '@shared/executions';
 import type { PlanModel, RobotProfile } from '@shared/plan';
 import type { SolverBuild } from '@shared/runs';
-import { collisionIntervals, meanIntervalOf, p95IntervalOf, successRateInterval, type SummaryWithIntervals } from './summary-intervals';
+import { collisionIntervals } from './summary-intervals';
 import { formatPercent, formatSeconds, profileLine } from './viewer-format';
 
 /** Shown where a figure has no interval. */
@@ -53,11 +53,10 @@ export class ExecutionSummaryCard {
     return `${s.policy} · timing jitter CV ${n.jitterCv}${stall} · ${s.runs} runs · seed ${s.seed} · on collision: ${s.onCollision === 'count' ? 'count and go on' : 'stop both robots'}`;
   });
   protected readonly rows = computed((): FigureRow[] => {
-    const s = this.summary() as SummaryWithIntervals;
-    const rate = successRateInterval(s);
+    const s = this.summary();
     const perRobot = s.waitingPerRobotMs;
     const rows: FigureRow[] = [
-      { key: 'success-rate', label: 'Execution success rate (runs without collision or deadlock)', value: formatPercent(s.successRate), interval: rate ? percentRange(rate) : null },
+      { key: 'success-rate', label: 'Execution success rate (runs without collision or deadlock)', value: formatPercent(s.successRate), interval: percentRange(s.successRateCi95) },
       { key: 'collisions', label: 'Collisions, all runs (count)', value: String(s.collisions.total), interval: null },
       { key: 'collisions-mean', label: 'Collisions per run, count (mean / p95 over runs)', value: `${+s.collisions.mean.toFixed(2)} / ${s.collisions.p95}`, interval: countInterval(s) },
       ...metricRows('realised-makespan', 'Realised makespan, s', s.realisedMakespanMs),
@@ -65,11 +64,11 @@ export class ExecutionSummaryCard {
     ];
     if (perRobot) {
       rows.push(
-        { key: 'waiting-robot-mean', label: 'Waiting per robot, mean over robots, s (mean over runs)', value: formatSeconds(perRobot.mean.mean), interval: secondsRange(meanIntervalOf(perRobot.mean)) },
-        { key: 'waiting-robot-max', label: 'Waiting per robot, longest robot, s (mean over runs)', value: formatSeconds(perRobot.max.mean), interval: secondsRange(meanIntervalOf(perRobot.max)) },
+        { key: 'waiting-robot-mean', label: 'Waiting per robot, mean over robots, s (mean over runs)', value: formatSeconds(perRobot.mean.mean), interval: secondsRange(perRobot.mean.meanCi95) },
+        { key: 'waiting-robot-max', label: 'Waiting per robot, longest robot, s (mean over runs)', value: formatSeconds(perRobot.max.mean), interval: secondsRange(perRobot.max.meanCi95) },
       );
     }
-    rows.push({ key: 'waiting', label: 'Waiting, total over robots, s (mean over runs)', value: formatSeconds(s.waitingMs.mean), interval: secondsRange(meanIntervalOf(s.waitingMs)) });
+    rows.push({ key: 'waiting', label: 'Waiting, total over robots, s (mean over runs)', value: formatSeconds(s.waitingMs.mean), interval: secondsRange(s.waitingMs.meanCi95) });
     return rows;
   });
   /** Whether some interval is missing (summary stored before intervals were recorded, or too few runs). */
@@ -89,7 +88,7 @@ export class ExecutionSummaryCard {
 
 /** The mean / p95 row of a metric in seconds, with the interval of each. */
 function metricRows(key: string, label: string, m: MetricStatsView): FigureRow[] {
-  const interval = `mean ${secondsRange(meanIntervalOf(m))} · p95 ${secondsRange(p95IntervalOf(m))}`;
+  const interval = `mean ${secondsRange(m.meanCi95)} · p95 ${secondsRange(m.p95Ci95)}`;
   return [{ key, label: label.replace(', s', ' (mean / p95 over runs), s'), value: `${formatSeconds(m.mean)} / ${formatSeconds(m.p95)}`, interval }];
 }
 

@@ -1,39 +1,12 @@
 /**
- * The 95 % intervals of a Monte Carlo summary as the card shows them. Summaries computed since
- * issue 12 carry them (Wilson for the execution success rate, Student t for means, an
- * order-statistic interval for the p95, shared/confidence-interval.ts); for one stored or computed
- * before, the success-rate interval is recomputed from the rate and the runs (the Wilson interval
- * needs nothing else) and the others are shown as not available.
+ * The 95 % intervals of a Monte Carlo summary the card computes itself. Every summary carries the
+ * intervals of its rate and metrics (Wilson for the execution success rate, Student t for means,
+ * an order-statistic interval for the p95, shared/confidence-interval.ts): the simulator computes
+ * them, and the server fills them in for summaries stored before they existed. The collisions per
+ * run have none in the summary, so they are computed here from the per-run counts.
  */
-import type { ExecutionSummaryView, MetricStatsView } from '@shared/executions';
-import { meanInterval, quantileInterval, wilsonInterval, type Interval95 } from '@shared/confidence-interval';
-
-/** A metric with the interval fields it may carry. */
-export type MetricWithIntervals = MetricStatsView & { readonly meanCi95?: Interval95 | null; readonly p95Ci95?: Interval95 | null };
-
-/** A summary with the interval and per-robot waiting fields it may carry. */
-export type SummaryWithIntervals = ExecutionSummaryView & {
-  readonly successRateCi95?: Interval95;
-  readonly waitingPerRobotMs?: { readonly mean: MetricWithIntervals; readonly max: MetricWithIntervals };
-};
-
-/** The Wilson interval of the success rate: the summary's, or recomputed from rate × runs. */
-export function successRateInterval(s: ExecutionSummaryView): Interval95 | null {
-  const own = (s as SummaryWithIntervals).successRateCi95;
-  if (own) return own;
-  if (s.runs <= 0) return null;
-  return wilsonInterval(Math.round(s.successRate * s.runs), s.runs);
-}
-
-/** The interval of a metric's mean, or null. */
-export function meanIntervalOf(m: MetricStatsView): Interval95 | null {
-  return (m as MetricWithIntervals).meanCi95 ?? null;
-}
-
-/** The interval of a metric's p95, or null. */
-export function p95IntervalOf(m: MetricStatsView): Interval95 | null {
-  return (m as MetricWithIntervals).p95Ci95 ?? null;
-}
+import type { ExecutionSummaryView } from '@shared/executions';
+import { meanInterval, quantileInterval, type Interval95 } from '@shared/confidence-interval';
 
 /**
  * Intervals of the collisions per run (mean by Student t, p95 by order statistics), from the
