@@ -4,11 +4,9 @@
  * replay the result with those settings and show the stored figures (issue 12, item 1).
  * Zod-free, types and pure helpers only: the web imports it.
  */
+import type { Interval95 } from './confidence-interval';
 import type { CollisionModeName, ExecutionPolicyName } from './executions-constants';
 import type { PlanModel, RobotProfile } from './plan';
-
-/** A 95 % interval [lo, hi] (same shape as Interval95 of shared/confidence-interval.ts). */
-export type StoredInterval = readonly [lo: number, hi: number];
 
 /** Everything that decides a replay's figures besides the plan, the model and the robot profile. */
 export interface StoredExecutionSettings {
@@ -26,20 +24,24 @@ export interface StoredMetric {
   readonly mean: number | null;
   readonly p95: number | null;
   readonly count?: number;
-  readonly meanCi95?: StoredInterval | null;
-  readonly p95Ci95?: StoredInterval | null;
+  readonly meanCi95?: Interval95 | null;
+  readonly p95Ci95?: Interval95 | null;
 }
 
 /** The figures a sweep stored for one policy (the leaderboard reads the same row). */
 export interface StoredExecutionFigures {
   readonly successRate: number;
-  readonly collisions: { readonly mean: number; readonly p95: number; readonly total: number };
+  /**
+   * Collisions per run (mean, p95) and over all runs (total). p95 and total are null when not
+   * stored: rows written before the sweep kept them hold only the mean (executions.collisions_mean).
+   */
+  readonly collisions: { readonly mean: number; readonly p95: number | null; readonly total: number | null };
   readonly realisedMakespanMs: StoredMetric;
   readonly realisedSocMs: StoredMetric;
   readonly finishSpreadMs: StoredMetric;
   /** Sum over robots of the time each waited, per run (mean / p95 over runs). */
   readonly waitingMs: StoredMetric;
-  readonly successRateCi95?: StoredInterval;
+  readonly successRateCi95?: Interval95;
   readonly waitingPerRobotMs?: { readonly mean: StoredMetric; readonly max: StoredMetric };
 }
 

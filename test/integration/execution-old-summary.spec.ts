@@ -4,9 +4,11 @@
  * ExecutionSummaryView declares. The success-rate interval is Wilson from rate × runs; counts and
  * intervals of the metrics are computed from the stored per-run values, so they equal what the
  * simulator computes for the same runs today; per-robot waiting, never recorded per run, is null.
+ * A sweep-stored replay that kept only its collisions mean answers the p95 and total as null (not stored).
  */
 import { wilsonInterval } from '@shared/confidence-interval';
 import type { ExecutionView } from '@shared/executions';
+import type { StoredResultExecutionsView } from '@shared/stored-executions';
 import { DEMO_IDENTITIES } from '../../api/src/dev/fake-oauth/demo-identities';
 import { createSet, json, signInAs, startLibraryServer, upload, type LibraryServer, type SignedInClient } from './instance-library-support';
 import { RELAY_MAP, RELAY_MAP_NAME, RELAY_PROFILE, RELAY_SCENARIO, RELAY_SCENARIO_NAME, RELAY_TASKS } from './execution-fixtures';
@@ -18,6 +20,7 @@ describe('an execution stored before issue 12, read back', () => {
   let owner: SignedInClient;
   let current: ExecutionView;
   let old: ExecutionView;
+  let scenarioId: number;
 
   beforeAll(async () => {
     lib = await startLibraryServer();
@@ -28,7 +31,7 @@ describe('an execution stored before issue 12, read back', () => {
       { name: RELAY_SCENARIO_NAME, bytes: Buffer.from(RELAY_SCENARIO) },
     ]);
     expect(res.status).toBe(201);
-    const scenarioId = (res.body as { scenarios: { id: number }[] }).scenarios[0].id;
+    scenarioId = (res.body as { scenarios: { id: number }[] }).scenarios[0].id;
     // Jitter makes open-loop followers collide in some runs (success rate strictly between 0 and 1);
     // 80 runs are enough for the distribution-free p95 interval (≥ 72).
     const posted = await owner.request('/api/executions', json('POST', {
@@ -84,5 +87,25 @@ describe('an execution stored before issue 12, read back', () => {
     expect(old.summary.waitingPerRobotMs).toBeNull();
     expect(old.summary.perRun).toHaveLength(80);
     expect(old.summary.perRun.every((r) => r.waitingMeanPerRobotMs === null && r.waitingMaxPerRobotMs === null)).toBe(true);
+  });
+
+  it('GET /api/executions/stored/:id answers the collision p95 and total of a row that did not store them as null, not 0', async () => {
+    const profile = JSON.stringify(RELAY_PROFILE);
+    const [result] = await lib.sql<{ id: number }>(
+      `INSERT INTO results (instance_set_id, map_id, scenario_id, agents, model, params, param_hash, seed, status, soc, makespan,
+         turn_inclusive_soc_ms, turn_inclusive_makespan_ms, lower_bound, runtime_ms, nodes, robot_profile, robot_profile_hash,
+         solver_version, solver_commit, node_version, cpu_model, thread_count)
+       SELECT s.instance_set_id, s.map_id, s.id, 4, 'classic', '{}', 'p', 3, 'solved', 28, 7, 28000, 7000, 28, 5, 1, CAST(:profile AS jsonb), 'h',
+         '0.1.0', 'test', 'v20', 'test cpu', 1 FROM scenarios s WHERE s.id = :scenarioId RETURNING id`, { profile, scenarioId });
+    // An early sweep row: the collisions mean in its column, nothing about collisions in metrics.
+    await lib.sql(`INSERT INTO executions (result_id, policy, noise, runs, success_rate, collisions_mean, realised_makespan_mean_ms,
+        realised_makespan_p95_ms, finish_spread_mean_ms, metrics)
+      VALUES (:id, 'open-loop', '{"jitterCv":0.1}', 20, 0.85, 0.15, 7300, 7900, 400, CAST(:metrics AS jsonb))`,
+    { id: result.id, metrics: JSON.stringify({ realisedMakespanMs: { mean: 7300, p95: 7900 } }) });
+    const res = await owner.request(`/api/executions/stored/${result.id}`);
+    expect(res.status).toBe(200);
+    const body = (await res.json()) as StoredResultExecutionsView;
+    expect(body.executions).toHaveLength(1);
+    expect(body.executions[0].figures.collisions).toEqual({ mean: 0.15, p95: null, total: null });
   });
 });

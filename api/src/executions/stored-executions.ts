@@ -47,7 +47,8 @@ function storedExecution(row: Execution, resultSeed: number): StoredPolicyExecut
   const metric = (key: string): StoredMetric => (m[key] as StoredMetric | undefined) ?? { mean: null, p95: null };
   const figures: StoredExecutionFigures = {
     successRate: row.successRate,
-    collisions: (m['collisions'] as StoredExecutionFigures['collisions'] | undefined) ?? { mean: row.collisionsMean, p95: 0, total: 0 },
+    // Rows without the collisions object stored only the mean (its own column): the rest is not stored, not 0.
+    collisions: (m['collisions'] as StoredExecutionFigures['collisions'] | undefined) ?? { mean: row.collisionsMean, p95: null, total: null },
     realisedMakespanMs: metric('realisedMakespanMs'),
     realisedSocMs: metric('realisedSocMs'),
     finishSpreadMs: metric('finishSpreadMs'),
