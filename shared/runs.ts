@@ -4,7 +4,7 @@
  * GET /api/sweeps/:id/events. Times are ms; cells never appear here.
  */
 import type { PlanModel, RobotProfile } from './plan';
-import type { SweepDefinition, SweepPolicy, SweepSize } from './sweeps';
+import type { CbsSwitchName, SweepDefinition, SweepPolicy, SweepSize } from './sweeps';
 
 /** Lifecycle of a sweep. `failed` = every run ended but at least one ended in `error`. */
 export const SWEEP_STATUSES = ['queued', 'running', 'finished', 'failed', 'cancelled'] as const;
@@ -49,7 +49,11 @@ export interface SweepProgress {
   readonly done: number;
   readonly counts: RunCounts;
   /** Per plan model (definition order; a model listed twice with different parameters is counted under its index). */
-  readonly perModel: readonly { readonly modelIndex: number; readonly model: PlanModel; readonly label: string; readonly counts: RunCounts }[];
+  readonly perModel: readonly {
+    readonly modelIndex: number; readonly model: PlanModel; readonly label: string; readonly counts: RunCounts;
+    /** CBS switches the spec turns off: the field name (as in the definition) beside its label for people (shared/sweeps.ts). */
+    readonly switchesOff: readonly { readonly name: CbsSwitchName; readonly label: string }[];
+  }[];
   /** Estimated ms until every run is over, from the pace so far; null before the first run ends or once over. */
   readonly etaMs: number | null;
   readonly startedAt: string | null;

@@ -1,6 +1,7 @@
 /** Progress labels name switched-off CBS techniques by their labels, never by the API field names (issue 14, item 11). */
 import { CBS_SWITCH_NAMES, CBS_SWITCH_TEXT, ModelSpecSchema } from '@shared/sweeps';
-import { modelLabel } from './sweep-progress';
+import type { Sequelize } from 'sequelize';
+import { modelLabel, readProgress } from './sweep-progress';
 
 describe('modelLabel', () => {
   it('names switched-off techniques by label, in the order of CBS_SWITCH_NAMES, and leaves switches set to true out', () => {
@@ -20,5 +21,23 @@ describe('modelLabel', () => {
     const label = modelLabel(spec);
     expect(label).toBe(`uniform-duration without ${CBS_SWITCH_NAMES.map((n) => CBS_SWITCH_TEXT[n].label).join(', ')}`);
     for (const n of ['prioritizeConflicts', 'disjointSplitting', 'wdg', 'targetReasoning']) expect(label).not.toContain(n);
+  });
+});
+
+describe('readProgress per model', () => {
+  it('puts the field names of the switches turned off beside their labels', async () => {
+    const models = [
+      ModelSpecSchema.parse({ model: 'classic', switches: { wdg: false, bypass: true } }),
+      ModelSpecSchema.parse({ model: 'weighted-split' }),
+    ];
+    // The two queries readProgress makes: the sweep row, then run counts per model and status.
+    const answers = [[{ status: 'running', definition: { models }, started_at: null, finished_at: null, run_count: 4 }], [{ model_index: 0, status: 'solved', n: '1' }]];
+    const sequelize = { query: jest.fn(async () => answers.shift()) } as unknown as Sequelize;
+    const progress = await readProgress(sequelize, 5);
+    expect(progress?.perModel.map((m) => [m.label, m.switchesOff])).toEqual([
+      ['classic without WDG heuristic', [{ name: 'wdg', label: 'WDG heuristic' }]],
+      ['weighted-split', []],
+    ]);
+    expect(progress?.perModel[0].counts.solved).toBe(1);
   });
 });

@@ -28,7 +28,10 @@ export async function readProgress(sequelize: Sequelize, sweepId: number, nowMs 
     { replacements: { sweepId }, type: QueryTypes.SELECT },
   );
   const counts = emptyRunCounts();
-  const perModel = sweep.definition.models.map((m, modelIndex) => ({ modelIndex, model: m.model as PlanModel, label: modelLabel(m), counts: emptyRunCounts() }));
+  const perModel = sweep.definition.models.map((m, modelIndex) => ({
+    modelIndex, model: m.model as PlanModel, label: modelLabel(m), counts: emptyRunCounts(),
+    switchesOff: switchesOff(m).map((name) => ({ name, label: cbsSwitchLabel(name) })),
+  }));
   for (const r of rows) {
     counts[r.status] += Number(r.n);
     const pm = perModel[r.model_index];

@@ -13,7 +13,7 @@ import SweepDetailPage from './sweep-detail';
 
 const PROGRESS: SweepProgress = {
   sweepId: 12, status: 'running', total: 8, done: 2, counts: { ...emptyRunCounts(), solved: 2, pending: 6 },
-  perModel: [{ modelIndex: 0, model: 'classic', label: 'classic', counts: { ...emptyRunCounts(), solved: 2, pending: 6 } }],
+  perModel: [{ modelIndex: 0, model: 'classic', label: 'classic', counts: { ...emptyRunCounts(), solved: 2, pending: 6 }, switchesOff: [] }],
   etaMs: 180_000, startedAt: '2026-06-01T10:00:00.000Z', finishedAt: null,
 };
 
