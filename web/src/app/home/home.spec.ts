@@ -55,6 +55,8 @@ describe('Home', () => {
       ['Sweeps', '0'],
       ['Results', '98,765'],
     ]);
+    // What the figures count (issue 14, item 10: "Results" used to say 0 whatever the hub held).
+    expect(fixture.nativeElement.querySelector('[data-testid="counts-note"]')?.textContent).toContain('results are every stored outcome of a');
   });
 
   it('says the counts are unavailable when the request fails', async () => {
