@@ -1,6 +1,6 @@
 import {
   CI95_METHOD, cornishFisherT, meanInterval, quantileInterval, quantileRanks, runsForRateHalfWidth, studentT975, studentTwoSidedProbability,
-  wilsonFromRate, wilsonInterval,
+  nonNegativeMeanInterval, wilsonFromRate, wilsonInterval,
 } from './confidence-interval';
 
 describe('wilsonInterval', () => {
@@ -177,6 +177,23 @@ describe('meanInterval', () => {
     // Binomial sd at 95 %: √(0.95·0.05/4000) = 0.34 %; ±1.5 % is over 4 sd.
     expect(covered / trials).toBeGreaterThan(0.935);
     expect(covered / trials).toBeLessThan(0.965);
+  });
+});
+
+describe('nonNegativeMeanInterval', () => {
+  it('cuts the t interval of counts at 0: counts 0, 0, 0, 1 give [0, 1.0456], not [−0.5456, 1.0456]', () => {
+    // Hand-worked: mean 0.25, s = 0.5, t(0.975, 3) = 3.182446 (printed t tables; recalled from memory),
+    // half-width 3.182446 · 0.5 / 2 = 0.795612; so [−0.545612, 1.045612] uncut.
+    const [lo, hi] = meanInterval([0, 0, 0, 1])!;
+    expect([lo, hi].map((v) => Number(v.toFixed(4)))).toEqual([-0.5456, 1.0456]);
+    expect(nonNegativeMeanInterval([0, 0, 0, 1])).toEqual([0, hi]);
+  });
+
+  it('leaves an interval above 0 as it is, and is null below two values like meanInterval', () => {
+    expect(nonNegativeMeanInterval([3, 4, 5, 4])).toEqual(meanInterval([3, 4, 5, 4]));
+    expect(meanInterval([3, 4, 5, 4])![0]).toBeGreaterThan(0);
+    expect(nonNegativeMeanInterval([2])).toBeNull();
+    expect(nonNegativeMeanInterval([0, 0])).toEqual([0, 0]);
   });
 });
 

@@ -97,6 +97,17 @@ export function meanInterval(values: readonly number[]): Interval95 | null {
   return [mean - half, mean + half];
 }
 
+/**
+ * meanInterval for values that cannot be negative (counts, such as collisions per run): the
+ * symmetric t interval cut at 0. A mean of non-negative values cannot be negative, so the cut
+ * part holds no possible value and the coverage can only grow; left uncut, a few rare events
+ * (counts 0, 0, 0, 1) print a lower bound of −0.55. The one place this cut is made.
+ */
+export function nonNegativeMeanInterval(values: readonly number[]): Interval95 | null {
+  const interval = meanInterval(values);
+  return interval && [Math.max(0, interval[0]), interval[1]];
+}
+
 const tCache = new Map<number, number>();
 
 /**

@@ -3,7 +3,7 @@
  * person reads. Every figure drawn from random runs carries its 95 % interval; waiting is given
  * per robot (mean and max over robots) and, labelled apart, as the total over robots.
  */
-import { CI95_METHOD, meanInterval, type Interval95 } from '../../shared/confidence-interval';
+import { CI95_METHOD, type Interval95 } from '../../shared/confidence-interval';
 import type { PlanModel, RobotProfile } from '../../shared/plan';
 import type { ExecutionSummary, MetricStats } from '../execute';
 
@@ -60,7 +60,7 @@ export function executeReportLines(s: ExecutionSummary, c: ReportContext): strin
       + ` noise: jitter cv ${s.noise.jitterCv}, stalls p = ${c.stallProbability} × ${c.stallMs} ms`,
     `robot profile: forward ${p.forwardMs} ms, quarter turn ${p.quarterTurnMs} ms, wait ${p.waitMs} ms, pitch ${p.cellPitchMm} mm, diameter ${p.robotDiameterMm} mm`,
     `execution success rate        ${(s.successRate * 100).toFixed(1)} % (${ciPercent(s.ci95.successRate)})`,
-    `collisions per run            mean ${s.collisions.mean.toFixed(2)} (${ciCount(meanInterval(s.perRun.map((r) => r.collisions.length)))}),`
+    `collisions per run            mean ${s.collisions.mean.toFixed(2)} (${ciCount(s.collisions.meanCi95)}),`
       + ` total ${s.collisions.total} over all runs`,
     `realised makespan             ${stats(s.realisedMakespanMs)}`,
     `finish spread                 ${stats(s.finishSpreadMs)}`,

@@ -172,7 +172,18 @@ export interface ExecutionSummary {
     readonly realisedMakespanMs: Interval95 | null;
     readonly finishSpreadMs: Interval95 | null;
   };
-  readonly collisions: { readonly mean: number; readonly p95: number; readonly total: number };
+  /**
+   * Collisions per run: mean, nearest-rank p95, total over runs, and the 95 % intervals of the mean
+   * (Student t cut at 0: a mean of counts cannot be negative; null below 2 runs) and of the p95
+   * (order statistics; null below 72 runs). Computed once here; the CLI and the viewer read them.
+   */
+  readonly collisions: {
+    readonly mean: number;
+    readonly p95: number;
+    readonly total: number;
+    readonly meanCi95: Interval95 | null;
+    readonly p95Ci95: Interval95 | null;
+  };
   readonly realisedMakespanMs: MetricStats;
   readonly realisedSocMs: MetricStats;
   readonly finishSpreadMs: MetricStats;

@@ -4,7 +4,7 @@
  * (shared/confidence-interval.ts; computed once per batch, never per run). Deterministic for a seed.
  * Simulation is no safety assessment; see execution-types.ts.
  */
-import { wilsonInterval } from '@shared/confidence-interval';
+import { nonNegativeMeanInterval, wilsonInterval } from '@shared/confidence-interval';
 import type { RobotProfile } from '@shared/plan';
 import type { MapfInstance } from '../instance';
 import { ExecutionRunner } from './execution-runner';
@@ -55,7 +55,15 @@ export function summariseRuns(
     successRate: n === 0 ? 0 : successes / n,
     successRateCi95,
     ci95: { successRate: successRateCi95, realisedMakespanMs: realisedMakespanMs.meanCi95, finishSpreadMs: finishSpreadMs.meanCi95 },
-    collisions: { mean: collisionStats.mean ?? 0, p95: collisionStats.p95 ?? 0, total: counts.reduce((s, c) => s + c, 0) },
+    collisions: {
+      mean: collisionStats.mean ?? 0,
+      p95: collisionStats.p95 ?? 0,
+      total: counts.reduce((s, c) => s + c, 0),
+      // A mean of counts cannot be negative: the t interval is cut at 0 (a few rare collisions
+      // would otherwise print a negative lower bound).
+      meanCi95: nonNegativeMeanInterval(counts),
+      p95Ci95: collisionStats.p95Ci95,
+    },
     realisedMakespanMs,
     realisedSocMs: metricStats(perRun.map((m) => m.realisedSocMs)),
     finishSpreadMs,

@@ -1,9 +1,9 @@
 // The 95 % intervals of a Monte Carlo summary (issue 12, item 5): computed from the batch's own
 // per-run figures with the methods of shared/confidence-interval.ts, once per batch.
 import type { RobotProfile } from '@shared/plan';
-import { quantileRanks, wilsonInterval } from '@shared/confidence-interval';
+import { meanInterval, quantileRanks, wilsonInterval } from '@shared/confidence-interval';
 import { scheduleFromPaths } from '../models/turn-schedule';
-import { simulateExecution } from './index';
+import { ExecutionRunner, simulateExecution, summariseRuns } from './index';
 import { datasetInstance } from './testing/dataset-instances';
 import { prioritisedPaths } from './testing/prioritised-paths';
 
@@ -50,6 +50,27 @@ describe('Monte Carlo summary intervals', () => {
     const [lo, hi] = g.realisedMakespanMs.p95Ci95 as [number, number];
     expect(lo).toBeLessThanOrEqual(g.realisedMakespanMs.p95 as number);
     expect(hi).toBeGreaterThanOrEqual(g.realisedMakespanMs.p95 as number);
+  });
+
+  it('collisions per run carry the t interval of the mean and the order-statistic interval of the p95 of the counts', () => {
+    const counts = s.perRun.map((m) => m.collisions.length);
+    expect(counts.some((c) => c > 0)).toBe(true);
+    expect(s.collisions.meanCi95).toEqual(meanInterval(counts));
+    const sorted = [...counts].sort((a, b) => a - b);
+    const [l, u] = quantileRanks(120, 0.95) as [number, number];
+    expect(s.collisions.p95Ci95).toEqual([sorted[l - 1], sorted[u - 1]]);
+  });
+
+  it('collisions per run: the mean interval is cut at 0 (a mean of counts cannot be negative)', () => {
+    // Four runs with 0, 0, 0 and 1 collisions: the t interval is [−0.5456, 1.0456] (hand-worked in
+    // shared/confidence-interval.spec.ts); the summary keeps [0, 1.0456].
+    const collision = s.perRun.find((m) => m.collisions.length > 0)!.collisions[0];
+    const perRun = [0, 0, 0, 1].map((c, run) => ({ ...s.perRun[run], run, collisions: c > 0 ? [collision] : [] }));
+    const runner = new ExecutionRunner(instance, plan, profile, { policy: 'open-loop', seed: 21, noise });
+    const four = summariseRuns(runner, { policy: 'open-loop', seed: 21 }, perRun, false);
+    const [tLo, tHi] = meanInterval([0, 0, 0, 1])!;
+    expect(tLo).toBeLessThan(0);
+    expect(four.collisions).toMatchObject({ mean: 0.25, total: 1, meanCi95: [0, tHi], p95Ci95: null });
   });
 
   it('waiting: the sum over robots stays, per robot mean and max come with it', () => {
