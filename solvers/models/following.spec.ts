@@ -213,6 +213,7 @@ describe('following: forbidden', () => {
     let compared = 0;
     let solvedVariants = 0;
     let timeouts = 0;
+    let orientationCompared = 0;
     for (let seed = 1; seed <= 10; seed++) {
       const inst = randomInstance(seed * 31337, 5, 5, 4, 0.2);
       if (inst === null) throw new Error(`seed ${seed}: too few free cells`);
@@ -234,10 +235,16 @@ describe('following: forbidden', () => {
       }
       const o = solveOrientationSplit(inst, { following: 'forbidden', nodeLimit: 5_000 });
       const oPlain = solveOrientationSplit(inst, { following: 'forbidden', switches: PLAIN_CBS_SWITCHES, nodeLimit: 5_000 });
-      if (o.status === 'solved' && oPlain.status === 'solved') expect(o.soc).toBe(oPlain.soc);
+      if (o.status === 'solved' && oPlain.status === 'solved') {
+        expect(o.soc).toBe(oPlain.soc);
+        orientationCompared++;
+      }
       compared++;
     }
     expect(compared).toBeGreaterThanOrEqual(8);
+    // Orientation-split is compared only where both it and its plain-CBS run solved within the node
+    // limit (6 of these instances, deterministic for the fixed seeds): never let that drop silently.
+    expect(orientationCompared).toBeGreaterThanOrEqual(6);
     // 8 variants per instance; only a few weak-variant runs may hit the node limit.
     expect(solvedVariants + timeouts).toBe(8 * compared);
     expect(timeouts).toBeLessThanOrEqual(compared);
