@@ -5,6 +5,7 @@
  * link opens exactly the same view and an export holds exactly the rows and columns on screen.
  */
 import { CI95_METHOD, type Interval95 } from './confidence-interval';
+import { INTERVAL_NOT_STORED } from './exports-table';
 import { PLAN_MODELS, type PlanModel } from './plan';
 
 /** How a column filters: free text, a number, or one of a fixed list. */
@@ -62,6 +63,12 @@ export const SUCCESS_INTERVAL_COLUMNS: readonly (readonly [string, string, strin
   (p) => [`success${p.key}Lo`, `success${p.key}Hi`, `success${p.key}`, p.policy.replace('-', '_')] as const,
 );
 
+/** Why an execution figure has no stored interval; said after INTERVAL_NOT_STORED (shared/exports-table.ts) wherever it shows. */
+export const INTERVAL_NOT_STORED_REASON = 'executions recorded before intervals were kept';
+
+/** Description of a mean's stored interval bound (empty when not stored; the grid shows INTERVAL_NOT_STORED). */
+const MEAN_BOUND_DESCRIPTION = `Interval of the mean as stored with the execution; empty, shown as ${INTERVAL_NOT_STORED}, for ${INTERVAL_NOT_STORED_REASON}.`;
+
 const policyColumns: LeaderboardColumn[] = LEADERBOARD_POLICIES.flatMap((p) => [
   {
     id: `success${p.key}`, label: `Execution success rate, ${p.label}`, kind: 'number', better: 'higher', digits: 2,
@@ -78,20 +85,20 @@ const policyColumns: LeaderboardColumn[] = LEADERBOARD_POLICIES.flatMap((p) => [
   { id: `spread${p.key}`, label: `Finish spread (mean), ${p.label}`, kind: 'number', unit: 'ms', better: 'lower', digits: 0 } as const,
   {
     id: `spread${p.key}Lo`, label: `Finish spread (mean), ${p.label}, 95 % CI low`, kind: 'number', unit: 'ms', digits: 0,
-    description: 'Interval of the mean as stored with the execution; empty: interval not stored (executions recorded before intervals were kept).',
+    description: MEAN_BOUND_DESCRIPTION,
   } as const,
   {
     id: `spread${p.key}Hi`, label: `Finish spread (mean), ${p.label}, 95 % CI high`, kind: 'number', unit: 'ms', digits: 0,
-    description: 'Interval of the mean as stored with the execution; empty: interval not stored (executions recorded before intervals were kept).',
+    description: MEAN_BOUND_DESCRIPTION,
   } as const,
   { id: `realised${p.key}`, label: `Realised makespan (mean), ${p.label}`, kind: 'number', unit: 'ms', better: 'lower', digits: 0 } as const,
   {
     id: `realised${p.key}Lo`, label: `Realised makespan (mean), ${p.label}, 95 % CI low`, kind: 'number', unit: 'ms', digits: 0,
-    description: 'Interval of the mean as stored with the execution; empty: interval not stored (executions recorded before intervals were kept).',
+    description: MEAN_BOUND_DESCRIPTION,
   } as const,
   {
     id: `realised${p.key}Hi`, label: `Realised makespan (mean), ${p.label}, 95 % CI high`, kind: 'number', unit: 'ms', digits: 0,
-    description: 'Interval of the mean as stored with the execution; empty: interval not stored (executions recorded before intervals were kept).',
+    description: MEAN_BOUND_DESCRIPTION,
   } as const,
 ]);
 
@@ -166,7 +173,7 @@ export function compareIntervalNote(metric: CompareMetric): string | null {
   const kind = compareIntervalKind(metric);
   if (kind === 'rate') return `Each value carries its 95 % interval [low, high]: ${CI95_METHOD.rate}, recomputed from that plan's rate × runs.`;
   if (kind === 'mean') {
-    return `Each value carries its 95 % interval [low, high] of the mean over runs: ${CI95_METHOD.mean}, as stored with the execution ("interval not stored": executions recorded before intervals were kept).`;
+    return `Each value carries its 95 % interval [low, high] of the mean over runs: ${CI95_METHOD.mean}, as stored with the execution (${INTERVAL_NOT_STORED}: ${INTERVAL_NOT_STORED_REASON}).`;
   }
   return null;
 }

@@ -1,8 +1,8 @@
 /** The caption of an export: which figure, plan models and robot profiles the numbers come from, and the safety note when execution figures are in it. */
 import { SAFETY_NOTE } from '@shared/executions-constants';
 import { CI95_METHOD } from '@shared/confidence-interval';
-import { COLLISION_MARK } from '@shared/exports-table';
-import { columnsOf, compareIntervalNote, NOMINAL_DESCRIPTION, type LeaderboardView } from '@shared/leaderboards';
+import { COLLISION_MARK, INTERVAL_NOT_STORED } from '@shared/exports-table';
+import { columnsOf, compareIntervalNote, INTERVAL_NOT_STORED_REASON, NOMINAL_DESCRIPTION, type LeaderboardView } from '@shared/leaderboards';
 
 /** Column ids whose figures come from the execution simulator. */
 const isExecutionColumn = (id: string): boolean => /^(success|spread|realised)/.test(id);
@@ -27,7 +27,7 @@ export function exportCaption(view: LeaderboardView, profileLabels: readonly str
   // Markdown and LaTeX write "x [lo, hi]"; CSV and JSON put the bounds in <model column>_lo / _hi columns.
   if (compareNote) parts.push(`${compareNote} (Markdown and LaTeX: value [low, high]; CSV and JSON: separate low and high columns.)`);
   if (shown.some((id) => /^(success|realised|spread).*(Lo|Hi)$/.test(id))) {
-    parts.push(`95 % intervals: execution success rate by the ${CI95_METHOD.rate}, recomputed from rate × runs; means of realised makespan and finish spread by the ${CI95_METHOD.mean}, as stored with the execution (empty: interval not stored, executions recorded before intervals were kept).`);
+    parts.push(`95 % intervals: execution success rate by the ${CI95_METHOD.rate}, recomputed from rate × runs; means of realised makespan and finish spread by the ${CI95_METHOD.mean}, as stored with the execution (empty bounds: ${INTERVAL_NOT_STORED}, ${INTERVAL_NOT_STORED_REASON}).`);
   }
   if (shown.some(isExecutionColumn)) parts.push(SAFETY_NOTE);
   return parts.join(' ');

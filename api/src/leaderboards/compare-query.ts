@@ -4,9 +4,9 @@
  * k joins that variant's entry.
  */
 import { PLAN_MODELS, type PlanModel } from '@shared/plan';
-import { compareIntervalKind, modelColumnId, type LeaderboardView } from '@shared/leaderboards';
+import { modelColumnId, type LeaderboardView } from '@shared/leaderboards';
 import type { Viewer } from '../instance-sets/instance-set-access';
-import { COMPARE_TABLE_K, compareColumn, ENTRY_SQL, figureColumn } from './entry-sql';
+import { COMPARE_TABLE_K, compareColumn, figureColumn, intervalSource } from './entry-sql';
 import { baseWhere, fewValuesFilter, filterCondition, whereSql, type RowWindow, type SqlQuery, type ViewScope } from './view-sql';
 
 /** SQL of a comparison column on `c` (leaderboard_compare), or `x` (the k-robust entry) for another k. */
@@ -29,15 +29,14 @@ const COMPARE_VARIANT: Readonly<Record<PlanModel, string>> = {
 
 /**
  * The interval sources of an execution figure (issue 12, item 5): per plan model, its entry's
- * runs (a rate: the service recomputes Wilson for the page's rows) or stored interval bounds (a
- * mean), as `__lo_<col>` / `__hi_<col>`. `leaderboard_compare` keeps no runs or bounds, so the
- * page's rows (never the whole view) look up their entries by the entries' unique key.
+ * runs as `__runs_<col>` (a rate: the service computes Wilson for the page's rows from rate ×
+ * runs) or its stored interval bounds as `__lo_<col>` / `__hi_<col>` (a mean).
+ * `leaderboard_compare` keeps no runs or bounds, so the page's rows (never the whole view) look up
+ * their entries by the entries' unique key.
  */
 function intervalSql(view: LeaderboardView): { joins: string; select: string } | null {
-  if (compareIntervalKind(view.metric) === null) return null;
-  // The entries columns behind the metric's Lo / Hi ids (runs twice for a rate).
-  const lo = ENTRY_SQL[`${view.metric}Lo`].slice(2);
-  const hi = ENTRY_SQL[`${view.metric}Hi`].slice(2);
+  const source = intervalSource(view.metric);
+  if (source === null) return null;
   const joins: string[] = [];
   const select: string[] = [];
   for (const m of PLAN_MODELS) {
@@ -48,7 +47,8 @@ function intervalSql(view: LeaderboardView): { joins: string; select: string } |
       joins.push(`LEFT JOIN leaderboard_entries ${alias} ON ${alias}.scenario_id = c.scenario_id AND ${alias}.agents = c.agents
         AND ${alias}.model = '${m}' AND ${alias}.variant = '${COMPARE_VARIANT[m]}' AND ${alias}.robot_profile_hash = c.robot_profile_hash`);
     }
-    select.push(`${alias}.${lo} AS "__lo_${col}"`, `${alias}.${hi} AS "__hi_${col}"`);
+    if (source.kind === 'rate') select.push(`${alias}.${source.runs} AS "__runs_${col}"`);
+    else select.push(`${alias}.${source.lo} AS "__lo_${col}"`, `${alias}.${source.hi} AS "__hi_${col}"`);
   }
   return { joins: joins.join('\n    '), select: select.join(', ') };
 }

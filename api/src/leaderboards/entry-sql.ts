@@ -11,13 +11,37 @@ const POLICY_SQL: Record<string, string> = Object.fromEntries(
     const suffix = p.policy.replace('-', '_');
     return [
       [`success${p.key}`, `e.success_${suffix}`], [`spread${p.key}`, `e.spread_${suffix}`], [`realised${p.key}`, `e.realised_${suffix}`],
-      // Computed for the page from rate × runs (leaderboards.service.ts); the query reads the runs here.
-      [`success${p.key}Lo`, `e.runs_${suffix}`], [`success${p.key}Hi`, `e.runs_${suffix}`],
+      // Computed for the page from rate × runs (leaderboards.service.ts fillSuccessIntervals, which
+      // reads the rate and the runs the page query adds); nothing stored holds them.
+      [`success${p.key}Lo`, 'NULL'], [`success${p.key}Hi`, 'NULL'],
       [`realised${p.key}Lo`, `e.realised_lo_${suffix}`], [`realised${p.key}Hi`, `e.realised_hi_${suffix}`],
       [`spread${p.key}Lo`, `e.spread_lo_${suffix}`], [`spread${p.key}Hi`, `e.spread_hi_${suffix}`],
     ];
   }),
 );
+
+/**
+ * The entries columns behind the 95 % interval of a comparison figure (issue 12, item 5; columns of
+ * migration 0405): for an execution success rate its runs (the Wilson interval is computed per page
+ * from rate × runs), for a mean its stored bounds; null for a figure without an interval.
+ */
+export type IntervalSource = { readonly kind: 'rate'; readonly runs: string } | { readonly kind: 'mean'; readonly lo: string; readonly hi: string };
+
+const INTERVAL_SOURCES: Readonly<Record<string, IntervalSource>> = Object.fromEntries(
+  LEADERBOARD_POLICIES.flatMap((p) => {
+    const suffix = p.policy.replace('-', '_');
+    return [
+      [`success${p.key}`, { kind: 'rate', runs: `runs_${suffix}` }],
+      [`realised${p.key}`, { kind: 'mean', lo: `realised_lo_${suffix}`, hi: `realised_hi_${suffix}` }],
+      [`spread${p.key}`, { kind: 'mean', lo: `spread_lo_${suffix}`, hi: `spread_hi_${suffix}` }],
+    ];
+  }),
+);
+
+/** Where the interval of comparison figure `metric` comes from, or null (plan figures have none). */
+export function intervalSource(metric: CompareMetric): IntervalSource | null {
+  return INTERVAL_SOURCES[metric] ?? null;
+}
 
 /** Column id → SQL expression on `e` (entries layout). */
 export const ENTRY_SQL: Readonly<Record<string, string>> = {

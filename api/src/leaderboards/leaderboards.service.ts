@@ -4,7 +4,7 @@
  * the viewer may see.
  */
 import { QueryTypes, type Sequelize } from 'sequelize';
-import { studentT975, wilsonInterval, type Interval95 } from '@shared/confidence-interval';
+import { studentT975, wilsonFromRate, type Interval95 } from '@shared/confidence-interval';
 import {
   columnsOf, compareIntervalKind, LEADERBOARD_POLICIES, modelColumnId, profileLabel, SUCCESS_INTERVAL_COLUMNS, type BestAmong, type ChartSeries, type LeaderboardCharts, type LeaderboardPage,
   type CompareMetric, type LeaderboardRow, type LeaderboardSummary, type LeaderboardView, type ModelSummary, type ProfileOption,
@@ -221,15 +221,15 @@ export function createLeaderboardsService(deps: { readonly sequelize: Sequelize;
 
 /**
  * The Wilson 95 % interval cells of each policy's execution success rate (shared/confidence-interval.ts),
- * recomputed from the stored rate × runs; the page query put the runs into the interval columns
- * and the rate and runs into `__success_*` / `__runs_*`.
+ * recomputed from the stored rate × runs, which the page query read into `__success_*` / `__runs_*`
+ * (the interval columns themselves come out of it empty).
  */
 function fillSuccessIntervals(cells: Record<string, string | number | null>, r: Row): void {
   for (const [lo, hi, , suffix] of SUCCESS_INTERVAL_COLUMNS) {
     if (!(lo in cells) && !(hi in cells)) continue;
     const rate = r[`__success_${suffix}`] as number | null;
     const runs = r[`__runs_${suffix}`] as number | null;
-    const ci = rate === null || runs === null || runs <= 0 ? null : wilsonInterval(Math.round(rate * runs), runs);
+    const ci = rate === null || runs === null || runs <= 0 ? null : wilsonFromRate(rate, runs);
     if (lo in cells) cells[lo] = ci ? ci[0] : null;
     if (hi in cells) cells[hi] = ci ? ci[1] : null;
   }
@@ -237,9 +237,9 @@ function fillSuccessIntervals(cells: Record<string, string | number | null>, r: 
 
 /**
  * The 95 % interval of each plan model cell of a comparison row with an execution figure (issue
- * 12, item 5), from the `__lo_*` / `__hi_*` the page query read from the cells' entries: a rate
- * gets Wilson from rate × runs (both sources hold the runs), a mean its stored bounds. Null for
- * a cell without a value or without an interval; undefined for plan figures (no interval).
+ * 12, item 5), from what the page query read from the cells' entries: a rate gets Wilson from
+ * rate × runs (`__runs_*`), a mean its stored bounds (`__lo_*` / `__hi_*`). Null for a cell
+ * without a value or without an interval; undefined for plan figures (no interval).
  */
 function compareIntervals(metric: CompareMetric, cells: Readonly<Record<string, string | number | null>>, r: Row): Record<string, Interval95 | null> | undefined {
   const kind = compareIntervalKind(metric);
@@ -249,10 +249,16 @@ function compareIntervals(metric: CompareMetric, cells: Readonly<Record<string, 
     const col = modelColumnId(m);
     if (!(col in cells)) continue;
     const value = cells[col];
-    const lo = r[`__lo_${col}`] as number | null;
-    const hi = r[`__hi_${col}`] as number | null;
-    if (typeof value !== 'number' || lo === null || hi === null) out[col] = null;
-    else out[col] = kind === 'rate' ? (lo > 0 ? wilsonInterval(Math.round(value * lo), lo) : null) : [Number(lo), Number(hi)];
+    if (typeof value !== 'number') {
+      out[col] = null;
+    } else if (kind === 'rate') {
+      const runs = r[`__runs_${col}`] as number | null;
+      out[col] = runs !== null && runs > 0 ? wilsonFromRate(value, runs) : null;
+    } else {
+      const lo = r[`__lo_${col}`] as number | null;
+      const hi = r[`__hi_${col}`] as number | null;
+      out[col] = lo === null || hi === null ? null : [Number(lo), Number(hi)];
+    }
   }
   return out;
 }

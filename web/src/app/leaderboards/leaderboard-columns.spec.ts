@@ -18,7 +18,7 @@ describe('model cells with a 95 % interval', () => {
 
   it('shows a mean without digit grouping, and says when its interval was not stored', () => {
     expect(cellWithInterval('mean', 14100, 14000, 14250.4, 0)).toBe('14100 [14000, 14250]');
-    expect(cellWithInterval('mean', 3100, null, null, 0)).toBe('3100 (interval not stored)');
+    expect(cellWithInterval('mean', 3100, null, null, 0)).toBe('3100 [interval not stored]');
     expect(cellWithInterval('mean', null, null, null, 0)).toBe('–');
   });
 
@@ -42,7 +42,7 @@ describe('model cells with a 95 % interval', () => {
       return (def?.valueFormatter as (p: unknown) => string)({ value: row[id], data: row });
     };
     expect([text('m_classic'), text('m_orientation_split'), text('m_weighted_split'), text('m_k_robust')])
-      .toEqual(['70 % [39, 90]', '0 % [0, 28]', '95 % (interval not stored)', '–']);
+      .toEqual(['70 % [39, 90]', '0 % [0, 28]', '95 % [interval not stored]', '–']);
     const tip = (id: string) => (defs.find((d) => d.colId === id)?.tooltipValueGetter as (p: unknown) => string | undefined)({ data: row });
     const [lo, hi] = wilsonInterval(7, 10);
     expect(tip('m_classic')).toContain(`95 % interval ${lo.toFixed(3)} to ${hi.toFixed(3)}: Wilson score interval`);
@@ -54,7 +54,7 @@ describe('model cells with a 95 % interval', () => {
     const defs = gridColumns(compareColumns('realisedOpenLoop'), [], 'mean');
     const tip = defs.find((d) => d.colId === 'm_classic')?.tooltipValueGetter as (p: unknown) => string | undefined;
     expect(tip({ data: { m_classic: 4100, m_classic__lo: 4000, m_classic__hi: 4200.4 } })).toContain('95 % interval 4000 to 4200: Student t interval of the mean');
-    expect(tip({ data: { m_classic: 4100, m_classic__lo: null, m_classic__hi: null } })).toBe('Interval not stored (execution recorded before intervals were kept).');
+    expect(tip({ data: { m_classic: 4100, m_classic__lo: null, m_classic__hi: null } })).toBe('[interval not stored]: executions recorded before intervals were kept.');
   });
 
   it('leaves plan figures without intervals', () => {

@@ -1,7 +1,8 @@
 /** Grid column definitions of a board view: ids equal the API's column ids, filters limited to what the API takes. */
 import type { ColDef, ValueFormatterParams } from 'ag-grid-community';
 import { CI95_METHOD } from '@shared/confidence-interval';
-import type { LeaderboardColumn } from '@shared/leaderboards';
+import { INTERVAL_NOT_STORED } from '@shared/exports-table';
+import { INTERVAL_NOT_STORED_REASON, type LeaderboardColumn } from '@shared/leaderboards';
 import { GRID_FILTER_OPTIONS } from './grid-view';
 
 /**
@@ -35,7 +36,7 @@ function formatNumber(digits: number | undefined) {
 }
 
 /**
- * A realised-makespan or finish-spread interval bound: "interval not stored" when the row has the mean but its
+ * A realised-makespan or finish-spread interval bound: INTERVAL_NOT_STORED when the row has the mean but its
  * execution was recorded before intervals were kept (issue 12, item 5).
  */
 function formatIntervalBound(id: string, digits: number | undefined) {
@@ -43,7 +44,7 @@ function formatIntervalBound(id: string, digits: number | undefined) {
   const plain = formatNumber(digits);
   return (p: ValueFormatterParams<GridRow>): string => {
     const v = p.value as number | null | undefined;
-    if ((v === null || v === undefined) && typeof p.data?.[mean] === 'number') return 'interval not stored';
+    if ((v === null || v === undefined) && typeof p.data?.[mean] === 'number') return INTERVAL_NOT_STORED;
     return plain(p);
   };
 }
@@ -60,17 +61,18 @@ const plain = (v: number, digits: number | undefined): string =>
 /**
  * The compact text of a model cell with its 95 % interval (issue 12, item 5): a rate as whole
  * percent, "85 % [71, 93]", the bounds rounded outwards (so the text never claims a narrower
- * interval than computed); a mean as "4100 [4050, 4150]" in the header's unit; "4100 (interval
- * not stored)" for executions recorded before intervals were kept; "–" without a value.
+ * interval than computed); a mean as "4100 [4050, 4150]" in the header's unit; "4100 [interval
+ * not stored]" (INTERVAL_NOT_STORED, as exports write it) for executions recorded before intervals
+ * were kept; "–" without a value.
  */
 export function cellWithInterval(kind: CellIntervalKind, value: number | null | undefined, lo: number | null | undefined, hi: number | null | undefined, digits?: number): string {
   if (value === null || value === undefined) return '–';
   const hasInterval = typeof lo === 'number' && typeof hi === 'number';
   if (kind === 'rate') {
     const pct = `${Math.round(value * 100)} %`;
-    return hasInterval ? `${pct} [${Math.floor(lo * 100 + 1e-9)}, ${Math.ceil(hi * 100 - 1e-9)}]` : `${pct} (interval not stored)`;
+    return hasInterval ? `${pct} [${Math.floor(lo * 100 + 1e-9)}, ${Math.ceil(hi * 100 - 1e-9)}]` : `${pct} ${INTERVAL_NOT_STORED}`;
   }
-  return hasInterval ? `${plain(value, digits)} [${plain(lo, digits)}, ${plain(hi, digits)}]` : `${plain(value, digits)} (interval not stored)`;
+  return hasInterval ? `${plain(value, digits)} [${plain(lo, digits)}, ${plain(hi, digits)}]` : `${plain(value, digits)} ${INTERVAL_NOT_STORED}`;
 }
 
 /** Tooltip of a model cell: its interval with the method, and whether its plan collides at nominal times. */
@@ -82,7 +84,7 @@ function modelCellTooltip(id: string, kind: CellIntervalKind | null, digits: num
     if (kind && typeof p.data?.[id] === 'number') {
       parts.push(typeof lo === 'number' && typeof hi === 'number'
         ? `95 % interval ${kind === 'rate' ? `${lo.toFixed(3)} to ${hi.toFixed(3)}` : `${plain(lo, digits)} to ${plain(hi, digits)}`}: ${kind === 'rate' ? `${CI95_METHOD.rate}, from this plan's rate × runs` : `${CI95_METHOD.mean}, as stored with the execution`}.`
-        : 'Interval not stored (execution recorded before intervals were kept).');
+        : `${INTERVAL_NOT_STORED}: ${INTERVAL_NOT_STORED_REASON}.`);
     }
     if (listed(p.data?.__colliding, id)) parts.push(COLLIDING_TIP);
     return parts.length > 0 ? parts.join(' ') : undefined;

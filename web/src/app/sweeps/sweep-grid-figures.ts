@@ -5,16 +5,14 @@
  * is a count over runs, so that is exact). Means of older rows have no interval: their per-run values
  * were not kept, and none is invented.
  */
-import { wilsonInterval, type Interval95 } from '@shared/confidence-interval';
+import { wilsonFromRate, type Interval95 } from '@shared/confidence-interval';
 import type { ExecutionView } from '@shared/runs';
 
 /** The execution success rate's 95 % interval: stored, or Wilson from successRate × runs. */
 export function successRateInterval(e: Pick<ExecutionView, 'successRate' | 'runs' | 'ci95'>): Interval95 | null {
   if (e.ci95?.successRate) return e.ci95.successRate;
   if (!(Number.isInteger(e.runs) && e.runs > 0)) return null;
-  // successRate was stored as successes / runs; rounding undoes the floating-point division.
-  const successes = Math.min(e.runs, Math.max(0, Math.round(e.successRate * e.runs)));
-  return wilsonInterval(successes, e.runs);
+  return wilsonFromRate(e.successRate, e.runs);
 }
 
 /** The stored 95 % interval of the mean realised makespan (ms), or null. */
