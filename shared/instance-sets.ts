@@ -141,16 +141,19 @@ export interface MapDetail extends MapSummary {
 }
 
 /**
- * GET /api/maps/:id/deletion-preview and GET /api/scenarios/:id/deletion-preview: what deleting the
- * file takes with it. The database cascades (migrations 0100, 0200, 0400): a map takes its
- * scenarios; a scenario takes the sweep runs, the results (with their execution replays and
- * leaderboard entries) and the plan submissions over it. The sweeps themselves stay, with fewer runs.
+ * GET /api/instance-sets/:id/deletion-preview, /api/maps/:id/deletion-preview and
+ * /api/scenarios/:id/deletion-preview: what deleting the set or file takes with it. The database
+ * cascades (migrations 0100, 0200, 0400): a set takes its maps and scenarios, a map its scenarios;
+ * a scenario takes the sweep runs, the results (with their execution replays and leaderboard
+ * entries) and the plan submissions over it. The sweeps themselves stay, with fewer runs.
  */
 export interface DeletionPreview {
-  readonly kind: 'map' | 'scenario';
+  readonly kind: 'set' | 'map' | 'scenario';
   readonly id: number;
   readonly name: string;
-  /** Scenarios that go too (a map's scenarios; 0 for a scenario). */
+  /** Maps that go too (a set's maps; 0 otherwise). */
+  readonly maps: number;
+  /** Scenarios that go too (a set's or a map's scenarios; 0 for a scenario). */
   readonly scenarios: number;
   /** Sweep runs that go. */
   readonly runs: number;

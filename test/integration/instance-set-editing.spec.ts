@@ -74,7 +74,7 @@ describe('editing an instance set', () => {
 describe('deleting one map or scenario', () => {
   let world: BoardWorld;
   let sweepId: number;
-  const preview = async (kind: 'maps' | 'scenarios', id: number, client = world.owner) => client.request(`/api/${kind}/${id}/deletion-preview`);
+  const preview = async (kind: 'instance-sets' | 'maps' | 'scenarios', id: number, client = world.owner) => client.request(`/api/${kind}/${id}/deletion-preview`);
   /** What the database holds over the given scenarios. */
   const heldOver = async (ids: readonly number[]) => (await world.lib.sql<{ scenarios: number; runs: number; results: number; submissions: number; executions: number }>(
     `SELECT (SELECT count(*) FROM scenarios WHERE id IN (:ids))::int AS scenarios, (SELECT count(*) FROM runs WHERE scenario_id IN (:ids))::int AS runs,
@@ -121,12 +121,20 @@ describe('deleting one map or scenario', () => {
     expect((await preview('scenarios', world.scenarios[2], world.owner)).status).toBe(200);
   });
 
+  it('previews a whole set\'s deletion: its maps, scenarios and everything over them', async () => {
+    const res = await preview('instance-sets', world.publicSet);
+    expect(res.status).toBe(200);
+    // The public set: one map, scenarios a and b, 4 results + 1 submitted plan, 3 runs of one sweep (set up above).
+    expect(await res.json()).toEqual({ kind: 'set', id: world.publicSet, name: 'Board public', maps: 1, scenarios: 2, runs: 3, results: 5, submissions: 1, sweeps: 1 });
+    expect((await preview('instance-sets', world.publicSet, world.other)).status).toBe(403);
+  });
+
   it('previews a scenario\'s deletion, and deleting removes exactly that', async () => {
     const [a] = world.scenarios;
     const res = await preview('scenarios', a);
     expect(res.status).toBe(200);
     const p = (await res.json()) as DeletionPreview;
-    expect(p).toEqual({ kind: 'scenario', id: a, name: 'tiny-a.scen', scenarios: 0, runs: 2, results: 3, submissions: 0, sweeps: 1 });
+    expect(p).toEqual({ kind: 'scenario', id: a, name: 'tiny-a.scen', maps: 0, scenarios: 0, runs: 2, results: 3, submissions: 0, sweeps: 1 });
     const before = await heldOver([a]);
     expect(before).toEqual({ scenarios: 1, runs: 2, results: 3, submissions: 0, executions: 3 });
 
@@ -141,7 +149,7 @@ describe('deleting one map or scenario', () => {
     const [{ id: mapId }] = await world.lib.sql<{ id: number }>('SELECT map_id AS id FROM scenarios WHERE id = :id', { id: b });
     const p = (await (await preview('maps', mapId)).json()) as DeletionPreview;
     // Left on the public map: scenario b with one run, one sweep result and one submitted plan.
-    expect(p).toEqual({ kind: 'map', id: mapId, name: 'tiny.map', scenarios: 1, runs: 1, results: 2, submissions: 1, sweeps: 1 });
+    expect(p).toEqual({ kind: 'map', id: mapId, name: 'tiny.map', maps: 0, scenarios: 1, runs: 1, results: 2, submissions: 1, sweeps: 1 });
     expect(await heldOver([b])).toEqual({ scenarios: 1, runs: 1, results: 2, submissions: 1, executions: 4 });
     expect((await world.owner.request(`/api/maps/${mapId}`, { method: 'DELETE' })).status).toBe(204);
     expect(await heldOver([b])).toEqual({ scenarios: 0, runs: 0, results: 0, submissions: 0, executions: 0 });

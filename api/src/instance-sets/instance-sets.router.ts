@@ -37,6 +37,10 @@ export function instanceSetsRouter(svc: InstanceSetsService, uploads: UploadGate
     res.status(204).end();
   });
 
+  r.get('/:id/deletion-preview', requireRole('researcher'), async (req, res) => {
+    res.json(await svc.deletionPreview(req.user ?? null, 'set', validate(IdParam, req.params).id));
+  });
+
   r.patch('/:id', requireRole('researcher'), async (req, res) => {
     const { id } = validate(IdParam, req.params);
     res.json(await svc.update(req.user ?? null, id, req.body));

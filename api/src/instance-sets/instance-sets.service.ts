@@ -49,8 +49,8 @@ export interface InstanceSetsService {
   remove(viewer: Viewer, id: number): Promise<void>;
   /** Renames a set or changes its description, visibility or source (owner, maintainers, admins). */
   update(viewer: Viewer, id: number, body: unknown): Promise<InstanceSetDetail>;
-  /** What deleting a map or scenario would take with it (only for those who may delete it). */
-  deletionPreview(viewer: Viewer, kind: 'map' | 'scenario', id: number): Promise<DeletionPreview>;
+  /** What deleting a set, map or scenario would take with it (only for those who may delete it). */
+  deletionPreview(viewer: Viewer, kind: DeletionPreview['kind'], id: number): Promise<DeletionPreview>;
   /** `signal` cancels the checks (the client went away); nothing is stored then. */
   upload(viewer: Viewer, id: number, files: readonly ReceivedFile[], signal?: AbortSignal): Promise<UploadResponse>;
   generate(viewer: Viewer, body: unknown): Promise<UploadResponse>;
@@ -322,15 +322,24 @@ export function createInstanceSetsService(deps: InstanceSetsServiceDeps): Instan
     },
 
     async deletionPreview(viewer, kind, id) {
-      const file = kind === 'map' ? await visibleMap(viewer, id, false) : await visibleScenario(viewer, id, false);
-      await manageableSet(viewer, file.instanceSetId);
-      const scenarioIds = kind === 'map'
-        ? (await ScenarioFile.findAll({ where: { mapId: id }, attributes: ['id'] })).map((c) => c.id)
-        : [id];
+      let name: string;
+      let maps = 0;
+      let scenarioIds: number[];
+      if (kind === 'set') {
+        const set = await manageableSet(viewer, id);
+        name = set.name;
+        maps = await MapFile.count({ where: { instanceSetId: id } });
+        scenarioIds = (await ScenarioFile.findAll({ where: { instanceSetId: id }, attributes: ['id'] })).map((c) => c.id);
+      } else {
+        const file = kind === 'map' ? await visibleMap(viewer, id, false) : await visibleScenario(viewer, id, false);
+        await manageableSet(viewer, file.instanceSetId);
+        name = file.name;
+        scenarioIds = kind === 'map' ? (await ScenarioFile.findAll({ where: { mapId: id }, attributes: ['id'] })).map((c) => c.id) : [id];
+      }
       const counts = scenarioIds.length === 0
         ? { runs: 0, results: 0, submissions: 0, sweeps: 0 }
-        : (await sequelize.query<Omit<DeletionPreview, 'kind' | 'id' | 'name' | 'scenarios'>>(PREVIEW_SQL, { type: QueryTypes.SELECT, replacements: { ids: scenarioIds } }))[0];
-      return { kind, id, name: file.name, scenarios: kind === 'map' ? scenarioIds.length : 0, ...counts };
+        : (await sequelize.query<Pick<DeletionPreview, 'runs' | 'results' | 'submissions' | 'sweeps'>>(PREVIEW_SQL, { type: QueryTypes.SELECT, replacements: { ids: scenarioIds } }))[0];
+      return { kind, id, name, maps, scenarios: kind === 'scenario' ? 0 : scenarioIds.length, ...counts };
     },
 
     async upload(viewer, id, files, signal) {

@@ -43,8 +43,8 @@ export class InstanceSetApi {
     return this.http.patch<InstanceSetDetail>(`/api/instance-sets/${id}`, body, { context: new HttpContext().set(IS_QUIET, true) });
   }
 
-  /** GET /api/maps|scenarios/:id/deletion-preview: what deleting the file takes with it. */
-  deletionPreview(kind: 'maps' | 'scenarios', id: number): Observable<DeletionPreview> {
+  /** GET /api/instance-sets|maps|scenarios/:id/deletion-preview: what deleting it takes with it. */
+  deletionPreview(kind: 'instance-sets' | 'maps' | 'scenarios', id: number): Observable<DeletionPreview> {
     return this.http.get<DeletionPreview>(`/api/${kind}/${id}/deletion-preview`);
   }
 

@@ -157,7 +157,7 @@ describe('InstanceSetDetailPage', () => {
     it('says what goes with a scenario, and deletes it only after the confirmation', async () => {
       await press('[aria-label="Delete scenario quay-1.scen"]');
       const root = TestbedHarnessEnvironment.documentRootLoader(fixture);
-      const preview: DeletionPreview = { kind: 'scenario', id: 21, name: 'quay-1.scen', scenarios: 0, runs: 4, results: 3, submissions: 1, sweeps: 1 };
+      const preview: DeletionPreview = { kind: 'scenario', id: 21, name: 'quay-1.scen', maps: 0, scenarios: 0, runs: 4, results: 3, submissions: 1, sweeps: 1 };
       backend.expectOne({ method: 'GET', url: '/api/scenarios/21/deletion-preview' }).flush(preview);
       await fixture.whenStable();
       const dialog = await root.getHarness(MatDialogHarness);
@@ -178,9 +178,25 @@ describe('InstanceSetDetailPage', () => {
       expect((fixture.nativeElement as HTMLElement).querySelector('[role=status]')?.textContent).toContain('Deleted scenario quay-1.scen.');
     });
 
+    it('says what goes with the whole set before deleting it', async () => {
+      await press('.danger button');
+      backend.expectOne('/api/instance-sets/5/deletion-preview').flush({
+        kind: 'set', id: 5, name: 'Gull Quay depot', maps: 1, scenarios: 1, runs: 0, results: 2, submissions: 0, sweeps: 0,
+      } satisfies DeletionPreview);
+      await fixture.whenStable();
+      const dialog = await TestbedHarnessEnvironment.documentRootLoader(fixture).getHarness(MatDialogHarness);
+      expect(await dialog.getTitleText()).toBe('Delete instance set “Gull Quay depot”?');
+      const items = [...document.querySelectorAll('mat-dialog-container [aria-label="Deleted with it"] li')].map((li) => li.textContent?.trim());
+      expect(items).toEqual(['its 1 map', 'its 1 scenario', '2 stored results, with their execution replays and leaderboard entries']);
+      await (await dialog.getHarness(MatButtonHarness.with({ text: 'Delete instance set' }))).click();
+      await settle();
+      backend.expectOne({ method: 'DELETE', url: '/api/instance-sets/5' }).flush(null, { status: 204, statusText: 'No Content' });
+      await settle();
+    });
+
     it('deletes nothing when the person keeps the map', async () => {
       await press('[aria-label="Delete map quay.map"]');
-      backend.expectOne('/api/maps/11/deletion-preview').flush({ kind: 'map', id: 11, name: 'quay.map', scenarios: 1, runs: 0, results: 0, submissions: 0, sweeps: 0 } satisfies DeletionPreview);
+      backend.expectOne('/api/maps/11/deletion-preview').flush({ kind: 'map', id: 11, name: 'quay.map', maps: 0, scenarios: 1, runs: 0, results: 0, submissions: 0, sweeps: 0 } satisfies DeletionPreview);
       await fixture.whenStable();
       const dialog = await TestbedHarnessEnvironment.documentRootLoader(fixture).getHarness(MatDialogHarness);
       expect(document.querySelector('mat-dialog-container [aria-label="Deleted with it"]')?.textContent?.trim()).toBe('its 1 scenario');

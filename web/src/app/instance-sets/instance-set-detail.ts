@@ -16,7 +16,7 @@ import { Router, RouterLink } from '@angular/router';
 import { catchError, combineLatest, firstValueFrom, forkJoin, map, of, switchMap } from 'rxjs';
 import type { InstanceSetDetail, MapDetail, UploadResponse } from '@shared/instance-sets';
 import { MapThumbnail } from '../maps/map-thumbnail';
-import { FileDeletionDialog, type FileDeletionTarget } from './file-deletion-dialog';
+import { DeletionDialog, type DeletionTarget } from './deletion-dialog';
 import { FileDropZone } from './file-drop-zone';
 import { GeneratorForm } from './generator-form';
 import { InstanceSetApi } from './instance-set-api';
@@ -99,8 +99,9 @@ export default class InstanceSetDetailPage {
   }
 
   /** Asks (saying what goes with it), then deletes one map or scenario and reloads the set. */
-  protected removeFile(target: FileDeletionTarget): void {
-    this.dialog.open<FileDeletionDialog, FileDeletionTarget, boolean>(FileDeletionDialog, { data: target })
+  protected removeFile(kind: 'maps' | 'scenarios', id: number, name: string): void {
+    const target = { kind, id, name };
+    this.dialog.open<DeletionDialog, DeletionTarget, boolean>(DeletionDialog, { data: target })
       .afterClosed().pipe(takeUntilDestroyed(this.destroyRef)).subscribe(async (confirmed) => {
         if (!confirmed) return;
         try {
@@ -113,11 +114,18 @@ export default class InstanceSetDetailPage {
       });
   }
 
-  /** Deletes the set after the user confirms, then returns to the table. */
-  protected async deleteSet(set: InstanceSetDetail): Promise<void> {
-    if (!window.confirm(`Delete "${set.name}" with its ${set.mapCount} maps and ${set.scenarioCount} scenarios? This cannot be undone.`)) return;
-    await firstValueFrom(this.api.remove(set.id));
-    await this.router.navigate(['/instance-sets']);
+  /** Asks (saying what goes with it), then deletes the set and returns to the table. */
+  protected deleteSet(set: InstanceSetDetail): void {
+    this.dialog.open<DeletionDialog, DeletionTarget, boolean>(DeletionDialog, { data: { kind: 'instance-sets', id: set.id, name: set.name } })
+      .afterClosed().pipe(takeUntilDestroyed(this.destroyRef)).subscribe(async (confirmed) => {
+        if (!confirmed) return;
+        try {
+          await firstValueFrom(this.api.remove(set.id));
+          await this.router.navigate(['/instance-sets']);
+        } catch {
+          // The error interceptor has said why; the set stays on screen.
+        }
+      });
   }
 
   protected downloadUrl(kind: 'maps' | 'scenarios', id: number): string {

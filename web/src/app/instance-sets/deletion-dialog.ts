@@ -1,7 +1,7 @@
 /**
- * Asks before a map or scenario is deleted, saying what goes with it (its scenarios, the results
- * and submitted plans over them, sweep runs). Closes with true when the person confirms; the page
- * deletes.
+ * Asks before an instance set, map or scenario is deleted, saying what goes with it (its maps and
+ * scenarios, the results and submitted plans over them, sweep runs). Closes with true when the
+ * person confirms; the page deletes.
  */
 import { ChangeDetectionStrategy, Component, inject } from '@angular/core';
 import { rxResource } from '@angular/core/rxjs-interop';
@@ -12,15 +12,15 @@ import { deletionConsequences } from './deletion-consequences';
 import { InstanceSetApi } from './instance-set-api';
 
 /** Which file the dialog asks about. */
-export interface FileDeletionTarget {
-  readonly kind: 'maps' | 'scenarios';
+export interface DeletionTarget {
+  readonly kind: 'instance-sets' | 'maps' | 'scenarios';
   readonly id: number;
   readonly name: string;
 }
 
 /** The confirmation dialog; `afterClosed()` gives true to delete. */
 @Component({
-  selector: 'app-file-deletion-dialog',
+  selector: 'app-deletion-dialog',
   template: `
     <h2 mat-dialog-title>Delete {{ noun }} “{{ target.name }}”?</h2>
     <mat-dialog-content>
@@ -31,7 +31,7 @@ export interface FileDeletionTarget {
             @for (line of consequences(); track line) { <li>{{ line }}</li> }
           </ul>
         } @else {
-          <p>Nothing else goes with it: no {{ p.kind === 'map' ? 'scenario, ' : '' }}result, submitted plan or sweep run uses it.</p>
+          <p>Nothing else goes with it: no {{ p.kind === 'scenario' ? '' : 'map, scenario, ' }}result, submitted plan or sweep run uses it.</p>
         }
         <p><strong>This cannot be undone.</strong></p>
       } @else if (preview.error()) {
@@ -49,10 +49,10 @@ export interface FileDeletionTarget {
   imports: [MatDialogModule, MatButtonModule, MatProgressBarModule],
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
-export class FileDeletionDialog {
+export class DeletionDialog {
   private readonly api = inject(InstanceSetApi);
-  protected readonly target = inject<FileDeletionTarget>(MAT_DIALOG_DATA);
-  protected readonly noun = this.target.kind === 'maps' ? 'map' : 'scenario';
+  protected readonly target = inject<DeletionTarget>(MAT_DIALOG_DATA);
+  protected readonly noun = { 'instance-sets': 'instance set', maps: 'map', scenarios: 'scenario' }[this.target.kind];
   protected readonly preview = rxResource({ stream: () => this.api.deletionPreview(this.target.kind, this.target.id) });
   protected consequences(): string[] {
     const p = this.preview.value();
