@@ -91,8 +91,9 @@ describe('executions API', () => {
     it('simulates the requested batch: nose-to-tail following is safe at nominal times', () => {
       expect(view.summary).toMatchObject({ policy: 'open-loop', runs: 20, seed: 7, successRate: 1, collisions: { total: 0 } });
       expect(view.summary.noise).toEqual({ jitterCv: 0, stallProbability: 0, stallMs: 0 });
-      expect(view.summary.realisedMakespanMs).toEqual({ mean: 7000, p95: 7000 });
-      expect(view.summary.finishSpreadMs).toEqual({ mean: 0, p95: 0 });
+      // Zero noise: every run alike, so the t interval of the mean has width 0; 20 runs are too few for a p95 interval (≥ 72).
+      expect(view.summary.realisedMakespanMs).toEqual({ mean: 7000, p95: 7000, count: 20, meanCi95: [7000, 7000], p95Ci95: null });
+      expect(view.summary.finishSpreadMs).toEqual({ mean: 0, p95: 0, count: 20, meanCi95: [0, 0], p95Ci95: null });
       expect(view.summary.perRun).toHaveLength(20);
     });
 
