@@ -168,9 +168,12 @@ export const REPORT_TABLE_HEADERS: readonly string[] = [
 export function reportTableRows(report: Pick<ModelComparisonReport, 'variants'>): string[][] {
   return report.variants.map((v) => [
     v.label,
-    v.solvedRate === null ? '–' : `${percent(v.solvedRate)}${ci(v.solvedCi95, percent)} (${v.solved}/${v.instances})`,
+    v.solvedRate === null ? '–' : `${percent(v.solvedRate)}${ci(v.solvedCi95, percent)} (${v.solved} of ${v.instances})`,
     v.executableRate === null ? 'not checked' : `${percent(v.executableRate)}${ci(v.executableCi95, percent)} (${v.nominalExecutable} of ${v.nominalChecked})`,
-    v.executionSuccessRate === null ? '–' : `${percent(v.executionSuccessRate)}${ci(v.executionSuccessCi95, percent)} (${v.executedInstances} instances, ${v.runs} runs)`,
+    v.executionSuccessRate === null ? '–' : v.executionSuccessCi95 !== null && v.executionSuccessCi95[0] === v.executionSuccessCi95[1]
+      // A constant rate over instances: a zero-width t interval says nothing, so none is shown.
+      ? `${percent(v.executionSuccessRate)} on each instance (${v.executedInstances} instances, ${v.runs} runs)`
+      : `${percent(v.executionSuccessRate)}${ci(v.executionSuccessCi95, percent)} (${v.executedInstances} instances, ${v.runs} runs)`,
     v.isReference ? '1 (reference)' : v.makespanVsClassic.ratio === null ? '–'
       : `${v.makespanVsClassic.ratio.toFixed(3)}${ci(v.makespanVsClassic.ci95, (x) => x.toFixed(3))} (${v.makespanVsClassic.pairs} pairs)`,
     v.finishSpreadMs.mean === null ? '–' : `${v.finishSpreadMs.mean.toFixed(0)}${ci(v.finishSpreadMs.ci95, (x) => x.toFixed(0))}`,

@@ -15,6 +15,7 @@ import type { PlanPool } from '../workers/plan-pool';
 import { createTestDatabase, type TestDatabase } from '../../../test/support/test-database';
 import { createReportsService } from './reports.service';
 import { reportToMarkdown } from './report-export';
+import { clearlyBelow } from './report-summary';
 import { DEMO_ROBOT_PROFILE } from '../demo/seed-demo-results';
 import type { Sequelize } from 'sequelize';
 
@@ -60,5 +61,19 @@ describe('model comparison report on the demo set', () => {
     }
     expect(report.summary.filter((s) => s.startsWith(`Which plan model for these robots under ${policy}: `))).toHaveLength(1);
     expect(reportToMarkdown(report)).toContain('Simulation is no safety assessment');
+    // Every variant solved and replayed all 8 instances, so all are compared on the 8.
+    expect(report.comparison?.instances).toBe(8);
+    expect(report.comparison?.variants).toHaveLength(report.variants.length);
+    // Intervals that overlap never yield a winner; the demo's 8 instances give wide ones.
+    const cmp = report.comparison!;
+    const best = [...cmp.variants].sort((a, b) => b.success - a.success)[0];
+    const leading = cmp.variants.filter((v) => v === best || !clearlyBelow(v.successCi95!, best.successCi95!));
+    const choice = report.summary.find((s) => s.startsWith(`Which plan model for these robots under ${policy}: `))!;
+    if (leading.length > 1) expect(choice).not.toContain('has the highest');
+    // The leading variants seen colliding at nominal times are named as such.
+    const colliding = report.variants.filter((v) => v.nominalChecked > v.nominalExecutable && leading.some((l) => l.label === v.label));
+    expect(colliding.length).toBeGreaterThan(0); // demo robots of 760 mm on a 1000 mm pitch exceed pitch/√2, so classic's right-angle following collides at nominal times
+    const setAside = /of these, (.*) collided at nominal times/.exec(choice)?.[1] ?? '';
+    for (const v of colliding) expect(setAside).toContain(v.label);
   });
 });

@@ -1,6 +1,6 @@
 /** The generated sentences on hand-made figures: each branch of the "which plan model" sentence, the per-variant clauses, the prediction wording and percentages. */
 import type { CommonInstanceComparison, CommonInstanceFigures, VariantFigures } from '@shared/reports';
-import { MIXED_SETTINGS_NOTE } from '@shared/reports';
+import { MIXED_SETTINGS_NOTE, reportTableRows } from '@shared/reports';
 import { clearlyBelow, overlaps, pct, summarise } from './report-summary';
 
 const base: VariantFigures = {
@@ -111,7 +111,7 @@ describe('report sentences', () => {
       + 'execution success 90 % [80 %, 99 %] (mean over 8 executed instances, 160 runs), collisions in 2 of 8 executed instances, failed runs without collision (deadlocks) in 1 of 8 executed instances; '
       + "realised makespan 0.900 times classic's on 4 paired instances, too few to tell whether it is sooner or later (an order needs at least 5 paired instances and a spread between them).");
     expect(all).toContain('Classic: solved 20 of 20 instances (100 % [84 %, 100 %]); executable at nominal times in all 20 checked solved instances (executable-at-nominal rate 100 % [84 %, 100 %]); '
-      + 'execution success 100 % [100 %, 100 %] (mean over 20 executed instances, 400 runs); reference for realised makespan.');
+      + 'execution success 100 % on each of the 20 executed instances (400 runs; no spread between instances, so no interval); reference for realised makespan.');
   });
 
   it('judges the planned cost on the interval, not on ρ alone', () => {
@@ -125,6 +125,14 @@ describe('report sentences', () => {
     expect(all).toContain('shows no clear link for k-robust (k=1) (ρ = 0.50 [-0.40, 0.90], n = 6, the interval includes 0)');
     // 20 executed instances each: no small-sample warning.
     expect(all).not.toContain('Small samples');
+  });
+
+  it('shows no interval in the table for a rate constant over instances, and the executable-at-nominal rate with its Wilson interval', () => {
+    const [classic, orientation] = reportTableRows({ variants: [base, v('orientation-split', {
+      nominalChecked: 8, nominalExecutable: 7, executableRate: 7 / 8, executableCi95: [0.529, 0.978], executionSuccessRate: 0.9, executionSuccessCi95: [0.8, 0.99] })] });
+    expect(classic[3]).toBe('100.0 % on each instance (20 instances, 400 runs)');
+    expect(orientation[2]).toBe('87.5 % [52.9 %, 97.8 %] (7 of 8)');
+    expect(orientation[3]).toBe('90.0 % [80.0 %, 99.0 %] (20 instances, 400 runs)');
   });
 
   it('formats percentages and compares intervals', () => {

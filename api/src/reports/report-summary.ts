@@ -46,9 +46,13 @@ function nominalClause(v: VariantFigures): string {
 function successClause(v: VariantFigures): string {
   if (v.runs === 0 || v.executionSuccessRate === null) return 'not executed under this policy';
   const n = v.executedInstances;
-  const figure = v.executionSuccessCi95 === null
+  const ci = v.executionSuccessCi95;
+  // A constant rate over instances gives a zero-width t interval: shown as such, not as [x, x].
+  const figure = ci === null
     ? `execution success ${pct(v.executionSuccessRate)} on ${n} executed instance (${v.runs} runs; too few instances for an interval)`
-    : `execution success ${pct(v.executionSuccessRate)} ${pctInterval(v.executionSuccessCi95)} (mean over ${n} executed instances, ${v.runs} runs)`;
+    : ci[0] === ci[1]
+      ? `execution success ${pct(v.executionSuccessRate)} on each of the ${n} executed instances (${v.runs} runs; no spread between instances, so no interval)`
+      : `execution success ${pct(v.executionSuccessRate)} ${pctInterval(ci)} (mean over ${n} executed instances, ${v.runs} runs)`;
   const collided = v.instancesWithCollisions > 0 ? `, collisions in ${v.instancesWithCollisions} of ${n} executed instances` : '';
   const deadlocked = v.instancesWithFailuresWithoutCollision > 0
     ? `, failed runs without collision (deadlocks) in ${v.instancesWithFailuresWithoutCollision} of ${n} executed instances` : '';
@@ -88,7 +92,8 @@ function topBySuccess(compared: readonly CommonInstanceFigures[]): CommonInstanc
   return compared.filter((v) => v === best || !clearlyBelow(v.successCi95!, best.successCi95!));
 }
 
-const successFigure = (v: CommonInstanceFigures): string => `${v.label} (${pct(v.success)} ${pctInterval(v.successCi95!)})`;
+const successFigure = (v: CommonInstanceFigures): string =>
+  `${v.label} (${pct(v.success)} ${v.successCi95![0] === v.successCi95![1] ? 'on each instance' : pctInterval(v.successCi95!)})`;
 
 /**
  * The sentence that answers "which plan model for these robots", as far as the intervals allow.

@@ -203,13 +203,13 @@ describe('GET /api/reports/model-comparison', () => {
     const soonerHi = Math.round((1 - weighted.ci95![0]) * 100);
     const sooner = Math.round((1 - weighted.ratio!) * 100);
     expect(text).toContain('Weighted-split: solved 6 of 6 instances (100 % [61 %, 100 %]); executable at nominal times in all 6 checked solved instances (executable-at-nominal rate 100 % [61 %, 100 %]); '
-      + `execution success 100 % [100 %, 100 %] (mean over 6 executed instances, 120 runs); finished ${sooner} % [${soonerLo} %, ${soonerHi} %] sooner than classic (6 paired instances).`);
+      + `execution success 100 % on each of the 6 executed instances (120 runs; no spread between instances, so no interval); finished ${sooner} % [${soonerLo} %, ${soonerHi} %] sooner than classic (6 paired instances).`);
     // Wilson over 5 instances for 3 executable plans: [23 %, 88 %]; the success interval is Student t over the 5 instances (84 %), cut at 100 %.
     expect(text).toContain('Orientation-split: solved 5 of 6 instances (83 % [44 %, 97 %]); collided at nominal times in 2 of 5 checked solved instances (executable-at-nominal rate 60 % [23 %, 88 %]); '
       + 'execution success 94 % [84 %, 100 %] (mean over 5 executed instances, 100 runs), collisions in 1 of 5 executed instances, '
       + 'failed runs without collision (deadlocks) in 1 of 5 executed instances; realised makespan not distinguishable from classic');
     expect(text).toContain('Classic (following forbidden): solved 2 of 2 instances (100 % [34 %, 100 %]); executability at nominal times not checked; '
-      + 'execution success 100 % [100 %, 100 %] (mean over 2 executed instances, 40 runs); realised makespan');
+      + 'execution success 100 % on each of the 2 executed instances (40 runs; no spread between instances, so no interval); realised makespan');
     expect(text).toContain("too few to tell whether it is sooner or later (an order needs at least 5 paired instances and a spread between them).");
     // Classic with following forbidden ran on 2 instances only: every variant is compared on those 2, too few for an order.
     expect(r.comparison?.instances).toBe(2);
@@ -273,7 +273,7 @@ describe('GET /api/reports/model-comparison', () => {
     expect(r.comparison!.variants[0].successCi95).toEqual([0.5, 0.5]);
     const lo = Math.round(t[0] * 100);
     expect(r.summary).toContain(`Which plan model for these robots under lockstep: on the 6 instances every executed variant solved and replayed, weighted-split (97 % [${lo} %, 100 %]) `
-      + "has the highest mean execution success rate, its interval clear of every other variant's (classic (50 % [50 %, 50 %])).");
+      + "has the highest mean execution success rate, its interval clear of every other variant's (classic (50 % on each instance)).");
   });
 
   it('does not rank replays made with different noise settings, and says so', async () => {

@@ -4,7 +4,7 @@ import { TestBed } from '@angular/core/testing';
 import { provideRouter, Router, withComponentInputBinding } from '@angular/router';
 import { RouterTestingHarness } from '@angular/router/testing';
 import { By } from '@angular/platform-browser';
-import type { ModelComparisonReport, ReportChoices, VariantFigures } from '@shared/reports';
+import { MIXED_SETTINGS_NOTE, type ModelComparisonReport, type ReportChoices, type VariantFigures } from '@shared/reports';
 import { SAFETY_NOTE } from '@shared/executions-constants';
 import ModelComparisonPage from './model-comparison-page';
 
@@ -19,7 +19,7 @@ const CHOICES: ReportChoices = {
 const variant = (label: string, over: Partial<VariantFigures>): VariantFigures => ({
   model: 'classic', variant: '', label, isReference: false, instances: 8, solved: 8, solvedRate: 1, solvedCi95: [0.676, 1],
   nominalChecked: 8, nominalExecutable: 8, executableRate: 1, executableCi95: [0.676, 1], executedInstances: 8, runs: 160, successfulRuns: 160,
-  executionSuccessRate: 1, executionSuccessCi95: [0.977, 1], instancesWithCollisions: 0, realisedMakespanMeanMs: 12000,
+  executionSuccessRate: 1, executionSuccessCi95: [0.977, 1], instancesWithCollisions: 0, instancesWithFailuresWithoutCollision: 0, realisedMakespanMeanMs: 12000,
   makespanVsClassic: { pairs: 8, ratio: 0.88, ci95: [0.85, 0.91] }, finishSpreadMs: { n: 8, mean: 2100, ci95: [1500, 2700] },
   plannedVsRealised: { n: 8, rho: 0.93, ci95: [0.62, 0.99] }, ...over,
 });
@@ -32,8 +32,9 @@ const REPORT: ModelComparisonReport = {
   executionSettings: ['20 runs, timing jitter CV 0.1, no stalls'],
   variants: [
     variant('classic', { isReference: true, makespanVsClassic: { pairs: 8, ratio: 1, ci95: null } }),
-    variant('weighted-split', { model: 'weighted-split' }),
+    variant('weighted-split', { model: 'weighted-split', nominalExecutable: 7, executableRate: 7 / 8, executableCi95: [0.529, 0.978] }),
   ],
+  comparison: null,
   summary: ['First sentence from the server.', 'Weighted-split: finished 12 % [9 %, 15 %] sooner than classic.'],
   methods: ['Method one.'],
   safetyNote: SAFETY_NOTE,
@@ -99,11 +100,15 @@ describe('ModelComparisonPage', () => {
     expect(rows).toHaveLength(2);
     expect(rows[0][0]).toBe('classic');
     expect(rows[0][4]).toBe('1 (reference)');
-    expect(rows[1]).toEqual(['weighted-split', '100.0 % [67.6 %, 100.0 %] (8/8)', '8/8', '100.0 % [97.7 %, 100.0 %] (160 runs)',
+    expect(headers).toContain('Executable at nominal times (% of checked solved instances, 95 % CI)');
+    expect(headers).toContain('Execution success rate (mean over executed instances, %, 95 % CI)');
+    expect(rows[1]).toEqual(['weighted-split', '100.0 % [67.6 %, 100.0 %] (8 of 8)', '87.5 % [52.9 %, 97.8 %] (7 of 8)', '100.0 % [97.7 %, 100.0 %] (8 instances, 160 runs)',
       '0.880 [0.850, 0.910] (8 pairs)', '2100 [1500, 2700]', '0.93 [0.62, 0.99] (n = 8)']);
     expect(el.querySelector('.methods li')?.textContent).toBe('Method one.');
     expect(el.querySelector('.safety')?.textContent).toBe(SAFETY_NOTE);
     expect(el.querySelector('.settings')?.textContent).toContain('20 runs, timing jitter CV 0.1, no stalls');
+    // One replay setting: nothing about mixed settings.
+    expect(el.querySelector('.mixed-settings')).toBeNull();
     const links = [...el.querySelectorAll<HTMLAnchorElement>('.exports a')].map((a) => a.getAttribute('href'));
     expect(links).toEqual([
       '/api/reports/model-comparison?set=4&profile=aaaaaaaaaaaaaaaa&policy=dependency-gated&format=markdown',
@@ -133,6 +138,15 @@ describe('ModelComparisonPage', () => {
     const third = backend.expectOne((r) => r.url === '/api/reports/model-comparison');
     expect([third.request.params.get('set'), third.request.params.get('profile')]).toEqual(['9', 'cccccccccccccccc']);
     third.flush(REPORT);
+  });
+
+  it('says the variants are not ranked when the replays were made with different settings', async () => {
+    const el = await open('/reports?set=4');
+    const mixed = ['20 runs, timing jitter CV 0.1, no stalls', '50 runs, timing jitter CV 0.2, no stalls'];
+    backend.expectOne((r) => r.url === '/api/reports/model-comparison').flush({ ...REPORT, executionSettings: mixed });
+    await settle();
+    expect(el.querySelector('.settings')?.textContent).toContain(mixed.join('; '));
+    expect(el.querySelector('.mixed-settings')?.textContent).toBe(MIXED_SETTINGS_NOTE);
   });
 
   it("shows the server's sentence when the report is refused", async () => {
