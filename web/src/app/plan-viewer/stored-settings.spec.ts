@@ -37,10 +37,18 @@ describe('stored settings', () => {
 
   it('compares the stored figures to the digit and names the ones that differ', () => {
     const same = { ...figures, policy: 'open-loop' } as unknown as ExecutionSummaryView;
-    expect(storedFigureMismatches(stored.executions[0], same)).toEqual({ compared: 7, mismatches: [] });
+    expect(storedFigureMismatches(stored.executions[0], same)).toEqual({ compared: 7, mismatches: [], lastBits: 0 });
     const off = { ...same, realisedMakespanMs: metric(44_200, 52_100), finishSpreadMs: metric(7200, 12_000) } as unknown as ExecutionSummaryView;
     expect(storedFigureMismatches(stored.executions[0], off).mismatches).toEqual([
       'realised makespan (mean): stored 47.7 s, replayed 44.2 s', 'finish spread (mean): stored 9.8 s, replayed 7.2 s',
     ]);
+    // A browser replay's last-bit difference is equal within the tolerance, and counted; a real difference is not hidden.
+    const spread = (figures as unknown as { finishSpreadMs: { mean: number; p95: number } }).finishSpreadMs;
+    const lastBit = { ...same, finishSpreadMs: { ...spread, mean: spread.mean * (1 + 1e-13) } } as unknown as ExecutionSummaryView;
+    expect(spread.mean * (1 + 1e-13)).not.toBe(spread.mean);
+    expect(storedFigureMismatches(stored.executions[0], lastBit, 1e-9)).toEqual({ compared: 7, mismatches: [], lastBits: 1 });
+    // Without a tolerance (server replays) it is a difference.
+    expect(storedFigureMismatches(stored.executions[0], lastBit)).toMatchObject({ mismatches: ['finish spread (mean): stored 9.8 s, replayed 9.8 s'], lastBits: 0 });
+    expect(storedFigureMismatches(stored.executions[0], off, 1e-9).mismatches).toHaveLength(2);
   });
 });

@@ -61,9 +61,15 @@ export function storedOfPolicy(stored: StoredResultExecutionsView, policy: Execu
 /**
  * The stored figures a replay with the stored settings must reproduce, compared to the digit;
  * returns the ones that differ ("realised makespan p95: stored 47.7 s, replayed 44.2 s").
- * Counts how many were compared so a caller can say it.
+ * Counts how many were compared so a caller can say it. With a relative `tolerance` (browser
+ * replays), figures that differ by no more than it count as equal and are counted in `lastBits`:
+ * the same code in another JavaScript engine may round the last bits of a sum differently.
  */
-export function storedFigureMismatches(stored: StoredPolicyExecution, replay: ExecutionSummaryView): { compared: number; mismatches: string[] } {
+export function storedFigureMismatches(
+  stored: StoredPolicyExecution,
+  replay: ExecutionSummaryView,
+  tolerance = 0,
+): { compared: number; mismatches: string[]; lastBits: number } {
   const f = stored.figures;
   const pairs: [string, number | null, number | null, (v: number | null) => string][] = [
     ['execution success rate', f.successRate, replay.successRate, (v) => (v === null ? '–' : formatPercent(v))],
@@ -74,10 +80,12 @@ export function storedFigureMismatches(stored: StoredPolicyExecution, replay: Ex
     ['finish spread (p95)', f.finishSpreadMs.p95, replay.finishSpreadMs.p95, formatSeconds],
     ['waiting, total over robots (mean)', f.waitingMs.mean, replay.waitingMs.mean, formatSeconds],
   ];
-  const mismatches = pairs
-    .filter(([, a, b]) => a !== b)
+  const isClose = (a: number | null, b: number | null) => a !== null && b !== null && Math.abs(a - b) <= tolerance * Math.max(Math.abs(a), Math.abs(b));
+  const differing = pairs.filter(([, a, b]) => a !== b);
+  const mismatches = differing
+    .filter(([, a, b]) => !isClose(a, b))
     .map(([label, a, b, fmt]) => `${label}: stored ${fmt(a)}, replayed ${fmt(b)}`);
-  return { compared: pairs.length, mismatches };
+  return { compared: pairs.length, mismatches, lastBits: differing.length - mismatches.length };
 }
 
 /** One line of the stored figures of a policy, for the what-if banner. */

@@ -22,6 +22,13 @@ import { settingsDifferences, settingsOfSummary, storedFigureMismatches, storedO
  */
 export type PaneExecution = ResultPlanView & Partial<Pick<ExecutionView, 'id' | 'computedBy'>>;
 
+/**
+ * Relative difference up to which a browser replay's figure equals the stored one: the sweep ran
+ * the same simulator in Node, but another engine's maths may differ in the last bits (seen in
+ * Chromium on a finish-spread mean, invisible at the shown digits); 1e-9 is far below any shown digit.
+ */
+export const BROWSER_FIGURE_TOLERANCE = 1e-9;
+
 /** One model's column: the execution or result plan, the summary shown and the run drawn. */
 export interface ViewerPane {
   readonly execution: PaneExecution;
@@ -38,7 +45,8 @@ export interface ViewerPane {
   /** What the summary's settings change against the stored ones; empty: the stored settings (or nothing stored). */
   readonly whatIf: readonly string[];
   /** With the stored settings: how many stored figures were compared and which differ. */
-  readonly storedCheck: { readonly compared: number; readonly mismatches: readonly string[] } | null;
+  /** `lastBits`: figures equal only to BROWSER_FIGURE_TOLERANCE (a browser replay), not bit for bit. */
+  readonly storedCheck: { readonly compared: number; readonly mismatches: readonly string[]; readonly lastBits: number } | null;
   /** Who waited for whom in the drawn run, and the chain that set its realised makespan. */
   readonly attribution: RunAttribution | null;
   readonly hazard: FollowingHazard;
@@ -61,7 +69,7 @@ export function paneWith(base: PaneBase, summary: ExecutionSummaryView, computed
     finishes: track ? finishTimes(track) : [],
     stored: base.stored ?? null,
     whatIf,
-    storedCheck: storedReplay ? storedFigureMismatches(storedReplay, summary) : null,
+    storedCheck: storedReplay ? storedFigureMismatches(storedReplay, summary, computedIn === 'browser' ? BROWSER_FIGURE_TOLERANCE : 0) : null,
     attribution: attributionOf(base.instance, e, summary, shownRun),
     hazard: followingHazard(e.profile),
     followingRule: followingRuleText(e),
