@@ -42,6 +42,8 @@ export class PlanPicker {
   readonly openPlan = output<PlanChoice>();
   /** The execution the page shows first, if any: the form takes its instance, model and profile. */
   readonly shown = input<PaneExecution | null>(null);
+  /** Whether this account may have the server solve (researchers and up); visitors see the form but cannot submit it. */
+  readonly canSolve = input(true);
   protected readonly models = PLAN_MODELS;
   protected readonly headings = ['free', ...HEADINGS] as const;
   protected readonly maxSolveAgents = EXECUTION_LIMITS.maxSolveAgents;
@@ -101,7 +103,7 @@ export class PlanPicker {
   /** Emits the choice. */
   protected openChoice(): void {
     const v = this.form.getRawValue();
-    if (this.form.invalid || v.scenarioId === null) return;
+    if (this.form.invalid || v.scenarioId === null || !this.canSolve()) return;
     const models: PlanModel[] = [v.model];
     if (v.compare !== 'none' && v.compare !== v.model) models.push(v.compare);
     this.openPlan.emit({

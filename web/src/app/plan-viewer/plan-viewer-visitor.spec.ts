@@ -124,6 +124,7 @@ describe('PlanViewer for a visitor', () => {
     expect(await loader.getAllHarnesses(MatButtonHarness.with({ text: 'Re-run in browser' }))).toHaveLength(1);
     expect(el.querySelector('[data-testid="browser-only"]')?.textContent).toContain('needs a researcher account');
     expect(el.querySelector('[data-testid="visitor-note"]')?.textContent).toContain('sign in');
+    expect(await (await loader.getHarness(MatButtonHarness.with({ text: 'Solve and view' }))).isDisabled()).toBe(true);
   });
 
   it('switches to another stored policy in the browser, again with the stored figures', async () => {
