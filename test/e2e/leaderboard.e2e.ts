@@ -77,7 +77,8 @@ describe('leaderboard in the browser', () => {
   it('opens a shared link with its columns, sort and filter', async () => {
     await page.goto(`${server.url}/leaderboards?cols=model,variant,socSteps,source&model.in=k-robust`);
     await page.waitForFunction(() => document.querySelectorAll('.ag-row').length === 1);
-    expect(await page.locator('.ag-header-cell[col-id]').evaluateAll((els) => els.map((e) => e.getAttribute('col-id')))).toEqual(['model', 'variant', 'socSteps', 'source']);
+    // The pinned Replay column leads for everyone, visitors included (issue 14, item 6); then the shared columns in order.
+    expect(await page.locator('.ag-header-cell[col-id]').evaluateAll((els) => els.map((e) => e.getAttribute('col-id')))).toEqual(['__replay', 'model', 'variant', 'socSteps', 'source']);
     expect(await page.locator('.ag-cell[col-id=variant]').innerText()).toBe('k=1');
     expect(await page.locator('.ag-cell[col-id=source]').innerText()).toBe('submitted');
   });
