@@ -1,11 +1,12 @@
 /** The account corner of the bar: name, role, e-mail setting and sign-out. */
-import { ChangeDetectionStrategy, Component, inject, input } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, inject, input } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatDividerModule } from '@angular/material/divider';
 import { MatMenuModule } from '@angular/material/menu';
 import { MatSlideToggleModule, type MatSlideToggleChange } from '@angular/material/slide-toggle';
 import { Router } from '@angular/router';
 import type { Account, Role } from '@shared/auth';
+import { hasRole } from '@shared/auth-contract';
 import { Session } from './session';
 
 /** Menu button showing who is signed in, with the account's settings and sign-out. */
@@ -23,6 +24,12 @@ export class AccountMenu {
   readonly account = input.required<Account>();
   /** The account's role. */
   readonly role = input.required<Role>();
+  /** Who launches sweeps, so a researcher knows why there is no New sweep button and whom to ask. */
+  protected readonly sweepNote = computed(() =>
+    hasRole(this.role(), 'maintainer')
+      ? 'Your role launches sweeps on the shared workers.'
+      : 'Maintainers launch sweeps; an admin gives the maintainer role.',
+  );
 
   /** Sends the new e-mail setting; the error interceptor reports a refusal. */
   protected async changeEmailSetting(change: MatSlideToggleChange): Promise<void> {

@@ -22,7 +22,8 @@ import { SWEEP_STATUS_LABEL } from './sweep-status';
     </header>
     @if (sweeps(); as items) {
       @if (items.length === 0) {
-        <p class="empty">No sweeps yet.@if (canLaunch()) { Start one with <a routerLink="/sweeps/new">New sweep</a>.}</p>
+        <p class="empty">No sweeps yet.@if (canLaunch()) { Start one with <a routerLink="/sweeps/new">New sweep</a>.} @else if (isSignedIn()) {
+          Maintainers launch sweeps: ask one to run yours, or ask an admin for the maintainer role.}</p>
       } @else {
         <table mat-table [dataSource]="items" aria-label="Sweeps">
           <ng-container matColumnDef="name"><th mat-header-cell *matHeaderCellDef>Name</th>
@@ -64,4 +65,6 @@ export default class SweepList {
   }
   /** Whether the viewer may launch sweeps (maintainers and admins run the shared workers). */
   protected readonly canLaunch = computed(() => this.session.hasRole('maintainer'));
+  /** Whether someone is signed in (a researcher is told how to get a sweep run; a visitor is not). */
+  protected readonly isSignedIn = this.session.isSignedIn;
 }
