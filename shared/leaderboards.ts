@@ -362,6 +362,8 @@ export interface LeaderboardRow {
   readonly profileHash: string;
   /** Entries layout: the best result's id (for the plan viewer). */
   readonly resultId?: number;
+  /** Entries layout: whether that result holds a plan (solved); time-limit and failed rows have none to replay. */
+  readonly hasPlan?: boolean;
   /** Entries layout: whether the row's plan is collision-free at nominal times (null: not checked). */
   readonly isExecutableAtNominal?: boolean | null;
   /** Comparison layout: per plan model column id, whether its plan is collision-free at nominal times (null: not checked or no plan). */

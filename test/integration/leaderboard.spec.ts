@@ -208,6 +208,16 @@ describe('leaderboard over SQL', () => {
     expect(all.length).toBe(expected.filter((e) => e.best.status === 'solved' || e.best.status === 'memory').length);
   });
 
+  it('says which entry rows have a plan to replay, even when the status column is hidden (issue 14, item 10)', async () => {
+    const rows = await allPages(world.curator, 'cols=agents', 100);
+    const byId = new Map(expected.map((e) => [String(e.id), e]));
+    const compared = rows.map((r) => ({ hasPlan: r.hasPlan, solved: byId.get(r.id)?.best.status === 'solved' }));
+    expect(compared).toHaveLength(expected.length);
+    expect(compared.every((c) => c.hasPlan === c.solved)).toBe(true);
+    // Both kinds occur, so the check above compared rows with and without a plan.
+    expect(compared.some((c) => c.hasPlan) && compared.some((c) => !c.hasPlan)).toBe(true);
+  });
+
   it('shows private sets only to their owner and maintainers', async () => {
     const privateScenario = world.scenarios[2];
     const publicCount = expected.filter((e) => e.scenarioId !== privateScenario).length;

@@ -83,6 +83,7 @@ export function createLeaderboardsService(deps: { readonly sequelize: Sequelize;
         fillSuccessIntervals(cells, r);
         return {
           id: String(r['id']), scenarioId, agents, profileHash, resultId: Number(r['result_id']), cells,
+          hasPlan: r['__status'] === 'solved',
           isExecutableAtNominal: (r['__nominal'] as boolean | null) ?? null,
         };
       });

@@ -1,6 +1,7 @@
 /** Comparison rows mark the best plan model value the way exports bold it: never a plan that collides at nominal times, unless asked. */
 import { compareColumns, parseView, type LeaderboardPage } from '@shared/leaderboards';
 import { gridRows } from './grid-rows';
+import { replayColumn, type GridRow } from './leaderboard-columns';
 
 const columns = compareColumns('tiMakespanMs');
 const page: LeaderboardPage = {
@@ -35,5 +36,19 @@ describe('grid rows of a comparison page', () => {
   it('keeps entry rows as they are, with their result id', () => {
     const entries: LeaderboardPage = { ...page, rows: [{ id: '9', scenarioId: 1, agents: 3, profileHash: 'a', resultId: 42, cells: { model: 'classic' }, isExecutableAtNominal: false }] };
     expect(gridRows(entries, parseView({}))).toEqual([{ model: 'classic', __id: '9', __resultId: 42 }]);
+  });
+
+  it('offers Replay only on rows with a plan: a time-limit row gets no link (issue 14, item 10)', () => {
+    const row = { scenarioId: 1, agents: 3, profileHash: 'a', isExecutableAtNominal: null };
+    const entries: LeaderboardPage = { ...page, rows: [
+      { ...row, id: '9', resultId: 42, hasPlan: true, cells: { status: 'solved' } },
+      { ...row, id: '10', resultId: 43, hasPlan: false, cells: { status: 'timeout' } },
+    ] };
+    const rows = gridRows(entries, parseView({}));
+    const render = replayColumn().cellRenderer as (p: { data?: GridRow }) => HTMLElement | string;
+
+    expect(rows).toHaveLength(2);
+    expect((render({ data: rows[0] }) as HTMLAnchorElement).getAttribute('href')).toBe('/plans/view?result=42');
+    expect(render({ data: rows[1] })).toBe('');
   });
 });

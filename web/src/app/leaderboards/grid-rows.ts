@@ -9,7 +9,8 @@ import type { GridRow } from './leaderboard-columns';
  * nominal times, which are never best unless the view asks for all plans.
  */
 export function gridRows(page: LeaderboardPage, view: LeaderboardView): GridRow[] {
-  if (view.layout !== 'compare') return page.rows.map((r) => ({ ...r.cells, __id: r.id, __resultId: r.resultId }) as GridRow);
+  // A row without a plan (time limit, memory, error, infeasible) gets no result id, so no Replay link.
+  if (view.layout !== 'compare') return page.rows.map((r) => ({ ...r.cells, __id: r.id, __resultId: r.hasPlan === false ? undefined : r.resultId }) as GridRow);
   const colliding = page.rows.map((r) => Object.entries(r.isExecutableAtNominalByColumn ?? {}).filter(([, ok]) => ok === false).map(([id]) => id));
   const best = bestCells({
     caption: '', columns: page.columns, rows: page.rows.map((r) => page.columns.map((c) => r.cells[c.id] ?? null)),
