@@ -83,8 +83,11 @@ export class PlanPicker {
     const { instanceSetId, scenarioId } = e.source;
     if (scenarioId === undefined) return;
     const p = e.profile;
+    // The second model stays as chosen: solving a comparison shows its first plan here, and the
+    // picker must not forget the comparison it just asked for. Only a clash with the shown model clears it.
+    const compare = this.form.controls.compare.value === e.model ? 'none' : this.form.controls.compare.value;
     this.form.patchValue({
-      setId: instanceSetId, agents: e.instance.agents.length, model: e.model, compare: 'none', startHeading: e.modelOptions.startHeading,
+      setId: instanceSetId, agents: e.instance.agents.length, model: e.model, compare, startHeading: e.modelOptions.startHeading,
       forwardMs: p.forwardMs, quarterTurnMs: p.quarterTurnMs, waitMs: p.waitMs, cellPitchMm: p.cellPitchMm, robotDiameterMm: p.robotDiameterMm,
     });
     this.api.get(instanceSetId).pipe(catchError(() => of(null))).subscribe((detail) => {
