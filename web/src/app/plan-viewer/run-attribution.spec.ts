@@ -41,6 +41,19 @@ describe('runAttribution', () => {
     expect(runAttribution(attributed(none), 'dependency-gated').note).toMatch(/gating never held anyone/);
   });
 
+  it('leaves padding actions (robot already at its goal for good) out of the single waits, as the robot totals do', () => {
+    const action = (start: number, waitedMs: number, isPadding: boolean) =>
+      ({ start, end: start + 1000, waitedMs, waitedFor: 0, waitReason: 'barrier', isPadding });
+    const a = runAttribution(attributed({
+      robots: [[action(0, 0, false)], [action(1500, 500, false), action(4000, 2000, true), action(6000, 900, true)]],
+      waitByRobot: [{ robot: 0, waitedMs: 0, waitedFor: [] }, { robot: 1, waitedMs: 500, waitedFor: [{ robot: 0, ms: 500 }] }],
+      criticalChain: [{ robot: 1, fromMs: 0, toMs: 7000, reason: 'own', waitedFor: null }],
+    }), 'lockstep');
+    // Only the one non-padding wait is listed; the two longer padding waits are neither listed nor counted as left out.
+    expect(a.events).toEqual(['robot 2 waited 0.5 s for robot 1 (barrier), 1 s to 1.5 s']);
+    expect(a.moreEvents).toBe(0);
+  });
+
   it('on a real run: one sentence per robot that waited, naming whom, and a chain from 0 to the realised makespan', () => {
     // Nose-to-tail lane, dependency-gated with jitter 0.3 (run 0 of seed 1): followers are held by the robot ahead.
     const instance = testInstance('........', [[2, 7], [1, 6], [0, 5]]);

@@ -49,8 +49,10 @@ export function runAttribution(timeline: RunTimeline, policy: ExecutionPolicyNam
       if (own > 0.5) whom.push(`${formatSeconds(own)} for its planned start`);
       return `${robotName(w.robot)} waited ${formatSeconds(w.waitedMs)}${whom.length > 0 ? `: ${whom.join(', ')}` : ''}`;
     });
+  // Padding actions (after a robot reached its goal for good) are left out, as in the robot totals
+  // above: a robot held at its goal by a lockstep barrier is not waiting to get anywhere.
   const all = timeline.robots.flatMap((actions, robot) => actions
-    .filter((a) => a.waitedMs > 0 && Number.isFinite(a.start))
+    .filter((a) => !a.isPadding && a.waitedMs > 0 && Number.isFinite(a.start))
     .map((a) => ({ robot, a })));
   all.sort((x, y) => y.a.waitedMs - x.a.waitedMs || x.a.start - y.a.start);
   const events = all.slice(0, MAX_WAIT_EVENTS).map(({ robot, a }) => {
