@@ -36,6 +36,9 @@ import { filtersToGrid, withGridState, type GridFilter, type GridSort } from './
 // the columns' headerTooltip (without it AG Grid logs error #200 and drops the tooltip).
 ModuleRegistry.registerModules([InfiniteRowModelModule, TextFilterModule, NumberFilterModule, CellStyleModule, TooltipModule]);
 
+/** The k values the comparison layout offers for its k-robust column; a view may hold any k up to 20 (parseView). */
+const K_CHOICES: readonly number[] = [0, 1, 2, 3, 4, 5];
+
 /** Rows the grid asks for at a time. */
 const PAGE_ROWS = 100;
 
@@ -145,6 +148,14 @@ export default class LeaderboardBoard {
   protected chooseBestAmong(isExecutableOnly: boolean): void {
     const bestAmong: BestAmong = isExecutableOnly ? 'executable' : 'all';
     this.resetGrid({ ...this.view(), bestAmong });
+  }
+
+  /** The k values offered for the k-robust column (0–5, and a linked view's own k if larger). */
+  protected readonly kChoices = computed(() => [...new Set([...K_CHOICES, this.view().k])].sort((a, b) => a - b));
+
+  /** Which k-robust variant the comparison's k-robust column shows (the API joins that variant's entries). */
+  protected chooseK(k: number): void {
+    this.resetGrid({ ...this.view(), k });
   }
 
   protected chooseMetric(metric: CompareMetric): void {

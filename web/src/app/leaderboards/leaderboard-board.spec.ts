@@ -1,0 +1,69 @@
+import { CUSTOM_ELEMENTS_SCHEMA, signal } from '@angular/core';
+import { TestBed } from '@angular/core/testing';
+import { TestbedHarnessEnvironment } from '@angular/cdk/testing/testbed';
+import { MATERIAL_ANIMATIONS } from '@angular/material/core';
+import { MatSelectHarness } from '@angular/material/select/testing';
+import { ActivatedRoute, convertToParamMap, provideRouter, Router } from '@angular/router';
+import { AgGridAngular } from 'ag-grid-angular';
+import { Session } from '../core/session';
+import { LeaderboardApi } from './leaderboard-api';
+import LeaderboardBoard from './leaderboard-board';
+import LeaderboardCharts from './leaderboard-charts';
+import ModelSummaryPanel from './model-summary';
+
+// The charts pull in echarts (ES modules jest does not load); the board spec only needs a placeholder to remove.
+jest.mock('./leaderboard-charts', () => ({ __esModule: true, default: class ChartsPlaceholder {} }));
+
+describe('LeaderboardBoard, comparison layout', () => {
+  async function openCompare(query: Record<string, string>) {
+    const api: Partial<LeaderboardApi> = { exportUrl: (format, params) => `/api/exports/${format}?${new URLSearchParams(params).toString()}` };
+    TestBed.configureTestingModule({
+      imports: [LeaderboardBoard],
+      providers: [
+        provideRouter([]),
+        { provide: MATERIAL_ANIMATIONS, useValue: { animationsDisabled: true } },
+        { provide: LeaderboardApi, useValue: api },
+        { provide: Session, useValue: { role: signal('visitor') } },
+        { provide: ActivatedRoute, useValue: { snapshot: { queryParamMap: convertToParamMap(query) } } },
+      ],
+    });
+    // jsdom has no layout for the grid, and the summary and charts load their own data: this spec is about the controls.
+    TestBed.overrideComponent(LeaderboardBoard, { remove: { imports: [AgGridAngular, ModelSummaryPanel, LeaderboardCharts] }, add: { schemas: [CUSTOM_ELEMENTS_SCHEMA] } });
+    const navigate = jest.spyOn(TestBed.inject(Router), 'navigate').mockResolvedValue(true);
+    const fixture = TestBed.createComponent(LeaderboardBoard);
+    await fixture.whenStable();
+    const loader = TestbedHarnessEnvironment.loader(fixture);
+    return { fixture, loader, navigate };
+  }
+
+  const csvHref = (el: HTMLElement) => el.querySelector('[data-export="csv"]')?.getAttribute('href') ?? '';
+
+  it('lets the viewer choose the k of the k-robust column, and the view (URL, exports) carries it (issue 14, item 10)', async () => {
+    const { fixture, loader, navigate } = await openCompare({ layout: 'compare' });
+    const k = await loader.getHarness(MatSelectHarness.with({ ancestor: '[data-field="k"]' }));
+    expect(await k.getValueText()).toBe('k = 1');
+    expect(csvHref(fixture.nativeElement)).not.toContain('k=');
+
+    await k.open();
+    await k.clickOptions({ text: 'k = 2' });
+    await fixture.whenStable();
+
+    expect(await k.getValueText()).toBe('k = 2');
+    expect(csvHref(fixture.nativeElement)).toContain('k=2');
+    expect(navigate).toHaveBeenLastCalledWith([], expect.objectContaining({ queryParams: expect.objectContaining({ layout: 'compare', k: '2' }) }));
+  });
+
+  it("offers a linked view's own k even when it is not among the usual choices", async () => {
+    const { loader } = await openCompare({ layout: 'compare', k: '12' });
+    const k = await loader.getHarness(MatSelectHarness.with({ ancestor: '[data-field="k"]' }));
+
+    expect(await k.getValueText()).toBe('k = 12');
+    await k.open();
+    expect((await k.getOptions()).length).toBe(7);
+  });
+
+  it('shows no k choice in the entries layout', async () => {
+    const { fixture } = await openCompare({});
+    expect((fixture.nativeElement as HTMLElement).querySelector('[data-field="k"]')).toBeNull();
+  });
+});
