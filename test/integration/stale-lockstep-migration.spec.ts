@@ -1,11 +1,12 @@
 /**
  * Migration 0406 deletes exactly the lockstep replays of weighted-split results computed with the
- * superseded lockstep rule (metrics without "seed"), keeps every other execution row, and leaves
+ * superseded lockstep rule (metrics without "seed"), keeps every other execution row, marks the
+ * finish spread and waiting of seedless lockstep rows of other models "not stored" (null), and leaves
  * the leaderboard's derived tables equal to a from-scratch rebuild (compared as in
  * leaderboard-maintenance.spec.ts: the rebuild runs in a transaction that is rolled back).
  */
 import { Client } from 'pg';
-import * as staleLockstep from '../../api/src/db/migrations/0406-stale-lockstep-weighted-split';
+import * as staleLockstep from '../../api/src/db/migrations/0406-stale-lockstep-figures';
 import { createSequelize } from '../../api/src/db/sequelize';
 import { parameterHash } from '../../api/src/sweeps/parameter-hash';
 import { createTestDatabase, type TestDatabase } from '../support/test-database';
@@ -59,7 +60,13 @@ describe('migration 0406: stale lockstep replays of weighted-split results', () 
 
   /** One stored replay; `withSeed` = stored since e4f5ddf (metrics record the batch seed). */
   async function insertExecution(resultId: number, policy: string, withSeed: boolean, success: number): Promise<number> {
-    const metrics = withSeed ? { seed: 7, onCollision: 'count', successRateCi95: [0.5, 0.9] } : { collisions: { mean: 0.2, p95: 1, total: 4 } };
+    const figures = {
+      finishSpreadMs: { mean: 400, p95: 500, count: 20 }, waitingMs: { mean: 900, p95: 1200, count: 20 },
+      waitingPerRobotMs: { mean: { mean: 450, p95: 600, count: 20 }, max: { mean: 700, p95: 900, count: 20 } },
+    };
+    const metrics = withSeed
+      ? { seed: 7, onCollision: 'count', successRateCi95: [0.5, 0.9], ci95: { successRate: [0.5, 0.9], finishSpreadMs: [300, 500] }, ...figures }
+      : { collisions: { mean: 0.2, p95: 1, total: 4 }, ...figures };
     const [e] = await rows<{ id: number }>(
       `INSERT INTO executions (result_id, policy, noise, runs, success_rate, collisions_mean, realised_makespan_mean_ms,
          realised_makespan_p95_ms, finish_spread_mean_ms, metrics)
@@ -112,7 +119,7 @@ describe('migration 0406: stale lockstep replays of weighted-split results', () 
 
     const sequelize = createSequelize(db.url, { poolMax: 1 });
     try {
-      await staleLockstep.up({ context: sequelize.getQueryInterface(), name: '0406-stale-lockstep-weighted-split' } as Parameters<typeof staleLockstep.up>[0]);
+      await staleLockstep.up({ context: sequelize.getQueryInterface(), name: '0406-stale-lockstep-figures' } as Parameters<typeof staleLockstep.up>[0]);
     } finally {
       await sequelize.close();
     }
@@ -131,5 +138,35 @@ describe('migration 0406: stale lockstep replays of weighted-split results', () 
     expect(entryOf(after, classic)?.['success_lockstep']).toBe(0.6);
     expect(entryOf(after, orientation)?.['success_lockstep']).toBe(0.55);
     expect(after['compare'].find((r) => r['scenario_id'] === scenarios[0] && r['agents'] === 2)?.['weighted_split_success_lockstep']).toBeNull();
+
+    // Spread and waiting: nulled on the seedless lockstep rows of other models only; other figures kept.
+    const stored = async (id: number) => (await rows<{ spread: number | null; success: number; metrics: Record<string, unknown> }>(
+      'SELECT finish_spread_mean_ms AS spread, success_rate AS success, metrics FROM executions WHERE id = $1', [id]))[0];
+    const [openLoop, gated, lockstepNew, classicLockstep, orientationLockstep] = kept;
+    let nulled = 0;
+    for (const id of [classicLockstep, orientationLockstep]) {
+      const row = await stored(id);
+      expect(row.spread).toBeNull();
+      expect(row.metrics['finishSpreadMs']).toBeNull();
+      expect(row.metrics['waitingMs']).toBeNull();
+      expect(row.metrics['waitingPerRobotMs']).toBeNull();
+      expect(row.metrics['collisions']).toEqual({ mean: 0.2, p95: 1, total: 4 });
+      expect(row.success).toBeGreaterThan(0.5);
+      nulled++;
+    }
+    expect(nulled).toBe(2);
+    let untouched = 0;
+    for (const id of [openLoop, gated, lockstepNew]) {
+      const row = await stored(id);
+      expect(row.spread).toBe(400);
+      expect(row.metrics['finishSpreadMs']).toEqual({ mean: 400, p95: 500, count: 20 });
+      expect(row.metrics['waitingMs']).toEqual({ mean: 900, p95: 1200, count: 20 });
+      untouched++;
+    }
+    expect(untouched).toBe(3);
+    expect((await stored(lockstepNew)).metrics['ci95']).toEqual({ successRate: [0.5, 0.9], finishSpreadMs: [300, 500] });
+    expect(entryOf(after, classic)?.['spread_lockstep']).toBeNull();
+    expect(entryOf(before, classic)?.['spread_lockstep']).toBe(400);
+    expect(entryOf(after, weightedNew)?.['spread_lockstep']).toBe(400);
   });
 });
