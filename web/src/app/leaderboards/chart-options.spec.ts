@@ -63,6 +63,15 @@ describe('chart options', () => {
     expect(series.map((s) => [s.name, s.color])).toEqual([['classic', MODEL_COLOURS.classic], ['k-robust (k=1)', MODEL_COLOURS['k-robust']]]);
   });
 
+  it('draws every finish spread bar right of the y-axis: at its bin middle, on an axis starting at 0 (issue 14, item 10)', () => {
+    const option = chartOption('spread', data) as { xAxis: { min?: number }; series: { type: string; data: (readonly [number, number])[] }[] };
+    expect(option.xAxis.min).toBe(0);
+    // Bins [0, 200) and [200, 400) of the fixture hold 3 and 1 instances.
+    expect(option.series.map((s) => [s.type, s.data])).toEqual([['bar', [[100, 3], [300, 1]]]]);
+    // A bar spans its x ± half a bin, so its left edge is its bin's start, never below the axis at 0.
+    expect(option.series[0].data.map(([x]) => x - data.spreadBinMs / 2)).toEqual([0, 200]);
+  });
+
   it('keeps zero solve times on the log axis of the cactus plot', () => {
     const series = (chartOption('cactus', data) as { series: { data: number[][] }[] }).series;
     expect(series[0].data[0]).toEqual([0.01, 1]);

@@ -93,7 +93,10 @@ export function chartOption(id: ChartId, data: LeaderboardCharts): ChartOption {
       }, true, ' · each point a mean over runs; its 95 % interval is in the board\'s realised-makespan columns (not drawn: bars on every point of the cloud would hide it)');
     case 'spread':
       return frame(`Finish spread distribution (bins of ${data.spreadBinMs} ms)`, data, 'finish spread, mean over runs (ms)', 'instances', {
-        series: lines(data.spreadHistogram, 'bar'),
+        // A bar on a value axis is centred on its x, so a bar drawn at its bin's start hangs half a bin
+        // left of the y-axis: each bar stands at its bin's middle and the axis starts at 0 (spreads are never negative).
+        xAxis: { type: 'value', name: 'finish spread, mean over runs (ms)', nameLocation: 'middle', nameGap: 28, min: 0 },
+        series: lines(data.spreadHistogram.map((s) => ({ ...s, points: s.points.map(([start, n]) => [start + data.spreadBinMs / 2, n] as const) })), 'bar'),
       }, true, ' · counts instances by their mean finish spread; a histogram carries no per-instance interval (see the board\'s finish-spread columns)');
   }
 }
