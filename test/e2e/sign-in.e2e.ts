@@ -54,7 +54,7 @@ describe('sign-in and roles in the browser', () => {
 
     expect(await accountMenuButton(page, researcher).innerText()).toMatch(/researcher/i);
     const areas = await page.getByRole('navigation', { name: 'Areas' }).getByRole('link').allInnerTexts();
-    expect(areas).toEqual(['Instance sets', 'Sweeps', 'Leaderboards']);
+    expect(areas).toEqual(['Instance sets', 'Sweeps', 'Leaderboards', 'Model comparison']);
   });
 
   it('refuses the researcher the admin page', async () => {
@@ -84,6 +84,11 @@ describe('sign-in and roles in the browser', () => {
     await roleSelect(researcher.login).click();
     const saved = page.waitForResponse((r) => r.request().method() === 'PATCH' && r.url().includes('/api/admin/users/'));
     await page.getByRole('option', { name: 'maintainer' }).click();
+    // The admin page asks first (a Material confirmation dialog); nothing is sent until the admin acts.
+    const question = page.getByRole('dialog');
+    await question.waitFor();
+    expect(await question.getByRole('heading').innerText()).toBe(`Make ${researcher.name} (${researcher.login}) a maintainer?`);
+    await question.getByRole('button', { name: 'Make maintainer' }).click();
     const response = await saved;
     expect(response.status()).toBe(200);
     expect(await response.json()).toMatchObject({ login: researcher.login, role: 'maintainer' });
