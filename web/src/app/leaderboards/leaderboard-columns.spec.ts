@@ -57,6 +57,18 @@ describe('model cells with a 95 % interval', () => {
     expect(tip({ data: { m_classic: 4100, m_classic__lo: null, m_classic__hi: null } })).toBe('[interval not stored]: executions recorded before intervals were kept.');
   });
 
+  it('cuts long map and scenario names in the middle, keeping the end, with the full name on hover (issue 14, item 10)', () => {
+    const cols = gridColumns(compareColumns('tiMakespanMs').filter((c) => c.id === 'map' || c.id === 'scenario'), []);
+    expect(cols).toHaveLength(2);
+    const long = 'warehouse-large-10-20-random-scen-17';
+    for (const col of cols) {
+      const shown = (col.valueFormatter as (p: { value: string }) => string)({ value: long });
+      expect(shown).toBe('warehouse-…20-random-scen-17'); // 27 kept: 10 of the start, 17 of the end
+      expect([...shown]).toHaveLength(28);
+      expect((col.tooltipValueGetter as (p: { value: string }) => string | undefined)({ value: long })).toBe(long);
+    }
+  });
+
   it('leaves plan figures without intervals', () => {
     const defs = gridColumns(compareColumns('tiMakespanMs'), []);
     const classic = defs.find((d) => d.colId === 'm_classic');

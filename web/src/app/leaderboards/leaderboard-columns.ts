@@ -4,6 +4,7 @@ import { CI95_METHOD } from '@shared/confidence-interval';
 import { INTERVAL_NOT_STORED } from '@shared/exports-table';
 import { INTERVAL_NOT_STORED_REASON, type LeaderboardColumn } from '@shared/leaderboards';
 import { GRID_FILTER_OPTIONS } from './grid-view';
+import { middleEllipsisCell } from '../core/middle-ellipsis';
 
 /**
  * A row as the grid holds it: the row id plus one field per column id. Comparison rows also carry
@@ -91,6 +92,9 @@ function modelCellTooltip(id: string, kind: CellIntervalKind | null, digits: num
   };
 }
 
+/** Characters of a map or scenario name shown in the board's flexible name columns (at their 120 px minimum some are clipped by the cell). */
+const NAME_CHARS = 28;
+
 /**
  * Column definitions for the visible columns, in order, with the view's sort applied. In the
  * comparison layout `intervalKind` says whether model cells show their 95 % interval.
@@ -100,6 +104,8 @@ export function gridColumns(columns: readonly LeaderboardColumn[], sort: readonl
     const sortAt = sort.findIndex((s) => s.column === c.id);
     const isModel = c.id.startsWith('m_');
     const withInterval = isModel && intervalKind !== null;
+    // Long map and scenario names keep their distinguishing end, with the full name on hover (issue 14, item 10).
+    const name = c.id === 'map' || c.id === 'scenario' ? middleEllipsisCell(NAME_CHARS) : null;
     return {
       colId: c.id,
       field: c.id,
@@ -115,10 +121,10 @@ export function gridColumns(columns: readonly LeaderboardColumn[], sort: readonl
         'best-cell': (p: { data?: GridRow }) => listed(p.data?.__best, c.id),
         'colliding-cell': (p: { data?: GridRow }) => listed(p.data?.__colliding, c.id),
       } : undefined,
-      tooltipValueGetter: isModel ? modelCellTooltip(c.id, intervalKind, c.digits) : undefined,
+      tooltipValueGetter: isModel ? modelCellTooltip(c.id, intervalKind, c.digits) : name?.tooltipValueGetter,
       filterParams: { filterOptions: [...GRID_FILTER_OPTIONS[c.kind]], maxNumConditions: 1, debounceMs: 300 },
       type: c.kind === 'number' ? 'rightAligned' : undefined,
-      valueFormatter: withInterval
+      valueFormatter: name ? name.valueFormatter : withInterval
         ? (p: ValueFormatterParams<GridRow>) => cellWithInterval(intervalKind, p.value as number | null, p.data?.[`${c.id}__lo`] as number | null, p.data?.[`${c.id}__hi`] as number | null, c.digits)
         : /^(realised|spread).*(Lo|Hi)$/.test(c.id) ? formatIntervalBound(c.id, c.digits) : c.kind === 'number' ? formatNumber(c.digits) : undefined,
       minWidth: c.kind === 'number' ? 110 : 120,

@@ -18,8 +18,8 @@ function shownPlan(id: number, model: PlanModel): PaneExecution {
 }
 
 describe('PlanPicker', () => {
-  async function setUp() {
-    const set = { id: 2, name: 'quay', scenarios: [{ id: 5, name: 'quay-north-01' }] };
+  async function setUp(scenarioName = 'quay-north-01') {
+    const set = { id: 2, name: 'quay', scenarios: [{ id: 5, name: scenarioName, maxAgents: 8 }] };
     TestBed.configureTestingModule({
       imports: [PlanPicker],
       providers: [
@@ -54,5 +54,19 @@ describe('PlanPicker', () => {
     await fixture.whenStable();
 
     expect(await compare.getValueText()).toBe('no second model');
+  });
+
+  it('cuts a long scenario name in the middle, keeping its end, with the full name as the option title (issue 14, item 10)', async () => {
+    const long = 'warehouse-large-10-20-random-scenario-file-17';
+    const { fixture } = await setUp(long);
+    fixture.componentRef.setInput('shown', shownPlan(33, 'classic'));
+    await fixture.whenStable();
+    const scenario = await TestbedHarnessEnvironment.loader(fixture).getHarness(MatSelectHarness.with({ selector: '[formControlName="scenarioId"]' }));
+    await scenario.open();
+    const options = await scenario.getOptions();
+    expect(options).toHaveLength(1);
+
+    expect(await options[0].getText()).toBe('warehouse-la…om-scenario-file-17 (up to 8 agents)'); // 31 kept: 12 of the start, 19 of the end
+    expect(await (await options[0].host()).getAttribute('title')).toBe(long);
   });
 });

@@ -17,6 +17,7 @@ import type { PaneExecution } from './viewer-pane';
 import type { InstanceSetDetail } from '@shared/instance-sets';
 import { HEADINGS, PLAN_MODELS, type PlanModel, type RobotProfile, type StartHeading } from '@shared/plan';
 import { InstanceSetApi } from '../instance-sets/instance-set-api';
+import { middleEllipsis } from '../core/middle-ellipsis';
 
 /** What the picker asks the page to open. */
 export interface PlanChoice {
@@ -63,6 +64,10 @@ export class PlanPicker {
     robotDiameterMm: this.fb.control(STARTER_PROFILE.robotDiameterMm, [Validators.required, Validators.min(1)]),
   });
   protected readonly scenarios = computed(() => this.set()?.scenarios ?? []);
+  /** A scenario name cut in the middle to fit the select, keeping its distinguishing end (the option's title holds it whole). */
+  protected shortName(name: string): string {
+    return middleEllipsis(name, 32);
+  }
 
   /** Key of the execution (or result plan) last adopted: re-runs of it keep what the user changed since. */
   private adoptedKey: string | null = null;

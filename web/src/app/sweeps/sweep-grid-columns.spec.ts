@@ -83,6 +83,19 @@ describe('sweep grid columns', () => {
 });
 
 describe('sweep grid figures', () => {
+  it('cuts long map and scenario names in the middle, keeping the end, with the full name on hover (issue 14, item 10)', () => {
+    const cols = sweepGridColumns([]);
+    const scenario = cols.find((c) => c.field === 'scenarioName') as ColDef<SweepResultRow> & { valueFormatter: (p: { value: string }) => string; tooltipValueGetter: (p: { value: string }) => string | undefined };
+    const long = 'warehouse-large-10-20-even-scen-25';
+    const shown = scenario.valueFormatter({ value: long });
+    expect(shown).toBe('warehouse…0-even-scen-25'); // 23 kept: 9 of the start, 14 of the end
+    expect([...shown]).toHaveLength(24);
+    expect(scenario.tooltipValueGetter({ value: long })).toBe(long);
+    expect(scenario.valueFormatter({ value: 'quay-01' })).toBe('quay-01');
+    const map = cols.find((c) => c.field === 'mapName') as { valueFormatter?: unknown };
+    expect(typeof map.valueFormatter).toBe('function');
+  });
+
   it('keeps rates near the ends distinguishable from 0 and 100 %', () => {
     expect(formatRateWithInterval(0.998, [0.99, 1], 500)).toBe('99.8 % (99–100 %) of 500 runs');
     expect(formatRateWithInterval(0.002, null, 500)).toBe('0.2 % of 500 runs');

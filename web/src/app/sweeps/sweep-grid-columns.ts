@@ -11,6 +11,7 @@ import type { ExecutionView, SweepResultRow } from '@shared/runs';
 import { cbsSwitchLabel, forbidsFollowing, switchesOff, type ModelSpec } from '@shared/sweeps';
 import { formatMs, formatRateWithInterval, realisedMakespanInterval, successRateInterval } from './sweep-grid-figures';
 import { RUN_STATUS_LABEL } from './sweep-status';
+import { middleEllipsisCell } from '../core/middle-ellipsis';
 
 const num = (digits = 0) => (p: ValueFormatterParams<SweepResultRow, number | null>) =>
   p.value === null || p.value === undefined ? '' : p.value.toLocaleString('en', { maximumFractionDigits: digits });
@@ -34,6 +35,9 @@ export function modelVariantLabel(spec: ModelSpec | undefined, fallback: string)
   return parts.join(', ');
 }
 
+/** Characters of a map or scenario name that fit their columns (150 and 190 px of 13 px text, common practice ~7.5 px a character). */
+const NAME_CHARS = { map: 18, scenario: 24 } as const;
+
 /**
  * The grid's columns; one execution-success and one realised-makespan column per replayed policy.
  * `models` are the sweep definition's model specs (row.modelIndex points into them).
@@ -41,8 +45,9 @@ export function modelVariantLabel(spec: ModelSpec | undefined, fallback: string)
 export function sweepGridColumns(policies: readonly string[], models: readonly ModelSpec[] = []): ColDef<SweepResultRow>[] {
   return [
     { field: 'runId', headerName: 'Run', width: 80, type: 'rightAligned' },
-    { field: 'mapName', headerName: 'Map', width: 150 },
-    { field: 'scenarioName', headerName: 'Scenario', width: 190 },
+    // Long names keep their distinguishing end, with the full name on hover (issue 14, item 10).
+    { field: 'mapName', headerName: 'Map', width: 150, ...middleEllipsisCell(NAME_CHARS.map) },
+    { field: 'scenarioName', headerName: 'Scenario', width: 190, ...middleEllipsisCell(NAME_CHARS.scenario) },
     { field: 'agents', headerName: 'Agents', width: 90, type: 'rightAligned' },
     { colId: 'model', headerName: 'Plan model', width: 190,
       valueGetter: (p) => (p.data ? modelVariantLabel(models[p.data.modelIndex], p.data.model) : '') },
