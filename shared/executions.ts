@@ -213,14 +213,15 @@ export interface ExecutionSummaryView {
   /**
    * Collisions per run: mean, p95, total over runs; the 95 % intervals of the mean (Student t cut
    * at 0, shared/confidence-interval.ts nonNegativeMeanInterval) and of the p95, as the simulator
-   * computes them (absent on summaries stored before they were recorded).
+   * computes them (the server computes them from the per-run counts for summaries stored before
+   * they were recorded, api/src/executions/stored-summary.ts).
    */
   readonly collisions: {
     readonly mean: number;
     readonly p95: number;
     readonly total: number;
-    readonly meanCi95?: Interval95 | null;
-    readonly p95Ci95?: Interval95 | null;
+    readonly meanCi95: Interval95 | null;
+    readonly p95Ci95: Interval95 | null;
   };
   readonly realisedMakespanMs: MetricStatsView;
   readonly realisedSocMs: MetricStatsView;
