@@ -1,6 +1,6 @@
 /** Chart options name the robot profile and policy, and carry one series per plan model with its colour. */
 import type { LeaderboardCharts } from '@shared/leaderboards';
-import { CHART_IDS, chartOption, PLAN_CHARTS } from './chart-options';
+import { CHART_IDS, chartOption, PLAN_CHARTS, plotTop } from './chart-options';
 import { MODEL_COLOURS } from './model-colours';
 
 const data: LeaderboardCharts = {
@@ -56,6 +56,19 @@ describe('chart options', () => {
     expect([solved.title.text, solved.yAxis.name]).toEqual(['Solved rate by agent count', 'solved rate']);
     expect(executed.yAxis.name).toBe('execution success rate');
     expect(executed.title.text).toContain('Execution success rate');
+  });
+
+  it('starts every plot below its wrapped subtitle, so the subtitle is never drawn over the plot (issue 14, item 10)', () => {
+    let compared = 0;
+    for (const id of CHART_IDS) {
+      const o = chartOption(id, data) as { title: { subtext: string; subtextStyle: { width: number } }; grid: { top: number } };
+      // Lines the subtitle wraps to at ~5.6 px per 11 px character, then 15 px per line under a 40 px title.
+      const lines = Math.ceil((o.title.subtext.length * 5.6) / o.title.subtextStyle.width);
+      expect(o.grid.top).toBeGreaterThanOrEqual(40 + 15 * lines);
+      compared++;
+    }
+    expect(compared).toBe(CHART_IDS.length);
+    expect(plotTop('x'.repeat(300))).toBeGreaterThan(plotTop('x'.repeat(50)));
   });
 
   it('names series by model and variant in the model colours', () => {

@@ -21,16 +21,28 @@ export function seriesName(s: Pick<ChartSeries, 'model' | 'variant'>): string {
   return s.variant ? `${s.model} (${s.variant})` : s.model;
 }
 
+/** Width the subtitle wraps at: fits the narrowest chart card (two cards side by side on a wide screen). */
+const SUBTITLE_WIDTH_PX = 540;
+/** Mean advance of one 11 px Fira Sans character, to estimate how many lines the subtitle wraps to (common practice: ≈ 0.5 em). */
+const SUBTITLE_CHAR_PX = 5.6;
+
+/** Space above the plot: the title plus as many subtitle lines as the text wraps to, so the plot never runs under it. */
+export function plotTop(subtitle: string): number {
+  const lines = Math.max(1, Math.ceil((subtitle.length * SUBTITLE_CHAR_PX) / SUBTITLE_WIDTH_PX));
+  return 40 + 15 * lines;
+}
+
 function frame(title: string, data: LeaderboardCharts, xName: string, yName: string, extra: ChartOption = {}, isExecution = true, note = ''): ChartOption {
   const profile = data.profile ? `Robot profile: ${data.profile.label}` : 'No robot profile';
+  const subtext = (isExecution ? `${profile} · execution policy ${data.policy}` : `${profile} · plan figures (no execution policy)`) + note;
   return {
     animation: false,
     backgroundColor: '#ffffff',
     textStyle: { fontFamily: 'Fira Sans, system-ui, sans-serif' },
-    title: { text: title, subtext: (isExecution ? `${profile} · execution policy ${data.policy}` : `${profile} · plan figures (no execution policy)`) + note, left: 8, top: 4, textStyle: { fontSize: 15 }, subtextStyle: { fontSize: 11, width: 700, overflow: 'break' } },
+    title: { text: title, subtext, left: 8, top: 4, textStyle: { fontSize: 15 }, subtextStyle: { fontSize: 11, lineHeight: 15, width: SUBTITLE_WIDTH_PX, overflow: 'break' } },
     legend: { bottom: 0, type: 'scroll' },
     tooltip: { trigger: 'item' },
-    grid: { left: 64, right: 24, top: 84, bottom: 64 },
+    grid: { left: 64, right: 24, top: plotTop(subtext), bottom: 64 },
     xAxis: { type: 'value', name: xName, nameLocation: 'middle', nameGap: 28 },
     yAxis: { type: 'value', name: yName, nameLocation: 'middle', nameGap: 46 },
     ...extra,
