@@ -52,6 +52,8 @@ export interface ViewerPane {
   readonly hazard: FollowingHazard;
   /** Whether the plan's model forbids following, in words. */
   readonly followingRule: string;
+  /** Whether the plan may contain following at all (so the hazard applies to it, not only to the profile). */
+  readonly planMayFollow: boolean;
 }
 
 /** What a pane starts from. */
@@ -73,6 +75,7 @@ export function paneWith(base: PaneBase, summary: ExecutionSummaryView, computed
     attribution: attributionOf(base.instance, e, summary, shownRun),
     hazard: followingHazard(e.profile),
     followingRule: followingRuleText(e),
+    planMayFollow: planMayFollow(e),
   };
 }
 
@@ -81,6 +84,13 @@ function attributionOf(instance: MapfInstance, e: PaneExecution, s: ExecutionSum
   if (s.runs <= 0) return null;
   const timeline = realisedTimeline(instance, e.plan, e.profile, { policy: s.policy, noise: s.noise, seed: s.seed, onCollision: s.onCollision }, run);
   return runAttribution(timeline, s.policy);
+}
+
+/** Whether the plan's rules let an agent follow another: classic rule models unless forbidden, k-robust at k = 0. */
+export function planMayFollow(e: Pick<ExecutionView, 'model' | 'modelOptions'>): boolean {
+  if (e.model === 'k-robust') return (e.modelOptions.k ?? 1) === 0;
+  if (e.model === 'weighted-split') return false;
+  return e.modelOptions.following !== 'forbidden';
 }
 
 /**
