@@ -192,6 +192,22 @@ export interface MetricStatsView {
   readonly p95Ci95: Interval95 | null;
 }
 
+/** The 95 % intervals of a batch's headline figures (the means), as `execute --json` prints them; one shape for simulator and views. */
+export interface HeadlineIntervals95 {
+  readonly successRate: Interval95;
+  readonly realisedMakespanMs: Interval95 | null;
+  readonly finishSpreadMs: Interval95 | null;
+}
+
+/** Collisions per run over a batch: mean, nearest-rank p95, total, and the 95 % intervals of the mean and the p95. */
+export interface CollisionStats {
+  readonly mean: number;
+  readonly p95: number;
+  readonly total: number;
+  readonly meanCi95: Interval95 | null;
+  readonly p95Ci95: Interval95 | null;
+}
+
 /** The Monte Carlo summary of one request. */
 export interface ExecutionSummaryView {
   readonly policy: ExecutionPolicyName;
@@ -205,24 +221,14 @@ export interface ExecutionSummaryView {
   /** Wilson score 95 % interval of the success rate. */
   readonly successRateCi95: Interval95;
   /** 95 % intervals of the success rate and of the MEANS of realised makespan and finish spread. */
-  readonly ci95: {
-    readonly successRate: Interval95;
-    readonly realisedMakespanMs: Interval95 | null;
-    readonly finishSpreadMs: Interval95 | null;
-  };
+  readonly ci95: HeadlineIntervals95;
   /**
    * Collisions per run: mean, p95, total over runs; the 95 % intervals of the mean (Student t cut
    * at 0, shared/confidence-interval.ts nonNegativeMeanInterval) and of the p95, as the simulator
    * computes them (the server computes them from the per-run counts for summaries stored before
    * they were recorded, api/src/executions/stored-summary.ts).
    */
-  readonly collisions: {
-    readonly mean: number;
-    readonly p95: number;
-    readonly total: number;
-    readonly meanCi95: Interval95 | null;
-    readonly p95Ci95: Interval95 | null;
-  };
+  readonly collisions: CollisionStats;
   readonly realisedMakespanMs: MetricStatsView;
   readonly realisedSocMs: MetricStatsView;
   readonly finishSpreadMs: MetricStatsView;

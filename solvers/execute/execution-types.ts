@@ -9,6 +9,7 @@
  * never replaces the applicable safety standards and local rules for robots near people.
  */
 import type { Interval95 } from '@shared/confidence-interval';
+import type { CollisionStats, HeadlineIntervals95 } from '@shared/executions';
 import type { ActionKind, CellXY, Heading, Schedule } from '@shared/plan';
 
 /**
@@ -167,23 +168,13 @@ export interface ExecutionSummary {
   /** Wilson score 95 % interval of the success rate ([0, 1] with no runs). */
   readonly successRateCi95: Interval95;
   /** The 95 % intervals of the headline figures (for the means), as `execute --json` prints them. */
-  readonly ci95: {
-    readonly successRate: Interval95;
-    readonly realisedMakespanMs: Interval95 | null;
-    readonly finishSpreadMs: Interval95 | null;
-  };
+  readonly ci95: HeadlineIntervals95;
   /**
    * Collisions per run: mean, nearest-rank p95, total over runs, and the 95 % intervals of the mean
    * (Student t cut at 0: a mean of counts cannot be negative; null below 2 runs) and of the p95
    * (order statistics; null below 72 runs). Computed once here; the CLI and the viewer read them.
    */
-  readonly collisions: {
-    readonly mean: number;
-    readonly p95: number;
-    readonly total: number;
-    readonly meanCi95: Interval95 | null;
-    readonly p95Ci95: Interval95 | null;
-  };
+  readonly collisions: CollisionStats;
   readonly realisedMakespanMs: MetricStats;
   readonly realisedSocMs: MetricStats;
   readonly finishSpreadMs: MetricStats;
