@@ -94,6 +94,8 @@ function modelCellTooltip(id: string, kind: CellIntervalKind | null, digits: num
 
 /** Characters of a map or scenario name shown in the board's flexible name columns (at their 120 px minimum some are clipped by the cell). */
 const NAME_CHARS = 28;
+/** Width that shows NAME_CHARS characters of the grid's body font (≈ 7.5 px each, common practice) plus the cell padding. */
+const NAME_MIN_WIDTH_PX = Math.ceil(NAME_CHARS * 7.5) + 36;
 
 /**
  * Column definitions for the visible columns, in order, with the view's sort applied. In the
@@ -127,7 +129,7 @@ export function gridColumns(columns: readonly LeaderboardColumn[], sort: readonl
       valueFormatter: name ? name.valueFormatter : withInterval
         ? (p: ValueFormatterParams<GridRow>) => cellWithInterval(intervalKind, p.value as number | null, p.data?.[`${c.id}__lo`] as number | null, p.data?.[`${c.id}__hi`] as number | null, c.digits)
         : /^(realised|spread).*(Lo|Hi)$/.test(c.id) ? formatIntervalBound(c.id, c.digits) : c.kind === 'number' ? formatNumber(c.digits) : undefined,
-      minWidth: c.kind === 'number' ? 110 : 120,
+      minWidth: name ? NAME_MIN_WIDTH_PX : c.kind === 'number' ? 110 : 120,
       flex: c.kind === 'number' ? 0 : 1,
       width: withInterval ? 190 : c.kind === 'number' ? 140 : undefined,
     };

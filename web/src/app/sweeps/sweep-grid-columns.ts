@@ -37,6 +37,8 @@ export function modelVariantLabel(spec: ModelSpec | undefined, fallback: string)
 
 /** Characters of a map or scenario name that fit their columns (150 and 190 px of 13 px text, common practice ~7.5 px a character). */
 const NAME_CHARS = { map: 18, scenario: 24 } as const;
+/** Column width showing that many characters of the grid's body font (≈ 7.5 px each, common practice) plus the cell padding. */
+const widthFor = (chars: number): number => Math.ceil(chars * 7.5) + 36;
 
 /**
  * The grid's columns; one execution-success and one realised-makespan column per replayed policy.
@@ -46,8 +48,8 @@ export function sweepGridColumns(policies: readonly string[], models: readonly M
   return [
     { field: 'runId', headerName: 'Run', width: 80, type: 'rightAligned' },
     // Long names keep their distinguishing end, with the full name on hover (issue 14, item 10).
-    { field: 'mapName', headerName: 'Map', width: 150, ...middleEllipsisCell(NAME_CHARS.map) },
-    { field: 'scenarioName', headerName: 'Scenario', width: 190, ...middleEllipsisCell(NAME_CHARS.scenario) },
+    { field: 'mapName', headerName: 'Map', width: widthFor(NAME_CHARS.map), ...middleEllipsisCell(NAME_CHARS.map) },
+    { field: 'scenarioName', headerName: 'Scenario', width: widthFor(NAME_CHARS.scenario), ...middleEllipsisCell(NAME_CHARS.scenario) },
     { field: 'agents', headerName: 'Agents', width: 90, type: 'rightAligned' },
     { colId: 'model', headerName: 'Plan model', width: 190,
       valueGetter: (p) => (p.data ? modelVariantLabel(models[p.data.modelIndex], p.data.model) : '') },
