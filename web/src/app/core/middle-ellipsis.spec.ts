@@ -1,4 +1,5 @@
 import { ELLIPSIS, middleEllipsis } from './middle-ellipsis';
+import { MiddleEllipsisPipe, OPTION_NAME_CHARS } from './middle-ellipsis.pipe';
 
 describe('middleEllipsis', () => {
   it('leaves a name that fits as it is', () => {
@@ -9,5 +10,16 @@ describe('middleEllipsis', () => {
     expect(middleEllipsis('warehouse-large-even-25', 10)).toBe(`war${ELLIPSIS}ven-25`);
     expect(middleEllipsis('warehouse-large-even-26', 10)).not.toBe(middleEllipsis('warehouse-large-even-25', 10));
     expect([...middleEllipsis('warehouse-large-even-25', 10)]).toHaveLength(10);
+  });
+});
+
+describe('MiddleEllipsisPipe', () => {
+  it('cuts a long option name to the default width and leaves a short or missing one readable', () => {
+    const pipe = new MiddleEllipsisPipe();
+    const long = 'warehouse-large-aisles-even-scenario-25';
+    expect([...pipe.transform(long)]).toHaveLength(OPTION_NAME_CHARS);
+    expect(pipe.transform(long).endsWith('scenario-25')).toBe(true);
+    expect(pipe.transform('quay-north')).toBe('quay-north');
+    expect(pipe.transform(null)).toBe('');
   });
 });

@@ -7,12 +7,13 @@ import { MatSelectModule } from '@angular/material/select';
 import { MatTableModule } from '@angular/material/table';
 import { LEADERBOARD_POLICIES, MEAN_SUCCESS_METHOD, NOMINAL_DESCRIPTION, type BestAmong } from '@shared/leaderboards';
 import { LeaderboardApi, type BoardScope } from './leaderboard-api';
+import { MiddleEllipsisPipe } from '../core/middle-ellipsis.pipe';
 
 @Component({
   selector: 'app-model-summary',
   templateUrl: './model-summary.html',
   styleUrl: './model-summary.scss',
-  imports: [DecimalPipe, PercentPipe, MatFormFieldModule, MatSelectModule, MatTableModule],
+  imports: [MiddleEllipsisPipe, DecimalPipe, PercentPipe, MatFormFieldModule, MatSelectModule, MatTableModule],
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export default class ModelSummaryPanel {

@@ -16,13 +16,14 @@ import type { MapDetail, ScenarioDetail } from '@shared/instance-sets';
 import { InstanceSetApi } from '../instance-sets/instance-set-api';
 import { isPassableAt } from './map-bitmap';
 import { MapCanvas, type AgentMarker } from './map-canvas';
+import { MiddleEllipsisPipe } from '../core/middle-ellipsis.pipe';
 
 /** The map viewer page. */
 @Component({
   selector: 'app-map-viewer',
   templateUrl: './map-viewer.html',
   styleUrl: './map-viewer.scss',
-  imports: [DecimalPipe, RouterLink, MapCanvas, MatSelectModule, MatFormFieldModule, MatInputModule, MatButtonModule, MatProgressBarModule],
+  imports: [MiddleEllipsisPipe, DecimalPipe, RouterLink, MapCanvas, MatSelectModule, MatFormFieldModule, MatInputModule, MatButtonModule, MatProgressBarModule],
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export default class MapViewer {

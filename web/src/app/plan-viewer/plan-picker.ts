@@ -18,6 +18,7 @@ import type { InstanceSetDetail } from '@shared/instance-sets';
 import { HEADINGS, PLAN_MODELS, type PlanModel, type RobotProfile, type StartHeading } from '@shared/plan';
 import { InstanceSetApi } from '../instance-sets/instance-set-api';
 import { middleEllipsis } from '../core/middle-ellipsis';
+import { MiddleEllipsisPipe } from '../core/middle-ellipsis.pipe';
 
 /** What the picker asks the page to open. */
 export interface PlanChoice {
@@ -33,7 +34,7 @@ export interface PlanChoice {
   selector: 'app-plan-picker',
   templateUrl: './plan-picker.html',
   styleUrl: './plan-picker.scss',
-  imports: [ReactiveFormsModule, MatFormFieldModule, MatSelectModule, MatInputModule, MatButtonModule],
+  imports: [MiddleEllipsisPipe, ReactiveFormsModule, MatFormFieldModule, MatSelectModule, MatInputModule, MatButtonModule],
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class PlanPicker {

@@ -14,6 +14,7 @@ import { MIXED_SETTINGS_NOTE, REPORT_POLICIES, REPORT_TABLE_HEADERS, reportTable
 import { SAFETY_NOTE } from '@shared/executions-constants';
 import { errorMessage } from '../core/error-message';
 import { ReportApi, type ReportScope } from './report-api';
+import { MiddleEllipsisPipe } from '../core/middle-ellipsis.pipe';
 
 /** Policy when the link names none (same default as the API). */
 const DEFAULT_POLICY = 'dependency-gated';
@@ -22,7 +23,7 @@ const DEFAULT_POLICY = 'dependency-gated';
   selector: 'app-model-comparison-page',
   templateUrl: './model-comparison-page.html',
   styleUrl: './model-comparison-page.scss',
-  imports: [MatButtonModule, MatFormFieldModule, MatSelectModule],
+  imports: [MiddleEllipsisPipe, MatButtonModule, MatFormFieldModule, MatSelectModule],
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export default class ModelComparisonPage {

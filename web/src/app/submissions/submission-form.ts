@@ -27,6 +27,7 @@ import type { SubmissionView } from '@shared/submissions';
 import { InstanceSetApi } from '../instance-sets/instance-set-api';
 import { SubmissionApi } from './submission-api';
 import { fileCaption, peekPlanDocument, problemOf, TEXT_MODELS, type SubmissionProblem } from './submission-rules';
+import { MiddleEllipsisPipe } from '../core/middle-ellipsis.pipe';
 
 /** Sets offered in the first list (the API's largest page). */
 const SET_PAGE_SIZE = 100;
@@ -36,7 +37,7 @@ const SET_PAGE_SIZE = 100;
   templateUrl: './submission-form.html',
   styleUrl: './submission-form.scss',
   imports: [
-    ReactiveFormsModule, RouterLink, DecimalPipe, PercentPipe, MatButtonModule, MatButtonToggleModule, MatFormFieldModule, MatInputModule, MatSelectModule,
+    MiddleEllipsisPipe, ReactiveFormsModule, RouterLink, DecimalPipe, PercentPipe, MatButtonModule, MatButtonToggleModule, MatFormFieldModule, MatInputModule, MatSelectModule,
   ],
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

@@ -22,13 +22,14 @@ import { InstanceSetApi } from '../instance-sets/instance-set-api';
 import { SweepApi } from './sweep-api';
 import { currentPrecisionText, FOLLOWING_EXPLANATION, followingWarning, HALF_WIDTH_CHOICES, percentText, runsNeededText, WAIT_RULE } from './sweep-editor-advice';
 import { definitionFromForm, FORM_MODELS, FORM_POLICIES, FORM_SWITCHES, SWEEP_FORM_DEFAULTS, takesFollowingRule, type SweepFormValue } from './sweep-form-rules';
+import { MiddleEllipsisPipe } from '../core/middle-ellipsis.pipe';
 
 /** The sweep form. */
 @Component({
   selector: 'app-sweep-editor',
   templateUrl: './sweep-editor.html',
   styleUrl: './sweep-editor.scss',
-  imports: [ReactiveFormsModule, MatFormFieldModule, MatInputModule, MatSelectModule, MatCheckboxModule, MatButtonModule, MatButtonToggleModule],
+  imports: [MiddleEllipsisPipe, ReactiveFormsModule, MatFormFieldModule, MatInputModule, MatSelectModule, MatCheckboxModule, MatButtonModule, MatButtonToggleModule],
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export default class SweepEditor {

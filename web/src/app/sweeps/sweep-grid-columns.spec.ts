@@ -1,8 +1,8 @@
 import type { ColDef, ValueFormatterParams, ValueGetterParams } from 'ag-grid-community';
 import { wilsonInterval } from '@shared/confidence-interval';
 import type { ExecutionView, SweepResultRow } from '@shared/runs';
-import type { ModelSpec } from '@shared/sweeps';
-import { modelVariantLabel, sweepGridColumns } from './sweep-grid-columns';
+import { CBS_SWITCH_NAMES, type ModelSpec } from '@shared/sweeps';
+import { MODEL_COLUMN_MAX_PX, modelColumnWidth, modelVariantLabel, sweepGridColumns } from './sweep-grid-columns';
 import { formatRateWithInterval, successRateInterval } from './sweep-grid-figures';
 
 const row = (over: Partial<SweepResultRow>): SweepResultRow => ({
@@ -94,6 +94,21 @@ describe('sweep grid figures', () => {
     expect(scenario.valueFormatter({ value: 'quay-01' })).toBe('quay-01');
     const map = cols.find((c) => c.field === 'mapName') as { valueFormatter?: unknown };
     expect(typeof map.valueFormatter).toBe('function');
+  });
+
+  it('makes the plan model column wide enough for "classic, following forbidden", capped, with the label on hover', () => {
+    const plain = { model: 'classic' } as ModelSpec;
+    const forbidden = { model: 'classic', following: 'forbidden' } as ModelSpec;
+    const label = modelVariantLabel(forbidden, 'classic');
+    expect(label).toBe('classic, following forbidden');
+    // ≈ 7.5 px a character of the 13 px body font plus 36 px padding (common practice), as for the name columns.
+    expect(modelColumnWidth([plain, forbidden])).toBeGreaterThanOrEqual(Math.ceil(label.length * 7.5) + 36);
+    expect(modelColumnWidth([plain])).toBeLessThan(modelColumnWidth([plain, forbidden]));
+    const many = { model: 'classic', following: 'forbidden', switches: Object.fromEntries(CBS_SWITCH_NAMES.map((n) => [n, false])) } as unknown as ModelSpec;
+    expect(modelColumnWidth([many])).toBe(MODEL_COLUMN_MAX_PX);
+    const col = sweepGridColumns([], [forbidden]).find((c) => c.colId === 'model') as ColDef<SweepResultRow> & { tooltipValueGetter: (p: { value: string }) => string | undefined };
+    expect(col.width).toBe(modelColumnWidth([forbidden]));
+    expect(col.tooltipValueGetter({ value: label })).toBe(label);
   });
 
   it('keeps rates near the ends distinguishable from 0 and 100 %', () => {

@@ -40,6 +40,15 @@ const NAME_CHARS = { map: 18, scenario: 24 } as const;
 /** Column width showing that many characters of the grid's body font (≈ 7.5 px each, common practice) plus the cell padding. */
 const widthFor = (chars: number): number => Math.ceil(chars * 7.5) + 36;
 
+/** Widest plan model column, px: past it a label of many switched-off improvements wraps into its tooltip. */
+export const MODEL_COLUMN_MAX_PX = 420;
+
+/** Width of the plan model column: its longest variant label (at least "orientation-split"), at most MODEL_COLUMN_MAX_PX. */
+export function modelColumnWidth(models: readonly ModelSpec[]): number {
+  const longest = Math.max('orientation-split'.length, ...models.map((m) => [...modelVariantLabel(m, m.model)].length));
+  return Math.min(widthFor(longest), MODEL_COLUMN_MAX_PX);
+}
+
 /**
  * The grid's columns; one execution-success and one realised-makespan column per replayed policy.
  * `models` are the sweep definition's model specs (row.modelIndex points into them).
@@ -51,8 +60,10 @@ export function sweepGridColumns(policies: readonly string[], models: readonly M
     { field: 'mapName', headerName: 'Map', width: widthFor(NAME_CHARS.map), ...middleEllipsisCell(NAME_CHARS.map) },
     { field: 'scenarioName', headerName: 'Scenario', width: widthFor(NAME_CHARS.scenario), ...middleEllipsisCell(NAME_CHARS.scenario) },
     { field: 'agents', headerName: 'Agents', width: 90, type: 'rightAligned' },
-    { colId: 'model', headerName: 'Plan model', width: 190,
-      valueGetter: (p) => (p.data ? modelVariantLabel(models[p.data.modelIndex], p.data.model) : '') },
+    // As wide as the sweep's longest variant label ("classic, following forbidden" was cut), up to MODEL_COLUMN_MAX_PX; the full label on hover.
+    { colId: 'model', headerName: 'Plan model', width: modelColumnWidth(models),
+      valueGetter: (p) => (p.data ? modelVariantLabel(models[p.data.modelIndex], p.data.model) : ''),
+      tooltipValueGetter: (p) => (typeof p.value === 'string' ? p.value : undefined) },
     { field: 'seed', headerName: 'Seed', width: 80, type: 'rightAligned' },
     { field: 'status', headerName: 'Status', width: 120, valueFormatter: (p) => (p.value ? RUN_STATUS_LABEL[p.value as SweepResultRow['status']] : ''),
       headerTooltip: '"Solved" means the solver found a plan within the limits; it says nothing about execution.' },
