@@ -111,13 +111,31 @@ const unitStepBase = { startHeading: StartHeadingSchema.default('free'), switche
 export const FollowingRuleSchema = z.enum(FOLLOWING_RULES);
 const followingBase = { following: FollowingRuleSchema.optional() };
 
+/** Bounds of the suboptimality factor w of bounded-suboptimal search (issue 15, item 1). */
+export const SUBOPTIMALITY_LIMITS = { min: 1, max: 10 } as const;
+
+/** What w means, for help texts and tooltips. */
+export const SUBOPTIMALITY_HELP = 'w ≥ 1; 1 = optimal; results are within w × the proven lower bound';
+
+/**
+ * The suboptimality factor w of every plan model: the search may return a plan whose sum-of-costs
+ * is at most w times the lower bound it proves. Optional, absent = 1 (exact search, as before
+ * the factor existed); w = 1 is hashed and stored exactly as a spec without it (see `runParameters`).
+ */
+export const SuboptimalitySchema = z.number({ error: 'suboptimality (w) must be a number from 1 to 10' })
+  .min(SUBOPTIMALITY_LIMITS.min, `suboptimality (w) must be at least ${SUBOPTIMALITY_LIMITS.min} (1 = optimal)`)
+  .max(SUBOPTIMALITY_LIMITS.max, `suboptimality (w) must be at most ${SUBOPTIMALITY_LIMITS.max}`)
+  // Short labels and variant names (`w=1.25`); finer factors tell results apart by nothing a reader can see.
+  .refine((w) => Math.abs(w * 1000 - Math.round(w * 1000)) < 1e-9, 'suboptimality (w) takes at most 3 decimals, e.g. 1.25');
+const suboptimalityBase = { suboptimality: SuboptimalitySchema.optional() };
+
 /** One plan model with its parameters. */
 export const ModelSpecSchema = z.discriminatedUnion('model', [
-  z.object({ model: z.literal('classic'), ...unitStepBase, ...followingBase }).strict(),
-  z.object({ model: z.literal('uniform-duration'), ...unitStepBase, ...followingBase }).strict(),
-  z.object({ model: z.literal('orientation-split'), ...unitStepBase, ...followingBase }).strict(),
-  z.object({ model: z.literal('weighted-split'), startHeading: StartHeadingSchema.default('free') }).strict(),
-  z.object({ model: z.literal('k-robust'), k: whole(0, 20), ...unitStepBase }).strict(),
+  z.object({ model: z.literal('classic'), ...unitStepBase, ...followingBase, ...suboptimalityBase }).strict(),
+  z.object({ model: z.literal('uniform-duration'), ...unitStepBase, ...followingBase, ...suboptimalityBase }).strict(),
+  z.object({ model: z.literal('orientation-split'), ...unitStepBase, ...followingBase, ...suboptimalityBase }).strict(),
+  z.object({ model: z.literal('weighted-split'), startHeading: StartHeadingSchema.default('free'), ...suboptimalityBase }).strict(),
+  z.object({ model: z.literal('k-robust'), k: whole(0, 20), ...unitStepBase, ...suboptimalityBase }).strict(),
 ]);
 export type ModelSpec = z.output<typeof ModelSpecSchema>;
 
@@ -185,11 +203,26 @@ export function forbidsFollowing(m: ModelSpec): boolean {
   return 'following' in m && m.following === 'forbidden';
 }
 
-/** A model spec for people, e.g. "k-robust k=2, start heading free, switched off: Bypass, WDG heuristic". */
+/** The suboptimality factor w of a spec (absent = 1, exact search). */
+export function suboptimalityOf(m: ModelSpec): number {
+  return m.suboptimality ?? 1;
+}
+
+/** Whether a spec asks for bounded-suboptimal search (w > 1). */
+export function isBounded(m: ModelSpec): boolean {
+  return suboptimalityOf(m) > 1;
+}
+
+/**
+ * A model spec for people, e.g. "k-robust k=2, start heading free, switched off: Bypass, WDG heuristic"
+ * or "classic, w = 1.2, start heading free".
+ */
 export function describeModelSpec(m: ModelSpec): string {
   const off = switchesOff(m);
   return [
-    `${m.model}${'k' in m ? ` k=${m.k}` : ''}`, `start heading ${m.startHeading}`,
+    `${m.model}${'k' in m ? ` k=${m.k}` : ''}`,
+    ...(isBounded(m) ? [`w = ${suboptimalityOf(m)}`] : []),
+    `start heading ${m.startHeading}`,
     ...(forbidsFollowing(m) ? ['following forbidden'] : []),
     ...(off.length > 0 ? [`switched off: ${off.map(cbsSwitchLabel).join(', ')}`] : []),
   ].join(', ');
@@ -208,6 +241,7 @@ export function repeatedModels(models: readonly ModelSpec[]): { readonly index: 
     const key = canonicalJson({
       model: m.model, k: 'k' in m ? m.k : undefined, startHeading: m.startHeading, off: switchesOff(m),
       following: forbidsFollowing(m) ? 'forbidden' : undefined,
+      w: isBounded(m) ? suboptimalityOf(m) : undefined,
     });
     const earlier = first.get(key);
     if (earlier === undefined) first.set(key, index);
@@ -315,17 +349,24 @@ export function canonicalJson(value: unknown): string {
  * into the run's identity and stored as the result's params (the leaderboard variant reads
  * them). `following: 'allowed'` (the default) is left out, so runs and results of the classic
  * rule keep the params and hash they had before the following rule existed; only
- * `following: 'forbidden'` appears (params.model.following).
+ * `following: 'forbidden'` appears (params.model.following). Likewise `suboptimality: 1` (exact
+ * search, the default) is left out and only w > 1 appears (params.model.suboptimality).
  */
 export function runParameters(def: SweepDefinition, modelIndex: number): Record<string, unknown> {
   return { model: modelParameters(def.models[modelIndex]), robotProfile: def.robotProfile, timeLimitMs: def.timeLimitMs, memoryLimitMb: def.memoryLimitMb };
 }
 
-/** A model spec as stored in run params: without `following` when it is the default (allowed). */
+/**
+ * A model spec as stored in run params: without `following` when it is the default (allowed) and
+ * without `suboptimality` when it is 1 (exact).
+ */
 export function modelParameters(m: ModelSpec): Readonly<Record<string, unknown>> {
-  if (!('following' in m) || m.following === 'forbidden') return m;
+  const isDefaultFollowing = 'following' in m && m.following !== 'forbidden';
+  const isDefaultW = m.suboptimality !== undefined && m.suboptimality <= 1;
+  if (!isDefaultFollowing && !isDefaultW) return m;
   const rest: Record<string, unknown> = { ...m };
-  delete rest.following;
+  if (isDefaultFollowing) delete rest.following;
+  if (isDefaultW) delete rest.suboptimality;
   return rest;
 }
 
