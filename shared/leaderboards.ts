@@ -54,6 +54,26 @@ export type EntrySource = (typeof ENTRY_SOURCES)[number];
 /** Values of the executable-at-nominal column. */
 export const NOMINAL_VALUES = ['yes', 'no', 'not checked'] as const;
 
+/**
+ * Values of the optimality column (issue 15, item 1): `proven optimal` = the sum-of-costs equals
+ * the best proven lower bound; `bounded` = the best known value of a bounded-suboptimal search
+ * (w > 1), within w × the lower bound; `unproven` = no lower bound reaches it (a submitted plan).
+ * Empty when nothing was solved.
+ */
+export const OPTIMALITY_VALUES = ['proven optimal', 'bounded', 'unproven'] as const;
+export type Optimality = (typeof OPTIMALITY_VALUES)[number];
+
+/** What the optimality column means, for tooltips, captions and the README. */
+export const OPTIMALITY_DESCRIPTION = '"proven optimal": the sum-of-costs equals the proven lower bound. '
+  + '"bounded": the best known value of a bounded-suboptimal search with factor w > 1, at most w × the lower bound. '
+  + '"unproven": no lower bound reaches it (a submitted plan). Empty: not solved.';
+
+/** An optimality value for people: `bounded (w = 1.5)` for a bounded one, else the value itself. */
+export function optimalityLabel(optimality: string | null, suboptimality: number | null): string {
+  if (optimality === null) return '';
+  return optimality === 'bounded' && suboptimality !== null ? `bounded (w = ${suboptimality})` : optimality;
+}
+
 /** What "executable at nominal times" means, for tooltips, captions and the README glossary. */
 export const NOMINAL_DESCRIPTION = 'Whether the plan, replayed open-loop with zero noise (no timing jitter, no stalls) under its own robot profile, '
   + 'runs without a collision. "no": it collides even with perfect timing. "not checked": stored before the check existed.';
@@ -138,6 +158,11 @@ export const ENTRY_COLUMNS: readonly LeaderboardColumn[] = [
   { id: 'lowerBoundSteps', label: 'Lower bound', kind: 'number', unit: 'steps', digits: 0, description: `Best proven lower bound on the sum-of-costs, ${STEPS}.` },
   { id: 'lowerBoundMs', label: 'Lower bound', kind: 'number', unit: 'ms', digits: 0, description: `Best proven lower bound on the sum-of-costs, ${MS}.` },
   { id: 'gap', label: 'Gap', kind: 'number', better: 'lower', digits: 3, description: '(sum-of-costs − lower bound) ÷ lower bound, unitless.' },
+  { id: 'optimality', label: 'Optimality', kind: 'enum', values: OPTIMALITY_VALUES, description: OPTIMALITY_DESCRIPTION },
+  {
+    id: 'suboptimality', label: 'Suboptimality factor w', kind: 'number', digits: 3,
+    description: 'w of the search: 1 = exact (optimal); w > 1 = bounded-suboptimal, sum-of-costs at most w × the lower bound.',
+  },
   { id: 'runtimeMs', label: 'Solve time', kind: 'number', unit: 'ms', better: 'lower', digits: 1 },
   ...policyColumns,
   { id: 'source', label: 'Source', kind: 'enum', values: ENTRY_SOURCES },
@@ -147,7 +172,7 @@ export const ENTRY_COLUMNS: readonly LeaderboardColumn[] = [
 /** Columns shown when a view names none. */
 export const DEFAULT_ENTRY_COLUMNS: readonly string[] = [
   'map', 'scenario', 'agents', 'model', 'variant', 'status', 'executableAtNominal', 'socSteps', 'socMs', 'tiMakespanMs',
-  'lowerBoundSteps', 'lowerBoundMs', 'gap', 'runtimeMs', 'successOpenLoop', 'successOpenLoopLo', 'successOpenLoopHi', 'spreadOpenLoop', 'source', 'solver',
+  'lowerBoundSteps', 'lowerBoundMs', 'gap', 'optimality', 'runtimeMs', 'successOpenLoop', 'successOpenLoopLo', 'successOpenLoopHi', 'spreadOpenLoop', 'source', 'solver',
 ];
 
 /** Figures a comparison table may put side by side: all in ms or rates, so model columns share a unit. */
@@ -398,6 +423,10 @@ export interface ProfileOption {
 export interface ModelSummary {
   readonly model: PlanModel;
   readonly variant: string;
+  /** The suboptimality factor w of the variant (1 = exact search). */
+  readonly suboptimality: number;
+  /** Solved rows whose sum-of-costs is proven optimal (equals the best proven lower bound); the other solved rows are best known values. */
+  readonly provenOptimal: number;
   /** Instances (scenario × agents × profile) with a row for this model. */
   readonly instances: number;
   readonly solved: number;

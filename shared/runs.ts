@@ -98,7 +98,12 @@ export interface SweepResultRow {
   readonly makespan: number | null;
   readonly turnInclusiveSocMs: number | null;
   readonly turnInclusiveMakespanMs: number | null;
+  /** The lower bound on the optimal sum-of-costs the search proved (same unit as soc). */
   readonly lowerBound: number | null;
+  /** (soc − lowerBound) ÷ lowerBound of a solved run (0: proven optimal); null without both. */
+  readonly gap: number | null;
+  /** The suboptimality factor w the run was solved with (1 = exact search). */
+  readonly suboptimality: number;
   readonly runtimeMs: number | null;
   readonly nodes: number | null;
   /** Why a run ended in error / infeasible / a limit, for people. */

@@ -9,6 +9,7 @@
 import { Client } from 'pg';
 import { createRng } from '@solvers/random';
 import * as nominalMigration from '../../api/src/db/migrations/0405-executable-at-nominal';
+import * as boundedMigration from '../../api/src/db/migrations/0407-bounded-suboptimal';
 import { createSequelize } from '../../api/src/db/sequelize';
 import { parameterHash } from '../../api/src/sweeps/parameter-hash';
 import { createTestDatabase, type TestDatabase } from '../support/test-database';
@@ -28,6 +29,9 @@ const MODELS = [
   { model: 'k-robust', k: 2, startHeading: 'free' },
   // The following rule forbidden is its own variant (migration 0405).
   { model: 'classic', startHeading: 'free', following: 'forbidden' },
+  // Bounded-suboptimal search at w > 1 is its own variant (migration 0407).
+  { model: 'classic', startHeading: 'free', suboptimality: 1.5 },
+  { model: 'k-robust', k: 1, startHeading: 'free', suboptimality: 2 },
 ];
 const STATUSES = ['solved', 'solved', 'solved', 'infeasible', 'timeout', 'memory', 'error'];
 
@@ -192,9 +196,52 @@ describe('leaderboard tables kept by triggers equal a rebuild', () => {
     expect(after.entries.some((e) => e['realised_lo_open_loop'] !== null && e['spread_hi_open_loop'] !== null)).toBe(true);
   });
 
+  it('keeps bounded-suboptimal variants apart and marks proven optima (migration 0407)', async () => {
+    const entries = (await snapshot()).entries;
+    const bounded = entries.filter((e) => e['variant'] === 'w=1.5');
+    expect(bounded.length).toBeGreaterThan(0);
+    expect(bounded.every((e) => e['suboptimality'] === 1.5 && e['model'] === 'classic')).toBe(true);
+    expect(entries.filter((e) => e['variant'] === 'k=1 w=2').every((e) => e['suboptimality'] === 2)).toBe(true);
+    expect(entries.filter((e) => e['variant'] === '' || e['variant'] === 'k=1').every((e) => e['suboptimality'] === 1)).toBe(true);
+    // Each solved entry: proven optimal exactly when soc equals the best proven lower bound; otherwise bounded (w > 1) or unproven.
+    let compared = 0;
+    for (const e of entries) {
+      const expected = e['status'] !== 'solved' ? null
+        : e['lower_bound'] !== null && (e['soc'] as number) <= (e['lower_bound'] as number) ? 'proven optimal'
+          : (e['suboptimality'] as number) > 1 ? 'bounded' : 'unproven';
+      expect(e['optimality']).toBe(expected);
+      compared++;
+    }
+    expect(compared).toBe(entries.length);
+    for (const value of ['proven optimal', 'bounded', 'unproven']) expect(entries.some((e) => e['optimality'] === value)).toBe(true);
+    // results.gap follows the stored figures.
+    const gaps = await rows<{ soc: number; lower_bound: number; gap: number }>(
+      "SELECT soc, lower_bound, gap FROM results WHERE status = 'solved' AND lower_bound > 0");
+    expect(gaps.length).toBeGreaterThan(0);
+    for (const g of gaps) expect(g.gap).toBeCloseTo(Math.max(0, (g.soc - g.lower_bound) / g.lower_bound), 12);
+  });
+
   it('after a set turns public and changes owner', async () => {
     const after = await expectRebuildEqualAfter(() => c.query("UPDATE instance_sets SET visibility = 'public', owner_id = 1 WHERE id = $1", [privateSet]));
     expect(after.compare.filter((r) => r['instance_set_id'] === privateSet).every((r) => r['is_public'] === true && r['owner_id'] === 1)).toBe(true);
+  });
+
+  it('undoing and redoing migration 0407 leaves the same tables; undone, bounded results join the exact variant', async () => {
+    const before = await snapshot();
+    const sequelize = createSequelize(db.url, { poolMax: 1 });
+    try {
+      const context = sequelize.getQueryInterface();
+      await boundedMigration.down({ context, name: '0407-bounded-suboptimal' } as Parameters<typeof boundedMigration.down>[0]);
+      const undone = await snapshot();
+      expect(undone.entries.some((e) => String(e['variant']).includes('w='))).toBe(false);
+      expect(Object.keys(undone.entries[0])).not.toContain('optimality');
+      expect(undone.entries.length).toBeLessThan(before.entries.length);
+      await boundedMigration.up({ context, name: '0407-bounded-suboptimal' } as Parameters<typeof boundedMigration.up>[0]);
+    } finally {
+      await sequelize.close();
+    }
+    expect(await snapshot()).toEqual(before);
+    expect(before).toEqual(await rebuilt());
   });
 
   it('undoing and redoing migration 0405 leaves the same tables', async () => {
@@ -206,6 +253,8 @@ describe('leaderboard tables kept by triggers equal a rebuild', () => {
     const sequelize = createSequelize(db.url, { poolMax: 1 });
     try {
       const context = sequelize.getQueryInterface();
+      // 0407 builds on 0405's variant, so it goes first and comes back last.
+      await boundedMigration.down({ context, name: '0407-bounded-suboptimal' } as Parameters<typeof boundedMigration.down>[0]);
       await nominalMigration.down({ context, name: '0405-executable-at-nominal' } as Parameters<typeof nominalMigration.down>[0]);
       const undone = await snapshot();
       // 0401's variant knows no following rule: those results join the plain classic variant again.
@@ -215,6 +264,7 @@ describe('leaderboard tables kept by triggers equal a rebuild', () => {
       expect(undone.entries.some((e) => e['variant'] === 'following forbidden')).toBe(false);
       expect(Object.keys(undone.entries[0])).not.toContain('executable_at_nominal');
       await nominalMigration.up({ context, name: '0405-executable-at-nominal' } as Parameters<typeof nominalMigration.up>[0]);
+      await boundedMigration.up({ context, name: '0407-bounded-suboptimal' } as Parameters<typeof boundedMigration.up>[0]);
     } finally {
       await sequelize.close();
     }

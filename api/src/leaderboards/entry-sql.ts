@@ -65,6 +65,9 @@ export const ENTRY_SQL: Readonly<Record<string, string>> = {
   lowerBoundSteps: 'e.lower_bound_steps',
   lowerBoundMs: 'e.lower_bound_ms',
   gap: 'e.gap',
+  // Migration 0407: generated from the variant and the figures, each with a sort index.
+  optimality: 'e.optimality',
+  suboptimality: 'e.suboptimality',
   runtimeMs: 'e.runtime_ms',
   ...POLICY_SQL,
   source: 'e.source',

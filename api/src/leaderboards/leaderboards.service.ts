@@ -104,8 +104,9 @@ export function createLeaderboardsService(deps: { readonly sequelize: Sequelize;
         return `avg(${c}) ${solved} AS "${p.policy}", stddev_samp(${c}) ${solved} AS "sd:${p.policy}", (count(${c}) ${solved})::int AS "n:${p.policy}"`;
       }).join(', ');
       const [byAgents, ratios, success, maps, profileList] = await Promise.all([
-        select<{ model: string; variant: string; agents: number; instances: number; solved: number; executable: number; colliding: number }>(withV(
+        select<{ model: string; variant: string; agents: number; instances: number; solved: number; executable: number; colliding: number; proven: number; w: number }>(withV(
           `SELECT model, variant, agents, count(*)::int AS instances, (count(*) FILTER (WHERE status = 'solved'))::int AS solved,
+             (count(*) FILTER (WHERE optimality = 'proven optimal'))::int AS proven, max(suboptimality) AS w,
              (count(*) FILTER (WHERE status = 'solved' AND executable_at_nominal))::int AS executable,
              (count(*) FILTER (WHERE status = 'solved' AND NOT executable_at_nominal))::int AS colliding
            FROM v GROUP BY model, variant, agents ORDER BY model, variant, agents`)),
@@ -130,7 +131,7 @@ export function createLeaderboardsService(deps: { readonly sequelize: Sequelize;
         let s = models.get(k);
         if (!s) {
           s = {
-            model: r.model as PlanModel, variant: r.variant, instances: 0, solved: 0, byAgents: [], meanTiMakespanVsClassic: null, pairedWithClassic: 0,
+            model: r.model as PlanModel, variant: r.variant, suboptimality: Number(r.w ?? 1), provenOptimal: 0, instances: 0, solved: 0, byAgents: [], meanTiMakespanVsClassic: null, pairedWithClassic: 0,
             meanSuccess: Object.fromEntries(LEADERBOARD_POLICIES.map((p) => [p.policy, null])),
             meanSuccessCi95: Object.fromEntries(LEADERBOARD_POLICIES.map((p) => [p.policy, null])),
             meanSuccessInstances: Object.fromEntries(LEADERBOARD_POLICIES.map((p) => [p.policy, 0])),
@@ -140,7 +141,7 @@ export function createLeaderboardsService(deps: { readonly sequelize: Sequelize;
         }
         s.byAgents.push({ agents: r.agents, instances: r.instances, solved: r.solved });
         Object.assign(s, {
-          instances: s.instances + r.instances, solved: s.solved + r.solved,
+          instances: s.instances + r.instances, solved: s.solved + r.solved, provenOptimal: s.provenOptimal + r.proven,
           executableAtNominal: s.executableAtNominal + r.executable, notExecutableAtNominal: s.notExecutableAtNominal + r.colliding,
         });
       }

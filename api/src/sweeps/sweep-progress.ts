@@ -1,18 +1,18 @@
 /** Progress and result rows of a sweep, read with SQL aggregates (shared by the routes and the SSE stream). */
 import { QueryTypes, type Sequelize } from 'sequelize';
 import { emptyRunCounts, isSweepOver, type ExecutionView, type RunStatus, type SweepProgress, type SweepResultRow, type SweepStatus } from '@shared/runs';
-import { cbsSwitchLabel, forbidsFollowing, switchesOff, type ModelSpec, type SweepDefinition, type SweepPolicy } from '@shared/sweeps';
+import { cbsSwitchLabel, forbidsFollowing, isBounded, suboptimalityOf, switchesOff, type ModelSpec, type SweepDefinition, type SweepPolicy } from '@shared/sweeps';
 import type { PlanModel } from '@shared/plan';
 
 /**
- * A short label of a model with its parameters, e.g. `k-robust k=2`, `classic following forbidden`,
+ * A short label of a model with its parameters, e.g. `k-robust k=2`, `classic following forbidden`, `classic w=1.5`,
  * `classic without Bypass, WDG heuristic` (switches by their labels in shared/sweeps.ts; the
  * definition in the same response keeps the field names).
  */
 export function modelLabel(m: ModelSpec): string {
   const off = switchesOff(m).map(cbsSwitchLabel);
   return [
-    m.model, m.model === 'k-robust' ? `k=${m.k}` : '', forbidsFollowing(m) ? 'following forbidden' : '', off.length ? `without ${off.join(', ')}` : '',
+    m.model, m.model === 'k-robust' ? `k=${m.k}` : '', isBounded(m) ? `w=${suboptimalityOf(m)}` : '', forbidsFollowing(m) ? 'following forbidden' : '', off.length ? `without ${off.join(', ')}` : '',
   ].filter(Boolean).join(' ');
 }
 
@@ -53,7 +53,7 @@ export async function readProgress(sequelize: Sequelize, sweepId: number, nowMs 
 interface ResultSqlRow {
   run_id: number; result_id: number | null; scenario_id: number; scenario_name: string; map_name: string; agents: number; model_index: number; model: PlanModel;
   seed: string; status: RunStatus; soc: number | null; makespan: number | null; ti_soc: number | null; ti_makespan: number | null;
-  lower_bound: number | null; runtime_ms: number | null; nodes: number | null; reason: string | null; executions: ExecutionView[] | null;
+  lower_bound: number | null; gap: number | null; w: number; runtime_ms: number | null; nodes: number | null; reason: string | null; executions: ExecutionView[] | null;
 }
 
 /** Result rows of a sweep (every run, with its result when there is one), optionally one run only or only runs that are over. */
@@ -61,7 +61,7 @@ export async function readResultRows(sequelize: Sequelize, sweepId: number, opti
   const rows = await sequelize.query<ResultSqlRow>(
     `SELECT r.id AS run_id, res.id AS result_id, r.scenario_id, sc.name AS scenario_name, m.name AS map_name, r.agents, r.model_index, r.model, r.seed, r.status,
        res.soc, res.makespan, res.turn_inclusive_soc_ms AS ti_soc, res.turn_inclusive_makespan_ms AS ti_makespan,
-       res.lower_bound, res.runtime_ms, res.nodes, COALESCE(res.reason, r.reason) AS reason,
+       res.lower_bound, res.gap, COALESCE((r.params->'model'->>'suboptimality')::float8, 1) AS w, res.runtime_ms, res.nodes, COALESCE(res.reason, r.reason) AS reason,
        (SELECT json_agg(json_build_object('policy', e.policy, 'runs', e.runs, 'successRate', e.success_rate, 'collisionsMean', e.collisions_mean,
           'realisedMakespanMeanMs', e.realised_makespan_mean_ms, 'realisedMakespanP95Ms', e.realised_makespan_p95_ms,
           'finishSpreadMeanMs', e.finish_spread_mean_ms, 'ci95', e.metrics->'ci95') ORDER BY e.policy) FROM executions e WHERE e.result_id = res.id) AS executions
@@ -77,7 +77,7 @@ export async function readResultRows(sequelize: Sequelize, sweepId: number, opti
     runId: r.run_id, resultId: r.result_id, scenarioId: r.scenario_id, scenarioName: r.scenario_name, mapName: r.map_name, agents: r.agents,
     modelIndex: r.model_index, model: r.model, seed: Number(r.seed), status: r.status,
     soc: r.soc, makespan: r.makespan, turnInclusiveSocMs: r.ti_soc, turnInclusiveMakespanMs: r.ti_makespan,
-    lowerBound: r.lower_bound, runtimeMs: r.runtime_ms, nodes: r.nodes, reason: r.reason,
+    lowerBound: r.lower_bound, gap: r.gap, suboptimality: r.w, runtimeMs: r.runtime_ms, nodes: r.nodes, reason: r.reason,
     executions: (r.executions ?? []).map((e) => ({ ...e, policy: e.policy as SweepPolicy })),
   }));
 }

@@ -7,7 +7,7 @@ import { formatRateWithInterval, successRateInterval } from './sweep-grid-figure
 
 const row = (over: Partial<SweepResultRow>): SweepResultRow => ({
   runId: 1, resultId: 10, scenarioId: 1, scenarioName: 'sc-1', mapName: 'quay', agents: 4, modelIndex: 0, model: 'classic', seed: 1,
-  status: 'solved', soc: 20, makespan: 8, turnInclusiveSocMs: 26_400, turnInclusiveMakespanMs: 9_800, lowerBound: 19, runtimeMs: 3.2, nodes: 5,
+  status: 'solved', soc: 20, makespan: 8, turnInclusiveSocMs: 26_400, turnInclusiveMakespanMs: 9_800, lowerBound: 19, gap: 1 / 19, suboptimality: 1, runtimeMs: 3.2, nodes: 5,
   reason: null, executions: [], ...over,
 });
 const execution = (over: Partial<ExecutionView>): ExecutionView => ({
