@@ -13,6 +13,7 @@ import { ensureWebBuild } from '../../scripts/web-build';
 import { createTestDatabase, type TestDatabase } from '../support/test-database';
 import { ROOT, spawnWorker, startSweepServer, waitForSweep, workerReady, type SweepServer, type WorkerProcess } from '../reliability/support/sweep-harness';
 import { launchBrowser, type E2eBrowser } from './support/browser';
+import { demoIdentity, signInThroughUi } from './support/sign-in';
 
 describe('the seeded demo board, as a visitor', () => {
   let db: TestDatabase;
@@ -22,6 +23,8 @@ describe('the seeded demo board, as a visitor', () => {
   let page: Page;
   let runCount: number;
   const pageErrors: string[] = [];
+  /** Console errors and warnings, each with the page it appeared on (issue 14: no console error on any page). */
+  const consoleProblems: string[] = [];
 
   beforeAll(async () => {
     const webDist = resolve(ROOT, 'dist/web/browser');
@@ -42,6 +45,9 @@ describe('the seeded demo board, as a visitor', () => {
     browser = await launchBrowser();
     page = browser.page;
     page.on('pageerror', (err) => pageErrors.push(err.message));
+    page.on('console', (msg) => {
+      if (msg.type() === 'error' || msg.type() === 'warning') consoleProblems.push(`${new URL(page.url()).pathname}${new URL(page.url()).search}: ${msg.type()}: ${msg.text()}`);
+    });
   }, 300_000);
 
   afterAll(async () => {
@@ -68,6 +74,68 @@ describe('the seeded demo board, as a visitor', () => {
     for (const model of PLAN_MODELS) expect(headers.some((h) => h.startsWith(model))).toBe(true);
     await page.locator('figure.chart canvas, figure.chart svg').first().waitFor({ timeout: 20_000 });
     expect(await page.locator('.charts .caption').first().innerText()).toMatch(/^All figures: robot profile .+; execution figures under the .+ policy\./);
+  });
+
+  /** Opens `path`, waits for its main heading and lets late requests and redraws settle. */
+  async function visit(path: string, heading: RegExp | string): Promise<void> {
+    await page.goto(`${s.url}${path}`);
+    await page.getByRole('heading', { name: heading }).first().waitFor({ timeout: 20_000 });
+    await page.waitForLoadState('networkidle');
+    await page.waitForTimeout(300);
+  }
+
+  it('draws a 161×63 map viewer at once, inside the window, and keeps its size (issue 14, item 1)', async () => {
+    const [map] = await s.sql<{ id: number; set_id: number; name: string }>(
+      "SELECT m.id, m.instance_set_id AS set_id, m.name FROM maps m WHERE m.name = 'warehouse-10-20-10-2-1.map' LIMIT 1");
+    await visit(`/instance-sets/${map.set_id}/maps/${map.id}`, map.name);
+    const canvas = page.getByRole('img', { name: /Map of 161 by 63 cells/ });
+    await canvas.waitFor();
+    const first = await canvas.boundingBox();
+    await page.waitForTimeout(1000);
+    const later = await canvas.boundingBox();
+    if (!first || !later) throw new Error('the map canvas has no box');
+    // The canvas was sized once from its container: the same box a second later (it used to grow ~25 px/s for 10–15 s).
+    expect(later).toEqual(first);
+    const viewport = page.viewportSize();
+    if (!viewport) throw new Error('no viewport');
+    // "Whole map" fits the visible area: the canvas lies inside the window and draws the map across most of its width.
+    expect(later.x).toBeGreaterThanOrEqual(0);
+    expect(later.x + later.width).toBeLessThanOrEqual(viewport.width);
+    expect(later.y + later.height).toBeLessThanOrEqual(viewport.height);
+    expect(later.width).toBeGreaterThan(viewport.width / 2);
+    expect(consoleProblems.filter((m) => /ResizeObserver/.test(m))).toEqual([]);
+  });
+
+  it('shows every page to a visitor and to an admin without a console error or warning', async () => {
+    const [set] = await s.sql<{ id: number; name: string }>("SELECT id, name FROM instance_sets WHERE visibility = 'public' ORDER BY id LIMIT 1");
+    const [map] = await s.sql<{ id: number; name: string }>('SELECT id, name FROM maps WHERE instance_set_id = :set ORDER BY id LIMIT 1', { set: set.id });
+    const [result] = await s.sql<{ id: number }>("SELECT id FROM results WHERE status = 'solved' ORDER BY id LIMIT 1");
+    const [sweep] = await s.sql<{ id: number }>('SELECT id FROM sweeps WHERE name = :name', { name: DEMO_SWEEP_NAME });
+    const visitorPages: [string, RegExp | string][] = [
+      ['/', /Plans that still hold/],
+      ['/instance-sets', 'Instance sets'],
+      [`/instance-sets/${set.id}`, set.name],
+      [`/instance-sets/${set.id}/maps/${map.id}`, map.name],
+      ['/leaderboards', /Leaderboard/],
+      ['/leaderboards?layout=compare', /Leaderboard/],
+      ['/reports', /Plan model comparison/],
+      [`/plans/view?result=${result.id}`, /Plan viewer/],
+      ['/help', 'Help'],
+      ['/no-such-page', 'No such page'],
+    ];
+    const adminPages: [string, RegExp | string][] = [
+      ['/sweeps', 'Sweeps'],
+      ['/sweeps/new', 'New sweep'],
+      [`/sweeps/${sweep.id}`, DEMO_SWEEP_NAME],
+      ['/leaderboards/submit', /Submit a plan/],
+      ['/admin', 'Accounts'],
+    ];
+    let visited = 0;
+    for (const [path, heading] of visitorPages) { await visit(path, heading); visited += 1; }
+    await signInThroughUi(page, s.url, demoIdentity('admin'));
+    for (const [path, heading] of [...visitorPages, ...adminPages]) { await visit(path, heading); visited += 1; }
+    expect(visited).toBe(2 * visitorPages.length + adminPages.length);
+    expect(consoleProblems).toEqual([]);
   });
 
   it('raised no script error', () => {
