@@ -21,7 +21,9 @@ import { CBS_SWITCH_TEXT, cbsSwitchLabel, checkSweepSize, sweepSize } from '@sha
 import { InstanceSetApi } from '../instance-sets/instance-set-api';
 import { SweepApi } from './sweep-api';
 import { currentPrecisionText, FOLLOWING_EXPLANATION, followingWarning, HALF_WIDTH_CHOICES, percentText, runsNeededText, WAIT_RULE } from './sweep-editor-advice';
-import { definitionFromForm, FORM_MODELS, FORM_POLICIES, FORM_SWITCHES, SWEEP_FORM_DEFAULTS, takesFollowingRule, type SweepFormValue } from './sweep-form-rules';
+import {
+  definitionFromForm, FORM_MODELS, FORM_POLICIES, FORM_SWITCHES, SUBOPTIMALITY_HINT, SWEEP_FORM_DEFAULTS, takesFollowingRule, type SweepFormValue,
+} from './sweep-form-rules';
 import { MiddleEllipsisPipe } from '../core/middle-ellipsis.pipe';
 
 /** The sweep form. */
@@ -66,6 +68,7 @@ export default class SweepEditor {
     return { ...size, refusal: checkSweepSize(size) };
   });
   protected readonly followingExplanation = FOLLOWING_EXPLANATION;
+  protected readonly suboptimalityHint = SUBOPTIMALITY_HINT;
   protected readonly waitRule = WAIT_RULE;
   protected readonly halfWidthChoices = HALF_WIDTH_CHOICES.map((h) => ({ value: h, label: percentText(h) }));
   /** Whether a chosen model takes the following rule (else the choice is hidden). */

@@ -3,7 +3,7 @@
  * values into a SweepDefinitionInput (with the same zod schema the server applies).
  */
 import { FOLLOWING_MODELS, FOLLOWING_RULES, PLAN_MODELS, type FollowingRule, type PlanModel } from '@shared/plan';
-import { CBS_SWITCH_NAMES, SWEEP_POLICIES, SweepDefinitionSchema, type CbsSwitchName, type SweepDefinition, type SweepDefinitionInput, type SweepPolicy } from '@shared/sweeps';
+import { CBS_SWITCH_NAMES, SUBOPTIMALITY_HELP, SWEEP_POLICIES, SweepDefinitionSchema, type CbsSwitchName, type SweepDefinition, type SweepDefinitionInput, type SweepPolicy } from '@shared/sweeps';
 
 type ModelSpecInput = SweepDefinitionInput['models'][number];
 
@@ -25,6 +25,11 @@ export interface SweepFormValue {
    * none); `both` asks for each of those models twice, once per rule, to compare them.
    */
   following: FollowingRule | 'both';
+  /**
+   * Suboptimality factors w as typed (comma list, e.g. "1, 1.5"): every chosen model is asked once
+   * per factor; 1 = exact search.
+   */
+  suboptimality: string;
   switchesOff: CbsSwitchName[];
   forwardMs: number;
   quarterTurnMs: number;
@@ -44,7 +49,7 @@ export interface SweepFormValue {
 /** A first sweep that finishes in seconds on a laptop. */
 export const SWEEP_FORM_DEFAULTS: SweepFormValue = {
   name: '', instanceSetId: null, scenarioIds: [], countMode: 'list', countList: '2, 4, 6', countFrom: 2, countTo: 10, countStep: 2,
-  models: ['classic', 'weighted-split'], k: 1, startHeading: 'free', following: 'allowed', switchesOff: [],
+  models: ['classic', 'weighted-split'], k: 1, startHeading: 'free', following: 'allowed', suboptimality: '1', switchesOff: [],
   forwardMs: 1000, quarterTurnMs: 600, waitMs: 1000, cellPitchMm: 500, robotDiameterMm: 350, timingJitter: 0.1,
   timeLimitS: 30, memoryLimitMb: 512, policies: ['open-loop', 'dependency-gated'], stallProbability: 0, stallMs: 0, monteCarloRuns: 20, seeds: '1',
 };
@@ -61,6 +66,15 @@ export function parseIntegers(text: string): number[] {
   return text.split(/[\s,;]+/).filter((t) => t !== '').map((t) => (/^\d+$/.test(t) ? Number(t) : NaN));
 }
 
+/** The hint under the suboptimality field. */
+export const SUBOPTIMALITY_HINT = `${SUBOPTIMALITY_HELP}. A list (e.g. 1, 1.5) asks for each model once per factor.`;
+
+/** The distinct factors of the suboptimality text in the order typed; NaN for an entry that is no number (the schema then names the field). */
+export function parseFactors(text: string): number[] {
+  const values = text.split(/[\s,;]+/).filter((t) => t !== '').map((t) => (/^\d+(\.\d+)?$/.test(t) ? Number(t) : NaN));
+  return values.filter((w, i) => Number.isNaN(w) || values.indexOf(w) === i);
+}
+
 /** Whether a plan model takes the following rule. */
 export function takesFollowingRule(model: PlanModel): boolean {
   return (FOLLOWING_MODELS as readonly PlanModel[]).includes(model);
@@ -75,13 +89,17 @@ export function followingRulesOf(v: Pick<SweepFormValue, 'following'>): Followin
 export function definitionFromForm(v: SweepFormValue): { readonly definition: SweepDefinition; readonly input: SweepDefinitionInput } | { readonly problem: string } {
   if (v.instanceSetId === null) return { problem: 'Choose an instance set.' };
   const unitStep = { startHeading: v.startHeading, switches: Object.fromEntries(v.switchesOff.map((n) => [n, false])) };
+  const factors = parseFactors(v.suboptimality);
+  if (factors.length === 0) return { problem: 'suboptimality (w): give at least one factor; 1 = optimal.' };
+  // w = 1 is left out, as stored params leave it out (shared/sweeps.ts modelParameters).
+  const atEachW = (spec: ModelSpecInput): ModelSpecInput[] => factors.map((w) => (w === 1 ? spec : { ...spec, suboptimality: w }));
   const input: SweepDefinitionInput = {
     name: v.name,
     instances: { instanceSetId: v.instanceSetId, ...(v.scenarioIds.length ? { scenarioIds: v.scenarioIds } : {}) },
     agentCounts: v.countMode === 'list' ? { kind: 'list', values: parseIntegers(v.countList) } : { kind: 'range', from: v.countFrom, to: v.countTo, step: v.countStep },
     models: v.models.flatMap((model): ModelSpecInput[] => (model === 'weighted-split' ? [{ model, startHeading: v.startHeading }]
       : model === 'k-robust' ? [{ model, k: v.k, ...unitStep }]
-      : followingRulesOf(v).map((following) => ({ model, ...unitStep, following })))),
+      : followingRulesOf(v).map((following) => ({ model, ...unitStep, following }))).flatMap(atEachW)),
     robotProfile: { forwardMs: v.forwardMs, quarterTurnMs: v.quarterTurnMs, waitMs: v.waitMs, cellPitchMm: v.cellPitchMm, robotDiameterMm: v.robotDiameterMm, timingJitter: v.timingJitter },
     timeLimitMs: Math.round(v.timeLimitS * 1000),
     memoryLimitMb: v.memoryLimitMb,
