@@ -33,8 +33,9 @@ describe('sweep grid columns', () => {
   const cols = sweepGridColumns(['open-loop', 'dependency-gated']);
 
   it('puts a unit in the header of every number column and never mixes steps with ms', () => {
-    const numeric = cols.filter((c) => c.type === 'rightAligned' && !['runId', 'agents', 'seed'].includes((c.colId ?? c.field) as string));
-    expect(numeric.length).toBe(12); // 6 plan figures, solve time, CT nodes, 2 per policy × 2
+    // Run parameters (seed, w) carry no unit.
+    const numeric = cols.filter((c) => c.type === 'rightAligned' && !['runId', 'agents', 'seed', 'suboptimality'].includes((c.colId ?? c.field) as string));
+    expect(numeric.length).toBe(13); // 6 plan figures, gap, solve time, CT nodes, 2 per policy × 2
     for (const c of numeric) expect(c.headerName).toMatch(/\((steps|ms|count|%)[,)]/);
     expect(cols.some((c) => /^Sum-of-costs$|model unit/.test(c.headerName ?? ''))).toBe(false);
   });
@@ -74,6 +75,16 @@ describe('sweep grid columns', () => {
     expect(modelVariantLabel(spec, 'classic')).toBe('classic, following forbidden');
     expect(modelVariantLabel({ model: 'k-robust', k: 2, startHeading: 'free', switches: {} } as ModelSpec, 'k-robust')).toBe('k-robust k=2');
     expect(modelVariantLabel(undefined, 'classic')).toBe('classic');
+  });
+
+  it('names w of a bounded spec and shows the gap in %, 0 as proven optimal (issue 15, item 1)', () => {
+    const bounded = { model: 'classic', startHeading: 'free', switches: {}, suboptimality: 1.5 } as unknown as ModelSpec;
+    expect(modelVariantLabel(bounded, 'classic')).toBe('classic, w = 1.5');
+    expect(modelVariantLabel({ ...bounded, suboptimality: 1 } as ModelSpec, 'classic')).toBe('classic');
+    expect(shown(column(cols, 'gap'), row({ soc: 21, lowerBound: 20, gap: 0.05, suboptimality: 1.5 }))).toBe('5.0');
+    expect(shown(column(cols, 'gap'), row({ soc: 20, lowerBound: 20, gap: 0 }))).toBe('0 (proven optimal)');
+    expect(shown(column(cols, 'gap'), row({ status: 'timeout', soc: null, gap: null }))).toBe('');
+    expect(shown(column(cols, 'suboptimality'), row({ suboptimality: 1.25 }))).toBe('1.25');
   });
 
   it('tells specs that differ only in CBS switches apart, by the switches\' labels (issue 14, item 11)', () => {

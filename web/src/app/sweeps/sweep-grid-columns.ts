@@ -8,7 +8,7 @@
 import { themeQuartz, type ColDef, type ValueFormatterParams } from 'ag-grid-community';
 import { CI95_METHOD } from '@shared/confidence-interval';
 import type { ExecutionView, SweepResultRow } from '@shared/runs';
-import { cbsSwitchLabel, forbidsFollowing, switchesOff, type ModelSpec } from '@shared/sweeps';
+import { cbsSwitchLabel, forbidsFollowing, isBounded, SUBOPTIMALITY_HELP, suboptimalityOf, switchesOff, type ModelSpec } from '@shared/sweeps';
 import { formatMs, formatRateWithInterval, realisedMakespanInterval, successRateInterval } from './sweep-grid-figures';
 import { RUN_STATUS_LABEL } from './sweep-status';
 import { middleEllipsisCell } from '../core/middle-ellipsis';
@@ -23,12 +23,13 @@ const inSteps = (pick: (r: SweepResultRow) => number | null) => (p: { data?: Swe
 const inMs = (pick: (r: SweepResultRow) => number | null) => (p: { data?: SweepResultRow }) => (p.data && !isUnitStep(p.data) ? pick(p.data) : null);
 
 /**
- * "classic, following forbidden" / "k-robust k=2" / "classic, without WDG heuristic": the plan model
+ * "classic, following forbidden" / "k-robust k=2" / "classic, w = 1.5" / "classic, without WDG heuristic": the plan model
  * with the parameters that tell the sweep's model specs apart (CBS switches by their labels).
  */
 export function modelVariantLabel(spec: ModelSpec | undefined, fallback: string): string {
   if (!spec) return fallback;
   const parts: string[] = [spec.model + ('k' in spec ? ` k=${spec.k}` : '')];
+  if (isBounded(spec)) parts.push(`w = ${suboptimalityOf(spec)}`);
   if (forbidsFollowing(spec)) parts.push('following forbidden');
   const off = switchesOff(spec);
   if (off.length > 0) parts.push(`without ${off.map(cbsSwitchLabel).join(', ')}`);
@@ -79,6 +80,11 @@ export function sweepGridColumns(policies: readonly string[], models: readonly M
     { field: 'turnInclusiveMakespanMs', headerName: 'Turn-incl. makespan (ms)', width: 190, type: 'rightAligned', valueFormatter: num() },
     { colId: 'lowerBoundMs', headerName: 'Lower bound (ms)', width: 150, type: 'rightAligned', valueGetter: inMs((r) => r.lowerBound), valueFormatter: num(),
       headerTooltip: 'Proven lower bound on the optimal sum-of-costs in ms, weighted-split only' },
+    // A run parameter like the seed (no unit): the factor the search was asked for.
+    { field: 'suboptimality', headerName: 'w', width: 80, type: 'rightAligned', valueFormatter: num(3),
+      headerTooltip: `Suboptimality factor of the search: ${SUBOPTIMALITY_HELP}` },
+    { field: 'gap', headerName: 'Gap (%)', width: 160, type: 'rightAligned', valueFormatter: formatGap,
+      headerTooltip: '(sum-of-costs − lower bound) ÷ lower bound; 0 = proven optimal, otherwise the best known value is within that share of the optimum' },
     { field: 'runtimeMs', headerName: 'Solve time (ms)', width: 140, type: 'rightAligned', valueFormatter: num(1) },
     { field: 'nodes', headerName: 'CT nodes (count)', width: 140, type: 'rightAligned', valueFormatter: num() },
     ...policies.flatMap((policy): ColDef<SweepResultRow>[] => [
@@ -101,6 +107,13 @@ export function sweepGridColumns(policies: readonly string[], models: readonly M
     ]),
     { field: 'reason', headerName: 'Note', flex: 1, minWidth: 200 },
   ];
+}
+
+/** A gap for the grid in %: "0 (proven optimal)" or the share with 1 decimal (at least 0.1 when not 0); empty without one. */
+export function formatGap(p: { value?: number | null }): string {
+  if (p.value === null || p.value === undefined) return '';
+  if (p.value === 0) return '0 (proven optimal)';
+  return Math.max(0.1, p.value * 100).toLocaleString('en', { minimumFractionDigits: 1, maximumFractionDigits: 1 });
 }
 
 /** A link to the plan viewer replaying a solved run's stored plan; nothing for runs without a plan. */
