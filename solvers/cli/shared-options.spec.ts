@@ -11,7 +11,7 @@ import { MAX_K } from '../models/k-robust-model';
 import { DEFAULT_ROBOT_PROFILE } from '../models/heading-schedule';
 import { solveModel } from '../models/solve-model';
 import { loadInstance } from './load-instance';
-import { SHARED_DEFAULTS, SHARED_HELP, UsageError, WEIGHTED_SPLIT_WAIT_NOTE, parseSharedOptions } from './shared-options';
+import { SHARED_DEFAULTS, SHARED_HELP, UsageError, WEIGHTED_SPLIT_WAIT_NOTE, modelSolveOptions, parseSharedOptions } from './shared-options';
 
 const ROOT = resolve(__dirname, '../..');
 const TSX = join(ROOT, 'node_modules/.bin/tsx');
@@ -36,7 +36,7 @@ describe('parseSharedOptions', () => {
     expect(options).toEqual({
       mapFile: MAP, scenFile: SCEN, agents: 3, model: 'classic', timeLimitSeconds: 60,
       timing: { forwardMs: DEFAULT_ROBOT_PROFILE.forwardMs, quarterTurnMs: DEFAULT_ROBOT_PROFILE.quarterTurnMs, waitMs: DEFAULT_ROBOT_PROFILE.waitMs },
-      startHeading: 'free', k: undefined, following: undefined, json: false,
+      startHeading: 'free', k: undefined, following: undefined, suboptimality: 1, json: false,
     });
     expect(SHARED_DEFAULTS.timeLimitSeconds).toBe(60);
     expect(notes).toEqual([]);
@@ -89,6 +89,23 @@ describe('parseSharedOptions', () => {
     expect(compared).toBe(2);
   });
 
+  it('takes --suboptimality from 1 to 10 for every model and passes it to solveModel only when above 1', () => {
+    let compared = 0;
+    for (const model of ['classic', 'uniform-duration', 'orientation-split', 'weighted-split', 'k-robust']) {
+      const k = model === 'k-robust' ? { k: '1' } : {};
+      const parsed = parseSharedOptions({ ...base, model, ...k, suboptimality: '1.25' }).options;
+      expect(parsed.suboptimality).toBe(1.25);
+      expect(modelSolveOptions(parsed, DEFAULT_ROBOT_PROFILE).suboptimality).toBe(1.25);
+      const exact = parseSharedOptions({ ...base, model, ...k, suboptimality: '1' }).options;
+      expect('suboptimality' in modelSolveOptions(exact, DEFAULT_ROBOT_PROFILE)).toBe(false);
+      compared++;
+    }
+    expect(compared).toBe(5);
+    for (const bad of ['0.9', '10.5', 'fast', '', 'Infinity']) {
+      expect(refusal({ ...base, suboptimality: bad })).toBe(`--suboptimality must be a number from 1 to 10 (1 = optimal), got '${bad}'`);
+    }
+  });
+
   it('adds the weighted-split wait note only when --wait-ms is given with weighted-split', () => {
     expect(parseSharedOptions({ ...base, model: 'weighted-split', 'wait-ms': '500' }).notes).toEqual([WEIGHTED_SPLIT_WAIT_NOTE]);
     expect(parseSharedOptions({ ...base, model: 'weighted-split' }).notes).toEqual([]);
@@ -111,6 +128,7 @@ describe('solve and execute parse the shared options identically', () => {
     [['--start-heading', 'NE'], "--start-heading must be N, E, S, W or free, got 'NE'"],
     [['--model', 'weighted-split', '--following', 'forbidden'], '--following applies to classic, uniform-duration, orientation-split only, not weighted-split: weighted-split plans run on a continuous ms timeline, where no unit step defines following'],
     [['--following', 'never'], "--following must be allowed or forbidden, got 'never'"],
+    [['--suboptimality', '0.5'], "--suboptimality must be a number from 1 to 10 (1 = optimal), got '0.5'"],
   ];
 
   it('refuses the same bad shared options with the same message and exit code 2', () => {
@@ -124,7 +142,7 @@ describe('solve and execute parse the shared options identically', () => {
       expect([execute.status, execute.stderr.split('\n')[0]]).toEqual([2, `execute: ${message}`]);
       compared++;
     }
-    expect(compared).toBe(12);
+    expect(compared).toBe(13);
   });
 
   it.each([

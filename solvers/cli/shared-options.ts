@@ -12,6 +12,7 @@ import {
 import { DEFAULT_ROBOT_PROFILE } from '../models/heading-schedule';
 import { MAX_K } from '../models/k-robust-model';
 import { checkFollowing, isPlanModel, type ModelSolveOptions } from '../models/solve-model';
+import { MAX_SUBOPTIMALITY } from '../search/suboptimality';
 
 /** A refused command line (exit code 2). */
 export class UsageError extends Error {}
@@ -29,6 +30,7 @@ export const SHARED_DEFAULTS = {
   timeLimitSeconds: 60,
   startHeading: 'free' as StartHeading,
   following: 'allowed' as FollowingChoice,
+  suboptimality: 1,
   forwardMs: DEFAULT_ROBOT_PROFILE.forwardMs,
   quarterTurnMs: DEFAULT_ROBOT_PROFILE.quarterTurnMs,
   waitMs: DEFAULT_ROBOT_PROFILE.waitMs,
@@ -47,6 +49,7 @@ export const SHARED_OPTION_SPECS = {
   k: { type: 'string' },
   'start-heading': { type: 'string' },
   following: { type: 'string' },
+  suboptimality: { type: 'string' },
   json: { type: 'boolean' },
   help: { type: 'boolean', short: 'h' },
 } as const;
@@ -66,6 +69,8 @@ export const SHARED_HELP = [
   `  --start-heading H          N, E, S, W or free: heading of agents whose task has none (default ${SHARED_DEFAULTS.startHeading})`,
   `  --following RULE           allowed or forbidden (default ${SHARED_DEFAULTS.following}); ${FOLLOWING_MODELS.join(', ')} only;`,
   '                             forbidden: no agent enters a cell another agent occupied one step before',
+  `  --suboptimality W          factor w from 1 to ${MAX_SUBOPTIMALITY} (default ${SHARED_DEFAULTS.suboptimality} = optimal); w > 1: bounded search,`,
+  '                             the plan\'s sum-of-costs is at most w × the lower bound it proves (ECBS / EECBS)',
   '  --json                     print one JSON object on stdout',
   '  -h, --help                 print this help',
 ];
@@ -84,6 +89,8 @@ export interface SharedOptions {
   readonly k: number | undefined;
   /** Only when given on the command line (so models without the rule never receive it). */
   readonly following: FollowingChoice | undefined;
+  /** Suboptimality factor w (1 = optimal search). */
+  readonly suboptimality: number;
   readonly json: boolean;
 }
 
@@ -149,20 +156,26 @@ export function parseSharedOptions(raw: RawShared): ParsedShared {
       throw new UsageError((error as Error).message.replace(/^option following/, '--following'));
     }
   }
+  const wText = raw.suboptimality;
+  const suboptimality = wText === undefined ? SHARED_DEFAULTS.suboptimality : Number(wText);
+  if (wText !== undefined && (wText.trim() === '' || !Number.isFinite(suboptimality) || suboptimality < 1 || suboptimality > MAX_SUBOPTIMALITY)) {
+    throw new UsageError(`--suboptimality must be a number from 1 to ${MAX_SUBOPTIMALITY} (1 = optimal), got '${wText}'`);
+  }
   const notes = model === 'weighted-split' && raw['wait-ms'] !== undefined ? [WEIGHTED_SPLIT_WAIT_NOTE] : [];
   return {
     options: {
-      mapFile: raw.map, scenFile: raw.scen, agents, model, timeLimitSeconds, timing, startHeading, k, following, json: raw.json ?? false,
+      mapFile: raw.map, scenFile: raw.scen, agents, model, timeLimitSeconds, timing, startHeading, k, following, suboptimality, json: raw.json ?? false,
     },
     notes,
   };
 }
 
-/** The solveModel options of the shared options under a robot profile; `following` only when given. */
+/** The solveModel options of the shared options under a robot profile; `following` only when given, `suboptimality` only when > 1. */
 export function modelSolveOptions(options: SharedOptions, profile: RobotProfile): ModelSolveOptions {
   return {
     timeLimitMs: options.timeLimitSeconds * 1000, now: () => performance.now(), profile, startHeading: options.startHeading, k: options.k,
     ...(options.following !== undefined ? { following: options.following } : {}),
+    ...(options.suboptimality > 1 ? { suboptimality: options.suboptimality } : {}),
   };
 }
 

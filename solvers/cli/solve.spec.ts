@@ -22,7 +22,7 @@ const DATASET = OPEN_GRID_BENCHMARKS_DIR;
 // The local tsx binary is what `npx tsx` resolves to; calling it directly skips npx's start-up.
 const TSX = join(ROOT, 'node_modules/.bin/tsx');
 const solve = (...args: string[]) => spawnSync(TSX, ['solvers/cli/solve.ts', ...args], { cwd: ROOT, encoding: 'utf8' });
-const CORE_KEYS = ['lowLevelExpansions', 'lowerBound', 'makespan', 'nodes', 'paths', 'runtimeMs', 'soc', 'status'];
+const CORE_KEYS = ['lowLevelExpansions', 'lowerBound', 'makespan', 'nodes', 'paths', 'runtimeMs', 'soc', 'status', 'suboptimality', 'gap'];
 const MODEL_KEYS = ['model', 'parameters', 'profile', 'units', 'turnInclusiveSocMs', 'turnInclusiveMakespanMs', 'turns', 'schedule'];
 
 describe('npm run solve', () => {
@@ -39,6 +39,7 @@ describe('npm run solve', () => {
     expect(Object.keys(out.nodes).sort()).toEqual(['expanded', 'generated']);
     expect(out.status).toBe('solved');
     expect(out.lowerBound).toBe(out.soc);
+    expect([out.suboptimality, out.gap]).toEqual([1, 0]);
     // Paths are [x, y] per step: map them back to cells and let the independent validator judge them.
     const map = parseMap(readFileSync(mapFile, 'utf8'));
     const scen = parseScenario(readFileSync(scenFile, 'utf8'));

@@ -11,6 +11,7 @@ import type { FollowingRule, PlanModel, RobotProfile, Schedule, StartHeading } f
 import { FOLLOWING_MODELS, FOLLOWING_RULES, PLAN_MODELS } from '@shared/plan';
 import type { MapfInstance } from '../instance';
 import type { CbsOptions, CbsStatus, CbsSwitches } from '../search/cbs-types';
+import { checkSuboptimality, gapOf, isWithinBound } from '../search/suboptimality';
 import { validateClassicPlan } from '../validate/classic';
 import { validateKRobustPlan } from '../validate/k-robust';
 import { type OrientedState, validateOrientationPlan } from '../validate/orientation-split';
@@ -38,6 +39,13 @@ export interface ModelSolveOptions extends CbsOptions {
    * 2019). Refused for k-robust (k ≥ 1 already forbids following) and weighted-split (ms times).
    */
   readonly following?: FollowingRule;
+  /**
+   * Suboptimality factor w (default 1 = optimal): a finite number from 1 to MAX_SUBOPTIMALITY
+   * (solvers/search/suboptimality.ts). With w > 1 the search is bounded
+   * (ECBS, Barer et al., SoCS 2014; EECBS, Li, Ruml, Koenig, AAAI 2021) and a plan is solved
+   * only when its SOC ≤ w × the proven lower bound.
+   */
+  readonly suboptimality?: number;
 }
 
 /** The parameters a result was produced with. */
@@ -49,6 +57,8 @@ export interface ModelParameters {
   readonly following?: FollowingRule;
   /** The CBS improvements in effect (unit-step models; weighted-split has its own search). */
   readonly switches?: CbsSwitches;
+  /** Present only when w > 1, so exact results keep the parameters (and hashes) they always had. */
+  readonly suboptimality?: number;
 }
 
 /** The plan in the model's own form. */
@@ -69,8 +79,13 @@ export interface ModelResult {
   readonly units: 'steps' | 'ms';
   readonly soc: number | null;
   readonly makespan: number | null;
-  /** Proven lower bound on the optimal SOC (= soc when solved). */
+  /**
+   * Proven lower bound on the optimal SOC: = soc when solved with w = 1; for a bounded solve
+   * (w > 1) the bound the search proved (soc ≤ w × lowerBound), never the soc itself.
+   */
   readonly lowerBound: number | null;
+  /** (soc − lowerBound) / lowerBound: 0 for an exact solve, null unless solved. */
+  readonly gap: number | null;
   readonly turnInclusiveSocMs: number | null;
   readonly turnInclusiveMakespanMs: number | null;
   /** Quarter turns in the schedule. */
@@ -110,12 +125,14 @@ export function solveModel(model: PlanModel, instance: MapfInstance, options: Mo
   const startHeading = checkStartHeading(options.startHeading ?? 'free', model);
   if (model === 'k-robust' && options.k === undefined) throw new RangeError('k-robust: option k is required');
   const following = checkFollowing(options.following, model);
-  const head = { model, profile };
+  const w = checkSuboptimality(options.suboptimality);
+  const bounded = w > 1 ? { suboptimality: w } : {};
+  const head = { model, profile, w };
   switch (model) {
     case 'classic':
     case 'uniform-duration': {
-      const r = solveClassic(instance, { ...options, following });
-      const parameters = { startHeading, following, switches: r.switches };
+      const r = solveClassic(instance, { ...options, following, suboptimality: w });
+      const parameters = { startHeading, following, switches: r.switches, ...bounded };
       if (r.status !== 'solved') return unsolved(head, parameters, 'steps', r);
       const turned = scheduleFromPaths(instance, r.paths, profile, { startHeading, stretch: model === 'classic' ? 'none' : 'uniform' });
       return finish(head, parameters, 'steps', r, validateClassicPlan(instance, r.paths, { following }), 'classic', {
@@ -126,8 +143,8 @@ export function solveModel(model: PlanModel, instance: MapfInstance, options: Mo
     }
     case 'k-robust': {
       const k = options.k as number;
-      const r = solveKRobust(instance, { ...options, k, profile, startHeading });
-      const parameters = { startHeading, k, switches: r.switches };
+      const r = solveKRobust(instance, { ...options, k, profile, startHeading, suboptimality: w });
+      const parameters = { startHeading, k, switches: r.switches, ...bounded };
       if (r.status !== 'solved') return unsolved(head, parameters, 'steps', r);
       return finish(head, parameters, 'steps', r, validateKRobustPlan(instance, r.paths, k), 'k-robust', {
         soc: r.soc, makespan: r.makespan, lowerBound: r.lowerBound, plan: { kind: 'paths', paths: r.paths },
@@ -136,8 +153,8 @@ export function solveModel(model: PlanModel, instance: MapfInstance, options: Mo
       });
     }
     case 'orientation-split': {
-      const r = solveOrientationSplit(instance, { ...options, profile, startHeading, following });
-      const parameters = { startHeading, following, switches: r.switches };
+      const r = solveOrientationSplit(instance, { ...options, profile, startHeading, following, suboptimality: w });
+      const parameters = { startHeading, following, switches: r.switches, ...bounded };
       if (r.status !== 'solved') return unsolved(head, parameters, 'steps', r);
       return finish(head, parameters, 'steps', r, validateOrientationPlan(instance, r.states, startHeading, { following }), 'orientation-split', {
         soc: r.soc, makespan: r.makespan, lowerBound: r.lowerBound, plan: { kind: 'states', states: r.states },
@@ -146,22 +163,22 @@ export function solveModel(model: PlanModel, instance: MapfInstance, options: Mo
       });
     }
     case 'weighted-split':
-      return solveWeighted(instance, options, profile, startHeading);
+      return solveWeighted(instance, options, profile, startHeading, w);
     default:
       throw new RangeError(`unknown plan model ${JSON.stringify(model)}`);
   }
 }
 
 /** Weighted-split: its own CCBS search in ms, the same instance pre-checks as the unit-step models. */
-function solveWeighted(instance: MapfInstance, options: ModelSolveOptions, profile: RobotProfile, startHeading: StartHeading): ModelResult {
-  const head = { model: 'weighted-split' as const, profile };
-  const parameters = { startHeading };
+function solveWeighted(instance: MapfInstance, options: ModelSolveOptions, profile: RobotProfile, startHeading: StartHeading, w: number): ModelResult {
+  const head = { model: 'weighted-split' as const, profile, w };
+  const parameters = { startHeading, ...(w > 1 ? { suboptimality: w } : {}) };
   const noCounts = { runtimeMs: 0, nodesGenerated: 0, nodesExpanded: 0, lowLevelExpansions: 0, lowerBound: null };
   const problem = checkInstance(instance);
   if (problem !== null) return unsolved(head, parameters, 'ms', { ...noCounts, status: problem.status, reason: problem.reason });
   // Solvers own no clock: without an injected one the time limit is not enforced (as in solveClassic).
   const r = solveWeightedSplit(instance, {
-    profile, startHeading, nodeLimit: options.nodeLimit, signal: options.signal,
+    profile, startHeading, nodeLimit: options.nodeLimit, signal: options.signal, suboptimality: w,
     ...(options.now ? { now: options.now, timeLimitMs: options.timeLimitMs } : { now: () => 0 }),
   });
   const counts = {
@@ -180,7 +197,8 @@ function solveWeighted(instance: MapfInstance, options: ModelSolveOptions, profi
   });
 }
 
-type Head = Pick<ModelResult, 'model' | 'profile'>;
+/** The model, its profile and the suboptimality factor w of the solve (w is not part of the result itself). */
+type Head = Pick<ModelResult, 'model' | 'profile'> & { readonly w: number };
 type Counts = Pick<ModelResult, 'runtimeMs' | 'nodesGenerated' | 'nodesExpanded' | 'lowLevelExpansions'>;
 type Solved = Pick<ModelResult, 'soc' | 'makespan' | 'lowerBound' | 'plan' | 'schedule' | 'timeline' | 'waitStepMs'
   | 'turnInclusiveSocMs' | 'turnInclusiveMakespanMs' | 'turns'>;
@@ -190,15 +208,18 @@ function unsolved(
   r: Counts & { readonly status: CbsStatus; readonly reason?: string; readonly lowerBound: number | null },
 ): ModelResult {
   return {
-    ...head, parameters, units, status: r.status, ...(r.reason !== undefined ? { reason: r.reason } : {}),
-    soc: null, makespan: null, lowerBound: r.lowerBound,
+    model: head.model, profile: head.profile, parameters, units, status: r.status, ...(r.reason !== undefined ? { reason: r.reason } : {}),
+    soc: null, makespan: null, lowerBound: r.lowerBound, gap: null,
     turnInclusiveSocMs: null, turnInclusiveMakespanMs: null, turns: null,
     schedule: [], timeline: units === 'ms' ? 'ms' : 'steps', waitStepMs: head.profile.waitMs, plan: null, isValidated: false,
     runtimeMs: r.runtimeMs, nodesGenerated: r.nodesGenerated, nodesExpanded: r.nodesExpanded, lowLevelExpansions: r.lowLevelExpansions,
   };
 }
 
-/** A solved result, or `error` when the independent validator rejects the plan or recomputes another SOC. */
+/**
+ * A solved result, or `error` when the independent validator rejects the plan, recomputes
+ * another SOC, or (bounded solves) the SOC exceeds w × the proven lower bound.
+ */
 function finish(
   head: Head, parameters: ModelParameters, units: 'steps' | 'ms', r: Counts & { readonly soc: number | null },
   check: PlanCheck, validator: string, solved: Solved,
@@ -210,7 +231,15 @@ function finish(
       : `the solver reported sum-of-costs ${r.soc} but the ${validator} validator recomputed ${check.soc}`;
     return unsolved(head, parameters, units, { ...counts, status: 'error', reason, lowerBound: null });
   }
-  return { ...head, parameters, units, status: 'solved', ...solved, isValidated: true, ...counts };
+  const soc = solved.soc as number;
+  const lb = solved.lowerBound as number;
+  if (solved.lowerBound === null || lb > soc || !isWithinBound(soc, lb, head.w)) {
+    const reason = `the solver's sum-of-costs ${soc} is not within ${head.w} × its lower bound ${String(solved.lowerBound)}`;
+    return unsolved(head, parameters, units, { ...counts, status: 'error', reason, lowerBound: solved.lowerBound });
+  }
+  return {
+    model: head.model, profile: head.profile, parameters, units, status: 'solved', ...solved, gap: gapOf(soc, lb), isValidated: true, ...counts,
+  };
 }
 
 /**

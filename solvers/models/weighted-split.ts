@@ -39,6 +39,11 @@ export interface WeightedSplitOptions {
   readonly signal?: AbortSignal;
   /** Injected clock in ms (defaults to performance.now). */
   readonly now?: () => number;
+  /**
+   * Suboptimality factor w ≥ 1 (default 1 = optimal): with w > 1 a bounded search whose plan's
+   * SOC is at most w × `lowerBoundMs` (solvers/search/suboptimality.ts).
+   */
+  readonly suboptimality?: number;
 }
 
 /** How a weighted-split solve ended: `timeout` covers both the time and the node limit. */
@@ -65,7 +70,7 @@ export interface WeightedSplitResult {
   readonly socMs: number | null;
   /** Turn-inclusive makespan in ms. */
   readonly makespanMs: number | null;
-  /** Proven lower bound on the optimal SOC (= socMs when solved). */
+  /** Proven lower bound on the optimal SOC (= socMs when solved optimally; soc ≤ w × it for a bounded solve). */
   readonly lowerBoundMs: number | null;
   /** Number of quarter turns in the schedule. */
   readonly turns: number | null;

@@ -14,6 +14,7 @@ import type { Schedule } from '@shared/plan';
 import type { RunLimits } from './limits';
 import type { PlanTask, PlanTaskResult, TaskPlan } from './plan-task';
 import { replayPlan } from './replay-plan';
+import { boundViolation, suboptimalityOf } from './task-suboptimality';
 
 /** Runs an orientation-split or k-robust task. */
 export function runCbsModelTask(task: PlanTask, instance: MapfInstance, limits: RunLimits): PlanTaskResult {
@@ -21,6 +22,7 @@ export function runCbsModelTask(task: PlanTask, instance: MapfInstance, limits: 
   const common = {
     timeLimitMs: task.timeLimitMs, memoryLimitMb: task.memoryLimitMb, signal: limits.signal, now: limits.now,
     profile: task.profile, startHeading: spec.model === 'weighted-split' ? undefined : spec.startHeading,
+    suboptimality: suboptimalityOf(spec),
   };
   let out;
   let check: () => PlanCheck;
@@ -55,6 +57,8 @@ export function runCbsModelTask(task: PlanTask, instance: MapfInstance, limits: 
   if (verdict.soc !== out.soc) {
     return { ...base, status: 'error', reason: `the solver reported sum-of-costs ${out.soc} but the validator recomputed ${verdict.soc}`, lowerBound: out.lowerBound };
   }
+  const outOfBound = boundViolation(verdict.soc, out.lowerBound, common.suboptimality);
+  if (outOfBound !== null) return { ...base, status: 'error', reason: outOfBound, lowerBound: out.lowerBound };
   const schedule: Schedule = out.schedule;
   const executions = replayPlan(instance, { timeline: 'steps', schedule }, task.profile, task.execution, task.seed, limits.signal);
   return {

@@ -11,6 +11,7 @@ import type { MapfInstance } from '../instance';
 import type { RunLimits } from './limits';
 import type { PlanTask, PlanTaskResult } from './plan-task';
 import { replayPlan } from './replay-plan';
+import { boundViolation, suboptimalityOf } from './task-suboptimality';
 
 /** Runs a classic or uniform-duration task. */
 export function runUnitStepTask(task: PlanTask, instance: MapfInstance, limits: RunLimits): PlanTaskResult {
@@ -18,6 +19,7 @@ export function runUnitStepTask(task: PlanTask, instance: MapfInstance, limits: 
   if (spec.model !== 'classic' && spec.model !== 'uniform-duration') throw new Error(`runUnitStepTask: model ${spec.model} is not a unit-step model`);
   // Definitions stored before the following rule existed lack the field: the classic rule.
   const following = spec.following ?? 'allowed';
+  const w = suboptimalityOf(spec);
   const out = solveClassic(instance, {
     timeLimitMs: task.timeLimitMs,
     memoryLimitMb: task.memoryLimitMb,
@@ -25,6 +27,7 @@ export function runUnitStepTask(task: PlanTask, instance: MapfInstance, limits: 
     now: limits.now,
     switches: spec.switches as Partial<CbsSwitches>,
     following,
+    suboptimality: w,
   });
   const base = {
     runtimeMs: out.runtimeMs, nodesGenerated: out.nodesGenerated, nodesExpanded: out.nodesExpanded,
@@ -44,6 +47,8 @@ export function runUnitStepTask(task: PlanTask, instance: MapfInstance, limits: 
   if (check.soc !== out.soc) {
     return { ...base, status: 'error', reason: `the solver reported sum-of-costs ${out.soc} but the validator recomputed ${check.soc}`, lowerBound: out.lowerBound };
   }
+  const outOfBound = boundViolation(check.soc, out.lowerBound, w);
+  if (outOfBound !== null) return { ...base, status: 'error', reason: outOfBound, lowerBound: out.lowerBound };
   const turned = scheduleFromPaths(instance, out.paths, task.profile, {
     startHeading: spec.startHeading,
     stretch: spec.model === 'uniform-duration' ? 'uniform' : 'none',

@@ -8,11 +8,13 @@ import type { MapfInstance } from '../instance';
 import type { RunLimits } from './limits';
 import type { PlanTask, PlanTaskResult } from './plan-task';
 import { replayPlan } from './replay-plan';
+import { boundViolation, suboptimalityOf } from './task-suboptimality';
 
 /** Runs a weighted-split task. */
 export function runWeightedSplitTask(task: PlanTask, instance: MapfInstance, limits: RunLimits): PlanTaskResult {
   const spec = task.model;
   if (spec.model !== 'weighted-split') throw new Error(`runWeightedSplitTask: model ${spec.model} is not weighted-split`);
+  const w = suboptimalityOf(spec);
   // Without an injected clock the solver would read performance.now itself; pass an unbounded limit then.
   const out = solveWeightedSplit(instance, {
     profile: task.profile,
@@ -20,6 +22,7 @@ export function runWeightedSplitTask(task: PlanTask, instance: MapfInstance, lim
     timeLimitMs: limits.now ? task.timeLimitMs : undefined,
     signal: limits.signal,
     now: limits.now,
+    suboptimality: w,
   });
   const base = {
     runtimeMs: out.runtimeMs, nodesGenerated: out.nodes.generated, nodesExpanded: out.nodes.expanded,
@@ -37,6 +40,8 @@ export function runWeightedSplitTask(task: PlanTask, instance: MapfInstance, lim
   if (check.soc !== out.socMs) {
     return { ...base, status: 'error', reason: `the solver reported sum-of-costs ${out.socMs} ms but the validator recomputed ${check.soc} ms`, lowerBound: out.lowerBoundMs };
   }
+  const outOfBound = boundViolation(check.soc, out.lowerBoundMs, w);
+  if (outOfBound !== null) return { ...base, status: 'error', reason: outOfBound, lowerBound: out.lowerBoundMs };
   const executions = replayPlan(instance, { timeline: 'ms', schedule: out.schedule }, task.profile, task.execution, task.seed, limits.signal);
   return {
     ...base,

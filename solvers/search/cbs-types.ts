@@ -63,6 +63,12 @@ export interface CbsOptions {
   readonly now?: () => number;
   /** Improvements to use; missing ones default to on. */
   readonly switches?: Partial<CbsSwitches>;
+  /**
+   * Suboptimality factor w ≥ 1 (default 1 = optimal search, today's code path): with w > 1 the
+   * search is bounded-suboptimal (solvers/search/suboptimality.ts) and returns a plan whose
+   * sum-of-costs is at most w × `lowerBound`.
+   */
+  readonly suboptimality?: number;
 }
 
 /** How a solve ended. */
@@ -79,7 +85,11 @@ export interface CbsResult {
   readonly soc: number | null;
   /** Makespan of `paths` (null unless solved). */
   readonly makespan: number | null;
-  /** Proven lower bound on the optimal sum-of-costs (= soc when solved; min f of the open list on a limit; null if infeasible/error). */
+  /**
+   * Proven lower bound on the optimal sum-of-costs (= soc when solved optimally; for a bounded
+   * solve the bound the search proved, soc ≤ w × lowerBound; min f of the open list on a limit;
+   * null if infeasible/error).
+   */
   readonly lowerBound: number | null;
   /** Wall time by the injected clock (0 without one). */
   readonly runtimeMs: number;
