@@ -74,6 +74,14 @@ export const ENTRY_SQL: Readonly<Record<string, string>> = {
   solver: 'e.solver',
 };
 
+/**
+ * Cell values shown differently from what sorts and filters read: a bounded optimality names its
+ * w, e.g. `bounded (w = 1.5)` (shared/leaderboards.ts optimalityLabel); filters keep the stored value.
+ */
+export const ENTRY_CELL_SQL: Readonly<Record<string, string>> = {
+  optimality: `CASE WHEN e.optimality = 'bounded' THEN 'bounded (w = ' || e.suboptimality::text || ')' ELSE e.optimality END`,
+};
+
 /** Default order of the entries layout (matches the index leaderboard_entries_default_order). */
 export const ENTRY_DEFAULT_ORDER = 'e.map_name, e.scenario_name, e.agents, e.model, e.id';
 

@@ -7,7 +7,7 @@
 import { SUCCESS_INTERVAL_COLUMNS, type LeaderboardView } from '@shared/leaderboards';
 import { visibleSetsCondition, type Viewer } from '../instance-sets/instance-set-access';
 import { compareQueries } from './compare-query';
-import { ENTRY_DEFAULT_ORDER, ENTRY_SQL } from './entry-sql';
+import { ENTRY_CELL_SQL, ENTRY_DEFAULT_ORDER, ENTRY_SQL } from './entry-sql';
 import { GROUPED_MAX_VALUES, groupedCountQuery, groupedWindow, groupWindow, type GroupCount } from './grouped-sort';
 import { baseWhere, entryWhere, whereSql, type RowWindow, type SqlQuery, type ViewScope } from './view-sql';
 
@@ -69,7 +69,7 @@ function entryQueries(view: LeaderboardView, viewer: Viewer, scope: ViewScope, r
   const page = `WITH w AS (${ids})
     SELECT e.id, e.scenario_id, e.agents, e.robot_profile_hash, e.result_id, e.robot_profile, e.executable_at_nominal AS "__nominal", e.status AS "__status",
       ${SUCCESS_INTERVAL_COLUMNS.map(([, , , s]) => `e.success_${s} AS "__success_${s}", e.runs_${s} AS "__runs_${s}"`).join(', ')},
-      ${view.columns.filter((c) => c !== 'profile').map((c) => `${ENTRY_SQL[c]} AS "${c}"`).join(', ') || 'NULL AS none'}
+      ${view.columns.filter((c) => c !== 'profile').map((c) => `${ENTRY_CELL_SQL[c] ?? ENTRY_SQL[c]} AS "${c}"`).join(', ') || 'NULL AS none'}
     FROM w JOIN leaderboard_entries e ON e.id = w.id ORDER BY ${order}`;
   const count = view.filters.length === 0 ? countsQuery(viewer, scope, repl)
     : groupedCountQuery(view, viewer, scope, repl) ?? `SELECT count(*)::int AS n FROM leaderboard_entries e ${whereSql(where)}`;

@@ -5,7 +5,7 @@ import { DecimalPipe, PercentPipe } from '@angular/common';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatSelectModule } from '@angular/material/select';
 import { MatTableModule } from '@angular/material/table';
-import { LEADERBOARD_POLICIES, MEAN_SUCCESS_METHOD, NOMINAL_DESCRIPTION, type BestAmong } from '@shared/leaderboards';
+import { LEADERBOARD_POLICIES, MEAN_SUCCESS_METHOD, NOMINAL_DESCRIPTION, OPTIMALITY_DESCRIPTION, type BestAmong } from '@shared/leaderboards';
 import { LeaderboardApi, type BoardScope } from './leaderboard-api';
 import { MiddleEllipsisPipe } from '../core/middle-ellipsis.pipe';
 
@@ -33,8 +33,9 @@ export default class ModelSummaryPanel {
   });
   protected readonly policies = LEADERBOARD_POLICIES;
   protected readonly nominalDescription = NOMINAL_DESCRIPTION;
+  protected readonly optimalityDescription = OPTIMALITY_DESCRIPTION;
   /** What the mean execution success rate averages and how its 95 % interval is made. */
   protected readonly meanSuccessMethod = MEAN_SUCCESS_METHOD;
-  protected readonly columns = ['model', 'solved', 'nominal', 'byAgents', 'ratio', ...LEADERBOARD_POLICIES.map((p) => p.policy)];
+  protected readonly columns = ['model', 'solved', 'optimality', 'nominal', 'byAgents', 'ratio', ...LEADERBOARD_POLICIES.map((p) => p.policy)];
   protected readonly rows = computed(() => this.summary.value()?.models ?? []);
 }
