@@ -3,6 +3,8 @@
  * doubled), with text cells neutralised against formula injection.
  */
 import type { ColumnKind } from './leaderboards';
+import { foldControlCharacters } from './control-characters';
+import { provenanceLines } from './exports-provenance';
 import { headerOf, withIntervalColumns, type ExportCell, type ExportTable } from './exports-table';
 
 /**
@@ -27,10 +29,30 @@ export function csvField(value: ExportCell, kind: ColumnKind = 'text'): string {
   return /[",\r\n]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text;
 }
 
-/** The table as CSV: a header row of labels with units, then the rows; numbers at full precision; intervals in their own low / high columns. */
+/**
+ * A `#` comment line (not part of RFC 4180; readers skip it when told, e.g. pandas
+ * `read_csv(comment='#')`, R `read.csv(comment.char = '#')`). Line breaks and control characters
+ * are folded to spaces, so a name cannot end the line early. A spreadsheet that opens the file
+ * splits the line at commas, so a piece starting with a formula character or a quote gets a
+ * leading single quote, as cells do (OWASP, as above).
+ */
+export function csvComment(text: string): string {
+  return `# ${foldControlCharacters(text)}`.replace(/,(?=[=+\-@"])/g, ",'");
+}
+
+/**
+ * The table as CSV: `#` comment lines first (provenance, caption, caution), then a header row of
+ * labels with units and the rows; numbers at full precision; intervals in their own low / high columns.
+ */
 export function toCsv(exported: ExportTable): string {
   const table = withIntervalColumns(exported);
+  const comments = [
+    ...(table.provenance ? provenanceLines(table.provenance) : []),
+    ...(table.caption ? [`caption: ${table.caption}`] : []),
+    ...(table.caution ? [`caution: ${table.caution}`] : []),
+  ].map(csvComment);
   const lines = [
+    ...comments.map((c) => [c]),
     table.columns.map((c) => csvField(headerOf(c))),
     ...table.rows.map((r) => r.map((v, i) => csvField(v, table.columns[i]?.kind))),
   ];

@@ -30,6 +30,7 @@ const table: ExportTable = {
 describe('comparison exports with 95 % intervals', () => {
   it('adds a low and a high column after each model column in CSV, at full precision', () => {
     expect(toCsv(table)).toBe([
+      '# caption: Execution success rate, open-loop',
       'Map,classic,"classic, 95 % CI low","classic, 95 % CI high",orientation-split,"orientation-split, 95 % CI low","orientation-split, 95 % CI high"',
       'a,0.7,0.3968,0.8922,0.9,,',
       'b,0.5,0.2,0.8,,,',
@@ -68,6 +69,6 @@ describe('comparison exports with 95 % intervals', () => {
     const plain: ExportTable = { ...table, intervals: undefined };
     expect(withIntervalColumns(plain)).toBe(plain);
     expect(displayWithInterval(plain, 0, 1)).toBe('0.70');
-    expect(toCsv(plain).split('\r\n')[0]).toBe('Map,classic,orientation-split');
+    expect(toCsv(plain).split('\r\n')[1]).toBe('Map,classic,orientation-split');
   });
 });

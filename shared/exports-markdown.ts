@@ -1,6 +1,7 @@
 /** Markdown export: a pipe table (GitHub Flavored Markdown), every cell and the caption escaped, best values in bold. */
 import { foldControlCharacters } from './control-characters';
-import { bestCells, COLLISION_MARK, displayWithInterval, headerOf, isCollidingCell, type ExportTable } from './exports-table';
+import { provenanceLines } from './exports-provenance';
+import { bestCells, COLLISION_MARK, displayWithInterval, headerOf, isCollidingCell, withShortProfiles, type ExportTable } from './exports-table';
 
 /**
  * What each markup character is written as. Backslash escapes (CommonMark 0.31, §2.4: any ASCII
@@ -24,11 +25,27 @@ export function markdownCell(text: string): string {
   return foldControlCharacters(text).replace(/[\\`*_~[\]|#<>&]/g, (c) => MARKDOWN_ESCAPES[c]);
 }
 
-/** The table as Markdown, with the caption as a paragraph above it. */
-export function toMarkdown(table: ExportTable): string {
+/**
+ * One line inside an HTML comment: control characters folded, and every "--" broken up (the
+ * second hyphen as the entity &#45;, which a comment shows literally), so no name can close the
+ * comment ("-->", "--!>") and turn the rest into markup (HTML Living Standard, "Comments": the
+ * text must not contain "-->" or "--!>"; with no "--" at all none can occur).
+ */
+export function markdownCommentLine(text: string): string {
+  return foldControlCharacters(text).replace(/--/g, '-&#45;');
+}
+
+/**
+ * The table as Markdown: the provenance as an HTML comment (hidden when rendered), the caption as
+ * a paragraph above the table and the caution of execution figures as a paragraph below it.
+ * With mixed robot profiles the profile column shows only the parameters that differ.
+ */
+export function toMarkdown(exported: ExportTable): string {
+  const table = withShortProfiles(exported);
   const best = bestCells(table);
   const line = (cells: readonly string[]) => `| ${cells.join(' | ')} |`;
   return [
+    ...(table.provenance ? ['<!--', ...provenanceLines(table.provenance).map(markdownCommentLine), '-->', ''] : []),
     markdownCell(table.caption),
     '',
     line(table.columns.map((c) => markdownCell(headerOf(c)))),
@@ -38,6 +55,7 @@ export function toMarkdown(table: ExportTable): string {
       const shown = best[i].has(j) ? `**${text}**` : text;
       return v !== null && isCollidingCell(table, i, table.columns[j].id) ? `${shown} ${COLLISION_MARK}` : shown;
     }))),
+    ...(table.caution ? ['', `*${markdownCell(table.caution)}*`] : []),
     '',
   ].join('\n');
 }

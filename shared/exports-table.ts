@@ -3,6 +3,7 @@
  * says where the figures come from. Zod-free, pure, shared by the API and tests.
  */
 import type { Interval95 } from './confidence-interval';
+import type { ExportProvenance } from './exports-provenance';
 import type { BestAmong, LeaderboardColumn } from './leaderboards';
 
 /** Export formats of GET /api/exports. */
@@ -36,6 +37,43 @@ export interface ExportTable {
    * CSV and JSON write them as separate low / high columns, Markdown and LaTeX as "x [lo, hi]".
    */
   readonly intervals?: readonly Readonly<Record<string, Interval95 | null>>[];
+  /**
+   * The caution that goes with execution figures (SAFETY_NOTE): a comment line in CSV and LaTeX,
+   * a line below the table in Markdown, its own field in JSON; never part of the caption.
+   */
+  readonly caution?: string;
+  /** Where the figures come from (issue 14, item 9): a header comment, or JSON's `meta`. */
+  readonly provenance?: ExportProvenance;
+}
+
+/** Id of the robot profile column (entries and comparison layouts). */
+export const PROFILE_COLUMN = 'profile';
+
+/**
+ * For the formats people read (Markdown, LaTeX): when the rows mix robot profiles, the profile
+ * column keeps only the parameters that differ between them ("quarter turn 300 ms") and the caption
+ * names the ones all rows share, so a row stays narrow. Labels are profileLabel() texts: the same
+ * ", "-separated parameters in the same order. Unchanged when the rows share one profile, the
+ * table has no profile column, or the labels are not of that form.
+ */
+export function withShortProfiles(table: ExportTable): ExportTable {
+  const j = table.columns.findIndex((c) => c.id === PROFILE_COLUMN);
+  if (j < 0) return table;
+  const labels = [...new Set(table.rows.map((r) => r[j]).filter((v): v is string => typeof v === 'string'))];
+  if (labels.length < 2) return table;
+  const parts = labels.map((l) => l.split(', '));
+  const key = (part: string) => part.replace(/ [^ ]+( [^ ]+)?$/, '');
+  const isAligned = parts.every((p) => p.length === parts[0].length && p.every((part, i) => key(part) === key(parts[0][i])));
+  if (!isAligned) return table;
+  const differs = parts[0].map((_, i) => parts.some((p) => p[i] !== parts[0][i]));
+  const short = new Map(labels.map((l, n) => [l, parts[n].filter((_, i) => differs[i]).join(', ')]));
+  const shared = parts[0].filter((_, i) => !differs[i]);
+  const note = `Robot profile column: only the parameters that differ between rows${shared.length > 0 ? `; every row has ${shared.join(', ')}` : ''}.`;
+  return {
+    ...table,
+    caption: table.caption === '' ? note : `${table.caption} ${note}`,
+    rows: table.rows.map((r) => r.map((v, i) => (i === j && typeof v === 'string' ? short.get(v) ?? v : v))),
+  };
 }
 
 /** What Markdown and LaTeX write after a value whose interval was not stored. */

@@ -32,7 +32,8 @@ describe('CSV (RFC 4180)', () => {
 
   it('writes a header with units and CRLF line ends, numbers at full precision', () => {
     expect(toCsv(table)).toBe(
-      'Map,classic (ms),weighted-split (ms)\r\n"room_32 #2 & co, ""east""",5200,4100.4\r\na|b\\c,,900\r\ntie,700,700\r\n',
+      '# caption: Turn-inclusive makespan 50% of "budget" & more\r\n'
+      + 'Map,classic (ms),weighted-split (ms)\r\n"room_32 #2 & co, ""east""",5200,4100.4\r\na|b\\c,,900\r\ntie,700,700\r\n',
     );
   });
 });

@@ -3,30 +3,52 @@ import { toCsv } from '@shared/exports-csv';
 import { toJsonExport } from '@shared/exports-json';
 import { toLatex } from '@shared/exports-latex';
 import { toMarkdown } from '@shared/exports-markdown';
-import type { ExportFormat, ExportTable } from '@shared/exports-table';
-import type { LeaderboardPage, LeaderboardView } from '@shared/leaderboards';
-import { exportCaption } from './export-caption';
+import type { ExportProvenance } from '@shared/exports-provenance';
+import { PROFILE_COLUMN, type ExportFormat, type ExportTable } from '@shared/exports-table';
+import { ENTRY_COLUMNS, type LeaderboardColumn, type LeaderboardPage, type LeaderboardView } from '@shared/leaderboards';
+import { exportCaption, exportCaution } from './export-caption';
 
-/** The export table of a page: exactly its columns, in order, and its rows. */
-export function exportTable(view: LeaderboardView, page: LeaderboardPage): ExportTable {
+/** The columns that identify a row; an added robot profile column goes after the last of them shown. */
+const KEY_COLUMNS = ['map', 'scenario', 'agents'];
+
+/**
+ * The export table of a page: exactly its columns, in order, and its rows. When the rows mix robot
+ * profiles and the view shows no profile column, a Robot profile column is added after the
+ * instance columns, so each row names its own (issue 14, item 8).
+ */
+export function exportTable(view: LeaderboardView, page: LeaderboardPage, provenance?: ExportProvenance): ExportTable {
   const notExecutable = page.rows.map((r) => Object.entries(r.isExecutableAtNominalByColumn ?? {}).filter(([, ok]) => ok === false).map(([id]) => id));
   const isMarked = notExecutable.some((ids, i) => ids.some((id) => page.rows[i].cells[id] !== null && page.rows[i].cells[id] !== undefined));
+  const profileOf = (hash: string) => page.profiles[hash] ?? '';
+  const isMixed = new Set(page.rows.map((r) => r.profileHash)).size > 1;
+  let columns: readonly LeaderboardColumn[] = page.columns;
+  let cellsOf = (r: LeaderboardPage['rows'][number]) => page.columns.map((c) => r.cells[c.id] ?? null);
+  if (isMixed && !columns.some((c) => c.id === PROFILE_COLUMN)) {
+    const at = Math.max(-1, ...KEY_COLUMNS.map((id) => columns.findIndex((c) => c.id === id))) + 1;
+    const profile = ENTRY_COLUMNS.find((c) => c.id === PROFILE_COLUMN) as LeaderboardColumn;
+    columns = [...columns.slice(0, at), profile, ...columns.slice(at)];
+    const base = cellsOf;
+    cellsOf = (r) => { const cells = base(r); return [...cells.slice(0, at), profileOf(r.profileHash), ...cells.slice(at)]; };
+  }
+  const caution = exportCaution(view);
   return {
-    caption: exportCaption(view, page.rows.map((r) => page.profiles[r.profileHash] ?? ''), isMarked),
-    columns: page.columns,
-    rows: page.rows.map((r) => page.columns.map((c) => r.cells[c.id] ?? null)),
+    caption: exportCaption(view, page.rows.map((r) => profileOf(r.profileHash)), isMarked),
+    columns,
+    rows: page.rows.map(cellsOf),
     compareColumns: view.layout === 'compare' ? page.columns.filter((c) => c.id.startsWith('m_')).map((c) => c.id) : [],
     // Plans that collide at nominal times are marked, and never the bold best unless the view asks for all plans.
     notExecutable,
     bestAmong: view.bestAmong,
     // Comparison of an execution figure: each model value with its 95 % interval (issue 12, item 5).
     ...(view.layout === 'compare' && page.rows.some((r) => r.intervalsByColumn) ? { intervals: page.rows.map((r) => r.intervalsByColumn ?? {}) } : {}),
+    ...(caution ? { caution } : {}),
+    ...(provenance ? { provenance } : {}),
   };
 }
 
-/** The file text of `page` in `format`. */
-export function buildExport(format: ExportFormat, view: LeaderboardView, page: LeaderboardPage): string {
-  const table = exportTable(view, page);
+/** The file text of `page` in `format`, with the provenance of its results when given. */
+export function buildExport(format: ExportFormat, view: LeaderboardView, page: LeaderboardPage, provenance?: ExportProvenance): string {
+  const table = exportTable(view, page, provenance);
   switch (format) {
     case 'csv': return toCsv(table);
     case 'latex': return toLatex(table);

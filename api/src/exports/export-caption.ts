@@ -1,4 +1,7 @@
-/** The caption of an export: which figure, plan models and robot profiles the numbers come from, and the safety note when execution figures are in it. */
+/**
+ * The caption of an export: which figure, plan models and robot profiles the numbers come from.
+ * The safety note of execution figures is the table's caution (exportCaution), never caption text.
+ */
 import { SAFETY_NOTE } from '@shared/executions-constants';
 import { CI95_METHOD } from '@shared/confidence-interval';
 import { COLLISION_MARK, INTERVAL_NOT_STORED } from '@shared/exports-table';
@@ -18,7 +21,8 @@ export function exportCaption(view: LeaderboardView, profileLabels: readonly str
   }
   const profiles = [...new Set(profileLabels)];
   if (profiles.length === 1) parts.push(`Robot profile: ${profiles[0]}.`);
-  else if (profiles.length > 1) parts.push(`Robot profiles: ${profiles.join('; ')}.`);
+  // Several: each row names its own in the Robot profile column (added when the view has none).
+  else if (profiles.length > 1) parts.push('Rows differ in robot profile; each row names its own in the Robot profile column.');
   if (view.filters.length > 0) parts.push(`Filters: ${view.filters.map((f) => `${f.column} ${f.op} ${f.value}`.trim()).join(', ')}.`);
   const shown = view.layout === 'compare' ? [view.metric] : view.columns;
   if (hasCollidingMarks) parts.push(`${COLLISION_MARK} after a value: that plan collides at nominal times (Markdown and LaTeX only; JSON and CSV leave values plain).`);
@@ -29,6 +33,11 @@ export function exportCaption(view: LeaderboardView, profileLabels: readonly str
   if (shown.some((id) => /^(success|realised|spread).*(Lo|Hi)$/.test(id))) {
     parts.push(`95 % intervals: execution success rate by the ${CI95_METHOD.rate}, recomputed from rate × runs; means of realised makespan and finish spread by the ${CI95_METHOD.mean}, as stored with the execution (empty bounds: ${INTERVAL_NOT_STORED}, ${INTERVAL_NOT_STORED_REASON}).`);
   }
-  if (shown.some(isExecutionColumn)) parts.push(SAFETY_NOTE);
   return parts.join(' ');
+}
+
+/** The caution that goes with `view`'s figures: the safety note when execution figures are shown, else none. */
+export function exportCaution(view: LeaderboardView): string | undefined {
+  const shown = view.layout === 'compare' ? [view.metric] : view.columns;
+  return shown.some(isExecutionColumn) ? SAFETY_NOTE : undefined;
 }

@@ -1,7 +1,8 @@
 /**
  * GET /api/exports?format=csv|latex|markdown|json&<view>: the rows and columns of a board view
  * (same parameters as GET /api/leaderboards/rows) as a downloadable file. Without start/end the
- * whole view is exported, up to MAX_EXPORT_ROWS rows.
+ * whole view is exported, up to MAX_EXPORT_ROWS rows (LaTeX: up to MAX_LATEX_CELLS cells). Every
+ * file carries the provenance of its results (issue 14, item 9).
  */
 import { Router } from 'express';
 import { EXPORT_FORMATS, type ExportFormat } from '@shared/exports-table';
@@ -9,7 +10,9 @@ import { AppError } from '../errors/app-error';
 import { attachmentDisposition } from '../http/content-disposition';
 import type { LeaderboardsService } from '../leaderboards/leaderboards.service';
 import { flatQuery, scopeOf, viewOf, windowOf } from '../leaderboards/view-request';
+import { MAX_LATEX_CELLS } from '@shared/exports-latex';
 import { buildExport } from './build-export';
+import { exportedResults, type ProvenanceReader } from './export-provenance';
 
 /** Largest export in rows. */
 export const MAX_EXPORT_ROWS = 10_000;
@@ -22,7 +25,7 @@ const FILE_TYPES: Record<ExportFormat, { readonly ext: string; readonly type: st
 };
 
 /** Export routes over the leaderboard service. */
-export function exportsRouter(boards: LeaderboardsService): Router {
+export function exportsRouter(boards: LeaderboardsService, provenanceOf: ProvenanceReader): Router {
   const r = Router();
   r.get('/', async (req, res) => {
     const params = flatQuery(req.query);
@@ -37,10 +40,16 @@ export function exportsRouter(boards: LeaderboardsService): Router {
     if (!hasWindow && page.rowCount > MAX_EXPORT_ROWS) {
       throw new AppError('VALIDATION_FAILED', 400, `This view has ${page.rowCount} rows; exports hold at most ${MAX_EXPORT_ROWS}. Narrow it with a filter or pass start and end.`, [{ param: 'format' }]);
     }
+    const cells = page.rows.length * page.columns.length;
+    if (format === 'latex' && cells > MAX_LATEX_CELLS) {
+      throw new AppError('VALIDATION_FAILED', 400, `This LaTeX table would hold ${cells} cells (${page.rows.length} rows × ${page.columns.length} columns); LaTeX exports hold at most ${MAX_LATEX_CELLS}, so that pdflatex compiles them within its default memory. Choose fewer columns, narrow the rows with a filter or start and end, or export CSV.`, [{ param: 'format' }]);
+    }
+    // Only the exported results are looked up, after the page: the board itself never pays for it.
+    const provenance = await provenanceOf(exportedResults(view, page));
     const file = FILE_TYPES[format];
     res.setHeader('content-type', file.type);
     res.setHeader('content-disposition', attachmentDisposition(`quarterturn-leaderboard.${file.ext}`));
-    res.send(buildExport(format, view, page));
+    res.send(buildExport(format, view, page, provenance));
   });
   return r;
 }

@@ -1,6 +1,7 @@
 /** Wires the leaderboards, exports and submissions routers onto one app context (one line in api-router.ts). */
 import { Router } from 'express';
 import type { AppContext } from '../app-context';
+import { createProvenanceReader } from '../exports/export-provenance';
 import { exportsRouter } from '../exports/exports.router';
 import { createSubmissionsService } from '../submissions/submissions.service';
 import { submissionsRouter } from '../submissions/submissions.router';
@@ -12,7 +13,7 @@ export function leaderboardsFeature(ctx: AppContext): Router {
   const boards = createLeaderboardsService({ sequelize: ctx.sequelize });
   const r = Router();
   r.use('/leaderboards', leaderboardsRouter(boards));
-  r.use('/exports', exportsRouter(boards));
+  r.use('/exports', exportsRouter(boards, createProvenanceReader(ctx.sequelize)));
   r.use('/submissions', submissionsRouter(createSubmissionsService({ sequelize: ctx.sequelize, models: ctx.models, checkPlan: (instance, sub, requester) => ctx.interactive.checkPlan(instance, sub, requester) })));
   return r;
 }
