@@ -105,11 +105,12 @@ describe('95 % intervals in the comparison layout, the per-model summary and the
     expect(doc.rows[0]).toMatchObject({ m_classic: 0.7, m_classic_lo: lo, m_classic_hi: hi, m_uniform_duration: null, m_uniform_duration_lo: null });
     expect(doc.caption).toContain('Wilson score interval');
 
-    const csv = (await exported(`format=csv&${q}`)).split('\r\n');
+    // Without the `#` comment lines (provenance, caption, caution; issue 14, item 9).
+    const csv = (await exported(`format=csv&${q}`)).split('\r\n').filter((l) => !l.startsWith('#'));
     expect(csv[0]).toContain('classic,"classic, 95 % CI low","classic, 95 % CI high",uniform-duration');
     expect(csv[1]).toContain(`,0.7,${lo},${hi},`);
 
-    const md = (await exported(`format=markdown&${q}`)).split('\n');
+    const md = (await exported(`format=markdown&${q}`)).replace(/^<!--[\s\S]*?-->\n\n/, '').split('\n');
     const line = md.find((l) => l.startsWith('| ') && l.includes('tiny-a'));
     const w = (x: number, y: number) => wilsonInterval(x, y).map((v) => v.toFixed(3)).join(', ');
     // Columns: map, scenario, agents, profile, then the five models; k-robust (all 20 runs) is the best executable value.
@@ -125,7 +126,7 @@ describe('95 % intervals in the comparison layout, the per-model summary and the
     const realisedMd = await exported('format=markdown&layout=compare&metric=realisedOpenLoop&scenario.has=tiny-a&agents.eq=3');
     expect(realisedMd).toContain('4100 \\[4000, 4200\\]');
     expect(realisedMd).toContain('3100 \\[interval not stored\\] †');
-    expect(realisedMd.split('\n')[0]).toContain('Student t interval of the mean');
+    expect(realisedMd.replace(/^<!--[\s\S]*?-->\n\n/, '').split('\n')[0]).toContain('Student t interval of the mean');
   });
 
   // Both captions name the t method (mean ± t(0.975, n−1)·s/√n), whose − and √ pdflatex's utf8 input does not know unescaped.
@@ -137,7 +138,7 @@ describe('95 % intervals in the comparison layout, the per-model summary and the
     expect(tex).toContain(expected);
     const dir = mkdtempSync(join(tmpdir(), 'qt-latex-intervals-'));
     try {
-      writeFileSync(join(dir, 'table.tex'), `\\documentclass{article}\n\\usepackage[T1]{fontenc}\n\\usepackage[utf8]{inputenc}\n\\usepackage{booktabs}\n\\usepackage[margin=5mm,landscape]{geometry}\n\\begin{document}\n\\tiny\n${tex}\\end{document}\n`);
+      writeFileSync(join(dir, 'table.tex'), `\\documentclass{article}\n\\usepackage[T1]{fontenc}\n\\usepackage[utf8]{inputenc}\n\\usepackage{booktabs,longtable,array,graphicx}\n\\usepackage[margin=5mm,landscape]{geometry}\n\\begin{document}\n\\tiny\n${tex}\\end{document}\n`);
       const run = spawnSync('pdflatex', ['-interaction=nonstopmode', '-halt-on-error', 'table.tex'], { cwd: dir, encoding: 'utf8', timeout: 60_000 });
       expect({ status: run.status, log: run.status === 0 ? '' : run.stdout.slice(-1500) }).toEqual({ status: 0, log: '' });
     } finally {

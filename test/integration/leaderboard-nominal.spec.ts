@@ -71,7 +71,8 @@ describe('executable at nominal times on the leaderboard', () => {
     const row = compare.rows.find((r) => r.scenarioId === world.scenarios[0]);
     expect(row?.isExecutableAtNominalByColumn).toEqual({ m_classic: true, m_uniform_duration: null, m_orientation_split: false, m_weighted_split: true, m_k_robust: null });
 
-    const md = (await exported('format=markdown&layout=compare&metric=tiMakespanMs&scenario.has=tiny-a')).split('\n');
+    // After the provenance comment (issue 14, item 9) the caption is the first line.
+    const md = (await exported('format=markdown&layout=compare&metric=tiMakespanMs&scenario.has=tiny-a')).replace(/^<!--[\s\S]*?-->\n\n/, '').split('\n');
     const line = md.find((l) => l.includes('3000'));
     // Columns: map, scenario, agents, profile, classic, uniform-duration, orientation-split, weighted-split, k-robust.
     expect(line?.split(' | ').slice(4, 8)).toEqual(['4000', '**3500**', '3000 †', '3600']);
@@ -94,7 +95,7 @@ describe('executable at nominal times on the leaderboard', () => {
     expect(tex).toContain('\\dag');
     const dir = mkdtempSync(join(tmpdir(), 'qt-latex-nominal-'));
     try {
-      writeFileSync(join(dir, 'table.tex'), `\\documentclass{article}\n\\usepackage[T1]{fontenc}\n\\usepackage[utf8]{inputenc}\n\\usepackage{booktabs}\n\\usepackage[margin=5mm,landscape]{geometry}\n\\begin{document}\n\\tiny\n${tex}\\end{document}\n`);
+      writeFileSync(join(dir, 'table.tex'), `\\documentclass{article}\n\\usepackage[T1]{fontenc}\n\\usepackage[utf8]{inputenc}\n\\usepackage{booktabs,longtable,array,graphicx}\n\\usepackage[margin=5mm,landscape]{geometry}\n\\begin{document}\n\\tiny\n${tex}\\end{document}\n`);
       const run = spawnSync('pdflatex', ['-interaction=nonstopmode', '-halt-on-error', 'table.tex'], { cwd: dir, encoding: 'utf8', timeout: 60_000 });
       expect({ status: run.status, log: run.status === 0 ? '' : run.stdout.slice(-1500) }).toEqual({ status: 0, log: '' });
     } finally {
