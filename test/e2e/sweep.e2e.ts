@@ -51,14 +51,19 @@ describe('a sweep from the browser', () => {
     await page.getByLabel('Agent counts', { exact: true }).fill('2, 4');
     // 2 scenarios × 2 agent counts × 2 default models (classic, weighted-split) × 1 seed.
     await settledText(page.getByTestId('sweep-size'), '8 runs · 320 simulated fleet runs', 10_000);
+    // Each model once more at w = 1.5 (issue 15, item 1): twice the runs.
+    await page.getByLabel('Suboptimality factor w').fill('1, 1.5');
+    await settledText(page.getByTestId('sweep-size'), '16 runs · 640 simulated fleet runs', 10_000);
     await page.getByRole('button', { name: 'Launch sweep' }).click();
     await page.waitForURL(/\/sweeps\/\d+$/);
 
     await settledText(page.getByTestId('sweep-status'), 'Finished', 60_000);
-    await settledText(page.getByTestId('sweep-done'), '8 of 8 runs over');
-    await page.locator('.ag-row').nth(7).waitFor();
-    expect(await page.locator('.ag-row').count()).toBe(8);
-    expect(await page.locator('.ag-cell[col-id=status]').allInnerTexts()).toEqual(Array(8).fill('solved'));
+    await settledText(page.getByTestId('sweep-done'), '16 of 16 runs over');
+    await page.locator('.ag-row').nth(15).waitFor();
+    expect(await page.locator('.ag-row').count()).toBe(16);
+    expect(await page.locator('.ag-cell[col-id=status]').allInnerTexts()).toEqual(Array(16).fill('solved'));
+    const labels = await page.locator('.ag-cell[col-id=model]').allInnerTexts();
+    expect([...new Set(labels)].sort()).toEqual(['classic', 'classic, w = 1.5', 'weighted-split', 'weighted-split, w = 1.5']);
 
     const sweepId = Number(/\/sweeps\/(\d+)$/.exec(page.url())?.[1]);
     const ledger = await runLedger(s, sweepId);
@@ -66,7 +71,7 @@ describe('a sweep from the browser', () => {
     expect(ledger[0].worker).toContain(`:${worker.child.pid}`);
 
     // A solved run's stored plan opens in the plan viewer, replayed on the server by its result id.
-    await page.getByRole('link', { name: `Replay the plan of run ${ledger[0].id}` }).click();
+    await page.getByRole('link', { name: `Replay the plan of run ${ledger[0].id}`, exact: true }).click();
     await page.waitForURL(/\/plans\/view\?result=\d+$/);
     await page.locator('.source').filter({ hasText: new RegExp(`stored result \\d+ of sweep ${sweepId}\\b`) }).waitFor({ timeout: 30_000 });
     expect(await page.locator('article.pane [data-metric="success-rate"] dd').first().innerText()).toMatch(/^\d+%$/);
