@@ -3,6 +3,7 @@
  * a real worker process through the queue, and the public leaderboard, comparison layout and
  * charts of those results in Chromium, without signing in.
  */
+import { readFile } from 'node:fs/promises';
 import { resolve } from 'node:path';
 import type { Page } from 'playwright-core';
 import { PLAN_MODELS } from '@shared/plan';
@@ -74,6 +75,60 @@ describe('the seeded demo board, as a visitor', () => {
     for (const model of PLAN_MODELS) expect(headers.some((h) => h.startsWith(model))).toBe(true);
     await page.locator('figure.chart canvas, figure.chart svg').first().waitFor({ timeout: 20_000 });
     expect(await page.locator('.charts .caption').first().innerText()).toMatch(/^All figures: robot profile .+; execution figures under the .+ policy\./);
+  });
+
+  it('keeps every chart subtitle inside the downloaded PNG and SVG (issue 14, item 10: subtitles were clipped)', async () => {
+    const figures = page.locator('figure.chart[data-chart]');
+    const ids = await figures.evaluateAll((els) => els.map((e) => e.getAttribute('data-chart') ?? ''));
+    expect(ids.length).toBeGreaterThanOrEqual(3);
+    for (const id of ids) {
+      const chart = page.locator(`figure[data-chart="${id}"]`);
+      await chart.locator('canvas').waitFor();
+      const [png] = await Promise.all([page.waitForEvent('download'), chart.getByRole('button', { name: 'Download PNG' }).click()]);
+      const dataUrl = `data:image/png;base64,${(await readFile(await png.path())).toString('base64')}`;
+      // Text cut at the image edge leaves dark pixels in its outermost columns; the title and
+      // subtitle band (top quarter) must have only background there.
+      const edgeInk = await page.evaluate(async (src) => {
+        const img = new Image();
+        img.src = src;
+        await img.decode();
+        const c = document.createElement('canvas');
+        c.width = img.width; c.height = img.height;
+        const g = c.getContext('2d', { willReadFrequently: true });
+        if (!g) throw new Error('no 2d context');
+        g.drawImage(img, 0, 0);
+        const band = Math.floor(img.height / 4);
+        let ink = 0;
+        for (const x of [0, 1, 2, img.width - 3, img.width - 2, img.width - 1]) {
+          const d = g.getImageData(x, 0, 1, band).data;
+          for (let i = 0; i < d.length; i += 4) if (d[i] + d[i + 1] + d[i + 2] < 600) ink += 1;
+        }
+        return { ink, width: img.width };
+      }, dataUrl);
+      expect({ id, ink: edgeInk.ink }).toEqual({ id, ink: 0 });
+      expect(edgeInk.width).toBeGreaterThan(400);
+
+      const [svg] = await Promise.all([page.waitForEvent('download'), chart.getByRole('button', { name: 'Download SVG' }).click()]);
+      const markup = await readFile(await svg.path(), 'utf8');
+      // Every text of the SVG (laid out by the browser) lies within the drawing's width.
+      const outside = await page.evaluate((m) => {
+        const host = document.createElement('div');
+        host.innerHTML = m;
+        document.body.appendChild(host);
+        try {
+          const root = host.querySelector('svg') as SVGSVGElement;
+          // Boxes on screen, so each text's transform (ECharts places labels with one) is applied.
+          const frame = root.getBoundingClientRect();
+          const texts = [...root.querySelectorAll('text')] as SVGTextElement[];
+          const bad = texts.filter((t) => { const b = t.getBoundingClientRect(); return b.left < frame.left - 0.5 || b.right > frame.right + 0.5; }).map((t) => t.textContent);
+          return { bad, count: texts.length };
+        } finally {
+          host.remove();
+        }
+      }, markup);
+      expect(outside.count).toBeGreaterThan(3);
+      expect({ id, outside: outside.bad }).toEqual({ id, outside: [] });
+    }
   });
 
   /** Opens `path`, waits for its main heading and lets late requests and redraws settle. */

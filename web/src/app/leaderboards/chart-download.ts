@@ -6,7 +6,7 @@ import { init, type ECharts } from 'echarts/core';
 import type { ChartOption } from './chart-options';
 
 /** Size of a downloaded SVG, px. */
-const SVG_SIZE = { width: 900, height: 520 } as const;
+export const SVG_SIZE = { width: 900, height: 520 } as const;
 
 /** Saves `href` as `fileName` through a temporary link. */
 export function saveHref(href: string, fileName: string): void {

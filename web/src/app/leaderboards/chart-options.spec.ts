@@ -1,6 +1,6 @@
 /** Chart options name the robot profile and policy, and carry one series per plan model with its colour. */
 import type { LeaderboardCharts } from '@shared/leaderboards';
-import { CHART_IDS, chartOption, PLAN_CHARTS, plotTop } from './chart-options';
+import { CHART_IDS, chartOption, legendRows, PLAN_CHARTS, plotTop } from './chart-options';
 import { MODEL_COLOURS } from './model-colours';
 
 const data: LeaderboardCharts = {
@@ -69,6 +69,25 @@ describe('chart options', () => {
     }
     expect(compared).toBe(CHART_IDS.length);
     expect(plotTop('x'.repeat(300))).toBeGreaterThan(plotTop('x'.repeat(50)));
+  });
+
+  it('wraps subtitle and legend to the width it is drawn at, so a phone-wide chart cuts nothing', () => {
+    const narrow = chartOption('execution', data, 340) as { title: { subtextStyle: { width: number } }; grid: { top: number; bottom: number } };
+    const wide = chartOption('execution', data, 900) as typeof narrow;
+    expect(narrow.title.subtextStyle.width).toBeLessThanOrEqual(340 - 8);
+    expect(wide.title.subtextStyle.width).toBeGreaterThan(narrow.title.subtextStyle.width);
+    expect(narrow.grid.top).toBeGreaterThan(wide.grid.top);
+    expect(narrow.grid.bottom).toBeGreaterThanOrEqual(wide.grid.bottom);
+  });
+
+  it('shows every plan model in a wrapping legend with room below the plot, never a pager that hides some (issue 14, item 10)', () => {
+    const o = chartOption('success', data) as { legend: { type: string }; grid: { bottom: number } };
+    expect(o.legend.type).toBe('plain');
+    expect(legendRows(['classic'])).toBe(1);
+    // Five long variant names (≈ 35 + 30 × 6.6 px each) do not fit one 540 px row.
+    const long = ['classic (following forbidden)', 'uniform-duration (following forbidden)', 'orientation-split (following forbidden)', 'weighted-split', 'k-robust (k=1)'];
+    expect(legendRows(long)).toBeGreaterThanOrEqual(3);
+    expect(o.grid.bottom).toBeGreaterThanOrEqual(40 + 24 * legendRows((o as unknown as { series: { name: string }[] }).series.map((s) => s.name)));
   });
 
   it('names series by model and variant in the model colours', () => {

@@ -21,28 +21,55 @@ export function seriesName(s: Pick<ChartSeries, 'model' | 'variant'>): string {
   return s.variant ? `${s.model} (${s.variant})` : s.model;
 }
 
-/** Width the subtitle wraps at: fits the narrowest chart card (two cards side by side on a wide screen). */
-const SUBTITLE_WIDTH_PX = 540;
+/** Chart width assumed when none is given, px: a card of two side by side on a 1280 px screen. */
+export const DEFAULT_CHART_WIDTH_PX = 560;
+/** Text lines (subtitle, legend) wrap this far inside the chart's width: 8 px title inset plus a margin. */
+const TEXT_INSET_PX = 24;
+/** The width subtitle and legend wrap at in a chart `widthPx` wide (at least 200 px). */
+const textWidth = (widthPx: number): number => Math.max(200, Math.floor(widthPx) - TEXT_INSET_PX);
 /** Mean advance of one 11 px Fira Sans character, to estimate how many lines the subtitle wraps to (common practice: ≈ 0.5 em). */
 const SUBTITLE_CHAR_PX = 5.6;
 
 /** Space above the plot: the title plus as many subtitle lines as the text wraps to, so the plot never runs under it. */
-export function plotTop(subtitle: string): number {
-  const lines = Math.max(1, Math.ceil((subtitle.length * SUBTITLE_CHAR_PX) / SUBTITLE_WIDTH_PX));
+export function plotTop(subtitle: string, widthPx = DEFAULT_CHART_WIDTH_PX): number {
+  const lines = Math.max(1, Math.ceil((subtitle.length * SUBTITLE_CHAR_PX) / textWidth(widthPx)));
   return 40 + 15 * lines;
 }
 
-function frame(title: string, data: LeaderboardCharts, xName: string, yName: string, extra: ChartOption = {}, isExecution = true, note = ''): ChartOption {
+/** Mean advance of one 12 px legend character plus each item's symbol and gap, px (common practice: ≈ 0.55 em; ECharts' default 25 px symbol + 10 px gap). */
+const LEGEND_CHAR_PX = 6.6;
+const LEGEND_ITEM_PX = 35;
+/** Height of one legend row, px (ECharts' default item height 14 + gap 10). */
+const LEGEND_ROW_PX = 24;
+
+/**
+ * Rows the legend wraps to in a chart `widthPx` wide. The legend is a plain,
+ * wrapping one: a scrolling legend hid the last plan models behind a "1/2" pager, also in the
+ * downloaded PNG and SVG, where nobody can page it.
+ */
+export function legendRows(names: readonly string[], widthPx = DEFAULT_CHART_WIDTH_PX): number {
+  let rows = 1;
+  let used = 0;
+  for (const n of new Set(names)) {
+    const w = LEGEND_ITEM_PX + n.length * LEGEND_CHAR_PX;
+    if (used > 0 && used + w > textWidth(widthPx)) { rows += 1; used = 0; }
+    used += w;
+  }
+  return rows;
+}
+
+function frame(widthPx: number, title: string, data: LeaderboardCharts, xName: string, yName: string, extra: ChartOption = {}, isExecution = true, note = ''): ChartOption {
   const profile = data.profile ? `Robot profile: ${data.profile.label}` : 'No robot profile';
   const subtext = (isExecution ? `${profile} · execution policy ${data.policy}` : `${profile} · plan figures (no execution policy)`) + note;
   return {
     animation: false,
     backgroundColor: '#ffffff',
     textStyle: { fontFamily: 'Fira Sans, system-ui, sans-serif' },
-    title: { text: title, subtext, left: 8, top: 4, textStyle: { fontSize: 15 }, subtextStyle: { fontSize: 11, lineHeight: 15, width: SUBTITLE_WIDTH_PX, overflow: 'break' } },
-    legend: { bottom: 0, type: 'scroll' },
+    title: { text: title, subtext, left: 8, top: 4, textStyle: { fontSize: 15 }, subtextStyle: { fontSize: 11, lineHeight: 15, width: textWidth(widthPx), overflow: 'break' } },
+    legend: { bottom: 0, type: 'plain' },
     tooltip: { trigger: 'item' },
-    grid: { left: 64, right: 24, top: plotTop(subtext), bottom: 64 },
+    // Room below the plot for the axis name (≈ 40 px) and every legend row.
+    grid: { left: 64, right: 24, top: plotTop(subtext, widthPx), bottom: 40 + LEGEND_ROW_PX * legendRows(seriesNamesOf(extra), widthPx) },
     xAxis: { type: 'value', name: xName, nameLocation: 'middle', nameGap: 28 },
     yAxis: { type: 'value', name: yName, nameLocation: 'middle', nameGap: 46 },
     ...extra,
@@ -79,32 +106,38 @@ export function intervalBands(series: readonly ChartSeries[]): ChartOption[] {
   });
 }
 
-/** The option of one chart. */
-export function chartOption(id: ChartId, data: LeaderboardCharts): ChartOption {
+/** The names of an option's series (the legend's entries; band series repeat their model's name). */
+function seriesNamesOf(extra: ChartOption): string[] {
+  const series = (extra['series'] ?? []) as readonly { name?: string }[];
+  return series.map((s) => s.name ?? '').filter((n) => n !== '');
+}
+
+/** The option of one chart drawn `widthPx` wide (subtitle and legend wrap to it). */
+export function chartOption(id: ChartId, data: LeaderboardCharts, widthPx = DEFAULT_CHART_WIDTH_PX): ChartOption {
   switch (id) {
     case 'success':
       // The share of instances solved: the solved rate, never called success (that word belongs to execution).
-      return frame('Solved rate by agent count', data, 'agents', 'solved rate', {
+      return frame(widthPx, 'Solved rate by agent count', data, 'agents', 'solved rate', {
         yAxis: { type: 'value', name: 'solved rate', nameLocation: 'middle', nameGap: 46, min: 0, max: 1 },
         series: lines(data.successByAgents, 'line'),
       }, false);
     case 'execution':
       // Collision-free share of simulated runs, averaged over the solved instances of each agent count.
-      return frame('Execution success rate by agent count (mean over solved instances)', data, 'agents', 'execution success rate', {
+      return frame(widthPx, 'Execution success rate by agent count (mean over solved instances)', data, 'agents', 'execution success rate', {
         yAxis: { type: 'value', name: 'execution success rate', nameLocation: 'middle', nameGap: 46, min: 0, max: 1 },
         series: [...lines(data.executionSuccessByAgents, 'line'), ...intervalBands(data.executionSuccessByAgents)],
       }, true, ` · shaded band: ${MEAN_SUCCESS_METHOD}`);
     case 'cactus':
-      return frame('Instances solved within a solve time', data, 'solve time (ms, log scale)', 'instances solved', {
+      return frame(widthPx, 'Instances solved within a solve time', data, 'solve time (ms, log scale)', 'instances solved', {
         xAxis: { type: 'log', name: 'solve time (ms, log scale)', nameLocation: 'middle', nameGap: 28 },
         series: lines(data.cactus.map((s) => ({ ...s, points: s.points.map(([t, n]) => [Math.max(t, 0.01), n] as const) })), 'line', 'end'),
       }, false);
     case 'realised':
-      return frame('Planned against realised makespan', data, 'turn-inclusive makespan, planned (ms)', 'realised makespan, mean over runs (ms)', {
+      return frame(widthPx, 'Planned against realised makespan', data, 'turn-inclusive makespan, planned (ms)', 'realised makespan, mean over runs (ms)', {
         series: lines(data.computedVsRealised, 'scatter'),
       }, true, ' · each point a mean over runs; its 95 % interval is in the board\'s realised-makespan columns (not drawn: bars on every point of the cloud would hide it)');
     case 'spread':
-      return frame(`Finish spread distribution (bins of ${data.spreadBinMs} ms)`, data, 'finish spread, mean over runs (ms)', 'instances', {
+      return frame(widthPx, `Finish spread distribution (bins of ${data.spreadBinMs} ms)`, data, 'finish spread, mean over runs (ms)', 'instances', {
         // A bar on a value axis is centred on its x, so a bar drawn at its bin's start hangs half a bin
         // left of the y-axis: each bar stands at its bin's middle and the axis starts at 0 (spreads are never negative).
         xAxis: { type: 'value', name: 'finish spread, mean over runs (ms)', nameLocation: 'middle', nameGap: 28, min: 0 },

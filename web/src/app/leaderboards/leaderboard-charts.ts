@@ -3,7 +3,7 @@
  * agent count, the runtime cactus plot, computed against realised makespan and the finish-spread
  * distribution. Each downloads as SVG and PNG. ECharts is provided here with only the pieces used.
  */
-import { ChangeDetectionStrategy, Component, computed, inject, input, signal } from '@angular/core';
+import { afterNextRender, ChangeDetectionStrategy, Component, computed, DestroyRef, ElementRef, inject, input, signal } from '@angular/core';
 import { rxResource } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
@@ -16,8 +16,9 @@ import { GridComponent, LegendComponent, TitleComponent, TooltipComponent } from
 import { CanvasRenderer, SVGRenderer } from 'echarts/renderers';
 import { SAFETY_NOTE } from '@shared/executions-constants';
 import { LEADERBOARD_POLICIES } from '@shared/leaderboards';
-import { chartPng, downloadSvg, saveHref } from './chart-download';
-import { CHART_IDS, chartOption, type ChartId } from './chart-options';
+import { chartPng, downloadSvg, saveHref, SVG_SIZE } from './chart-download';
+import { CHART_IDS, chartOption, DEFAULT_CHART_WIDTH_PX, type ChartId } from './chart-options';
+import { chartCardWidth } from './chart-card-width';
 import { LeaderboardApi, type BoardScope } from './leaderboard-api';
 
 echarts.use([LineChart, ScatterChart, BarChart, GridComponent, LegendComponent, TitleComponent, TooltipComponent, CanvasRenderer, SVGRenderer]);
@@ -41,10 +42,29 @@ export default class LeaderboardCharts {
     params: () => ({ scope: this.scope(), policy: this.policy() }),
     stream: ({ params }) => this.api.charts(params.scope, params.policy),
   });
+  /** Width of one chart's drawing, px: subtitles and legends wrap to it (they were cut on narrow screens). */
+  private readonly chartWidth = signal(DEFAULT_CHART_WIDTH_PX);
   protected readonly charts = computed(() => {
     const d = this.data.value();
-    return d ? CHART_IDS.map((id) => ({ id, option: chartOption(id, d) })) : [];
+    const width = this.chartWidth();
+    return d ? CHART_IDS.map((id) => ({ id, option: chartOption(id, d, width) })) : [];
   });
+
+  constructor() {
+    const host = inject<ElementRef<HTMLElement>>(ElementRef);
+    const destroyRef = inject(DestroyRef);
+    afterNextRender(() => {
+      const grid = host.nativeElement.querySelector('.grid');
+      if (!grid || typeof ResizeObserver === 'undefined') return;
+      // The charts have a fixed height, so a new option never changes the grid's width: no resize loop.
+      const observer = new ResizeObserver(([entry]) => {
+        const width = chartCardWidth(entry.contentRect.width);
+        if (Math.abs(width - this.chartWidth()) >= 8) this.chartWidth.set(width);
+      });
+      observer.observe(grid);
+      destroyRef.onDestroy(() => observer.disconnect());
+    });
+  }
   private readonly instances = new Map<ChartId, ECharts>();
 
   protected keepChart(id: ChartId, chart: ECharts): void {
@@ -58,6 +78,6 @@ export default class LeaderboardCharts {
 
   protected downloadSvg(id: ChartId): void {
     const d = this.data.value();
-    if (d) downloadSvg(chartOption(id, d), `quarterturn-${id}.svg`);
+    if (d) downloadSvg(chartOption(id, d, SVG_SIZE.width), `quarterturn-${id}.svg`);
   }
 }
