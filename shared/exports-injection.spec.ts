@@ -11,6 +11,7 @@ import { join } from 'node:path';
 import { csvField, toCsv } from './exports-csv';
 import { latexEscape, toLatex } from './exports-latex';
 import { markdownCell, toMarkdown } from './exports-markdown';
+import { provenanceLines, type ExportProvenance } from './exports-provenance';
 import type { ExportTable } from './exports-table';
 
 /** Names an attacker can choose, one per row, each with what a reader must see (control characters as spaces). */
@@ -39,6 +40,20 @@ const hostileTable: ExportTable = {
   rows: HOSTILE.map(([name], i) => [name, name, i]),
   compareColumns: [],
 };
+
+/** Provenance whose names (set, file, profile label) are hostile in every format (issue 14, item 9). */
+const hostileProvenance: ExportProvenance = {
+  hub: { version: '0.1.0', commit: 'abc' },
+  exportedAt: '2026-12-04T00:00:00.000Z',
+  results: 2,
+  sweeps: [3, 4],
+  submissions: [],
+  seeds: [1, 2],
+  profiles: [{ hash: '0123456789abcdef', label: 'fwd\n# smuggled,=HYPERLINK("x") --> <img src=x onerror=alert(1)>', parameters: { forwardMs: 1 } }],
+  maps: [{ set: 'set\r\n\\input{/etc/passwd}\n--><script>x</script>', name: 'm,@SUM(A1),"q', sha256: 'a'.repeat(64) }],
+  scenarios: [{ set: 'end --!> <!-- again', name: '\u2028\\end{document}', sha256: 'b'.repeat(64) }],
+};
+const withProvenance: ExportTable = { ...hostileTable, provenance: hostileProvenance, caution: 'Careful\n-->\n=1+1' };
 
 /** Whitespace runs as one space, ends trimmed: how TeX and HTML show text. */
 const squash = (s: string) => s.replace(/\s+/g, ' ').trim();
@@ -79,6 +94,42 @@ describe('CSV formula injection', () => {
     // Split fields per RFC 4180 (quoted fields may hold commas, quotes and line breaks).
     const fields = [...lines.matchAll(/(?:^|,|\r\n)("(?:[^"]|"")*"|[^,\r\n]*)/g)].map((m) => m[1].replace(/^"(.*)"$/s, '$1').replace(/""/g, '"'));
     for (const f of fields) expect(f).not.toMatch(/^[=+\-@\t\r]/);
+  });
+});
+
+describe('provenance injection', () => {
+  const commentCount = provenanceLines(hostileProvenance).length + 2;
+
+  it('keeps every CSV comment on its own # line, with no piece a spreadsheet would read as a formula', () => {
+    const lines = toCsv(withProvenance).split('\r\n');
+    expect(lines.slice(0, commentCount).every((l) => l.startsWith('# '))).toBe(true);
+    expect(lines[commentCount]).toBe('Map,Solver,Sum-of-costs');
+    for (const l of lines.slice(0, commentCount)) for (const piece of l.split(',').slice(1)) expect(piece).not.toMatch(/^[=+\-@"\t\r]/);
+    expect(lines).toContain('# robot profile 0123456789abcdef: fwd # smuggled,\'=HYPERLINK("x") --> <img src=x onerror=alert(1)> (forwardMs=1)');
+  });
+
+  it('keeps the Markdown provenance inside one HTML comment, which no name can close', () => {
+    const md = toMarkdown(withProvenance);
+    const end = md.indexOf('\n-->\n');
+    expect(md.startsWith('<!--\n')).toBe(true);
+    expect(md.slice(5, end)).not.toContain('--');
+    expect(md.slice(end + 5)).not.toMatch(/-->|<!--/);
+    const run = spawnSync(process.execPath, [require.resolve('marked/bin/marked'), '--gfm'], { input: md, encoding: 'utf8' });
+    expect(run.status).toBe(0);
+    const visible = run.stdout.replace(/<!--[\s\S]*?-->/g, '');
+    expect(visible).not.toMatch(/<(img|script|h\d)\b/);
+    expect(visible).not.toContain('smuggled');
+    // The caution is a paragraph below the table, escaped like cells.
+    expect(visible).toContain('<em>Careful --&gt; =1+1</em>');
+  });
+
+  it('writes the LaTeX provenance as % lines, one per entry', () => {
+    const tex = toLatex(withProvenance).split('\n');
+    const start = tex.indexOf('% Provenance (Quarterturn export)');
+    expect(start).toBeGreaterThan(0);
+    const n = provenanceLines(hostileProvenance).length;
+    expect(tex.slice(start, start + n).every((l) => l.startsWith('% '))).toBe(true);
+    expect(tex[start + n]).toBe('\\begin{table}[htbp]');
   });
 });
 
@@ -127,7 +178,7 @@ describe('LaTeX injection', () => {
     const dir = mkdtempSync(join(tmpdir(), 'qt-latex-hostile-'));
     try {
       // \showoutput writes each page's boxes to the log, one glyph per line, so the typeset text can be read back.
-      writeFileSync(join(dir, 'table.tex'), `\\documentclass{article}\n\\usepackage[T1]{fontenc}\n\\usepackage[utf8]{inputenc}\n\\usepackage{booktabs}\n\\usepackage[margin=5mm,landscape]{geometry}\n\\showoutput\n\\begin{document}\n\\tiny\n${toLatex(hostileTable)}\\end{document}\n`);
+      writeFileSync(join(dir, 'table.tex'), `\\documentclass{article}\n\\usepackage[T1]{fontenc}\n\\usepackage[utf8]{inputenc}\n\\usepackage{booktabs,graphicx}\n\\usepackage[margin=5mm,landscape]{geometry}\n\\showoutput\n\\begin{document}\n\\tiny\n${toLatex(withProvenance)}\\end{document}\n`);
       const run = spawnSync('pdflatex', ['-no-shell-escape', '-interaction=nonstopmode', '-halt-on-error', 'table.tex'], {
         cwd: dir, encoding: 'utf8', timeout: 60_000, env: { ...process.env, max_print_line: '100000' },
       });
@@ -139,6 +190,9 @@ describe('LaTeX injection', () => {
       const typeset = typesetText(log);
       for (const [, shown] of HOSTILE) expect(typeset).toContain(squash(shown));
       expect(typeset).toContain('Filters: map has \\input{/etc/passwd} } \\caption{x % <b>end</b> # heading');
+      // The provenance and the caution are comments: nothing of them is typeset.
+      expect(typeset).not.toContain('smuggled');
+      expect(typeset).not.toContain('Careful');
     } finally {
       rmSync(dir, { recursive: true, force: true });
     }
