@@ -72,6 +72,15 @@ describe('UserAdmin', () => {
     expect(await (await roleSelect('dev-pathson')).getValueText()).toBe('researcher');
   });
 
+  /** Picks `role` in the picker of `login` (pending only) and presses its Save button. */
+  async function pickAndSave(login: string, role: string): Promise<MatSelectHarness> {
+    const select = await roleSelect(login);
+    await select.open();
+    await select.clickOptions({ text: role });
+    await (await loader.getHarness(MatButtonHarness.with({ selector: `[aria-label="Save role of ${login}"]` }))).click();
+    return select;
+  }
+
   /** The open confirmation dialog, its text, and a click on one of its buttons. */
   async function confirmation(): Promise<{ title: string; text: string; click: (label: string) => Promise<void> }> {
     const dialog = await TestbedHarnessEnvironment.documentRootLoader(fixture).getHarness(MatDialogHarness);
@@ -85,10 +94,31 @@ describe('UserAdmin', () => {
     };
   }
 
-  it('asks before a role change and, when kept, sends nothing and shows the old role', async () => {
+  it('keeps a picked role pending, with no question and nothing sent, until Save', async () => {
     const select = await roleSelect('dev-pathson');
+    const save = await loader.getHarness(MatButtonHarness.with({ selector: '[aria-label="Save role of dev-pathson"]' }));
+    expect(await save.isDisabled()).toBe(true);
+
+    // ArrowDown on the closed picker (what once saved at once) only moves the pending choice.
+    const host = (fixture.nativeElement as HTMLElement).querySelector<HTMLElement>('[aria-label="Role of dev-pathson"]')!;
+    host.dispatchEvent(new KeyboardEvent('keydown', { key: 'ArrowDown', keyCode: 40, bubbles: true }));
+    await fixture.whenStable();
+
+    expect(await select.getValueText()).toBe('maintainer');
+    expect(await select.isOpen()).toBe(false);
+    expect(await TestbedHarnessEnvironment.documentRootLoader(fixture).getAllHarnesses(MatDialogHarness)).toHaveLength(0);
+    backend.expectNone('/api/admin/users/2');
+    expect(await save.isDisabled()).toBe(false);
+    expect(fixture.nativeElement.textContent).toContain('unsaved: researcher → maintainer');
+
+    // Picking the saved role again leaves nothing pending.
     await select.open();
-    await select.clickOptions({ text: 'maintainer' });
+    await select.clickOptions({ text: 'researcher' });
+    expect(await save.isDisabled()).toBe(true);
+  });
+
+  it('asks before a role change and, when kept, sends nothing and shows the old role', async () => {
+    const select = await pickAndSave('dev-pathson', 'maintainer');
 
     const ask = await confirmation();
     expect(ask.title).toBe('Make Dev Pathson (dev-pathson) a maintainer?');
@@ -102,9 +132,7 @@ describe('UserAdmin', () => {
   });
 
   it('says what a demotion takes away', async () => {
-    const select = await roleSelect('cyra-admin');
-    await select.open();
-    await select.clickOptions({ text: 'researcher' });
+    await pickAndSave('cyra-admin', 'researcher');
 
     const ask = await confirmation();
     expect(ask.title).toBe('Make Cyra Node (cyra-admin) a researcher?');
@@ -114,10 +142,8 @@ describe('UserAdmin', () => {
     backend.expectNone('/api/admin/users/1');
   });
 
-  it('sends PATCH /api/admin/users/:id with the chosen role once confirmed', async () => {
-    const select = await roleSelect('dev-pathson');
-    await select.open();
-    await select.clickOptions({ text: 'maintainer' });
+  it('sends PATCH /api/admin/users/:id with the chosen role once confirmed, and says it was saved', async () => {
+    const select = await pickAndSave('dev-pathson', 'maintainer');
     await (await confirmation()).click('Make maintainer');
 
     const req = backend.expectOne({ method: 'PATCH', url: '/api/admin/users/2' });
@@ -128,12 +154,15 @@ describe('UserAdmin', () => {
 
     expect(await select.getValueText()).toBe('maintainer');
     expect(await select.isDisabled()).toBe(false);
+    const bar = await TestbedHarnessEnvironment.documentRootLoader(fixture).getHarness(MatSnackBarHarness);
+    expect(await bar.getMessage()).toBe('Saved: Dev Pathson (dev-pathson) is now a maintainer.');
+    // A polite live region: the saved message waits for the screen reader to finish.
+    expect(await bar.getAriaLive()).toBe('polite');
+    expect(fixture.nativeElement.textContent).not.toContain('unsaved:');
   });
 
   it("shows the server's LAST_ADMIN message and puts the old role back", async () => {
-    const select = await roleSelect('cyra-admin');
-    await select.open();
-    await select.clickOptions({ text: 'researcher' });
+    const select = await pickAndSave('cyra-admin', 'researcher');
     await (await confirmation()).click('Make researcher');
 
     backend.expectOne('/api/admin/users/1').flush(

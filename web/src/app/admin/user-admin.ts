@@ -1,11 +1,16 @@
-/** Admin page: every account with a role picker per row, and one person's storage quota at a time. */
+/**
+ * Admin page: every account with a role picker and a Save button per row, and one person's storage
+ * quota at a time. A picked role is only pending until Save and the confirmation; the result is
+ * announced politely through a snack bar (a live region).
+ */
 import { ChangeDetectionStrategy, Component, DestroyRef, inject, signal } from '@angular/core';
 import { takeUntilDestroyed } from '@angular/core/rxjs-interop';
 import { DatePipe } from '@angular/common';
 import { MatButtonModule } from '@angular/material/button';
 import { MatDialog } from '@angular/material/dialog';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
-import { MatSelectModule, type MatSelectChange } from '@angular/material/select';
+import { MatSelectModule } from '@angular/material/select';
+import { MatSnackBar } from '@angular/material/snack-bar';
 import { MatTableModule } from '@angular/material/table';
 import { firstValueFrom } from 'rxjs';
 import type { Account, ChangeRoleRequest } from '@shared/auth';
@@ -57,6 +62,7 @@ export default class UserAdmin {
   private readonly api = inject(AdminApi);
   private readonly destroyRef = inject(DestroyRef);
   private readonly dialog = inject(MatDialog);
+  private readonly snackBar = inject(MatSnackBar);
   protected readonly session = inject(Session);
   protected readonly roleChoices = ROLE_CHOICES;
   protected readonly columns = ['displayName', 'login', 'email', 'createdAt', 'role', 'storage'];
@@ -66,6 +72,9 @@ export default class UserAdmin {
   protected readonly hasFailed = signal(false);
   /** Id of the account whose role is being saved, so its picker is locked meanwhile. */
   protected readonly savingId = signal<number | null>(null);
+
+  /** Roles picked but not saved yet, by account id. */
+  private readonly pending = signal<ReadonlyMap<number, AssignableRole>>(new Map());
 
   /** The account whose storage quota is open below the table. */
   protected readonly quotaOf = signal<Account | null>(null);
@@ -85,25 +94,53 @@ export default class UserAdmin {
     this.quotaOf.update((open) => (open?.id === user.id ? null : user));
   }
 
+  /** The role the picker of `user` shows: the pending choice, else the saved role. */
+  protected pendingOf(user: Account): Account['role'] {
+    return this.pending().get(user.id) ?? user.role;
+  }
+
+  /** Keeps a picked role as pending; nothing is sent until Save. */
+  protected choose(user: Account, role: AssignableRole): void {
+    this.pending.update((map) => {
+      const next = new Map(map);
+      if (role === user.role) next.delete(user.id);
+      else next.set(user.id, role);
+      return next;
+    });
+  }
+
+  private forget(user: Account): void {
+    this.pending.update((map) => {
+      const next = new Map(map);
+      next.delete(user.id);
+      return next;
+    });
+  }
+
   /**
-   * Saves a new role for one account. On refusal (e.g. LAST_ADMIN) the error interceptor shows
-   * the server's reason and the picker goes back to the role the server still holds.
+   * Saves the pending role of one account after a confirmation. On refusal (e.g. LAST_ADMIN) the
+   * error interceptor shows the server's reason and the picker goes back to the role the server
+   * still holds; on success a polite snack bar says what was saved.
    */
-  protected async changeRole(user: Account, change: MatSelectChange<AssignableRole>): Promise<void> {
+  protected async saveRole(user: Account): Promise<void> {
+    const next = this.pending().get(user.id);
+    if (next === undefined || next === user.role) return;
     // Asked first: a role is a set of rights and takes effect at that person's next request.
-    const isConfirmed = await firstValueFrom(askToConfirm(this.dialog, roleQuestion(user, change.value, user.id === this.session.account()?.id)));
+    const isConfirmed = await firstValueFrom(askToConfirm(this.dialog, roleQuestion(user, next, user.id === this.session.account()?.id)));
     if (!isConfirmed) {
-      change.source.value = user.role;
+      this.forget(user);
       return;
     }
     this.savingId.set(user.id);
     try {
-      const updated = await firstValueFrom(this.api.changeRole(user.id, change.value));
+      const updated = await firstValueFrom(this.api.changeRole(user.id, next));
       this.users.update((list) => list?.map((u) => (u.id === updated.id ? updated : u)));
+      this.forget(user);
+      this.snackBar.open(`Saved: ${updated.displayName} (${updated.login}) is now ${withArticle(updated.role)}.`, 'OK', { duration: 6000, politeness: 'polite' });
       // Changing one's own role changes what the shell may show.
       if (user.id === this.session.account()?.id) await this.session.reload();
     } catch {
-      change.source.value = user.role;
+      this.forget(user);
     } finally {
       this.savingId.set(null);
     }
