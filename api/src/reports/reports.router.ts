@@ -8,6 +8,7 @@ import { Router } from 'express';
 import { REPORT_FORMATS, REPORT_POLICIES, type ReportFormat } from '@shared/reports';
 import type { SweepPolicy } from '@shared/sweeps';
 import { AppError } from '../errors/app-error';
+import type { ProvenanceReader } from '../exports/export-provenance';
 import { flatQuery } from '../leaderboards/view-request';
 import { reportToLatex, reportToMarkdown } from './report-export';
 import type { ReportRequest, ReportsService } from './reports.service';
@@ -42,20 +43,24 @@ export function reportQueryOf(query: unknown): ReportRequest & { readonly format
 const fileName = (setName: string, policy: string, ext: string): string =>
   `model-comparison-${`${setName}-${policy}`.toLowerCase().replace(/[^a-z0-9]+/g, '-').replace(/^-|-$/g, '').slice(0, 80)}.${ext}`;
 
-/** Report routes over the service. */
-export function reportsRouter(svc: ReportsService): Router {
+/** Report routes over the service; Markdown and LaTeX files carry the provenance of the report's results. */
+export function reportsRouter(svc: ReportsService, provenanceOf: ProvenanceReader): Router {
   const r = Router();
   r.get('/choices', async (req, res) => {
     res.json(await svc.choices(req.user ?? null));
   });
   r.get('/model-comparison', async (req, res) => {
     const { format, ...request } = reportQueryOf(req.query);
-    const report = await svc.modelComparison(req.user ?? null, request);
     if (format === 'json') {
-      res.json(report);
+      // The page's own read: no provenance look-up.
+      res.json(await svc.modelComparison(req.user ?? null, request));
       return;
     }
-    const [text, type, ext] = format === 'markdown' ? [reportToMarkdown(report), 'text/markdown', 'md'] : [reportToLatex(report), 'application/x-latex', 'tex'];
+    const { report, resultIds } = await svc.modelComparisonWithResults(req.user ?? null, request);
+    const provenance = await provenanceOf({ resultIds, entries: [] });
+    const [text, type, ext] = format === 'markdown'
+      ? [reportToMarkdown(report, provenance), 'text/markdown', 'md']
+      : [reportToLatex(report, provenance), 'application/x-latex', 'tex'];
     res.type(`${type}; charset=utf-8`).attachment(fileName(report.set.name, report.policy, ext)).send(text);
   });
   return r;

@@ -29,6 +29,8 @@ export interface ReportRequest {
 export interface ReportsService {
   choices(viewer: Viewer): Promise<ReportChoices>;
   modelComparison(viewer: Viewer, request: ReportRequest): Promise<ModelComparisonReport>;
+  /** The report and the ids of the stored results it reads (for the provenance of its exports). */
+  modelComparisonWithResults(viewer: Viewer, request: ReportRequest): Promise<{ readonly report: ModelComparisonReport; readonly resultIds: readonly number[] }>;
 }
 
 /**
@@ -51,7 +53,7 @@ const VARIANT_SQL = `concat_ws(' ',
  */
 const OUTCOMES_SQL = `
   SELECT DISTINCT ON (r.scenario_id, r.agents, r.model, ${VARIANT_SQL})
-    r.scenario_id, r.agents, r.model, ${VARIANT_SQL} AS variant, r.status,
+    r.id AS result_id, r.scenario_id, r.agents, r.model, ${VARIANT_SQL} AS variant, r.status,
     r.turn_inclusive_makespan_ms AS ti_makespan_ms, r.robot_profile,
     r.executable_at_nominal,
     x.runs, x.success_rate, x.collisions_mean, x.realised_makespan_mean_ms, x.finish_spread_mean_ms, x.noise
@@ -64,6 +66,7 @@ const OUTCOMES_SQL = `
   ORDER BY r.scenario_id, r.agents, r.model, ${VARIANT_SQL}, (r.status = 'solved') DESC, (x.id IS NOT NULL) DESC, r.id DESC`;
 
 interface OutcomeRow {
+  result_id: number;
   scenario_id: number;
   agents: number;
   model: string;
@@ -109,9 +112,12 @@ export function createReportsService(deps: { readonly sequelize: Sequelize; read
     return { sets: [...sets.values()], policies: REPORT_POLICIES };
   }
 
-  return {
+  const service: ReportsService = {
     choices,
     async modelComparison(viewer, request) {
+      return (await service.modelComparisonWithResults(viewer, request)).report;
+    },
+    async modelComparisonWithResults(viewer, request) {
       const set = await deps.models.InstanceSet.findByPk(request.setId);
       // A set the viewer may not see does not exist for him (same 404 as the instance library).
       if (!set || !isSetVisible(set, viewer)) {
@@ -151,7 +157,7 @@ export function createReportsService(deps: { readonly sequelize: Sequelize; read
       // Replays with different runs, jitter or stalls are not comparable: no ranking then (the summary and the page say so).
       const comparison = executionSettings.length > 1 ? null : compareOnCommonInstances(outcomes);
       const label = profileLabel(profile);
-      return {
+      const report: ModelComparisonReport = {
         set: { id: set.id, name: set.name },
         profile: { hash: profileHash, label, value: profile },
         policy: request.policy,
@@ -163,6 +169,8 @@ export function createReportsService(deps: { readonly sequelize: Sequelize; read
         methods: REPORT_METHODS,
         safetyNote: SAFETY_NOTE,
       };
+      return { report, resultIds: rows.map((r) => r.result_id) };
     },
   };
+  return service;
 }

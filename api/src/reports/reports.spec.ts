@@ -4,6 +4,7 @@
  * the figures recomputed here from the seeded numbers and the generated sentences checked.
  */
 import { meanInterval, wilsonInterval } from '@shared/confidence-interval';
+import { profileLabel } from '@shared/leaderboards';
 import { MIXED_SETTINGS_NOTE, type ModelComparisonReport, type ReportChoices, type VariantFigures } from '@shared/reports';
 import { parameterHash } from '../sweeps/parameter-hash';
 import { PROFILES, startBoardWorld, type BoardWorld } from '../../../test/integration/leaderboard-support';
@@ -246,6 +247,39 @@ describe('GET /api/reports/model-comparison', () => {
     expect(tex).toContain('weighted-split');
     expect(tex).toContain('Realised makespan / classic (ratio, 95 \\% CI)');
     expect(tex).toContain('\\textbf{Simulation is no safety assessment.');
+  });
+
+  it('heads the Markdown and LaTeX files with the provenance of exactly the results the report reads (issue 14, item 9)', async () => {
+    const [sweep] = await world.lib.sql<{ id: number }>("INSERT INTO sweeps (owner_id, name, definition) SELECT id, 'report provenance', '{}' FROM users ORDER BY id LIMIT 1 RETURNING id");
+    await world.lib.sql('UPDATE results SET sweep_id = :sweep WHERE instance_set_id = :set', { sweep: sweep.id, set: world.publicSet });
+    // Read: the newest result per instance and variant of the public set under profile 0; not the older
+    // timed-out classic attempt of instance 0, nor the other profile's or the private set's results.
+    const read = await world.lib.sql<{ seed: string }>(
+      `SELECT seed FROM results WHERE instance_set_id = :set AND robot_profile_hash = :hash AND NOT (model = 'classic' AND status = 'timeout') ORDER BY seed`,
+      { set: world.publicSet, hash: HASH[0] },
+    );
+    expect(read).toHaveLength(20);
+    const files = await world.lib.sql<{ kind: string; name: string; checksum: string }>(
+      `SELECT 'map' AS kind, name, checksum FROM maps WHERE instance_set_id = :set UNION ALL SELECT 'scenario', name, checksum FROM scenarios WHERE instance_set_id = :set ORDER BY kind, name`,
+      { set: world.publicSet },
+    );
+    const facts = [
+      'results: 20', `sweeps: ${sweep.id}`, 'submissions: none', `seeds: ${read.map((r) => r.seed).join(', ')}`,
+      `robot profile ${HASH[0]}: ${profileLabel(PROFILES[0])} (`, ...files.map((f) => `${f.kind} Board public / ${f.name}: sha256 ${f.checksum}`),
+    ];
+    const md = (await (await get(`set=${world.publicSet}&profile=${HASH[0]}&format=markdown`)).text()).split('\n');
+    const tex = (await (await get(`set=${world.publicSet}&profile=${HASH[0]}&format=latex`)).text()).split('\n');
+    expect(md[0]).toBe('<!--');
+    const mdComment = md.slice(1, md.indexOf('-->'));
+    const texComment = tex.filter((l) => l.startsWith('% '));
+    for (const fact of facts) {
+      expect([fact, mdComment.filter((l) => l.startsWith(fact)).length, texComment.filter((l) => l.startsWith(`% ${fact}`)).length]).toEqual([fact, 1, 1]);
+    }
+    expect(mdComment.filter((l) => /^(robot profile|map|scenario) /.test(l))).toHaveLength(1 + files.length);
+    expect(mdComment.find((l) => l.startsWith('hub commit: '))).toMatch(/^hub commit: ([0-9a-f]{40}|unknown)$/);
+    expect(mdComment.find((l) => l.startsWith('exported at: '))).toMatch(/^exported at: \d{4}-\d\d-\d\dT\d\d:\d\d:\d\d\.\d{3}Z$/);
+    // The JSON the page reads stays as it was.
+    expect(Object.keys(await report(`set=${world.publicSet}&profile=${HASH[0]}`))).not.toContain('meta');
   });
 
   it('defaults to the profile with most rows and to dependency-gated, and reads another policy on request', async () => {
