@@ -10,6 +10,9 @@ import { CbsEngine } from '../search/cbs';
 import type { Conflict } from '../search/conflict';
 import { ConflictAvoidanceTable } from '../search/conflict-avoidance-table';
 import { SpaceTimeAStar } from '../search/space-time-astar';
+import { FocalSpaceTimeAStar } from '../search/focal-space-time-astar';
+import { switchesForSuboptimality } from '../search/bounded-switches';
+import { checkSuboptimality } from '../search/suboptimality';
 import { findFollowingConflicts } from '../search/following-conflicts';
 import { findUnitStepConflicts } from '../search/unit-step-conflicts';
 import { cellDegrees, DistanceCache, UNREACHABLE } from '../grid/distance';
@@ -126,13 +129,15 @@ export interface ClassicOptions extends CbsOptions {
 }
 
 /**
- * Optimal (minimum sum-of-costs) CBS for the classic model. Deterministic; honours
+ * Optimal (minimum sum-of-costs) CBS for the classic model, or with `suboptimality` w > 1 the
+ * bounded EECBS search of cbs.ts (sum-of-costs ≤ w × the reported lower bound). Deterministic; honours
  * `timeLimitMs` (only with an injected `now`), `nodeLimit`, `memoryLimitMb` and `signal`, and on
  * a limit returns `timeout` with the best proven lower bound. With `following: forbidden` the
  * optimum is over plans without following conflicts (every improvement stays on: see cbs.ts).
  */
 export function solveClassic(instance: MapfInstance, options: ClassicOptions = {}): CbsResult {
-  const switches: CbsSwitches = { ...DEFAULT_SWITCHES, ...options.switches };
+  const w = checkSuboptimality(options.suboptimality);
+  const switches: CbsSwitches = switchesForSuboptimality({ ...DEFAULT_SWITCHES, ...options.switches }, w);
   const budget = new Budget(options.now, options.timeLimitMs, options.signal);
   const base = { switches, nodesGenerated: 0, nodesExpanded: 0, lowLevelExpansions: 0 };
   const model = new ClassicModel(instance.grid, instance, options.following ?? 'allowed');
@@ -141,6 +146,8 @@ export function solveClassic(instance: MapfInstance, options: ClassicOptions = {
     return { ...base, status: problem.status, reason: problem.reason, paths: [], soc: null, makespan: null, lowerBound: null, runtimeMs: budget.elapsedMs() };
   }
   const planner = new SpaceTimeAStar(model, budget);
+  const focal = w > 1 ? new FocalSpaceTimeAStar(model, budget) : undefined;
+  const lowLevel = (): number => planner.expansions + (focal?.expansions ?? 0);
   const engine = new CbsEngine({
     model,
     agents: instance.agents.map((_, i) => i),
@@ -154,15 +161,16 @@ export function solveClassic(instance: MapfInstance, options: ClassicOptions = {
     isLimitFatal: true,
     memoryLimitBytes: (options.memoryLimitMb ?? 1024) * 1024 * 1024,
     isSub: false,
+    ...(focal !== undefined ? { suboptimality: w, focalPlanner: focal } : {}),
   });
   try {
     const out = engine.run();
-    const stats = { switches, nodesGenerated: engine.generated, nodesExpanded: engine.expanded, lowLevelExpansions: planner.expansions };
+    const stats = { switches, nodesGenerated: engine.generated, nodesExpanded: engine.expanded, lowLevelExpansions: lowLevel() };
     if (out.kind === 'solved') {
       const paths = out.paths.map((p) => Array.from(p));
       return {
         ...stats, status: 'solved', paths, soc: out.soc, makespan: paths.reduce((mk, p) => Math.max(mk, p.length - 1), 0),
-        lowerBound: out.soc, runtimeMs: budget.elapsedMs(),
+        lowerBound: out.lowerBound, runtimeMs: budget.elapsedMs(),
       };
     }
     return { ...stats, status: 'infeasible', reason: out.reason, paths: [], soc: null, makespan: null, lowerBound: null, runtimeMs: budget.elapsedMs() };
@@ -170,7 +178,7 @@ export function solveClassic(instance: MapfInstance, options: ClassicOptions = {
     if (!(e instanceof LimitReached)) throw e;
     const lb = engine.lowerBound();
     return {
-      switches, nodesGenerated: engine.generated, nodesExpanded: engine.expanded, lowLevelExpansions: planner.expansions,
+      switches, nodesGenerated: engine.generated, nodesExpanded: engine.expanded, lowLevelExpansions: lowLevel(),
       status: 'timeout', reason: `${e.reason} limit reached`, paths: [], soc: null, makespan: null,
       lowerBound: Number.isFinite(lb) ? lb : null, runtimeMs: budget.elapsedMs(),
     };

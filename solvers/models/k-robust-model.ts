@@ -35,6 +35,8 @@ export class KRobustModel implements SearchModel {
   readonly supportsGridSymmetry: boolean;
   /** Passable 4-neighbour count per cell (corridor reasoning). */
   readonly degree: Uint8Array;
+  /** k: the window of k-delay conflicts. */
+  readonly delayWindow: number;
 
   /** Builds the model; `k` must be an integer in 0…MAX_K (checked by the caller). */
   constructor(instance: MapfInstance, readonly k: number, readonly classic = new ClassicModel(instance.grid, instance)) {
@@ -49,6 +51,7 @@ export class KRobustModel implements SearchModel {
     this.goalCells = classic.goalCells;
     this.degree = classic.degree;
     this.supportsGridSymmetry = k === 0;
+    this.delayWindow = k;
   }
 
   /** BFS distances to the agent's goal (the classic heuristic: delays never shorten a path). */

@@ -20,6 +20,8 @@ import type { RobotProfile, Schedule, StartHeading } from '@shared/plan';
 import type { MapfInstance } from '../instance';
 import { type CbsOptions, type CbsResult, type CbsSwitches, DEFAULT_SWITCHES } from '../search/cbs-types';
 import { runModelCbs } from '../search/run-model-cbs';
+import { switchesForSuboptimality } from '../search/bounded-switches';
+import { checkSuboptimality } from '../search/suboptimality';
 import { checkInstance } from './classic';
 import { DEFAULT_ROBOT_PROFILE } from './heading-schedule';
 import { KRobustModel, MAX_K } from './k-robust-model';
@@ -65,7 +67,7 @@ export function solveKRobust(instance: MapfInstance, options: KRobustOptions): K
   if (!Number.isInteger(k) || k < 0 || k > MAX_K) throw new RangeError(`k-robust: option k must be an integer from 0 to ${MAX_K}, got ${String(k)}`);
   const profile = options.profile ?? DEFAULT_ROBOT_PROFILE;
   const startHeading = checkStartHeading(options.startHeading ?? 'free', 'k-robust');
-  const switches = kRobustSwitches(k, options.switches);
+  const switches = switchesForSuboptimality(kRobustSwitches(k, options.switches), checkSuboptimality(options.suboptimality));
   const base = { model: 'k-robust' as const, k, profile, startHeading, switches };
   const unsolved = { paths: [], soc: null, makespan: null, turnInclusiveSocMs: null, turnInclusiveMakespanMs: null, turns: null, schedule: [] };
   const model = new KRobustModel(instance, k);

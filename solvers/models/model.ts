@@ -76,4 +76,9 @@ export interface SearchModel {
    * DG/WDG dependency test (mdd.ts haveConflictFreePair) uses the same rule. Absent = false.
    */
   readonly forbidsFollowing?: boolean;
+  /**
+   * k-robust: two agents conflict in a cell at times up to this many steps apart (absent = 0).
+   * Only the bounded search's conflict avoidance table reads it (to steer focal search away).
+   */
+  readonly delayWindow?: number;
 }

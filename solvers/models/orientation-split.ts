@@ -18,6 +18,8 @@ import type { FollowingRule, RobotProfile, Schedule, StartHeading } from '@share
 import type { MapfInstance } from '../instance';
 import { type CbsOptions, type CbsResult, type CbsSwitches, DEFAULT_SWITCHES } from '../search/cbs-types';
 import { runModelCbs } from '../search/run-model-cbs';
+import { switchesForSuboptimality } from '../search/bounded-switches';
+import { checkSuboptimality } from '../search/suboptimality';
 import type { OrientedState } from '../validate/orientation-split';
 import { checkInstance } from './classic';
 import { DEFAULT_ROBOT_PROFILE, scheduleFromHeadingStates } from './heading-schedule';
@@ -63,7 +65,7 @@ export function solveOrientationSplit(instance: MapfInstance, options: Orientati
     if (a.startHeading !== undefined) checkStartHeading(a.startHeading, `orientation-split: agent ${i}`);
   });
   const profile = options.profile ?? DEFAULT_ROBOT_PROFILE;
-  const switches = orientationSwitches(options.switches);
+  const switches = switchesForSuboptimality(orientationSwitches(options.switches), checkSuboptimality(options.suboptimality));
   const base = { model: 'orientation-split' as const, startHeading, profile, switches };
   const unsolved = { paths: [], states: [], soc: null, makespan: null, turnInclusiveSocMs: null, turnInclusiveMakespanMs: null, turns: null, schedule: [] };
   // Cell reachability decides feasibility here too: a robot can turn on the spot anywhere.

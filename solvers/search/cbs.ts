@@ -34,6 +34,23 @@
  * Optimality argument: every split is complete (each solution of a node satisfies one child's
  * constraints), every agent's path is optimal under its constraints, and the node order is by
  * f = g + h with h admissible, so the first conflict-free node popped is optimal.
+ *
+ * Bounded-suboptimal mode (`suboptimality` w > 1; w = 1 runs exactly the search above): EECBS
+ * (Li, Ruml, Koenig, "EECBS: A bounded-suboptimal search for multi-agent path finding", AAAI
+ * 2021) over the ECBS low level (Barer, Sharon, Stern, Felner, SoCS 2014): each agent's path
+ * comes from focal search (focal-space-time-astar.ts) and costs at most w × lb_i, where lb_i is
+ * a proven lower bound on that agent's optimal cost under its constraints; a node's f_lb =
+ * max(Σ lb_i, parent's f_lb) bounds the optimal SOC of the plans its constraints admit (they are
+ * a subset of the parent's). The splits stay complete, so some open node always admits an
+ * optimal plan and LB = min f_lb over the open nodes (eecbs-lists.ts CLEANUP) never exceeds the
+ * optimum; a conflict-free node is returned only when its cost ≤ w × LB. A conflict-free node
+ * whose cost exceeds it (only CLEANUP's top can be chosen so) gets optimal paths for its agents
+ * (lb_i = cost_i) and goes back to the lists. The improvements in this mode: conflict
+ * prioritisation (it only picks the conflict to split), bypass (only a child with the same
+ * cost per agent and fewer conflicts, so the parent's lower bounds and MDDs stay its own),
+ * disjoint splitting, target and corridor reasoning (complete splits whatever the path costs).
+ * The WDG heuristic and rectangle reasoning, whose arguments need each agent's path to be
+ * optimal (MDDs at the optimal cost), are off (the drivers switch them off).
  */
 import type { SearchModel } from '../models/model';
 import { Budget, LimitReached } from './budget';
@@ -50,10 +67,14 @@ import {
 import { classifyByMdds } from './conflict-priority';
 import { findCorridorConflict } from './corridor-reasoning';
 import { classifyFollowingConflict, K_FOLLOW, splitFollowingConflict } from './following-conflicts';
+import { CostToGoEstimate } from './eecbs-estimate';
+import { EecbsLists, type EecbsNode } from './eecbs-lists';
+import { FocalSpaceTimeAStar } from './focal-space-time-astar';
 import { buildMdd, haveConflictFreePair, type Mdd } from './mdd';
 import { findRectangleConflict } from './rectangle-reasoning';
 import { classifyRangeConflict, K_RANGE } from './range-conflicts';
 import { SpaceTimeAStar } from './space-time-astar';
+import { boundOf } from './suboptimality';
 import { PairWeightMemo, type PairWeightKey } from './pair-weight-memo';
 import { minWeightedVertexCover, type WeightedEdge } from './weighted-vertex-cover';
 
@@ -97,6 +118,10 @@ export interface CbsEngineConfig {
   readonly isSub: boolean;
   /** WDG pair weights kept before the memo is cleared (default {@link PAIR_WEIGHT_CAPACITY}; tests make clears frequent). */
   readonly pairWeightCapacity?: number;
+  /** Suboptimality factor w (default 1 = optimal search); w > 1 needs `focalPlanner` and WDG and rectangle reasoning off. */
+  readonly suboptimality?: number;
+  /** The focal low level of the bounded mode (shares the budget; counts its own expansions). */
+  readonly focalPlanner?: FocalSpaceTimeAStar;
 }
 
 /** Outcome of one CBS run. */
@@ -111,10 +136,18 @@ export interface CbsOutcome {
 }
 
 /** A constraint tree node. */
-class CtNode implements HeapItem {
+class CtNode implements HeapItem, EecbsNode {
   heapIndex = -1;
   f: number;
   isHComputed = false;
+  /** Bounded mode: per local agent a proven lower bound on its optimal cost under the node's constraints. */
+  lbs: Int32Array | null = null;
+  /** Bounded mode: proven lower bound on the optimal SOC under the node's constraints. */
+  fLb = 0;
+  /** Bounded mode: g + ĥ. */
+  fHat = 0;
+  version = 0;
+  isClosed = false;
 
   constructor(
     readonly id: number,
@@ -161,6 +194,10 @@ export class CbsEngine {
   private readonly corridors = new WeakMap<Conflict, { t1: ConstraintTable; t2: ConstraintTable; out: Conflict | null }>();
   /** Ids are never reused: caches are keyed by them, and a discarded child must not alias a later one. */
   private nextId = 1;
+  /** Suboptimality factor; bounded mode when > 1. */
+  private readonly w: number;
+  private readonly lists: EecbsLists<CtNode> | null;
+  private readonly estimate = new CostToGoEstimate();
 
   /** Prepares a run. */
   constructor(private readonly cfg: CbsEngineConfig) {
@@ -170,6 +207,11 @@ export class CbsEngine {
     this.localOf = new Int32Array(cfg.model.agentCount).fill(-1);
     this.weights = new PairWeightMemo(cfg.pairWeightCapacity ?? PAIR_WEIGHT_CAPACITY, (a, b) => this.isAncestorOrSelf(a, b));
     cfg.agents.forEach((a, i) => { this.localOf[a] = i; });
+    this.w = cfg.suboptimality ?? 1;
+    if (this.w > 1 && (cfg.focalPlanner === undefined || cfg.switches.wdg || cfg.switches.rectangleReasoning || cfg.isSub)) {
+      throw new Error('bounded CBS needs a focal planner and the WDG heuristic and rectangle reasoning off');
+    }
+    this.lists = this.w > 1 ? new EecbsLists<CtNode>(this.w) : null;
     // Root keys are `0 * L + i`.
     cfg.initialTables?.forEach((t, i) => this.tables.set(i, t));
     cfg.initialMdds?.forEach((m, i) => this.mdds.set(i, m));
@@ -178,7 +220,7 @@ export class CbsEngine {
   /** Runs the search to a proven optimum, a limit, or an empty open list. */
   run(): CbsOutcome {
     try {
-      return this.search();
+      return this.lists !== null ? this.searchBounded(this.lists) : this.search();
     } catch (e) {
       if (e instanceof LimitReached && !this.cfg.isLimitFatal && (e.reason === 'nodes')) return this.limitOutcome('nodes');
       throw e;
@@ -187,6 +229,7 @@ export class CbsEngine {
 
   /** The best proven lower bound so far (min f over the open list and the node being expanded). */
   lowerBound(): number {
+    if (this.lists !== null) return Math.min(this.lists.scanLowerBound(), this.currentF >= 0 ? this.currentF : Infinity);
     let lb = Infinity;
     for (const n of this.open.values()) if (n.f < lb) lb = n.f;
     if (this.currentF >= 0 && this.currentF < lb) lb = this.currentF;
@@ -242,6 +285,97 @@ export class CbsEngine {
     return { kind: 'infeasible', paths: [], soc: -1, lowerBound: Infinity, generated: this.generated, expanded: this.expanded, reason: 'the constraint tree was exhausted' };
   }
 
+  /** The bounded search: the EECBS high level over CLEANUP, OPEN and FOCAL (see the file comment). */
+  private searchBounded(lists: EecbsLists<CtNode>): CbsOutcome {
+    const root = this.makeRoot();
+    if (root === null) {
+      return { kind: 'infeasible', paths: [], soc: -1, lowerBound: Infinity, generated: this.generated, expanded: 0, reason: 'an agent has no path under its constraints' };
+    }
+    this.pushOpen(root);
+    this.currentF = -1;
+    for (;;) {
+      this.cfg.budget.check();
+      const pick = lists.select();
+      if (pick === null) break;
+      const node = pick.node;
+      this.currentF = node.fLb;
+      if (node.conflicts.length === 0) {
+        if (node.g <= boundOf(pick.lowerBound, this.w)) {
+          return { kind: 'solved', paths: node.paths, soc: node.g, lowerBound: pick.lowerBound, generated: this.generated, expanded: this.expanded };
+        }
+        this.tighten(node);
+        this.pushOpen(node);
+        this.currentF = -1;
+        continue;
+      }
+      if (this.expanded >= this.cfg.expandLimit) {
+        this.pushOpen(node);
+        this.currentF = -1;
+        throw new LimitReached('nodes');
+      }
+      this.expanded++;
+      this.expand(node);
+      this.currentF = -1;
+      if (node.isClosed) {
+        node.paths = [];
+        node.conflicts = [];
+        node.lbs = null;
+      }
+    }
+    return { kind: 'infeasible', paths: [], soc: -1, lowerBound: Infinity, generated: this.generated, expanded: this.expanded, reason: 'the constraint tree was exhausted' };
+  }
+
+  /**
+   * A conflict-free node whose cost exceeds w × LB: every agent above its lower bound gets an
+   * optimal path under the node's constraints (focal search with w = 1), so its lower bound
+   * becomes its cost; the node's figures and, when a path changed, its conflicts are recomputed.
+   */
+  private tighten(node: CtNode): void {
+    const focal = this.cfg.focalPlanner as FocalSpaceTimeAStar;
+    const lbs = node.lbs as Int32Array;
+    const L = this.L;
+    let isChanged = false;
+    for (let i = 0; i < L; i++) {
+      if (node.paths[i].length - 1 <= lbs[i]) continue;
+      this.cfg.cat.fill(this.model.stateCell, node.paths, i);
+      const p = focal.plan(this.cfg.agents[i], this.table(node, i), this.cfg.cat, 1);
+      if (p === null) throw new Error(`agent ${this.cfg.agents[i]} lost its path at node ${node.id}`);
+      lbs[i] = p.length - 1;
+      if (p.length !== node.paths[i].length) {
+        node.paths[i] = p;
+        node.mddOwner[i] = this.nextId++; // a new cost: its MDD must not be taken from the cache
+        isChanged = true;
+        this.bytes += p.length * 4 + 32;
+      }
+    }
+    node.g = node.paths.reduce((sum, p) => sum + p.length - 1, 0);
+    node.fLb = Math.max(node.fLb, lbs.reduce((sum, v) => sum + v, 0));
+    if (isChanged) {
+      const conflicts: Conflict[] = [];
+      for (let i = 0; i < L; i++) for (let j = i + 1; j < L; j++) this.pairConflicts(node.paths, i, j, conflicts);
+      node.conflicts = conflicts;
+    }
+  }
+
+  /** Puts a node into the open list (exact mode) or the EECBS lists with its ĥ (bounded mode). */
+  private pushOpen(node: CtNode): void {
+    if (this.lists === null) {
+      this.open.push(node);
+      return;
+    }
+    node.fHat = node.g + this.estimate.estimate(Math.max(0, node.fLb - node.g), node.conflicts.length);
+    this.lists.push(node);
+  }
+
+  /** Plans local agent i under `table`: optimal (exact mode), or within w of optimal raising `lbs[i]` to the bound proved. */
+  private planAgent(i: number, table: ConstraintTable, lbs: Int32Array | null): Int32Array | null {
+    if (lbs === null) return this.cfg.planner.plan(this.cfg.agents[i], table, this.cfg.cat);
+    const focal = this.cfg.focalPlanner as FocalSpaceTimeAStar;
+    const p = focal.plan(this.cfg.agents[i], table, this.cfg.cat, this.w);
+    if (p !== null && focal.lastLowerBound > lbs[i]) lbs[i] = focal.lastLowerBound;
+    return p;
+  }
+
   // ---------------------------------------------------------------- nodes
 
   private register(node: CtNode): void {
@@ -258,6 +392,7 @@ export class CbsEngine {
     const owner = new Int32Array(L);
     const root = new CtNode(0, null, [], [], 0, 0, [], owner, new Int32Array(L));
     this.nodes[0] = root;
+    const lbs = this.lists !== null ? new Int32Array(L) : null;
     for (let i = 0; i < L; i++) {
       const given = this.cfg.initialPaths?.[i];
       if (given) {
@@ -265,13 +400,17 @@ export class CbsEngine {
         continue;
       }
       this.cfg.cat.fill(this.model.stateCell, paths, i);
-      const p = this.cfg.planner.plan(this.cfg.agents[i], this.table(root, i), this.cfg.cat);
+      const p = this.planAgent(i, this.table(root, i), lbs);
       if (p === null) return null;
       paths[i] = p;
     }
     root.paths = paths as Int32Array[];
     root.g = root.paths.reduce((s, p) => s + p.length - 1, 0);
     root.f = root.g;
+    if (lbs !== null) {
+      root.lbs = lbs;
+      root.fLb = lbs.reduce((sum, v) => sum + v, 0);
+    }
     const conflicts: Conflict[] = [];
     for (let i = 0; i < L; i++) for (let j = i + 1; j < L; j++) this.pairConflicts(root.paths, i, j, conflicts);
     root.conflicts = conflicts;
@@ -345,18 +484,39 @@ export class CbsEngine {
         if (child !== null) children.push(child);
       }
       if (this.sw.bypass) {
-        const better = children.find((c) => c.g === node.g && c.conflicts.length < node.conflicts.length);
+        const better = children.find((c) => c.g === node.g && c.conflicts.length < node.conflicts.length && this.isSameCosts(c, node));
         if (better !== undefined) {
           // The child's paths satisfy the parent's constraints at the same cost: adopt them and split again.
           node.paths = better.paths;
           node.conflicts = better.conflicts;
-          if (node.conflicts.length === 0) { this.open.push(node); return; }
+          if (node.conflicts.length === 0) { this.pushOpen(node); return; }
           continue;
         }
       }
-      for (const c of children) this.open.push(c);
+      if (this.lists !== null) this.learn(node, children);
+      for (const c of children) this.pushOpen(c);
       return;
     }
+  }
+
+  /**
+   * Bypass test beyond equal total cost: in bounded mode each agent's cost must be the same too,
+   * so the parent's lower bounds and MDDs (keyed by cost-relevant owners) stay its own.
+   */
+  private isSameCosts(child: CtNode, node: CtNode): boolean {
+    if (this.lists === null) return true;
+    for (let i = 0; i < this.L; i++) if (child.paths[i].length !== node.paths[i].length) return false;
+    return true;
+  }
+
+  /** EECBS online learning: the one-step errors of the expansion of `node` towards its best child. */
+  private learn(node: CtNode, children: readonly CtNode[]): void {
+    if (children.length === 0) return;
+    let best = children[0];
+    for (const c of children) {
+      if (c.conflicts.length < best.conflicts.length || (c.conflicts.length === best.conflicts.length && Math.max(c.g, c.fLb) < Math.max(best.g, best.fLb))) best = c;
+    }
+    this.estimate.learn(Math.max(node.g, node.fLb), node.conflicts.length, Math.max(best.g, best.fLb), best.conflicts.length);
   }
 
   private generateChild(parent: CtNode, cons: readonly Constraint[]): CtNode | null {
@@ -366,6 +526,7 @@ export class CbsEngine {
     const mddOwner = parent.mddOwner.slice();
     const paths = parent.paths.slice();
     const child = new CtNode(id, parent, cons, paths, parent.g, 0, [], owner, mddOwner);
+    const lbs = parent.lbs !== null ? parent.lbs.slice() : null;
     const affected = new Uint8Array(L);
     for (const c of cons) {
       const li = this.localOf[c.agent];
@@ -388,7 +549,7 @@ export class CbsEngine {
       const table = this.table(child, j);
       if (!table.admitsPath(paths[j], stateCell)) {
         this.cfg.cat.fill(stateCell, paths, j);
-        const p = this.cfg.planner.plan(this.cfg.agents[j], table, this.cfg.cat);
+        const p = this.planAgent(j, table, lbs);
         if (p === null) {
           delete this.nodes[id];
           return null;
@@ -414,6 +575,11 @@ export class CbsEngine {
       }
     }
     child.conflicts = conflicts;
+    if (lbs !== null) {
+      // The child admits a subset of the parent's plans: its optimum is at least the parent's bound.
+      child.lbs = lbs;
+      child.fLb = Math.max(parent.fLb, lbs.reduce((sum, v) => sum + v, 0));
+    }
     child.h = Math.max(0, parent.f - child.g);
     child.f = child.g + child.h;
     this.register(child);

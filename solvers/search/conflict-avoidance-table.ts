@@ -17,9 +17,11 @@ export class ConflictAvoidanceTable {
 
   /**
    * Creates an empty table over `cellCount` cells; with `countsFollowing` (models with
-   * `following: forbidden`) entering a cell someone occupied one step earlier counts too.
+   * `following: forbidden`) entering a cell someone occupied one step earlier counts too; with
+   * `window` k > 0 (the bounded search of k-robust) a visit counts against every time within k
+   * steps of it, as k-delay conflicts do.
    */
-  constructor(private readonly cellCount: number, private readonly countsFollowing = false) {
+  constructor(private readonly cellCount: number, private readonly countsFollowing = false, private readonly window = 0) {
     this.restFrom = new Int32Array(cellCount).fill(NO_TIME);
   }
 
@@ -72,13 +74,14 @@ export class ConflictAvoidanceTable {
   visitsAfter(cell: number, t: number): number {
     const n = this.cellCount;
     let k = 0;
-    for (let u = t + 1; u < this.length; u++) k += this.counts[u * n + cell];
+    for (let u = t + 1 + this.window; u < this.length; u++) k += this.counts[u * n + cell];
     return k;
   }
 
   /** Number of conflicts caused by moving from cell `from` (at t − 1) to cell `to` (at t). */
   moveCost(from: number, to: number, t: number): number {
     const n = this.cellCount;
+    if (this.window > 0) return this.windowCost(to, t);
     let k = this.restFrom[to] <= t ? 1 : 0;
     if (t < this.length) {
       const c = this.counts;
@@ -87,6 +90,15 @@ export class ConflictAvoidanceTable {
       // Following (when forbidden): someone was at `to` one step earlier; a swap is one of those.
       if (from !== to && c[(t - 1) * n + to] !== 0 && (this.countsFollowing || c[t * n + from] !== 0)) k++;
     }
+    return k;
+  }
+
+  /** k-delay conflicts of being in `to` at t: visits within `window` steps, and agents resting there by t + window. */
+  private windowCost(to: number, t: number): number {
+    const n = this.cellCount;
+    let k = this.restFrom[to] <= t + this.window ? 1 : 0;
+    const last = Math.min(this.length - 1, t + this.window);
+    for (let u = Math.max(0, t - this.window); u <= last; u++) k += this.counts[u * n + to];
     return k;
   }
 }

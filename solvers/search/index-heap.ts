@@ -51,6 +51,17 @@ export class IndexHeap {
     this.siftUp(i, id, key);
   }
 
+  /** Inserts `id` with `key`, or moves it to `key` if present (up or down; the focal searches need both). */
+  set(id: number, key: number): void {
+    if (!this.has(id)) {
+      this.push(id, key);
+      return;
+    }
+    const i = this.pos[id];
+    if (key < this.keys[i]) this.siftUp(i, id, key);
+    else this.siftDown(i, id, key);
+  }
+
   /** The id with the smallest key (undefined behaviour when empty). */
   peek(): number {
     return this.ids[0];
