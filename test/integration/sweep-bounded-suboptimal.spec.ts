@@ -128,7 +128,7 @@ describe('bounded-suboptimal search in sweeps and on the board', () => {
         solver_version, solver_commit, node_version, cpu_model, thread_count
       FROM results WHERE sweep_id = :id AND model = 'classic' AND params->'model' ? 'suboptimality' ORDER BY id LIMIT 1`, { id: sweepId });
     const cols = 'agents,model,variant,socSteps,lowerBoundSteps,gap,optimality';
-    const page = (await (await s.client.request(`/api/leaderboards/rows?cols=${cols}&optimality.in=bounded&start=0&end=100`)).json()) as LeaderboardPage;
+    const page = (await (await s.client.request(`/api/leaderboards/rows?cols=${cols}&optimality.in=bounded&agents.eq=5&start=0&end=100`)).json()) as LeaderboardPage;
     expect(page.rows).toHaveLength(1);
     const [row] = page.rows;
     expect([row.agents, row.cells['variant'], row.cells['optimality']]).toEqual([5, 'w=1.5', 'bounded (w = 1.5)']);
@@ -136,5 +136,18 @@ describe('bounded-suboptimal search in sweeps and on the board', () => {
     const summary = (await (await s.client.request('/api/leaderboards/summary')).json()) as LeaderboardSummary;
     const line = summary.models.find((m) => m.model === 'classic' && m.variant === 'w=1.5');
     expect(line && line.solved - line.provenOptimal).toBeGreaterThanOrEqual(1);
+  });
+
+  it('refuses w below 1 in preview and launch with a 400 naming the field, and stores nothing', async () => {
+    const before = await s.sql<{ n: string }>('SELECT count(*) AS n FROM sweeps');
+    const def = baseDefinition(setId, { name: 'too low', models: [{ model: 'weighted-split', suboptimality: 0.9 }] });
+    for (const path of ['/api/sweeps/preview', '/api/sweeps']) {
+      const res = await s.client.request(path, { method: 'POST', body: JSON.stringify(def) });
+      expect(res.status).toBe(400);
+      const body = (await res.json()) as { error: { code: string; message: string; details: { path: (string | number)[]; message: string }[] } };
+      expect(body.error.code).toBe('VALIDATION_FAILED');
+      expect(body.error.details).toContainEqual(expect.objectContaining({ path: ['models', 0, 'suboptimality'], message: 'suboptimality (w) must be at least 1 (1 = optimal)' }));
+    }
+    expect(await s.sql<{ n: string }>('SELECT count(*) AS n FROM sweeps')).toEqual(before);
   });
 });
