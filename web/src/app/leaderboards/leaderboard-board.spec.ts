@@ -67,3 +67,39 @@ describe('LeaderboardBoard, comparison layout', () => {
     expect((fixture.nativeElement as HTMLElement).querySelector('[data-field="k"]')).toBeNull();
   });
 });
+
+describe('LeaderboardBoard, columns moved or hidden in the grid', () => {
+  it('makes the view and the export links follow the grid\'s visible columns and their order (issue 14, item 8)', async () => {
+    const api: Partial<LeaderboardApi> = { exportUrl: (format, params) => `/api/exports?${new URLSearchParams({ format, ...params }).toString()}` };
+    TestBed.configureTestingModule({
+      imports: [LeaderboardBoard],
+      providers: [
+        provideRouter([]),
+        { provide: MATERIAL_ANIMATIONS, useValue: { animationsDisabled: true } },
+        { provide: LeaderboardApi, useValue: api },
+        { provide: Session, useValue: { role: signal('visitor') } },
+        { provide: ActivatedRoute, useValue: { snapshot: { queryParamMap: convertToParamMap({ cols: 'map,scenario,agents,model,socSteps' }) } } },
+      ],
+    });
+    TestBed.overrideComponent(LeaderboardBoard, { remove: { imports: [AgGridAngular, ModelSummaryPanel, LeaderboardCharts] }, add: { schemas: [CUSTOM_ELEMENTS_SCHEMA] } });
+    const navigate = jest.spyOn(TestBed.inject(Router), 'navigate').mockResolvedValue(true);
+    const fixture = TestBed.createComponent(LeaderboardBoard);
+    await fixture.whenStable();
+    const href = () => decodeURIComponent((fixture.nativeElement as HTMLElement).querySelector('[data-export="latex"]')?.getAttribute('href') ?? '');
+    expect(href()).toContain('cols=map,scenario,agents,model,socSteps');
+
+    // The grid as AG Grid reports it after a drag: the replay column, socSteps moved before model, scenario dragged out.
+    const displayed = (ids: string[]) => ({ getAllDisplayedColumns: () => ids.map((id) => ({ getColId: () => id })) });
+    const board = fixture.componentInstance as unknown as { followGridColumns(e: unknown): void };
+    board.followGridColumns({ type: 'columnMoved', finished: false, api: displayed(['__replay', 'map', 'socSteps', 'scenario', 'agents', 'model']) });
+    fixture.detectChanges();
+    expect(href()).toContain('cols=map,scenario,agents,model,socSteps');
+    board.followGridColumns({ type: 'columnMoved', finished: true, api: displayed(['__replay', 'map', 'socSteps', 'scenario', 'agents', 'model']) });
+    board.followGridColumns({ type: 'columnVisible', api: displayed(['__replay', 'map', 'socSteps', 'agents', 'model']) });
+    fixture.detectChanges();
+
+    expect(href()).toContain('format=latex');
+    expect(href()).toContain('cols=map,socSteps,agents,model');
+    expect(navigate).toHaveBeenLastCalledWith([], expect.objectContaining({ queryParams: expect.objectContaining({ cols: 'map,socSteps,agents,model' }) }));
+  });
+});

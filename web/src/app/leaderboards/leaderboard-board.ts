@@ -10,7 +10,7 @@ import { firstValueFrom } from 'rxjs';
 import { AgGridAngular } from 'ag-grid-angular';
 import {
   CellStyleModule, InfiniteRowModelModule, ModuleRegistry, NumberFilterModule, TextFilterModule, TooltipModule,
-  type GridApi, type GridReadyEvent, type IDatasource, type IGetRowsParams,
+  type ColumnMovedEvent, type ColumnVisibleEvent, type GridApi, type GridReadyEvent, type IDatasource, type IGetRowsParams,
 } from 'ag-grid-community';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
@@ -24,6 +24,8 @@ import {
 } from '@shared/leaderboards';
 import { hasRole } from '@shared/auth-contract';
 import { Session } from '../core/session';
+import { followCellLinkOnEnter, leaveGridOnTab } from '../core/grid-keyboard';
+import { SkipLink } from '../core/skip-link';
 import { LeaderboardApi, type BoardScope } from './leaderboard-api';
 import { gridColumns, replayColumn, type GridRow } from './leaderboard-columns';
 import { gridRows } from './grid-rows';
@@ -49,7 +51,7 @@ const FORMAT_LABELS: Readonly<Record<ExportFormat, string>> = { csv: 'CSV', late
   selector: 'app-leaderboard-board',
   templateUrl: './leaderboard-board.html',
   styleUrl: './leaderboard-board.scss',
-  imports: [AgGridAngular, RouterLink, MatButtonModule, MatFormFieldModule, MatSelectModule, MatSlideToggleModule, ModelSummaryPanel, LeaderboardCharts],
+  imports: [AgGridAngular, SkipLink, RouterLink, MatButtonModule, MatFormFieldModule, MatSelectModule, MatSlideToggleModule, ModelSummaryPanel, LeaderboardCharts],
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export default class LeaderboardBoard {
@@ -59,6 +61,9 @@ export default class LeaderboardBoard {
   protected readonly session = inject(Session);
 
   protected readonly theme = LEADERBOARD_GRID_THEME;
+  /** Tab leaves the grid in one step; Enter on a Replay cell follows its link (core/grid-keyboard.ts). */
+  protected readonly leaveOnTab = leaveGridOnTab;
+  protected readonly followLink = followCellLinkOnEnter;
   protected readonly safetyNote = SAFETY_NOTE;
   protected readonly metrics = COMPARE_METRICS.map((id) => ({ id, label: ENTRY_COLUMNS.find((c) => c.id === id)?.label ?? id }));
   protected readonly formats = EXPORT_FORMATS.map((f) => ({ id: f, label: FORMAT_LABELS[f] }));
@@ -166,6 +171,20 @@ export default class LeaderboardBoard {
     const order = ENTRY_COLUMNS.map((c) => c.id);
     const kept = [...columns].sort((a, b) => order.indexOf(a) - order.indexOf(b));
     this.resetGrid({ ...this.view(), columns: kept.length > 0 ? kept : DEFAULT_VIEW.columns });
+  }
+
+  /**
+   * A column dragged to another place or out of the grid: the view (URL and export links) takes the
+   * grid's order and visible columns, so an export holds exactly the columns on screen (issue 14, item 8).
+   */
+  protected followGridColumns(event: ColumnMovedEvent<GridRow> | ColumnVisibleEvent<GridRow>): void {
+    if (event.type === 'columnMoved' && !(event as ColumnMovedEvent<GridRow>).finished) return;
+    const known = new Set(columnsOf(this.view()).map((c) => c.id));
+    const shown = event.api.getAllDisplayedColumns().map((c) => c.getColId()).filter((id) => known.has(id));
+    if (shown.length === 0 || shown.join(',') === this.view().columns.join(',')) return;
+    const next: LeaderboardView = { ...this.view(), columns: shown };
+    this.view.set(next);
+    void this.router.navigate([], { relativeTo: this.route, queryParams: viewToParams(next), replaceUrl: true });
   }
 
   private resetGrid(next: LeaderboardView): void {
