@@ -24,6 +24,7 @@ import { headingIndex, headingLetter } from '../grid/heading-graph';
 import type { MapfInstance } from '../instance';
 import { ccbsSearch, type CcbsAgent } from '../search/ccbs';
 import type { SippPlan } from '../search/sipp';
+import { checkSuboptimality } from '../search/suboptimality';
 
 /** Options of one weighted-split solve. */
 export interface WeightedSplitOptions {
@@ -132,6 +133,7 @@ export function solveWeightedSplit(instance: MapfInstance, options: WeightedSpli
     quarterTurnMs: T,
     nodeLimit: options.nodeLimit ?? Infinity,
     shouldStop,
+    suboptimality: checkSuboptimality(options.suboptimality),
   });
   const tail = {
     lowerBoundMs: out.lowerBound,

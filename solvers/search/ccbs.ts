@@ -11,6 +11,14 @@
  * (then whose dearer child costs most), as ICBS prefers cardinal conflicts (Boyarski et al.,
  * IJCAI 2015). Any sound split keeps optimality, so this choice only affects speed; the
  * children's plans are kept, so no low-level search is repeated.
+ *
+ * Bounded-suboptimal mode (`suboptimality` w > 1): the ECBS high level (Barer, Sharon, Stern,
+ * Felner, SoCS 2014) over the same exact SIPP low level (focal-lists.ts): the node expanded is
+ * the one with the fewest conflicting agent pairs among the open nodes whose cost is at most
+ * w × LB, LB = the least open cost. Soundness: every agent's plan is optimal under its
+ * constraints, so a node's cost bounds from below the optimum of the plans its constraints
+ * admit; the splits are sound, so some open node admits an optimal plan and LB never exceeds
+ * the optimum; a conflict-free node is returned only from FOCAL, so its cost ≤ w × LB ≤ w × opt.
  */
 import type { Grid } from '../grid/grid';
 import { branchOptions, type BranchChild } from './ccbs-branch';
@@ -18,6 +26,7 @@ import { cellVisits, findConflicts, type CellVisit, type OccupancyConflict } fro
 import { compileBans, type AgentBan } from './sipp-constraints';
 import { sippSearch, type SippPlan } from './sipp';
 import { SippHeap } from './sipp-heap';
+import { FocalLists } from './focal-lists';
 
 /** One agent as the search sees it. */
 export interface CcbsAgent {
@@ -39,6 +48,8 @@ export interface CcbsQuery {
   readonly nodeLimit: number;
   /** True when the search must stop (time limit or abort); polled often. */
   readonly shouldStop: () => boolean;
+  /** Suboptimality factor w (default 1 = optimal); w > 1 runs the bounded search of the file comment. */
+  readonly suboptimality?: number;
 }
 
 /** How a search ended. */
@@ -51,7 +62,7 @@ export interface CcbsOutcome {
   readonly plans: readonly SippPlan[] | null;
   /** Sum of arrival times when solved. */
   readonly soc: number | null;
-  /** Least node cost still open (a lower bound on the optimum); equals soc when solved. */
+  /** Least node cost still open (a lower bound on the optimum); equals soc when solved optimally, soc ≤ w × it when bounded. */
   readonly lowerBound: number | null;
   readonly generated: number;
   readonly expanded: number;
@@ -117,6 +128,7 @@ export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
   const root = makeNode(null, -1, [], rootPlans, rootPlans.map((p, a) => cellVisits(a, q.agents[a].start, p, q.forwardMs)));
 
   const nodes: CtNode[] = [root];
+  if ((q.suboptimality ?? 1) > 1) return searchBounded(q.suboptimality as number);
   const open = new SippHeap((x, y) => {
     const a = nodes[x];
     const b = nodes[y];
@@ -145,6 +157,33 @@ export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
     }
   }
   return finish('infeasible', null, null);
+
+  /** The bounded loop: FOCAL's best node, children as in the exact loop. */
+  function searchBounded(w: number): CcbsOutcome {
+    const lists = new FocalLists(w, (id) => nodes[id].cost, (id) => nodes[id].conflictingPairs);
+    lists.push(root.id);
+    for (;;) {
+      if (q.shouldStop()) return finish('stopped', null, lists.lowerBound());
+      if (expanded >= q.nodeLimit) return finish('node-limit', null, lists.lowerBound());
+      const pick = lists.select();
+      if (pick === null) return finish('infeasible', null, null);
+      const top = nodes[pick.id];
+      if (top.conflicts.length === 0) return finish('solved', top, pick.lowerBound);
+      expanded++;
+      const split = chooseSplit(top);
+      if (isStopped) return finish('stopped', null, Math.min(top.cost, lists.lowerBound()));
+      for (const { child, plan: p } of split) {
+        if (!p) continue;
+        const plans = top.plans.slice();
+        plans[child.agent] = p;
+        const visits = top.visits.slice();
+        visits[child.agent] = cellVisits(child.agent, q.agents[child.agent].start, p, q.forwardMs);
+        const node = makeNode(top, child.agent, child.bans, plans, visits);
+        nodes.push(node);
+        lists.push(node.id);
+      }
+    }
+  }
 
   /** Prices the sound splits of the node's first conflicts and returns the best, with its children's plans. */
   function chooseSplit(node: CtNode): { child: BranchChild; plan: SippPlan | null }[] {
