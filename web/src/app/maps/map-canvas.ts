@@ -2,6 +2,8 @@
  * A map on a canvas with zoom (wheel, buttons) and pan (drag). The terrain is painted once into
  * an offscreen bitmap (ImageData, one pixel per cell); each frame only draws that bitmap through
  * the view transform plus the start/goal markers, so a 1024 × 1024 map stays smooth.
+ * Without a pointer: arrow keys pan, and Shift + arrow keys move a cursor cell (drawn as a
+ * two-tone square, kept in view) that is reported like the cell under the pointer.
  */
 import {
   ChangeDetectionStrategy, Component, DestroyRef, ElementRef, afterNextRender, afterRenderEffect, inject,
@@ -11,7 +13,7 @@ import { MatButtonModule } from '@angular/material/button';
 import type { CellXY } from '@shared/plan';
 import { CanvasHost } from './canvas-host';
 import { agentColour, paintMap } from './map-bitmap';
-import { cellAt, cellCentre, type ViewTransform } from './map-view-math';
+import { cellAt, cellCentre, keepCellInView, stepCursor, type ViewTransform } from './map-view-math';
 import { BUTTON_ZOOM, ViewNavigator, canvasPoint } from './view-navigator';
 
 /** One agent's start and goal to draw over the map. */
@@ -41,8 +43,10 @@ export class MapCanvas {
   readonly mapHeight = input.required<number>();
   /** Starts and goals to draw; agent i gets agentColour(i). */
   readonly markers = input<readonly AgentMarker[]>([]);
-  /** The cell under the pointer, or null when the pointer is off the map. */
+  /** The cell under the pointer (else the keyboard cursor cell), or null when neither is on the map. */
   readonly hoverCell = output<readonly [number, number] | null>();
+  /** The keyboard cursor cell; null until Shift + an arrow key places it. */
+  protected readonly cursor = signal<readonly [number, number] | null>(null);
 
   /** Zoom and pan (shared with the plan viewer's fleet canvas). */
   private readonly nav = new ViewNavigator(() => [this.mapWidth(), this.mapHeight()]);
@@ -86,6 +90,7 @@ export class MapCanvas {
     afterRenderEffect(() => {
       this.view();
       this.markers();
+      this.cursor();
       this.scheduleDraw();
     });
   }
@@ -123,11 +128,32 @@ export class MapCanvas {
   }
 
   protected leaveCanvas(): void {
-    if (!this.nav.isDragging) this.hoverCell.emit(null);
+    if (!this.nav.isDragging) this.hoverCell.emit(this.cursor());
   }
 
-  /** Arrow keys pan, + and − zoom, 0 fits: the canvas is usable without a pointer. */
+  /**
+   * Arrow keys pan, + and − zoom, 0 fits; Shift + arrow keys move the cursor cell (placed first at
+   * the cell in the middle of the view) and Escape takes it away: the canvas is usable without a pointer.
+   */
   protected moveWithKeys(event: KeyboardEvent): void {
+    if (event.key === 'Escape' && this.cursor()) {
+      this.cursor.set(null);
+      this.hoverCell.emit(null);
+      return;
+    }
+    if (event.shiftKey) {
+      const [w, h] = this.viewSize();
+      const middle = cellAt(this.view(), w / 2, h / 2, this.mapWidth(), this.mapHeight())
+        ?? [Math.floor(this.mapWidth() / 2), Math.floor(this.mapHeight() / 2)] as const;
+      const next = stepCursor(this.cursor(), event.key, middle, this.mapWidth(), this.mapHeight());
+      if (next) {
+        event.preventDefault();
+        this.cursor.set(next);
+        this.nav.view.update((t) => keepCellInView(t, next[0], next[1], w, h));
+        this.hoverCell.emit(next);
+        return;
+      }
+    }
     this.nav.handleKey(event);
   }
 
@@ -173,6 +199,21 @@ export class MapCanvas {
     if (t.scale >= GRID_LINE_SCALE) this.drawGrid(ctx, t);
     ctx.setTransform(dpr, 0, 0, dpr, 0, 0);
     this.drawMarkers(ctx, t);
+    this.drawCursor(ctx, t);
+  }
+
+  /** The cursor cell: a dark square inside a light one, seen on free and blocked cells alike. */
+  private drawCursor(ctx: CanvasRenderingContext2D, t: ViewTransform): void {
+    const cell = this.cursor();
+    if (!cell) return;
+    const size = Math.max(t.scale, 8);
+    const [cx, cy] = cellCentre(t, cell[0], cell[1]);
+    ctx.lineWidth = 4;
+    ctx.strokeStyle = '#ffffff';
+    ctx.strokeRect(cx - size / 2, cy - size / 2, size, size);
+    ctx.lineWidth = 2;
+    ctx.strokeStyle = '#000000';
+    ctx.strokeRect(cx - size / 2, cy - size / 2, size, size);
   }
 
   /** Lines between the visible cells only (never all million of a large map). */

@@ -1,4 +1,4 @@
-import { cellAt, cellCentre, fitTransform, panBy, scaleLimits, wheelFactor, zoomAt } from './map-view-math';
+import { cellAt, cellCentre, fitTransform, keepCellInView, panBy, scaleLimits, stepCursor, wheelFactor, zoomAt } from './map-view-math';
 
 describe('map view geometry', () => {
   it('fits a map centred with a margin, limited by the tighter side', () => {
@@ -42,5 +42,26 @@ describe('map view geometry', () => {
     expect(wheelFactor(-100)).toBeCloseTo(1.2, 12);
     expect(wheelFactor(100)).toBeCloseTo(1 / 1.2, 12);
     expect(wheelFactor(-100000)).toBeCloseTo(Math.pow(1.2, 5), 9);
+  });
+});
+
+describe('keyboard cursor cell', () => {
+  it('starts where it is told, then moves one cell per arrow key and stays on the map', () => {
+    expect(stepCursor(null, 'ArrowRight', [2, 1], 4, 3)).toEqual([2, 1]);
+    expect(stepCursor([2, 1], 'ArrowRight', [0, 0], 4, 3)).toEqual([3, 1]);
+    expect(stepCursor([3, 1], 'ArrowRight', [0, 0], 4, 3)).toEqual([3, 1]);
+    expect(stepCursor([0, 0], 'ArrowUp', [0, 0], 4, 3)).toEqual([0, 0]);
+    expect(stepCursor([0, 0], 'ArrowLeft', [0, 0], 4, 3)).toEqual([0, 0]);
+    expect(stepCursor([1, 2], 'ArrowDown', [0, 0], 4, 3)).toEqual([1, 2]);
+    expect(stepCursor([1, 1], 'ArrowDown', [0, 0], 4, 3)).toEqual([1, 2]);
+    expect(stepCursor([1, 1], 'Enter', [0, 0], 4, 3)).toBeNull();
+  });
+
+  it('pans the view only as far as needed to show the cursor cell whole', () => {
+    const t = { scale: 10, offsetX: 0, offsetY: 0 };
+    expect(keepCellInView(t, 3, 3, 100, 100)).toBe(t);
+    // Cell 12 spans 120..130 px: the view moves left by 30 px so it ends at the right edge.
+    expect(keepCellInView(t, 12, 0, 100, 100)).toEqual({ scale: 10, offsetX: -30, offsetY: 0 });
+    expect(keepCellInView({ scale: 10, offsetX: -50, offsetY: -50 }, 2, 1, 100, 100)).toEqual({ scale: 10, offsetX: -20, offsetY: -10 });
   });
 });

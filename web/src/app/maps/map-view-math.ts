@@ -59,3 +59,28 @@ export function cellCentre(t: ViewTransform, x: number, y: number): readonly [nu
 export function wheelFactor(deltaY: number): number {
   return Math.pow(1.2, -Math.max(-5, Math.min(5, deltaY / 100)));
 }
+
+/** Cursor steps of the arrow keys, [dx, dy] in cells. */
+const CURSOR_STEPS: Readonly<Record<string, readonly [number, number]>> = {
+  ArrowLeft: [-1, 0], ArrowRight: [1, 0], ArrowUp: [0, -1], ArrowDown: [0, 1],
+};
+
+/**
+ * The keyboard cursor cell after arrow key `key`: one cell in that direction, kept on the map; a
+ * cursor not placed yet starts at `start`. Null for a key that is no arrow.
+ */
+export function stepCursor(cursor: readonly [number, number] | null, key: string, start: readonly [number, number], mapWidth: number, mapHeight: number): readonly [number, number] | null {
+  const step = CURSOR_STEPS[key];
+  if (!step) return null;
+  if (!cursor) return start;
+  return [Math.max(0, Math.min(mapWidth - 1, cursor[0] + step[0])), Math.max(0, Math.min(mapHeight - 1, cursor[1] + step[1]))];
+}
+
+/** The view panned just enough that cell (x, y) lies wholly inside a view of viewWidth × viewHeight pixels. */
+export function keepCellInView(t: ViewTransform, x: number, y: number, viewWidth: number, viewHeight: number): ViewTransform {
+  const left = t.offsetX + x * t.scale;
+  const top = t.offsetY + y * t.scale;
+  const dx = left < 0 ? -left : left + t.scale > viewWidth ? viewWidth - (left + t.scale) : 0;
+  const dy = top < 0 ? -top : top + t.scale > viewHeight ? viewHeight - (top + t.scale) : 0;
+  return dx === 0 && dy === 0 ? t : panBy(t, dx, dy);
+}

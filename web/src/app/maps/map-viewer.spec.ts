@@ -48,11 +48,29 @@ describe('MapViewer', () => {
 
   it('shows the map facts and reads out the hovered cell and its terrain', async () => {
     expect(fixture.nativeElement.querySelector('h1').textContent).toBe('tiny.map');
-    expect(readout()).toBe('Point at the map to read a cell.');
+    expect(readout()).toBe('Point at the map, or press Shift and an arrow key on it, to read a cell.');
     await hover([2, 0]);
     expect(readout()).toBe('x 2, y 0 · blocked');
     await hover([1, 1]);
     expect(readout()).toBe('x 1, y 1 · free');
+  });
+
+  it('reads out a cursor cell moved with Shift and the arrow keys, without a pointer', async () => {
+    const canvas = fixture.nativeElement.querySelector('canvas') as HTMLCanvasElement;
+    const press = async (key: string, shiftKey = true) => {
+      canvas.dispatchEvent(new KeyboardEvent('keydown', { key, shiftKey, bubbles: true, cancelable: true }));
+      await fixture.whenStable();
+    };
+    // jsdom lays nothing out (a 0 × 0 view), so the cursor starts at the middle cell of the 3 × 2 map.
+    await press('ArrowRight');
+    expect(readout()).toBe('x 1, y 1 · free');
+    await press('ArrowUp');
+    await press('ArrowRight');
+    expect(readout()).toBe('x 2, y 0 · blocked');
+    await press('ArrowRight');
+    expect(readout()).toBe('x 2, y 0 · blocked');
+    await press('Escape', false);
+    expect(readout()).toBe('Point at the map, or press Shift and an arrow key on it, to read a cell.');
   });
 
   it('overlays the first k rows of the chosen scenario', async () => {

@@ -51,12 +51,12 @@ export default class MapViewer {
     if (!s) return [];
     return s.rows.slice(0, Math.min(this.agentCount(), s.maxAgents)).map((r) => ({ start: r.start, goal: r.goal }));
   });
-  /** The cell under the pointer. */
+  /** The cell under the pointer, else the keyboard cursor cell. */
   protected readonly hovered = signal<readonly [number, number] | null>(null);
   protected readonly hoverText = computed(() => {
     const cell = this.hovered();
     const m: MapDetail | null | undefined = this.map();
-    if (!cell || !m) return 'Point at the map to read a cell.';
+    if (!cell || !m) return 'Point at the map, or press Shift and an arrow key on it, to read a cell.';
     const [x, y] = cell;
     const kind = isPassableAt(m.rows, x, y) ? 'free' : 'blocked';
     const agents = this.markers().flatMap((a, i) => [
