@@ -51,9 +51,10 @@ describe("README.md's user guide", () => {
     }
   });
 
-  it('links to both published schemas', () => {
+  it('links to every published schema', () => {
     const hrefs = links.map(appHrefOf);
     expect(hrefs).toContain('/api/schemas/plan-format.schema.json');
     expect(hrefs).toContain('/api/schemas/instance-format.schema.json');
+    expect(hrefs).toContain('/api/schemas/trial-log.schema.json');
   });
 });

@@ -2,7 +2,7 @@ import { mkdtempSync, mkdirSync, readFileSync, rmSync, writeFileSync } from 'nod
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import request from 'supertest';
-import { extractGuide } from '@shared/help';
+import { extractGuide, PUBLISHED_SCHEMAS } from '@shared/help';
 import { createTestDatabase, type TestDatabase } from '../../../test/support/test-database';
 import { createApp, type QuarterturnApp } from '../app';
 import { loadConfig } from '../config';
@@ -36,7 +36,7 @@ describe('help routes', () => {
     expect(res.text).not.toContain('user-guide:');
   });
 
-  it.each(['plan-format.schema.json', 'instance-format.schema.json'])('serves shared/%s byte for byte as a JSON Schema', async (name) => {
+  it.each(['plan-format.schema.json', 'instance-format.schema.json', 'trial-log.schema.json'])('serves shared/%s byte for byte as a JSON Schema', async (name) => {
     const res = await request(app).get(`/api/schemas/${name}`).buffer(true).parse((r, done) => {
       const chunks: Buffer[] = [];
       r.on('data', (c: Buffer) => chunks.push(c));
@@ -71,7 +71,7 @@ describe('readHelpFiles', () => {
   beforeEach(() => {
     root = mkdtempSync(join(tmpdir(), 'qt-help-'));
     mkdirSync(join(root, 'shared'));
-    for (const name of ['plan-format.schema.json', 'instance-format.schema.json']) writeFileSync(join(root, 'shared', name), '{}');
+    for (const name of PUBLISHED_SCHEMAS) writeFileSync(join(root, 'shared', name), '{}');
   });
   afterEach(() => rmSync(root, { recursive: true, force: true }));
 
