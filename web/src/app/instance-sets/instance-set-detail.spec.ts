@@ -154,6 +154,11 @@ describe('InstanceSetDetailPage', () => {
       await fixture.whenStable();
     });
 
+    it('names every column of the scenario table, the button columns for screen readers', () => {
+      const headers = [...(fixture.nativeElement as HTMLElement).querySelectorAll('table[aria-label="Scenarios"] th')].map((th) => th.textContent?.trim());
+      expect(headers).toEqual(['Scenario', 'Map', 'Rows', 'Largest k', 'File', 'Delete']);
+    });
+
     it('says what goes with a scenario, and deletes it only after the confirmation', async () => {
       await press('[aria-label="Delete scenario quay-1.scen"]');
       const root = TestbedHarnessEnvironment.documentRootLoader(fixture);
