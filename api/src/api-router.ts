@@ -1,6 +1,8 @@
 /** Mounts every feature router under /api. A new feature adds one `r.use(...)` line here. */
 import { Router } from 'express';
 import type { AppContext } from './app-context';
+import { apiTokensRouter } from './api-tokens/api-tokens.router';
+import { createApiTokensService } from './api-tokens/api-tokens.service';
 import { executionsFeature } from './executions/executions.feature';
 import { healthRouter } from './health/health.router';
 import { repositoryHelpFiles } from './help/help-files';
@@ -17,6 +19,7 @@ import { meRouter } from './users/me.router';
 export function apiRouter(ctx: AppContext): Router {
   const r = Router();
   r.use('/health', healthRouter(ctx.sequelize, ctx.version));
+  r.use('/me/tokens', apiTokensRouter(createApiTokensService({ sequelize: ctx.sequelize, users: ctx.users })));
   r.use('/me', meRouter(ctx.users));
   r.use('/admin/users', adminUsersRouter(ctx.users));
   r.use('/stats', statsFeature(ctx));

@@ -14,6 +14,8 @@ import type session from 'express-session';
 import { FAKE_OAUTH_CLIENT, type AppConfig } from './config';
 import type { AppContext } from './app-context';
 import { apiRouter } from './api-router';
+import { bearerAuth, unlessToken } from './api-tokens/bearer-auth';
+import { createApiTokensService } from './api-tokens/api-tokens.service';
 import { authRouter } from './auth/auth.router';
 import { callbackUrl } from './auth/github-strategy';
 import { createPassport } from './auth/passport-setup';
@@ -130,9 +132,11 @@ export function createApp(config: AppConfig, deps: Partial<AppDeps> = {}): Quart
 
   const api = Router();
   api.use(express.json({ limit: '1mb' }));
-  api.use(sessionMiddleware(config, store));
+  // A request with an Authorization header is a token request: no session is read or written (api-tokens/bearer-auth.ts).
+  api.use(unlessToken(sessionMiddleware(config, store)));
   api.use(passport.initialize());
-  api.use(passport.session());
+  api.use(unlessToken(passport.session()));
+  api.use(bearerAuth(createApiTokensService({ sequelize, users }), { limit: config.tokenRateLimit, windowMs: config.tokenRateWindowMs }));
   api.use('/auth', authRateLimit(config.authRateLimit, config.authRateWindowMs), authRouter(passport, csrf));
   api.use(apiRouter(context));
   api.use(notFound());

@@ -28,13 +28,13 @@ describe('loadConfig', () => {
       PORT: '8080', HOST: '0.0.0.0', DATABASE_URL: 'postgres://u@db:5432/qt', SESSION_SECRET: 'x'.repeat(32),
       PUBLIC_URL: 'https://bench.example.org/', GITHUB_CLIENT_ID: 'id', GITHUB_CLIENT_SECRET: 'secret',
       ADMIN_LOGINS: ' Alice , bob,, ', SMTP_URL: 'smtp://mail:25', WEB_DIST: '/srv/web', LOG_LEVEL: 'warn',
-      AUTH_RATE_LIMIT: '5', AUTH_RATE_WINDOW_MS: '60000', TRUST_PROXY: '1',
+      AUTH_RATE_LIMIT: '5', AUTH_RATE_WINDOW_MS: '60000', TRUST_PROXY: '1', API_TOKEN_RATE_LIMIT: '30', API_TOKEN_RATE_WINDOW_MS: '5000',
     });
     expect(warnings).toEqual([]);
     expect(config).toMatchObject({
       port: 8080, host: '0.0.0.0', databaseUrl: 'postgres://u@db:5432/qt', publicUrl: 'https://bench.example.org',
       oauth: { mode: 'github', clientId: 'id', clientSecret: 'secret' }, adminLogins: ['alice', 'bob'],
-      smtpUrl: 'smtp://mail:25', webDist: '/srv/web', logLevel: 'warn', authRateLimit: 5, authRateWindowMs: 60000, trustProxy: 1,
+      smtpUrl: 'smtp://mail:25', webDist: '/srv/web', logLevel: 'warn', authRateLimit: 5, authRateWindowMs: 60000, trustProxy: 1, tokenRateLimit: 30, tokenRateWindowMs: 5000,
       isDevSessionSecret: false,
     });
   });

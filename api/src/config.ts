@@ -44,6 +44,10 @@ export interface AppConfig {
   readonly authRateLimit: number;
   /** Length of the rate-limit window in milliseconds. */
   readonly authRateWindowMs: number;
+  /** Requests per API token per window (API_TOKEN_RATE_LIMIT, default 600). */
+  readonly tokenRateLimit: number;
+  /** Length of the API token rate-limit window in milliseconds (API_TOKEN_RATE_WINDOW_MS, default 60000). */
+  readonly tokenRateWindowMs: number;
   /** Express `trust proxy` hop count: 0 when the app faces browsers directly. */
   readonly trustProxy: number;
   /** Whether the server process also runs a sweep worker (EMBEDDED_WORKER, default on). */
@@ -107,6 +111,8 @@ const EnvSchema = z.object({
   LOG_LEVEL: z.preprocess(emptyAsUndefined, z.enum(LOG_LEVELS).optional()),
   AUTH_RATE_LIMIT: z.preprocess(emptyAsUndefined, z.coerce.number().int().min(1).default(60)),
   AUTH_RATE_WINDOW_MS: z.preprocess(emptyAsUndefined, z.coerce.number().int().min(1000).default(15 * 60 * 1000)),
+  API_TOKEN_RATE_LIMIT: z.preprocess(emptyAsUndefined, z.coerce.number().int().min(1).default(600)),
+  API_TOKEN_RATE_WINDOW_MS: z.preprocess(emptyAsUndefined, z.coerce.number().int().min(1000).default(60_000)),
   TRUST_PROXY: z.preprocess(emptyAsUndefined, z.coerce.number().int().min(0).default(0)),
   EMBEDDED_WORKER: z.preprocess(emptyAsUndefined, z.enum(['true', 'false', '1', '0']).default('true')),
   WORKER_THREADS: z.preprocess(emptyAsUndefined, z.coerce.number().int().min(1).max(256).optional()),
@@ -185,6 +191,8 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): { config: AppC
       logLevel: e.LOG_LEVEL ?? (e.NODE_ENV === 'test' ? 'silent' : 'info'),
       authRateLimit: e.AUTH_RATE_LIMIT,
       authRateWindowMs: e.AUTH_RATE_WINDOW_MS,
+      tokenRateLimit: e.API_TOKEN_RATE_LIMIT,
+      tokenRateWindowMs: e.API_TOKEN_RATE_WINDOW_MS,
       trustProxy: e.TRUST_PROXY,
       isEmbeddedWorker: e.EMBEDDED_WORKER === 'true' || e.EMBEDDED_WORKER === '1',
       workerThreads: e.WORKER_THREADS,

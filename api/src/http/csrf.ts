@@ -15,6 +15,7 @@
 import { createHmac, randomBytes, timingSafeEqual } from 'node:crypto';
 import type { Request, RequestHandler, Response } from 'express';
 import { CSRF_COOKIE, CSRF_HEADER } from '@shared/auth';
+import { hasAuthorization } from '../api-tokens/bearer-auth';
 import { AppError } from '../errors/app-error';
 import { readCookie } from './cookies';
 
@@ -81,6 +82,12 @@ export function createCsrf(options: CsrfOptions): Csrf {
   };
 
   const protect: RequestHandler = (req, res, next) => {
+    // A token request (Authorization header) uses no cookie, so there is nothing to forge; the
+    // token itself is checked by api-tokens/bearer-auth.ts (issue 16, item 1).
+    if (hasAuthorization(req)) {
+      next();
+      return;
+    }
     const sessionId = sessionIdOf(req);
     const boundToken = sessionId === undefined ? undefined : tokenFor(sessionId);
     const cookieToken = readCookie(req, CSRF_COOKIE);
