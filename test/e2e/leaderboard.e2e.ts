@@ -2,11 +2,17 @@
  * The leaderboard in Chromium: a visitor browses board rows (validated plans submitted through
  * the API beforehand) and opens a shared link with its view; a researcher submits a valid and an
  * invalid plan in the form and sees the figures or the first violation; an author downloads the
- * LaTeX export and a chart as PNG and SVG (checked by their file contents and signatures).
+ * LaTeX export (with its provenance lines; the wide default view compiled by pdflatex within the text width)
+ * and a chart as PNG and SVG (checked by their file contents and signatures).
  */
+import { spawnSync } from 'node:child_process';
+import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { readFile } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
 import type { Page } from 'playwright-core';
 import type { InstanceSetDetail } from '@shared/instance-sets';
+import { DEFAULT_ENTRY_COLUMNS } from '@shared/leaderboards';
 import { signInAs, type SignedInClient } from '../../api/src/dev/sign-in-as';
 import { TINY_MAP, TINY_SCEN } from '../integration/leaderboard-support';
 import { launchBrowser, type E2eBrowser } from './support/browser';
@@ -15,6 +21,23 @@ import { bootServer, type E2eServer } from './support/server';
 import { demoIdentity, signInThroughUi } from './support/sign-in';
 
 jest.setTimeout(60_000);
+
+const hasPdflatex = spawnSync('pdflatex', ['--version']).status === 0;
+
+/** Compiles a LaTeX export in a plain article (text width 345 pt) with the packages its first line names; the log's overfull boxes. */
+function compileInArticle(tex: string): { status: number | null; overfull: string[]; out: string } {
+  const packages = /\\usepackage\{([^}]*)\}/.exec(tex.split('\n')[0])?.[1] ?? '';
+  const dir = mkdtempSync(join(tmpdir(), 'qt-e2e-latex-'));
+  try {
+    writeFileSync(join(dir, 'table.tex'), `\\documentclass{article}\n\\usepackage[T1]{fontenc}\n\\usepackage[utf8]{inputenc}\n\\usepackage{${packages}}\n\\begin{document}\n${tex}\\end{document}\n`);
+    const pass = () => spawnSync('pdflatex', ['-no-shell-escape', '-interaction=nonstopmode', '-halt-on-error', 'table.tex'], { cwd: dir, encoding: 'utf8', timeout: 60_000 });
+    let run = pass();
+    if (run.status === 0) run = pass();
+    return { status: run.status, overfull: run.stdout.split('\n').filter((l) => /^Overfull \\[hv]box/.test(l)), out: run.status === 0 ? '' : run.stdout.slice(-1500) };
+  } finally {
+    rmSync(dir, { recursive: true, force: true });
+  }
+}
 
 const researcher = demoIdentity('researcher');
 const solver = { name: 'Paper planner', version: '0.9' };
@@ -128,6 +151,21 @@ describe('leaderboard in the browser', () => {
     const tex = await readFile(await latex.path(), 'utf8');
     expect(tex).toContain('\\toprule');
     expect(tex).toContain('\\textbf{');
+    // Provenance comment lines (issue 14, item 9).
+    expect(tex).toMatch(/^% hub version: /m);
+    expect(tex).toMatch(/^% map Board e2e \/ tiny\.map: sha256 [0-9a-f]{64}$/m);
+
+    // The wide default board view (every default column) fits the text width of a plain article (issue 14, item 8).
+    await page.goto(`${server.url}/leaderboards`);
+    await page.locator('.ag-row').first().waitFor();
+    const [wide] = await Promise.all([page.waitForEvent('download'), page.locator('a[data-export=latex]').click()]);
+    const wideTex = await readFile(await wide.path(), 'utf8');
+    expect(/\\begin\{tabular\}\{([lr]+)\}/.exec(wideTex)?.[1]).toHaveLength(DEFAULT_ENTRY_COLUMNS.length);
+    if (hasPdflatex) {
+      const run = compileInArticle(wideTex);
+      expect({ status: run.status, out: run.out }).toEqual({ status: 0, out: '' });
+      expect(run.overfull).toEqual([]);
+    }
 
     const chart = page.locator('figure[data-chart=success]');
     await chart.locator('canvas').waitFor();
