@@ -76,6 +76,14 @@ describe('a sweep from the browser', () => {
     await page.locator('.source').filter({ hasText: new RegExp(`stored result \\d+ of sweep ${sweepId}\\b`) }).waitFor({ timeout: 30_000 });
     expect(await page.locator('article.pane [data-metric="success-rate"] dd').first().innerText()).toMatch(/^\d+%$/);
 
+    // The board keeps w = 1.5 apart from exact search, and the summary counts the proven optima of each line.
+    await page.goto(`${s.url}/leaderboards`);
+    const optimality = page.locator('td[data-cell=optimality]');
+    await optimality.nth(3).waitFor({ timeout: 20_000 });
+    const lines = await page.locator('app-model-summary tr.mat-mdc-row').allInnerTexts();
+    expect(lines.filter((l) => /^(classic|weighted-split) \(w=1\.5\)/.test(l))).toHaveLength(2);
+    expect(lines.find((l) => l.startsWith('classic\t'))).toMatch(/4 \/ 4 proven/);
+
     await page.goto(`${s.url}/sweeps/mailbox`);
     await page.getByText('Quarterturn: sweep "parcel hall check" finished').waitFor({ timeout: 10_000 });
     expect(pageErrors).toEqual([]);
