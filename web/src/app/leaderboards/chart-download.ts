@@ -1,8 +1,10 @@
 /**
- * Chart downloads: PNG from the on-screen canvas chart, SVG by rendering the same option once
- * more with ECharts' SVG renderer in server-side mode (no DOM needed) and saving its markup.
+ * Chart downloads. Both draw the full option, title and subtitle included (on the page those are
+ * the figure's caption, outside the drawing): the PNG with the canvas renderer on a detached
+ * element the size of the chart on screen, the SVG with ECharts' SVG renderer in server-side mode
+ * (no DOM needed).
  */
-import { init, type ECharts } from 'echarts/core';
+import { init } from 'echarts/core';
 import type { ChartOption } from './chart-options';
 
 /** Size of a downloaded SVG, px. */
@@ -18,9 +20,15 @@ export function saveHref(href: string, fileName: string): void {
   a.remove();
 }
 
-/** The chart as a PNG data URL (twice the screen resolution, white background). */
-export function chartPng(chart: ECharts): string {
-  return chart.getDataURL({ type: 'png', pixelRatio: 2, backgroundColor: '#ffffff' });
+/** `option` drawn `widthPx` × `heightPx` as a PNG data URL (twice that resolution, white background). */
+export function chartPng(option: ChartOption, widthPx: number, heightPx: number): string {
+  const chart = init(document.createElement('div'), null, { renderer: 'canvas', width: widthPx, height: heightPx });
+  try {
+    chart.setOption(option);
+    return chart.getDataURL({ type: 'png', pixelRatio: 2, backgroundColor: '#ffffff' });
+  } finally {
+    chart.dispose();
+  }
 }
 
 /** The option drawn as an SVG document. */

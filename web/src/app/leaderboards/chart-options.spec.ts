@@ -1,7 +1,8 @@
 /** Chart options name the robot profile and policy, and carry one series per plan model with its colour. */
 import type { LeaderboardCharts } from '@shared/leaderboards';
 import { CHART_IDS, chartOption, legendRows, PLAN_CHARTS, plotTop } from './chart-options';
-import { MODEL_COLOURS } from './model-colours';
+import { PLAN_MODELS } from '@shared/plan';
+import { MODEL_COLOURS, MODEL_LINE_TYPES, MODEL_SYMBOLS } from './model-colours';
 
 const data: LeaderboardCharts = {
   profile: { hash: '0123456789abcdef', label: 'forward 1000 ms, quarter turn 600 ms', entries: 4 },
@@ -107,5 +108,25 @@ describe('chart options', () => {
   it('keeps zero solve times on the log axis of the cactus plot', () => {
     const series = (chartOption('cactus', data) as { series: { data: number[][] }[] }).series;
     expect(series[0].data[0]).toEqual([0.01, 1]);
+  });
+
+  it('draws each plan model with its own marker and line dash, so the series read without colour (issue 18, item 6)', () => {
+    const all = PLAN_MODELS.map((model) => ({ model, variant: '', points: [[2, 1], [4, 0.5]] as const }));
+    const wide: LeaderboardCharts = { ...data, successByAgents: all, computedVsRealised: all, spreadHistogram: all };
+    type S = { name: string; symbol?: string; lineStyle?: { type: unknown }; itemStyle?: { decal?: unknown } };
+    const line = (chartOption('success', wide) as { series: S[] }).series;
+    expect(line.map((s) => s.name)).toEqual([...PLAN_MODELS]);
+    expect(new Set(line.map((s) => s.symbol)).size).toBe(PLAN_MODELS.length);
+    expect(new Set(line.map((s) => JSON.stringify(s.lineStyle?.type))).size).toBe(PLAN_MODELS.length);
+    line.forEach((s, i) => {
+      expect(s.symbol).toBe(MODEL_SYMBOLS[PLAN_MODELS[i]]);
+      expect(s.lineStyle?.type).toEqual(MODEL_LINE_TYPES[PLAN_MODELS[i]]);
+    });
+    const scatter = (chartOption('realised', wide) as { series: S[] }).series;
+    expect(new Set(scatter.map((s) => s.symbol)).size).toBe(PLAN_MODELS.length);
+    // Bars: a pattern on all but one model (plain bars are the fifth look).
+    const bars = (chartOption('spread', wide) as { series: S[] }).series;
+    expect(bars.filter((s) => s.itemStyle?.decal).length).toBe(PLAN_MODELS.length - 1);
+    expect(new Set(bars.map((s) => JSON.stringify(s.itemStyle?.decal ?? null))).size).toBe(PLAN_MODELS.length);
   });
 });

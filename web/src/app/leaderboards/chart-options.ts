@@ -4,7 +4,7 @@
  * series are named by plan model (with the variant, e.g. k = 1). Pure functions.
  */
 import { MEAN_SUCCESS_METHOD, type ChartSeries, type LeaderboardCharts } from '@shared/leaderboards';
-import { MODEL_COLOURS } from './model-colours';
+import { MODEL_COLOURS, MODEL_DECALS, MODEL_LINE_TYPES, MODEL_SYMBOLS } from './model-colours';
 
 /** Names of the charts (also their ids in the page). */
 export const CHART_IDS = ['success', 'execution', 'cactus', 'realised', 'spread'] as const;
@@ -76,13 +76,20 @@ function frame(widthPx: number, title: string, data: LeaderboardCharts, xName: s
   };
 }
 
+/**
+ * One series per plan model: its colour plus its own marker, dash (lines) and pattern (bars), so
+ * the series stay apart in greyscale and for colour-vision deficiencies (issue 18, item 6).
+ */
 function lines(series: readonly ChartSeries[], kind: 'line' | 'scatter' | 'bar', step?: 'end'): ChartOption[] {
-  return series.map((s) => ({
-    name: seriesName(s), type: kind, data: s.points, color: MODEL_COLOURS[s.model],
-    ...(kind === 'line' ? { showSymbol: true, symbolSize: 5, ...(step ? { step } : {}) } : {}),
-    ...(kind === 'scatter' ? { symbolSize: 5 } : {}),
-    ...(kind === 'bar' ? { barGap: '0%' } : {}),
-  }));
+  return series.map((s) => {
+    const decal = MODEL_DECALS[s.model];
+    return {
+      name: seriesName(s), type: kind, data: s.points, color: MODEL_COLOURS[s.model],
+      ...(kind === 'line' ? { showSymbol: true, symbol: MODEL_SYMBOLS[s.model], symbolSize: 7, lineStyle: { width: 2, type: MODEL_LINE_TYPES[s.model] }, ...(step ? { step } : {}) } : {}),
+      ...(kind === 'scatter' ? { symbol: MODEL_SYMBOLS[s.model], symbolSize: 8 } : {}),
+      ...(kind === 'bar' ? { barGap: '0%', ...(decal ? { itemStyle: { decal } } : {}) } : {}),
+    };
+  });
 }
 
 /**
@@ -144,4 +151,20 @@ export function chartOption(id: ChartId, data: LeaderboardCharts, widthPx = DEFA
         series: lines(data.spreadHistogram.map((s) => ({ ...s, points: s.points.map(([start, n]) => [start + data.spreadBinMs / 2, n] as const) })), 'bar'),
       }, true, ' · counts instances by their mean finish spread; a histogram carries no per-instance interval (see the board\'s finish-spread columns)');
   }
+}
+
+/** The title and subtitle a chart draws (the figure's caption on the page shows the same text). */
+export function chartTitles(id: ChartId, data: LeaderboardCharts): { title: string; subtitle: string } {
+  const t = chartOption(id, data)['title'] as { text: string; subtext: string };
+  return { title: t.text, subtitle: t.subtext };
+}
+
+/**
+ * The option drawn on the page: the title and subtitle are the figure's HTML caption there (so
+ * they are text, not only pixels), so the drawing leaves them out and the plot moves up. Downloads
+ * keep them: a PNG or SVG file travels without the page.
+ */
+export function onScreenOption(option: ChartOption): ChartOption {
+  const grid = option['grid'] as Record<string, unknown>;
+  return { ...option, title: { ...(option['title'] as object), show: false }, grid: { ...grid, top: 16 } };
 }

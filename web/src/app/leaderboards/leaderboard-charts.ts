@@ -1,7 +1,9 @@
 /**
- * The four charts of the board for one robot profile and execution policy: success rate by
- * agent count, the runtime cactus plot, computed against realised makespan and the finish-spread
- * distribution. Each downloads as SVG and PNG. ECharts is provided here with only the pieces used.
+ * The charts of the board for one robot profile and execution policy: solved rate and execution
+ * success rate by agent count, the runtime cactus plot, computed against realised makespan and
+ * the finish-spread distribution. Each is a figure named by its caption (title and subtitle as
+ * text), shows its data as a table on request and downloads as SVG and PNG. ECharts is provided
+ * here with only the pieces used.
  */
 import { afterNextRender, ChangeDetectionStrategy, Component, computed, DestroyRef, ElementRef, inject, input, signal } from '@angular/core';
 import { rxResource } from '@angular/core/rxjs-interop';
@@ -17,7 +19,8 @@ import { CanvasRenderer, SVGRenderer } from 'echarts/renderers';
 import { SAFETY_NOTE } from '@shared/executions-constants';
 import { LEADERBOARD_POLICIES } from '@shared/leaderboards';
 import { chartPng, downloadSvg, saveHref, SVG_SIZE } from './chart-download';
-import { CHART_IDS, chartOption, DEFAULT_CHART_WIDTH_PX, type ChartId } from './chart-options';
+import { CHART_IDS, chartOption, chartTitles, DEFAULT_CHART_WIDTH_PX, onScreenOption, type ChartId } from './chart-options';
+import { chartTable, type ChartTable } from './chart-table';
 import { chartCardWidth } from './chart-card-width';
 import { LeaderboardApi, type BoardScope } from './leaderboard-api';
 
@@ -47,7 +50,24 @@ export default class LeaderboardCharts {
   protected readonly charts = computed(() => {
     const d = this.data.value();
     const width = this.chartWidth();
-    return d ? CHART_IDS.map((id) => ({ id, option: chartOption(id, d, width) })) : [];
+    return d ? CHART_IDS.map((id) => {
+      const option = chartOption(id, d, width);
+      const names = [...new Set(((option['series'] ?? []) as { name?: string }[]).map((s) => s.name ?? ''))].filter((n) => n !== '');
+      return {
+        id, ...chartTitles(id, d), option: onScreenOption(option),
+        // The drawing's name: what it shows and which series it draws (the table has the numbers).
+        imageLabel: `${chartTitles(id, d).title}, chart of ${names.length ? names.join(', ') : 'no series'}`,
+      };
+    }) : [];
+  });
+  /** Charts whose data shows as a table. */
+  protected readonly tablesShown = signal<ReadonlySet<ChartId>>(new Set());
+  /** The table of each chart that shows one (built only then: a scatter may hold thousands of points). */
+  protected readonly tables = computed(() => {
+    const d = this.data.value();
+    const out = new Map<ChartId, ChartTable>();
+    if (d) for (const id of this.tablesShown()) out.set(id, chartTable(id, d));
+    return out;
   });
 
   constructor() {
@@ -71,9 +91,19 @@ export default class LeaderboardCharts {
     this.instances.set(id, chart);
   }
 
+  protected toggleTable(id: ChartId): void {
+    const next = new Set(this.tablesShown());
+    if (!next.delete(id)) next.add(id);
+    this.tablesShown.set(next);
+  }
+
+  /** The PNG at the chart's size on screen, with the title and subtitle drawn in. */
   protected downloadPng(id: ChartId): void {
     const chart = this.instances.get(id);
-    if (chart) saveHref(chartPng(chart), `quarterturn-${id}.png`);
+    const d = this.data.value();
+    if (!chart || !d) return;
+    const width = chart.getWidth();
+    saveHref(chartPng(chartOption(id, d, width), width, chart.getHeight()), `quarterturn-${id}.png`);
   }
 
   protected downloadSvg(id: ChartId): void {
