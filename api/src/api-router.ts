@@ -14,6 +14,7 @@ import { statsFeature } from './stats/stats.feature';
 import { sweepsFeature } from './sweeps/sweeps-feature';
 import { adminUsersRouter } from './users/admin-users.router';
 import { meRouter } from './users/me.router';
+import { openApiRouter } from './openapi/openapi.router';
 
 /** The /api routes other than /api/auth (which needs passport and the rate limit; see app.ts). */
 export function apiRouter(ctx: AppContext): Router {
@@ -25,6 +26,7 @@ export function apiRouter(ctx: AppContext): Router {
   r.use('/stats', statsFeature(ctx));
   r.use('/help', helpRouter(repositoryHelpFiles()));
   r.use('/schemas', schemasRouter(repositoryHelpFiles()));
+  r.use('/openapi.json', openApiRouter());
   r.use(instanceLibraryRouter(ctx));
   r.use(sweepsFeature(ctx));
   r.use('/executions', executionsFeature(ctx));
