@@ -546,3 +546,28 @@ function lineColumnOf(text: string): (offset: number) => { line: number; column:
     return { line: lo + 1, column: offset - starts[lo] + 1 };
   };
 }
+
+/**
+ * A log as CSV text (the inverse of parseTrialLogCsv): the required columns, then those optional
+ * columns some row fills, rows in the given order. Numbers keep every digit JavaScript prints for
+ * them, so parsing the text gives the same numbers back.
+ */
+export function formatTrialLogCsv(rows: readonly Omit<TrialRow, 'line'>[]): string {
+  const optional = TRIAL_LOG_OPTIONAL_COLUMNS.filter((c) => rows.some((r) => (c === 'x_mm' || c === 'y_mm' ? r.xMm !== undefined : r[c] !== undefined)));
+  const lines = [[...TRIAL_LOG_REQUIRED_COLUMNS, ...optional].join(',')];
+  for (const r of rows) {
+    const cells = [String(r.robot), r.action, decimal(r.startMs), decimal(r.endMs)];
+    for (const c of optional) {
+      const v = c === 'x_mm' ? r.xMm : c === 'y_mm' ? r.yMm : r[c];
+      cells.push(v === undefined ? '' : typeof v === 'number' ? decimal(v) : v);
+    }
+    lines.push(cells.join(','));
+  }
+  return `${lines.join('\n')}\n`;
+}
+
+/** A number in the CSV's plain decimal notation (no exponent). */
+function decimal(n: number): string {
+  const s = String(n);
+  return /e/i.test(s) ? n.toFixed(20).replace(/\.?0+$/, '') : s;
+}

@@ -13,6 +13,7 @@ import type { Collision, CollisionMode, ExecutablePlan, ExecutionOptions, NoiseM
 import { drawDurations, resolveNoise, runSeed } from './noise';
 import { preparePlan, type PreparedPlan } from './prepared-plan';
 import { createRunTimes, realiseTimes, releasePlan, type ReleasePlan, type RunTimes } from './realise-times';
+import { timingFigures } from './run-figures';
 
 /** Times closer than this are the same instant when matching collisions across re-realisations. */
 const SAME_TIME_MS = 1e-6;
@@ -86,51 +87,14 @@ export class ExecutionRunner {
   }
 
   private metrics(run: number, collisions: readonly Collision[]): RunMetrics {
-    const p = this.prepared;
-    const { end, waited } = this.times;
-    let makespan = 0;
-    let soc = 0;
-    let firstFinish = Infinity;
-    let lastFinish = 0;
-    for (let r = 0; r < p.robotCount; r++) {
-      const lf = p.lastForward[r];
-      const arrival = lf < 0 ? 0 : end[lf];
-      if (arrival > makespan) makespan = arrival;
-      soc += arrival;
-      const finish = p.first[r + 1] > p.first[r] ? end[p.first[r + 1] - 1] : 0;
-      if (finish < firstFinish) firstFinish = finish;
-      if (finish > lastFinish) lastFinish = finish;
-    }
-    // Waiting: the sum over robots (the historical `waitingMs`) and per robot its mean and max,
-    // of the idle time before each robot reaches its goal for good (actions up to its last
-    // forward move): a robot holding its goal through barriers or planned starts of padding and
-    // trailing actions is done, not waiting (execution-types.ts, RunMetrics.waitingMs).
-    let waiting = 0;
-    let waitingMax = 0;
-    for (let r = 0; r < p.robotCount; r++) {
-      let robotWaited = 0;
-      for (let a = p.first[r]; a <= p.lastForward[r]; a++) {
-        robotWaited += waited[a];
-        // Added action by action, in plan order, as before the per-robot figures (same bits).
-        waiting += waited[a];
-      }
-      if (robotWaited > waitingMax) waitingMax = robotWaited;
-    }
+    const figures = timingFigures(this.prepared, this.times.end, this.times.waited);
     const isDeadlocked = this.dependencies?.hasDeadlock ?? false;
-    const isComplete = makespan < Infinity;
     return {
       run,
-      isSuccess: isComplete && !isDeadlocked && collisions.length === 0,
+      isSuccess: figures.realisedMakespanMs !== null && !isDeadlocked && collisions.length === 0,
       isDeadlocked,
       collisions,
-      realisedMakespanMs: isComplete ? makespan : null,
-      realisedSocMs: isComplete ? soc : null,
-      waitingMs: waiting,
-      waitingMeanPerRobotMs: p.robotCount === 0 ? 0 : waiting / p.robotCount,
-      waitingMaxPerRobotMs: waitingMax,
-      // The same rule under every policy: lockstep closes no barrier after the last step / the
-      // planned makespan, so its robots finish apart once durations are noisy (execution-types.ts).
-      finishSpreadMs: p.robotCount === 0 ? 0 : lastFinish === Infinity ? null : lastFinish - firstFinish,
+      ...figures,
     };
   }
 }

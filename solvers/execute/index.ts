@@ -14,3 +14,4 @@ export { closestApproach, overlapInterval, type ClosestApproach } from './closes
 export { resolveNoise, runSeed } from './noise';
 export { buildActionDependencies, type ActionDependencies } from './dependency-graph';
 export { preparePlan, type PreparedPlan } from './prepared-plan';
+export { timingFigures, type TimingFigures } from './run-figures';
