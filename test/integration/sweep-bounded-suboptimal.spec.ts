@@ -28,7 +28,7 @@ describe('bounded-suboptimal search in sweeps and on the board', () => {
     db = await createTestDatabase();
     s = await startSweepServer(db.url);
     ({ setId } = await uploadSet(s, 'bounded floor', ['empty-8-8.map', 'empty-8-8-even-1.scen', 'empty-8-8-even-2.scen']));
-    worker = await startSweepWorker({ databaseUrl: db.url, threads: 1, logger: pino({ level: process.env.QT_TEST_LOG ?? 'silent' }), maintenanceSeconds: 1 });
+    worker = await startSweepWorker({ databaseUrl: db.url, threads: 1, logger: pino({ level: process.env.QT_TEST_LOG ?? 'silent' }), publicUrl: s.url, maintenanceSeconds: 1 });
     const sweep = await launchSweep(s, baseDefinition(setId, {
       name: 'bounded check',
       agentCounts: { kind: 'list', values: [3, 6] },
