@@ -10,7 +10,7 @@ import { firstValueFrom } from 'rxjs';
 import { AgGridAngular } from 'ag-grid-angular';
 import {
   CellStyleModule, InfiniteRowModelModule, ModuleRegistry, NumberFilterModule, TextFilterModule, TooltipModule,
-  type ColumnMovedEvent, type ColumnVisibleEvent, type GridApi, type GridReadyEvent, type IDatasource, type IGetRowsParams,
+  type ColumnMovedEvent, type ColumnVisibleEvent, type DragStoppedEvent, type GridApi, type GridReadyEvent, type IDatasource, type IGetRowsParams,
 } from 'ag-grid-community';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
@@ -43,6 +43,11 @@ const K_CHOICES: readonly number[] = [0, 1, 2, 3, 4, 5];
 
 /** Rows the grid asks for at a time. */
 const PAGE_ROWS = 100;
+
+/** Column event sources (AG Grid ColumnEventType) of moves the viewer made; new column definitions from the view are not among them. */
+const USER_COLUMN_MOVES: ReadonlySet<string> = new Set(['uiColumnMoved', 'uiColumnDragged', 'toolPanelUi', 'toolPanelDragAndDrop', 'contextMenu', 'columnMenu']);
+/** Sources of columns hidden or shown from a menu (a header dragged out is read when the drag stops). */
+const USER_COLUMN_MENUS: ReadonlySet<string> = new Set(['toolPanelUi', 'contextMenu', 'columnMenu']);
 
 /** Button labels of the export formats. */
 const FORMAT_LABELS: Readonly<Record<ExportFormat, string>> = { csv: 'CSV', latex: 'LaTeX', markdown: 'Markdown', json: 'JSON' };
@@ -176,9 +181,12 @@ export default class LeaderboardBoard {
   /**
    * A column dragged to another place or out of the grid: the view (URL and export links) takes the
    * grid's order and visible columns, so an export holds exactly the columns on screen (issue 14, item 8).
+   * Read when a header drag ends (a column dragged out is hidden and shown again while the drag goes on),
+   * and after a finished move or a visibility change made from a menu.
    */
-  protected followGridColumns(event: ColumnMovedEvent<GridRow> | ColumnVisibleEvent<GridRow>): void {
-    if (event.type === 'columnMoved' && !(event as ColumnMovedEvent<GridRow>).finished) return;
+  protected followGridColumns(event: ColumnMovedEvent<GridRow> | ColumnVisibleEvent<GridRow> | DragStoppedEvent<GridRow>): void {
+    if (event.type === 'columnMoved' && !((event as ColumnMovedEvent<GridRow>).finished && USER_COLUMN_MOVES.has(event.source))) return;
+    if (event.type === 'columnVisible' && !USER_COLUMN_MENUS.has((event as ColumnVisibleEvent<GridRow>).source)) return;
     const known = new Set(columnsOf(this.view()).map((c) => c.id));
     const shown = event.api.getAllDisplayedColumns().map((c) => c.getColId()).filter((id) => known.has(id));
     if (shown.length === 0 || shown.join(',') === this.view().columns.join(',')) return;
