@@ -1,15 +1,16 @@
 /**
- * Draws one frame of the fleet: the map from a bitmap made once, then every robot as a disk
- * with a heading tick (a turning robot's tick rotates), coloured by what it is doing, and the
- * collisions active at t as rings. Robots are drawn in one path per colour; nothing is
- * allocated per frame.
+ * Draws one frame of the fleet: the map from a bitmap made once, then every robot in the shape
+ * and colour of what it is doing (ROBOT_STATE_STYLES: disk, square, ring, octagon, cross, so the
+ * state reads without colour) with a heading tick (a turning robot's tick rotates; a blocked
+ * robot's cross has none), and the collisions active at t as wide rings. Robots are drawn in one
+ * path per state; nothing is allocated per frame.
  */
 import type { CollisionView, ExecutionInstanceView } from '@shared/executions';
 import type { RobotProfile } from '@shared/plan';
 import { offscreenCanvas, type Context2dFactory } from './canvas-context';
-import { FleetPoses, POSE_STATE } from './fleet-poses';
+import { FleetPoses } from './fleet-poses';
 import type { FleetTrack } from './fleet-track';
-import type { FleetPalette } from './viewer-palette';
+import { ROBOT_STATE_STYLES, strokeWidth, traceRobot, type FleetPalette, type RobotStateStyle } from './viewer-palette';
 
 type Ctx = CanvasRenderingContext2D | OffscreenCanvasRenderingContext2D;
 
@@ -29,7 +30,8 @@ export class FleetScene {
   private readonly map: HTMLCanvasElement | OffscreenCanvas;
   private readonly poses: FleetPoses | null;
   private readonly radiusPx: number;
-  private readonly stateColours: readonly string[];
+  /** Look of each POSE_STATE code. */
+  private readonly styles: readonly RobotStateStyle[];
   private readonly collisionX: Float32Array;
   private readonly collisionY: Float32Array;
   private readonly collisionFrom: Float64Array;
@@ -48,13 +50,9 @@ export class FleetScene {
     this.map = drawMap(instance, palette, cell, makeContext);
     this.poses = track ? new FleetPoses(track) : null;
     this.radiusPx = (profile.robotDiameterMm / profile.cellPitchMm) * cell / 2;
-    const colours: string[] = [];
-    colours[POSE_STATE.active] = palette.robot;
-    colours[POSE_STATE.held] = palette.robotHeld;
-    colours[POSE_STATE.done] = palette.robotDone;
-    colours[POSE_STATE.stopped] = palette.robotStopped;
-    colours[POSE_STATE.blocked] = palette.robotBlocked;
-    this.stateColours = colours;
+    const styles: RobotStateStyle[] = [];
+    for (const st of ROBOT_STATE_STYLES) styles[st.state] = st;
+    this.styles = styles;
     const n = collisions.length;
     this.collisionX = Float32Array.from(collisions, (c) => c.at[0] / profile.cellPitchMm);
     this.collisionY = Float32Array.from(collisions, (c) => c.at[1] / profile.cellPitchMm);
@@ -73,32 +71,39 @@ export class FleetScene {
     const half = cell / 2;
     const rad = this.radiusPx;
     const n = poses.track.robotCount;
-    for (let s = 0; s < this.stateColours.length; s++) {
+    for (let s = 0; s < this.styles.length; s++) {
+      const style = this.styles[s];
       ctx.beginPath();
       let any = false;
       for (let r = 0; r < n; r++) {
         if (poses.state[r] !== s) continue;
-        const cx = poses.x[r] * cell + half;
-        const cy = poses.y[r] * cell + half;
-        ctx.moveTo(cx + rad, cy);
-        ctx.arc(cx, cy, rad, 0, 2 * Math.PI);
+        traceRobot(ctx, style.shape, poses.x[r] * cell + half, poses.y[r] * cell + half, rad);
         any = true;
       }
       if (!any) continue;
-      ctx.fillStyle = this.stateColours[s];
-      ctx.fill();
+      const line = strokeWidth(style.shape, rad);
+      if (line > 0) {
+        ctx.strokeStyle = style.colour;
+        ctx.lineWidth = line;
+        ctx.stroke();
+      } else {
+        ctx.fillStyle = style.colour;
+        ctx.fill();
+      }
+      if (style.shape === 'cross') continue;
+      // Heading ticks, centre to rim: white on the filled shapes, in the ring's colour inside a ring.
+      ctx.beginPath();
+      for (let r = 0; r < n; r++) {
+        if (poses.state[r] !== s) continue;
+        const cx = poses.x[r] * cell + half;
+        const cy = poses.y[r] * cell + half;
+        ctx.moveTo(cx, cy);
+        ctx.lineTo(cx + Math.cos(poses.angle[r]) * rad, cy + Math.sin(poses.angle[r]) * rad);
+      }
+      ctx.strokeStyle = style.shape === 'ring' ? style.colour : this.palette.tick;
+      ctx.lineWidth = Math.max(1, rad / 4);
+      ctx.stroke();
     }
-    // Heading ticks: centre to rim along the heading, one stroke for the fleet.
-    ctx.beginPath();
-    for (let r = 0; r < n; r++) {
-      const cx = poses.x[r] * cell + half;
-      const cy = poses.y[r] * cell + half;
-      ctx.moveTo(cx, cy);
-      ctx.lineTo(cx + Math.cos(poses.angle[r]) * rad, cy + Math.sin(poses.angle[r]) * rad);
-    }
-    ctx.strokeStyle = this.palette.tick;
-    ctx.lineWidth = Math.max(1, rad / 4);
-    ctx.stroke();
     // Collisions active at t (and for a moment after): rings around the contact point.
     ctx.beginPath();
     let hasCollision = false;

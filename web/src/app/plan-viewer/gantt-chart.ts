@@ -1,13 +1,14 @@
 /**
  * The per-robot timeline of one run on a canvas, with a legend and the clock's cursor; the chain
- * that set the realised makespan (if given) is outlined over the bars.
+ * that set the realised makespan (if given) is outlined over the bars. Categories differ by colour
+ * and, where rows are tall enough to show it, by pattern (GANTT_PATTERNS; the legend shows both).
  */
 import { ChangeDetectionStrategy, Component, ElementRef, computed, effect, inject, input, viewChild } from '@angular/core';
 import { CONTEXT_2D, offscreenCanvas } from './canvas-context';
 import { GANTT_KINDS, GANTT_LABELS, ganttRowHeight, type GanttSegments } from './gantt-layout';
 import type { ChainSegment } from './run-attribution';
 import type { ReplayClock } from './replay-clock';
-import { GANTT_COLOURS } from './viewer-palette';
+import { GANTT_COLOURS, GANTT_PATTERNS, ganttFill, ganttSwatch, PATTERN_TILE_PX } from './viewer-palette';
 
 /** Outline of the chain that set the realised makespan (near black, apart from every bar colour). */
 const CHAIN_COLOUR = '#1b1b1f';
@@ -35,7 +36,7 @@ export function tickStep(span: number, target = 6): number {
     </div>
     <ul class="legend" aria-label="Timeline legend">
       @for (k of kinds; track k) {
-        <li><span class="swatch" [style.background]="colours[k]"></span>{{ labels[k] }}</li>
+        <li [attr.data-kind]="k" [attr.data-pattern]="patterns[k]"><span class="swatch" [style.background]="swatches[k]"></span>{{ labels[k] }}</li>
       }
       @if (chain().length > 0) { <li><span class="swatch is-chain"></span>Chain that set the realised makespan</li> }
     </ul>`,
@@ -45,8 +46,8 @@ export function tickStep(span: number, target = 6): number {
     /* Many robots scroll here instead of squeezing their rows (GANTT_MIN_ROW_PX). */
     .rows { overflow-y: auto; overflow-x: hidden; max-width: 100%; }
     .legend { display: flex; flex-wrap: wrap; gap: 4px 14px; list-style: none; margin: 6px 0 0; padding: 0; font: var(--mat-sys-body-small); }
-    .swatch { display: inline-block; width: 10px; height: 10px; margin-right: 5px; border-radius: 2px; vertical-align: -1px; }
-    .swatch.is-chain { width: 8px; height: 8px; border: 1px solid; border-color: #1b1b1f; background: transparent; }
+    .swatch { display: inline-block; width: 14px; height: 12px; margin-right: 5px; border-radius: 2px; vertical-align: -2px; }
+    .swatch.is-chain { width: 12px; height: 10px; border: 1px solid; border-color: #1b1b1f; background: transparent; }
   `],
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
@@ -62,7 +63,8 @@ export class GanttChart {
   private readonly canvas = viewChild.required<ElementRef<HTMLCanvasElement>>('canvas');
   protected readonly kinds = GANTT_KINDS;
   protected readonly labels = GANTT_LABELS;
-  protected readonly colours = GANTT_COLOURS;
+  protected readonly patterns = GANTT_PATTERNS;
+  protected readonly swatches = Object.fromEntries(GANTT_KINDS.map((k) => [k, ganttSwatch(k)])) as Record<(typeof GANTT_KINDS)[number], string>;
   /** Visible height of the rows before they scroll, px. */
   protected readonly viewportPx = ROWS_VIEWPORT_PX;
   protected readonly rowPx = computed(() => ganttRowHeight(this.robotCount(), ROWS_VIEWPORT_PX - AXIS_PX));
@@ -85,8 +87,11 @@ export class GanttChart {
       const bctx = this.makeContext(bars);
       if (!bctx) return;
       const gap = row >= 6 ? 1 : 0;
+      // Patterns need a few pixels of height to read; thinner rows keep the plain colours.
+      const patterned = row >= PATTERN_TILE_PX / 2 + 2 * gap;
       for (let k = 0; k < GANTT_KINDS.length; k++) {
-        bctx.fillStyle = GANTT_COLOURS[GANTT_KINDS[k]];
+        const kind = GANTT_KINDS[k];
+        bctx.fillStyle = patterned ? ganttFill(kind, this.makeContext, bctx as CanvasRenderingContext2D, offscreenCanvas(PATTERN_TILE_PX, PATTERN_TILE_PX)) : GANTT_COLOURS[kind];
         for (let i = 0; i < segs.count; i++) {
           if (segs.kind[i] !== k) continue;
           const x0 = segs.t0[i] * scale;

@@ -104,6 +104,22 @@ describe('PlanViewer', () => {
     expect(el.querySelector('[role="note"]')?.textContent?.trim()).toBe(SAFETY_NOTE);
   });
 
+  it('lists every robot state in the map legend, blocked included, each with its own shape (issue 18, item 6)', async () => {
+    await open('classic');
+    await answerPost(11, 'classic');
+    const items = [...el.querySelectorAll('.robot-legend li')];
+    expect(items.map((li) => [li.getAttribute('data-shape'), li.textContent?.trim()])).toEqual([
+      ['disk', 'Moving as planned (driving, turning or waiting)'],
+      ['square', 'Waiting on dependency'],
+      ['ring', 'At goal'],
+      ['octagon', 'Stopped by collision'],
+      ['cross', 'Blocked (dependency cycle)'],
+      ['collision', 'Collision (wide ring round the contact point)'],
+    ]);
+    // Each glyph is drawn as SVG (the namespace matters: an HTML <circle> draws nothing).
+    expect(items.map((li) => li.querySelector('svg')?.firstElementChild?.namespaceURI)).toEqual(items.map(() => 'http://www.w3.org/2000/svg'));
+  });
+
   it('asks the server to solve and simulate the instance, and shows its figures with model and profile', async () => {
     await open('classic');
     const req = await answerPost(11, 'classic');

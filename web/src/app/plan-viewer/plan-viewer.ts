@@ -46,7 +46,7 @@ import {
   replayablePolicies, settingsDifferences, storedFiguresLine, storedOfPolicy, storedReplayFor, type BatchSettings,
 } from './stored-settings';
 import { formatSeconds } from './viewer-format';
-import { GANTT_COLOURS } from './viewer-palette';
+import { ROBOT_STATE_STYLES } from './viewer-palette';
 import { paneWith, type ViewerPane } from './viewer-pane';
 
 export type { ViewerPane } from './viewer-pane';
@@ -90,13 +90,16 @@ export default class PlanViewer {
   protected readonly policies = EXECUTION_POLICY_NAMES;
   protected readonly collisionModes = COLLISION_MODES;
   protected readonly speeds = REPLAY_SPEEDS;
-  protected readonly robotLegend = [
-    { label: 'Moving as planned', colour: 'var(--mat-sys-primary)' },
-    { label: 'Waiting on dependency', colour: GANTT_COLOURS.held },
-    { label: 'At goal', colour: '#8aa0a6' },
-    { label: 'Stopped by collision', colour: GANTT_COLOURS.stopped },
-    { label: 'Collision', colour: 'var(--mat-sys-error)', isRing: true },
+  /** Every robot state with the shape and colour the map draws it in, then the collision mark. */
+  protected readonly robotLegend: readonly { readonly label: string; readonly shape: string; readonly colour: string }[] = [
+    ...ROBOT_STATE_STYLES.map((s) => ({ label: s.label, shape: s.shape, colour: s.colour })),
+    { label: 'Collision (wide ring round the contact point)', shape: 'collision', colour: 'var(--mat-sys-error)' },
   ];
+  /** The legend's octagon (12 px box centred on 0). */
+  protected readonly octagon = Array.from({ length: 8 }, (_, k) => {
+    const a = ((k + 0.5) * Math.PI) / 4;
+    return `${(5 * Math.cos(a)).toFixed(2)},${(5 * Math.sin(a)).toFixed(2)}`;
+  }).join(' ');
   protected readonly clock = new ReplayClock();
   protected readonly panes = signal<readonly ViewerPane[]>([]);
   protected readonly isBusy = signal(false);
