@@ -18,7 +18,7 @@ const BACKGROUNDS = ['#ffffff', '#f7fafa'];
 /** Records path calls, for comparing traced shapes. */
 function recorder() {
   const calls: string[] = [];
-  const at = (name: string) => (...args: number[]) => { calls.push(`${name}(${args.map((a) => +a.toFixed(2)).join(',')})`); };
+  const at = (name: string) => (...args: (number | boolean | undefined)[]) => { calls.push(`${name}(${args.map((a) => (typeof a === 'number' ? +a.toFixed(2) : a)).join(',')})`); };
   return { calls, path: { moveTo: at('moveTo'), lineTo: at('lineTo'), arc: at('arc'), closePath: at('closePath') } };
 }
 
