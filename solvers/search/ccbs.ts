@@ -13,12 +13,13 @@
  * children's plans are kept, so no low-level search is repeated.
  *
  * Bounded-suboptimal mode (`suboptimality` w > 1): the ECBS high level (Barer, Sharon, Stern,
- * Felner, SoCS 2014) over the same exact SIPP low level (focal-lists.ts): the node expanded is
- * the one with the fewest conflicting agent pairs among the open nodes whose cost is at most
- * w × LB, LB = the least open cost. Soundness: every agent's plan is optimal under its
- * constraints, so a node's cost bounds from below the optimum of the plans its constraints
- * admit; the splits are sound, so some open node admits an optimal plan and LB never exceeds
- * the optimum; a conflict-free node is returned only from FOCAL, so its cost ≤ w × LB ≤ w × opt.
+ * Felner, SoCS 2014; focal-lists.ts) over a focal SIPP low level (focal-sipp.ts): each agent's
+ * plan costs at most w × lb_i, lb_i a proven lower bound on its optimal arrival under its
+ * constraints (kept at least its parent's, as constraints only grow), and the node's lower
+ * bound is Σ lb_i. The node expanded is the one with the fewest conflicting agent pairs among the
+ * open nodes whose cost is at most w × LB, LB = the least open lower bound. Soundness: the splits
+ * are sound, so some open node admits an optimal plan, whose cost is at least that node's Σ lb_i,
+ * so LB never exceeds the optimum; a conflict-free node is returned only when its cost ≤ w × LB.
  */
 import type { Grid } from '../grid/grid';
 import { branchOptions, type BranchChild } from './ccbs-branch';
@@ -27,6 +28,7 @@ import { compileBans, type AgentBan } from './sipp-constraints';
 import { sippSearch, type SippPlan } from './sipp';
 import { SippHeap } from './sipp-heap';
 import { FocalLists } from './focal-lists';
+import { focalSippSearch, occupancyIndex, type OccupancyIndex } from './focal-sipp';
 
 /** One agent as the search sees it. */
 export interface CcbsAgent {
@@ -80,6 +82,10 @@ interface CtNode {
   readonly cost: number;
   readonly conflicts: readonly OccupancyConflict[];
   readonly conflictingPairs: number;
+  /** Per agent a proven lower bound on its optimal arrival under the node's constraints (= its plan's cost when exact). */
+  readonly lbs: readonly number[];
+  /** Σ lbs: a lower bound on the optimum of the plans the node admits. */
+  readonly lb: number;
 }
 
 /** How many of a node's earliest conflicts are priced when choosing the split. */
@@ -93,8 +99,22 @@ export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
   let lowLevelExpansions = 0;
   let isStopped = false;
 
-  const plan = (agent: number, bans: readonly AgentBan[]): SippPlan | null => {
+  const w = q.suboptimality ?? 1;
+  /** The lower bound the last `plan` call proved (its plan's cost when exact). */
+  let lastLb = 0;
+  const plan = (agent: number, bans: readonly AgentBan[], occupancy?: OccupancyIndex): SippPlan | null => {
     const a = q.agents[agent];
+    if (occupancy !== undefined) {
+      const focal = focalSippSearch({
+        grid: q.grid, start: a.start, goal: a.goal, startHeadings: a.startHeadings, forwardMs: q.forwardMs,
+        quarterTurnMs: q.quarterTurnMs, bans: compileBans(bans, cellCount), heuristic: a.heuristic, shouldStop: q.shouldStop,
+        w, agent, occupancy,
+      });
+      lowLevelExpansions += focal.expansions;
+      if (focal.isStopped) isStopped = true;
+      lastLb = focal.lowerBound;
+      return focal.plan;
+    }
     const out = sippSearch({
       grid: q.grid,
       start: a.start,
@@ -108,24 +128,34 @@ export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
     });
     lowLevelExpansions += out.expansions;
     if (out.isStopped) isStopped = true;
+    lastLb = out.plan?.cost ?? 0;
     return out.plan;
   };
 
-  const makeNode = (parent: CtNode | null, agent: number, bans: readonly AgentBan[], plans: readonly SippPlan[], visits: readonly (readonly CellVisit[])[]): CtNode => {
+  const makeNode = (parent: CtNode | null, agent: number, bans: readonly AgentBan[], plans: readonly SippPlan[],
+    visits: readonly (readonly CellVisit[])[], lbs: readonly number[] = plans.map((p) => p.cost)): CtNode => {
     const { conflicts, conflictingPairs } = findConflicts(visits, CANDIDATE_CONFLICTS);
     const cost = plans.reduce((s, p) => s + p.cost, 0);
-    return { id: generated++, parent, agent, bans, plans, visits, cost, conflicts, conflictingPairs };
+    const lb = lbs.reduce((s, v) => s + v, 0);
+    return { id: generated++, parent, agent, bans, plans, visits, cost, conflicts, conflictingPairs, lbs, lb };
   };
 
   // Sum of single-agent cost-to-go: the bound to report if the root itself is cut short.
   const trivialBound = q.agents.reduce((s, a) => s + Math.min(...a.startHeadings.map((h) => a.heuristic[a.start * 4 + h])), 0);
   const rootPlans: SippPlan[] = [];
+  const rootLbs: number[] = [];
+  // Bounded mode: each root plan avoids the plans made before it (focal order only).
+  const rootOccupancy = w > 1 ? new Map<number, CellVisit[]>() : undefined;
   for (let a = 0; a < q.agents.length; a++) {
-    const p = plan(a, []);
+    const p = plan(a, [], rootOccupancy);
     if (!p) return finish(isStopped ? 'stopped' : 'infeasible', null, isStopped ? trivialBound : null);
     rootPlans.push(p);
+    rootLbs.push(lastLb);
+    if (rootOccupancy !== undefined) {
+      for (const v of cellVisits(a, q.agents[a].start, p, q.forwardMs)) rootOccupancy.set(v.cell, [...(rootOccupancy.get(v.cell) ?? []), v]);
+    }
   }
-  const root = makeNode(null, -1, [], rootPlans, rootPlans.map((p, a) => cellVisits(a, q.agents[a].start, p, q.forwardMs)));
+  const root = makeNode(null, -1, [], rootPlans, rootPlans.map((p, a) => cellVisits(a, q.agents[a].start, p, q.forwardMs)), rootLbs);
 
   const nodes: CtNode[] = [root];
   if ((q.suboptimality ?? 1) > 1) return searchBounded(q.suboptimality as number);
@@ -160,7 +190,7 @@ export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
 
   /** The bounded loop: FOCAL's best node, children as in the exact loop. */
   function searchBounded(w: number): CcbsOutcome {
-    const lists = new FocalLists(w, (id) => nodes[id].cost, (id) => nodes[id].conflictingPairs);
+    const lists = new FocalLists(w, (id) => nodes[id].lb, (id) => nodes[id].cost, (id) => nodes[id].conflictingPairs);
     lists.push(root.id);
     for (;;) {
       if (q.shouldStop()) return finish('stopped', null, lists.lowerBound());
@@ -171,14 +201,16 @@ export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
       if (top.conflicts.length === 0) return finish('solved', top, pick.lowerBound);
       expanded++;
       const split = chooseSplit(top);
-      if (isStopped) return finish('stopped', null, Math.min(top.cost, lists.lowerBound()));
-      for (const { child, plan: p } of split) {
+      if (isStopped) return finish('stopped', null, Math.min(top.lb, lists.lowerBound()));
+      for (const { child, plan: p, lb } of split) {
         if (!p) continue;
         const plans = top.plans.slice();
         plans[child.agent] = p;
         const visits = top.visits.slice();
         visits[child.agent] = cellVisits(child.agent, q.agents[child.agent].start, p, q.forwardMs);
-        const node = makeNode(top, child.agent, child.bans, plans, visits);
+        const lbs = top.lbs.slice();
+        lbs[child.agent] = Math.max(lbs[child.agent], lb);
+        const node = makeNode(top, child.agent, child.bans, plans, visits, lbs);
         nodes.push(node);
         lists.push(node.id);
       }
@@ -186,19 +218,26 @@ export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
   }
 
   /** Prices the sound splits of the node's first conflicts and returns the best, with its children's plans. */
-  function chooseSplit(node: CtNode): { child: BranchChild; plan: SippPlan | null }[] {
-    const memo = new Map<string, SippPlan | null>();
-    const childPlan = (child: BranchChild): SippPlan | null => {
+  function chooseSplit(node: CtNode): { child: BranchChild; plan: SippPlan | null; lb: number }[] {
+    const memo = new Map<string, { plan: SippPlan | null; lb: number }>();
+    const occupancy = w > 1 ? occupancyIndex(node.visits) : undefined;
+    const childPlan = (child: BranchChild): { plan: SippPlan | null; lb: number } => {
       const key = `${child.agent}|${JSON.stringify(child.bans)}`;
-      if (!memo.has(key)) memo.set(key, plan(child.agent, [...bansOf(node, child.agent), ...child.bans]));
-      return memo.get(key) ?? null;
+      let hit = memo.get(key);
+      if (hit === undefined) {
+        const p = plan(child.agent, [...bansOf(node, child.agent), ...child.bans], occupancy);
+        hit = { plan: p, lb: lastLb };
+        memo.set(key, hit);
+      }
+      return hit;
     };
-    let best: { child: BranchChild; plan: SippPlan | null }[] = [];
+    let best: { child: BranchChild; plan: SippPlan | null; lb: number }[] = [];
     let bestLow = -1;
     let bestHigh = -1;
-    for (const conflict of node.conflicts) {
+    // The bounded search prices only the earliest conflict's splits: it gains more from many cheap expansions.
+    for (const conflict of w > 1 ? node.conflicts.slice(0, 1) : node.conflicts) {
       for (const option of branchOptions(conflict, q.forwardMs)) {
-        const priced = option.children.map((child) => ({ child, plan: childPlan(child) }));
+        const priced = option.children.map((child) => ({ child, ...childPlan(child) }));
         if (isStopped) return [];
         const costs = priced.map(({ child, plan: p }) => (p ? node.cost - node.plans[child.agent].cost + p.cost : Infinity));
         const low = Math.min(...costs);

@@ -1,9 +1,9 @@
 /**
  * The high-level lists of a focal CBS with an exact low level (the high level of ECBS, Barer,
  * Sharon, Stern, Felner, "Suboptimal variants of the conflict-based search algorithm for the
- * multi-agent pathfinding problem", SoCS 2014): OPEN by node cost, FOCAL = the open nodes whose
- * cost is at most w × LB (LB = least cost in OPEN) ordered by a secondary heuristic (fewer
- * conflicts first), then cost, then id. Nodes are integer ids; a selected node leaves every
+ * multi-agent pathfinding problem", SoCS 2014): OPEN by node lower bound, FOCAL = the open nodes
+ * whose cost is at most w × LB (LB = least lower bound in OPEN) ordered by a secondary heuristic
+ * (fewer conflicts first), then cost, then id. Nodes are integer ids; a selected node leaves every
  * list (the heaps drop it lazily). Used by the bounded weighted-split search (ccbs.ts).
  */
 import { SippHeap } from './sipp-heap';
@@ -16,10 +16,14 @@ export class FocalLists {
   private readonly focal: SippHeap;
   private readonly closed = new Set<number>();
 
-  /** `cost(id)` integer node cost (a lower bound on its subtree's optimum); `secondary(id)` the focal order. */
-  constructor(private readonly w: number, private readonly cost: (id: number) => number, secondary: (id: number) => number) {
+  /**
+   * `lowerBound(id)`: a proven lower bound on the optimum of the plans the node admits (integer);
+   * `cost(id)`: the node's plan cost; `secondary(id)`: the focal order.
+   */
+  constructor(private readonly w: number, private readonly lb: (id: number) => number, private readonly cost: (id: number) => number,
+    secondary: (id: number) => number) {
     const byCost = (a: number, b: number): boolean => cost(a) < cost(b) || (cost(a) === cost(b) && a < b);
-    this.open = new SippHeap(byCost);
+    this.open = new SippHeap((a, b) => lb(a) < lb(b) || (lb(a) === lb(b) && byCost(a, b)));
     this.pending = new SippHeap(byCost);
     this.focal = new SippHeap((a, b) => secondary(a) < secondary(b) || (secondary(a) === secondary(b) && byCost(a, b)));
   }
@@ -30,10 +34,10 @@ export class FocalLists {
     this.pending.push(id);
   }
 
-  /** LB: the least cost in OPEN (Infinity when empty). */
+  /** LB: the least lower bound in OPEN (Infinity when empty). */
   lowerBound(): number {
     const top = this.top(this.open);
-    return top === undefined ? Infinity : this.cost(top);
+    return top === undefined ? Infinity : this.lb(top);
   }
 
   /** Selects and closes FOCAL's best node, with LB at that moment; null when OPEN is empty. */
@@ -45,8 +49,8 @@ export class FocalLists {
       this.focal.push(p);
       this.pending.pop();
     }
-    // The least-cost node is within the bound, so FOCAL is not empty.
-    const id = this.top(this.focal) as number;
+    // With every agent's cost within w of its bound, OPEN's top is within the bound too; its fallback is for safety.
+    const id = this.top(this.focal) ?? (this.top(this.open) as number);
     this.closed.add(id);
     return { id, lowerBound: lb };
   }

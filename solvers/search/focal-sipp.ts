@@ -1,0 +1,189 @@
+/**
+ * The bounded-suboptimal low level of weighted-split: focal search (Pearl and Kim, IEEE TPAMI
+ * 1982) over the SIPP states of sipp.ts (Phillips & Likhachev, ICRA 2011), as ECBS runs focal
+ * search at the low level (Barer, Sharon, Stern, Felner, SoCS 2014). Successors, safe intervals,
+ * bans and the goal rule are exactly those of sipp.ts; only the order differs: among the open
+ * nodes with f ≤ w × f_min (FOCAL) the one whose partial plan overlaps the other agents' current
+ * occupancy least is expanded first (then least f).
+ *
+ * Bound: a state keeps the node of its earliest arrival, and a strictly earlier arrival makes a
+ * new node even when the state was expanded (sipp.ts's rule), so OPEN always holds a node of an
+ * optimal plan at its optimal time; f_min (taken with the goal node still open) is therefore a
+ * lower bound on the optimal arrival under the bans, and the plan returned costs at most w × it.
+ */
+import type { ActionKind } from '@shared/plan';
+import { forwardCell, HEADING_COUNT, turnedLeft, turnedRight } from '../grid/heading-graph';
+import type { CellVisit } from './ccbs-conflict';
+import { ALWAYS_SAFE, earliestOutside, type Windows } from './sipp-constraints';
+import { SippHeap } from './sipp-heap';
+import type { SippPlan, SippQuery, SippStep } from './sipp';
+import { boundOf } from './suboptimality';
+
+/** The other agents' occupancy: per cell the visits of every agent (the planned agent's own are skipped). */
+export type OccupancyIndex = ReadonlyMap<number, readonly CellVisit[]>;
+
+/** Builds the occupancy index of a set of plans' visits. */
+export function occupancyIndex(visits: readonly (readonly CellVisit[])[]): OccupancyIndex {
+  const out = new Map<number, CellVisit[]>();
+  for (const list of visits) for (const v of list) {
+    const at = out.get(v.cell);
+    if (at === undefined) out.set(v.cell, [v]);
+    else at.push(v);
+  }
+  return out;
+}
+
+/** A focal SIPP query: the SIPP query, the factor, the agent and the others' occupancy. */
+export interface FocalSippQuery extends SippQuery {
+  readonly w: number;
+  readonly agent: number;
+  readonly occupancy: OccupancyIndex;
+}
+
+/** Outcome: the plan (cost ≤ w × lowerBound) or null, the lower bound proved, expansions, whether stopped. */
+export interface FocalSippOutcome {
+  readonly plan: SippPlan | null;
+  readonly lowerBound: number;
+  readonly expansions: number;
+  readonly isStopped: boolean;
+}
+
+const NONE = -1;
+
+/** Finds a plan within w of the minimum arrival time, preferring little overlap with the others. */
+export function focalSippSearch(q: FocalSippQuery): FocalSippOutcome {
+  const { grid, goal, forwardMs: F, quarterTurnMs: T, bans, heuristic } = q;
+  const safeOf = (cell: number): Windows => bans.safe.get(cell) ?? ALWAYS_SAFE;
+  let maxIntervals = 1;
+  for (const w of bans.safe.values()) maxIntervals = Math.max(maxIntervals, w.from.length);
+  const L = bans.goalNotBefore;
+  const overlaps = (cell: number, from: number, to: number): number => {
+    const list = q.occupancy.get(cell);
+    if (list === undefined) return 0;
+    let k = 0;
+    for (const v of list) if (v.agent !== q.agent && v.enter < to && from < v.leave) k++;
+    return k;
+  };
+
+  const cellA: number[] = [];
+  const headA: number[] = [];
+  const ivA: number[] = [];
+  const flagA: number[] = [];
+  const gA: number[] = [];
+  const fA: number[] = [];
+  const confA: number[] = [];
+  const parentA: number[] = [];
+  const moveStartA: number[] = [];
+  const kindA: ActionKind[] = [];
+  const closedA: number[] = [];
+  const best = new Map<number, number>();
+  const keyOf = (id: number): number => ((cellA[id] * HEADING_COUNT + headA[id]) * maxIntervals + ivA[id]) * 2 + flagA[id];
+  const isLive = (id: number): boolean => closedA[id] === 0 && best.get(keyOf(id)) === id;
+  const byF = (a: number, b: number): boolean => fA[a] < fA[b] || (fA[a] === fA[b] && (gA[a] > gA[b] || (gA[a] === gA[b] && a < b)));
+  const open = new SippHeap(byF);
+  const pending = new SippHeap(byF);
+  const focal = new SippHeap((a, b) => confA[a] < confA[b] || (confA[a] === confA[b] && byF(a, b)));
+  const liveTop = (heap: SippHeap): number | undefined => {
+    for (let id = heap.peek(); id !== undefined; id = heap.peek()) {
+      if (isLive(id)) return id;
+      heap.pop();
+    }
+    return undefined;
+  };
+
+  const add = (cell: number, head: number, iv: number, flag: number, g: number, parent: number, kind: ActionKind, moveStart: number, conf: number): void => {
+    const h = heuristic[cell * HEADING_COUNT + head];
+    if (h === Infinity) return;
+    const key = ((cell * HEADING_COUNT + head) * maxIntervals + iv) * 2 + flag;
+    const seen = best.get(key);
+    if (seen !== undefined && gA[seen] <= g) return;
+    const id = gA.length;
+    cellA.push(cell);
+    headA.push(head);
+    ivA.push(iv);
+    flagA.push(flag);
+    gA.push(g);
+    fA.push(g + h);
+    confA.push(conf + (cell === goal && flag === 1 ? overlaps(cell, g, Infinity) : 0));
+    parentA.push(parent);
+    kindA.push(kind);
+    moveStartA.push(moveStart);
+    closedA.push(0);
+    best.set(key, id);
+    open.push(id);
+    pending.push(id);
+  };
+
+  const startSafe = safeOf(q.start);
+  if (startSafe.from[0] === 0 && startSafe.to[0] > 0) {
+    const flag = q.start === goal && startSafe.to[0] === Infinity && L <= 0 ? 1 : 0;
+    for (const h of q.startHeadings) add(q.start, h, 0, flag, 0, NONE, 'wait', 0, 0);
+  }
+
+  let expansions = 0;
+  for (;;) {
+    if ((expansions & 255) === 255 && q.shouldStop?.()) return { plan: null, lowerBound: 0, expansions, isStopped: true };
+    const top = liveTop(open);
+    if (top === undefined) break;
+    const fMin = fA[top];
+    const bound = boundOf(fMin, q.w);
+    for (let p = liveTop(pending); p !== undefined && fA[p] <= bound; p = liveTop(pending)) {
+      focal.push(p);
+      pending.pop();
+    }
+    const id = liveTop(focal) ?? top;
+    closedA[id] = 1;
+    const cell = cellA[id];
+    const head = headA[id];
+    const iv = ivA[id];
+    const flag = flagA[id];
+    const g = gA[id];
+    const conf = confA[id];
+    const safe = safeOf(cell);
+    const hi = safe.to[iv];
+    if (cell === goal && hi === Infinity && flag === 1) return { plan: rebuild(id), lowerBound: fMin, expansions, isStopped: false };
+    expansions++;
+
+    if (g + T <= hi) {
+      const c = conf + overlaps(cell, g, g + T);
+      add(cell, turnedLeft(head), iv, flag, g + T, id, 'turn-left', g, c);
+      add(cell, turnedRight(head), iv, flag, g + T, id, 'turn-right', g, c);
+    }
+
+    const next = forwardCell(grid, cell, head);
+    if (next === NONE) continue;
+    const nextSafe = safeOf(next);
+    const moveWin = bans.moveWindows.get(cell * bans.cellCount + next);
+    for (let k = 0; k < nextSafe.from.length; k++) {
+      if (nextSafe.to[k] <= g) continue;
+      const start = earliestOutside(moveWin, Math.max(g, nextSafe.from[k]));
+      if (start + F > hi) break;
+      if (start + F > nextSafe.to[k]) continue;
+      const isFinalGoal = next === goal && nextSafe.to[k] === Infinity;
+      const c = conf + overlaps(cell, g, start + F) + overlaps(next, start, start + F);
+      if (!isFinalGoal || start >= L) {
+        add(next, head, k, isFinalGoal ? 1 : 0, start + F, id, 'forward', start, c);
+      } else {
+        add(next, head, k, 0, start + F, id, 'forward', start, c);
+        const late = earliestOutside(moveWin, L);
+        if (late + F <= hi) add(next, head, k, 1, late + F, id, 'forward', late, conf + overlaps(cell, g, late + F) + overlaps(next, late, late + F));
+      }
+    }
+  }
+  return { plan: null, lowerBound: 0, expansions, isStopped: false };
+
+  function rebuild(last: number): SippPlan {
+    const chain: number[] = [];
+    for (let n = last; parentA[n] !== NONE; n = parentA[n]) chain.push(n);
+    chain.reverse();
+    const steps: SippStep[] = [];
+    for (const n of chain) {
+      const p = parentA[n];
+      const s = moveStartA[n];
+      if (s > gA[p]) steps.push({ kind: 'wait', from: cellA[p], to: cellA[p], heading: headA[p], start: gA[p], end: s });
+      const end = kindA[n] === 'forward' ? s + F : s + T;
+      steps.push({ kind: kindA[n], from: cellA[p], to: cellA[n], heading: headA[n], start: s, end });
+    }
+    return { steps, cost: gA[last] };
+  }
+}
