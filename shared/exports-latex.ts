@@ -97,7 +97,9 @@ const comment = (text: string): string => `% ${foldControlCharacters(text)}`;
  *   collect a cell, \scalebox scales it): the columns then add up to just under \linewidth.
  * A tabular* or tabularx layout was not chosen: it spreads or wraps columns but cannot shrink a
  * row of numbers wider than the page, which is exactly the case of a fifteen-column board.
- * Very wide tables end up small; choosing fewer columns on the board gives a larger font.
+ * Very wide tables end up small; choosing fewer columns on the board gives a larger font. In a
+ * two-column paper the table float fits the column (\linewidth); longtable itself works in
+ * one-column mode only, so a long table goes in a one-column part (or export fewer rows).
  *
  * The caution of execution figures and the provenance are `%` comment lines, not caption text.
  * With mixed robot profiles the profile column shows only the parameters that differ.
