@@ -4,7 +4,7 @@ import { join } from 'node:path';
 import Ajv2020 from 'ajv/dist/2020';
 import { ACTION_KINDS, HEADINGS } from './plan';
 import {
-  formatTrialLogError, MAX_REPORTED_ERRORS, MAX_TRIAL_LOG_BYTES, MAX_TRIAL_LOG_ROWS, MAX_TRIAL_ROBOT, MAX_TRIAL_TIME_MS, parseTrialLog,
+  formatTrialLogCsv, formatTrialLogError, formatTrialLogJson, MAX_REPORTED_ERRORS, MAX_TRIAL_LOG_BYTES, MAX_TRIAL_LOG_ROWS, MAX_TRIAL_ROBOT, MAX_TRIAL_TIME_MS, parseTrialLog,
   parseTrialLogCsv, parseTrialLogJson, TRIAL_EVENTS, type TrialLogError, type TrialLogParse,
 } from './trial-log';
 
@@ -193,6 +193,20 @@ describe('parseTrialLogJson', () => {
     const errors = errorsOf(parseTrialLogJson('run.json', text));
 
     expect(errors).toEqual([expect.objectContaining({ line: 8, field: 'rows[2].start_ms' })]);
+  });
+});
+
+describe('formatTrialLogCsv and formatTrialLogJson', () => {
+  it('write text that parses back to the same rows, each row on its own line', () => {
+    const parsed = parseTrialLogCsv('run.csv', CSV);
+    if (parsed.kind !== 'parsed') throw new Error('the example should parse');
+    const rows = parsed.log.rows.map(({ line: _line, ...row }) => row);
+
+    const csv = parseTrialLogCsv('again.csv', formatTrialLogCsv(rows));
+    const json = parseTrialLogJson('again.json', formatTrialLogJson(rows));
+
+    expect(csv).toEqual({ kind: 'parsed', log: { file: 'again.csv', format: 'csv', rows: rows.map((r, i) => ({ ...r, line: i + 2 })) } });
+    expect(json).toEqual({ kind: 'parsed', log: { file: 'again.json', format: 'json', rows: rows.map((r, i) => ({ ...r, line: i + 5 })) } });
   });
 });
 

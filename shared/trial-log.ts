@@ -571,3 +571,14 @@ function decimal(n: number): string {
   const s = String(n);
   return /e/i.test(s) ? n.toFixed(20).replace(/\.?0+$/, '') : s;
 }
+
+/** A log as JSON text (the inverse of parseTrialLogJson), one row per line. */
+export function formatTrialLogJson(rows: readonly Omit<TrialRow, 'line'>[]): string {
+  const objects = rows.map((r) => JSON.stringify({
+    robot: r.robot, action: r.action, start_ms: r.startMs, end_ms: r.endMs,
+    ...(r.xMm !== undefined ? { x_mm: r.xMm, y_mm: r.yMm } : {}),
+    ...(r.heading !== undefined ? { heading: r.heading } : {}),
+    ...(r.event !== undefined ? { event: r.event } : {}),
+  }));
+  return `{\n  "format": "${TRIAL_LOG_FORMAT}",\n  "version": ${TRIAL_LOG_VERSION},\n  "rows": [\n${objects.map((o) => `    ${o}`).join(',\n')}\n  ]\n}\n`;
+}
