@@ -2,7 +2,7 @@
 import type { LeaderboardCharts } from '@shared/leaderboards';
 import { CHART_IDS, chartOption, legendRows, PLAN_CHARTS, plotTop } from './chart-options';
 import { PLAN_MODELS } from '@shared/plan';
-import { MODEL_COLOURS, MODEL_LINE_TYPES, MODEL_SYMBOLS } from './model-colours';
+import { MODEL_COLOURS, MODEL_LINE_TYPES, MODEL_SYMBOLS, MODEL_VARIANT_SYMBOLS } from './model-colours';
 
 const data: LeaderboardCharts = {
   profile: { hash: '0123456789abcdef', label: 'forward 1000 ms, quarter turn 600 ms', entries: 4 },
@@ -128,5 +128,17 @@ describe('chart options', () => {
     const bars = (chartOption('spread', wide) as { series: S[] }).series;
     expect(bars.filter((s) => s.itemStyle?.decal).length).toBe(PLAN_MODELS.length - 1);
     expect(new Set(bars.map((s) => JSON.stringify(s.itemStyle?.decal ?? null))).size).toBe(PLAN_MODELS.length);
+  });
+
+  it('draws a second variant of a model with the hollow marker, so "classic" and "classic (following forbidden)" differ', () => {
+    const two: LeaderboardCharts = { ...data, successByAgents: [
+      { model: 'classic', variant: '', points: [[2, 1]] }, { model: 'classic', variant: 'following forbidden', points: [[2, 1]] },
+      { model: 'k-robust', variant: 'k=1', points: [[2, 1]] }, { model: 'k-robust', variant: 'k=2', points: [[2, 1]] },
+    ] };
+    const series = (chartOption('success', two) as { series: { name: string; symbol: string }[] }).series;
+    expect(series.map((s) => [s.name, s.symbol])).toEqual([
+      ['classic', 'circle'], ['classic (following forbidden)', 'emptyCircle'],
+      ['k-robust (k=1)', MODEL_SYMBOLS['k-robust']], ['k-robust (k=2)', MODEL_VARIANT_SYMBOLS['k-robust']],
+    ]);
   });
 });

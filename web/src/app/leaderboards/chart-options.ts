@@ -4,7 +4,7 @@
  * series are named by plan model (with the variant, e.g. k = 1). Pure functions.
  */
 import { MEAN_SUCCESS_METHOD, type ChartSeries, type LeaderboardCharts } from '@shared/leaderboards';
-import { MODEL_COLOURS, MODEL_DECALS, MODEL_LINE_TYPES, MODEL_SYMBOLS } from './model-colours';
+import { MODEL_COLOURS, MODEL_DECALS, MODEL_LINE_TYPES, MODEL_SYMBOLS, MODEL_VARIANT_SYMBOLS } from './model-colours';
 
 /** Names of the charts (also their ids in the page). */
 export const CHART_IDS = ['success', 'execution', 'cactus', 'realised', 'spread'] as const;
@@ -77,17 +77,23 @@ function frame(widthPx: number, title: string, data: LeaderboardCharts, xName: s
 }
 
 /**
- * One series per plan model: its colour plus its own marker, dash (lines) and pattern (bars), so
- * the series stay apart in greyscale and for colour-vision deficiencies (issue 18, item 6).
+ * One series per plan model and variant: the model's colour plus its own marker, dash (lines) and
+ * pattern (bars), so the series stay apart in greyscale and for colour-vision deficiencies (issue
+ * 18, item 6). A model's second and later variants in a chart get the hollow marker, a thinner
+ * line and paler bars; the legend names each.
  */
 function lines(series: readonly ChartSeries[], kind: 'line' | 'scatter' | 'bar', step?: 'end'): ChartOption[] {
+  const seen = new Set<string>();
   return series.map((s) => {
+    const isLaterVariant = seen.has(s.model);
+    seen.add(s.model);
+    const symbol = isLaterVariant ? MODEL_VARIANT_SYMBOLS[s.model] : MODEL_SYMBOLS[s.model];
     const decal = MODEL_DECALS[s.model];
     return {
       name: seriesName(s), type: kind, data: s.points, color: MODEL_COLOURS[s.model],
-      ...(kind === 'line' ? { showSymbol: true, symbol: MODEL_SYMBOLS[s.model], symbolSize: 7, lineStyle: { width: 2, type: MODEL_LINE_TYPES[s.model] }, ...(step ? { step } : {}) } : {}),
-      ...(kind === 'scatter' ? { symbol: MODEL_SYMBOLS[s.model], symbolSize: 8 } : {}),
-      ...(kind === 'bar' ? { barGap: '0%', ...(decal ? { itemStyle: { decal } } : {}) } : {}),
+      ...(kind === 'line' ? { showSymbol: true, symbol, symbolSize: 7, lineStyle: { width: isLaterVariant ? 1.25 : 2, type: MODEL_LINE_TYPES[s.model] }, ...(step ? { step } : {}) } : {}),
+      ...(kind === 'scatter' ? { symbol, symbolSize: 8 } : {}),
+      ...(kind === 'bar' ? { barGap: '0%', itemStyle: { ...(decal ? { decal } : {}), ...(isLaterVariant ? { opacity: 0.55, borderColor: MODEL_COLOURS[s.model], borderWidth: 1 } : {}) } } : {}),
     };
   });
 }

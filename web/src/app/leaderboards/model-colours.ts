@@ -32,6 +32,18 @@ export const MODEL_SYMBOLS: Readonly<Record<PlanModel, string>> = {
   'k-robust': PLUS,
 };
 
+/**
+ * Marker of a second (or later) variant of a model in one chart, e.g. "following forbidden" or
+ * k = 2 beside k = 1: the same shape hollow (the plus turns into a cross).
+ */
+export const MODEL_VARIANT_SYMBOLS: Readonly<Record<PlanModel, string>> = {
+  'classic': 'emptyCircle',
+  'uniform-duration': 'emptyRect',
+  'orientation-split': 'emptyTriangle',
+  'weighted-split': 'emptyDiamond',
+  'k-robust': 'path://M1,0L4,3L7,0L8,1L5,4L8,7L7,8L4,5L1,8L0,7L3,4L0,1Z',
+};
+
 /** Line dash of each plan model: ECharts' lineStyle.type, 'solid' or dash and gap lengths in px. */
 export const MODEL_LINE_TYPES: Readonly<Record<PlanModel, 'solid' | readonly number[]>> = {
   'classic': 'solid',
