@@ -11,6 +11,13 @@ export const routes: Routes = [
   { path: 'reports', loadChildren: () => import('./reports/reports.routes') },
   { path: 'plans', loadChildren: () => import('./plan-viewer/plan-viewer.routes') },
   { path: 'help', title: 'Help · Quarterturn', loadComponent: () => import('./help/help-page') },
+  { path: 'help/api', title: 'API reference · Quarterturn', loadComponent: () => import('./help/api-reference') },
+  {
+    path: 'account/tokens',
+    title: 'API tokens · Quarterturn',
+    canActivate: [roleGuard('researcher', 'API tokens')],
+    loadComponent: () => import('./account/api-tokens-page'),
+  },
   {
     path: 'admin',
     canActivate: [roleGuard('admin', 'Admin')],

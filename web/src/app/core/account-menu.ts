@@ -4,7 +4,7 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatDividerModule } from '@angular/material/divider';
 import { MatMenuModule } from '@angular/material/menu';
 import { MatSlideToggleModule, type MatSlideToggleChange } from '@angular/material/slide-toggle';
-import { Router } from '@angular/router';
+import { Router, RouterLink } from '@angular/router';
 import type { Account, Role } from '@shared/auth';
 import { hasRole } from '@shared/auth-contract';
 import { Session } from './session';
@@ -14,7 +14,7 @@ import { Session } from './session';
   selector: 'app-account-menu',
   templateUrl: './account-menu.html',
   styleUrl: './account-menu.scss',
-  imports: [MatButtonModule, MatMenuModule, MatSlideToggleModule, MatDividerModule],
+  imports: [MatButtonModule, MatMenuModule, MatSlideToggleModule, MatDividerModule, RouterLink],
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class AccountMenu {

@@ -4,7 +4,7 @@
  */
 import { ChangeDetectionStrategy, Component, ElementRef, ViewEncapsulation, computed, inject, viewChild } from '@angular/core';
 import { toSignal } from '@angular/core/rxjs-interop';
-import { Router } from '@angular/router';
+import { Router, RouterLink } from '@angular/router';
 import { catchError, map, of } from 'rxjs';
 import { schemaUrl } from '@shared/help';
 import { GuideApi } from './guide-api';
@@ -21,6 +21,7 @@ const SCHEMA_LINKS = [
   selector: 'app-help-page',
   templateUrl: './help-page.html',
   styleUrl: './help-page.scss',
+  imports: [RouterLink],
   // The guide's elements come from [innerHTML], which emulated encapsulation cannot reach; every rule is scoped to app-help-page.
   encapsulation: ViewEncapsulation.None,
   changeDetection: ChangeDetectionStrategy.OnPush,
