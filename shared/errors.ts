@@ -21,6 +21,10 @@ export const ERROR_CODES = [
   'TOO_MANY_UPLOADS',
   /** 413: storing the files would take the set owner past a storage quota (details: QuotaExceededDetails). */
   'QUOTA_EXCEEDED',
+  /** 400: a field trial log (or a file of the upload) is not a valid trial log; details: { errors } with file, line, column. */
+  'INVALID_TRIAL_LOG',
+  /** 422: a field trial log departs from its result's plan; details: { errors: [the first divergent row] }. */
+  'TRIAL_DIVERGES',
   'SWEEP_NOT_FOUND',
   'SWEEP_TOO_LARGE',
   /** The server's interactive worker pool (api/src/workers/interactive-pool.ts): 503, try again later. */

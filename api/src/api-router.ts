@@ -15,6 +15,7 @@ import { sweepsFeature } from './sweeps/sweeps-feature';
 import { adminUsersRouter } from './users/admin-users.router';
 import { meRouter } from './users/me.router';
 import { openApiRouter } from './openapi/openapi.router';
+import { trialsFeature } from './trials/trials.feature';
 
 /** The /api routes other than /api/auth (which needs passport and the rate limit; see app.ts). */
 export function apiRouter(ctx: AppContext): Router {
@@ -32,5 +33,6 @@ export function apiRouter(ctx: AppContext): Router {
   r.use('/executions', executionsFeature(ctx));
   r.use(leaderboardsFeature(ctx));
   r.use('/reports', reportsFeature(ctx));
+  r.use('/trials', trialsFeature(ctx));
   return r;
 }

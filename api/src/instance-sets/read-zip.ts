@@ -22,8 +22,13 @@ const decodeName = (yauzl as unknown as {
   getFileNameLowLevel(flag: number, raw: Buffer, extra: unknown, strict: boolean): string;
 }).getFileNameLowLevel;
 
-/** Reads the archive `archiveName`; bytes of kept entries are charged to `budget`. */
-export function readZip(archiveName: string, buffer: Buffer, budget: ByteBudget): Promise<ZipContents> {
+/**
+ * Reads the archive `archiveName`; bytes of kept entries are charged to `budget`. `keep` picks the
+ * entries by file name (default: maps and scenarios; field trial uploads keep .csv and .json).
+ */
+export function readZip(
+  archiveName: string, buffer: Buffer, budget: ByteBudget, keep: (name: string) => boolean = (name) => Boolean(entryKind(name)),
+): Promise<ZipContents> {
   const entries: UploadEntry[] = [];
   const skipped: string[] = [];
   const problems: UploadProblem[] = [];
@@ -76,7 +81,7 @@ export function readZip(archiveName: string, buffer: Buffer, budget: ByteBudget)
           zip.readEntry();
           return;
         }
-        if (!entryKind(name)) {
+        if (!keep(name)) {
           skipped.push(path);
           zip.readEntry();
           return;

@@ -13,6 +13,7 @@ import { CreateApiTokenRequest } from '@shared/api-tokens';
 import { PLAN_DOWNLOAD_FORMATS } from '@shared/result-plan-view';
 import { InstanceExecutionRequestSchema, ResultExecutionRequestSchema } from '@shared/executions';
 import { EXPORT_FORMATS } from '@shared/exports-table';
+import { TrialUploadFields } from '@shared/field-trials';
 import { PUBLISHED_SCHEMAS } from '@shared/help';
 import { CreateInstanceSetRequest, GenerateInstancesRequest, InstanceSetListQuery, UpdateInstanceSetRequest } from '@shared/instance-sets';
 import { BEST_AMONG, LEADERBOARD_POLICIES } from '@shared/leaderboards';
@@ -207,6 +208,18 @@ export const API_ROUTES: readonly ApiRoute[] = [
     method: 'get', path: `/api/executions/results/{resultId}/plan.${format}`, tag: 'executions', summary: `A stored result's plan as a ${format === 'json' ? 'JSON plan document' : 'text plan'} file`, role: 'visitor', params: resultId,
     response: { status: 200, description: 'The plan file', body: file(format === 'json' ? 'application/json' : 'text/plain', 'See /api/schemas/plan-format.schema.json') },
   })),
+
+  // Field trials
+  { method: 'get', path: '/api/trials/results/{resultId}', tag: 'field trials', summary: "A result's field trial runs beside the simulation they are compared with", role: 'visitor', params: resultId, response: { status: 200, description: 'Trials', ...json('FieldTrialsView', 'shared/field-trials.ts') } },
+  {
+    method: 'post', path: '/api/trials/results/{resultId}', tag: 'field trials', summary: 'Attach field trial logs (CSV, JSON or a zip of them) to a result', role: 'researcher', params: resultId,
+    body: {
+      schema: z.object({ files: z.array(z.string().meta({ format: 'binary' })), policy: TrialUploadFields.shape.policy, notes: z.string().optional().meta({ description: 'Free text: floor, robot type, date.' }) }),
+      contentType: 'multipart/form-data',
+    },
+    response: { status: 201, description: 'The stored upload', ...json('FieldTrialsView', 'shared/field-trials.ts') },
+  },
+  { method: 'delete', path: '/api/trials/uploads/{id}', tag: 'field trials', summary: 'Delete an upload of field trial runs', role: 'researcher', params: id, response: { status: 204, description: 'Deleted' } },
 
   // Boards, exports, submissions, reports
   { method: 'get', path: '/api/leaderboards/rows', tag: 'leaderboards', summary: 'A window of rows of a board view', role: 'visitor', query: BoardViewQuery, queryExample: { cols: 'model,socSteps,runtimeMs', sort: '-socSteps', start: 0, end: 50, 'source.in': 'submitted' }, response: { status: 200, description: 'Rows', ...json('LeaderboardPage', 'shared/leaderboards.ts') } },

@@ -20,6 +20,7 @@ import { FairGate } from './fair-gate';
 import { readSolverBuild } from './machine-info';
 import { PlanPool, type PoolOutcome, type PoolRunOptions } from './plan-pool';
 import type { MapRequest, ThreadJob, ThreadResults } from './thread-job';
+import type { CheckTrialsJob, CheckTrialsOutcome } from '../trials/check-trials';
 
 /** Error codes of the interactive pool (HTTP 503: the request may be retried later). */
 export const INTERACTIVE_ERROR_CODES = {
@@ -143,6 +144,11 @@ export class InteractivePool {
     } finally {
       port1.close();
     }
+  }
+
+  /** Parses field trial logs (and zips of them), checks each against its plan and simulates the plan for comparison, in a thread. */
+  checkTrials(job: CheckTrialsJob, requester: string, signal?: AbortSignal): Promise<CheckTrialsOutcome> {
+    return this.run({ kind: 'check-trials', job }, 'the trial check', requester, signal);
   }
 
   /** Terminates the threads; later jobs fail. */

@@ -15,6 +15,7 @@ import {
   preparedBytes, prepareUpload, transferListOf, type ExistingMapRows, type PrepareUploadJob,
 } from '../instance-sets/prepare-upload';
 import { checkPlan } from '../submissions/check-plan';
+import { checkTrials } from '../trials/check-trials';
 import type { MapRequest, ThreadAnswer, ThreadEnvelope } from './thread-job';
 
 /** Runs the envelope's job (the pool terminates the thread on the hard time limit or a cancel). */
@@ -29,6 +30,7 @@ export default function planThread(envelope: ThreadEnvelope): ThreadAnswer | Pro
       case 'generate': return { ok: true, value: generateEntries(job.request).map((e) => ({ name: e.name, bytes: e.bytes })) };
       case 'check-plan': return { ok: true, value: checkPlan(job.instance, job.submission) };
       case 'prepare-upload': return prepareInThread(job.upload, job.maps);
+      case 'check-trials': return checkTrials(job.job).then((value) => ({ ok: true, value }));
       case 'ping': return { ok: true, value: 'pong' };
     }
   } catch (err) {

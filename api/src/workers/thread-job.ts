@@ -13,6 +13,7 @@ import type { PreparedUpload, PrepareUploadJob } from '../instance-sets/prepare-
 import type { MapfInstance } from '@solvers/instance';
 import type { PlanVerdict } from '../submissions/check-plan';
 import type { ReadSubmission } from '../submissions/read-plan-file';
+import type { CheckTrialsJob, CheckTrialsOutcome } from '../trials/check-trials';
 
 /** One job for a pool thread. */
 export type ThreadJob =
@@ -22,6 +23,7 @@ export type ThreadJob =
   | { readonly kind: 'check-plan'; readonly instance: MapfInstance; readonly submission: ReadSubmission }
   /** `maps` answers the thread's requests for stored maps of the set (see MapRequest). */
   | { readonly kind: 'prepare-upload'; readonly upload: PrepareUploadJob; readonly maps: MessagePort }
+  | { readonly kind: 'check-trials'; readonly job: CheckTrialsJob }
   | { readonly kind: 'ping' };
 
 /** A generated file as it comes back from a thread (a Buffer arrives as a plain Uint8Array). */
@@ -37,6 +39,7 @@ export interface ThreadResults {
   readonly generate: readonly GeneratedFile[];
   readonly 'check-plan': PlanVerdict;
   readonly 'prepare-upload': PreparedUpload;
+  readonly 'check-trials': CheckTrialsOutcome;
   readonly ping: 'pong';
 }
 
