@@ -8,6 +8,7 @@ import { join } from 'node:path';
 import type { Locator, Page } from 'playwright-core';
 import { buildZip, datasetBytes } from '../integration/instance-library-support';
 import { launchBrowser, type E2eBrowser } from './support/browser';
+import { isFocused, tabUntil } from './support/keyboard';
 import { bootServer, type E2eServer } from './support/server';
 import { demoIdentity, signInThroughUi } from './support/sign-in';
 import { OPEN_GRID_BENCHMARKS_DIR } from '../../benchmarks/datasets/open-grid-benchmarks';
@@ -83,6 +84,17 @@ describe('uploading and viewing instance files in the browser', () => {
     await page.getByRole('link', { name: 'maze-32-32-2.map' }).first().waitFor();
   });
 
+  it('uploads by keyboard alone: Tab to the drop zone, Space opens the file chooser (issue 18)', async () => {
+    await page.reload();
+    await page.getByRole('heading', { name: /Browser upload check/ }).waitFor();
+    await tabUntil(page, 'input[type=file]', 60);
+    const [chooser] = await Promise.all([page.waitForEvent('filechooser'), page.keyboard.press('Space')]);
+    expect(chooser.isMultiple()).toBe(true);
+    await chooser.setFiles(['empty-16-16.map', 'empty-16-16-even-1.scen'].map((f) => join(DATASET, f)));
+    await status().filter({ hasText: 'Stored 1 map and 1 scenario.' }).waitFor();
+    await page.getByRole('link', { name: 'empty-16-16.map' }).first().waitFor();
+  });
+
   it('refuses a broken map and shows its line and column', async () => {
     const lines = datasetBytes('empty-16-16.map').toString('utf8').split('\n');
     lines[6] = `${lines[6].slice(0, 4)}x${lines[6].slice(5)}`;
@@ -101,7 +113,7 @@ describe('uploading and viewing instance files in the browser', () => {
     const canvas = page.getByRole('img', { name: /Map of 32 by 32 cells/ });
     await canvas.waitFor();
     const readout = page.getByTestId('hover-readout');
-    expect(await readout.innerText()).toBe('Point at the map to read a cell.');
+    expect(await readout.innerText()).toBe('Point at the map, or press Shift and an arrow key on it, to read a cell.');
 
     // The canvas holds both terrain colours once drawn (the room map has walls and floor).
     await page.waitForFunction(() => {
@@ -125,6 +137,20 @@ describe('uploading and viewing instance files in the browser', () => {
     // Down and to the right on screen is larger x and y on the map.
     expect(xy(moved)[0]).toBeGreaterThan(xy(centre)[0]);
     expect(xy(moved)[1]).toBeGreaterThan(xy(centre)[1]);
+
+    // Without a pointer (issue 18, item 7): the pointer leaves, the canvas gets focus by Tab, and
+    // Shift + arrow keys move a cursor cell that the read-out follows.
+    await page.mouse.move(box.x - 40, box.y - 40);
+    await page.waitForFunction(() => document.querySelector('[data-testid=hover-readout]')?.textContent?.trim().startsWith('Point at the map') ?? false);
+    await tabUntil(page, 'app-map-canvas canvas', 30);
+    await page.keyboard.press('Shift+ArrowRight');
+    await page.waitForFunction(() => /^x \d+, y \d+ · (free|blocked)/.test(document.querySelector('[data-testid=hover-readout]')?.textContent?.trim() ?? ''));
+    const placed = xy(await readout.innerText());
+    await page.keyboard.press('Shift+ArrowRight');
+    await page.keyboard.press('Shift+ArrowDown');
+    await page.keyboard.press('Shift+ArrowDown');
+    await page.waitForFunction((want) => document.querySelector('[data-testid=hover-readout]')?.textContent?.startsWith(want) ?? false, `x ${placed[0] + 1}, y ${placed[1] + 2}`);
+    expect(await isFocused(page, 'app-map-canvas canvas')).toBe(true);
   });
 
   it('overlays the starts and goals of the first k rows of a scenario', async () => {

@@ -16,6 +16,7 @@ import { DEFAULT_ENTRY_COLUMNS } from '@shared/leaderboards';
 import { signInAs, type SignedInClient } from '../../api/src/dev/sign-in-as';
 import { TINY_MAP, TINY_SCEN } from '../integration/leaderboard-support';
 import { launchBrowser, type E2eBrowser } from './support/browser';
+import { focusAgainst, focusedDescription, isFocused, tabUntil } from './support/keyboard';
 import { watchNetwork, type NetworkWatch } from './support/network-watch';
 import { bootServer, type E2eServer } from './support/server';
 import { demoIdentity, signInThroughUi } from './support/sign-in';
@@ -178,6 +179,61 @@ describe('leaderboard in the browser', () => {
     const svgText = await readFile(await svg.path(), 'utf8');
     expect(svgText.startsWith('<svg')).toBe(true);
     expect(svgText).toContain('Robot profile');
+  });
+
+  describe('by keyboard alone (issue 18)', () => {
+    const inGrid = '.ag-root-wrapper, .ag-root-wrapper *';
+
+    it('leaves the grid with one Tab either way, and its skip link leads past it to the charts', async () => {
+      await page.goto(`${server.url}/leaderboards`);
+      await page.locator('.ag-row').first().waitFor();
+      await tabUntil(page, inGrid, 60);
+      // Into the rows with the arrow keys (the grid's own navigation).
+      await page.keyboard.press('ArrowDown');
+      expect(await isFocused(page, '.ag-cell')).toBe(true);
+      await page.keyboard.press('ArrowRight');
+      expect(await isFocused(page, '.ag-cell')).toBe(true);
+
+      await page.keyboard.press('Tab');
+      expect({ focus: await focusedDescription(page), against: await focusAgainst(page, 'ag-grid-angular') }).toMatchObject({ against: 'after' });
+      // Back in with Shift+Tab (to the cell last focused), and out before the grid with one more.
+      await page.keyboard.press('Shift+Tab');
+      expect(await focusAgainst(page, 'ag-grid-angular')).toBe('inside');
+      await page.keyboard.press('Shift+Tab');
+      expect(await focusAgainst(page, 'ag-grid-angular')).toBe('before');
+
+      // Just before the grid: its skip link, visible while it holds focus.
+      expect(await isFocused(page, 'a.qt-skip-link[href="#after-board-grid"]')).toBe(true);
+      const box = await page.locator('a[href="#after-board-grid"]').boundingBox();
+      expect(box?.width).toBeGreaterThan(20);
+      await page.keyboard.press('Enter');
+      expect(await isFocused(page, '#after-board-grid')).toBe(true);
+      // The summary and the charts' download buttons are a few Tabs away.
+      const presses = await tabUntil(page, 'figure[data-chart] button', 40);
+      expect(presses).toBeLessThan(40);
+    });
+
+    it('follows the Replay link of the focused cell on Enter', async () => {
+      await page.goto(`${server.url}/leaderboards`);
+      await page.locator('.ag-row').first().waitFor();
+      await tabUntil(page, inGrid, 60);
+      await page.keyboard.press('ArrowDown');
+      // To the start of the row: the pinned Replay column.
+      await page.keyboard.press('Control+ArrowLeft');
+      expect({ focus: await focusedDescription(page), isReplay: await isFocused(page, '.ag-cell[col-id=__replay]') }).toMatchObject({ isReplay: true });
+      await page.keyboard.press('Enter');
+      await page.waitForURL(/\/plans\/view\?result=\d+$/);
+      await page.locator('article.pane').first().waitFor({ timeout: 30_000 });
+    });
+
+    it('downloads an export from its link', async () => {
+      await page.goto(`${server.url}/leaderboards`);
+      await page.locator('.ag-row').first().waitFor();
+      await tabUntil(page, 'a[data-export=csv]', 60);
+      const [csv] = await Promise.all([page.waitForEvent('download'), page.keyboard.press('Enter')]);
+      expect(csv.suggestedFilename()).toBe('quarterturn-leaderboard.csv');
+      expect((await readFile(await csv.path(), 'utf8')).length).toBeGreaterThan(20);
+    });
   });
 
   it('never called a host other than loopback and raised no page errors', () => {

@@ -10,6 +10,7 @@ import type { UploadResponse } from '@shared/instance-sets';
 import { RELAY_MAP, RELAY_MAP_NAME, RELAY_SCENARIO, RELAY_SCENARIO_NAME } from '../integration/execution-fixtures';
 import { createSet, json, signInAs, upload } from '../integration/instance-library-support';
 import { launchBrowser, type E2eBrowser } from './support/browser';
+import { isFocused, tabUntil } from './support/keyboard';
 import { bootServer, type E2eServer } from './support/server';
 import { settledText } from './support/settled-text';
 import { demoIdentity, signInThroughUi } from './support/sign-in';
@@ -84,6 +85,20 @@ describe('the plan viewer in the browser', () => {
       return n;
     });
     expect(robotPixels).toBeGreaterThan(50);
+  });
+
+  it('plays and pauses by keyboard alone: Space on Play, Enter on Pause (issue 18)', async () => {
+    await page.reload();
+    await page.locator('article.pane[data-model="classic"]').waitFor();
+    await tabUntil(page, 'section.transport button', 60);
+    expect(await page.locator('section.transport button').innerText()).toBe('Play');
+    await page.keyboard.press('Space');
+    await page.waitForTimeout(800);
+    expect(await page.locator('section.transport button').innerText()).toBe('Pause');
+    expect(await isFocused(page, 'section.transport button')).toBe(true);
+    await page.keyboard.press('Enter');
+    expect(await settledText(page.locator('section.transport button'), 'Play')).toBe('Play');
+    expect(Number((await page.locator('[data-testid="time"]').innerText()).split(' ')[0])).toBeGreaterThan(0.2);
   });
 
   it('with jitter, open-loop collides; dependency-gated on the same plan and noise does not', async () => {

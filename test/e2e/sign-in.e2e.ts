@@ -7,6 +7,7 @@ import type { Page } from 'playwright-core';
 import { launchBrowser, type E2eBrowser } from './support/browser';
 import { watchNetwork, type NetworkWatch } from './support/network-watch';
 import { bootServer, type E2eServer } from './support/server';
+import { focusRing, isFocused, tabUntil } from './support/keyboard';
 import { settledText } from './support/settled-text';
 import { accountMenuButton, demoIdentity, signInThroughUi, signOutThroughUi } from './support/sign-in';
 
@@ -84,6 +85,8 @@ describe('sign-in and roles in the browser', () => {
     await roleSelect(researcher.login).click();
     const saved = page.waitForResponse((r) => r.request().method() === 'PATCH' && r.url().includes('/api/admin/users/'));
     await page.getByRole('option', { name: 'maintainer' }).click();
+    // The pick is only pending (issue 18, item 1) until its Save button.
+    await page.getByRole('button', { name: `Save role of ${researcher.login}` }).click();
     // The admin page asks first (a Material confirmation dialog); nothing is sent until the admin acts.
     const question = page.getByRole('dialog');
     await question.waitFor();
@@ -103,6 +106,58 @@ describe('sign-in and roles in the browser', () => {
     await signInThroughUi(page, server.url, researcher);
 
     expect(await accountMenuButton(page, researcher).innerText()).toMatch(/maintainer/i);
+  });
+
+  it('changes a role by keyboard only: an arrow key on the closed picker saves nothing; Save, the confirmation and a polite "saved" do (issue 18, item 1)', async () => {
+    await signOutThroughUi(page, researcher);
+    await signInThroughUi(page, server.url, admin);
+    await page.goto(`${server.url}/admin`);
+    await expectRole(researcher.login, 'maintainer');
+    const patches: string[] = [];
+    page.on('request', (r) => { if (r.method() === 'PATCH') patches.push(r.url()); });
+
+    await tabUntil(page, `[aria-label="Role of ${researcher.login}"]`);
+    await page.keyboard.press('ArrowUp');
+    // One stray key: the picker shows the pending choice, and nothing is asked or sent.
+    expect(await settledText(roleSelect(researcher.login), 'researcher')).toBe('researcher');
+    await page.waitForTimeout(500);
+    expect(await page.getByRole('dialog').count()).toBe(0);
+    expect(patches).toEqual([]);
+    expect(await page.getByText(`unsaved: maintainer → researcher`).isVisible()).toBe(true);
+
+    await page.keyboard.press('Tab');
+    expect(await isFocused(page, `[aria-label="Save role of ${researcher.login}"]`)).toBe(true);
+    await page.keyboard.press('Enter');
+    const question = page.getByRole('dialog');
+    await question.waitFor();
+    expect(await question.getByRole('heading').innerText()).toBe(`Make ${researcher.name} (${researcher.login}) a researcher?`);
+    const saved = page.waitForResponse((r) => r.request().method() === 'PATCH' && r.url().includes('/api/admin/users/'));
+    await tabUntil(page, '[data-testid=confirm-act]', 5);
+    await page.keyboard.press('Enter');
+    expect((await saved).status()).toBe(200);
+    // Announced in the snack bar's polite live region.
+    const announced = page.locator('[aria-live="polite"]').filter({ hasText: `Saved: ${researcher.name} (${researcher.login}) is now a researcher.` });
+    await announced.waitFor();
+    await page.reload();
+    await expectRole(researcher.login, 'researcher');
+  });
+
+  it('shows a strong focus ring on the top-bar links, the role picker and buttons (issue 18, item 4)', async () => {
+    await page.goto(`${server.url}/admin`);
+    await expectRole(researcher.login, 'researcher');
+    const rings = [];
+    await tabUntil(page, 'nav[aria-label=Areas] a[href="/admin"]');
+    rings.push(await focusRing(page));
+    await tabUntil(page, `[aria-label="Role of ${researcher.login}"]`);
+    rings.push(await focusRing(page));
+    await tabUntil(page, `[aria-label="Storage quota of ${researcher.login}"]`);
+    rings.push(await focusRing(page));
+    expect(rings).toHaveLength(3);
+    // WCAG 2.4.7 (visible) and 1.4.11 (at least 3:1 against adjacent colours); 2 px or more so it is no hairline.
+    for (const ring of rings) {
+      expect({ element: ring.element, style: ring.style, isWide: ring.widthPx >= 2, isContrasting: ring.contrast >= 3 })
+        .toEqual({ element: ring.element, style: 'solid', isWide: true, isContrasting: true });
+    }
   });
 
   it('made no request to any host but 127.0.0.1 and raised no script error', () => {

@@ -6,7 +6,8 @@ import type { HarnessLoader } from '@angular/cdk/testing';
 import { MatButtonHarness } from '@angular/material/button/testing';
 import { MatMenuHarness } from '@angular/material/menu/testing';
 import { MatSlideToggleHarness } from '@angular/material/slide-toggle/testing';
-import { provideRouter } from '@angular/router';
+import { Component } from '@angular/core';
+import { provideRouter, Router } from '@angular/router';
 import type { Account, MeResponse } from '@shared/auth';
 import { DatabaseStatus } from './database-status';
 import Shell from './shell';
@@ -146,5 +147,49 @@ describe('Shell', () => {
     await fixture.whenStable();
     expect(fixture.nativeElement.querySelector('[role="alert"]')).toBeNull();
     expect(await (await loader.getHarness(MatMenuHarness)).getTriggerText()).toBe('Ada Gridley researcher');
+  });
+
+  describe('keyboard', () => {
+    @Component({ template: '<h1>A page</h1><button type="button">On the page</button>' })
+    class Page {}
+
+    beforeEach(async () => {
+      TestBed.configureTestingModule({
+        imports: [Shell],
+        providers: [provideRouter([{ path: 'one', component: Page }, { path: 'two', component: Page }]), provideHttpClient(), provideHttpClientTesting()],
+      });
+      backend = TestBed.inject(HttpTestingController);
+      fixture = TestBed.createComponent(Shell);
+      // Focus needs the elements in the document.
+      document.body.appendChild(fixture.nativeElement);
+      backend.expectOne('/api/me').flush({ account: null, role: 'visitor' });
+      await fixture.whenStable();
+    });
+    afterEach(() => (fixture.nativeElement as HTMLElement).remove());
+
+    it('starts with a skip link that moves focus to the main content', () => {
+      const first = (fixture.nativeElement as HTMLElement).querySelector('a');
+      expect(first?.textContent?.trim()).toBe('Skip to main content');
+      first?.click();
+      expect(document.activeElement?.id).toBe('main-content');
+      expect(document.activeElement?.tagName).toBe('MAIN');
+    });
+
+    it('moves focus to the main content when the path changes, and leaves it when only the query does', async () => {
+      const router = TestBed.inject(Router);
+      await router.navigateByUrl('/one');
+      await fixture.whenStable();
+      const button = (fixture.nativeElement as HTMLElement).querySelector<HTMLButtonElement>('main button')!;
+      button.focus();
+
+      await router.navigateByUrl('/one?layout=compare');
+      await fixture.whenStable();
+      expect(document.activeElement).toBe(button);
+
+      // The old page's button goes with it: focus would drop to the body.
+      await router.navigateByUrl('/two');
+      await fixture.whenStable();
+      expect(document.activeElement?.id).toBe('main-content');
+    });
   });
 });

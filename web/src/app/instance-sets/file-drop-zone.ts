@@ -31,7 +31,7 @@ import { ChangeDetectionStrategy, Component, input, output, signal } from '@angu
       border: 2px dashed var(--mat-sys-outline); border-radius: var(--mat-sys-corner-medium); background: var(--mat-sys-surface-container-low); }
     .zone.is-over { border-color: var(--mat-sys-primary); background: var(--mat-sys-primary-container); }
     .zone.is-disabled { opacity: 0.6; cursor: progress; }
-    .zone:focus-within { outline: 2px solid var(--mat-sys-primary); outline-offset: 2px; }
+    .zone:focus-within { outline: 3px solid var(--qt-focus-ring, var(--mat-sys-primary)); outline-offset: 2px; }
     input { position: absolute; width: 1px; height: 1px; opacity: 0; }
     .lead { font: var(--mat-sys-title-small); }
     .sub { font: var(--mat-sys-body-small); color: var(--mat-sys-on-surface-variant); }

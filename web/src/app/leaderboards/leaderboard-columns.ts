@@ -1,5 +1,6 @@
 /** Grid column definitions of a board view: ids equal the API's column ids, filters limited to what the API takes. */
 import type { ColDef, ValueFormatterParams } from 'ag-grid-community';
+import { cellLink } from '../core/grid-keyboard';
 import { CI95_METHOD } from '@shared/confidence-interval';
 import { INTERVAL_NOT_STORED } from '@shared/exports-table';
 import { INTERVAL_NOT_STORED_REASON, type LeaderboardColumn } from '@shared/leaderboards';
@@ -146,11 +147,8 @@ export function replayColumn(): ColDef<GridRow> {
     cellRenderer: (p: { data?: GridRow }) => {
       const id = p.data?.__resultId;
       if (id === undefined) return '';
-      const a = document.createElement('a');
-      a.href = `/plans/view?result=${id}`;
-      a.textContent = 'Replay';
-      a.setAttribute('aria-label', `Replay result ${id}`);
-      return a;
+      // Enter on the focused cell follows it (core/grid-keyboard.ts).
+      return cellLink(`/plans/view?result=${id}`, 'Replay', `Replay result ${id}`);
     },
   };
 }

@@ -23,6 +23,8 @@ import { profileLabel } from '@shared/leaderboards';
 import { isSweepOver, RUN_STATUSES, type SweepDetail, type SweepProgress, type SweepResultRow } from '@shared/runs';
 import { CBS_SWITCH_NAMES, CBS_SWITCH_TEXT, switchesOff } from '@shared/sweeps';
 import { askToConfirm } from '../core/confirm-dialog';
+import { followCellLinkOnEnter, leaveGridOnTab } from '../core/grid-keyboard';
+import { SkipLink } from '../core/skip-link';
 import { SweepApi } from './sweep-api';
 import { followingWarningFor } from './sweep-editor-advice';
 import { SWEEP_GRID_THEME, sweepGridColumns } from './sweep-grid-columns';
@@ -37,7 +39,7 @@ ModuleRegistry.registerModules([ClientSideRowModelModule, CellStyleModule, Toolt
   selector: 'app-sweep-detail',
   templateUrl: './sweep-detail.html',
   styleUrl: './sweep-detail.scss',
-  imports: [DatePipe, RouterLink, AgGridAngular, MatButtonModule, MatProgressBarModule],
+  imports: [DatePipe, RouterLink, AgGridAngular, SkipLink, MatButtonModule, MatProgressBarModule],
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export default class SweepDetailPage {
@@ -49,6 +51,9 @@ export default class SweepDetailPage {
   protected readonly runLabel = RUN_STATUS_LABEL;
   protected readonly shownStatuses = RUN_STATUSES.filter((s) => s !== 'pending');
   protected readonly theme = SWEEP_GRID_THEME;
+  /** Tab leaves the grid in one step; Enter on a Replay cell follows its link (core/grid-keyboard.ts). */
+  protected readonly leaveOnTab = leaveGridOnTab;
+  protected readonly followLink = followCellLinkOnEnter;
   protected readonly sweep = signal<SweepDetail | null | undefined>(undefined);
   protected readonly progress = signal<SweepProgress | null>(null);
   private readonly rowsById = signal<ReadonlyMap<number, SweepResultRow>>(new Map());

@@ -6,6 +6,7 @@
  * their 95 % interval where the stored data gives one (sweep-grid-figures.ts).
  */
 import { themeQuartz, type ColDef, type ValueFormatterParams } from 'ag-grid-community';
+import { cellLink } from '../core/grid-keyboard';
 import { CI95_METHOD } from '@shared/confidence-interval';
 import type { ExecutionView, SweepResultRow } from '@shared/runs';
 import { cbsSwitchLabel, forbidsFollowing, isBounded, SUBOPTIMALITY_HELP, suboptimalityOf, switchesOff, type ModelSpec } from '@shared/sweeps';
@@ -120,11 +121,8 @@ export function formatGap(p: { value?: number | null }): string {
 function replayLink(p: { data?: SweepResultRow }): HTMLElement | string {
   const row = p.data;
   if (!row || row.status !== 'solved' || row.resultId === null) return '';
-  const a = document.createElement('a');
-  a.href = `/plans/view?result=${row.resultId}`;
-  a.textContent = 'Replay';
-  a.setAttribute('aria-label', `Replay the plan of run ${row.runId}`);
-  return a;
+  // Enter on the focused cell follows it (core/grid-keyboard.ts).
+  return cellLink(`/plans/view?result=${row.resultId}`, 'Replay', `Replay the plan of run ${row.runId}`);
 }
 
 /** Quartz with the Material system colours of the app theme. */
