@@ -18,7 +18,10 @@
  * durations); s itself is found by maximising the profile likelihood over s (a grid over the
  * range the outliers span, then golden-section refinement). An outlier screen only seeds that
  * range: log durations more than 3 robust standard deviations (1.4826 · MAD, common practice)
- * above their kind's median. Whether the data hold stalls at all is decided by BIC (G. Schwarz,
+ * above their kind's median; when there are no more of them than a normal tail gives (and none
+ * beyond 5.5), the data show no stalls and no search is made. Stalls shorter than about 3 jitter
+ * SDs of the log duration cannot be told from jitter and end up in the fitted jitter and times.
+ * Whether the data hold stalls at all is decided by BIC (G. Schwarz,
  * "Estimating the dimension of a model", Ann. Statist. 6(2), 1978): the stall model (two more
  * parameters, p and s) is kept only when 2·Δ log L > 2·ln n. Without stalls the MLE is closed-form.
  *
@@ -240,24 +243,51 @@ function stallSeed(data: Durations): { lo: number; hi: number } | null {
   const robustSd = 1.4826 * median(residual.map(Math.abs));
   if (!(robustSd > 0)) return null;
   const excess: number[] = [];
+  let isFar = false;
   residual.forEach((e, i) => {
     if (e > 3 * robustSd) excess.push(data.d[i] - Math.exp(centre[data.kind[i]]));
+    if (e > 5.5 * robustSd) isFar = true;
   });
-  if (excess.length === 0) return null;
-  const maxD = Math.max(...data.d);
-  return { lo: 0.5 * Math.min(...excess), hi: Math.min(1.5 * Math.max(...excess), maxD) };
+  // Search for stalls only when the upper tail shows them: more log durations beyond 3 robust SDs
+  // than a normal tail gives (P(Z > 3) = 0.00135, common practice) by 3 binomial SDs, or one beyond
+  // 5.5 (P ≈ 2e-8: not expected in a million actions). Without that evidence the mixture would
+  // only chase the normal tail, slowly (EM creeps as p → 0), and BIC would refuse it anyway.
+  const expected = data.d.length * 0.0013499;
+  if (!isFar && excess.length <= expected + 3 * Math.sqrt(expected) + 1) return null;
+  let maxD = 0;
+  let minExcess = Infinity;
+  let maxExcess = 0;
+  for (const x of data.d) maxD = Math.max(maxD, x);
+  for (const x of excess) {
+    minExcess = Math.min(minExcess, x);
+    maxExcess = Math.max(maxExcess, x);
+  }
+  return { lo: 0.5 * minExcess, hi: Math.min(1.5 * maxExcess, maxD) };
+}
+
+/** Every `stride`-th duration: the grid stage's sample when there are many (it only brackets the maximum). */
+function strideSample(data: Durations, stride: number): Durations {
+  const pick = Array.from({ length: Math.ceil(data.d.length / stride) }, (_, j) => j * stride);
+  const sample: Durations = {
+    d: Float64Array.from(pick, (i) => data.d[i]), logD: Float64Array.from(pick, (i) => data.logD[i]),
+    kind: Uint8Array.from(pick, (i) => data.kind[i]), count: [0, 0, 0],
+  };
+  for (const k of sample.kind) sample.count[k]++;
+  return sample;
 }
 
 /** The stall length maximising the profile likelihood on [lo, hi]: a 24-point geometric grid, then golden section around the best. */
 function fitStallLength(data: Durations, lo: number, hi: number): { params: MixtureParams; ll: number } {
   // Each EM starts from the fit at the previous stall length (the profile likelihood is continuous in s).
   // The grid only brackets the maximum, so its EM runs stop after 30 steps; the refinement runs to convergence.
+  // Above 20,000 durations the grid runs on an evenly strided sample (a kind absent from it keeps its start).
   let warm: MixtureParams | undefined;
   let maxSteps = 30;
+  let fitted = data.d.length > 20_000 ? strideSample(data, Math.ceil(data.d.length / 20_000)) : data;
   const at = (s: number): { params: MixtureParams; ll: number } => {
-    const fitted = emAtStall(data, s, warm, maxSteps);
-    warm = fitted.params;
-    return fitted;
+    const result = emAtStall(fitted, s, warm, maxSteps);
+    warm = result.params;
+    return result;
   };
   const GRID = 24;
   const grid = Array.from({ length: GRID }, (_, j) => lo * Math.pow(hi / lo, j / (GRID - 1)));
@@ -271,6 +301,7 @@ function fitStallLength(data: Durations, lo: number, hi: number): { params: Mixt
     }
   }
   maxSteps = 200;
+  fitted = data;
   warm = best.params;
   best = at(grid[bestJ]);
   let a = grid[Math.max(0, bestJ - 1)];
