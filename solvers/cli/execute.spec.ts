@@ -20,6 +20,18 @@ describe('npm run execute', () => {
   // The keys of the contract before issue 12; item 5 adds only `ci95`, at the end.
   const KEYS_BEFORE_ISSUE_12 = ['runs', 'successRate', 'collisions', 'realisedMakespanMs', 'finishSpreadMs', 'waitingMs', 'firstCollision'];
 
+  it('adds the bounded plan\'s figures last, only with --suboptimality above 1', () => {
+    const run = execute(...files, '--model', 'classic', '--policy', 'dependency-gated', '--runs', '5', '--suboptimality', '1.5', '--json');
+    expect(run.status).toBe(0);
+    const out = JSON.parse(run.stdout);
+    expect(Object.keys(out)).toEqual([...KEYS_BEFORE_ISSUE_12, 'ci95', 'plan']);
+    expect(Object.keys(out.plan)).toEqual(['suboptimality', 'soc', 'lowerBound', 'gap']);
+    expect(out.plan.suboptimality).toBe(1.5);
+    expect(out.plan.soc).toBeLessThanOrEqual(1.5 * out.plan.lowerBound);
+    expect(out.plan.gap).toBeCloseTo((out.plan.soc - out.plan.lowerBound) / out.plan.lowerBound, 12);
+    expect(out.collisions.total).toBe(0);
+  });
+
   it('prints the stable JSON contract, plus the 95 % intervals', () => {
     const run = execute(...files, '--model', 'classic', '--policy', 'dependency-gated', '--jitter', '0.2', '--runs', '20', '--seed', '3', '--json');
     expect(run.status).toBe(0);

@@ -54,6 +54,25 @@ describe('npm run solve', () => {
     expect(check.makespan).toBe(out.makespan);
   });
 
+  it('takes --suboptimality: a validated plan within w × the lower bound, w and the gap in the JSON', () => {
+    const mapFile = join(DATASET, 'empty-8-8.map');
+    const scenFile = join(DATASET, 'empty-8-8-even-1.scen');
+    const run = solve('--map', mapFile, '--scen', scenFile, '--agents', '12', '--suboptimality', '1.5', '--json');
+    expect([run.status, run.stderr]).toEqual([0, '']);
+    const out = JSON.parse(run.stdout);
+    expect(out.status).toBe('solved');
+    expect([out.suboptimality, out.parameters.suboptimality]).toEqual([1.5, 1.5]);
+    expect(out.soc).toBeLessThanOrEqual(1.5 * out.lowerBound);
+    expect(out.gap).toBeCloseTo((out.soc - out.lowerBound) / out.lowerBound, 12);
+    const map = parseMap(readFileSync(mapFile, 'utf8'));
+    const scen = parseScenario(readFileSync(scenFile, 'utf8'));
+    if (!map.ok || !scen.ok) throw new Error('dataset files did not parse');
+    const inst = instanceFromScenario(map.value, scen.value, 12);
+    if (!inst.ok) throw new Error('instance');
+    const check = validateClassicPlan(inst.value, (out.paths as [number, number][][]).map((p) => p.map(([x, y]) => y * 8 + x)));
+    expect([check.ok, check.soc]).toEqual([true, out.soc]);
+  });
+
   it('solves, validates and reports every plan model with the schedule contract', () => {
     const mapFile = join(DATASET, 'empty-8-8.map');
     const scenFile = join(DATASET, 'empty-8-8-even-1.scen');
