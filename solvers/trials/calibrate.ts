@@ -240,8 +240,8 @@ function stallSeed(data: Durations): { lo: number; hi: number } | null {
   for (let i = 0; i < data.d.length; i++) byKind[data.kind[i]].push(data.logD[i]);
   const centre = byKind.map((xs) => (xs.length > 0 ? median(xs) : 0));
   const residual = Array.from(data.logD, (y, i) => y - centre[data.kind[i]]);
-  const robustSd = 1.4826 * median(residual.map(Math.abs));
-  if (!(robustSd > 0)) return null;
+  // Floored: durations logged with few distinct values (most equal to their kind's median) have MAD 0.
+  const robustSd = Math.max(1.4826 * median(residual.map(Math.abs)), 1e-6);
   const excess: number[] = [];
   let isFar = false;
   residual.forEach((e, i) => {
