@@ -88,6 +88,7 @@ describe('personal API tokens', () => {
     expect((await errorOf(createSet)).details).toEqual({ missingScope: null });
     // Tokens cannot see or mint tokens.
     expect((await call(secret, '/api/me/tokens')).status).toBe(403);
+    expect((await call(secret, '/api/ME/Tokens')).status).toBe(403);
     expect((await world.lib.sql<{ n: number }>("SELECT count(*)::int AS n FROM instance_sets WHERE name = 'by token'"))[0].n).toBe(0);
   });
 

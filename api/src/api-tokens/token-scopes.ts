@@ -10,14 +10,15 @@ const SAFE_METHODS = new Set(['GET', 'HEAD']);
 
 /** Routes (method, path under /api) a state-changing scope opens. */
 const WRITE_SCOPES: ReadonlyArray<{ readonly method: string; readonly path: RegExp; readonly scope: TokenScope }> = [
-  { method: 'POST', path: /^\/submissions\/?$/, scope: 'submit' },
-  { method: 'POST', path: /^\/sweeps\/?$/, scope: 'sweep' },
-  { method: 'POST', path: /^\/sweeps\/preview\/?$/, scope: 'sweep' },
-  { method: 'POST', path: /^\/sweeps\/[^/]+\/cancel\/?$/, scope: 'sweep' },
+  { method: 'POST', path: /^\/submissions\/?$/i, scope: 'submit' },
+  { method: 'POST', path: /^\/sweeps\/?$/i, scope: 'sweep' },
+  { method: 'POST', path: /^\/sweeps\/preview\/?$/i, scope: 'sweep' },
+  { method: 'POST', path: /^\/sweeps\/[^/]+\/cancel\/?$/i, scope: 'sweep' },
 ];
 
 /** Paths no token opens, whatever the method: the token routes and sign-in/sign-out. */
-const SESSION_ONLY = [/^\/me\/tokens(\/|$)/, /^\/auth(\/|$)/];
+// Case-insensitive like Express's routing, so /api/ME/tokens is the same route here as there.
+const SESSION_ONLY = [/^\/me\/tokens(\/|$)/i, /^\/auth(\/|$)/i];
 
 /**
  * The scope a Bearer request for `method` on `path` (relative to /api, e.g. `/sweeps/3/cancel`)

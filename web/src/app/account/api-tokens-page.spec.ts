@@ -86,6 +86,10 @@ describe('ApiTokensPage', () => {
     await fixture.whenStable();
 
     expect(page().querySelector('[data-testid="secret-value"]')?.textContent).toBe(SECRET);
+    // The form is ready for the next token, without an error on the emptied name.
+    expect(await (await loader.getHarness(MatInputHarness.with({ placeholder: 'e.g. nightly solver run' }))).getValue()).toBe('');
+    expect(page().querySelector('mat-error')).toBeNull();
+    expect(await (await loader.getHarness(MatCheckboxHarness.with({ label: /^read/ }))).isChecked()).toBe(true);
     expect(page().querySelector('[data-testid="new-secret"]')?.textContent).toContain('shown only this once');
     await (await loader.getHarness(MatButtonHarness.with({ text: 'Copy' }))).click();
     expect(copied).toEqual([SECRET]);

@@ -5,8 +5,8 @@
  */
 import { Clipboard } from '@angular/cdk/clipboard';
 import { DatePipe } from '@angular/common';
-import { ChangeDetectionStrategy, Component, computed, effect, inject, signal } from '@angular/core';
-import { NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
+import { ChangeDetectionStrategy, Component, computed, effect, inject, signal, viewChild } from '@angular/core';
+import { FormGroupDirective, NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatCheckboxModule } from '@angular/material/checkbox';
 import { MatDialog } from '@angular/material/dialog';
@@ -39,6 +39,8 @@ export default class ApiTokensPage {
   private readonly clipboard = inject(Clipboard);
   private readonly session = inject(Session);
   private readonly fb = inject(NonNullableFormBuilder);
+  /** The form element's directive: resetting through it also forgets the submit, so no field shows an error. */
+  private readonly formDirective = viewChild.required(FormGroupDirective);
 
   protected readonly lifetimes = TOKEN_LIFETIMES;
   protected readonly columns = ['name', 'scopes', 'createdAt', 'expiresAt', 'lastUsedAt', 'actions'];
@@ -93,7 +95,7 @@ export default class ApiTokensPage {
       this.created.set(made);
       this.isCopied.set(false);
       this.tokens.update((list) => [made.token, ...(list ?? [])]);
-      this.form.reset();
+      this.formDirective().resetForm();
     } catch {
       // The error interceptor shows the server's reason.
     } finally {
