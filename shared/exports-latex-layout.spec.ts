@@ -57,9 +57,10 @@ function compile(tex: string): { status: number | null; overfull: string[]; page
 }
 
 describe('LaTeX layout', () => {
-  it('wraps header labels onto stacked lines with the unit, keeping "95 %" together', () => {
+  it('wraps header labels onto stacked lines with the unit, keeping "95 %" together and breaking long words after a hyphen', () => {
     expect(latexHeader('Map', undefined, false)).toBe('Map');
-    expect(latexHeader('Turn-inclusive makespan', 'ms', true)).toBe('\\begin{tabular}[b]{@{}r@{}}Turn-inclusive\\\\makespan\\\\(ms)\\end{tabular}');
+    expect(latexHeader('Turn-inclusive makespan', 'ms', true)).toBe('\\begin{tabular}[b]{@{}r@{}}Turn-\\\\inclusive\\\\makespan\\\\(ms)\\end{tabular}');
+    expect(latexHeader('Sum-of-costs', 'steps', true)).toBe('\\begin{tabular}[b]{@{}r@{}}Sum-of-\\\\costs\\\\(steps)\\end{tabular}');
     expect(latexHeader('Execution success rate, open-loop, 95 % CI low', undefined, true))
       .toBe('\\begin{tabular}[b]{@{}r@{}}Execution\\\\success\\\\rate,\\\\open-loop,\\\\95 \\% CI\\\\low\\end{tabular}');
   });
@@ -95,6 +96,16 @@ describe('LaTeX layout', () => {
     // One profile: the full label stays.
     const one = boardTable(1, ['map', 'profile']);
     expect(withShortProfiles(one)).toBe(one);
+  });
+
+  it('writes keys P1, P2 spelt out in the caption when several parameters differ (a profile cell was 90 characters wide)', () => {
+    const third = { ...PROFILE_A, forwardMs: 800, waitMs: 800, cellPitchMm: 1200, robotDiameterMm: 600, quarterTurnMs: 900, timingJitter: 0 };
+    const base = boardTable(4, ['map', 'profile', 'socSteps']);
+    const j = 1;
+    const mixed: ExportTable = { ...base, rows: base.rows.map((r, i) => r.map((v, c) => (c === j ? profileLabel(i % 2 === 0 ? PROFILE_A : third) : v))) };
+    const table = withShortProfiles(mixed);
+    expect(table.rows.map((r) => r[j])).toEqual(['P1', 'P2', 'P1', 'P2']);
+    expect(table.caption).toContain('Robot profiles: P1 = forward 1000 ms, quarter turn 600 ms, wait 1000 ms, pitch 1000 mm, diameter 700 mm, jitter 0.1; P2 = forward 800 ms, quarter turn 900 ms, wait 800 ms, pitch 1200 mm, diameter 600 mm, jitter 0.');
   });
 
   (hasPdflatex ? it.each : it.skip.each)([

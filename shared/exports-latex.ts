@@ -65,12 +65,14 @@ const HEADER_LINE_CHARS = 10;
  * so long labels do not set the width of a column of short numbers.
  */
 export function latexHeader(label: string, unit: string | undefined, isNumber: boolean): string {
-  const words = label.replace(/(\d) %/g, '$1\u00a0%').split(' ');
+  // A hyphenated word longer than a line ("Sum-of-costs", "Turn-inclusive") may break after a hyphen.
+  const words = label.replace(/(\d) %/g, '$1\u00a0%').split(' ').flatMap((w) => (w.length > HEADER_LINE_CHARS - 4 && w.includes('-') ? w.split(/(?<=-)/) : [w]));
   if (unit) words.push(`(${unit})`);
   const lines: string[] = [];
   for (const word of words) {
     const last = lines.length - 1;
-    if (last >= 0 && lines[last].length + 1 + word.length <= HEADER_LINE_CHARS) lines[last] += ` ${word}`;
+    const glue = last >= 0 && lines[last].endsWith('-') ? '' : ' ';
+    if (last >= 0 && lines[last].length + glue.length + word.length <= HEADER_LINE_CHARS) lines[last] += `${glue}${word}`;
     else lines.push(word);
   }
   const escaped = lines.map((l) => latexEscape(l.replace(/\u00a0/g, ' ')));
@@ -80,6 +82,12 @@ export function latexHeader(label: string, unit: string | undefined, isNumber: b
 
 /** A `%` comment line: after the `%` TeX ignores the rest of the line, so only line breaks need folding. */
 const comment = (text: string): string => `% ${foldControlCharacters(text)}`;
+
+/**
+ * A log line with the table's natural width and the line width, so an author (and the export
+ * tests) can see how far a wide table was scaled down: scale = line width ÷ natural width.
+ */
+const TYPEOUT_WIDTHS = '\\typeout{Quarterturn table: natural width \\the\\wd\\QTTable, line width \\the\\linewidth}%';
 
 /**
  * The table as LaTeX that fits the text width (issue 14, item 8). Needs booktabs, graphicx and,
@@ -143,6 +151,7 @@ export function toLatex(exported: ExportTable): string {
       ...body,
       '\\bottomrule',
       '\\end{tabular}}%',
+      TYPEOUT_WIDTHS,
       '\\ifdim\\wd\\QTTable>\\linewidth\\resizebox{\\linewidth}{!}{\\usebox\\QTTable}\\else\\usebox\\QTTable\\fi',
       '\\end{table}',
       '',
@@ -163,6 +172,7 @@ export function toLatex(exported: ExportTable): string {
     ...body,
     '}',
     `\\sbox\\QTTable{\\begin{tabular}{${align.join('')}}\\QTHead\\QTRows\\end{tabular}}%`,
+    TYPEOUT_WIDTHS,
     '\\ifdim\\wd\\QTTable>\\linewidth',
     '  \\edef\\QTScale{\\csname strip@pt\\endcsname\\dimexpr\\linewidth*65000/\\wd\\QTTable\\relax}%',
     '\\else',

@@ -49,10 +49,15 @@ export interface ExportTable {
 /** Id of the robot profile column (entries and comparison layouts). */
 export const PROFILE_COLUMN = 'profile';
 
+/** Longest robot profile cell Markdown and LaTeX write before they switch to keys P1, P2, … (≈ two parameters). */
+export const PROFILE_CELL_MAX_CHARS = 32;
+
 /**
  * For the formats people read (Markdown, LaTeX): when the rows mix robot profiles, the profile
  * column keeps only the parameters that differ between them ("quarter turn 300 ms") and the caption
- * names the ones all rows share, so a row stays narrow. Labels are profileLabel() texts: the same
+ * names the ones all rows share, so a row stays narrow; when that is still longer than
+ * PROFILE_CELL_MAX_CHARS the cells become keys (P1, P2, … in order of first appearance) spelt out
+ * in the caption. Labels are profileLabel() texts: the same
  * ", "-separated parameters in the same order. Unchanged when the rows share one profile, the
  * table has no profile column, or the labels are not of that form.
  */
@@ -66,9 +71,22 @@ export function withShortProfiles(table: ExportTable): ExportTable {
   const isAligned = parts.every((p) => p.length === parts[0].length && p.every((part, i) => key(part) === key(parts[0][i])));
   if (!isAligned) return table;
   const differs = parts[0].map((_, i) => parts.some((p) => p[i] !== parts[0][i]));
-  const short = new Map(labels.map((l, n) => [l, parts[n].filter((_, i) => differs[i]).join(', ')]));
+  const differing = labels.map((_, n) => parts[n].filter((_, i) => differs[i]).join(', '));
   const shared = parts[0].filter((_, i) => !differs[i]);
-  const note = `Robot profile column: only the parameters that differ between rows${shared.length > 0 ? `; every row has ${shared.join(', ')}` : ''}.`;
+  const sharedText = shared.length > 0 ? `; every row has ${shared.join(', ')}` : '';
+  // Still too wide for a column (several parameters differ): short keys, spelt out in the caption.
+  if (Math.max(...differing.map((d) => d.length)) > PROFILE_CELL_MAX_CHARS) {
+    const keys = labels.map((_, n) => `P${n + 1}`);
+    const legend = `Robot profiles: ${labels.map((_, n) => `${keys[n]} = ${differing[n]}`).join('; ')}${sharedText}.`;
+    const keyOf = new Map(labels.map((l, n) => [l, keys[n]]));
+    return {
+      ...table,
+      caption: table.caption === '' ? legend : `${table.caption} ${legend}`,
+      rows: table.rows.map((r) => r.map((v, i) => (i === j && typeof v === 'string' ? keyOf.get(v) ?? v : v))),
+    };
+  }
+  const short = new Map(labels.map((l, n) => [l, differing[n]]));
+  const note = `Robot profile column: only the parameters that differ between rows${sharedText}.`;
   return {
     ...table,
     caption: table.caption === '' ? note : `${table.caption} ${note}`,

@@ -12,6 +12,7 @@ import type { LeaderboardsService } from '../leaderboards/leaderboards.service';
 import { flatQuery, scopeOf, viewOf, windowOf } from '../leaderboards/view-request';
 import { MAX_LATEX_CELLS } from '@shared/exports-latex';
 import { buildExport } from './build-export';
+import { withPaperColumns } from './paper-columns';
 import { exportedResults, type ProvenanceReader } from './export-provenance';
 
 /** Largest export in rows. */
@@ -33,7 +34,8 @@ export function exportsRouter(boards: LeaderboardsService, provenanceOf: Provena
     if (!EXPORT_FORMATS.includes(format)) {
       throw new AppError('VALIDATION_FAILED', 400, `Query parameter "format" must be one of ${EXPORT_FORMATS.join(', ')}`, [{ param: 'format' }]);
     }
-    const view = viewOf(params);
+    // LaTeX of the default board columns gets the paper columns (paper-columns.ts); a chosen set is kept.
+    const view = withPaperColumns(viewOf(params), format);
     const hasWindow = params['start'] !== undefined || params['end'] !== undefined;
     const window = hasWindow ? windowOf(params, MAX_EXPORT_ROWS) : { start: 0, end: MAX_EXPORT_ROWS };
     const page = await boards.page(view, req.user ?? null, scopeOf(params), window);
