@@ -83,7 +83,11 @@ describe('PlanViewer for a visitor', () => {
   });
 
   // Also proves no POST /api/executions was sent: an unanswered request fails verify().
-  afterEach(() => backend.verify());
+  afterEach(() => {
+    // A stored result's page also loads its field trials (trials/field-trials-panel.spec.ts tests that panel).
+    for (const r of backend.match((q) => q.url.startsWith('/api/trials/'))) r.flush({ resultId: 0, uploads: [], canAttach: false, safetyNote: '' });
+    backend.verify();
+  });
 
   async function settle(): Promise<void> {
     for (let i = 0; i < 8; i++) {

@@ -69,7 +69,11 @@ describe('PlanViewer', () => {
     backend.expectOne((r) => r.url === '/api/instance-sets').flush({ items: [], total: 0, page: 1, pageSize: 100 });
   });
 
-  afterEach(() => backend.verify());
+  afterEach(() => {
+    // A stored result's page also loads its field trials (trials/field-trials-panel.spec.ts tests that panel).
+    for (const r of backend.match((q) => q.url.startsWith('/api/trials/'))) r.flush({ resultId: 0, uploads: [], canAttach: false, safetyNote: '' });
+    backend.verify();
+  });
 
   const metric = (pane: number, key: string) =>
     el.querySelectorAll('article.pane')[pane]?.querySelector(`[data-metric="${key}"] dd`)?.textContent?.trim();

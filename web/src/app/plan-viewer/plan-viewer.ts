@@ -48,6 +48,7 @@ import {
 import { formatSeconds } from './viewer-format';
 import { ROBOT_STATE_STYLES } from './viewer-palette';
 import { paneWith, type ViewerPane } from './viewer-pane';
+import { FieldTrialsPanel } from '../trials/field-trials-panel';
 
 export type { ViewerPane } from './viewer-pane';
 
@@ -58,7 +59,7 @@ export type { ViewerPane } from './viewer-pane';
   styleUrl: './plan-viewer.scss',
   imports: [
     ReactiveFormsModule, MatButtonModule, MatFormFieldModule, MatInputModule, MatSelectModule, MatSliderModule, MatProgressBarModule,
-    FleetCanvas, GanttChart, FinishHistogramChart, ExecutionSummaryCard, PlanPicker,
+    FleetCanvas, GanttChart, FinishHistogramChart, ExecutionSummaryCard, PlanPicker, FieldTrialsPanel,
   ],
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
