@@ -9,6 +9,7 @@
  *   npm run bench:solver -- --map empty-8-8 --agents 4,8,12,16 --scen 1,2
  *   npm run bench:solver -- --switches '{"wdg":false}'       # an ablation
  *   npm run bench:solver -- --models all --agents 10,20,30 --time-limit 10   # the five plan models
+ *   npm run bench:solver -- --frontier [--w 1,1.2] [--maps M1,M2]   # largest agent counts per model and w (solver-frontier.ts)
  *
  * --models classic (default) | all | a comma list of plan models; every model runs through
  * solveModel on the same instances (k-robust with --k, default 2; start heading --start-heading,
@@ -27,6 +28,13 @@ import { DEFAULT_ROBOT_PROFILE } from '../solvers/models/heading-schedule';
 import { isPlanModel, solveModel } from '../solvers/models/solve-model';
 import type { CbsSwitches } from '../solvers/search/cbs-types';
 import { OPEN_GRID_BENCHMARKS_DIR } from './datasets/open-grid-benchmarks';
+import { runFrontier } from './solver-frontier';
+
+// --frontier: the reach of every plan model under bounded-suboptimal search (solver-frontier.ts).
+if (process.argv.includes('--frontier')) {
+  runFrontier(process.argv.slice(2));
+  process.exit(0);
+}
 
 const root = join(__dirname, '..');
 const dataset = OPEN_GRID_BENCHMARKS_DIR;
@@ -54,6 +62,8 @@ if (values.help) {
     'usage: npm run bench:solver -- [--map NAME]... [--scen 1,2,...] [--agents 10,20,...] [--time-limit SECONDS]',
     '         [--models classic|all|M1,M2] [--k K] [--start-heading N|E|S|W|free] [--forward-ms MS] [--turn-ms MS] [--wait-ms MS]',
     "         [--switches JSON] [--out FILE]",
+    '       npm run bench:solver -- --frontier [--models all|M1,M2] [--w 1,1.1,1.2,1.5] [--maps M1,M2] [--scen 1,...] [--time-limit 60]',
+    '         [--start 10] [--step 10] [--max-agents N] [--k 1] [--out FILE]   (see benchmarks/solver-frontier.ts)',
     'defaults: --map random-32-32-20 --scen 1,2,3,4,5 --agents 10,20,30,40,50,60 --time-limit 30 --models classic --k 2',
     `          --start-heading free --forward-ms ${DEFAULT_ROBOT_PROFILE.forwardMs} --turn-ms ${DEFAULT_ROBOT_PROFILE.quarterTurnMs} --wait-ms ${DEFAULT_ROBOT_PROFILE.waitMs}`,
     '          --out benchmarks/results/solver.json',
