@@ -9,7 +9,7 @@
  */
 import { readFileSync, statSync } from 'node:fs';
 import { formatTrialLogError, MAX_TRIAL_LOG_BYTES, parseTrialLog, type TrialLog, type TrialLogError } from '@shared/trial-log';
-import { calibrateProfile, type ProfileFit } from '../trials/calibrate';
+import { calibrateProfile, calibrationSummary, type ProfileFit } from '../trials/calibrate';
 
 const USAGE = `usage: npm run -s calibrate -- --log FILE... [--json]
   --log FILE...  one or more trial logs (.csv or .json; other names are told apart by content);
@@ -46,12 +46,6 @@ export function parseCalibrateArgs(argv: readonly string[]): CalibrateArgs {
   }
   if (files.length === 0) return { kind: 'usage', message: 'no log given (--log FILE...)' };
   return { kind: 'run', files, isJson };
-}
-
-/** The --json object: the contract keys only. */
-export function calibrationJson(fit: ProfileFit): Record<string, unknown> {
-  const { forwardMs, quarterTurnMs, waitMs, timingJitter, stallProbability, stallMs, actions, ci95 } = fit;
-  return { forwardMs, quarterTurnMs, waitMs, timingJitter, stallProbability, stallMs, actions, ci95 };
 }
 
 /** The human-readable table. */
@@ -111,7 +105,7 @@ function main(argv: readonly string[]): number {
   if (errors.length === 0) {
     const result = calibrateProfile(logs);
     if (result.kind === 'fitted') {
-      process.stdout.write(args.isJson ? `${JSON.stringify(calibrationJson(result.fit), null, 2)}\n` : calibrationTable(result.fit, args.files));
+      process.stdout.write(args.isJson ? `${JSON.stringify(calibrationSummary(result.fit), null, 2)}\n` : calibrationTable(result.fit, args.files));
       return 0;
     }
     errors.push(...result.errors);

@@ -138,6 +138,15 @@ export function calibrateProfile(logs: readonly TrialLog[]): CalibrationResult {
   return { kind: 'fitted', fit: fitProfile(data, sources) };
 }
 
+/** The fit's contract keys, as `npm run -s calibrate -- --json` prints them (and an API may return them). */
+export type CalibrationSummary = Pick<ProfileFit, 'forwardMs' | 'quarterTurnMs' | 'waitMs' | 'timingJitter' | 'stallProbability' | 'stallMs' | 'actions' | 'ci95'>;
+
+/** The contract keys of a fit, in the documented order, and nothing else. */
+export function calibrationSummary(fit: ProfileFit): CalibrationSummary {
+  const { forwardMs, quarterTurnMs, waitMs, timingJitter, stallProbability, stallMs, actions, ci95 } = fit;
+  return { forwardMs, quarterTurnMs, waitMs, timingJitter, stallProbability, stallMs, actions, ci95 };
+}
+
 /**
  * A profile from a fit: the fitted times rounded to whole ms (profiles hold whole ms), the kinds
  * no log had and the geometry taken from `base`; the stalls go with it as noise settings.

@@ -7,6 +7,7 @@ export {
   compareTrialToPlan, type TrialCollision, type TrialComparison, type TrialDivergence, type TrialRobotFigures, type TrialRunFigures,
 } from './compare-to-plan';
 export {
-  calibrateProfile, CALIBRATION_KINDS, profileFromFit, QQ_POINTS, type CalibrationKind, type CalibrationResult, type ProfileFit, type QqPoint,
+  calibrateProfile, calibrationSummary, CALIBRATION_KINDS, profileFromFit, QQ_POINTS, type CalibrationKind, type CalibrationResult,
+  type CalibrationSummary, type ProfileFit, type QqPoint,
 } from './calibrate';
 export { trialLogFromTimeline, type SimulatedTrialOptions } from './simulated-trial';
