@@ -9,6 +9,7 @@ import { ensureWebBuild } from '../../scripts/web-build';
 import { createTestDatabase, type TestDatabase } from '../support/test-database';
 import { ROOT, runLedger, spawnWorker, startSweepServer, uploadSet, workerReady, type SweepServer, type WorkerProcess } from '../reliability/support/sweep-harness';
 import { launchBrowser, type E2eBrowser } from './support/browser';
+import { focusAgainst, focusedDescription, isFocused, tabUntil } from './support/keyboard';
 import { settledText } from './support/settled-text';
 import { demoIdentity, signInThroughUi } from './support/sign-in';
 
@@ -33,6 +34,7 @@ describe('a sweep from the browser', () => {
     browser = await launchBrowser();
     page = browser.page;
     page.on('pageerror', (err) => pageErrors.push(err.message));
+    await signInThroughUi(page, s.url, admin);
   }, 240_000);
 
   afterAll(async () => {
@@ -43,7 +45,6 @@ describe('a sweep from the browser', () => {
   });
 
   it('launches from the form, shows live progress and results, and mails the launcher', async () => {
-    await signInThroughUi(page, s.url, admin);
     await page.goto(`${s.url}/sweeps/new`);
     await page.getByLabel('Sweep name').fill('parcel hall check');
     await page.getByRole('combobox', { name: 'Instance set' }).click();
@@ -86,6 +87,53 @@ describe('a sweep from the browser', () => {
 
     await page.goto(`${s.url}/sweeps/mailbox`);
     await page.getByText('Quarterturn: sweep "parcel hall check" finished').waitFor({ timeout: 10_000 });
+    expect(pageErrors).toEqual([]);
+  }, 120_000);
+
+  it('launches by keyboard alone; focus lands on the new page, Tab leaves its grid in one step and Enter follows a Replay cell (issue 18)', async () => {
+    await page.goto(`${s.url}/sweeps/new`);
+    await page.getByRole('heading', { name: 'New sweep' }).waitFor();
+    await tabUntil(page, 'input[formcontrolname=name]', 40);
+    await page.keyboard.type('parcel hall by keys');
+    await page.keyboard.press('Tab');
+    expect(await isFocused(page, 'mat-select[formcontrolname=instanceSetId]')).toBe(true);
+    // Open the picker, take its first choice.
+    await page.keyboard.press('Enter');
+    await page.getByRole('option', { name: /parcel hall/ }).waitFor();
+    await page.keyboard.press('Enter');
+    expect(await page.getByRole('combobox', { name: 'Instance set' }).innerText()).toMatch(/parcel hall/);
+    await tabUntil(page, 'input[formcontrolname=countList]', 10);
+    await page.keyboard.press('Control+A');
+    await page.keyboard.type('2');
+    // 2 scenarios × 1 agent count × 2 default models × 1 seed.
+    await page.waitForFunction(() => document.querySelector('[data-testid=sweep-size]')?.textContent?.trim().startsWith('4 runs') ?? false, undefined, { timeout: 10_000 });
+    await tabUntil(page, 'button[type=submit]', 80);
+    await page.keyboard.press('Enter');
+    await page.waitForURL(/\/sweeps\/\d+$/);
+    // Focus went to the new page's content, not to the body (issue 18, item 7).
+    await page.getByTestId('sweep-status').waitFor();
+    expect(await focusedDescription(page)).toMatch(/^main#main-content/);
+
+    await settledText(page.getByTestId('sweep-status'), 'Finished', 60_000);
+    await page.locator('.ag-row').nth(3).waitFor();
+    await tabUntil(page, '.ag-root-wrapper, .ag-root-wrapper *', 20);
+    await page.keyboard.press('ArrowDown');
+    await page.keyboard.press('Tab');
+    // Out in one step; nothing focusable follows the grid on this page, so focus leaves the document ('none').
+    expect(['after', 'none']).toContain(await focusAgainst(page, 'ag-grid-angular'));
+    await page.keyboard.press('Shift+Tab');
+    expect(await focusAgainst(page, 'ag-grid-angular')).toBe('inside');
+    await page.keyboard.press('Shift+Tab');
+    expect(await isFocused(page, 'a.qt-skip-link[href="#after-sweep-grid"]')).toBe(true);
+    await page.keyboard.press('Tab');
+    // Back in the grid (Tab enters at the header row); down into the first row, then along it to the Replay cell.
+    expect(await focusAgainst(page, 'ag-grid-angular')).toBe('inside');
+    if (await isFocused(page, '.ag-header-cell')) await page.keyboard.press('ArrowDown');
+    expect(await isFocused(page, '.ag-cell')).toBe(true);
+    for (let i = 0; i < 12 && !(await isFocused(page, '.ag-cell[col-id=replay]')); i++) await page.keyboard.press('ArrowRight');
+    expect(await isFocused(page, '.ag-cell[col-id=replay]')).toBe(true);
+    await page.keyboard.press('Enter');
+    await page.waitForURL(/\/plans\/view\?result=\d+$/);
     expect(pageErrors).toEqual([]);
   }, 120_000);
 });
