@@ -12,6 +12,8 @@ import type { MeResponse } from '@shared/auth';
 import { loadConfig } from '../../api/src/config';
 import { startServer, type RunningServer } from '../../api/src/app';
 import { signInAs } from '../../api/src/dev/sign-in-as';
+import { API_ROUTES } from '../../api/src/openapi/api-routes';
+import { ErrorBodySchema } from '../../api/src/openapi/response-schemas';
 import { createTestDatabase, type TestDatabase } from '../support/test-database';
 import { json, startBoardWorld, type BoardWorld } from './leaderboard-support';
 import { setRole, type SignedInClient } from './instance-library-support';
@@ -168,6 +170,25 @@ describe('personal API tokens', () => {
     expect((await call(revoking.secret, '/api/me')).status).toBe(401);
     const list = (await (await world.owner.request('/api/me/tokens')).json()) as ApiTokenListResponse;
     expect(list.tokens.map((t) => t.id)).not.toContain(revoking.token.id);
+  });
+
+  it('answers in the shapes the OpenAPI document states for the account and token routes and for errors', async () => {
+    const schemaOf = (method: string, path: string) => {
+      const schema = API_ROUTES.find((r) => r.method === method && r.path === path)?.response.body?.schema;
+      if (!schema) throw new Error(`no response schema for ${method} ${path}`);
+      return schema;
+    };
+    const created = await world.owner.request('/api/me/tokens', json('POST', { name: 'shape check', scopes: ['read'], expiresInDays: 1 }));
+    const { secret } = (await created.clone().json()) as CreatedApiToken;
+    const answers: Array<[string, unknown, { safeParse(v: unknown): { success: boolean; error?: unknown } }]> = [
+      ['POST /api/me/tokens', await created.json(), schemaOf('post', '/api/me/tokens')],
+      ['GET /api/me/tokens', await (await world.owner.request('/api/me/tokens')).json(), schemaOf('get', '/api/me/tokens')],
+      ['GET /api/me (token)', await (await call(secret, '/api/me')).json(), schemaOf('get', '/api/me')],
+      ['GET /api/me (visitor)', await (await fetch(`${url}/api/me`)).json(), schemaOf('get', '/api/me')],
+      ['403 scope', await (await call(secret, '/api/submissions', json('POST', {}))).json(), ErrorBodySchema],
+      ['401 token', await (await call(`qtk_${'x'.repeat(43)}`, '/api/me')).json(), ErrorBodySchema],
+    ];
+    expect(answers.map(([what, body, schema]) => [what, schema.safeParse(body).success])).toEqual(answers.map(([what]) => [what, true]));
   });
 
   it('records the last use at most once a minute', async () => {
