@@ -132,7 +132,7 @@ export function createApp(config: AppConfig, deps: Partial<AppDeps> = {}): Quart
 
   const api = Router();
   api.use(express.json({ limit: '1mb' }));
-  // A request with an Authorization header is a token request: no session is read or written (api-tokens/bearer-auth.ts).
+  // A request with `Authorization: Bearer` is a token request: no session is read or written (api-tokens/bearer-auth.ts).
   api.use(unlessToken(sessionMiddleware(config, store)));
   api.use(passport.initialize());
   api.use(unlessToken(passport.session()));

@@ -149,10 +149,23 @@ describe('personal API tokens', () => {
     expect(res.headers.get('set-cookie')).toBeNull();
   });
 
+  it('leaves another Authorization scheme to the session and its CSRF check', async () => {
+    // Browsers resend Basic credentials by themselves behind a password-protected proxy.
+    const basic = 'Basic dXNlcjpwdw==';
+    const me = await fetch(`${url}/api/me`, { headers: { authorization: basic, cookie: world.owner.jar.header() } });
+    expect(((await me.json()) as MeResponse).account?.login).toBe('marguerite-oyelaran');
+    const body = JSON.stringify({ name: 'basic forged', scopes: ['read'], expiresInDays: 1 });
+    const forged = await fetch(`${url}/api/me/tokens`, { method: 'POST', body, headers: { authorization: basic, cookie: world.owner.jar.header(), 'content-type': 'application/json' } });
+    expect(forged.status).toBe(403);
+    expect((await errorOf(forged)).code).toBe('CSRF_REJECTED');
+  });
+
   it('answers 401 in the error shape for a malformed, unknown, expired or revoked token, never falling back to the session', async () => {
     const unknown = `qtk_${randomBytes(32).toString('base64url')}`;
-    const malformed = await fetch(`${url}/api/me`, { headers: { authorization: 'Basic dXNlcjpwdw==' } });
-    expect(malformed.status).toBe(401);
+    for (const authorization of ['Bearer', 'Bearer not-a-token', `Bearer ${unknown} ${unknown}`]) {
+      const malformed = await fetch(`${url}/api/me`, { headers: { authorization } });
+      expect([authorization, malformed.status]).toEqual([authorization, 401]);
+    }
     const res = await withToken(url, unknown, '/api/me', { headers: { cookie: world.owner.jar.header() } });
     expect(res.status).toBe(401);
     expect(res.headers.get('www-authenticate')).toMatch(/^Bearer .*invalid_token/);

@@ -1,11 +1,13 @@
 /**
- * `Authorization: Bearer qtk_…` on /api (issue 16, item 1). A request with an Authorization header
- * is a token request, whatever cookies it also carries: the session is not read (Bearer wins),
- * the CSRF check does not apply (`hasAuthorization`, used by api/src/http/csrf.ts; a cross-site page
- * cannot make a browser send this header, and the ambient cookie session is ignored anyway), and
- * the token must be valid (401 otherwise, never a fall-back to the session), rate limited per
- * token and hold the scope the route needs (403 naming it). Role and visibility rules stay those
- * of the account's current role, read fresh on every request.
+ * `Authorization: Bearer qtk_…` on /api (issue 16, item 1). A request with a Bearer Authorization
+ * header is a token request, whatever cookies it also carries: the session is not read (Bearer
+ * wins), the CSRF check does not apply (`isTokenRequest`, used by api/src/http/csrf.ts; a
+ * cross-site page cannot make a browser send this header, and the ambient cookie session is
+ * ignored anyway), and the token must be valid (401 otherwise, never a fall-back to the session),
+ * rate limited per token and hold the scope the route needs (403 naming it). Role and visibility
+ * rules stay those of the account's current role, read fresh on every request.
+ * Other schemes (`Basic`, which browsers resend by themselves behind a password-protected proxy)
+ * are not token requests: they are ignored here and keep the session and the CSRF check.
  */
 import type { Request, RequestHandler } from 'express';
 import { rateLimit } from 'express-rate-limit';
@@ -24,14 +26,14 @@ declare module 'express-serve-static-core' {
   }
 }
 
-/** Whether the request carries an Authorization header, which makes it a token request. */
-export function hasAuthorization(req: Request): boolean {
-  return req.headers.authorization !== undefined;
+/** Whether the request carries `Authorization: Bearer …`, which makes it a token request. */
+export function isTokenRequest(req: Request): boolean {
+  return /^bearer(\s|$)/i.test(req.headers.authorization ?? '');
 }
 
-/** Runs `handler` only for requests without an Authorization header (the session middleware). */
+/** Runs `handler` only for requests that are not token requests (the session middleware). */
 export function unlessToken(handler: RequestHandler): RequestHandler {
-  return (req, res, next) => (hasAuthorization(req) ? next() : handler(req, res, next));
+  return (req, res, next) => (isTokenRequest(req) ? next() : handler(req, res, next));
 }
 
 /** Options of the token rate limit. */
@@ -44,14 +46,14 @@ export interface TokenRateLimit {
 /** The middleware chain that authenticates, rate-limits and scope-checks token requests. */
 export function bearerAuth(tokens: ApiTokensService, rate: TokenRateLimit): RequestHandler[] {
   const authenticate: RequestHandler = (req, res, next) => {
-    if (!hasAuthorization(req)) return next();
+    if (!isTokenRequest(req)) return next();
     const match = /^Bearer +(\S+) *$/i.exec(req.headers.authorization ?? '');
     const refuse = (message: string) => {
       // RFC 6750, section 3: a refused bearer token is answered with this challenge.
       res.setHeader('www-authenticate', 'Bearer realm="quarterturn", error="invalid_token"');
       next(new AppError('UNAUTHENTICATED', 401, message));
     };
-    if (!match) return refuse('The Authorization header must be "Bearer" followed by an API token (qtk_…).');
+    if (!match) return refuse('The Authorization header must be "Bearer" followed by one API token (qtk_…).');
     if (!isSecretShaped(match[1])) return refuse('That is not a Quarterturn API token (qtk_ followed by 43 characters).');
     tokens.authenticate(match[1]).then((principal) => {
       if (!principal) return refuse('The API token is unknown, revoked or expired.');

@@ -15,7 +15,7 @@
 import { createHmac, randomBytes, timingSafeEqual } from 'node:crypto';
 import type { Request, RequestHandler, Response } from 'express';
 import { CSRF_COOKIE, CSRF_HEADER } from '@shared/auth';
-import { hasAuthorization } from '../api-tokens/bearer-auth';
+import { isTokenRequest } from '../api-tokens/bearer-auth';
 import { AppError } from '../errors/app-error';
 import { readCookie } from './cookies';
 
@@ -82,9 +82,9 @@ export function createCsrf(options: CsrfOptions): Csrf {
   };
 
   const protect: RequestHandler = (req, res, next) => {
-    // A token request (Authorization header) uses no cookie, so there is nothing to forge; the
+    // A token request (Authorization: Bearer) uses no cookie, so there is nothing to forge; the
     // token itself is checked by api-tokens/bearer-auth.ts (issue 16, item 1).
-    if (hasAuthorization(req)) {
+    if (isTokenRequest(req)) {
       next();
       return;
     }
