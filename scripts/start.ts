@@ -11,6 +11,7 @@ import { ConfigError, loadConfig } from '../api/src/config';
 import { migrate } from '../api/src/db/migrate';
 import { createSequelize } from '../api/src/db/sequelize';
 import { seedDemo } from '../api/src/demo/seed-demo';
+import { followDemoTrials } from '../api/src/demo/seed-demo-trials';
 import { isDevelopmentMode } from '../api/src/dev/development-mode';
 import { startFakeSmtp } from '../api/src/dev/fake-smtp/fake-smtp-server';
 import { createLogger } from '../api/src/http/logger';
@@ -82,6 +83,9 @@ async function main(): Promise<void> {
       steps.unshift({ name: 'embedded sweep worker', run: () => embedded.stop() });
       logger.info({ threads: embedded.worker.threads }, 'embedded sweep worker running (more workers: npm run worker)');
     }
+    // The demo sweep's results come from the worker after start-up; its invented field trials follow them.
+    const demoTrials = followDemoTrials(databaseUrl, logger);
+    steps.unshift({ name: 'demo field trials', run: () => demoTrials.stop() });
     if (smtp) steps.push({ name: 'fake SMTP server', run: () => smtp.close() });
     if (cluster) {
       const c = cluster;

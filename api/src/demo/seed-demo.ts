@@ -7,6 +7,7 @@ import { defineModels, type Models } from '../db/models';
 import { seedDemoAccounts } from './seed-demo-accounts';
 import { seedDemoInstances } from './seed-demo-instances';
 import { seedDemoResults } from './seed-demo-results';
+import { seedDemoTrials } from './seed-demo-trials';
 import { seedOpenBenchmarks } from './seed-open-benchmarks';
 
 /** What a demo step receives. */
@@ -19,7 +20,7 @@ export interface DemoSeedContext {
 export type DemoSeedStep = (ctx: DemoSeedContext) => Promise<void>;
 
 /** The steps in order (later ones may rely on the accounts). */
-export const DEMO_STEPS: readonly DemoSeedStep[] = [seedDemoAccounts, seedDemoInstances, seedOpenBenchmarks, seedDemoResults];
+export const DEMO_STEPS: readonly DemoSeedStep[] = [seedDemoAccounts, seedDemoInstances, seedOpenBenchmarks, seedDemoResults, seedDemoTrials];
 
 /** Runs every demo step on a migrated database. */
 export async function seedDemo(sequelize: Sequelize): Promise<void> {

@@ -61,16 +61,6 @@ export function createTrialsService(deps: { models: Models; sequelize: Sequelize
     }));
   }
 
-  async function settingsFor(viewer: Viewer, resultId: number, policy: FieldTrialUpload['policy'], jitter: number): Promise<TrialSimulationSettings> {
-    const stored = await loadStoredExecutions(models, viewer, resultId);
-    const row = stored.executions.find((e) => e.settings.policy === policy && e.error === null);
-    if (row) {
-      const s = row.settings;
-      return { policy, runs: Math.max(s.runs, TRIAL_SIMULATION_RUNS), seed: s.seed, noise: s.noise, onCollision: s.onCollision, settingsFrom: 'stored' };
-    }
-    return { policy, runs: TRIAL_SIMULATION_RUNS, seed: 1, noise: { jitterCv: jitter, stallProbability: 0, stallMs: 0 }, onCollision: 'count', settingsFrom: 'default' };
-  }
-
   return {
     async list(viewer, resultId) {
       // Visibility as for the result's plan (404 for results the viewer may not see).
@@ -86,7 +76,7 @@ export function createTrialsService(deps: { models: Models; sequelize: Sequelize
       const inst = stored.loaded.instance;
       let cells = '';
       for (const v of inst.grid.passable) cells += v === 1 ? '1' : '0';
-      const simulation = await settingsFor(viewer, resultId, fields.policy, stored.profile.timingJitter);
+      const simulation = await simulationSettings(models, viewer, resultId, fields.policy, stored.profile.timingJitter);
       const outcome = await check({
         instance: { width: inst.grid.width, height: inst.grid.height, cells, agents: inst.agents },
         plan: { timeline: view.plan.timeline, schedule: view.plan.schedule },
@@ -100,17 +90,7 @@ export function createTrialsService(deps: { models: Models; sequelize: Sequelize
         throw new AppError(outcome.code, outcome.code === 'TRIAL_DIVERGES' ? 422 : 400,
           `${first ? formatTrialLogError(first) : 'the upload'} — the log ${what}; nothing was stored.`, { errors: outcome.errors });
       }
-      const uploadId = await sequelize.transaction(async (transaction) => {
-        const [row] = await sequelize.query<{ id: number }>(
-          `INSERT INTO trial_uploads (result_id, owner_id, policy, notes, simulation)
-           VALUES (:resultId, :ownerId, :policy, :notes, :simulation) RETURNING id`,
-          { type: QueryTypes.SELECT, transaction, replacements: {
-            resultId, ownerId: viewer.id, policy: fields.policy, notes: fields.notes ?? '', simulation: JSON.stringify(outcome.simulation),
-          } },
-        );
-        for (const run of outcome.runs) await insertRun(sequelize, transaction, row.id, resultId, run);
-        return row.id;
-      });
+      const uploadId = await storeUpload(sequelize, { resultId, ownerId: viewer.id, policy: fields.policy, notes: fields.notes ?? '' }, outcome);
       return { resultId, uploads: await uploadsOf(resultId, uploadId), canAttach: true, safetyNote: SAFETY_NOTE };
     },
 
@@ -128,6 +108,39 @@ export function createTrialsService(deps: { models: Models; sequelize: Sequelize
       await sequelize.query('DELETE FROM trial_uploads WHERE id = :uploadId', { replacements: { uploadId } });
     },
   };
+}
+
+/**
+ * The simulation a field upload under `policy` is compared with: the settings of the replay the
+ * sweep stored with the result for that policy (at least TRIAL_SIMULATION_RUNS runs), else the
+ * profile's jitter, no stalls, seed 1.
+ */
+export async function simulationSettings(
+  models: Models, viewer: Viewer, resultId: number, policy: FieldTrialUpload['policy'], jitter: number,
+): Promise<TrialSimulationSettings> {
+  const stored = await loadStoredExecutions(models, viewer, resultId);
+  const row = stored.executions.find((e) => e.settings.policy === policy && e.error === null);
+  if (row) {
+    const s = row.settings;
+    return { policy, runs: Math.max(s.runs, TRIAL_SIMULATION_RUNS), seed: s.seed, noise: s.noise, onCollision: s.onCollision, settingsFrom: 'stored' };
+  }
+  return { policy, runs: TRIAL_SIMULATION_RUNS, seed: 1, noise: { jitterCv: jitter, stallProbability: 0, stallMs: 0 }, onCollision: 'count', settingsFrom: 'default' };
+}
+
+/** Stores a checked upload and every run in one transaction (all or nothing); answers the upload's id. */
+export async function storeUpload(
+  sequelize: Sequelize, upload: { resultId: number; ownerId: number; policy: FieldTrialUpload['policy']; notes: string },
+  outcome: Extract<CheckTrialsOutcome, { kind: 'checked' }>,
+): Promise<number> {
+  return sequelize.transaction(async (transaction) => {
+    const [row] = await sequelize.query<{ id: number }>(
+      `INSERT INTO trial_uploads (result_id, owner_id, policy, notes, simulation)
+       VALUES (:resultId, :ownerId, :policy, :notes, :simulation) RETURNING id`,
+      { type: QueryTypes.SELECT, transaction, replacements: { ...upload, simulation: JSON.stringify(outcome.simulation) } },
+    );
+    for (const run of outcome.runs) await insertRun(sequelize, transaction, row.id, upload.resultId, run);
+    return row.id;
+  });
 }
 
 async function insertRun(sequelize: Sequelize, transaction: Transaction, uploadId: number, resultId: number, run: CheckedRun): Promise<void> {
