@@ -389,6 +389,8 @@ export interface LeaderboardRow {
   readonly resultId?: number;
   /** Entries layout: whether that result holds a plan (solved); time-limit and failed rows have none to replay. */
   readonly hasPlan?: boolean;
+  /** Entries layout: field trial runs attached to that result (issue 17; a count per page row, not a stored column). */
+  readonly fieldRuns?: number;
   /** Entries layout: whether the row's plan is collision-free at nominal times (null: not checked). */
   readonly isExecutableAtNominal?: boolean | null;
   /** Comparison layout: per plan model column id, whether its plan is collision-free at nominal times (null: not checked or no plan). */

@@ -122,6 +122,9 @@ describe('field trials on a stored result', () => {
     const list = (await (await researcher.request(`/api/trials/results/${resultId}`)).json()) as FieldTrialsView;
     expect(list.uploads.map((u) => u.runs.length)).toEqual([1, 1, 3]);
     expect(list.safetyNote).toMatch(/no safety assessment/);
+    // The board's row of the result counts its field runs.
+    const board = (await (await fetch(`${s.url}/api/leaderboards/rows?cols=model&start=0&end=50`)).json()) as { rows: { resultId?: number; fieldRuns?: number }[] };
+    expect(board.rows.find((r) => r.resultId === resultId)?.fieldRuns).toBe(5);
   });
 
   it('refuses a log that departs from the plan at its first divergent row, storing nothing', async () => {

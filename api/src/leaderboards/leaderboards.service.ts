@@ -84,6 +84,7 @@ export function createLeaderboardsService(deps: { readonly sequelize: Sequelize;
         return {
           id: String(r['id']), scenarioId, agents, profileHash, resultId: Number(r['result_id']), cells,
           hasPlan: r['__status'] === 'solved',
+          fieldRuns: Number(r['__field_runs'] ?? 0),
           isExecutableAtNominal: (r['__nominal'] as boolean | null) ?? null,
         };
       });

@@ -10,7 +10,7 @@ import type { GridRow } from './leaderboard-columns';
  */
 export function gridRows(page: LeaderboardPage, view: LeaderboardView): GridRow[] {
   // A row without a plan (time limit, memory, error, infeasible) gets no result id, so no Replay link.
-  if (view.layout !== 'compare') return page.rows.map((r) => ({ ...r.cells, __id: r.id, __resultId: r.hasPlan === false ? undefined : r.resultId }) as GridRow);
+  if (view.layout !== 'compare') return page.rows.map((r) => ({ ...r.cells, __id: r.id, __resultId: r.hasPlan === false ? undefined : r.resultId, ...(r.fieldRuns ? { __fieldRuns: r.fieldRuns } : {}) }) as GridRow);
   const colliding = page.rows.map((r) => Object.entries(r.isExecutableAtNominalByColumn ?? {}).filter(([, ok]) => ok === false).map(([id]) => id));
   const best = bestCells({
     caption: '', columns: page.columns, rows: page.rows.map((r) => page.columns.map((c) => r.cells[c.id] ?? null)),

@@ -5,7 +5,7 @@
 import { wilsonInterval } from '@shared/confidence-interval';
 import { compareColumns, parseView, type LeaderboardPage } from '@shared/leaderboards';
 import { gridRows } from './grid-rows';
-import { cellWithInterval, gridColumns } from './leaderboard-columns';
+import { cellWithInterval, gridColumns, replayColumn } from './leaderboard-columns';
 
 describe('model cells with a 95 % interval', () => {
   it('shows a rate as whole percent with its bounds rounded outwards', () => {
@@ -73,5 +73,26 @@ describe('model cells with a 95 % interval', () => {
     const defs = gridColumns(compareColumns('tiMakespanMs'), []);
     const classic = defs.find((d) => d.colId === 'm_classic');
     expect((classic?.valueFormatter as (p: unknown) => string)({ value: 4000.4, data: {} })).toBe('4,000');
+  });
+});
+
+describe('the replay link of an entries row', () => {
+  const page = (fieldRuns?: number): LeaderboardPage => ({
+    rows: [{ id: '7', scenarioId: 1, agents: 4, profileHash: 'a'.repeat(16), resultId: 12, hasPlan: true, ...(fieldRuns === undefined ? {} : { fieldRuns }), cells: { model: 'classic' } }],
+    rowCount: 1, profiles: {}, columns: [],
+  });
+  const render = (p: LeaderboardPage) => {
+    const [row] = gridRows(p, parseView({ cols: 'model' }));
+    return (replayColumn().cellRenderer as (q: { data?: unknown }) => HTMLAnchorElement)({ data: row });
+  };
+
+  it('counts the field runs attached to the result beside the link', () => {
+    const link = render(page(3));
+    expect(link.getAttribute('href')).toBe('/plans/view?result=12');
+    expect(link.textContent).toBe('Replay · 3 field');
+    expect(link.getAttribute('aria-label')).toBe('Replay result 12; 3 field runs');
+    const plain = render(page(0));
+    expect(plain.textContent).toBe('Replay');
+    expect(render(page()).textContent).toBe('Replay');
   });
 });

@@ -15,6 +15,8 @@ import { middleEllipsisCell } from '../core/middle-ellipsis';
 export type GridRow = Record<string, string | number | null> & {
   readonly __id: string;
   readonly __resultId?: number;
+  /** Entries rows: field trial runs attached to the result (issue 17). */
+  readonly __fieldRuns?: number;
   readonly __best?: string;
   readonly __colliding?: string;
   /** 'yes' when the comparison figure carries 95 % intervals, then in `<column>__lo` / `<column>__hi` (null: not stored). */
@@ -143,12 +145,17 @@ export function gridColumns(columns: readonly LeaderboardColumn[], sort: readonl
  */
 export function replayColumn(): ColDef<GridRow> {
   return {
-    colId: '__replay', headerName: 'Plan', width: 90, pinned: 'left', sortable: false, filter: false, resizable: false,
+    colId: '__replay', headerName: 'Plan', width: 130, pinned: 'left', sortable: false, filter: false, resizable: false,
     cellRenderer: (p: { data?: GridRow }) => {
       const id = p.data?.__resultId;
       if (id === undefined) return '';
+      // Field runs attached to the result show beside the link (its page compares them with the simulation).
+      const field = p.data?.__fieldRuns ?? 0;
+      const runs = `${field} field run${field === 1 ? '' : 's'}`;
       // Enter on the focused cell follows it (core/grid-keyboard.ts).
-      return cellLink(`/plans/view?result=${id}`, 'Replay', `Replay result ${id}`);
+      return field > 0
+        ? cellLink(`/plans/view?result=${id}`, `Replay · ${field} field`, `Replay result ${id}; ${runs}`)
+        : cellLink(`/plans/view?result=${id}`, 'Replay', `Replay result ${id}`);
     },
   };
 }
