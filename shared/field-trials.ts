@@ -6,7 +6,9 @@
  */
 import { z } from 'zod';
 import { EXECUTION_POLICY_NAMES, type ExecutionPolicyName } from './executions-constants';
-import { multiLineText } from './text-field';
+import { multiLineText, singleLineText } from './text-field';
+import type { RobotProfile } from './plan';
+import type { Interval95 } from './confidence-interval';
 import type { TrialLogError } from './trial-log';
 
 /** The multipart field that carries the log files (or zips of them). */
@@ -122,4 +124,54 @@ export interface FieldTrialsView {
 /** details of 400 INVALID_TRIAL_LOG and 422 TRIAL_DIVERGES: every problem, each naming file, line and column. */
 export interface TrialLogErrorDetails {
   readonly errors: readonly TrialLogError[];
+}
+
+/** Where a fitted profile came from: the result and the stored runs whose logs were fitted. */
+export interface ProfileProvenance {
+  readonly kind: 'trial-fit';
+  readonly resultId: number;
+  readonly runs: readonly { readonly id: number; readonly fileName: string }[];
+  /** The stalls the fit found (a profile holds no stalls: give them to a sweep as its noise settings). */
+  readonly stallProbability: number;
+  readonly stallMs: number;
+  readonly fittedAt: string;
+}
+
+/**
+ * 200 of POST /api/trials/results/:resultId/calibration: the fit (values, 95 % intervals, QQ
+ * points, KS distance; solvers/trials/calibrate.ts ProfileFit), the profile it gives (times and
+ * jitter fitted, geometry from the result's profile) and its provenance.
+ */
+export interface TrialCalibrationView {
+  readonly fit: {
+    readonly forwardMs: number | null;
+    readonly quarterTurnMs: number | null;
+    readonly waitMs: number | null;
+    readonly timingJitter: number;
+    readonly stallProbability: number;
+    readonly stallMs: number;
+    readonly actions: { readonly forward: number; readonly turn: number; readonly wait: number };
+    readonly ci95: Readonly<Record<'forwardMs' | 'quarterTurnMs' | 'waitMs' | 'timingJitter' | 'stallProbability' | 'stallMs', Interval95 | null>>;
+    readonly goodnessOfFit: { readonly qq: readonly { readonly theoretical: number; readonly observed: number }[]; readonly ksDistance: number };
+  };
+  readonly profile: RobotProfile;
+  readonly provenance: ProfileProvenance;
+}
+
+/** POST /api/robot-profiles: a fitted profile saved under a name (the server rebuilds the provenance from `runIds`). */
+export const SaveRobotProfileRequest = z.strictObject({
+  name: singleLineText().min(1).max(100),
+  resultId: z.number().int().positive(),
+  runIds: z.array(z.number().int().positive()).min(1).max(TRIAL_UPLOAD_LIMITS.maxRuns * 10),
+});
+export type SaveRobotProfileRequest = z.infer<typeof SaveRobotProfileRequest>;
+
+/** A named robot profile (GET /api/robot-profiles, 201 of the POST). */
+export interface NamedRobotProfile {
+  readonly id: number;
+  readonly name: string;
+  readonly owner: string;
+  readonly profile: RobotProfile;
+  readonly provenance: ProfileProvenance;
+  readonly createdAt: string;
 }

@@ -33,6 +33,8 @@ export function apiRouter(ctx: AppContext): Router {
   r.use('/executions', executionsFeature(ctx));
   r.use(leaderboardsFeature(ctx));
   r.use('/reports', reportsFeature(ctx));
-  r.use('/trials', trialsFeature(ctx));
+  const trials = trialsFeature(ctx);
+  r.use('/trials', trials.trials);
+  r.use('/robot-profiles', trials.robotProfiles);
   return r;
 }

@@ -10,7 +10,7 @@
 import pino from 'pino';
 import request from 'supertest';
 import { CSRF_HEADER } from '@shared/auth';
-import type { FieldTrialsView } from '@shared/field-trials';
+import type { FieldTrialsView, NamedRobotProfile, TrialCalibrationView } from '@shared/field-trials';
 import type { ResultPlanView } from '@shared/result-plan-view';
 import { parseTrialLog, TRIAL_LOG_FORMAT, TRIAL_LOG_VERSION } from '@shared/trial-log';
 import { compareTrialToPlan } from '@solvers/trials/compare-to-plan';
@@ -195,6 +195,37 @@ describe('field trials on a stored result', () => {
     } finally {
       await s.sql("UPDATE instance_sets SET visibility = 'public' WHERE id = :id", { id: setId });
     }
+  });
+
+  it('fits a profile to the runs, saves it under a name with its provenance and lists it for its owner and curators', async () => {
+    const runs = await s.sql<{ id: number; file_name: string }>("SELECT id, file_name FROM trial_runs WHERE file_name LIKE '%bay-3%' ORDER BY id");
+    expect(runs).toHaveLength(5);
+    const runIds = runs.map((r) => r.id);
+    const fitted = await researcher.request(`/api/trials/results/${resultId}/calibration`, { method: 'POST', body: JSON.stringify({ runIds }) });
+    expect(fitted.status).toBe(200);
+    const calibration = (await fitted.json()) as TrialCalibrationView;
+    // Logs drawn with the sweep's profile (forward 1000 ms) and jitter 0.1: the fit lands near both (invented tolerance for ~100 actions).
+    expect(calibration.fit.forwardMs!).toBeGreaterThan(900);
+    expect(calibration.fit.forwardMs!).toBeLessThan(1100);
+    expect(calibration.fit.ci95.forwardMs![0]).toBeLessThan(calibration.fit.forwardMs!);
+    expect(calibration.fit.goodnessOfFit.qq.length).toBeGreaterThan(10);
+    expect(calibration.profile).toMatchObject({ forwardMs: Math.round(calibration.fit.forwardMs!), cellPitchMm: 500, robotDiameterMm: 350 });
+    expect(calibration.provenance.runs).toEqual(runs.map((r) => ({ id: r.id, fileName: r.file_name })));
+
+    const saved = await researcher.request('/api/robot-profiles', { method: 'POST', body: JSON.stringify({ name: 'Floor B two-wheel', resultId, runIds }) });
+    expect(saved.status).toBe(201);
+    const profile = (await saved.json()) as NamedRobotProfile;
+    expect(profile).toMatchObject({ name: 'Floor B two-wheel', owner: RESEARCHER, profile: calibration.profile });
+    expect(profile.provenance).toMatchObject({ kind: 'trial-fit', resultId, runs: calibration.provenance.runs });
+    const again = await researcher.request('/api/robot-profiles', { method: 'POST', body: JSON.stringify({ name: 'Floor B two-wheel', resultId, runIds }) });
+    expect(again.status).toBe(409);
+    const unknownRun = await researcher.request('/api/robot-profiles', { method: 'POST', body: JSON.stringify({ name: 'other', resultId, runIds: [999_999] }) });
+    expect(unknownRun.status).toBe(400);
+    const names = async (c: SignedInClient) => ((await (await c.request('/api/robot-profiles')).json()) as NamedRobotProfile[]).map((p) => p.name);
+    expect(await names(researcher)).toEqual(['Floor B two-wheel']);
+    expect(await names(s.client)).toEqual(['Floor B two-wheel']);
+    expect(await names(await signInAs(s.url, 'ilse-marchetti'))).toEqual([]);
+    expect((await fetch(`${s.url}/api/robot-profiles`)).status).toBe(401);
   });
 
   it('lets the uploader delete an upload, and refuses another researcher', async () => {

@@ -13,7 +13,7 @@ import { CreateApiTokenRequest } from '@shared/api-tokens';
 import { PLAN_DOWNLOAD_FORMATS } from '@shared/result-plan-view';
 import { InstanceExecutionRequestSchema, ResultExecutionRequestSchema } from '@shared/executions';
 import { EXPORT_FORMATS } from '@shared/exports-table';
-import { TrialUploadFields } from '@shared/field-trials';
+import { SaveRobotProfileRequest, TrialUploadFields } from '@shared/field-trials';
 import { PUBLISHED_SCHEMAS } from '@shared/help';
 import { CreateInstanceSetRequest, GenerateInstancesRequest, InstanceSetListQuery, UpdateInstanceSetRequest } from '@shared/instance-sets';
 import { BEST_AMONG, LEADERBOARD_POLICIES } from '@shared/leaderboards';
@@ -22,6 +22,7 @@ import { REPORT_FORMATS, REPORT_POLICIES } from '@shared/reports';
 import { ChangeQuotaRequest } from '@shared/storage-quota';
 import { SweepDefinitionSchema } from '@shared/sweeps';
 import { ProfilesQuery } from '../submissions/instance-profiles';
+import { CalibrationRequest } from '../trials/trials.router';
 import { AccountSchema, ApiTokenViewSchema, documented, HealthResponseSchema, MeResponseSchema } from './response-schemas';
 
 /** A request or response body: its schema, media type and, for requests, an example that passes the schema. */
@@ -218,6 +219,17 @@ export const API_ROUTES: readonly ApiRoute[] = [
       contentType: 'multipart/form-data',
     },
     response: { status: 201, description: 'The stored upload', ...json('FieldTrialsView', 'shared/field-trials.ts') },
+  },
+  {
+    method: 'post', path: '/api/trials/results/{resultId}/calibration', tag: 'field trials', summary: "Fit a robot profile to a result's field runs", role: 'researcher', params: resultId,
+    body: { schema: CalibrationRequest, example: { runIds: [3, 4, 5] } },
+    response: { status: 200, description: 'The fit, the profile it gives and its provenance', ...json('TrialCalibrationView', 'shared/field-trials.ts') },
+  },
+  { method: 'get', path: '/api/robot-profiles', tag: 'field trials', summary: 'Named robot profiles (yours; every one for maintainers and admins)', role: 'researcher', response: { status: 200, description: 'Profiles', ...json('NamedRobotProfile[]', 'shared/field-trials.ts') } },
+  {
+    method: 'post', path: '/api/robot-profiles', tag: 'field trials', summary: 'Save a profile fitted from field runs under a name', role: 'researcher',
+    body: { schema: SaveRobotProfileRequest, example: { name: 'Floor B two-wheel robots', resultId: 42, runIds: [3, 4, 5] } },
+    response: { status: 201, description: 'The saved profile', ...json('NamedRobotProfile', 'shared/field-trials.ts') },
   },
   { method: 'delete', path: '/api/trials/uploads/{id}', tag: 'field trials', summary: 'Delete an upload of field trial runs', role: 'researcher', params: id, response: { status: 204, description: 'Deleted' } },
 

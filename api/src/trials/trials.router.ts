@@ -12,10 +12,13 @@ import { requireRole, requireUser } from '../auth/require-role';
 import { validate } from '../errors/validate';
 import { asClientError, limitRequestBytes } from '../instance-sets/upload-middleware';
 import type { UploadGate } from '../instance-sets/upload-gate';
+import type { RobotProfilesService } from './robot-profiles.service';
 import type { TrialsService } from './trials.service';
 
 const ResultIdParam = z.object({ resultId: z.coerce.number().int().positive().max(2_147_483_647) });
 const IdParam = z.object({ id: z.coerce.number().int().positive().max(2_147_483_647) });
+/** POST /api/trials/results/:resultId/calibration: which runs to fit (default every run of the result). */
+export const CalibrationRequest = z.strictObject({ runIds: z.array(z.number().int().positive()).min(1).max(2000).optional() });
 
 /** Multer's memory storage for trial uploads: the files plus the two text fields. */
 function trialFiles(): RequestHandler[] {
@@ -35,7 +38,7 @@ function trialFiles(): RequestHandler[] {
 }
 
 /** The trials routes over the service. */
-export function trialsRouter(svc: TrialsService, uploads: UploadGate): Router {
+export function trialsRouter(svc: TrialsService, profiles: RobotProfilesService, uploads: UploadGate): Router {
   const r = Router();
   r.get('/results/:resultId', async (req, res) => {
     const { resultId } = validate(ResultIdParam, req.params);
@@ -62,10 +65,28 @@ export function trialsRouter(svc: TrialsService, uploads: UploadGate): Router {
       res.status(201).json(await svc.upload(requireUser(req), resultId, { ...req.body }, files, gone.signal));
     },
   );
+  r.post('/results/:resultId/calibration', requireRole('researcher'), async (req, res) => {
+    const { resultId } = validate(ResultIdParam, req.params);
+    const { runIds } = validate(CalibrationRequest, req.body ?? {});
+    res.json(await profiles.calibrate(requireUser(req), resultId, runIds ?? null));
+  });
   r.delete('/uploads/:id', requireRole('researcher'), async (req, res) => {
     const { id } = validate(IdParam, req.params);
     await svc.remove(requireUser(req), id);
     res.status(204).end();
+  });
+  return r;
+}
+
+/** Routes under /api/robot-profiles: named profiles fitted from field runs (list; save a fit under a name). */
+export function robotProfilesRouter(profiles: RobotProfilesService): Router {
+  const r = Router();
+  r.use(requireRole('researcher'));
+  r.get('/', async (req, res) => {
+    res.json(await profiles.list(requireUser(req)));
+  });
+  r.post('/', async (req, res) => {
+    res.status(201).json(await profiles.save(requireUser(req), req.body));
   });
   return r;
 }

@@ -21,6 +21,8 @@ import { readSolverBuild } from './machine-info';
 import { PlanPool, type PoolOutcome, type PoolRunOptions } from './plan-pool';
 import type { MapRequest, ThreadJob, ThreadResults } from './thread-job';
 import type { CheckTrialsJob, CheckTrialsOutcome } from '../trials/check-trials';
+import type { StoredLogText } from '../trials/calibrate-trials';
+import type { CalibrationResult } from '@solvers/trials/calibrate';
 
 /** Error codes of the interactive pool (HTTP 503: the request may be retried later). */
 export const INTERACTIVE_ERROR_CODES = {
@@ -149,6 +151,11 @@ export class InteractivePool {
   /** Parses field trial logs (and zips of them), checks each against its plan and simulates the plan for comparison, in a thread. */
   checkTrials(job: CheckTrialsJob, requester: string, signal?: AbortSignal): Promise<CheckTrialsOutcome> {
     return this.run({ kind: 'check-trials', job }, 'the trial check', requester, signal);
+  }
+
+  /** Fits a robot profile to stored trial logs, in a thread. */
+  calibrateTrials(logs: readonly StoredLogText[], requester: string, signal?: AbortSignal): Promise<CalibrationResult> {
+    return this.run({ kind: 'calibrate-trials', logs }, 'the profile fit', requester, signal);
   }
 
   /** Terminates the threads; later jobs fail. */

@@ -16,6 +16,7 @@ import {
 } from '../instance-sets/prepare-upload';
 import { checkPlan } from '../submissions/check-plan';
 import { checkTrials } from '../trials/check-trials';
+import { fitTrialLogs } from '../trials/calibrate-trials';
 import type { MapRequest, ThreadAnswer, ThreadEnvelope } from './thread-job';
 
 /** Runs the envelope's job (the pool terminates the thread on the hard time limit or a cancel). */
@@ -31,6 +32,7 @@ export default function planThread(envelope: ThreadEnvelope): ThreadAnswer | Pro
       case 'check-plan': return { ok: true, value: checkPlan(job.instance, job.submission) };
       case 'prepare-upload': return prepareInThread(job.upload, job.maps);
       case 'check-trials': return checkTrials(job.job).then((value) => ({ ok: true, value }));
+      case 'calibrate-trials': return { ok: true, value: fitTrialLogs(job.logs) };
       case 'ping': return { ok: true, value: 'pong' };
     }
   } catch (err) {

@@ -14,6 +14,8 @@ import type { MapfInstance } from '@solvers/instance';
 import type { PlanVerdict } from '../submissions/check-plan';
 import type { ReadSubmission } from '../submissions/read-plan-file';
 import type { CheckTrialsJob, CheckTrialsOutcome } from '../trials/check-trials';
+import type { StoredLogText } from '../trials/calibrate-trials';
+import type { CalibrationResult } from '@solvers/trials/calibrate';
 
 /** One job for a pool thread. */
 export type ThreadJob =
@@ -24,6 +26,7 @@ export type ThreadJob =
   /** `maps` answers the thread's requests for stored maps of the set (see MapRequest). */
   | { readonly kind: 'prepare-upload'; readonly upload: PrepareUploadJob; readonly maps: MessagePort }
   | { readonly kind: 'check-trials'; readonly job: CheckTrialsJob }
+  | { readonly kind: 'calibrate-trials'; readonly logs: readonly StoredLogText[] }
   | { readonly kind: 'ping' };
 
 /** A generated file as it comes back from a thread (a Buffer arrives as a plain Uint8Array). */
@@ -40,6 +43,7 @@ export interface ThreadResults {
   readonly 'check-plan': PlanVerdict;
   readonly 'prepare-upload': PreparedUpload;
   readonly 'check-trials': CheckTrialsOutcome;
+  readonly 'calibrate-trials': CalibrationResult;
   readonly ping: 'pong';
 }
 
