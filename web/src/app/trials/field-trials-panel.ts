@@ -18,6 +18,7 @@ import { errorMessage } from '../core/error-message';
 import {
   delaysText, durationChart, makespanChart, outsideText, problemLines, rangeText, seconds,
 } from './field-trials-figures';
+import { ProfileFit } from './profile-fit';
 import { TrialRangeChart } from './trial-range-chart';
 import { TrialsApi } from './trials-api';
 
@@ -27,7 +28,7 @@ const CHART_WIDTH = 420;
   selector: 'app-field-trials-panel',
   templateUrl: './field-trials-panel.html',
   styleUrl: './field-trials-panel.scss',
-  imports: [FormsModule, MatButtonModule, MatFormFieldModule, MatInputModule, MatSelectModule, TrialRangeChart],
+  imports: [FormsModule, MatButtonModule, MatFormFieldModule, MatInputModule, MatSelectModule, TrialRangeChart, ProfileFit],
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class FieldTrialsPanel {
@@ -61,6 +62,9 @@ export class FieldTrialsPanel {
   }
   protected durationChart(u: FieldTrialUpload) {
     return durationChart(u, CHART_WIDTH);
+  }
+  protected runCount(v: FieldTrialsView): number {
+    return v.uploads.reduce((n, u) => n + u.runs.length, 0);
   }
   protected successText(u: FieldTrialUpload): string {
     const ok = u.runs.filter((r) => r.isSuccess).length;
