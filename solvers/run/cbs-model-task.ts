@@ -51,14 +51,16 @@ export function runCbsModelTask(task: PlanTask, instance: MapfInstance, limits: 
   }
   if (out.status !== 'solved') return { ...base, status: out.status, reason: out.reason, lowerBound: out.lowerBound };
   const verdict = check();
+  // A refused plan's search has just shown itself wrong: its lower bound is not stored either, so it never
+  // marks another result of the instance proven optimal on the board (the best bound is taken over all runs).
   if (!verdict.ok) {
-    return { ...base, status: 'error', reason: `the solver's plan failed the ${spec.model} validator: ${verdict.violation?.message ?? 'unknown violation'}`, lowerBound: out.lowerBound };
+    return { ...base, status: 'error', reason: `the solver's plan failed the ${spec.model} validator: ${verdict.violation?.message ?? 'unknown violation'}`, lowerBound: null };
   }
   if (verdict.soc !== out.soc) {
-    return { ...base, status: 'error', reason: `the solver reported sum-of-costs ${out.soc} but the validator recomputed ${verdict.soc}`, lowerBound: out.lowerBound };
+    return { ...base, status: 'error', reason: `the solver reported sum-of-costs ${out.soc} but the validator recomputed ${verdict.soc}`, lowerBound: null };
   }
   const outOfBound = boundViolation(verdict.soc, out.lowerBound, common.suboptimality);
-  if (outOfBound !== null) return { ...base, status: 'error', reason: outOfBound, lowerBound: out.lowerBound };
+  if (outOfBound !== null) return { ...base, status: 'error', reason: outOfBound, lowerBound: null };
   const schedule: Schedule = out.schedule;
   const executions = replayPlan(instance, { timeline: 'steps', schedule }, task.profile, task.execution, task.seed, limits.signal);
   return {

@@ -41,14 +41,16 @@ export function runUnitStepTask(task: PlanTask, instance: MapfInstance, limits: 
   if (out.status !== 'solved') return { ...base, status: out.status, reason: out.reason, lowerBound: out.lowerBound };
 
   const check = validateClassicPlan(instance, out.paths, { following });
+  // A refused plan's search has just shown itself wrong: its lower bound is not stored either, so it never
+  // marks another result of the instance proven optimal on the board (the best bound is taken over all runs).
   if (!check.ok) {
-    return { ...base, status: 'error', reason: `the solver's plan failed the classic validator: ${check.violation?.message ?? 'unknown violation'}`, lowerBound: out.lowerBound };
+    return { ...base, status: 'error', reason: `the solver's plan failed the classic validator: ${check.violation?.message ?? 'unknown violation'}`, lowerBound: null };
   }
   if (check.soc !== out.soc) {
-    return { ...base, status: 'error', reason: `the solver reported sum-of-costs ${out.soc} but the validator recomputed ${check.soc}`, lowerBound: out.lowerBound };
+    return { ...base, status: 'error', reason: `the solver reported sum-of-costs ${out.soc} but the validator recomputed ${check.soc}`, lowerBound: null };
   }
   const outOfBound = boundViolation(check.soc, out.lowerBound, w);
-  if (outOfBound !== null) return { ...base, status: 'error', reason: outOfBound, lowerBound: out.lowerBound };
+  if (outOfBound !== null) return { ...base, status: 'error', reason: outOfBound, lowerBound: null };
   const turned = scheduleFromPaths(instance, out.paths, task.profile, {
     startHeading: spec.startHeading,
     stretch: spec.model === 'uniform-duration' ? 'uniform' : 'none',

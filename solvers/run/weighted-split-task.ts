@@ -34,14 +34,16 @@ export function runWeightedSplitTask(task: PlanTask, instance: MapfInstance, lim
   if (out.status === 'infeasible') return { ...base, status: 'infeasible', reason: out.infeasibleReason ?? 'no plan exists', lowerBound: null };
 
   const check = validateSchedule(instance, out.schedule, task.profile, { startHeading: spec.startHeading });
+  // A refused plan's search has just shown itself wrong: its lower bound is not stored either, so it never
+  // marks another result of the instance proven optimal on the board (the best bound is taken over all runs).
   if (!check.ok) {
-    return { ...base, status: 'error', reason: `the solver's schedule failed the schedule validator: ${check.violation?.message ?? 'unknown violation'}`, lowerBound: out.lowerBoundMs };
+    return { ...base, status: 'error', reason: `the solver's schedule failed the schedule validator: ${check.violation?.message ?? 'unknown violation'}`, lowerBound: null };
   }
   if (check.soc !== out.socMs) {
-    return { ...base, status: 'error', reason: `the solver reported sum-of-costs ${out.socMs} ms but the validator recomputed ${check.soc} ms`, lowerBound: out.lowerBoundMs };
+    return { ...base, status: 'error', reason: `the solver reported sum-of-costs ${out.socMs} ms but the validator recomputed ${check.soc} ms`, lowerBound: null };
   }
   const outOfBound = boundViolation(check.soc, out.lowerBoundMs, w);
-  if (outOfBound !== null) return { ...base, status: 'error', reason: outOfBound, lowerBound: out.lowerBoundMs };
+  if (outOfBound !== null) return { ...base, status: 'error', reason: outOfBound, lowerBound: null };
   const executions = replayPlan(instance, { timeline: 'ms', schedule: out.schedule }, task.profile, task.execution, task.seed, limits.signal);
   return {
     ...base,
