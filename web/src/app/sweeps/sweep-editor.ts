@@ -25,6 +25,7 @@ import {
   definitionFromForm, FORM_MODELS, FORM_POLICIES, FORM_SWITCHES, SUBOPTIMALITY_HINT, SWEEP_FORM_DEFAULTS, takesFollowingRule, type SweepFormValue,
 } from './sweep-form-rules';
 import { MiddleEllipsisPipe } from '../core/middle-ellipsis.pipe';
+import { TrialsApi } from '../trials/trials-api';
 
 /** The sweep form. */
 @Component({
@@ -38,6 +39,8 @@ export default class SweepEditor {
   private readonly api = inject(SweepApi);
   private readonly sets = inject(InstanceSetApi);
   private readonly router = inject(Router);
+  /** Named robot profiles fitted from field runs (issue 17): presets that fill the profile fields and the stalls. */
+  protected readonly namedProfiles = toSignal(inject(TrialsApi).profiles().pipe(catchError(() => of([]))), { initialValue: [] });
   protected readonly models = FORM_MODELS;
   protected readonly switches = FORM_SWITCHES;
   /** Label and explanation of each CBS switch (shared/sweeps.ts); the identifiers stay the form values. */
@@ -88,6 +91,17 @@ export default class SweepEditor {
   constructor() {
     // A new set means new scenarios: the previous choice no longer applies.
     this.form.controls.instanceSetId.valueChanges.pipe(takeUntilDestroyed()).subscribe(() => this.form.controls.scenarioIds.setValue([]));
+  }
+
+  /** Fills the profile fields (and the stalls the fit found) from named profile `id`. */
+  protected useNamedProfile(id: number): void {
+    const named = this.namedProfiles().find((p) => p.id === id);
+    if (!named) return;
+    const { forwardMs, quarterTurnMs, waitMs, cellPitchMm, robotDiameterMm, timingJitter } = named.profile;
+    this.form.patchValue({
+      forwardMs, quarterTurnMs, waitMs, cellPitchMm, robotDiameterMm, timingJitter,
+      stallProbability: named.provenance.stallProbability, stallMs: named.provenance.stallMs,
+    });
   }
 
   /** Sets the Monte Carlo runs to what the wanted interval width needs. */
