@@ -13,6 +13,7 @@ import { DEMO_SWEEP_NAME } from '../../api/src/demo/seed-demo-results';
 import { ensureWebBuild } from '../../scripts/web-build';
 import { createTestDatabase, type TestDatabase } from '../support/test-database';
 import { ROOT, spawnWorker, startSweepServer, waitForSweep, workerReady, type SweepServer, type WorkerProcess } from '../reliability/support/sweep-harness';
+import { axeViolations, describeFindings } from './support/axe';
 import { launchBrowser, type E2eBrowser } from './support/browser';
 import { demoIdentity, signInThroughUi } from './support/sign-in';
 
@@ -161,7 +162,7 @@ describe('the seeded demo board, as a visitor', () => {
     expect(consoleProblems.filter((m) => /ResizeObserver/.test(m))).toEqual([]);
   });
 
-  it('shows every page to a visitor and to an admin without a console error or warning', async () => {
+  it('shows every page to a visitor and to an admin without a console error or warning, and axe finds no WCAG 2.1 A/AA violation (issue 18)', async () => {
     const [set] = await s.sql<{ id: number; name: string }>("SELECT id, name FROM instance_sets WHERE visibility = 'public' ORDER BY id LIMIT 1");
     const [map] = await s.sql<{ id: number; name: string }>('SELECT id, name FROM maps WHERE instance_set_id = :set ORDER BY id LIMIT 1', { set: set.id });
     const [result] = await s.sql<{ id: number }>("SELECT id FROM results WHERE status = 'solved' ORDER BY id LIMIT 1");
@@ -186,12 +187,22 @@ describe('the seeded demo board, as a visitor', () => {
       ['/admin', 'Accounts'],
     ];
     let visited = 0;
-    for (const [path, heading] of visitorPages) { await visit(path, heading); visited += 1; }
+    let audited = 0;
+    const axeProblems: string[] = [];
+    const tour = async (path: string, heading: RegExp | string) => {
+      await visit(path, heading);
+      visited += 1;
+      axeProblems.push(...describeFindings(path, await axeViolations(page)));
+      audited += 1;
+    };
+    for (const [path, heading] of visitorPages) await tour(path, heading);
     await signInThroughUi(page, s.url, demoIdentity('admin'));
-    for (const [path, heading] of [...visitorPages, ...adminPages]) { await visit(path, heading); visited += 1; }
+    for (const [path, heading] of [...visitorPages, ...adminPages]) await tour(path, heading);
     expect(visited).toBe(2 * visitorPages.length + adminPages.length);
+    expect(audited).toBe(visited);
     expect(consoleProblems).toEqual([]);
-  });
+    expect(axeProblems).toEqual([]);
+  }, 240_000);
 
   it('raised no script error', () => {
     expect(pageErrors).toEqual([]);

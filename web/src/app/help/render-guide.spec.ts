@@ -11,6 +11,12 @@ describe('renderGuide', () => {
     expect(guide.html).toContain('<code>type octile</code>');
   });
 
+  it('makes a code block a tab stop, so a keyboard can scroll a wide one, and escapes its text', () => {
+    const guide = renderGuide('Run it:\n\n```bash\nnpm run solve -- --map a<b>.map\n```\n');
+
+    expect(guide.html).toContain('<pre tabindex="0"><code class="language-bash">npm run solve -- --map a&lt;b&gt;.map\n</code></pre>');
+  });
+
   it('points repository schema files and local app pages at this app', () => {
     const { html } = renderGuide('[plan](shared/plan-format.schema.json) and [boards](http://127.0.0.1:4300/leaderboards)');
 

@@ -3,6 +3,8 @@
  * sanitiser (which still cleans the result when it is bound with [innerHTML]): raw HTML in the
  * Markdown is shown as text, images are shown as their alt text, and links go through
  * `appHrefOf`, so repository paths become app URLs or plain text and no other scheme survives.
+ * Code blocks are tab stops (tabindex 0): a block wider than the page scrolls sideways, and
+ * without focus a keyboard could not scroll it (axe rule scrollable-region-focusable).
  */
 import { Marked, type Tokens } from 'marked';
 import { appHrefOf } from '@shared/help';
@@ -29,6 +31,11 @@ const marked = new Marked({
   renderer: {
     html: ({ text }: Tokens.HTML | Tokens.Tag) => escapeHtml(text),
     image: ({ text }: Tokens.Image) => escapeHtml(text),
+    code: ({ text, lang, escaped }: Tokens.Code) => {
+      const language = lang?.match(/^\S+/)?.[0];
+      const body = `${(escaped ? text : escapeHtml(text)).replace(/\n$/, '')}\n`;
+      return `<pre tabindex="0"><code${language ? ` class="language-${escapeHtml(language)}"` : ''}>${body}</code></pre>\n`;
+    },
     link(this: { parser: { parseInline(tokens: Tokens.Link['tokens']): string } }, { href, title, tokens }: Tokens.Link) {
       const inner = this.parser.parseInline(tokens);
       const target = appHrefOf(href);
