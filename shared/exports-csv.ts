@@ -26,18 +26,19 @@ export function csvField(value: ExportCell, kind: ColumnKind = 'text'): string {
   let text = typeof value === 'number' ? String(value) : value;
   const isNumber = typeof value === 'number' || (kind === 'number' && NUMBER_TEXT.test(text));
   if (!isNumber && FORMULA_START.test(text)) text = `'${text}`;
-  return /[",\r\n]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text;
+  // Quoted also at a semicolon: spreadsheets in locales that list with semicolons split there.
+  return /[",;\r\n]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text;
 }
 
 /**
  * A `#` comment line (not part of RFC 4180; readers skip it when told, e.g. pandas
  * `read_csv(comment='#')`, R `read.csv(comment.char = '#')`). Line breaks and control characters
  * are folded to spaces, so a name cannot end the line early. A spreadsheet that opens the file
- * splits the line at commas, so a piece starting with a formula character or a quote gets a
- * leading single quote, as cells do (OWASP, as above).
+ * splits the line at commas (at semicolons where the locale lists with them), so a piece starting
+ * with a formula character or a quote gets a leading single quote, as cells do (OWASP, as above).
  */
 export function csvComment(text: string): string {
-  return `# ${foldControlCharacters(text)}`.replace(/,(?=[=+\-@"])/g, ",'");
+  return `# ${foldControlCharacters(text)}`.replace(/[,;\t](?=[=+\-@"])/g, "$&'");
 }
 
 /**

@@ -51,7 +51,7 @@ const hostileProvenance: ExportProvenance = {
   seeds: [1, 2],
   profiles: [{ hash: '0123456789abcdef', label: 'fwd\n# smuggled,=HYPERLINK("x") --> <img src=x onerror=alert(1)>', parameters: { forwardMs: 1 } }],
   maps: [{ set: 'set\r\n\\input{/etc/passwd}\n--><script>x</script>', name: 'm,@SUM(A1),"q', sha256: 'a'.repeat(64) }],
-  scenarios: [{ set: 'end --!> <!-- again', name: '\u2028\\end{document}', sha256: 'b'.repeat(64) }],
+  scenarios: [{ set: 'end --!> <!-- again', name: '\u2028\\end{document}', sha256: 'b'.repeat(64) }, { set: 'semi', name: 'a;=1+1;@x', sha256: 'c'.repeat(64) }],
 };
 const withProvenance: ExportTable = { ...hostileTable, provenance: hostileProvenance, caution: 'Careful\n-->\n=1+1' };
 
@@ -69,6 +69,8 @@ describe('CSV formula injection', () => {
     ['\tx', "'\tx"],
     ['\rx', '"\'\rx"'],
     ['=1,2', '"\'=1,2"'],
+    // Where a spreadsheet's locale lists with semicolons it splits there: quoted, so "=1+1" stays inside the cell.
+    ['a;=1+1', '"a;=1+1"'],
   ])('neutralises the text cell %j', (text, field) => {
     expect(csvField(text)).toBe(field);
   });
@@ -104,7 +106,7 @@ describe('provenance injection', () => {
     const lines = toCsv(withProvenance).split('\r\n');
     expect(lines.slice(0, commentCount).every((l) => l.startsWith('# '))).toBe(true);
     expect(lines[commentCount]).toBe('Map,Solver,Sum-of-costs');
-    for (const l of lines.slice(0, commentCount)) for (const piece of l.split(',').slice(1)) expect(piece).not.toMatch(/^[=+\-@"\t\r]/);
+    for (const l of lines.slice(0, commentCount)) for (const piece of l.split(/[,;]/).slice(1)) expect(piece).not.toMatch(/^[=+\-@"\t\r]/);
     expect(lines).toContain('# robot profile 0123456789abcdef: fwd # smuggled,\'=HYPERLINK("x") --> <img src=x onerror=alert(1)> (forwardMs=1)');
   });
 

@@ -40,6 +40,8 @@ export interface ExportProvenance {
   readonly profiles: readonly ProvenanceProfile[];
   readonly maps: readonly ProvenanceFile[];
   readonly scenarios: readonly ProvenanceFile[];
+  /** What a reader must know about figures that come from other results than the listed ones. */
+  readonly notes?: readonly string[];
 }
 
 /** A list as text: comma-separated, or "none". */
@@ -64,6 +66,7 @@ export function provenanceEntries(p: ExportProvenance): readonly (readonly [key:
     ]),
     ...p.maps.map((f): [string, string] => [`map ${f.set} / ${f.name}`, `sha256 ${f.sha256}`]),
     ...p.scenarios.map((f): [string, string] => [`scenario ${f.set} / ${f.name}`, `sha256 ${f.sha256}`]),
+    ...(p.notes ?? []).map((n): [string, string] => ['note', n]),
   ];
   return entries.map(([k, v]) => [foldControlCharacters(k), foldControlCharacters(v)] as const);
 }

@@ -48,11 +48,20 @@ export function exportTable(view: LeaderboardView, page: LeaderboardPage, proven
 
 /** The file text of `page` in `format`, with the provenance of its results when given. */
 export function buildExport(format: ExportFormat, view: LeaderboardView, page: LeaderboardPage, provenance?: ExportProvenance): string {
-  const table = exportTable(view, page, provenance);
+  const table = exportTable(view, page, withBoundNote(view, provenance));
   switch (format) {
     case 'csv': return toCsv(table);
     case 'latex': return toLatex(table);
     case 'markdown': return toMarkdown(table);
     case 'json': return toJsonExport(table);
   }
+}
+
+/** Said in the provenance when a lower bound, gap or optimality is exported: that bound may come from another run. */
+export const BOUND_SOURCE_NOTE = 'lower bound, gap and optimality use the largest lower bound proven by any sweep run of the same instance, plan model variant and robot profile, which may be a run other than the results listed here';
+
+/** `provenance` with BOUND_SOURCE_NOTE when the view shows a lower bound, gap or optimality column. */
+function withBoundNote(view: LeaderboardView, provenance: ExportProvenance | undefined): ExportProvenance | undefined {
+  if (!provenance || view.layout !== 'entries' || !view.columns.some((id) => /^(lowerBound|gap$|optimality$)/.test(id))) return provenance;
+  return { ...provenance, notes: [...(provenance.notes ?? []), BOUND_SOURCE_NOTE] };
 }

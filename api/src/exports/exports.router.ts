@@ -11,7 +11,7 @@ import { attachmentDisposition } from '../http/content-disposition';
 import type { LeaderboardsService } from '../leaderboards/leaderboards.service';
 import { flatQuery, scopeOf, viewOf, windowOf } from '../leaderboards/view-request';
 import { MAX_LATEX_CELLS } from '@shared/exports-latex';
-import { buildExport } from './build-export';
+import { buildExport, exportTable } from './build-export';
 import { withPaperColumns } from './paper-columns';
 import { exportedResults, type ProvenanceReader } from './export-provenance';
 
@@ -42,9 +42,11 @@ export function exportsRouter(boards: LeaderboardsService, provenanceOf: Provena
     if (!hasWindow && page.rowCount > MAX_EXPORT_ROWS) {
       throw new AppError('VALIDATION_FAILED', 400, `This view has ${page.rowCount} rows; exports hold at most ${MAX_EXPORT_ROWS}. Narrow it with a filter or pass start and end.`, [{ param: 'format' }]);
     }
-    const cells = page.rows.length * page.columns.length;
+    // The columns as written: exportTable adds a Robot profile column when the rows mix profiles.
+    const columnCount = exportTable(view, page).columns.length;
+    const cells = page.rows.length * columnCount;
     if (format === 'latex' && cells > MAX_LATEX_CELLS) {
-      throw new AppError('VALIDATION_FAILED', 400, `This LaTeX table would hold ${cells} cells (${page.rows.length} rows × ${page.columns.length} columns); LaTeX exports hold at most ${MAX_LATEX_CELLS}, so that pdflatex compiles them within its default memory. Choose fewer columns, narrow the rows with a filter or start and end, or export CSV.`, [{ param: 'format' }]);
+      throw new AppError('VALIDATION_FAILED', 400, `This LaTeX table would hold ${cells} cells (${page.rows.length} rows × ${columnCount} columns); LaTeX exports hold at most ${MAX_LATEX_CELLS}, so that pdflatex compiles them within its default memory. Choose fewer columns, narrow the rows with a filter or start and end, or export CSV.`, [{ param: 'format' }]);
     }
     // Only the exported results are looked up, after the page: the board itself never pays for it.
     const provenance = await provenanceOf(exportedResults(view, page));
