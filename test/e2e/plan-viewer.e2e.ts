@@ -99,6 +99,11 @@ describe('the plan viewer in the browser', () => {
     await page.keyboard.press('Enter');
     expect(await settledText(page.locator('section.transport button'), 'Play')).toBe('Play');
     expect(Number((await page.locator('[data-testid="time"]').innerText()).split(' ')[0])).toBeGreaterThan(0.2);
+
+    // The time slider takes focus on a hidden input: the ring is drawn on its thumb (issue 18, item 4).
+    await tabUntil(page, '.mdc-slider__input', 10);
+    const thumb = await page.locator('.mdc-slider__thumb-knob').first().evaluate((k) => ({ style: getComputedStyle(k).outlineStyle, width: getComputedStyle(k).outlineWidth }));
+    expect(thumb).toEqual({ style: 'solid', width: '3px' });
   });
 
   it('with jitter, open-loop collides; dependency-gated on the same plan and noise does not', async () => {
