@@ -134,6 +134,29 @@ export interface ModelComparisonReport {
   /** How each figure and interval is computed, one line each. */
   readonly methods: readonly string[];
   readonly safetyNote: string;
+  /**
+   * Field trials of the results this report reads, run under the report's policy (issue 17, item 3):
+   * one row per result with field runs; absent or empty when none has any.
+   */
+  readonly fieldTrials?: readonly ReportFieldTrialRow[];
+}
+
+/** A result of the report with field runs: the field figures beside the simulated ones of its newest upload. */
+export interface ReportFieldTrialRow {
+  readonly resultId: number;
+  /** The variant label (variantLabel). */
+  readonly variant: string;
+  readonly scenario: string;
+  readonly agents: number;
+  readonly runs: number;
+  readonly successfulRuns: number;
+  /** Mean realised makespan of the field runs that finished, ms. */
+  readonly fieldMakespanMeanMs: number | null;
+  /** The simulated realised makespan the newest upload was compared with: mean and central 95 % of simulated runs, ms. */
+  readonly simulatedMakespan: { readonly mean: number | null; readonly low: number | null; readonly high: number | null };
+  readonly simulatedSuccessRate: number;
+  /** Field runs with some figure outside the simulation's central 95 %. */
+  readonly runsOutside: number;
 }
 
 /** The label of a variant: "classic", "k-robust (k=1)", "classic (following forbidden)", "classic (start N, following forbidden)". */

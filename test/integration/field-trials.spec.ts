@@ -11,6 +11,7 @@ import pino from 'pino';
 import request from 'supertest';
 import { CSRF_HEADER } from '@shared/auth';
 import type { FieldTrialsView, NamedRobotProfile, TrialCalibrationView } from '@shared/field-trials';
+import type { ModelComparisonReport } from '@shared/reports';
 import type { ResultPlanView } from '@shared/result-plan-view';
 import { parseTrialLog, TRIAL_LOG_FORMAT, TRIAL_LOG_VERSION } from '@shared/trial-log';
 import { compareTrialToPlan } from '@solvers/trials/compare-to-plan';
@@ -164,6 +165,17 @@ describe('field trials on a stored result', () => {
     const [upload] = (res.body as FieldTrialsView).uploads;
     expect(upload.runs[0].outside).toContain('realisedMakespanMs');
     expect(upload.runs[0].realisedMakespanMs!).toBeGreaterThan(upload.simulation.realisedMakespanMs.high!);
+  });
+
+  it('puts the field runs beside the simulation in the model comparison report of the same policy', async () => {
+    const [{ n }] = await s.sql<{ n: number }>('SELECT count(*)::int AS n FROM trial_runs WHERE result_id = :id', { id: resultId });
+    const report = (await (await fetch(`${s.url}/api/reports/model-comparison?set=${setId}&policy=dependency-gated`)).json()) as ModelComparisonReport;
+    const row = report.fieldTrials?.find((f) => f.resultId === resultId);
+    expect(row).toMatchObject({ variant: 'classic', scenario: 'empty-8-8-even-1.scen', agents: 4, runs: n });
+    expect(row!.runsOutside).toBeGreaterThanOrEqual(1);
+    expect(row!.simulatedMakespan.low!).toBeLessThanOrEqual(row!.simulatedMakespan.high!);
+    const openLoop = (await (await fetch(`${s.url}/api/reports/model-comparison?set=${setId}&policy=open-loop`)).json()) as ModelComparisonReport;
+    expect(openLoop.fieldTrials).toBeUndefined();
   });
 
   it('refuses a policy that is not one and an upload without files, in the one error shape', async () => {

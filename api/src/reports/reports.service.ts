@@ -8,7 +8,8 @@ import { QueryTypes, type Sequelize } from 'sequelize';
 import type { RobotProfile } from '@shared/plan';
 import { profileLabel } from '@shared/leaderboards';
 import { SAFETY_NOTE } from '@shared/executions-constants';
-import { REPORT_POLICIES, type ModelComparisonReport, type ReportChoices, type ReportSetChoice } from '@shared/reports';
+import { REPORT_POLICIES, variantLabel, type ModelComparisonReport, type ReportChoices, type ReportFieldTrialRow, type ReportSetChoice } from '@shared/reports';
+import type { TrialSimulation } from '@shared/field-trials';
 import type { SweepPolicy } from '@shared/sweeps';
 import type { Models } from '../db/models';
 import { AppError } from '../errors/app-error';
@@ -81,6 +82,35 @@ interface OutcomeRow {
   realised_makespan_mean_ms: number | null;
   finish_spread_mean_ms: number | null;
   noise: { jitterCv?: number; stallProbability?: number; stallMs?: number } | null;
+}
+
+/** Per result of the report with field runs under `policy`: field figures beside its newest upload's simulation. */
+async function fieldTrialRows(
+  select: <T extends object>(sql: string, replacements: Record<string, unknown>) => Promise<T[]>, rows: readonly OutcomeRow[], policy: string,
+): Promise<ReportFieldTrialRow[]> {
+  const runs = await select<{ result_id: number; upload_id: number; scenario: string; simulation: TrialSimulation; is_success: boolean; makespan: number | null; outside: number }>(
+    `SELECT u.result_id, u.id AS upload_id, sc.name AS scenario, u.simulation, t.is_success, t.realised_makespan_ms AS makespan,
+            jsonb_array_length(coalesce(t.figures -> 'outside', '[]'::jsonb)) AS outside
+       FROM trial_uploads u JOIN trial_runs t ON t.upload_id = u.id
+       JOIN results r ON r.id = u.result_id JOIN scenarios sc ON sc.id = r.scenario_id
+      WHERE u.result_id IN (:ids) AND u.policy = :policy ORDER BY u.result_id, u.id, t.id`,
+    { ids: rows.map((r) => r.result_id), policy },
+  );
+  const byResult = new Map<number, typeof runs>();
+  for (const r of runs) byResult.set(r.result_id, [...(byResult.get(r.result_id) ?? []), r]);
+  return rows.filter((o) => byResult.has(o.result_id)).map((o) => {
+    const list = byResult.get(o.result_id)!;
+    const finished = list.map((r) => r.makespan).filter((m): m is number => m !== null);
+    const sim = list[list.length - 1].simulation;
+    return {
+      resultId: o.result_id, variant: variantLabel(o.model, o.variant), scenario: list[0].scenario, agents: o.agents,
+      runs: list.length, successfulRuns: list.filter((r) => r.is_success).length,
+      fieldMakespanMeanMs: finished.length > 0 ? finished.reduce((a, b) => a + b, 0) / finished.length : null,
+      simulatedMakespan: { mean: sim.realisedMakespanMs.mean, low: sim.realisedMakespanMs.low, high: sim.realisedMakespanMs.high },
+      simulatedSuccessRate: sim.successRate,
+      runsOutside: list.filter((r) => Number(r.outside) > 0).length,
+    };
+  });
 }
 
 /** The report service on one connection. */
@@ -169,6 +199,8 @@ export function createReportsService(deps: { readonly sequelize: Sequelize; read
         methods: REPORT_METHODS,
         safetyNote: SAFETY_NOTE,
       };
+      const fieldTrials = await fieldTrialRows(select, rows, request.policy);
+      if (fieldTrials.length > 0) Object.assign(report, { fieldTrials });
       return { report, resultIds: rows.map((r) => r.result_id) };
     },
   };

@@ -159,4 +159,28 @@ describe('ModelComparisonPage', () => {
     expect(el.querySelector('.notice')?.textContent).toContain('has no computed results for robot profile');
     expect(el.querySelector('.answer')).toBeNull();
   });
+
+  it('shows the field runs of the report\'s results beside their simulated makespan, flagged runs marked (issue 17, item 3)', async () => {
+    const el = await open('/reports');
+    backend.expectOne((r) => r.url === '/api/reports/model-comparison').flush({
+      ...REPORT,
+      fieldTrials: [{
+        resultId: 12, variant: 'classic', scenario: 'kestrel-1.scen', agents: 4, runs: 8, successfulRuns: 7, fieldMakespanMeanMs: 9410.4,
+        simulatedMakespan: { mean: 8800, low: 8100, high: 9600 }, simulatedSuccessRate: 1, runsOutside: 2,
+      }],
+    } satisfies ModelComparisonReport);
+    await settle();
+    const section = el.querySelector('[data-testid="report-field-trials"]')!;
+    const cells = [...section.querySelectorAll('tbody tr')[0].children].map((c) => c.textContent?.trim());
+    expect(cells).toEqual(['classic', 'kestrel-1.scen, 4 agents', '8', '7 of 8', '100 %', '9410 ms', '8800 ms (8100 ms – 9600 ms)', '2']);
+    expect(section.querySelector('a')?.getAttribute('href')).toBe('/plans/view?result=12');
+    expect(section.querySelector('td.flagged')?.textContent?.trim()).toBe('2');
+  });
+
+  it('has no field-trials section when no result of the report has field runs', async () => {
+    const el = await open('/reports');
+    backend.expectOne((r) => r.url === '/api/reports/model-comparison').flush(REPORT);
+    await settle();
+    expect(el.querySelector('[data-testid="report-field-trials"]')).toBeNull();
+  });
 });

@@ -40,6 +40,10 @@ export default class ModelComparisonPage {
   protected readonly policies = REPORT_POLICIES;
   protected readonly headers = REPORT_TABLE_HEADERS;
   protected readonly safetyNote = SAFETY_NOTE;
+  /** ms as whole ms ("–" for none), for the field-trials table. */
+  protected msText(ms: number | null): string {
+    return ms === null ? '–' : `${Math.round(ms)} ms`;
+  }
   protected readonly mixedSettingsNote = MIXED_SETTINGS_NOTE;
 
   // hasValue() first: reading value() of a resource in its error state throws.
