@@ -15,6 +15,8 @@ import type { TrialLogError } from './trial-log';
 export const TRIAL_UPLOAD_FIELD = 'files';
 /** Limits of one upload: files in the request, runs after unzipping, bytes in all. */
 export const TRIAL_UPLOAD_LIMITS = { maxFiles: 50, maxRuns: 200, maxTotalBytes: 64 * 1024 * 1024 } as const;
+/** How the notes of the demo seed's invented runs start (api/src/demo/seed-demo-trials.ts); the page marks such uploads as invented. */
+export const INVENTED_TRIALS_MARK = 'Invented demo data';
 /** Longest notes text. */
 export const MAX_TRIAL_NOTES = 4000;
 /** Simulated runs behind the 95 % ranges a field run is flagged against (when the result stored no replay of the policy). */

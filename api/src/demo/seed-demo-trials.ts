@@ -12,6 +12,7 @@
  * a fitting result.
  */
 import { QueryTypes, type Sequelize } from 'sequelize';
+import { INVENTED_TRIALS_MARK } from '@shared/field-trials';
 import type { Logger } from 'pino';
 import { createSequelize } from '../db/sequelize';
 import { defineModels, type Models } from '../db/models';
@@ -25,7 +26,7 @@ import { DEMO_SWEEP_NAME } from './seed-demo-results';
 import type { DemoSeedStep } from './seed-demo';
 
 /** How the demo notes start (the step's identity for idempotence). */
-export const DEMO_TRIALS_MARK = 'Invented demo data';
+export const DEMO_TRIALS_MARK = INVENTED_TRIALS_MARK;
 /** The notes of the demo upload. */
 export const DEMO_TRIALS_NOTES = `${DEMO_TRIALS_MARK}, not a field trial: 8 runs simulated from the demo robot profile with more noise than the sweep's `
   + '(timing jitter 0.15; 3 % of actions stalled 1.5 s; seed 2026) and written as trial logs. Floor: Kestrel Row depot (invented), robots: the demo profile.';

@@ -63,6 +63,7 @@ describe('FieldTrialsPanel', () => {
     await open(false);
     expect(el().querySelector('.safety')?.textContent).toContain(SAFETY_NOTE);
     expect(el().querySelector('[data-testid="trial-notes"]')?.textContent).toContain('Invented demo data');
+    expect(el().querySelector('[data-testid="trial-invented"]')?.textContent).toContain('they are no field trial');
     const simulated = el().querySelector('tr.simulated')!.textContent!;
     expect(simulated).toContain('6.20 s (5.80 s – 6.90 s)');
     const rows = Array.from(el().querySelectorAll('[data-testid="trial-run"]'));

@@ -13,7 +13,7 @@ import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
 import { EXECUTION_POLICY_NAMES, SAFETY_NOTE, type ExecutionPolicyName } from '@shared/executions-constants';
-import type { FieldTrialsView, FieldTrialUpload } from '@shared/field-trials';
+import { INVENTED_TRIALS_MARK, type FieldTrialsView, type FieldTrialUpload } from '@shared/field-trials';
 import { errorMessage } from '../core/error-message';
 import {
   delaysText, durationChart, makespanChart, outsideText, problemLines, rangeText, seconds,
@@ -62,6 +62,9 @@ export class FieldTrialsPanel {
   }
   protected durationChart(u: FieldTrialUpload) {
     return durationChart(u, CHART_WIDTH);
+  }
+  protected isInvented(u: FieldTrialUpload): boolean {
+    return u.notes.startsWith(INVENTED_TRIALS_MARK);
   }
   protected runCount(v: FieldTrialsView): number {
     return v.uploads.reduce((n, u) => n + u.runs.length, 0);
