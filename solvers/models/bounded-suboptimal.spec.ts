@@ -86,6 +86,39 @@ describe('bounded-suboptimal solveModel', () => {
     expect(belowOptimum).toBeGreaterThan(0);
   });
 
+  it.each([
+    ['classic with following forbidden', 'classic' as PlanModel, { following: 'forbidden' as const }],
+    ['uniform-duration with following forbidden', 'uniform-duration' as PlanModel, { following: 'forbidden' as const }],
+    ['orientation-split with following forbidden', 'orientation-split' as PlanModel, { following: 'forbidden' as const }],
+    ['k-robust with k = 2', 'k-robust' as PlanModel, { k: 2 }],
+  ])('%s: bounded plans validate under that rule and stay within w × a bound at most the optimum', (_name, model, extra) => {
+    let compared = 0;
+    for (let seed = 1; seed <= 12; seed++) {
+      const inst = randomInstance(seed * 17, 6, 6, model === 'k-robust' ? 5 : 7, 0.2);
+      const options: ModelSolveOptions = { nodeLimit: 20000, ...extra };
+      const exact = solveModel(model, inst, options);
+      for (const w of [1.2, 1.5]) {
+        const r = solveModel(model, inst, { ...options, suboptimality: w });
+        if (expectBounded(r, exact, w)) compared++;
+      }
+    }
+    expect(compared).toBeGreaterThanOrEqual(12);
+  });
+
+  // The exact path pinned: SOC and node counts of w = 1 solves, byte-identical to the solver before
+  // bounded search existed (commit 9020ae7, compared on 200 seeded instances of these five shapes).
+  it.each([
+    ['classic' as PlanModel, 27, 8, [51, 176, 84, 8236]],
+    ['uniform-duration' as PlanModel, 27, 8, [51, 176, 84, 8236]],
+    ['orientation-split' as PlanModel, 25, 8, [48, 232, 115, 28820]],
+    ['k-robust' as PlanModel, 35, 6, [29, 268, 129, 13795]],
+    ['weighted-split' as PlanModel, 32, 3, [20000, 932, 498, 39620]],
+  ])('%s: w = 1 is the exact search of before (seed %i, %i agents: SOC, nodes generated, expanded, low-level expansions)', (model, seed, agents, pinned) => {
+    const inst = model === 'weighted-split' ? randomInstance(seed * 13, 4, 4, agents, 0.15) : randomInstance(seed * 13, 6, 6, agents, 0.2);
+    const r = solveModel(model, inst, optionsOf(model));
+    expect([r.status, r.soc, r.nodesGenerated, r.nodesExpanded, r.lowLevelExpansions]).toEqual(['solved', ...pinned]);
+  });
+
   it('refuses a factor below 1, above 10 or not finite, naming the option', () => {
     const inst = randomInstance(3, 4, 4, 2, 0);
     let refused = 0;
