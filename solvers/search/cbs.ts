@@ -122,6 +122,8 @@ export interface CbsEngineConfig {
   readonly suboptimality?: number;
   /** The focal low level of the bounded mode (shares the budget; counts its own expansions). */
   readonly focalPlanner?: FocalSpaceTimeAStar;
+  /** Sub-search: the caller has already found that the initial MDDs admit no conflict-free pair (root DG bound 1). */
+  readonly isRootDependent?: boolean;
 }
 
 /** Outcome of one CBS run. */
@@ -463,7 +465,7 @@ export class CbsEngine {
       if (this.mdds.size > 20000) this.mdds.clear();
       m = buildMdd(this.model, this.cfg.agents[i], this.table(node, i), node.paths[i].length - 1);
       this.mdds.set(key, m);
-      this.bytes += m ? 64 + m.states.length * 12 : 16;
+      this.bytes += m ? 64 + m.byteSize : 16;
     }
     return m;
   }
@@ -769,6 +771,8 @@ export class CbsEngine {
     if (this.cfg.isSub) {
       // Two agents: +1 when their MDDs admit no conflict-free pair of paths (the DG bound).
       if (node.conflicts.length === 0) return 0;
+      // The root holds the initial paths and MDDs, which the caller has just tested.
+      if (node.id === 0 && this.cfg.isRootDependent === true) return 1;
       const m0 = this.mdd(node, 0);
       const m1 = this.mdd(node, 1);
       if (m0 === null || m1 === null) return 0;
@@ -836,6 +840,7 @@ export class CbsEngine {
         isLimitFatal: false,
         memoryLimitBytes: Number.POSITIVE_INFINITY,
         isSub: true,
+        isRootDependent: true,
       }).run();
       if (sub.kind === 'solved') w = sub.soc - ci - cj;
       else if (sub.kind === 'infeasible') w = INFEASIBLE;

@@ -8,6 +8,18 @@
 import type { SearchModel } from '../models/model';
 import type { ConstraintTable } from './constraint-table';
 
+/**
+ * Index arrays of an MDD: 16-bit where every value fits (state ids of maps with at most 65 536
+ * states, node and edge indices of MDDs with at most 65 535 nodes or edges), else 32-bit. The
+ * cached MDDs are most of a search's memory, and 16-bit arrays halve them.
+ */
+export type MddIndexArray = Int32Array | Uint16Array;
+
+/** The smallest index array holding `values` (all in 0 … `max`). */
+function compact(values: Int32Array, max: number): MddIndexArray {
+  return max <= 0xffff ? Uint16Array.from(values) : values;
+}
+
 /** An MDD laid out level by level on typed arrays. */
 export class Mdd {
   /** Cell of the single-cell levels, −1 where a level holds several cells; index = time 0…cost. */
@@ -20,11 +32,11 @@ export class Mdd {
     /** Nodes of level t are `levelStart[t] … levelStart[t + 1] − 1`. */
     readonly levelStart: Int32Array,
     /** State of each node. */
-    readonly states: Int32Array,
+    readonly states: MddIndexArray,
     /** Children of node i (node indices at the next level) are `children[childStart[i] … childStart[i + 1] − 1]`. */
-    readonly childStart: Int32Array,
+    readonly childStart: MddIndexArray,
     /** See {@link Mdd.childStart}. */
-    readonly children: Int32Array,
+    readonly children: MddIndexArray,
     stateCell: Int32Array,
   ) {
     this.singletonCell = new Int32Array(cost + 1);
@@ -36,6 +48,12 @@ export class Mdd {
       for (let i = a + 1; i < b && one; i++) if (stateCell[states[i]] !== c) one = false;
       this.singletonCell[t] = one ? c : -1;
     }
+  }
+
+  /** Bytes held by the typed arrays (memory accounting). */
+  get byteSize(): number {
+    return this.levelStart.byteLength + this.states.byteLength + this.childStart.byteLength + this.children.byteLength
+      + this.singletonCell.byteLength;
   }
 
   /** Number of nodes at level t (past the cost the agent rests at its goal: 1). */
@@ -173,7 +191,9 @@ export function buildMdd(model: SearchModel, agent: number, table: ConstraintTab
   for (let x = 0; x < e; x++) {
     if (kept[edgeFrom[x]] === 1 && kept[edgeTo[x]] === 1) children[fillAt[newIndex[edgeFrom[x]]]++] = newIndex[edgeTo[x]];
   }
-  return new Mdd(cost, goal, outLevel, outStates, childStart, children, stateCell);
+  // Same values in 16-bit arrays where they fit (state ids < stateCount, node ids < m, edge offsets ≤ edge count).
+  return new Mdd(cost, goal, outLevel, compact(outStates, model.stateCount - 1), compact(childStart, childStart[m]),
+    compact(children, m - 1), stateCell);
 }
 
 /**

@@ -200,3 +200,24 @@ describe('SpaceTimeAStar and buildMdd', () => {
     }
   });
 });
+
+describe('buildMdd index arrays', () => {
+  it('stores 16-bit arrays on small maps and falls back to 32-bit when state ids pass 65 535, with the same nodes', () => {
+    const small = gridFromText(MAP);
+    const smallModel = new ClassicModel(small, { grid: small, agents: [{ start: 0, goal: 11 }] });
+    const none = new ConstraintTable(0, 11, smallModel.cellCount, W, []);
+    const m = buildMdd(smallModel, 0, none, 5);
+    expect(m).not.toBeNull();
+    expect(m!.states).toBeInstanceOf(Uint16Array);
+    expect(m!.children).toBeInstanceOf(Uint16Array);
+    // One row of 66 000 free cells: the agent walks from cell 65 990 to 65 995 (5 steps, a single path).
+    const width = 66000;
+    const row = gridFromText('.'.repeat(width));
+    const rowModel = new ClassicModel(row, { grid: row, agents: [{ start: 65990, goal: 65995 }] });
+    const big = buildMdd(rowModel, 0, new ConstraintTable(0, 65995, rowModel.cellCount, width, []), 5);
+    expect(big).not.toBeNull();
+    expect(big!.states).toBeInstanceOf(Int32Array);
+    expect(Array.from(big!.states)).toEqual([65990, 65991, 65992, 65993, 65994, 65995]);
+    expect(big!.cellIfSingleton(3)).toBe(65993);
+  });
+});
