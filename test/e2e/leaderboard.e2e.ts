@@ -14,6 +14,7 @@ import type { Page } from 'playwright-core';
 import type { InstanceSetDetail } from '@shared/instance-sets';
 import { DEFAULT_ENTRY_COLUMNS } from '@shared/leaderboards';
 import { signInAs, type SignedInClient } from '../../api/src/dev/sign-in-as';
+import { PAPER_ENTRY_COLUMNS } from '../../api/src/exports/paper-columns';
 import { TINY_MAP, TINY_SCEN } from '../integration/leaderboard-support';
 import { launchBrowser, type E2eBrowser } from './support/browser';
 import { focusAgainst, focusedDescription, isFocused, tabUntil } from './support/keyboard';
@@ -159,9 +160,16 @@ describe('leaderboard in the browser', () => {
     // The wide default board view (every default column) fits the text width of a plain article (issue 14, item 8).
     await page.goto(`${server.url}/leaderboards`);
     await page.locator('.ag-row').first().waitFor();
-    const [wide] = await Promise.all([page.waitForEvent('download'), page.locator('a[data-export=latex]').click()]);
+    // The default columns: a 12-column paper table (api/src/exports/paper-columns.ts), plus a Robot profile column when rows mix profiles.
+    const [paper] = await Promise.all([page.waitForEvent('download'), page.locator('a[data-export=latex]').click()]);
+    const paperTex = await readFile(await paper.path(), 'utf8');
+    const paperCols = (/\\begin\{tabular\}\{([lr]+)\}/.exec(paperTex)?.[1] ?? '').length;
+    expect([PAPER_ENTRY_COLUMNS.length, PAPER_ENTRY_COLUMNS.length + 1]).toContain(paperCols);
+    if (hasPdflatex) expect(compileInArticle(paperTex).overfull).toEqual([]);
+    // Every default column on request ("LaTeX, all columns").
+    const [wide] = await Promise.all([page.waitForEvent('download'), page.locator('a[data-export=latex-shown]').click()]);
     const wideTex = await readFile(await wide.path(), 'utf8');
-    expect(/\\begin\{tabular\}\{([lr]+)\}/.exec(wideTex)?.[1]).toHaveLength(DEFAULT_ENTRY_COLUMNS.length);
+    expect((/\\begin\{tabular\}\{([lr]+)\}/.exec(wideTex)?.[1] ?? '').length).toBeGreaterThanOrEqual(DEFAULT_ENTRY_COLUMNS.length);
     if (hasPdflatex) {
       const run = compileInArticle(wideTex);
       expect({ status: run.status, out: run.out }).toEqual({ status: 0, out: '' });

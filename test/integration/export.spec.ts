@@ -118,8 +118,8 @@ describe('exports', () => {
   // Item 8: in a plain article (text width 345 pt), the default board view (20 columns) as a short
   // table and as a longtable over all its rows, and a comparison table, set without an overfull box.
   (hasPdflatex ? it.each : it.skip.each)([
-    ['the default board columns, 25 rows (a table float)', 'start=0&end=25', false],
-    ['the default board columns, every row (a longtable)', '', true],
+    ['every default board column, 25 rows (a table float)', 'start=0&end=25&latexColumns=shown', false],
+    ['every default board column, every row (a longtable)', 'latexColumns=shown', true],
     ['the comparison layout, every row', 'layout=compare', null],
     ['six columns, every row (a longtable at full size)', 'cols=map,scenario,agents,model,socSteps,tiMakespanMs', true],
   ])(`compiles %s within the text width${hasPdflatex ? '' : ' (skipped: pdflatex is not installed; apt-get install texlive-latex-base texlive-latex-recommended)'}`, async (_name, q, isLong) => {

@@ -35,7 +35,7 @@ export function exportsRouter(boards: LeaderboardsService, provenanceOf: Provena
       throw new AppError('VALIDATION_FAILED', 400, `Query parameter "format" must be one of ${EXPORT_FORMATS.join(', ')}`, [{ param: 'format' }]);
     }
     // LaTeX of the default board columns gets the paper columns (paper-columns.ts); a chosen set is kept.
-    const view = withPaperColumns(viewOf(params), format);
+    const view = withPaperColumns(viewOf(params), format, params['latexColumns'] === 'shown');
     const hasWindow = params['start'] !== undefined || params['end'] !== undefined;
     const window = hasWindow ? windowOf(params, MAX_EXPORT_ROWS) : { start: 0, end: MAX_EXPORT_ROWS };
     const page = await boards.page(view, req.user ?? null, scopeOf(params), window);

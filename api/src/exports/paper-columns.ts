@@ -14,8 +14,11 @@ export const PAPER_ENTRY_COLUMNS: readonly string[] = [
 
 const sameColumns = (a: readonly string[], b: readonly string[]): boolean => a.length === b.length && a.every((id, i) => id === b[i]);
 
-/** `view` with the paper columns when `format` is LaTeX and the entries view has the default columns; else `view` unchanged. */
-export function withPaperColumns(view: LeaderboardView, format: ExportFormat): LeaderboardView {
-  if (format !== 'latex' || view.layout !== 'entries' || !sameColumns(view.columns, DEFAULT_ENTRY_COLUMNS)) return view;
+/**
+ * `view` with the paper columns when `format` is LaTeX and the entries view has the default
+ * columns, unless `keepShown` (query `latexColumns=shown`: every column on screen); else `view` unchanged.
+ */
+export function withPaperColumns(view: LeaderboardView, format: ExportFormat, keepShown = false): LeaderboardView {
+  if (keepShown || format !== 'latex' || view.layout !== 'entries' || !sameColumns(view.columns, DEFAULT_ENTRY_COLUMNS)) return view;
   return { ...view, columns: PAPER_ENTRY_COLUMNS };
 }

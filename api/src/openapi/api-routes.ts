@@ -247,7 +247,10 @@ export const API_ROUTES: readonly ApiRoute[] = [
   },
   {
     method: 'get', path: '/api/exports', tag: 'leaderboards', summary: 'A board view as a CSV, LaTeX, Markdown or JSON file with provenance', role: 'visitor',
-    query: BoardViewQuery.extend({ format: z.enum(EXPORT_FORMATS) }), queryExample: { format: 'csv', cols: 'model,socSteps' },
+    query: BoardViewQuery.extend({
+      format: z.enum(EXPORT_FORMATS),
+      latexColumns: z.enum(['shown']).optional().describe('LaTeX of the default entries columns is a 12-column paper table; "shown" exports every column of the view instead'),
+    }), queryExample: { format: 'csv', cols: 'model,socSteps' },
     response: { status: 200, description: 'The file (content type by format)', body: file('text/csv', 'The exported table') },
   },
   {

@@ -19,7 +19,7 @@ import { MatSlideToggleModule } from '@angular/material/slide-toggle';
 import { SAFETY_NOTE } from '@shared/executions-constants';
 import { EXPORT_FORMATS, type ExportFormat } from '@shared/exports-table';
 import {
-  COMPARE_METRICS, columnsOf, compareIntervalKind, compareIntervalNote, DEFAULT_VIEW, ENTRY_COLUMNS, NOMINAL_DESCRIPTION, parseView, viewToParams,
+  COMPARE_METRICS, columnsOf, compareIntervalKind, compareIntervalNote, DEFAULT_ENTRY_COLUMNS, DEFAULT_VIEW, ENTRY_COLUMNS, NOMINAL_DESCRIPTION, parseView, viewToParams,
   type BestAmong, type CompareMetric, type Layout, type LeaderboardView,
 } from '@shared/leaderboards';
 import { hasRole } from '@shared/auth-contract';
@@ -90,8 +90,19 @@ export default class LeaderboardBoard {
     return v.layout === 'entries' ? [replayColumn(), ...shown] : shown;
   });
   protected readonly exportLinks = computed(() => {
-    const params = viewToParams(this.view());
-    return this.formats.map((f) => ({ ...f, href: this.api.exportUrl(f.id, params) }));
+    const view = this.view();
+    const params = viewToParams(view);
+    const links: { id: string; label: string; href: string; title?: string }[] = this.formats.map((f) => ({ ...f, href: this.api.exportUrl(f.id, params) }));
+    // The default columns make a 12-column paper table in LaTeX (api/src/exports/paper-columns.ts); offer the full set too.
+    if (view.layout === 'entries' && sameColumns(view.columns, DEFAULT_ENTRY_COLUMNS)) {
+      const latex = links.find((l) => l.id === 'latex');
+      if (latex) latex.title = 'The default columns give a 12-column table that fits a paper page; choose columns to export others.';
+      links.splice(links.findIndex((l) => l.id === 'latex') + 1, 0, {
+        id: 'latex-shown', label: 'LaTeX, all columns', href: this.api.exportUrl('latex', { ...params, latexColumns: 'shown' }),
+        title: `All ${DEFAULT_ENTRY_COLUMNS.length} columns on screen, scaled down to the text width (small type).`,
+      });
+    }
+    return links;
   });
   /** The interval method of the comparison figure, for the legend (null: a plan figure, no interval). */
   protected readonly intervalNote = computed(() => (this.view().layout === 'compare' ? compareIntervalNote(this.view().metric) : null));
@@ -217,3 +228,7 @@ export default class LeaderboardBoard {
   }
 }
 
+/** Whether two column lists hold the same ids in the same order. */
+function sameColumns(a: readonly string[], b: readonly string[]): boolean {
+  return a.length === b.length && a.every((id, i) => id === b[i]);
+}
