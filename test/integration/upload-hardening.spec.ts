@@ -205,7 +205,8 @@ describe('upload hardening', () => {
       const probe = () => postRaw(url, owner, path, multipart([{ name: 'notes.txt', bytes: Buffer.from('x') }]).body, multipart([]).contentType);
       const held = Array.from({ length: DEFAULT_UPLOADS_PER_USER }, () => heldUpload(url, owner, path));
       try {
-        const refused = await until(probe, (r) => r.status === 429);
+        // Up to 30 s: on a loaded machine (the full suite on 2 cores) the held uploads took longer than 10 s to be counted.
+        const refused = await until(probe, (r) => r.status === 429, 30_000);
         expect(refused.status).toBe(429);
         expect(refused.body.error).toMatchObject({
           code: 'TOO_MANY_UPLOADS', message: expect.stringMatching(/at most 2 at a time.*UPLOADS_PER_USER/),
