@@ -101,6 +101,15 @@ const NAME_CHARS = 28;
 const NAME_MIN_WIDTH_PX = Math.ceil(NAME_CHARS * 7.5) + 36;
 
 /**
+ * Widths that show the longest usual value of a text column whole ("orientation-split", "following
+ * forbidden, w=1.5", "bounded (w = 1.5)"): ≈ 7.5 px a character of the grid's 13 px font plus 36 px
+ * of padding and filter icon (common practice, as for the name columns); the whole text is also on hover.
+ */
+export const TEXT_MIN_WIDTH_PX: Readonly<Record<string, number>> = {
+  model: 165, variant: 230, optimality: 170, status: 120, solver: 200, profile: 260,
+};
+
+/**
  * Column definitions for the visible columns, in order, with the view's sort applied. In the
  * comparison layout `intervalKind` says whether model cells show their 95 % interval.
  */
@@ -126,13 +135,14 @@ export function gridColumns(columns: readonly LeaderboardColumn[], sort: readonl
         'best-cell': (p: { data?: GridRow }) => listed(p.data?.__best, c.id),
         'colliding-cell': (p: { data?: GridRow }) => listed(p.data?.__colliding, c.id),
       } : undefined,
-      tooltipValueGetter: isModel ? modelCellTooltip(c.id, intervalKind, c.digits) : name?.tooltipValueGetter,
+      tooltipValueGetter: isModel ? modelCellTooltip(c.id, intervalKind, c.digits) : name?.tooltipValueGetter
+        ?? (c.kind === 'number' ? undefined : (p: { value?: unknown }) => (typeof p.value === 'string' && p.value !== '' ? p.value : undefined)),
       filterParams: { filterOptions: [...GRID_FILTER_OPTIONS[c.kind]], maxNumConditions: 1, debounceMs: 300 },
       type: c.kind === 'number' ? 'rightAligned' : undefined,
       valueFormatter: name ? name.valueFormatter : withInterval
         ? (p: ValueFormatterParams<GridRow>) => cellWithInterval(intervalKind, p.value as number | null, p.data?.[`${c.id}__lo`] as number | null, p.data?.[`${c.id}__hi`] as number | null, c.digits)
         : /^(realised|spread).*(Lo|Hi)$/.test(c.id) ? formatIntervalBound(c.id, c.digits) : c.kind === 'number' ? formatNumber(c.digits) : undefined,
-      minWidth: name ? NAME_MIN_WIDTH_PX : c.kind === 'number' ? 110 : 120,
+      minWidth: name ? NAME_MIN_WIDTH_PX : c.kind === 'number' ? 110 : TEXT_MIN_WIDTH_PX[c.id] ?? 120,
       flex: c.kind === 'number' ? 0 : 1,
       width: withInterval ? 190 : c.kind === 'number' ? 140 : undefined,
     };
