@@ -4,7 +4,7 @@
  * the policy the fleet used), flags where a field figure falls outside, two charts, and for
  * researchers a form to attach logs (CSV, JSON or a zip of them) with the policy and notes.
  */
-import { ChangeDetectionStrategy, Component, effect, inject, input, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, effect, inject, input, signal } from '@angular/core';
 import { HttpErrorResponse } from '@angular/common/http';
 import { firstValueFrom } from 'rxjs';
 import { FormsModule } from '@angular/forms';
@@ -42,6 +42,8 @@ export class FieldTrialsPanel {
   protected readonly sendProblem = signal<{ message: string; lines: string[] } | null>(null);
   protected readonly sent = signal<string | null>(null);
   protected readonly files = signal<readonly File[]>([]);
+  /** The chosen files' names, for the picker's caption. */
+  protected readonly fileNames = computed(() => this.files().map((f) => f.name).join(', '));
   protected policy: ExecutionPolicyName = 'dependency-gated';
   protected notes = '';
   protected readonly policies = EXECUTION_POLICY_NAMES;
