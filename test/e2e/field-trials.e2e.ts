@@ -1,7 +1,7 @@
 /**
  * A researcher's field-trial journey (issue 17, "done when"): attach trial logs to a stored result
  * on its page, see the field runs beside the simulation, fit a profile to them, save it under a
- * name, and find it in the sweep editor, where it fills the profile fields. The maintainer (who
+ * name, find it in the sweep editor, where it fills the profile fields, and launch a sweep with it. The maintainer (who
  * may also open the sweep editor) walks it. A real sweep (in-process worker) on the open dataset's
  * empty-8-8 (Stern et al., SoCS 2019, read in place) stores the result; the logs are simulated runs
  * of its plan written as trial logs (invented data).
@@ -59,7 +59,7 @@ describe('field trials in the browser', () => {
     await db?.drop();
   });
 
-  it('attaches logs, shows them beside the simulation, fits and saves a profile, and the sweep editor offers it', async () => {
+  it('attaches logs, shows them beside the simulation, fits and saves a profile, and launches a sweep with it from the sweep editor', async () => {
     await page.goto(`${s.url}/plans/view?result=${resultId}`);
     const panel = page.locator('[data-testid="field-trials"]');
     await panel.getByText(`No field runs are attached to result ${resultId} yet.`).waitFor({ timeout: 30_000 });
@@ -88,6 +88,17 @@ describe('field trials in the browser', () => {
     await page.locator('[data-testid="named-profile"]').click();
     await page.getByRole('option', { name: /^Floor B two-wheel/ }).click();
     expect(await page.locator('input[formcontrolname="forwardMs"]').inputValue()).toBe(String(stored.profile.forwardMs));
+
+    // ... and launches a sweep with it: the stored definition carries the fitted profile.
+    await page.getByLabel('Sweep name').fill('fitted profile check');
+    await page.getByRole('combobox', { name: 'Instance set' }).click();
+    await page.getByRole('option', { name: /trial floor/ }).click();
+    await page.getByLabel('Agent counts', { exact: true }).fill('2');
+    await page.getByRole('button', { name: 'Launch sweep' }).click();
+    await page.waitForURL(/\/sweeps\/\d+$/, { timeout: 30_000 });
+    const sweepId = Number(/\/sweeps\/(\d+)$/.exec(page.url())?.[1]);
+    const [launched] = await s.sql<{ definition: { robotProfile: { forwardMs: number } } }>('SELECT definition FROM sweeps WHERE id = :id', { id: sweepId });
+    expect(launched.definition.robotProfile.forwardMs).toBe(stored.profile.forwardMs);
     expect(pageErrors).toEqual([]);
   });
 });
