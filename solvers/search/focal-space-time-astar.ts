@@ -23,6 +23,7 @@ import type { ConflictAvoidanceTable } from './conflict-avoidance-table';
 import type { ConstraintTable } from './constraint-table';
 import { IndexHeap } from './index-heap';
 import { IntMap } from './int-map';
+import { minOverCell } from './space-time-astar';
 import { boundOf } from './suboptimality';
 
 /** FOCAL key: conflicts, then f, then h (each field below the next one's shift). */
@@ -265,12 +266,4 @@ export class FocalSpaceTimeAStar {
     for (let i = n; i >= 0; i = this.nParent[i]) path[this.nTime[i]] = this.nState[i];
     return path;
   }
-}
-
-/** Smallest value of `dist` over the states in `cell` (classic: the cell's own entry). */
-function minOverCell(m: SearchModel, dist: Int32Array, cell: number): number {
-  if (m.stateCount === m.cellCount) return dist[cell];
-  let best = UNREACHABLE;
-  for (let s = 0; s < m.stateCount; s++) if (m.stateCell[s] === cell && dist[s] < best) best = dist[s];
-  return best;
 }

@@ -261,7 +261,7 @@ export class SpaceTimeAStar {
 }
 
 /** Smallest value of `dist` over the states in `cell` (classic: the cell's own entry). */
-function minOverCell(m: SearchModel, dist: Int32Array, cell: number): number {
+export function minOverCell(m: SearchModel, dist: Int32Array, cell: number): number {
   if (m.stateCount === m.cellCount) return dist[cell];
   let best = UNREACHABLE;
   for (let s = 0; s < m.stateCount; s++) if (m.stateCell[s] === cell && dist[s] < best) best = dist[s];
