@@ -6,6 +6,13 @@
  *   npm run bench:solver -- --frontier                                  # the full table (hours)
  *   npm run bench:solver -- --frontier --maps random-32-32-20 --w 1.2    # the step targets
  *   npm run bench:solver -- --frontier --models classic --w 1.5 --time-limit 10 --step 20
+ *   npm run bench:solver -- --frontier --clock cpu --maps room-32-32-4 --out benchmarks/results/frontier-room.json
+ *
+ * --clock wall (default) times each solve by the wall clock; --clock cpu by the CPU time of this
+ * process (user + system, all its threads, so garbage-collector threads count against the solver:
+ * the figure errs on the slow side). The CPU clock lets the table be measured while other work
+ * shares the cores, or in shards (one map per process, --out per shard) on a multi-core machine,
+ * without the other processes eating into a solve's limit.
  *
  * Agent counts go up from --start in steps of --step; a count counts as reached when all its
  * scenarios are solved, validated by the model's independent validator (solveModel refuses a plan
@@ -14,7 +21,8 @@
  * anyway). Writes everything to benchmarks/results/frontier.json.
  */
 import { mkdirSync, readFileSync, writeFileSync } from 'node:fs';
-import { hostname, cpus } from 'node:os';
+import { execFileSync } from 'node:child_process';
+import { cpus, hostname, loadavg } from 'node:os';
 import { dirname, join } from 'node:path';
 import { parseArgs } from 'node:util';
 import { PLAN_MODELS, type PlanModel } from '../shared/plan';
@@ -26,6 +34,23 @@ import { isPlanModel, solveModel } from '../solvers/models/solve-model';
 import { OPEN_GRID_BENCHMARKS_DIR } from './datasets/open-grid-benchmarks';
 
 const root = join(__dirname, '..');
+
+/** CPU time of this process so far, ms (user + system of all its threads). */
+function cpuMs(): number {
+  const u = process.cpuUsage();
+  return (u.user + u.system) / 1000;
+}
+
+/** The commit measured (with "+changes" when the tree differs from it), or "unknown" outside a git checkout. */
+function commitOf(): string {
+  try {
+    const head = execFileSync('git', ['rev-parse', '--short', 'HEAD'], { cwd: root, encoding: 'utf8' }).trim();
+    const dirty = execFileSync('git', ['status', '--porcelain', '--', 'solvers', 'shared'], { cwd: root, encoding: 'utf8' }).trim() !== '';
+    return dirty ? `${head}+changes` : head;
+  } catch {
+    return 'unknown';
+  }
+}
 
 /** One solve at one agent count. */
 interface FrontierRun {
@@ -75,6 +100,7 @@ export function runFrontier(args: readonly string[]): void {
       step: { type: 'string', default: '10' },
       'max-agents': { type: 'string', default: '1000' },
       k: { type: 'string', default: '1' },
+      clock: { type: 'string', default: 'wall' },
       out: { type: 'string', default: join(root, 'benchmarks', 'results', 'frontier.json') },
     },
   });
@@ -92,11 +118,23 @@ export function runFrontier(args: readonly string[]): void {
   const maxAgents = Number(values['max-agents']);
   const k = Number(values.k);
   const profile = DEFAULT_ROBOT_PROFILE;
+  if (values.clock !== 'wall' && values.clock !== 'cpu') throw new Error(`--clock: wall or cpu (got ${values.clock})`);
+  const clock = values.clock;
+  const now = clock === 'cpu' ? cpuMs : () => performance.now();
 
   const runs: FrontierRun[] = [];
   const rows: FrontierRow[] = [];
   const started = new Date().toISOString();
-  console.log(`frontier: ${models.join(', ')} × w ${factors.join(', ')} × ${maps.join(', ')}; scenarios even-${scens.join(',')}; limit ${timeLimitMs / 1000} s; k-robust k = ${k}`);
+  console.log(`frontier: ${models.join(', ')} × w ${factors.join(', ')} × ${maps.join(', ')}; scenarios even-${scens.join(',')}; limit ${timeLimitMs / 1000} s (${clock} clock); k-robust k = ${k}`);
+  // Written after every row, so a long measurement that is stopped keeps what it reached.
+  const write = (finished: boolean) => {
+    mkdirSync(dirname(values.out), { recursive: true });
+    writeFileSync(values.out, JSON.stringify({
+      started, finished: finished ? new Date().toISOString() : null, commit: commitOf(),
+      machine: { host: hostname(), cpu: cpus()[0]?.model, cores: cpus().length, node: process.version, loadAverage: loadavg() },
+      clock, timeLimitMs, start, step, k, profile, models, factors, maps, scenarios: scens, rows, runs,
+    }, null, 2));
+  };
   for (const mapName of maps) {
     const map = parseMap(readFileSync(join(OPEN_GRID_BENCHMARKS_DIR, `${mapName}.map`), 'utf8'), { name: mapName });
     if (!map.ok) throw new Error(`${mapName}.map: ${map.errors.map((e) => `line ${e.line}: ${e.message}`).join('; ')}`);
@@ -117,7 +155,7 @@ export function runFrontier(args: readonly string[]): void {
           const inst = instanceFromScenario(map.value, scen, agents);
           if (!inst.ok) throw new Error(`${name}: ${inst.errors.map((e) => e.message).join('; ')}`);
           const r = solveModel(model, inst.value, {
-            timeLimitMs, now: () => performance.now(), profile, suboptimality: w, k: model === 'k-robust' ? k : undefined,
+            timeLimitMs, now, profile, suboptimality: w, k: model === 'k-robust' ? k : undefined,
           });
           const run: FrontierRun = {
             model, w, map: mapName, scenario: name, agents, status: r.status, soc: r.soc, lowerBound: r.lowerBound, gap: r.gap, runtimeMs: Math.round(r.runtimeMs),
@@ -139,6 +177,7 @@ export function runFrontier(args: readonly string[]): void {
         stoppedBy,
       };
       rows.push(row);
+      write(false);
       console.log(`${model} w=${w} ${mapName}: reached ${reached} (median ${row.medianRuntimeMs ?? '-'} ms, gap ${row.medianGap === null ? '-' : (row.medianGap * 100).toFixed(1) + ' %'}); stopped by ${stoppedBy}`);
     }
   }
@@ -147,10 +186,6 @@ export function runFrontier(args: readonly string[]): void {
   for (const r of rows) {
     console.log(`| ${r.map} | ${r.model} | ${r.w} | ${r.reached} | ${r.medianRuntimeMs ?? '–'} | ${r.medianGap === null ? '–' : `${(r.medianGap * 100).toFixed(1)} %`} |`);
   }
-  mkdirSync(dirname(values.out), { recursive: true });
-  writeFileSync(values.out, JSON.stringify({
-    started, finished: new Date().toISOString(), machine: { host: hostname(), cpu: cpus()[0]?.model, cores: cpus().length, node: process.version },
-    timeLimitMs, start, step, k, profile, scenarios: scens, rows, runs,
-  }, null, 2));
+  write(true);
   console.log(`wrote ${values.out}`);
 }
