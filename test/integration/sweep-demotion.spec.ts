@@ -13,37 +13,11 @@ import { CSRF_HEADER } from '@shared/auth';
 import type { SweepListResponse } from '@shared/runs';
 import { DEMO_IDENTITIES } from '../../api/src/dev/fake-oauth/demo-identities';
 import { signInAs, type SignedInClient } from '../../api/src/dev/sign-in-as';
+import { readEvents } from '../support/sse-events';
 import { createTestDatabase, type TestDatabase } from '../support/test-database';
 import { baseDefinition, DATASET, launchSweep, MAINTAINER, startSweepServer, uploadSet, waitUntil, type SweepServer } from '../reliability/support/sweep-harness';
 
 const admin = DEMO_IDENTITIES.find((d) => d.demoRole === 'admin') ?? DEMO_IDENTITIES[2];
-
-/** An SSE reader: every `event:` block received, and whether the server ended the stream. */
-function readEvents(res: Response) {
-  const events: { event: string; data: unknown }[] = [];
-  const reader = (res.body as ReadableStream<Uint8Array>).getReader();
-  let isEnded = false;
-  const done = (async () => {
-    let buf = '';
-    for (;;) {
-      const { value, done: isDone } = await reader.read();
-      if (isDone) break;
-      buf += Buffer.from(value).toString('utf8');
-      let end: number;
-      while ((end = buf.indexOf('\n\n')) >= 0) {
-        const chunk = buf.slice(0, end);
-        buf = buf.slice(end + 2);
-        const ev = /^event: (.+)$/m.exec(chunk)?.[1];
-        const data = /^data: (.+)$/m.exec(chunk)?.[1];
-        if (ev && data) events.push({ event: ev, data: JSON.parse(data) });
-      }
-    }
-    isEnded = true;
-  })().catch(() => {
-    isEnded = true;
-  });
-  return { events, isEnded: () => isEnded, cancel: async () => { await reader.cancel().catch(() => undefined); await done; } };
-}
 
 jest.setTimeout(60_000);
 

@@ -14,10 +14,12 @@
  * changes may happen on another server, so the hub asks instead of waiting to be told. When the
  * check itself fails (database down) no data is sent, but streams stay open: losing the database
  * sends every watcher an `unavailable` event, and the snapshots resent on reconnecting end it.
+ * A stream opened with a personal API token is also ended once that token is revoked or expires
+ * (checked at the same moments): revoking a token must cut every door it opened.
  */
 import type { Response } from 'express';
 import type { Logger } from 'pino';
-import type { Sequelize } from 'sequelize';
+import { QueryTypes, type Sequelize } from 'sequelize';
 import { isSweepOver, SWEEP_EVENT_NAMES } from '@shared/runs';
 import { listenChannels, SWEEP_EVENTS_CHANNEL, type ChannelListener, type SweepEventNotice } from '../workers/sweep-channels';
 import { readProgress, readResultRows } from './sweep-progress';
@@ -28,8 +30,11 @@ const HEARTBEAT_MS = 15_000;
 
 /** The SSE hub of one app. */
 export interface SweepEvents {
-  /** Streams sweep `sweepId` to `res`, watched by account `viewerId`, until the client goes away or loses access. */
-  stream(sweepId: number, res: Response, viewerId: number): Promise<void>;
+  /**
+   * Streams sweep `sweepId` to `res`, watched by account `viewerId` (through API token `tokenId` when
+   * the request carried one), until the client goes away or loses access.
+   */
+  stream(sweepId: number, res: Response, viewerId: number, tokenId?: number): Promise<void>;
   close(): Promise<void>;
 }
 
@@ -40,6 +45,18 @@ export type AllowedViewers = (sweepId: number, userIds: readonly number[]) => Pr
 interface Watcher {
   readonly res: Response;
   readonly viewerId: number;
+  /** The API token the stream was opened with, if any. */
+  readonly tokenId?: number;
+}
+
+/** Which of the API tokens `ids` are still live (neither revoked nor expired). */
+async function liveTokens(sequelize: Sequelize, ids: readonly number[]): Promise<Set<number>> {
+  if (ids.length === 0) return new Set();
+  const rows = await sequelize.query<{ id: number }>(
+    'SELECT id FROM api_tokens WHERE id IN (:ids) AND revoked_at IS NULL AND expires_at > now()',
+    { type: QueryTypes.SELECT, replacements: { ids: [...ids] } },
+  );
+  return new Set(rows.map((r) => r.id));
 }
 
 /** Builds the hub; it connects to `databaseUrl` when the first client arrives. */
@@ -62,13 +79,19 @@ export function createSweepEvents(sequelize: Sequelize, databaseUrl: string | un
   const authorised = async (sweepId: number): Promise<Watcher[]> => {
     const current = [...(watchers.get(sweepId) ?? [])];
     if (current.length === 0) return [];
-    const allowed = await allowedViewers(sweepId, [...new Set(current.map((w) => w.viewerId))]);
-    for (const w of current.filter((x) => !allowed.has(x.viewerId))) {
-      logger.info({ sweepId, userId: w.viewerId }, 'sweep stream ended: the viewer may no longer see the sweep');
+    const tokenIds = [...new Set(current.flatMap((w) => (w.tokenId === undefined ? [] : [w.tokenId])))];
+    const [allowed, live] = await Promise.all([
+      allowedViewers(sweepId, [...new Set(current.map((w) => w.viewerId))]),
+      liveTokens(sequelize, tokenIds),
+    ]);
+    const mayWatch = (w: Watcher) => allowed.has(w.viewerId) && (w.tokenId === undefined || live.has(w.tokenId));
+    for (const w of current.filter((x) => !mayWatch(x))) {
+      const why = allowed.has(w.viewerId) ? 'its API token was revoked or expired' : 'the viewer may no longer see the sweep';
+      logger.info({ sweepId, userId: w.viewerId, tokenId: w.tokenId }, `sweep stream ended: ${why}`);
       forget(sweepId, w);
       w.res.end();
     }
-    return current.filter((w) => allowed.has(w.viewerId) && watchers.get(sweepId)?.has(w));
+    return current.filter((w) => mayWatch(w) && watchers.get(sweepId)?.has(w));
   };
   const send = (to: readonly Watcher[], event: string, data: unknown): void => {
     const text = `event: ${event}\ndata: ${JSON.stringify(data)}\n\n`;
@@ -119,7 +142,7 @@ export function createSweepEvents(sequelize: Sequelize, databaseUrl: string | un
   };
 
   return {
-    async stream(sweepId, res, viewerId) {
+    async stream(sweepId, res, viewerId, tokenId) {
       ensureListening();
       res.status(200);
       res.setHeader('content-type', 'text/event-stream; charset=utf-8');
@@ -134,7 +157,7 @@ export function createSweepEvents(sequelize: Sequelize, databaseUrl: string | un
         set = new Set();
         watchers.set(sweepId, set);
       }
-      const watcher: Watcher = { res, viewerId };
+      const watcher: Watcher = { res, viewerId, tokenId };
       set.add(watcher);
       heartbeat ??= setInterval(beat, HEARTBEAT_MS);
       res.on('close', () => forget(sweepId, watcher));

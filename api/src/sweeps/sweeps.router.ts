@@ -30,7 +30,7 @@ export function sweepsRouter(svc: SweepsService, events: SweepEvents): Router {
     const id = Number(req.params.id);
     const viewer = requireUser(req);
     await svc.assertVisible(viewer, id);
-    await events.stream(id, res, viewer.id);
+    await events.stream(id, res, viewer.id, req.apiToken?.id);
   });
   return r;
 }
