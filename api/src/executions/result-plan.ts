@@ -44,9 +44,18 @@ export async function loadResultPlan(models: Models, viewer: Viewer, resultId: n
     throw new AppError('RESULT_NOT_SOLVED', 409,
       `Result ${resultId} ended ${result.status}${why} and has no plan to execute; pick a solved result of the sweep.`);
   }
-  if (!isPlanModel(result.model)) throw new Error(`result ${resultId} has an unknown plan model ${result.model}`);
   const loaded = await loadInstance(models, result.scenarioId, result.agents);
-  const stored = JSON.parse(gunzipSync(result.planGz).toString('utf8')) as StoredTaskPlan;
+  return storedResultPlan(result, result.planGz, loaded);
+}
+
+/**
+ * A solved result's plan with its instance already loaded: the stored plan decompressed, cells
+ * as [x, y], and the model options of the run that produced it. For readers that load instances
+ * themselves (the sweep plans archive loads each scenario once).
+ */
+export function storedResultPlan(result: Result, planGz: Buffer, loaded: LoadedInstance): ResultPlan {
+  if (!isPlanModel(result.model)) throw new Error(`result ${result.id} has an unknown plan model ${result.model}`);
+  const stored = JSON.parse(gunzipSync(planGz).toString('utf8')) as StoredTaskPlan;
   const width = loaded.instance.grid.width;
   const plan: ExecutionTaskPlan = stored.kind === 'paths'
     ? { kind: 'paths', paths: stored.paths.map((p) => p.map((c): CellXY => [c % width, Math.floor(c / width)])) }

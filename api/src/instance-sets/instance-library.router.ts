@@ -5,6 +5,7 @@
  */
 import { Router } from 'express';
 import type { AppContext } from '../app-context';
+import { instanceSetArchiveRouter } from './instance-set-archive';
 import { createInstanceSetsService } from './instance-sets.service';
 import { instanceSetsRouter } from './instance-sets.router';
 import { mapsRouter, scenariosRouter } from './library-files.router';
@@ -25,6 +26,7 @@ export function instanceLibraryRouter(ctx: AppContext): Router {
   ctx.stats.register('scenarios', (viewer) => svc.count(viewer, 'scenarios'));
   const r = Router();
   r.use('/instance-sets', instanceSetsRouter(svc, new UploadGate(ctx.config.uploadsPerUser)));
+  r.use('/instance-sets', instanceSetArchiveRouter(ctx.models));
   r.use('/maps', mapsRouter(svc));
   r.use('/scenarios', scenariosRouter(svc));
   r.use('/admin/users', quotaAdminRouter(quotas));
