@@ -25,6 +25,10 @@ export const ERROR_CODES = [
   'INVALID_TRIAL_LOG',
   /** 422: a field trial log departs from its result's plan; details: { errors: [the first divergent row] }. */
   'TRIAL_DIVERGES',
+  /** 404: no submission batch of that id that the viewer owns. */
+  'BATCH_NOT_FOUND',
+  /** 429: the person has BATCH_LIMITS.maxRunningPerUser batches still running. */
+  'TOO_MANY_BATCHES',
   'SWEEP_NOT_FOUND',
   'SWEEP_TOO_LARGE',
   /** The server's interactive worker pool (api/src/workers/interactive-pool.ts): 503, try again later. */

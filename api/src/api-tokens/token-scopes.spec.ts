@@ -10,6 +10,7 @@ describe('scopeNeeded', () => {
   it('opens exactly the plan submission with submit and the sweep launch, preview and cancel with sweep', () => {
     expect(scopeNeeded('POST', '/submissions')).toBe('submit');
     expect(scopeNeeded('POST', '/submissions/')).toBe('submit');
+    expect(scopeNeeded('POST', '/submissions/batches')).toBe('submit');
     expect(scopeNeeded('POST', '/sweeps')).toBe('sweep');
     expect(scopeNeeded('POST', '/sweeps/preview')).toBe('sweep');
     expect(scopeNeeded('POST', '/sweeps/12/cancel')).toBe('sweep');
@@ -19,7 +20,7 @@ describe('scopeNeeded', () => {
     const closed: Array<[string, string]> = [
       ['POST', '/instance-sets'], ['PATCH', '/instance-sets/4'], ['DELETE', '/instance-sets/4'], ['POST', '/instance-sets/4/files'],
       ['DELETE', '/maps/9'], ['POST', '/executions'], ['PATCH', '/me/settings'], ['PATCH', '/admin/users/2'],
-      ['PUT', '/submissions'], ['DELETE', '/submissions'], ['POST', '/submissions/profiles'], ['POST', '/sweeps/12/cancel/now'],
+      ['PUT', '/submissions'], ['DELETE', '/submissions'], ['POST', '/submissions/profiles'], ['POST', '/submissions/batches/3'], ['POST', '/sweeps/12/cancel/now'],
       ['OPTIONS', '/sweeps'],
     ];
     expect(closed.filter(([m, p]) => scopeNeeded(m, p) !== null)).toEqual([]);

@@ -11,6 +11,7 @@ const SAFE_METHODS = new Set(['GET', 'HEAD']);
 /** Routes (method, path under /api) a state-changing scope opens. */
 const WRITE_SCOPES: ReadonlyArray<{ readonly method: string; readonly path: RegExp; readonly scope: TokenScope }> = [
   { method: 'POST', path: /^\/submissions\/?$/i, scope: 'submit' },
+  { method: 'POST', path: /^\/submissions\/batches\/?$/i, scope: 'submit' },
   { method: 'POST', path: /^\/sweeps\/?$/i, scope: 'sweep' },
   { method: 'POST', path: /^\/sweeps\/preview\/?$/i, scope: 'sweep' },
   { method: 'POST', path: /^\/sweeps\/[^/]+\/cancel\/?$/i, scope: 'sweep' },

@@ -3,8 +3,7 @@ import { Router } from 'express';
 import type { AppContext } from '../app-context';
 import { createProvenanceReader } from '../exports/export-provenance';
 import { exportsRouter } from '../exports/exports.router';
-import { createSubmissionsService } from '../submissions/submissions.service';
-import { submissionsRouter } from '../submissions/submissions.router';
+import { submissionsFeature } from '../submissions/submissions.feature';
 import { leaderboardsRouter } from './leaderboards.router';
 import { createLeaderboardsService } from './leaderboards.service';
 
@@ -14,6 +13,6 @@ export function leaderboardsFeature(ctx: AppContext): Router {
   const r = Router();
   r.use('/leaderboards', leaderboardsRouter(boards));
   r.use('/exports', exportsRouter(boards, createProvenanceReader(ctx.sequelize)));
-  r.use('/submissions', submissionsRouter(createSubmissionsService({ sequelize: ctx.sequelize, models: ctx.models, checkPlan: (instance, sub, requester) => ctx.interactive.checkPlan(instance, sub, requester) })));
+  r.use('/submissions', submissionsFeature(ctx));
   return r;
 }

@@ -13,14 +13,17 @@ import { CreateApiTokenRequest } from '@shared/api-tokens';
 import { PLAN_DOWNLOAD_FORMATS } from '@shared/result-plan-view';
 import { InstanceExecutionRequestSchema, ResultExecutionRequestSchema } from '@shared/executions';
 import { EXPORT_FORMATS } from '@shared/exports-table';
+import { ExternalSolverRequestSchema } from '@shared/external-solvers';
 import { SaveRobotProfileRequest, TrialUploadFields } from '@shared/field-trials';
 import { PUBLISHED_SCHEMAS } from '@shared/help';
+import { HistoryQuery } from '@shared/history';
 import { CreateInstanceSetRequest, GenerateInstancesRequest, InstanceSetListQuery, UpdateInstanceSetRequest } from '@shared/instance-sets';
 import { BEST_AMONG, LEADERBOARD_POLICIES } from '@shared/leaderboards';
 import { SubmissionRequestSchema } from '@shared/plan-format';
 import { REPORT_FORMATS, REPORT_POLICIES } from '@shared/reports';
 import { ChangeQuotaRequest } from '@shared/storage-quota';
 import { SweepDefinitionSchema } from '@shared/sweeps';
+import { BATCH_UPLOAD_FIELD, BatchManifestSchema } from '@shared/submission-batch-format';
 import { ProfilesQuery } from '../submissions/instance-profiles';
 import { CalibrationRequest } from '../trials/trials.router';
 import { AccountSchema, ApiTokenViewSchema, documented, HealthResponseSchema, MeResponseSchema } from './response-schemas';
@@ -35,7 +38,7 @@ export interface BodySpec {
 
 /** The success answer of a route. */
 export interface ResponseSpec {
-  readonly status: 200 | 201 | 204 | 302;
+  readonly status: 200 | 201 | 202 | 204 | 302;
   readonly description: string;
   readonly body?: BodySpec;
 }
@@ -56,6 +59,8 @@ export interface ApiRoute {
   /** Example of the query, checked against `query`. */
   readonly queryExample?: Record<string, unknown>;
   readonly body?: BodySpec;
+  /** A second media type the route takes instead of `body` (e.g. a zip in multipart/form-data beside a JSON body). */
+  readonly alsoAccepts?: BodySpec;
   readonly response: ResponseSpec;
 }
 
@@ -86,12 +91,34 @@ const SWEEP_EXAMPLE = {
   name: 'depot aisle check',
   instances: { instanceSetId: 3 },
   agentCounts: { kind: 'list', values: [2, 4] },
-  models: [{ model: 'classic' }, { model: 'orientation-split' }],
+  // The third spec: the demo's external solver computes classic plans (issue 16, item 4).
+  models: [{ model: 'classic' }, { model: 'orientation-split' }, { model: 'classic', externalSolver: { name: 'prioritised-astar', version: '1.0.0' } }],
   robotProfile: { forwardMs: 1000, quarterTurnMs: 600, waitMs: 1000, cellPitchMm: 500, robotDiameterMm: 350, timingJitter: 0.1 },
   timeLimitMs: 10_000,
   memoryLimitMb: 256,
   execution: { policies: ['open-loop'], runs: 5 },
   seeds: [1],
+};
+
+/** A registration as the demo seed makes it (api/src/demo/demo-external-solver.ts). */
+const EXTERNAL_SOLVER_EXAMPLE = {
+  name: 'prioritised-astar',
+  version: '1.0.0',
+  models: ['classic'],
+  command: '{node} --import tsx solvers/cli/external-example/prioritised-astar.ts --map {map} --scenario {scenario} --agents {agents} --plan {plan} --time-limit-ms {timeLimitMs}',
+  planFormat: 'text',
+  description: 'Prioritised planning with space-time A*.',
+};
+
+/** A JSON batch of two text plans for the same solver (shared/submission-batch-format.ts). */
+const BATCH_EXAMPLE = {
+  format: 'quarterturn-plan-batch',
+  version: 1,
+  defaults: { set: 'Depot aisles', model: 'classic', solver: { name: 'My planner', version: '0.3' } },
+  plans: [
+    { text: '(0,0) (1,0) (2,0)\n(2,2) (1,2) (0,2)\n', instance: { map: 'aisle.map', scenario: 'aisle-1.scen', agents: 2 } },
+    { text: '(0,0) (0,1)\n', instance: { scenarioId: 12, agents: 1 }, model: 'k-robust', k: 1 },
+  ],
 };
 
 /** Every route under /api. */
@@ -163,6 +190,7 @@ export const API_ROUTES: readonly ApiRoute[] = [
     response: { status: 200, description: 'The set', ...json('InstanceSetDetail', 'shared/instance-sets.ts') },
   },
   { method: 'delete', path: '/api/instance-sets/{id}', tag: 'instance library', summary: 'Delete a set with its files and results', role: 'researcher', params: id, response: { status: 204, description: 'Deleted' } },
+  { method: 'get', path: '/api/instance-sets/{id}/archive', tag: 'instance library', summary: "The set's maps and scenarios as uploaded, in one zip with README.txt and SHA256SUMS", role: 'visitor', params: id, response: { status: 200, description: 'The archive', body: file('application/zip', 'maps/ and scenarios/ under a folder named after the set') } },
   { method: 'get', path: '/api/instance-sets/{id}/deletion-preview', tag: 'instance library', summary: 'What deleting the set would remove', role: 'researcher', params: id, response: { status: 200, description: 'Counts', ...json('DeletionPreview', 'shared/instance-sets.ts') } },
   {
     method: 'post', path: '/api/instance-sets/{id}/files', tag: 'instance library', summary: 'Upload map and scenario files (or a zip of them)', role: 'researcher', params: id,
@@ -194,7 +222,18 @@ export const API_ROUTES: readonly ApiRoute[] = [
   { method: 'get', path: '/api/sweeps/{id}', tag: 'sweeps', summary: 'One sweep with its progress', role: 'researcher', params: id, response: { status: 200, description: 'The sweep', ...json('SweepDetail', 'shared/runs.ts') } },
   { method: 'get', path: '/api/sweeps/{id}/results', tag: 'sweeps', summary: "A sweep's runs and results", role: 'researcher', params: id, response: { status: 200, description: 'Runs', ...json('SweepResultsResponse', 'shared/runs.ts') } },
   { method: 'post', path: '/api/sweeps/{id}/cancel', tag: 'sweeps', summary: 'Cancel a sweep (owner, maintainers)', role: 'researcher', params: id, response: { status: 200, description: 'The sweep', ...json('SweepDetail', 'shared/runs.ts') } },
+  { method: 'get', path: '/api/sweeps/{id}/results.csv', tag: 'sweeps', summary: 'One CSV row per run with its parameters and figures, with provenance lines', role: 'researcher', params: id, response: { status: 200, description: 'CSV', body: file('text/csv', 'RFC 4180, # comment lines first') } },
+  { method: 'get', path: '/api/sweeps/{id}/plans.zip', tag: 'sweeps', summary: 'Every stored plan of the sweep as plan JSON documents, with manifest.csv', role: 'researcher', params: id, response: { status: 200, description: 'The archive', body: file('application/zip', 'One plan document per solved run (see /api/schemas/plan-format.schema.json)') } },
   { method: 'get', path: '/api/sweeps/{id}/events', tag: 'sweeps', summary: 'Live progress as server-sent events', role: 'researcher', params: id, response: { status: 200, description: 'Event stream', body: file('text/event-stream', 'snapshot, result and end events') } },
+
+  // External solvers (issue 16, item 4): writes are for a maintainer's browser session (no token scope opens them).
+  { method: 'get', path: '/api/external-solvers', tag: 'external solvers', summary: 'Registered external solvers and the workers that have them', role: 'researcher', response: { status: 200, description: 'Solvers', ...json('ExternalSolverListResponse', 'shared/external-solvers.ts') } },
+  {
+    method: 'post', path: '/api/external-solvers', tag: 'external solvers', summary: 'Register an external solver (name, version, plan models, command template)', role: 'maintainer', isSessionOnly: true,
+    body: { schema: ExternalSolverRequestSchema, example: EXTERNAL_SOLVER_EXAMPLE },
+    response: { status: 201, description: 'The registration', ...json('ExternalSolverView', 'shared/external-solvers.ts') },
+  },
+  { method: 'delete', path: '/api/external-solvers/{id}', tag: 'external solvers', summary: 'Remove a registration (refused while live sweeps wait for it)', role: 'maintainer', isSessionOnly: true, params: id, response: { status: 204, description: 'Removed' } },
 
   // Executions and plans
   {
@@ -234,6 +273,11 @@ export const API_ROUTES: readonly ApiRoute[] = [
   { method: 'delete', path: '/api/trials/uploads/{id}', tag: 'field trials', summary: 'Delete an upload of field trial runs', role: 'researcher', params: id, response: { status: 204, description: 'Deleted' } },
 
   // Boards, exports, submissions, reports
+  {
+    method: 'get', path: '/api/history', tag: 'leaderboards', summary: 'Every result and submission stored for one board row (instance × model variant × robot profile), newest first', role: 'visitor',
+    query: HistoryQuery, queryExample: { scenarioId: 12, agents: 8, model: 'k-robust', variant: 'k=1', profile: '3f9a0c1d2e4b5a69', limit: 20 },
+    response: { status: 200, description: 'The history', ...json('InstanceHistory', 'shared/history.ts') },
+  },
   { method: 'get', path: '/api/leaderboards/rows', tag: 'leaderboards', summary: 'A window of rows of a board view', role: 'visitor', query: BoardViewQuery, queryExample: { cols: 'model,socSteps,runtimeMs', sort: '-socSteps', start: 0, end: 50, 'source.in': 'submitted' }, response: { status: 200, description: 'Rows', ...json('LeaderboardPage', 'shared/leaderboards.ts') } },
   {
     method: 'get', path: '/api/leaderboards/summary', tag: 'leaderboards', summary: 'The per-model summary', role: 'visitor',
@@ -262,6 +306,18 @@ export const API_ROUTES: readonly ApiRoute[] = [
     response: { status: 201, description: 'The accepted submission with its figures', ...json('SubmissionView', 'shared/submissions.ts') },
   },
   { method: 'get', path: '/api/submissions', tag: 'submissions', summary: 'Your accepted submissions', role: 'researcher', response: { status: 200, description: 'Submissions', ...json('SubmissionListResponse', 'shared/submissions.ts') } },
+  {
+    method: 'post', path: '/api/submissions/batches', tag: 'submissions',
+    summary: 'Submit a batch of plans: a zip with batch.json and the plan files (multipart field `archive`), or the manifest as JSON with each plan\'s text; answers 202 and checks the plans in the background', role: 'researcher',
+    body: { schema: z.union([BatchManifestSchema, BatchManifestSchema.shape.plans]), example: BATCH_EXAMPLE },
+    alsoAccepts: { schema: z.object({ [BATCH_UPLOAD_FIELD]: z.string().meta({ format: 'binary', description: 'The batch zip: batch.json and the plan files it names.' }) }), contentType: 'multipart/form-data' },
+    response: { status: 202, description: 'The batch, stored and being checked (Location: its URL)', ...json('SubmissionBatchSummary', 'shared/submission-batches.ts') },
+  },
+  { method: 'get', path: '/api/submissions/batches', tag: 'submissions', summary: 'Your batches, newest first', role: 'researcher', response: { status: 200, description: 'Batches', ...json('SubmissionBatchListResponse', 'shared/submission-batches.ts') } },
+  {
+    method: 'get', path: '/api/submissions/batches/{id}', tag: 'submissions', summary: 'One of your batches: progress and each plan\'s outcome (figures or the first violation)', role: 'researcher', params: id,
+    response: { status: 200, description: 'The batch', ...json('SubmissionBatchView', 'shared/submission-batches.ts') },
+  },
   {
     method: 'get', path: '/api/submissions/profiles', tag: 'submissions', summary: 'The robot profiles to score a plan for an instance under', role: 'researcher',
     query: ProfilesQuery, queryExample: { scenarioId: '12', agents: '2' },

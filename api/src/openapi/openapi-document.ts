@@ -36,7 +36,10 @@ function operationOf(route: ApiRoute): ZodOpenApiOperationObject {
     ...(route.body ? {
       requestBody: {
         required: true,
-        content: { [route.body.contentType ?? 'application/json']: { schema: route.body.schema, ...(route.body.example !== undefined ? { example: route.body.example } : {}) } },
+        content: {
+          [route.body.contentType ?? 'application/json']: { schema: route.body.schema, ...(route.body.example !== undefined ? { example: route.body.example } : {}) },
+          ...(route.alsoAccepts ? { [route.alsoAccepts.contentType ?? 'application/json']: { schema: route.alsoAccepts.schema } } : {}),
+        },
       },
     } : {}),
     responses: {

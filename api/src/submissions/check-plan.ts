@@ -13,7 +13,7 @@ import { scheduleFromHeadingStates } from '@solvers/models/heading-schedule';
 import { scheduleFromPaths } from '@solvers/models/turn-schedule';
 import { checkAtNominal, type NominalCheck } from '@solvers/run/nominal-check';
 import { replayPlan } from '@solvers/run/replay-plan';
-import type { TaskExecutionSummary, TaskPlan } from '@solvers/run/plan-task';
+import type { TaskExecution, TaskExecutionSummary, TaskPlan } from '@solvers/run/plan-task';
 import { validateClassicPlan } from '@solvers/validate/classic';
 import { validateKRobustPlan } from '@solvers/validate/k-robust';
 import { validateOrientationPlan } from '@solvers/validate/orientation-split';
@@ -58,11 +58,17 @@ function violationOf(check: PlanCheck, cellAt: (agent: number, time: number) => 
   return { kind: v.kind, agents: [...v.agents], time: v.time, cell: [cell[0], cell[1]], message: v.message };
 }
 
-/** Validates `sub` against `instance` and, when it passes, computes its figures and replays. */
-export function checkPlan(instance: MapfInstance, sub: ReadSubmission): PlanVerdict {
+/** How a checked plan is replayed: a submission's fixed settings, or a sweep's (an external solver's run, issue 16, item 4). */
+export interface PlanReplaySettings {
+  readonly execution: TaskExecution;
+  readonly seed: number;
+}
+
+/** Validates `sub` against `instance` and, when it passes, computes its figures and replays (default: a submission's settings). */
+export function checkPlan(instance: MapfInstance, sub: ReadSubmission, settings: PlanReplaySettings = { execution: SUBMISSION_EXECUTION, seed: SUBMISSION_SEED }): PlanVerdict {
   const profile = sub.robotProfile;
   const replay = (schedule: Schedule, timeline: 'steps' | 'ms') =>
-    replayPlan(instance, { timeline, schedule }, profile, SUBMISSION_EXECUTION, SUBMISSION_SEED);
+    replayPlan(instance, { timeline, schedule }, profile, settings.execution, settings.seed);
   const nominal = (schedule: Schedule, timeline: 'steps' | 'ms') => checkAtNominal(instance, { timeline, schedule }, profile);
   const plan = sub.plan;
 
