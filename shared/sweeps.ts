@@ -6,6 +6,7 @@
  */
 import { z } from 'zod';
 import { FOLLOWING_RULES, HEADINGS, PLAN_MODELS, type PlanModel } from './plan';
+import { SolverRefSchema, solverKey } from './external-solvers';
 import { singleLineText } from './text-field';
 
 /** Execution policies a sweep may replay plans under (same names as solvers/execute). */
@@ -129,14 +130,30 @@ export const SuboptimalitySchema = z.number({ error: 'suboptimality (w) must be 
   .refine((w) => Math.abs(w * 1000 - Math.round(w * 1000)) < 1e-9, 'suboptimality (w) takes at most 3 decimals, e.g. 1.25');
 const suboptimalityBase = { suboptimality: SuboptimalitySchema.optional() };
 
+/**
+ * A registered external solver that computes this model's plans instead of Quarterturn's own
+ * search (issue 16, item 4; shared/external-solvers.ts). Optional, absent = built-in: a built-in
+ * spec is hashed and stored exactly as before the field existed. Present, it is part of the run
+ * params (params.model.externalSolver), so the solver's results are their own board variant.
+ */
+const externalBase = { externalSolver: SolverRefSchema.optional() };
+
 /** One plan model with its parameters. */
 export const ModelSpecSchema = z.discriminatedUnion('model', [
-  z.object({ model: z.literal('classic'), ...unitStepBase, ...followingBase, ...suboptimalityBase }).strict(),
-  z.object({ model: z.literal('uniform-duration'), ...unitStepBase, ...followingBase, ...suboptimalityBase }).strict(),
-  z.object({ model: z.literal('orientation-split'), ...unitStepBase, ...followingBase, ...suboptimalityBase }).strict(),
-  z.object({ model: z.literal('weighted-split'), startHeading: StartHeadingSchema.default('free'), ...suboptimalityBase }).strict(),
-  z.object({ model: z.literal('k-robust'), k: whole(0, 20), ...unitStepBase, ...suboptimalityBase }).strict(),
-]);
+  z.object({ model: z.literal('classic'), ...unitStepBase, ...followingBase, ...suboptimalityBase, ...externalBase }).strict(),
+  z.object({ model: z.literal('uniform-duration'), ...unitStepBase, ...followingBase, ...suboptimalityBase, ...externalBase }).strict(),
+  z.object({ model: z.literal('orientation-split'), ...unitStepBase, ...followingBase, ...suboptimalityBase, ...externalBase }).strict(),
+  z.object({ model: z.literal('weighted-split'), startHeading: StartHeadingSchema.default('free'), ...suboptimalityBase, ...externalBase }).strict(),
+  z.object({ model: z.literal('k-robust'), k: whole(0, 20), ...unitStepBase, ...suboptimalityBase, ...externalBase }).strict(),
+]).superRefine((m, ctx) => {
+  // Switches, w and the following rule steer Quarterturn's own search; an external solver gets
+  // only the instance, the model, k, the start heading and the limits, so they would be promises
+  // nobody keeps. Refused rather than ignored.
+  if (!m.externalSolver) return;
+  if (isBounded(m)) ctx.addIssue({ code: 'custom', path: ['suboptimality'], message: 'an external solver takes no suboptimality (w); leave it at 1' });
+  if (forbidsFollowing(m)) ctx.addIssue({ code: 'custom', path: ['following'], message: 'an external solver is checked under the classic following rule; leave following allowed' });
+  if (switchesOff(m).length > 0) ctx.addIssue({ code: 'custom', path: ['switches'], message: 'CBS switches belong to the built-in search; an external solver takes none' });
+});
 export type ModelSpec = z.output<typeof ModelSpecSchema>;
 
 /** The robot profile of a sweep (times in ms, lengths in mm; see shared/plan.ts RobotProfile). */
@@ -221,6 +238,7 @@ export function describeModelSpec(m: ModelSpec): string {
   const off = switchesOff(m);
   return [
     `${m.model}${'k' in m ? ` k=${m.k}` : ''}`,
+    ...(m.externalSolver ? [`by ${solverKey(m.externalSolver)}`] : []),
     ...(isBounded(m) ? [`w = ${suboptimalityOf(m)}`] : []),
     `start heading ${m.startHeading}`,
     ...(forbidsFollowing(m) ? ['following forbidden'] : []),
@@ -242,6 +260,7 @@ export function repeatedModels(models: readonly ModelSpec[]): { readonly index: 
       model: m.model, k: 'k' in m ? m.k : undefined, startHeading: m.startHeading, off: switchesOff(m),
       following: forbidsFollowing(m) ? 'forbidden' : undefined,
       w: isBounded(m) ? suboptimalityOf(m) : undefined,
+      external: m.externalSolver ? solverKey(m.externalSolver) : undefined,
     });
     const earlier = first.get(key);
     if (earlier === undefined) first.set(key, index);

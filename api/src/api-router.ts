@@ -4,6 +4,7 @@ import type { AppContext } from './app-context';
 import { apiTokensRouter } from './api-tokens/api-tokens.router';
 import { createApiTokensService } from './api-tokens/api-tokens.service';
 import { executionsFeature } from './executions/executions.feature';
+import { externalSolversFeature } from './external-solvers/external-solvers.router';
 import { healthRouter } from './health/health.router';
 import { historyFeature } from './history/history.router';
 import { repositoryHelpFiles } from './help/help-files';
@@ -33,6 +34,7 @@ export function apiRouter(ctx: AppContext): Router {
   r.use(instanceLibraryRouter(ctx));
   r.use(sweepsFeature(ctx));
   r.use('/sweeps', sweepDownloadsRouter(ctx));
+  r.use('/external-solvers', externalSolversFeature(ctx));
   r.use('/executions', executionsFeature(ctx));
   r.use(leaderboardsFeature(ctx));
   r.use('/history', historyFeature(ctx));

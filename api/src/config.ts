@@ -4,7 +4,9 @@
  * The defaults make `npm start` work on a fresh machine with nothing set.
  */
 import { z } from 'zod';
+import { EXAMPLE_SOLVER, solverKey, type SolverRef } from '@shared/external-solvers';
 import type { QuotaAmounts } from '@shared/storage-quota';
+import { workerSolversField } from './workers/worker-config';
 
 /** The session secret used when SESSION_SECRET is unset; fine on a laptop, refused on a public host. */
 export const DEV_SESSION_SECRET = 'quarterturn-dev-session-secret-change-me';
@@ -54,6 +56,8 @@ export interface AppConfig {
   readonly isEmbeddedWorker: boolean;
   /** Threads of the embedded worker's pool (WORKER_THREADS); undefined = cores − 1, at least 1. */
   readonly workerThreads: number | undefined;
+  /** External solvers the embedded worker runs (WORKER_SOLVERS; default the shipped example, empty = none). */
+  readonly workerSolvers: readonly SolverRef[];
   /** Port of the local fake SMTP server `npm start` runs when SMTP_URL is unset (FAKE_SMTP_PORT). */
   readonly fakeSmtpPort: number;
   /** Seconds a run's job may outlive its time limit before the queue hands it to another worker (JOB_EXPIRY_MARGIN_SECONDS). */
@@ -116,6 +120,8 @@ const EnvSchema = z.object({
   TRUST_PROXY: z.preprocess(emptyAsUndefined, z.coerce.number().int().min(0).default(0)),
   EMBEDDED_WORKER: z.preprocess(emptyAsUndefined, z.enum(['true', 'false', '1', '0']).default('true')),
   WORKER_THREADS: z.preprocess(emptyAsUndefined, z.coerce.number().int().min(1).max(256).optional()),
+  // The embedded worker declares the shipped example solver unless told otherwise (empty = none).
+  WORKER_SOLVERS: workerSolversField(solverKey(EXAMPLE_SOLVER)),
   FAKE_SMTP_PORT: port(4302),
   JOB_EXPIRY_MARGIN_SECONDS: z.preprocess(emptyAsUndefined, z.coerce.number().int().min(1).max(86_400).default(60)),
   INTERACTIVE_THREADS: z.preprocess(emptyAsUndefined, z.coerce.number().int().min(1).max(64).default(1)),
@@ -196,6 +202,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): { config: AppC
       trustProxy: e.TRUST_PROXY,
       isEmbeddedWorker: e.EMBEDDED_WORKER === 'true' || e.EMBEDDED_WORKER === '1',
       workerThreads: e.WORKER_THREADS,
+      workerSolvers: e.WORKER_SOLVERS,
       fakeSmtpPort: e.FAKE_SMTP_PORT,
       jobExpiryMarginSeconds: e.JOB_EXPIRY_MARGIN_SECONDS,
       interactiveThreads: e.INTERACTIVE_THREADS,

@@ -7,6 +7,7 @@ import { QueryTypes, type Sequelize } from 'sequelize';
 import type pg from 'pg';
 import type PgBoss from 'pg-boss';
 import { hasRole } from '@shared/auth';
+import { solverKey, type SolverRef } from '@shared/external-solvers';
 import { isSweepOver, type SweepDetail, type SweepListResponse, type SweepPreviewResponse, type SweepResultRow, type SweepStatus, type SweepSummary } from '@shared/runs';
 import { checkSweepSize, expandSweep, runParameters, SweepDefinitionSchema, sweepSize, type ScenarioCapacity, type SweepDefinition } from '@shared/sweeps';
 import type { Models } from '../db/models';
@@ -14,7 +15,8 @@ import { AppError } from '../errors/app-error';
 import { validate } from '../errors/validate';
 import { isSetVisible } from '../instance-sets/instance-set-access';
 import { SWEEP_CANCEL_CHANNEL } from '../workers/sweep-channels';
-import { RUN_QUEUE, runJob, sendRunJobs } from '../workers/sweep-queue';
+import { externalRunQueue, RUN_QUEUE, runJob, sendRunJobs } from '../workers/sweep-queue';
+import { findExternalSolver } from '../external-solvers/external-solvers.service';
 import { parameterHash } from './parameter-hash';
 import { toAccount } from '../users/account';
 import { canSeeSweep, visibleSweepsCondition } from './sweep-access';
@@ -58,6 +60,22 @@ export function createSweepsService(deps: SweepsDeps): SweepsService {
       throw new AppError('VALIDATION_FAILED', 400, `Scenario ${unknown.join(', ')} is not in instance set ${set.id}`, [{ path: ['instances', 'scenarioIds'], message: 'unknown scenario' }]);
     }
     return rows.map((r) => ({ id: r.id, mapId: r.mapId, maxAgents: r.maxAgents }));
+  }
+
+  /** Every external solver the definition names must be registered for its spec's plan model. */
+  async function checkExternalSolvers(def: SweepDefinition): Promise<void> {
+    for (const [index, m] of def.models.entries()) {
+      if (!m.externalSolver) continue;
+      const registration = await findExternalSolver(sequelize, m.externalSolver);
+      const key = solverKey(m.externalSolver);
+      if (!registration) {
+        throw new AppError('VALIDATION_FAILED', 400, `models[${index}]: no external solver ${key} is registered`, [{ path: ['models', index, 'externalSolver'], message: `no external solver ${key} is registered` }]);
+      }
+      if (!registration.models.includes(m.model)) {
+        const message = `${key} is registered for ${registration.models.join(', ')}, not ${m.model}`;
+        throw new AppError('VALIDATION_FAILED', 400, `models[${index}]: ${message}`, [{ path: ['models', index, 'model'], message }]);
+      }
+    }
   }
 
   async function summaryRows(where: string, replacements: Record<string, unknown>): Promise<SweepSummary[]> {
@@ -104,9 +122,13 @@ export function createSweepsService(deps: SweepsDeps): SweepsService {
       const scenarios = await scenariosOf(viewer, def);
       const refusal = checkSweepSize(sweepSize(def, scenarios));
       if (refusal) throw new AppError('SWEEP_TOO_LARGE', 400, refusal);
+      await checkExternalSolvers(def);
       const mapOf = new Map(scenarios.map((s) => [s.id, s.mapId]));
       const specs = expandSweep(def, scenarios);
       const boss = await deps.boss();
+      // An external solver's runs go to its own queue (only workers declaring it take them); it must exist before jobs enter it.
+      const queues = def.models.map((m) => (m.externalSolver ? externalRunQueue(m.externalSolver) : RUN_QUEUE));
+      for (const q of new Set(queues)) if (q !== RUN_QUEUE) await boss.createQueue(q);
       const id = await sequelize.transaction(async (transaction) => {
         const sweep = await models.Sweep.create({ ownerId: viewer.id, name: def.name, definition: def, runCount: specs.length }, { transaction });
         const params = def.models.map((_, i) => runParameters(def, i));
@@ -125,7 +147,7 @@ export function createSweepsService(deps: SweepsDeps): SweepsService {
              RETURNING id`,
             { replacements: { rows: JSON.stringify(values) }, transaction, type: QueryTypes.SELECT },
           );
-          jobs.push(...inserted.map((r) => runJob({ runId: r.id, sweepId: sweep.id }, def.timeLimitMs, deps.jobExpiryMarginSeconds)));
+          jobs.push(...inserted.map((r, j) => runJob({ runId: r.id, sweepId: sweep.id }, def.timeLimitMs, deps.jobExpiryMarginSeconds, queues[chunk[j].modelIndex])));
         }
         await sequelize.query(
           'UPDATE runs SET job_id = x.job::uuid FROM json_to_recordset(:rows) AS x(run int, job text) WHERE runs.id = x.run',
@@ -157,8 +179,9 @@ export function createSweepsService(deps: SweepsDeps): SweepsService {
       const jobIds = await sequelize.transaction(async (transaction) => {
         const locked = await sequelize.query<{ status: SweepStatus }>('SELECT status FROM sweeps WHERE id = :id FOR UPDATE', { replacements: { id }, transaction, type: QueryTypes.SELECT });
         if (!locked[0] || isSweepOver(locked[0].status)) throw new AppError('CONFLICT', 409, `Sweep ${id} is already over.`);
-        const open = await sequelize.query<{ job_id: string | null }>(
-          "UPDATE runs SET status = 'cancelled', finished_at = now(), reason = 'sweep cancelled' WHERE sweep_id = :id AND status IN ('pending', 'running') RETURNING job_id",
+        const open = await sequelize.query<{ job_id: string | null; solver: SolverRef | null }>(
+          `UPDATE runs SET status = 'cancelled', finished_at = now(), reason = 'sweep cancelled' WHERE sweep_id = :id AND status IN ('pending', 'running')
+           RETURNING job_id, params->'model'->'externalSolver' AS solver`,
           { replacements: { id }, transaction, type: QueryTypes.SELECT },
         );
         const counts = await sequelize.query<{ status: string; n: string }>('SELECT status, count(*) AS n FROM runs WHERE sweep_id = :id GROUP BY status', { replacements: { id }, transaction, type: QueryTypes.SELECT });
@@ -169,11 +192,21 @@ export function createSweepsService(deps: SweepsDeps): SweepsService {
         // Workers abort the sweep's running tasks; the SSE stream shows the final state (both on commit).
         await sequelize.query('SELECT pg_notify(:ch, :p)', { replacements: { ch: SWEEP_CANCEL_CHANNEL, p: JSON.stringify({ sweepId: id }) }, transaction });
         await sequelize.query("SELECT pg_notify('qt_sweep_events', :p)", { replacements: { p: JSON.stringify({ sweepId: id, isSweepOver: true }) }, transaction });
-        return open.map((r) => r.job_id).filter((j): j is string => j !== null);
+        // Job ids per queue: built-in runs' and each external solver's.
+        const byQueue = new Map<string, string[]>();
+        for (const r of open) {
+          if (r.job_id === null) continue;
+          const queue = r.solver ? externalRunQueue(r.solver) : RUN_QUEUE;
+          byQueue.set(queue, [...(byQueue.get(queue) ?? []), r.job_id]);
+        }
+        return byQueue;
       });
-      // Pending jobs leave the queue; a worker that already fetched one finds its run cancelled and skips it.
+      // Pending jobs leave the queue; a worker that already fetched one finds its run cancelled and
+      // skips it; a running external process is killed by its worker on the cancel notice.
       const boss = await deps.boss();
-      for (let i = 0; i < jobIds.length; i += 500) await boss.cancel(RUN_QUEUE, jobIds.slice(i, i + 500));
+      for (const [queue, ids] of jobIds) {
+        for (let i = 0; i < ids.length; i += 500) await boss.cancel(queue, ids.slice(i, i + 500));
+      }
       return detail(viewer, id);
     },
 

@@ -17,6 +17,7 @@ export async function startEmbeddedWorker(config: AppConfig, databaseUrl: string
   const mailer: Mailer | undefined = smtpUrl ? createMailer(smtpUrl) : undefined;
   const worker = await startSweepWorker({
     databaseUrl, threads: config.workerThreads ?? defaultThreadCount(), logger, mailer, publicUrl: config.publicUrl,
+    solvers: config.workerSolvers,
   });
   return {
     worker,

@@ -29,7 +29,7 @@ export default function planThread(envelope: ThreadEnvelope): ThreadAnswer | Pro
       case 'plan': return { ok: true, value: runPlanTask(job.task, { now: () => performance.now() }) };
       case 'execute': return { ok: true, value: executeTask(job.task) };
       case 'generate': return { ok: true, value: generateEntries(job.request).map((e) => ({ name: e.name, bytes: e.bytes })) };
-      case 'check-plan': return { ok: true, value: checkPlan(job.instance, job.submission) };
+      case 'check-plan': return { ok: true, value: checkPlan(job.instance, job.submission, job.replay) };
       case 'prepare-upload': return prepareInThread(job.upload, job.maps);
       case 'check-trials': return checkTrials(job.job).then((value) => ({ ok: true, value }));
       case 'calibrate-trials': return { ok: true, value: fitTrialLogs(job.logs) };

@@ -110,8 +110,8 @@ interface ClaimedRow {
   model: string; model_index: number; params: Record<string, unknown>; param_hash: string; seed: string; definition: SweepDefinition;
 }
 
-/** Marks the run running (a run already over, or of a sweep no longer live, is not claimed: null). */
-async function claimRun(sequelize: Sequelize, job: RunJobData, worker: string): Promise<{ run: ClaimedRun; definition: SweepDefinition } | null> {
+/** Marks the run running (a run already over, or of a sweep no longer live, is not claimed: null). Also used for external solvers' runs. */
+export async function claimRun(sequelize: Sequelize, job: RunJobData, worker: string): Promise<{ run: ClaimedRun; definition: SweepDefinition } | null> {
   await sequelize.query(
     "UPDATE sweeps SET status = 'running', started_at = COALESCE(started_at, now()), updated_at = now() WHERE id = :id AND status = 'queued'",
     { replacements: { id: job.sweepId } },

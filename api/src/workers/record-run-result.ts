@@ -37,13 +37,25 @@ export interface RecordOutcome {
   readonly isSweepClosed: boolean;
 }
 
-/** Records `result` for `run` (see the module comment). */
+/**
+ * What an external solver's run adds (issue 16, item 4; migration 0411): the solver's name and
+ * version (stored as the result's solver_name and solver_version) and what its process used.
+ */
+export interface ExternalRunFacts {
+  readonly solverName: string;
+  readonly solverVersion: string;
+  readonly cpuTimeMs: number | null;
+  readonly peakMemoryKb: number | null;
+}
+
+/** Records `result` for `run` (see the module comment); `external` for an external solver's run. */
 export async function recordRunResult(
   sequelize: Sequelize,
   run: ClaimedRun,
   result: PlanTaskResult,
   build: SolverBuild,
   elapsedMs: number,
+  external?: ExternalRunFacts,
 ): Promise<RecordOutcome> {
   return sequelize.transaction(async (transaction) => {
     const q = <T extends object>(sql: string, replacements: Record<string, unknown>) =>
@@ -57,11 +69,11 @@ export async function recordRunResult(
       `INSERT INTO results (run_id, sweep_id, instance_set_id, map_id, scenario_id, agents, model, params, param_hash, seed,
          status, reason, soc, makespan, turn_inclusive_soc_ms, turn_inclusive_makespan_ms, lower_bound, runtime_ms,
          nodes, nodes_expanded, turns, robot_profile, robot_profile_hash, solver_version, solver_commit, node_version,
-         cpu_model, thread_count, plan_gz, executable_at_nominal, nominal_collisions)
+         cpu_model, thread_count, plan_gz, executable_at_nominal, nominal_collisions, solver_name, cpu_time_ms, peak_memory_kb)
        VALUES (:runId, :sweepId, :instanceSetId, :mapId, :scenarioId, :agents, :model, :params, :paramHash, :seed,
          :status, :reason, :soc, :makespan, :tiSoc, :tiMakespan, :lowerBound, :runtimeMs,
          :nodes, :nodesExpanded, :turns, :profile, :profileHash, :version, :commit, :node,
-         :cpu, :threads, :plan, :atNominal, :nominalCollisions)
+         :cpu, :threads, :plan, :atNominal, :nominalCollisions, :solverName, :cpuTimeMs, :peakMemoryKb)
        ON CONFLICT DO NOTHING RETURNING id`,
       {
         runId: run.id, sweepId: run.sweepId, instanceSetId: run.instanceSetId, mapId: run.mapId, scenarioId: run.scenarioId,
@@ -70,10 +82,12 @@ export async function recordRunResult(
         tiSoc: result.turnInclusiveSocMs, tiMakespan: result.turnInclusiveMakespanMs, lowerBound: result.lowerBound,
         runtimeMs: result.runtimeMs, nodes: result.nodesGenerated, nodesExpanded: result.nodesExpanded, turns: result.turns,
         profile: JSON.stringify(profile), profileHash: parameterHash(profile),
-        version: build.version, commit: build.commit, node: build.node, cpu: build.cpuModel, threads: build.threads,
+        version: external?.solverVersion ?? build.version, commit: build.commit, node: build.node, cpu: build.cpuModel, threads: build.threads,
         plan: result.plan ? gzipSync(JSON.stringify(result.plan)) : null,
         // Executable at nominal times (migration 0405); null when the run was not solved or not checked.
         atNominal: result.atNominal?.isCollisionFree ?? null, nominalCollisions: result.atNominal?.collisions ?? null,
+        // External solvers (migration 0411); null for Quarterturn's own search.
+        solverName: external?.solverName ?? null, cpuTimeMs: external?.cpuTimeMs ?? null, peakMemoryKb: external?.peakMemoryKb ?? null,
       },
     );
     const resultId = inserted[0]?.id;

@@ -6,9 +6,20 @@
 import { randomUUID } from 'node:crypto';
 import PgBoss from 'pg-boss';
 import type { Logger } from 'pino';
+import { solverKey, type SolverRef } from '@shared/external-solvers';
 
 /** Name of the queue of sweep runs. */
 export const RUN_QUEUE = 'qt-sweep-runs';
+
+/**
+ * The queue of an external solver's runs (issue 16, item 4): one per name and version, which
+ * only workers declaring that solver (WORKER_SOLVERS) take jobs from, so a run never lands on a
+ * machine without the program. Built-in runs stay on RUN_QUEUE. (pg-boss 10 keeps each queue in
+ * a partition table named by a hash of the name, so any characters of a solver name are safe.)
+ */
+export function externalRunQueue(ref: SolverRef): string {
+  return `qt-external-runs:${solverKey(ref)}`;
+}
 
 /** The data of one job. */
 export interface RunJobData {
@@ -53,10 +64,10 @@ export function runJobExpirySeconds(timeLimitMs: number, marginSeconds: number):
 }
 
 /** A run's job, with an id chosen here so the run row can name it (for cancel). */
-export function runJob(data: RunJobData, timeLimitMs: number, marginSeconds: number): PgBoss.JobInsert<RunJobData> & { readonly id: string; readonly data: RunJobData } {
+export function runJob(data: RunJobData, timeLimitMs: number, marginSeconds: number, queue = RUN_QUEUE): PgBoss.JobInsert<RunJobData> & { readonly id: string; readonly data: RunJobData } {
   return {
     id: randomUUID(),
-    name: RUN_QUEUE,
+    name: queue,
     data,
     expireInSeconds: runJobExpirySeconds(timeLimitMs, marginSeconds),
     // Retries cover workers that died mid-run; a run's own failures are recorded, not retried.

@@ -6,6 +6,7 @@
 import type PgBoss from 'pg-boss';
 import type { Logger } from 'pino';
 import type { Sequelize } from 'sequelize';
+import { solverKey, type SolverRef } from '@shared/external-solvers';
 import { defineModels } from '../db/models';
 import { createSequelize } from '../db/sequelize';
 import type { Mailer } from '../mail/mailer';
@@ -14,7 +15,9 @@ import { readSolverBuild } from './machine-info';
 import { PlanPool } from './plan-pool';
 import { processRun, workerName, type RunContext } from './process-run';
 import { listenChannels, SWEEP_CANCEL_CHANNEL, type ChannelListener } from './sweep-channels';
-import { createBoss, RUN_QUEUE, type RunJobData } from './sweep-queue';
+import { processExternalRun } from './process-external-run';
+import { declareSolvers, type SolverDeclaration } from './solver-declarations';
+import { createBoss, externalRunQueue, RUN_QUEUE, type RunJobData } from './sweep-queue';
 import { withDbRetry } from './with-db-retry';
 
 /** Options of startSweepWorker. */
@@ -34,6 +37,11 @@ export interface SweepWorkerOptions {
   readonly threadFile?: string;
   /** Heap limits whose threads are loaded before the first job and kept loaded; default WARM_MEMORY_LIMITS_MB. */
   readonly warmMemoryLimitsMb?: readonly number[];
+  /**
+   * Registered external solvers installed on this machine (WORKER_SOLVERS): the worker takes jobs
+   * from each one's queue, one at a time per solver, beside its built-in runs (issue 16, item 4).
+   */
+  readonly solvers?: readonly SolverRef[];
 }
 
 /** The heap limit of the sweep form's default (web/src/app/sweeps/sweep-form-rules.ts), MB: warmed at start. */
@@ -96,9 +104,9 @@ export async function startSweepWorker(options: SweepWorkerOptions): Promise<Swe
     throw err;
   }
 
-  const handle = async (jobs: PgBoss.Job<RunJobData>[]): Promise<void> => {
+  const handle = async (jobs: PgBoss.Job<RunJobData>[], runOne = processRun): Promise<void> => {
     for (const job of jobs) {
-      const outcome = await processRun(ctx, job.data);
+      const outcome = await runOne(ctx, job.data);
       if (outcome.kind === 'recorded') {
         logger.debug({ runId: job.data.runId, status: outcome.result.status, isWritten: outcome.record.isWritten }, 'run recorded');
         if (outcome.record.isSweepClosed) {
@@ -124,7 +132,31 @@ export async function startSweepWorker(options: SweepWorkerOptions): Promise<Swe
     });
     workIds.push(slot.id);
   }
-  logger.info({ worker: name, threads: options.threads, cpu: build.cpuModel, commit: build.commit }, 'sweep worker taking jobs');
+  // External solvers: one poller per declared solver. Its child process runs beside the pool's
+  // threads (the plan's check and replays then take a pool thread), so a machine with N cores
+  // and one declared solver may briefly run N + 1 busy processes; declare fewer threads if that matters.
+  const solvers = options.solvers ?? [];
+  let declaration: SolverDeclaration = { stop: async () => undefined };
+  try {
+    for (const ref of solvers) {
+      const queue = externalRunQueue(ref);
+      await boss.createQueue(queue);
+      const slot: { id?: string } = {};
+      slot.id = await boss.work<RunJobData>(queue, { batchSize: 1, pollingIntervalSeconds: options.pollingSeconds ?? 0.5 }, async (jobs) => {
+        await handle(jobs, processExternalRun);
+        if (slot.id && !isStopping) boss.notifyWorker(slot.id);
+      });
+      workIds.push(slot.id);
+    }
+    declaration = await withDbRetry(() => declareSolvers(sequelize, name, solvers, logger));
+  } catch (err) {
+    await boss.stop({ graceful: false, wait: true }).catch(() => undefined);
+    await listener.close();
+    await pool.close();
+    await sequelize.close();
+    throw err;
+  }
+  logger.info({ worker: name, threads: options.threads, cpu: build.cpuModel, commit: build.commit, solvers: solvers.map(solverKey) }, 'sweep worker taking jobs');
 
   let stopped: Promise<void> | undefined;
   return {
@@ -137,6 +169,7 @@ export async function startSweepWorker(options: SweepWorkerOptions): Promise<Swe
         isStopping = true;
         if (!graceful) shutdown.abort();
         await boss.stop({ graceful, wait: true, timeout: stopOptions.timeoutMs ?? 30_000 }).catch(() => undefined);
+        await declaration.stop();
         await listener.close();
         await pool.close();
         await sequelize.close();

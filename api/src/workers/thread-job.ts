@@ -11,7 +11,7 @@ import type { ExecutionTask, ExecutionTaskOutcome } from '../executions/executio
 import type { GenerateRequest } from '../instance-sets/generate-entries';
 import type { PreparedUpload, PrepareUploadJob } from '../instance-sets/prepare-upload';
 import type { MapfInstance } from '@solvers/instance';
-import type { PlanVerdict } from '../submissions/check-plan';
+import type { PlanReplaySettings, PlanVerdict } from '../submissions/check-plan';
 import type { ReadSubmission } from '../submissions/read-plan-file';
 import type { CheckTrialsJob, CheckTrialsOutcome } from '../trials/check-trials';
 import type { StoredLogText } from '../trials/calibrate-trials';
@@ -22,7 +22,8 @@ export type ThreadJob =
   | { readonly kind: 'plan'; readonly task: PlanTask }
   | { readonly kind: 'execute'; readonly task: ExecutionTask }
   | { readonly kind: 'generate'; readonly request: GenerateRequest }
-  | { readonly kind: 'check-plan'; readonly instance: MapfInstance; readonly submission: ReadSubmission }
+  /** `replay`: the sweep's replay settings for an external solver's plan (absent: a submission's). */
+  | { readonly kind: 'check-plan'; readonly instance: MapfInstance; readonly submission: ReadSubmission; readonly replay?: PlanReplaySettings }
   /** `maps` answers the thread's requests for stored maps of the set (see MapRequest). */
   | { readonly kind: 'prepare-upload'; readonly upload: PrepareUploadJob; readonly maps: MessagePort }
   | { readonly kind: 'check-trials'; readonly job: CheckTrialsJob }

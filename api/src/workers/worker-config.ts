@@ -1,6 +1,36 @@
 /** Settings of a stand-alone worker process (`npm run worker`), from the environment, validated with zod. */
 import { z } from 'zod';
+import { parseSolverKey, type SolverRef } from '@shared/external-solvers';
 import { defaultThreadCount } from './machine-info';
+
+/**
+ * WORKER_SOLVERS: the registered external solvers this machine has installed, as a comma list of
+ * name@version (issue 16, item 4). Empty or unset = none. Each entry appears once.
+ */
+export function parseWorkerSolvers(text: string | undefined): { readonly ok: true; readonly solvers: SolverRef[] } | { readonly ok: false; readonly message: string } {
+  const entries = (text ?? '').split(',').map((e) => e.trim()).filter((e) => e !== '');
+  const solvers: SolverRef[] = [];
+  const seen = new Set<string>();
+  for (const entry of entries) {
+    const parsed = parseSolverKey(entry);
+    if (!parsed.ok) return { ok: false, message: parsed.message };
+    const key = `${parsed.ref.name}@${parsed.ref.version}`;
+    if (seen.has(key)) return { ok: false, message: `${key} is listed twice` };
+    seen.add(key);
+    solvers.push(parsed.ref);
+  }
+  return { ok: true, solvers };
+}
+
+/** A zod field for WORKER_SOLVERS (worker and server configuration alike). */
+export const workerSolversField = (fallback: string) => z.string().optional().transform((v, ctx) => {
+  const parsed = parseWorkerSolvers(v ?? fallback);
+  if (!parsed.ok) {
+    ctx.addIssue({ code: 'custom', message: `${parsed.message} (WORKER_SOLVERS is a comma list of name@version)` });
+    return z.NEVER;
+  }
+  return parsed.solvers;
+});
 
 const empty = (v: unknown) => (typeof v === 'string' && v.trim() === '' ? undefined : v);
 
@@ -11,6 +41,7 @@ const WorkerEnv = z.object({
   PUBLIC_URL: z.preprocess(empty, z.url({ protocol: /^https?$/ }).default('http://127.0.0.1:4300')),
   LOG_LEVEL: z.preprocess(empty, z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info')),
   WORKER_MAINTENANCE_SECONDS: z.preprocess(empty, z.coerce.number().int().min(1).max(3600).default(10)),
+  WORKER_SOLVERS: workerSolversField(''),
 });
 
 /** The validated settings of a worker. */
@@ -21,6 +52,8 @@ export interface WorkerConfig {
   readonly publicUrl: string;
   readonly logLevel: z.output<typeof WorkerEnv>['LOG_LEVEL'];
   readonly maintenanceSeconds: number;
+  /** External solvers this machine runs (WORKER_SOLVERS). */
+  readonly solvers: readonly SolverRef[];
 }
 
 /** Reads the worker settings; throws an Error with one line per bad variable. */
@@ -35,5 +68,6 @@ export function loadWorkerConfig(env: NodeJS.ProcessEnv = process.env): WorkerCo
     publicUrl: e.PUBLIC_URL.replace(/\/+$/, ''),
     logLevel: e.LOG_LEVEL,
     maintenanceSeconds: e.WORKER_MAINTENANCE_SECONDS,
+    solvers: e.WORKER_SOLVERS,
   };
 }

@@ -16,7 +16,7 @@ async function main(): Promise<void> {
   const mailer = config.smtpUrl ? createMailer(config.smtpUrl) : undefined;
   const worker = await startSweepWorker({
     databaseUrl: config.databaseUrl, threads: config.threads, logger, mailer, publicUrl: config.publicUrl,
-    maintenanceSeconds: config.maintenanceSeconds,
+    maintenanceSeconds: config.maintenanceSeconds, solvers: config.solvers,
   });
   let signals = 0;
   const stop = (signal: string) => {
@@ -30,7 +30,7 @@ async function main(): Promise<void> {
   };
   process.on('SIGINT', () => stop('SIGINT'));
   process.on('SIGTERM', () => stop('SIGTERM'));
-  console.log(`worker ${worker.name} ready with ${worker.threads} thread(s)`);
+  console.log(`worker ${worker.name} ready with ${worker.threads} thread(s)${config.solvers.length > 0 ? ` and external solvers ${config.solvers.map((r) => `${r.name}@${r.version}`).join(', ')}` : ''}`);
 }
 
 main().catch((err: unknown) => {

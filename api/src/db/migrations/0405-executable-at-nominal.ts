@@ -42,7 +42,20 @@ const INTERVAL_COLUMNS = (s: string): readonly (readonly [string, string])[] => 
  * The function bodies are built for this migration's schema (`isNew`) or for 0402's (down), so
  * down re-installs exactly what 0402/0403 left.
  */
-interface Shape { readonly isNew: boolean }
+interface Shape {
+  readonly isNew: boolean;
+  /**
+   * Migration 0411 (external solvers): the solver name of a sweep result comes from
+   * results.solver_name when set (an external solver's), else 'Quarterturn CBS'. Absent here, so
+   * this migration's own up and down install exactly what they always did.
+   */
+  readonly hasSolverName?: boolean;
+}
+
+/** The solver name of the best result `b` (a submission's, an external solver's with 0411, else our own search). */
+const solverNameSql = (shape: Shape) => (shape.hasSolverName
+  ? "coalesce(sub.solver_name, b.solver_name, 'Quarterturn CBS')"
+  : "coalesce(sub.solver_name, 'Quarterturn CBS')");
 
 /** Per-policy entry columns: 0401's figures, then (new) the runs and interval columns. */
 const policyNames = ({ isNew }: Shape) => POLICIES.flatMap(([s]) => [
@@ -112,8 +125,8 @@ const upsertChanged = (table: string, cols: readonly string[], extra = '') =>
 const REFRESH_KEYS = (table: string) => `PERFORM leaderboard_refresh(array_agg(scenario_id), array_agg(agents), array_agg(model::text), array_agg(variant), array_agg(robot_profile_hash::text))
       FROM (SELECT DISTINCT scenario_id, agents, model, leaderboard_variant(params) AS variant, robot_profile_hash FROM ${table}) d;`;
 
-/** The refresh functions (compare rows, best results, execution figures) for one schema shape. */
-const functionBodies = (shape: Shape): string[] => [
+/** The refresh functions (compare rows, best results, execution figures) for one schema shape (0411 reuses them). */
+export const functionBodies = (shape: Shape): string[] => [
   `CREATE OR REPLACE FUNCTION leaderboard_compare_refresh(k_scenario integer[], k_agents integer[], k_hash text[])
   RETURNS void LANGUAGE plpgsql AS $$
   BEGIN
@@ -167,10 +180,10 @@ const functionBodies = (shape: Shape): string[] => [
       b.soc, b.makespan, b.turn_inclusive_soc_ms, b.turn_inclusive_makespan_ms, b.best_lower_bound,
       CASE WHEN b.status = 'solved' AND b.best_lower_bound > 0 THEN (b.soc - b.best_lower_bound) / b.best_lower_bound END,
       b.runtime_ms,
-      coalesce(sub.solver_name, 'Quarterturn CBS'), b.solver_version, b.attempts, b.solved_count,
+      ${solverNameSql(shape)}, b.solver_version, b.attempts, b.solved_count,
       ${policyNames(shape).map((c) => `ex.${c}`).join(', ')},
       st.visibility = 'public', st.owner_id, ${PROFILE_LABEL('b')},
-      coalesce(sub.solver_name, 'Quarterturn CBS') || ' ' || b.solver_version
+      ${solverNameSql(shape)} || ' ' || b.solver_version
       ${shape.isNew ? ', b.executable_at_nominal, b.nominal_collisions' : ''}
     FROM ranked b
     JOIN maps m ON m.id = b.map_id

@@ -1,0 +1,221 @@
+/**
+ * Runs an external solver as a child process under a run's limits (issue 16, item 4).
+ *
+ * - No shell: the argument vector goes to `spawn` as is (shared/external-solvers.ts builds it
+ *   word by word), so nothing in it is ever interpreted as shell syntax.
+ * - Memory: `prlimit --data` (util-linux) sets RLIMIT_DATA of the child before it starts, so the
+ *   operating system refuses its allocations past the limit and the process dies. RLIMIT_DATA and
+ *   not RLIMIT_AS, because V8 reserves far more address space than it uses: measured on this
+ *   machine (Node 20), `node -e` does not even start under `--as` of 512 MB, while under `--data`
+ *   it starts at 128 MB and dies with "JavaScript heap out of memory" (exit 134) once its heap
+ *   outgrows the limit. Core dumps are off (`--core=0`).
+ * - CPU time and peak memory: GNU time (`/usr/bin/time -f`, Debian package `time`) waits for the
+ *   solver and writes the user + system CPU time and the maximum resident set size (kB) of what it
+ *   waited for (wait4's rusage, so processes the solver itself started and waited for count too).
+ * - Wall time: the run's time limit, counted from the spawn. On overrun every process of the
+ *   child's process group except GNU time is killed (SIGKILL), so GNU time still reports the
+ *   usage; a moment later the whole group is killed in case anything is left. A cancelled sweep
+ *   does the same through `signal`.
+ * - Output: stdout and stderr are kept up to OUTPUT_CAP_BYTES each (the tail: the last lines say
+ *   why a process failed) for the run's reason.
+ *
+ * A solver that moves itself to another process group or session escapes the kill; registered
+ * commands come from maintainers, who are trusted not to do that.
+ */
+import { spawn } from 'node:child_process';
+import { mkdtemp, readdir, readFile, rm } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+
+/** GNU time, from the Debian package `time` (the shell keyword `time` is something else). */
+export const GNU_TIME = '/usr/bin/time';
+/** prlimit from util-linux. */
+export const PRLIMIT = 'prlimit';
+/** How much of stdout and of stderr is kept, bytes. */
+export const OUTPUT_CAP_BYTES = 16 * 1024;
+/** How long after killing the solver's processes the whole group is killed, ms. */
+const GROUP_KILL_DELAY_MS = 2000;
+
+/** What to run and under which limits. */
+export interface ExternalProcessRequest {
+  /** Program and arguments, one string per argument. */
+  readonly argv: readonly string[];
+  readonly cwd: string;
+  readonly timeLimitMs: number;
+  readonly memoryLimitMb: number;
+  /** Aborts the run (a cancelled sweep, a forced worker shutdown). */
+  readonly signal?: AbortSignal;
+  readonly env?: NodeJS.ProcessEnv;
+}
+
+/** How the process ended. */
+export type ExternalEnd =
+  /** Exit status 0. */
+  | 'exited'
+  /** Killed at the wall-time limit. */
+  | 'timeout'
+  /** Died after the operating system refused memory past the limit. */
+  | 'memory'
+  /** Nonzero exit or a signal, not from a limit. */
+  | 'crashed'
+  /** Killed because of `signal`. */
+  | 'aborted'
+  /** The program could not be started (not found, not executable, tools missing). */
+  | 'spawn-failed';
+
+/** What became of one process. */
+export interface ExternalProcessOutcome {
+  readonly end: ExternalEnd;
+  readonly exitCode: number | null;
+  /** The signal that ended the solver, e.g. SIGKILL (from GNU time's report). */
+  readonly signalNumber: number | null;
+  readonly wallMs: number;
+  /** User + system CPU time, ms; null when GNU time wrote nothing. */
+  readonly cpuTimeMs: number | null;
+  /** Maximum resident set size, kB; null when GNU time wrote nothing. */
+  readonly peakMemoryKb: number | null;
+  /** The tail of stdout and stderr (at most OUTPUT_CAP_BYTES each). */
+  readonly stdout: string;
+  readonly stderr: string;
+  /** A sentence on how it ended, for the run's reason. */
+  readonly message: string;
+}
+
+/** Words in stderr by which common runtimes say an allocation failed (Node/V8, C, C++, Python, Java, Rust). */
+const OUT_OF_MEMORY = /out of memory|allocation failed|Cannot allocate memory|std::bad_alloc|MemoryError|OutOfMemoryError|memory allocation of \d+ bytes failed|ENOMEM/i;
+
+/** Keeps the last `cap` bytes written. */
+class Tail {
+  private chunks: Buffer[] = [];
+  private size = 0;
+  constructor(private readonly cap: number) {}
+  push(chunk: Buffer): void {
+    this.chunks.push(chunk);
+    this.size += chunk.length;
+    while (this.size - this.chunks[0].length >= this.cap) this.size -= this.chunks.shift()!.length;
+  }
+  text(): string {
+    const all = Buffer.concat(this.chunks);
+    return all.subarray(Math.max(0, all.length - this.cap)).toString('utf8');
+  }
+}
+
+/** GNU time's report: "Command terminated by signal 9" / "Command exited with non-zero status 3", then our format line. */
+export function parseTimeReport(text: string): { readonly cpuTimeMs: number | null; readonly peakMemoryKb: number | null; readonly exitCode: number | null; readonly signalNumber: number | null } {
+  const lines = text.split('\n').map((l) => l.trim()).filter((l) => l !== '');
+  const usage = [...lines].reverse().find((l) => /^qt-usage /.test(l));
+  const signal = /Command terminated by signal (\d+)/.exec(text);
+  const status = /Command exited with non-zero status (\d+)/.exec(text);
+  let cpuTimeMs: number | null = null;
+  let peakMemoryKb: number | null = null;
+  if (usage) {
+    const [, user, system, rss] = usage.split(/\s+/);
+    const u = Number(user);
+    const s = Number(system);
+    const r = Number(rss);
+    if (Number.isFinite(u) && Number.isFinite(s)) cpuTimeMs = Math.round((u + s) * 1000);
+    if (Number.isFinite(r)) peakMemoryKb = r;
+  }
+  return { cpuTimeMs, peakMemoryKb, exitCode: status ? Number(status[1]) : signal ? null : usage ? 0 : null, signalNumber: signal ? Number(signal[1]) : null };
+}
+
+/** Pids whose process group is `pgid` (from /proc; Linux only). */
+async function groupMembers(pgid: number): Promise<number[]> {
+  const members: number[] = [];
+  for (const entry of await readdir('/proc').catch(() => [] as string[])) {
+    if (!/^\d+$/.test(entry)) continue;
+    const stat = await readFile(`/proc/${entry}/stat`, 'utf8').catch(() => '');
+    // Fields after the command name in parentheses: state ppid pgrp …
+    const after = stat.slice(stat.lastIndexOf(')') + 2).split(' ');
+    if (Number(after[2]) === pgid) members.push(Number(entry));
+  }
+  return members;
+}
+
+const killQuietly = (pid: number, signal: NodeJS.Signals) => {
+  try {
+    process.kill(pid, signal);
+  } catch {
+    // already gone
+  }
+};
+
+/** Runs `request` (see the module comment); never rejects. */
+export async function runExternalProcess(request: ExternalProcessRequest): Promise<ExternalProcessOutcome> {
+  const usageDir = await mkdtemp(join(tmpdir(), 'qt-usage-'));
+  const usageFile = join(usageDir, 'usage');
+  const started = performance.now();
+  const limitBytes = request.memoryLimitMb * 1024 * 1024;
+  const stdout = new Tail(OUTPUT_CAP_BYTES);
+  const stderr = new Tail(OUTPUT_CAP_BYTES);
+  let why: 'timeout' | 'aborted' | undefined;
+  let groupTimer: NodeJS.Timeout | undefined;
+  try {
+    const child = spawn(PRLIMIT, [
+      `--data=${limitBytes}`, '--core=0', '--',
+      GNU_TIME, '-f', 'qt-usage %U %S %M', '-o', usageFile, '--',
+      ...request.argv,
+    ], { cwd: request.cwd, env: request.env ?? process.env, detached: true, stdio: ['ignore', 'pipe', 'pipe'] });
+    child.stdout.on('data', (c: Buffer) => stdout.push(c));
+    child.stderr.on('data', (c: Buffer) => stderr.push(c));
+    // prlimit execs GNU time in place, so the child's pid is GNU time's and the group's id.
+    const stopSolver = (reason: 'timeout' | 'aborted') => {
+      if (why || child.exitCode !== null || child.pid === undefined) return;
+      why = reason;
+      const pgid = child.pid;
+      void groupMembers(pgid).then((pids) => {
+        for (const pid of pids) if (pid !== pgid) killQuietly(pid, 'SIGKILL');
+      });
+      groupTimer = setTimeout(() => killQuietly(-pgid, 'SIGKILL'), GROUP_KILL_DELAY_MS);
+    };
+    const timer = setTimeout(() => stopSolver('timeout'), request.timeLimitMs);
+    const onAbort = () => stopSolver('aborted');
+    request.signal?.addEventListener('abort', onAbort, { once: true });
+    if (request.signal?.aborted) onAbort();
+    const closed = new Promise<void>((resolve) => child.once('close', () => resolve()));
+    const ended = await new Promise<{ code: number | null; spawnError?: Error }>((resolve) => {
+      child.once('error', (err) => resolve({ code: null, spawnError: err }));
+      child.once('exit', (code) => resolve({ code }));
+    });
+    clearTimeout(timer);
+    // GNU time has reaped the solver; whatever is left in the group (a background process the
+    // solver started and did not wait for) goes too, so it can neither run on nor hold the pipes open.
+    if (child.pid !== undefined && !ended.spawnError) killQuietly(-child.pid, 'SIGKILL');
+    await Promise.race([closed, new Promise((resolve) => setTimeout(resolve, GROUP_KILL_DELAY_MS))]);
+    request.signal?.removeEventListener('abort', onAbort);
+    const wallMs = performance.now() - started;
+    const report = parseTimeReport(await readFile(usageFile, 'utf8').catch(() => ''));
+    const base = { wallMs, cpuTimeMs: report.cpuTimeMs, peakMemoryKb: report.peakMemoryKb, stdout: stdout.text(), stderr: stderr.text() };
+    if (ended.spawnError) {
+      return { ...base, end: 'spawn-failed', exitCode: null, signalNumber: null, message: `${PRLIMIT} could not start: ${ended.spawnError.message}` };
+    }
+    const exitCode = report.exitCode ?? ended.code;
+    const signalNumber = report.signalNumber;
+    if (why === 'aborted') return { ...base, end: 'aborted', exitCode, signalNumber, message: 'stopped: the sweep was cancelled or the worker is shutting down' };
+    if (why === 'timeout') return { ...base, end: 'timeout', exitCode, signalNumber, message: `killed at the time limit of ${request.timeLimitMs} ms` };
+    // GNU time answers 127 (not found) or 126 (not executable) for a program it could not run.
+    if ((ended.code === 127 || ended.code === 126) && base.stderr.includes(`${GNU_TIME}: cannot run`)) {
+      return { ...base, end: 'spawn-failed', exitCode, signalNumber, message: `the program could not be run (exit ${ended.code}): ${lastLine(base.stderr)}` };
+    }
+    if (exitCode === 0 && signalNumber === null) return { ...base, end: 'exited', exitCode, signalNumber, message: 'exited with status 0' };
+    const how = signalNumber !== null ? `ended by signal ${signalNumber}` : `exited with status ${exitCode}`;
+    // Refused allocations show as a runtime's out-of-memory message, or as a peak resident size at the limit.
+    const nearLimit = report.peakMemoryKb !== null && report.peakMemoryKb * 1024 >= 0.9 * limitBytes;
+    if (OUT_OF_MEMORY.test(base.stderr) || nearLimit) {
+      return { ...base, end: 'memory', exitCode, signalNumber, message: `memory limit of ${request.memoryLimitMb} MB reached (${how}; the operating system refused more)` };
+    }
+    return { ...base, end: 'crashed', exitCode, signalNumber, message: how };
+  } finally {
+    if (groupTimer) {
+      // The group kill is only a safety net; once the process has ended nothing of ours is left in it.
+      clearTimeout(groupTimer);
+    }
+    await rm(usageDir, { recursive: true, force: true });
+  }
+}
+
+/** The last non-empty line of `text`, shortened. */
+export function lastLine(text: string, max = 300): string {
+  const line = text.split('\n').map((l) => l.trim()).filter((l) => l !== '').pop() ?? '';
+  return line.length > max ? `${line.slice(0, max)}…` : line;
+}
