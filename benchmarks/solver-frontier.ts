@@ -7,6 +7,10 @@
  *   npm run bench:solver -- --frontier --maps random-32-32-20 --w 1.2    # the step targets
  *   npm run bench:solver -- --frontier --models classic --w 1.5 --time-limit 10 --step 20
  *   npm run bench:solver -- --frontier --clock cpu --maps room-32-32-4 --out benchmarks/results/frontier-room.json
+ *   npm run bench:solver -- --frontier --models classic --w 1.2 --scen gen-1,gen-2,gen-3,gen-4,gen-5 --start 100
+ *
+ * --scen: `1` … `5` are the open even files, `random-1` the open random file, `gen-N` a scenario
+ * generated with seed N (the even files of random-32-32-20 stop at 100 rows).
  *
  * --clock wall (default) times each solve by the wall clock; --clock cpu by the CPU time of this
  * process (user + system, all its threads, so garbage-collector threads count against the solver:
@@ -29,6 +33,9 @@ import { PLAN_MODELS, type PlanModel } from '../shared/plan';
 import { instanceFromScenario } from '../solvers/io/instance-from-scenario';
 import { parseMap } from '../solvers/io/parse-map';
 import { parseScenario } from '../solvers/io/parse-scenario';
+import type { GridMap } from '../solvers/io/grid-map';
+import type { Scenario } from '../solvers/io/scenario';
+import { generateScenario } from '../solvers/generate/random-scenario';
 import { DEFAULT_ROBOT_PROFILE } from '../solvers/models/heading-schedule';
 import { isPlanModel, solveModel } from '../solvers/models/solve-model';
 import { OPEN_GRID_BENCHMARKS_DIR } from './datasets/open-grid-benchmarks';
@@ -85,6 +92,29 @@ const median = (xs: readonly number[]): number | null => {
   return s.length % 2 ? s[(s.length - 1) / 2] : (s[s.length / 2 - 1] + s[s.length / 2]) / 2;
 };
 
+/** Rows of a generated scenario (`gen-N`): the even files of random-32-32-20 stop at 100 rows. */
+const GENERATED_ROWS = 400;
+
+/**
+ * One --scen entry: `3` = the open file `<map>-even-3.scen`, `random-1` = `<map>-random-1.scen`,
+ * `gen-3` = a scenario generated here with seed 3 (solvers/generate/random-scenario.ts, random mode,
+ * GENERATED_ROWS rows): the open even files of random-32-32-20 hold 100 rows only, so agent counts
+ * above 100 on that map need the random file or generated ones.
+ */
+function scenarioOf(map: GridMap, mapName: string, entry: string): { name: string; scen: Scenario } {
+  const generated = /^gen-(\d+)$/.exec(entry);
+  if (generated) {
+    const text = generateScenario(map, { seed: Number(generated[1]), mode: 'random', count: GENERATED_ROWS, mapFile: `${mapName}.map` }).text;
+    const parsed = parseScenario(text);
+    if (!parsed.ok) throw new Error(`generated scenario ${entry}: ${parsed.errors.map((e) => e.message).join('; ')}`);
+    return { name: `${mapName}-${entry}`, scen: parsed.value };
+  }
+  const file = /^\d+$/.test(entry) ? `${mapName}-even-${entry}` : `${mapName}-${entry}`;
+  const parsed = parseScenario(readFileSync(join(OPEN_GRID_BENCHMARKS_DIR, `${file}.scen`), 'utf8'));
+  if (!parsed.ok) throw new Error(`${file}.scen: ${parsed.errors.map((e) => `line ${e.line}: ${e.message}`).join('; ')}`);
+  return { name: file, scen: parsed.value };
+}
+
 /** Runs the frontier benchmark with the command-line `args` (those after --frontier). */
 export function runFrontier(args: readonly string[]): void {
   const { values } = parseArgs({
@@ -125,7 +155,7 @@ export function runFrontier(args: readonly string[]): void {
   const runs: FrontierRun[] = [];
   const rows: FrontierRow[] = [];
   const started = new Date().toISOString();
-  console.log(`frontier: ${models.join(', ')} × w ${factors.join(', ')} × ${maps.join(', ')}; scenarios even-${scens.join(',')}; limit ${timeLimitMs / 1000} s (${clock} clock); k-robust k = ${k}`);
+  console.log(`frontier: ${models.join(', ')} × w ${factors.join(', ')} × ${maps.join(', ')}; scenarios ${scens.join(',')}; limit ${timeLimitMs / 1000} s (${clock} clock); k-robust k = ${k}`);
   // Written after every row, so a long measurement that is stopped keeps what it reached.
   const write = (finished: boolean) => {
     mkdirSync(dirname(values.out), { recursive: true });
@@ -138,11 +168,7 @@ export function runFrontier(args: readonly string[]): void {
   for (const mapName of maps) {
     const map = parseMap(readFileSync(join(OPEN_GRID_BENCHMARKS_DIR, `${mapName}.map`), 'utf8'), { name: mapName });
     if (!map.ok) throw new Error(`${mapName}.map: ${map.errors.map((e) => `line ${e.line}: ${e.message}`).join('; ')}`);
-    const scenarios = scens.map((s) => {
-      const parsed = parseScenario(readFileSync(join(OPEN_GRID_BENCHMARKS_DIR, `${mapName}-even-${s}.scen`), 'utf8'));
-      if (!parsed.ok) throw new Error(`${mapName}-even-${s}.scen: ${parsed.errors.map((e) => `line ${e.line}: ${e.message}`).join('; ')}`);
-      return { name: `${mapName}-even-${s}`, scen: parsed.value };
-    });
+    const scenarios = scens.map((s) => scenarioOf(map.value, mapName, s));
     const usable = Math.min(maxAgents, ...scenarios.map((s) => s.scen.rows.length));
     for (const model of models) for (const w of factors) {
       let reached = 0;
