@@ -53,11 +53,23 @@ export interface SweepProgress {
     readonly modelIndex: number; readonly model: PlanModel; readonly label: string; readonly counts: RunCounts;
     /** CBS switches the spec turns off: the field name (as in the definition) beside its label for people (shared/sweeps.ts). */
     readonly switchesOff: readonly { readonly name: CbsSwitchName; readonly label: string }[];
+    /** An external solver's spec (issue 16, item 4): the solver, workers that declared it lately, and why runs wait, if they do. */
+    readonly external?: ExternalSpecProgress;
   }[];
   /** Estimated ms until every run is over, from the pace so far; null before the first run ends or once over. */
   readonly etaMs: number | null;
   readonly startedAt: string | null;
   readonly finishedAt: string | null;
+}
+
+/** The state of an external solver's spec in a sweep's progress. */
+export interface ExternalSpecProgress {
+  /** `name@version`. */
+  readonly solver: string;
+  /** Workers that declared the solver within WORKER_SEEN_WINDOW_MS (shared/external-solvers.ts). */
+  readonly workers: number;
+  /** E.g. "waiting for a worker with solver prioritised-astar@1.0.0": pending runs and no such worker; null otherwise. */
+  readonly waiting: string | null;
 }
 
 /** One execution summary of a result (one policy). */
@@ -109,6 +121,9 @@ export interface SweepResultRow {
   /** Why a run ended in error / infeasible / a limit, for people. */
   readonly reason: string | null;
   readonly executions: readonly ExecutionView[];
+  /** An external solver's run (issue 16, item 4): its process's user + system CPU time, ms, and peak resident memory, kB; null otherwise. */
+  readonly cpuTimeMs?: number | null;
+  readonly peakMemoryKb?: number | null;
 }
 
 /** A sweep in the list. */

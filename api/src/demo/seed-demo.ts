@@ -5,6 +5,7 @@
 import type { Sequelize } from 'sequelize';
 import { defineModels, type Models } from '../db/models';
 import { seedDemoAccounts } from './seed-demo-accounts';
+import { seedDemoExternalSolver } from './seed-demo-external-solver';
 import { seedDemoInstances } from './seed-demo-instances';
 import { seedDemoResults } from './seed-demo-results';
 import { seedDemoTrials } from './seed-demo-trials';
@@ -20,7 +21,7 @@ export interface DemoSeedContext {
 export type DemoSeedStep = (ctx: DemoSeedContext) => Promise<void>;
 
 /** The steps in order (later ones may rely on the accounts). */
-export const DEMO_STEPS: readonly DemoSeedStep[] = [seedDemoAccounts, seedDemoInstances, seedOpenBenchmarks, seedDemoResults, seedDemoTrials];
+export const DEMO_STEPS: readonly DemoSeedStep[] = [seedDemoAccounts, seedDemoExternalSolver, seedDemoInstances, seedOpenBenchmarks, seedDemoResults, seedDemoTrials];
 
 /** Runs every demo step on a migrated database. */
 export async function seedDemo(sequelize: Sequelize): Promise<void> {

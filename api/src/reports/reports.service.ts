@@ -37,15 +37,19 @@ export interface ReportsService {
 /**
  * The variant of a result's parameters: the parameters that change the problem (k, a fixed start
  * heading, the following rule when forbidden), as the leaderboard names them (migration 0401),
- * plus "following forbidden" (issue 12, item 3) and "w=…" for bounded-suboptimal search (issue 15,
- * item 1; migration 0407). Params text never becomes SQL.
+ * plus "following forbidden" (issue 12, item 3), "w=…" for bounded-suboptimal search (issue 15,
+ * item 1; migration 0407) and "solver=name@version" for an external solver's results (issue 16,
+ * item 4; migration 0411), so they are a variant of their own beside the built-in ones. Params
+ * text never becomes SQL.
  */
 const VARIANT_SQL = `concat_ws(' ',
     CASE WHEN (r.params->'model'->>'k') IS NOT NULL THEN 'k=' || (r.params->'model'->>'k') END,
     CASE WHEN coalesce(r.params->'model'->>'startHeading', 'free') <> 'free' THEN 'start ' || (r.params->'model'->>'startHeading') END,
     CASE WHEN r.params->'model'->>'following' = 'forbidden' THEN 'following forbidden' END,
     CASE WHEN jsonb_typeof(r.params->'model'->'suboptimality') = 'number' AND (r.params->'model'->>'suboptimality')::float8 > 1
-      THEN 'w=' || (r.params->'model'->>'suboptimality') END)`;
+      THEN 'w=' || (r.params->'model'->>'suboptimality') END,
+    CASE WHEN jsonb_typeof(r.params->'model'->'externalSolver') = 'object'
+      THEN 'solver=' || (r.params->'model'->'externalSolver'->>'name') || '@' || (r.params->'model'->'externalSolver'->>'version') END)`;
 
 /**
  * Newest computed result per instance × variant (a solved one and one replayed under the policy

@@ -2,7 +2,9 @@
 import { QueryTypes, type Sequelize } from 'sequelize';
 import { emptyRunCounts, isSweepOver, type ExecutionView, type RunStatus, type SweepProgress, type SweepResultRow, type SweepStatus } from '@shared/runs';
 import { cbsSwitchLabel, forbidsFollowing, isBounded, suboptimalityOf, switchesOff, type ModelSpec, type SweepDefinition, type SweepPolicy } from '@shared/sweeps';
+import { solverKey } from '@shared/external-solvers';
 import type { PlanModel } from '@shared/plan';
+import { workersWith } from '../external-solvers/external-solvers.service';
 
 /**
  * A short label of a model with its parameters, e.g. `k-robust k=2`, `classic following forbidden`, `classic w=1.5`,
@@ -12,7 +14,7 @@ import type { PlanModel } from '@shared/plan';
 export function modelLabel(m: ModelSpec): string {
   const off = switchesOff(m).map(cbsSwitchLabel);
   return [
-    m.model, m.model === 'k-robust' ? `k=${m.k}` : '', isBounded(m) ? `w=${suboptimalityOf(m)}` : '', forbidsFollowing(m) ? 'following forbidden' : '', off.length ? `without ${off.join(', ')}` : '',
+    m.model, m.model === 'k-robust' ? `k=${m.k}` : '', m.externalSolver ? `by ${solverKey(m.externalSolver)}` : '', isBounded(m) ? `w=${suboptimalityOf(m)}` : '', forbidsFollowing(m) ? 'following forbidden' : '', off.length ? `without ${off.join(', ')}` : '',
   ].filter(Boolean).join(' ');
 }
 
@@ -37,6 +39,15 @@ export async function readProgress(sequelize: Sequelize, sweepId: number, nowMs 
     const pm = perModel[r.model_index];
     if (pm) pm.counts[r.status] += Number(r.n);
   }
+  // External solvers' specs say whether some worker has the solver; runs no worker can take wait visibly.
+  const withExternal = await Promise.all(perModel.map(async (pm) => {
+    const ref = sweep.definition.models[pm.modelIndex].externalSolver;
+    if (!ref) return pm;
+    const workers = (await workersWith(sequelize, ref)).length;
+    const key = solverKey(ref);
+    const waiting = pm.counts.pending > 0 && workers === 0 && !isSweepOver(sweep.status) ? `waiting for a worker with solver ${key}` : null;
+    return { ...pm, external: { solver: key, workers, waiting } };
+  }));
   const total = sweep.run_count;
   const done = total - counts.pending - counts.running;
   let etaMs: number | null = null;
@@ -45,7 +56,7 @@ export async function readProgress(sequelize: Sequelize, sweepId: number, nowMs 
     etaMs = Math.round((elapsed / done) * (total - done));
   }
   return {
-    sweepId, status: sweep.status, total, done, counts, perModel, etaMs,
+    sweepId, status: sweep.status, total, done, counts, perModel: withExternal, etaMs,
     startedAt: sweep.started_at?.toISOString() ?? null, finishedAt: sweep.finished_at?.toISOString() ?? null,
   };
 }
@@ -54,6 +65,7 @@ interface ResultSqlRow {
   run_id: number; result_id: number | null; scenario_id: number; scenario_name: string; map_name: string; agents: number; model_index: number; model: PlanModel;
   seed: string; status: RunStatus; soc: number | null; makespan: number | null; ti_soc: number | null; ti_makespan: number | null;
   lower_bound: number | null; gap: number | null; w: number; runtime_ms: number | null; nodes: number | null; reason: string | null; executions: ExecutionView[] | null;
+  cpu_time_ms: number | null; peak_memory_kb: string | null;
 }
 
 /** Result rows of a sweep (every run, with its result when there is one), optionally one run only or only runs that are over. */
@@ -62,6 +74,7 @@ export async function readResultRows(sequelize: Sequelize, sweepId: number, opti
     `SELECT r.id AS run_id, res.id AS result_id, r.scenario_id, sc.name AS scenario_name, m.name AS map_name, r.agents, r.model_index, r.model, r.seed, r.status,
        res.soc, res.makespan, res.turn_inclusive_soc_ms AS ti_soc, res.turn_inclusive_makespan_ms AS ti_makespan,
        res.lower_bound, res.gap, COALESCE((r.params->'model'->>'suboptimality')::float8, 1) AS w, res.runtime_ms, res.nodes, COALESCE(res.reason, r.reason) AS reason,
+       res.cpu_time_ms, res.peak_memory_kb,
        (SELECT json_agg(json_build_object('policy', e.policy, 'runs', e.runs, 'successRate', e.success_rate, 'collisionsMean', e.collisions_mean,
           'realisedMakespanMeanMs', e.realised_makespan_mean_ms, 'realisedMakespanP95Ms', e.realised_makespan_p95_ms,
           'finishSpreadMeanMs', e.finish_spread_mean_ms, 'ci95', e.metrics->'ci95') ORDER BY e.policy) FROM executions e WHERE e.result_id = res.id) AS executions
@@ -79,5 +92,6 @@ export async function readResultRows(sequelize: Sequelize, sweepId: number, opti
     soc: r.soc, makespan: r.makespan, turnInclusiveSocMs: r.ti_soc, turnInclusiveMakespanMs: r.ti_makespan,
     lowerBound: r.lower_bound, gap: r.gap, suboptimality: r.w, runtimeMs: r.runtime_ms, nodes: r.nodes, reason: r.reason,
     executions: (r.executions ?? []).map((e) => ({ ...e, policy: e.policy as SweepPolicy })),
+    cpuTimeMs: r.cpu_time_ms, peakMemoryKb: r.peak_memory_kb === null ? null : Number(r.peak_memory_kb),
   }));
 }

@@ -1,0 +1,236 @@
+/**
+ * External solvers in sweeps (issue 16, item 4), against a real PostgreSQL with real child
+ * processes: a maintainer registers the shipped example solver (prioritised planning with
+ * space-time A*, run by Node with tsx), launches a sweep mixing built-in classic and the example,
+ * and a worker declaring the solver runs both; the example's plans pass the classic validator
+ * and its results sit beside the built-in ones on the board and in the model comparison report,
+ * with their CPU time and peak memory. Throwaway "solvers" (small Node scripts) crash, overrun the
+ * time limit (killed), overrun the memory limit (killed by the operating system's RLIMIT_DATA),
+ * write garbage, write nothing and write an invalid plan: each is a recorded status with its
+ * reason and the sweep finishes. A solver no worker declares leaves its runs visibly waiting, and
+ * cancelling a sweep kills a running solver. Instances: the open dataset's empty-8-8 (Stern et
+ * al., SoCS 2019), read in place.
+ */
+import { existsSync, mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import pino from 'pino';
+import { EXAMPLE_SOLVER, EXTERNAL_FAILURE_PREFIX, type ExternalSolverListResponse, type ExternalSolverView } from '@shared/external-solvers';
+import type { LeaderboardPage } from '@shared/leaderboards';
+import type { ModelComparisonReport } from '@shared/reports';
+import type { SweepDetail, SweepResultRow } from '@shared/runs';
+import { startSweepWorker, type SweepWorker } from '../../api/src/workers/sweep-worker';
+import { createTestDatabase, type TestDatabase } from '../support/test-database';
+import { baseDefinition, launchSweep, startSweepServer, uploadSet, waitForSweep, waitUntil, type SweepServer } from '../reliability/support/sweep-harness';
+
+jest.setTimeout(240_000);
+
+const EXAMPLE = { name: EXAMPLE_SOLVER.name, version: EXAMPLE_SOLVER.version };
+
+/** Throwaway solvers: name → script body. Arguments: map, scenario, agents, plan. */
+const SCRIPTS: Record<string, string> = {
+  'crashes': "console.error('crash test: giving up on purpose'); process.exit(3);",
+  'sleeps': 'setInterval(() => {}, 1000);',
+  'hogs': 'const kept = []; for (;;) kept.push(Buffer.alloc(8 * 1024 * 1024, 1));',
+  'scribbles': "require('fs').writeFileSync(process.argv[5], 'these are not cells\\n');",
+  'writes-nothing': "console.log('done, but no plan');",
+  // Every agent stays on the top-left cell: a vertex conflict at step 0 (and the wrong starts).
+  'collides': "const n = Number(process.argv[4]); require('fs').writeFileSync(process.argv[5], Array.from({ length: n }, () => '(0,0) (0,0)').join('\\n'));",
+};
+
+/** The processes whose command line holds `text` (from /proc). */
+function processesWith(text: string): number[] {
+  const pids: number[] = [];
+  for (const entry of readdirSync('/proc')) {
+    if (!/^\d+$/.test(entry) || Number(entry) === process.pid) continue;
+    try {
+      if (readFileSync(`/proc/${entry}/cmdline`, 'utf8').includes(text)) pids.push(Number(entry));
+    } catch {
+      // gone meanwhile
+    }
+  }
+  return pids;
+}
+
+describe('external solvers in sweeps', () => {
+  let db: TestDatabase;
+  let s: SweepServer;
+  let worker: SweepWorker;
+  let setId: number;
+  let scriptDir: string;
+
+  const register = async (body: unknown) => s.client.request('/api/external-solvers', { method: 'POST', body: JSON.stringify(body) });
+
+  beforeAll(async () => {
+    db = await createTestDatabase();
+    s = await startSweepServer(db.url);
+    ({ setId } = await uploadSet(s, 'external floor', ['empty-8-8.map', 'empty-8-8-even-1.scen']));
+    scriptDir = mkdtempSync(join(tmpdir(), 'qt-throwaway-solvers-'));
+    for (const [name, body] of Object.entries(SCRIPTS)) writeFileSync(join(scriptDir, `${name}.js`), body);
+    const registered = await register(EXAMPLE_SOLVER);
+    expect(registered.status).toBe(201);
+    for (const name of Object.keys(SCRIPTS)) {
+      const res = await register({ name, version: '0.1', models: ['classic'], command: `{node} ${join(scriptDir, `${name}.js`)} {map} {scenario} {agents} {plan}` });
+      expect(res.status).toBe(201);
+    }
+    worker = await startSweepWorker({
+      databaseUrl: db.url, threads: 1, logger: pino({ level: process.env.QT_TEST_LOG ?? 'silent' }), publicUrl: s.url, maintenanceSeconds: 1,
+      solvers: [EXAMPLE, ...Object.keys(SCRIPTS).map((name) => ({ name, version: '0.1' }))],
+    });
+  });
+  afterAll(async () => {
+    await worker?.stop({ graceful: false });
+    await s?.close();
+    await db?.drop();
+    if (scriptDir) rmSync(scriptDir, { recursive: true, force: true });
+  });
+
+  it('lists registrations with the workers that declared them, refuses bad ones and keeps visitors out', async () => {
+    const list = (await (await s.client.request('/api/external-solvers')).json()) as ExternalSolverListResponse;
+    const example = list.items.find((x) => x.name === EXAMPLE.name);
+    expect(example?.models).toEqual(['classic']);
+    expect(example?.workers).toEqual([worker.name]);
+    expect(list.items).toHaveLength(1 + Object.keys(SCRIPTS).length);
+
+    const again = await register(EXAMPLE_SOLVER);
+    expect(again.status).toBe(409);
+    const noPlan = await register({ name: 'no-plan', version: '1', models: ['classic'], command: '/bin/true {map} {scenario} {agents}' });
+    expect(noPlan.status).toBe(400);
+    expect(JSON.stringify(await noPlan.json())).toContain('the command must use {plan}');
+    const unknown = await register({ name: 'typo', version: '1', models: ['classic'], command: '/bin/true {map} {scenario} {agents} {plan} {mapp}' });
+    expect(unknown.status).toBe(400);
+    expect(JSON.stringify(await unknown.json())).toContain('{mapp} is not a placeholder');
+    const textWeighted = await register({ name: 'timed', version: '1', models: ['weighted-split'], command: '/bin/true {map} {scenario} {agents} {plan}' });
+    expect(textWeighted.status).toBe(400);
+
+    expect((await fetch(`${s.url}/api/external-solvers`)).status).toBe(401);
+    const count = await s.sql<{ n: string }>('SELECT count(*) AS n FROM external_solvers');
+    expect(Number(count[0].n)).toBe(1 + Object.keys(SCRIPTS).length);
+  });
+
+  it('runs a sweep mixing built-in classic and the example solver; both appear side by side on the board and in the report', async () => {
+    const sweep = await launchSweep(s, baseDefinition(setId, {
+      name: 'built-in beside external',
+      agentCounts: { kind: 'list', values: [3, 6] },
+      models: [{ model: 'classic' }, { model: 'classic', externalSolver: EXAMPLE }],
+      timeLimitMs: 30_000,
+      execution: { policies: ['open-loop'], runs: 3 },
+    }));
+    expect(await waitForSweep(s, sweep.id, 200_000)).toBe('finished');
+
+    const stored = await s.sql<{ params: { model: Record<string, unknown> }; status: string; solver_name: string | null; solver_version: string; cpu_time_ms: number | null; peak_memory_kb: string | null; soc: number; lower_bound: number; executable_at_nominal: boolean | null }>(
+      'SELECT params, status, solver_name, solver_version, cpu_time_ms, peak_memory_kb, soc, lower_bound, executable_at_nominal FROM results WHERE sweep_id = :id ORDER BY id', { id: sweep.id });
+    expect(stored).toHaveLength(4);
+    expect(stored.every((r) => r.status === 'solved')).toBe(true);
+    const external = stored.filter((r) => r.params.model['externalSolver'] !== undefined);
+    const builtIn = stored.filter((r) => r.params.model['externalSolver'] === undefined);
+    expect([external.length, builtIn.length]).toEqual([2, 2]);
+    for (const r of external) {
+      expect([r.solver_name, r.solver_version]).toEqual([EXAMPLE.name, EXAMPLE.version]);
+      expect(r.cpu_time_ms).toBeGreaterThan(0);
+      expect(Number(r.peak_memory_kb)).toBeGreaterThan(10_000);
+      // The validator accepted it and the root bound (shortest paths alone) is ours.
+      expect(r.soc).toBeGreaterThanOrEqual(r.lower_bound);
+      expect(r.executable_at_nominal).not.toBeNull();
+    }
+    // Built-in runs keep their params exactly as before the field existed.
+    expect(builtIn.every((r) => !('externalSolver' in r.params.model) && r.solver_name === null && r.cpu_time_ms === null)).toBe(true);
+
+    const rows = ((await (await s.client.request(`/api/sweeps/${sweep.id}/results`)).json()) as { items: SweepResultRow[] }).items;
+    expect(rows.filter((r) => r.modelIndex === 1 && (r.cpuTimeMs ?? 0) > 0 && (r.peakMemoryKb ?? 0) > 0 && r.executions.length === 1)).toHaveLength(2);
+    const detail = (await (await s.client.request(`/api/sweeps/${sweep.id}`)).json()) as SweepDetail;
+    expect(detail.progress.perModel.map((m) => m.label)).toEqual(['classic', `classic by ${EXAMPLE.name}@${EXAMPLE.version}`]);
+    expect(detail.progress.perModel[1].external).toEqual({ solver: `${EXAMPLE.name}@${EXAMPLE.version}`, workers: 1, waiting: null });
+
+    const cols = 'scenario,agents,model,variant,solver,socSteps';
+    const page = (await (await s.client.request(`/api/leaderboards/rows?cols=${cols}&model.in=classic&sort=agents,variant&start=0&end=100`)).json()) as LeaderboardPage;
+    const variant = `solver=${EXAMPLE.name}@${EXAMPLE.version}`;
+    expect(page.rows.map((r) => [r.agents, r.cells['variant'], r.cells['solver']])).toEqual([
+      [3, '', expect.stringMatching(/^Quarterturn CBS /)], [3, variant, `${EXAMPLE.name} ${EXAMPLE.version}`],
+      [6, '', expect.stringMatching(/^Quarterturn CBS /)], [6, variant, `${EXAMPLE.name} ${EXAMPLE.version}`],
+    ]);
+    // Prioritised planning is not optimal: never below the optimum CBS found on the same instance.
+    for (const agents of [3, 6]) {
+      const [cbs, prio] = page.rows.filter((r) => r.agents === agents).map((r) => r.cells['socSteps'] as number);
+      expect(prio).toBeGreaterThanOrEqual(cbs);
+    }
+
+    const profile = await s.sql<{ robot_profile_hash: string }>('SELECT robot_profile_hash FROM results WHERE sweep_id = :id LIMIT 1', { id: sweep.id });
+    const res = await s.client.request(`/api/reports/model-comparison?set=${setId}&profile=${profile[0].robot_profile_hash}&policy=open-loop`);
+    expect(res.status).toBe(200);
+    const report = (await res.json()) as ModelComparisonReport;
+    expect(report.variants.map((v) => v.label)).toEqual(['classic', `classic (${variant})`]);
+    expect(report.variants.every((v) => v.instances === 2 && v.solved === 2)).toBe(true);
+  });
+
+  it('records a crash, a timeout, a memory overrun, garbage, no plan and an invalid plan as statuses, and the sweep finishes', async () => {
+    const names = Object.keys(SCRIPTS);
+    const sweep = await launchSweep(s, baseDefinition(setId, {
+      name: 'misbehaving solvers',
+      agentCounts: { kind: 'list', values: [2] },
+      models: names.map((name) => ({ model: 'classic' as const, externalSolver: { name, version: '0.1' } })),
+      timeLimitMs: 5000,
+      memoryLimitMb: 256,
+      execution: { policies: ['open-loop'], runs: 2 },
+    }));
+    expect(await waitForSweep(s, sweep.id, 120_000)).toBe('failed');
+    const runs = await s.sql<{ model_index: number; status: string; reason: string; cpu_time_ms: number | null; peak_memory_kb: string | null }>(
+      `SELECT r.model_index, r.status, r.reason, res.cpu_time_ms, res.peak_memory_kb FROM runs r LEFT JOIN results res ON res.run_id = r.id
+       WHERE r.sweep_id = :id ORDER BY r.model_index`, { id: sweep.id });
+    const by = Object.fromEntries(runs.map((r) => [names[r.model_index], r]));
+    expect(runs).toHaveLength(names.length);
+    expect([by['crashes'].status, by['crashes'].reason]).toEqual(['error', expect.stringContaining(`${EXTERNAL_FAILURE_PREFIX.crash}: exited with status 3`)]);
+    expect(by['crashes'].reason).toContain('crash test: giving up on purpose');
+    expect([by['sleeps'].status, by['sleeps'].reason]).toEqual(['timeout', expect.stringContaining('killed at the time limit of 5000 ms')]);
+    expect([by['hogs'].status, by['hogs'].reason]).toEqual(['memory', expect.stringContaining('memory limit of 256 MB reached')]);
+    expect([by['scribbles'].status, by['scribbles'].reason]).toEqual(['error', expect.stringContaining(EXTERNAL_FAILURE_PREFIX.badOutput)]);
+    expect([by['writes-nothing'].status, by['writes-nothing'].reason]).toEqual(['error', `${EXTERNAL_FAILURE_PREFIX.badOutput}: it wrote no plan file (plan.txt)`]);
+    expect([by['collides'].status, by['collides'].reason]).toEqual(['error', expect.stringContaining(`${EXTERNAL_FAILURE_PREFIX.invalidPlan}: `)]);
+    // The process's usage is recorded whatever the ending (GNU time outlives the killed solver).
+    expect(runs.every((r) => r.cpu_time_ms !== null && Number(r.peak_memory_kb) > 0)).toBe(true);
+    // The memory overrun was stopped by the limit: its peak stayed at most the limit.
+    expect(Number(by['hogs'].peak_memory_kb)).toBeLessThanOrEqual(256 * 1024);
+    // Nothing is left running or lying around.
+    expect(processesWith(join(scriptDir, 'sleeps.js'))).toEqual([]);
+    expect(processesWith(join(scriptDir, 'hogs.js'))).toEqual([]);
+    const runIds = await s.sql<{ id: number }>('SELECT id FROM runs WHERE sweep_id = :id', { id: sweep.id });
+    const left = readdirSync(tmpdir()).filter((d) => runIds.some((r) => d.startsWith(`qt-run-${r.id}-`)));
+    expect(left).toEqual([]);
+  });
+
+  it('leaves runs of a solver no worker declares visibly waiting, refuses removing it meanwhile, and cancels', async () => {
+    const lonely = (await (await register({ name: 'lonely', version: '1', models: ['classic'], command: '/bin/false {map} {scenario} {agents} {plan}' })).json()) as ExternalSolverView;
+    const sweep = await launchSweep(s, baseDefinition(setId, { name: 'nobody has it', models: [{ model: 'classic', externalSolver: { name: 'lonely', version: '1' } }] }));
+    await new Promise((r) => setTimeout(r, 1500));
+    const detail = (await (await s.client.request(`/api/sweeps/${sweep.id}`)).json()) as SweepDetail;
+    expect(detail.progress.counts.pending).toBe(2);
+    expect(detail.progress.perModel[0].external).toEqual({ solver: 'lonely@1', workers: 0, waiting: 'waiting for a worker with solver lonely@1' });
+    const removing = await s.client.request(`/api/external-solvers/${lonely.id}`, { method: 'DELETE' });
+    expect(removing.status).toBe(409);
+    expect((await s.client.request(`/api/sweeps/${sweep.id}/cancel`, { method: 'POST' })).status).toBe(200);
+    expect((await s.client.request(`/api/external-solvers/${lonely.id}`, { method: 'DELETE' })).status).toBe(204);
+    // The queue holds no job of it any more.
+    const queued = await s.sql<{ n: string }>("SELECT count(*) AS n FROM pgboss.job WHERE name = 'qt-external-runs:lonely@1' AND state IN ('created', 'retry')");
+    expect(Number(queued[0].n)).toBe(0);
+
+    const unknown = await s.client.request('/api/sweeps', { method: 'POST', body: JSON.stringify(baseDefinition(setId, { models: [{ model: 'classic', externalSolver: { name: 'lonely', version: '1' } }] })) });
+    expect(unknown.status).toBe(400);
+    expect(((await unknown.json()) as { error: { message: string } }).error.message).toBe('models[0]: no external solver lonely@1 is registered');
+    const wrongModel = await s.client.request('/api/sweeps', { method: 'POST', body: JSON.stringify(baseDefinition(setId, { models: [{ model: 'orientation-split', externalSolver: EXAMPLE }] })) });
+    expect(wrongModel.status).toBe(400);
+  });
+
+  it('kills a running solver when its sweep is cancelled', async () => {
+    const sweep = await launchSweep(s, baseDefinition(setId, {
+      name: 'cancel while sleeping', agentCounts: { kind: 'list', values: [2] },
+      models: [{ model: 'classic', externalSolver: { name: 'sleeps', version: '0.1' } }], timeLimitMs: 120_000,
+    }));
+    const script = join(scriptDir, 'sleeps.js');
+    await waitUntil(async () => processesWith(script).length > 0, 30_000, 'the sleeping solver to start');
+    expect((await s.client.request(`/api/sweeps/${sweep.id}/cancel`, { method: 'POST' })).status).toBe(200);
+    await waitUntil(async () => processesWith(script).length === 0, 10_000, 'the sleeping solver to be killed');
+    const [run] = await s.sql<{ status: string }>('SELECT status FROM runs WHERE sweep_id = :id', { id: sweep.id });
+    expect(run.status).toBe('cancelled');
+    expect(existsSync(scriptDir)).toBe(true);
+  });
+});
