@@ -72,7 +72,7 @@ export const BatchEntrySchema = z.strictObject({
   file: singleLineText().min(1).max(255).optional(),
   /** The plan file's text (JSON batches). */
   text: z.string().min(1, 'the plan text is empty').max(BATCH_LIMITS.maxPlanChars).optional(),
-  /** `json` = plan document, `text` = plain text format; absent: `.json` files are documents, others text. */
+  /** `json` = plan document, `text` = plain text format; absent: `.json` files and inline text starting with `{` are documents, the rest text. */
   format: z.enum(['json', 'text']).optional(),
   instance: BatchInstanceSchema.optional(),
   model: z.enum(TEXT_FORMAT_MODELS).optional(),
@@ -145,11 +145,8 @@ export function resolveBatchEntry(
     if (e.text === undefined) problems.push({ path: at('text'), message: 'give the plan file\'s text (a JSON batch carries no files)' });
     if (e.file !== undefined) problems.push({ path: at('file'), message: 'a JSON batch carries no files; give the plan as text, or send a zip' });
   }
-  const format = e.format ?? (e.file?.toLowerCase().endsWith('.json') ? 'json' : e.file !== undefined ? 'text' : undefined);
-  if (format === undefined) {
-    problems.push({ path: at('format'), message: 'say whether the text is a plan document ("json") or the text format ("text")' });
-    return { ok: false, problems };
-  }
+  // A text-format plan never begins with "{" (its lines hold cells or # comments), so inline text is told apart by its first character.
+  const format = e.format ?? (e.file !== undefined ? (e.file.toLowerCase().endsWith('.json') ? 'json' : 'text') : e.text?.trimStart().startsWith('{') ? 'json' : 'text');
   const robotProfile = e.robotProfile ?? d.robotProfile;
   if (format === 'json') {
     for (const field of DOCUMENT_OWN_FIELDS) {

@@ -146,12 +146,12 @@ export function createSubmissionBatchesService(deps: SubmissionBatchesDeps): Sub
 
   async function refuse(batchId: number, entryId: number, refusal: BatchEntryRefusal): Promise<void> {
     await sequelize.transaction(async (transaction) => {
-      const [, count] = await sequelize.query(
+      const marked = await sequelize.query<{ id: number }>(
         `UPDATE submission_batch_entries SET status = 'refused', refusal = :refusal, plan_gz = NULL, finished_at = now()
-          WHERE id = :id AND status = 'pending'`,
-        { replacements: { id: entryId, refusal: JSON.stringify(refusal) }, transaction },
+          WHERE id = :id AND status = 'pending' RETURNING id`,
+        { type: QueryTypes.SELECT, replacements: { id: entryId, refusal: JSON.stringify(refusal) }, transaction },
       );
-      if ((count as unknown as number) > 0) await sequelize.query(countSql('refused'), { replacements: { batch: batchId }, transaction });
+      if (marked.length > 0) await sequelize.query(countSql('refused'), { replacements: { batch: batchId }, transaction });
     });
   }
 
