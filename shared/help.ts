@@ -11,7 +11,7 @@ export const HELP_GUIDE_PATH = '/api/help/guide';
 export const SCHEMAS_PATH = '/api/schemas';
 
 /** The JSON Schemas the API publishes, by file name (the same names as in shared/). */
-export const PUBLISHED_SCHEMAS = ['plan-format.schema.json', 'instance-format.schema.json', 'trial-log.schema.json'] as const;
+export const PUBLISHED_SCHEMAS = ['plan-format.schema.json', 'instance-format.schema.json', 'trial-log.schema.json', 'submission-batch-format.schema.json'] as const;
 export type PublishedSchema = (typeof PUBLISHED_SCHEMAS)[number];
 
 /** The line before the guide in README.md (an HTML comment, invisible where README is rendered). */

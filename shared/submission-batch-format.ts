@@ -90,6 +90,11 @@ export const BatchManifestSchema = z.strictObject({
   version: z.literal(1),
   defaults: BatchDefaultsSchema.optional(),
   plans: z.array(BatchEntrySchema).min(1, 'the batch holds no plans').max(BATCH_LIMITS.maxEntries, `at most ${BATCH_LIMITS.maxEntries} plans per batch`),
+}).meta({
+  title: 'Quarterturn plan batch manifest, version 1',
+  description: 'batch.json at the root of a batch zip (entries name their plan `file`), or the JSON body of POST /api/submissions/batches '
+    + '(entries carry the plan `text`). A text plan\'s entry (with `defaults`) must name instance, model and solver; a plan document\'s entry names '
+    + 'at most a robot profile. The scenario is named by file name with its set, or by scenarioId. Rules beyond this schema are checked by the server.',
 });
 /** A validated batch manifest. */
 export type BatchManifest = z.output<typeof BatchManifestSchema>;
@@ -162,7 +167,8 @@ export function resolveBatchEntry(
   if (!model) problems.push({ path: at('model'), message: `a text plan needs its model (${TEXT_FORMAT_MODELS.join(', ')}), here or in defaults` });
   if (!solver) problems.push({ path: at('solver'), message: 'a text plan needs its solver { name, version }, here or in defaults' });
   if (model === 'k-robust' && k === undefined) problems.push({ path: at('k'), message: 'k-robust needs k, here or in defaults' });
-  const instance = e.instance && { ...e.instance, ...(e.instance.set === undefined && e.instance.setId === undefined ? { set: d.set, setId: d.setId } : {}) };
+  // The default set is for scenarios named by file name; a scenario id needs none.
+  const instance = e.instance && { ...e.instance, ...(e.instance.scenario !== undefined && e.instance.set === undefined && e.instance.setId === undefined ? { set: d.set, setId: d.setId } : {}) };
   if (instance) {
     const hasName = instance.scenario !== undefined;
     if (hasName === (instance.scenarioId !== undefined)) {

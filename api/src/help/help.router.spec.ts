@@ -36,7 +36,7 @@ describe('help routes', () => {
     expect(res.text).not.toContain('user-guide:');
   });
 
-  it.each(['plan-format.schema.json', 'instance-format.schema.json', 'trial-log.schema.json'])('serves shared/%s byte for byte as a JSON Schema', async (name) => {
+  it.each(['plan-format.schema.json', 'instance-format.schema.json', 'trial-log.schema.json', 'submission-batch-format.schema.json'])('serves shared/%s byte for byte as a JSON Schema', async (name) => {
     const res = await request(app).get(`/api/schemas/${name}`).buffer(true).parse((r, done) => {
       const chunks: Buffer[] = [];
       r.on('data', (c: Buffer) => chunks.push(c));
