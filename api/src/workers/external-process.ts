@@ -23,9 +23,10 @@
  * commands come from maintainers, who are trusted not to do that.
  */
 import { spawn } from 'node:child_process';
+import { existsSync } from 'node:fs';
 import { mkdtemp, readdir, readFile, rm } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
-import { join } from 'node:path';
+import { delimiter, join } from 'node:path';
 
 /** GNU time, from the Debian package `time` (the shell keyword `time` is something else). */
 export const GNU_TIME = '/usr/bin/time';
@@ -79,6 +80,18 @@ export interface ExternalProcessOutcome {
   readonly stderr: string;
   /** A sentence on how it ended, for the run's reason. */
   readonly message: string;
+}
+
+/**
+ * The tools this module needs that this machine lacks, each with its Debian package: GNU time
+ * (`time`) and prlimit (`util-linux`). A worker missing one declares no external solver.
+ */
+export function missingProcessTools(): string[] {
+  const missing: string[] = [];
+  if (!existsSync(GNU_TIME)) missing.push(`${GNU_TIME} (Debian package time)`);
+  const path = (process.env.PATH ?? '').split(delimiter).filter((d) => d !== '');
+  if (!path.some((d) => existsSync(join(d, PRLIMIT)))) missing.push(`${PRLIMIT} (Debian package util-linux)`);
+  return missing;
 }
 
 /** Words in stderr by which common runtimes say an allocation failed (Node/V8, C, C++, Python, Java, Rust). */

@@ -15,6 +15,7 @@ import { readSolverBuild } from './machine-info';
 import { PlanPool } from './plan-pool';
 import { processRun, workerName, type RunContext } from './process-run';
 import { listenChannels, SWEEP_CANCEL_CHANNEL, type ChannelListener } from './sweep-channels';
+import { missingProcessTools } from './external-process';
 import { processExternalRun } from './process-external-run';
 import { declareSolvers, type SolverDeclaration } from './solver-declarations';
 import { createBoss, externalRunQueue, RUN_QUEUE, type RunJobData } from './sweep-queue';
@@ -135,7 +136,12 @@ export async function startSweepWorker(options: SweepWorkerOptions): Promise<Swe
   // External solvers: one poller per declared solver. Its child process runs beside the pool's
   // threads (the plan's check and replays then take a pool thread), so a machine with N cores
   // and one declared solver may briefly run N + 1 busy processes; declare fewer threads if that matters.
-  const solvers = options.solvers ?? [];
+  const missingTools = (options.solvers ?? []).length > 0 ? missingProcessTools() : [];
+  if (missingTools.length > 0) {
+    // Not fatal (the embedded worker declares the example solver by default): the runs wait, and the sweep page says so.
+    logger.error({ missing: missingTools, solvers: options.solvers?.map(solverKey) }, 'external solvers not declared: tools for running them are missing');
+  }
+  const solvers = missingTools.length > 0 ? [] : options.solvers ?? [];
   let declaration: SolverDeclaration = { stop: async () => undefined };
   try {
     for (const ref of solvers) {

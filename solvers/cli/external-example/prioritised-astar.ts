@@ -38,7 +38,7 @@ interface Agent {
 class InputError extends Error {}
 
 /** The standard .map format: `type`, `height H`, `width W`, `map`, then H rows; `.`, `G` and `S` are free cells. */
-function readMap(text: string): Grid {
+export function readMap(text: string): Grid {
   const lines = text.split(/\r?\n/);
   let width = -1;
   let height = -1;
@@ -61,7 +61,7 @@ function readMap(text: string): Grid {
 }
 
 /** The standard .scen format: a `version` line, then rows `bucket map width height sx sy gx gy optimal`, tab-separated. */
-function readScenario(text: string, grid: Grid, agents: number): Agent[] {
+export function readScenario(text: string, grid: Grid, agents: number): Agent[] {
   const rows = text.split(/\r?\n/).filter((l) => l.trim() !== '' && !/^version/i.test(l.trim()));
   if (rows.length < agents) throw new InputError(`the scenario has ${rows.length} rows, fewer than ${agents} agents`);
   return rows.slice(0, agents).map((line, i) => {
@@ -232,17 +232,25 @@ export function prioritisedPlanning(grid: Grid, agents: readonly Agent[], deadli
   return { paths };
 }
 
+const USAGE = 'usage: prioritised-astar --map FILE --scenario FILE --agents N --plan OUT [--time-limit-ms MS]\n';
+
 function main(): number {
-  const { values } = parseArgs({
-    options: {
-      map: { type: 'string' }, scenario: { type: 'string' }, agents: { type: 'string' }, plan: { type: 'string' },
-      'time-limit-ms': { type: 'string' },
-    },
-  });
+  let values: { map?: string; scenario?: string; agents?: string; plan?: string; 'time-limit-ms'?: string };
+  try {
+    ({ values } = parseArgs({
+      options: {
+        map: { type: 'string' }, scenario: { type: 'string' }, agents: { type: 'string' }, plan: { type: 'string' },
+        'time-limit-ms': { type: 'string' },
+      },
+    }));
+  } catch (err) {
+    process.stderr.write(`${(err as Error).message}\n${USAGE}`);
+    return 1;
+  }
   const started = performance.now();
   const agentCount = Number(values.agents);
   if (!values.map || !values.scenario || !values.plan || !Number.isInteger(agentCount) || agentCount < 1) {
-    process.stderr.write('usage: prioritised-astar --map FILE --scenario FILE --agents N --plan OUT [--time-limit-ms MS]\n');
+    process.stderr.write(USAGE);
     return 1;
   }
   const limit = values['time-limit-ms'] === undefined ? Infinity : Number(values['time-limit-ms']);
