@@ -163,6 +163,37 @@ describe('external solvers in sweeps', () => {
     expect(report.variants.every((v) => v.instances === 2 && v.solved === 2)).toBe(true);
   });
 
+  it('lets a script with a sweep-scoped token launch the mixed sweep, but never register a solver', async () => {
+    const created = await s.client.request('/api/me/tokens', { method: 'POST', body: JSON.stringify({ name: 'sweep script', scopes: ['read', 'sweep'], expiresInDays: 1 }) });
+    expect(created.status).toBe(201);
+    const { secret } = (await created.json()) as { secret: string };
+    const call = (path: string, body?: unknown) => fetch(`${s.url}${path}`, {
+      method: body === undefined ? 'GET' : 'POST', headers: { authorization: `Bearer ${secret}`, 'content-type': 'application/json' },
+      ...(body === undefined ? {} : { body: JSON.stringify(body) }),
+    });
+    const refused = await call('/api/external-solvers', { ...EXAMPLE_SOLVER, version: '9.9.9' });
+    expect(refused.status).toBe(403);
+    expect(((await refused.json()) as { error: { details: unknown } }).error.details).toEqual({ missingScope: null });
+    expect((await call('/api/external-solvers')).status).toBe(200);
+    // Exactly the body the issue's script sends: a built-in model and the example solver side by side.
+    const launched = await call('/api/sweeps', {
+      name: 'scripted mixed sweep',
+      instances: { instanceSetId: setId },
+      agentCounts: { kind: 'list', values: [4] },
+      models: [{ model: 'classic' }, { model: 'classic', externalSolver: { name: 'prioritised-astar', version: '1.0.0' } }],
+      robotProfile: { forwardMs: 1000, quarterTurnMs: 600, waitMs: 1000, cellPitchMm: 500, robotDiameterMm: 350, timingJitter: 0.1 },
+      timeLimitMs: 30_000,
+      memoryLimitMb: 512,
+      execution: { policies: ['open-loop'], runs: 2 },
+      seeds: [1],
+    });
+    expect(launched.status).toBe(201);
+    const sweep = (await launched.json()) as SweepDetail;
+    expect(await waitForSweep(s, sweep.id, 120_000)).toBe('finished');
+    const statuses = await s.sql<{ model_index: number; status: string }>('SELECT model_index, status FROM runs WHERE sweep_id = :id ORDER BY model_index', { id: sweep.id });
+    expect(statuses).toEqual([{ model_index: 0, status: 'solved' }, { model_index: 1, status: 'solved' }]);
+  });
+
   it('records a crash, a timeout, a memory overrun, garbage, no plan and an invalid plan as statuses, and the sweep finishes', async () => {
     const names = Object.keys(SCRIPTS);
     const sweep = await launchSweep(s, baseDefinition(setId, {
