@@ -16,27 +16,9 @@ import { HEADINGS } from './plan';
 import { SolverInfoSchema, TEXT_FORMAT_MODELS } from './plan-format';
 import { RobotProfileSchema } from './sweeps';
 import { singleLineText } from './text-field';
+import { BATCH_LIMITS, BATCH_MANIFEST_FORMAT } from './submission-batches';
 
-/** The format name of a batch manifest. */
-export const BATCH_MANIFEST_FORMAT = 'quarterturn-plan-batch';
-/** The manifest's file name at the root of a batch zip. */
-export const BATCH_MANIFEST_FILE = 'batch.json';
-/** The multipart field of the zip in POST /api/submissions/batches. */
-export const BATCH_UPLOAD_FIELD = 'archive';
-
-/** Limits of one batch (common practice: bounded so one request cannot occupy the checks for long). */
-export const BATCH_LIMITS = {
-  /** Plans one batch may hold. */
-  maxEntries: 200,
-  /** Bytes of the zip as sent. */
-  maxZipBytes: 32 * 1024 * 1024,
-  /** Bytes of every file in the zip together, after unzipping (zip-bomb guard). */
-  maxUnzippedBytes: 64 * 1024 * 1024,
-  /** Characters of one plan file (the single submission's limit). */
-  maxPlanChars: 900_000,
-  /** Batches one person may have running at once. */
-  maxRunningPerUser: 2,
-} as const;
+export { BATCH_LIMITS, BATCH_MANIFEST_FILE, BATCH_MANIFEST_FORMAT, BATCH_UPLOAD_FIELD } from './submission-batches';
 
 /** The instance a text plan is for: the scenario by id, or by name within an instance set (and map). */
 export const BatchInstanceSchema = z.strictObject({

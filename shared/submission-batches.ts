@@ -1,5 +1,26 @@
-/** Responses of the batch submission routes (/api/submissions/batches; zod-free, for the web bundle). */
+/** The batch submission format's constants and the responses of /api/submissions/batches (zod-free, for the web bundle). */
 import type { PlanFileProblem, SubmissionView, SubmissionViolation } from './submissions';
+
+/** The format name of a batch manifest. */
+export const BATCH_MANIFEST_FORMAT = 'quarterturn-plan-batch';
+/** The manifest's file name at the root of a batch zip. */
+export const BATCH_MANIFEST_FILE = 'batch.json';
+/** The multipart field of the zip in POST /api/submissions/batches. */
+export const BATCH_UPLOAD_FIELD = 'archive';
+
+/** Limits of one batch (common practice: bounded so one request cannot occupy the checks for long). */
+export const BATCH_LIMITS = {
+  /** Plans one batch may hold. */
+  maxEntries: 200,
+  /** Bytes of the zip as sent. */
+  maxZipBytes: 32 * 1024 * 1024,
+  /** Bytes of every file in the zip together, after unzipping (zip-bomb guard). */
+  maxUnzippedBytes: 64 * 1024 * 1024,
+  /** Characters of one plan file (the single submission's limit). */
+  maxPlanChars: 900_000,
+  /** Batches one person may have running at once. */
+  maxRunningPerUser: 2,
+} as const;
 
 /** Whether a batch still has plans to check. */
 export type SubmissionBatchStatus = 'running' | 'done';

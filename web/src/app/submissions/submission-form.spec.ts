@@ -71,6 +71,8 @@ describe('SubmissionForm', () => {
     // The list and set resources ask as soon as the page renders; stability waits for their answers.
     TestBed.tick();
     backend.expectOne('/api/submissions').flush({ items: [] });
+    // The batch section below the form lists the researcher's batches (batch-upload.spec.ts covers it).
+    backend.expectOne('/api/submissions/batches').flush({ items: [] });
     backend.expectOne('/api/instance-sets?page=1&pageSize=100').flush(SETS);
     await fixture.whenStable();
   });

@@ -28,6 +28,7 @@ import { InstanceSetApi } from '../instance-sets/instance-set-api';
 import { SubmissionApi } from './submission-api';
 import { fileCaption, peekPlanDocument, problemOf, TEXT_MODELS, type SubmissionProblem } from './submission-rules';
 import { MiddleEllipsisPipe } from '../core/middle-ellipsis.pipe';
+import BatchUpload from './batch-upload';
 
 /** Sets offered in the first list (the API's largest page). */
 const SET_PAGE_SIZE = 100;
@@ -37,7 +38,7 @@ const SET_PAGE_SIZE = 100;
   templateUrl: './submission-form.html',
   styleUrl: './submission-form.scss',
   imports: [
-    MiddleEllipsisPipe, ReactiveFormsModule, RouterLink, DecimalPipe, PercentPipe, MatButtonModule, MatButtonToggleModule, MatFormFieldModule, MatInputModule, MatSelectModule,
+    BatchUpload, MiddleEllipsisPipe, ReactiveFormsModule, RouterLink, DecimalPipe, PercentPipe, MatButtonModule, MatButtonToggleModule, MatFormFieldModule, MatInputModule, MatSelectModule,
   ],
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
