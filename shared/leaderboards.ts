@@ -385,6 +385,9 @@ export interface LeaderboardRow {
   readonly scenarioId: number;
   readonly agents: number;
   readonly profileHash: string;
+  /** Entries layout: the row's plan model and variant, which with scenarioId, agents and profileHash name its history (GET /api/history). */
+  readonly model?: PlanModel;
+  readonly variant?: string;
   /** Entries layout: the best result's id (for the plan viewer). */
   readonly resultId?: number;
   /** Entries layout: whether that result holds a plan (solved); time-limit and failed rows have none to replay. */

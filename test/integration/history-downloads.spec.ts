@@ -12,6 +12,7 @@ import { join } from 'node:path';
 import pino from 'pino';
 import yauzl from 'yauzl';
 import type { InstanceHistory } from '@shared/history';
+import type { LeaderboardPage } from '@shared/leaderboards';
 import { createSequelize } from '../../api/src/db/sequelize';
 import { defineModels } from '../../api/src/db/models';
 import { loadInstance } from '../../api/src/instance-sets/load-instance';
@@ -145,6 +146,22 @@ describe('row history and bulk downloads', () => {
     expect(h.items.slice(1).every((i) => i.source.kind === 'sweep' && !i.source.isSweepVisible)).toBe(true);
     const asMaintainer = (await (await s.client.request(historyPath())).json()) as InstanceHistory;
     expect(asMaintainer.items.slice(1).every((i) => i.source.kind === 'sweep' && i.source.isSweepVisible)).toBe(true);
+  });
+
+  it('follows a board row to its history by the key the row carries (model and variant included, whether shown or not)', async () => {
+    const page = (await (await visitor.request('/api/leaderboards/rows?cols=map&start=0&end=50')).json()) as LeaderboardPage;
+    const rows = page.rows.filter((r) => r.scenarioId === scenarioId && r.agents === 2);
+    // classic, orientation-split and weighted-split (both with a fixed start heading) and k-robust (k=1): one row each for 2 agents.
+    expect(rows.map((r) => `${r.model}|${r.variant}`).sort()).toEqual(['classic|', 'k-robust|k=1', 'orientation-split|start N', 'weighted-split|start N']);
+    let followed = 0;
+    for (const row of rows) {
+      const query = new URLSearchParams({ scenarioId: String(row.scenarioId), agents: String(row.agents), model: row.model ?? '', variant: row.variant ?? '', profile: row.profileHash });
+      const h = (await (await visitor.request(`/api/history?${query}`)).json()) as InstanceHistory;
+      expect(h.items.find((i) => i.isBest)?.resultId).toBe(row.resultId);
+      expect(h.total).toBe(row.model === 'classic' ? 3 : 1);
+      followed++;
+    }
+    expect(followed).toBe(4);
   });
 
   it('pages the history with start and limit and keeps the total', async () => {

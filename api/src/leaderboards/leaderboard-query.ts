@@ -68,6 +68,7 @@ function entryQueries(view: LeaderboardView, viewer: Viewer, scope: ViewScope, r
     : `SELECT e.id FROM leaderboard_entries e ${whereSql(where)} ORDER BY ${isReversed ? reversed : order} LIMIT :limit OFFSET :offset`;
   const page = `WITH w AS (${ids})
     SELECT e.id, e.scenario_id, e.agents, e.robot_profile_hash, e.result_id, e.robot_profile, e.executable_at_nominal AS "__nominal", e.status AS "__status",
+      e.model AS "__model", e.variant AS "__variant",
       (SELECT count(*)::int FROM trial_runs t WHERE t.result_id = e.result_id) AS "__field_runs",
       ${SUCCESS_INTERVAL_COLUMNS.map(([, , , s]) => `e.success_${s} AS "__success_${s}", e.runs_${s} AS "__runs_${s}"`).join(', ')},
       ${view.columns.filter((c) => c !== 'profile').map((c) => `${ENTRY_CELL_SQL[c] ?? ENTRY_SQL[c]} AS "${c}"`).join(', ') || 'NULL AS none'}

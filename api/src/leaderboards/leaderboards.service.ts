@@ -83,6 +83,8 @@ export function createLeaderboardsService(deps: { readonly sequelize: Sequelize;
         fillSuccessIntervals(cells, r);
         return {
           id: String(r['id']), scenarioId, agents, profileHash, resultId: Number(r['result_id']), cells,
+          // The row's key for its history (GET /api/history), whether or not those columns are shown.
+          model: r['__model'] as PlanModel, variant: String(r['__variant']),
           hasPlan: r['__status'] === 'solved',
           fieldRuns: Number(r['__field_runs'] ?? 0),
           isExecutableAtNominal: (r['__nominal'] as boolean | null) ?? null,

@@ -91,4 +91,9 @@ export class InstanceSetApi {
   downloadUrl(kind: 'maps' | 'scenarios', id: number): string {
     return `/api/${kind}/${id}/download`;
   }
+
+  /** The URL of the set's zip of every map and scenario as uploaded, with README.txt and SHA256SUMS (a plain link, so the browser downloads it). */
+  archiveUrl(id: number): string {
+    return `/api/instance-sets/${id}/archive`;
+  }
 }

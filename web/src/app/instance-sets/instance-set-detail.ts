@@ -131,4 +131,9 @@ export default class InstanceSetDetailPage {
   protected downloadUrl(kind: 'maps' | 'scenarios', id: number): string {
     return this.api.downloadUrl(kind, id);
   }
+
+  /** The set's files as one zip (GET /api/instance-sets/:id/archive). */
+  protected archiveUrl(id: number): string {
+    return this.api.archiveUrl(id);
+  }
 }

@@ -1,7 +1,7 @@
 /** Comparison rows mark the best plan model value the way exports bold it: never a plan that collides at nominal times, unless asked. */
 import { compareColumns, parseView, type LeaderboardPage } from '@shared/leaderboards';
 import { gridRows } from './grid-rows';
-import { replayColumn, type GridRow } from './leaderboard-columns';
+import { historyColumn, replayColumn, type GridRow } from './leaderboard-columns';
 
 const columns = compareColumns('tiMakespanMs');
 const page: LeaderboardPage = {
@@ -50,5 +50,17 @@ describe('grid rows of a comparison page', () => {
     expect(rows).toHaveLength(2);
     expect((render({ data: rows[0] }) as HTMLAnchorElement).getAttribute('href')).toBe('/plans/view?result=42');
     expect(render({ data: rows[1] })).toBe('');
+  });
+
+  it('links every entry row to its history by the row key, a time-limit row too (issue 16, item 5)', () => {
+    const row = { scenarioId: 7, agents: 12, profileHash: '3f9a0c1d2e4b5a69', isExecutableAtNominal: null, model: 'k-robust' as const, variant: 'k=2 w=1.5' };
+    const entries: LeaderboardPage = { ...page, rows: [{ ...row, id: '10', resultId: 43, hasPlan: false, cells: { status: 'timeout' } }] };
+    const [gridRow] = gridRows(entries, parseView({}));
+    const link = (historyColumn().cellRenderer as (p: { data?: GridRow }) => HTMLAnchorElement)({ data: gridRow });
+    const url = new URL(link.getAttribute('href') as string, 'http://x');
+
+    expect(url.pathname).toBe('/leaderboards/history');
+    expect(Object.fromEntries(url.searchParams)).toEqual({ scenarioId: '7', agents: '12', model: 'k-robust', variant: 'k=2 w=1.5', profile: '3f9a0c1d2e4b5a69' });
+    expect(link.tabIndex).toBe(-1);
   });
 });

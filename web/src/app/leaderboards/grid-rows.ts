@@ -10,7 +10,12 @@ import type { GridRow } from './leaderboard-columns';
  */
 export function gridRows(page: LeaderboardPage, view: LeaderboardView): GridRow[] {
   // A row without a plan (time limit, memory, error, infeasible) gets no result id, so no Replay link.
-  if (view.layout !== 'compare') return page.rows.map((r) => ({ ...r.cells, __id: r.id, __resultId: r.hasPlan === false ? undefined : r.resultId, ...(r.fieldRuns ? { __fieldRuns: r.fieldRuns } : {}) }) as GridRow);
+  if (view.layout !== 'compare') {
+    return page.rows.map((r) => ({
+      ...r.cells, __id: r.id, __resultId: r.hasPlan === false ? undefined : r.resultId, ...(r.fieldRuns ? { __fieldRuns: r.fieldRuns } : {}),
+      ...(r.model !== undefined ? { __history: historyQuery(r) } : {}),
+    }) as GridRow);
+  }
   const colliding = page.rows.map((r) => Object.entries(r.isExecutableAtNominalByColumn ?? {}).filter(([, ok]) => ok === false).map(([id]) => id));
   const best = bestCells({
     caption: '', columns: page.columns, rows: page.rows.map((r) => page.columns.map((c) => r.cells[c.id] ?? null)),
@@ -37,4 +42,9 @@ function intervalFields(intervals: LeaderboardRow['intervalsByColumn']): Record<
     out[`${id}__hi`] = ci ? ci[1] : null;
   }
   return out;
+}
+
+/** The query string of an entries row's history page (GET /api/history takes the same parameters). */
+export function historyQuery(r: LeaderboardRow): string {
+  return new URLSearchParams({ scenarioId: String(r.scenarioId), agents: String(r.agents), model: r.model ?? '', variant: r.variant ?? '', profile: r.profileHash }).toString();
 }

@@ -27,7 +27,7 @@ import { Session } from '../core/session';
 import { followCellLinkOnEnter, leaveGridOnTab } from '../core/grid-keyboard';
 import { SkipLink } from '../core/skip-link';
 import { LeaderboardApi, type BoardScope } from './leaderboard-api';
-import { gridColumns, replayColumn, type GridRow } from './leaderboard-columns';
+import { gridColumns, historyColumn, replayColumn, type GridRow } from './leaderboard-columns';
 import { gridRows } from './grid-rows';
 import { LEADERBOARD_GRID_THEME } from './leaderboard-grid-theme';
 import LeaderboardCharts from './leaderboard-charts';
@@ -87,7 +87,8 @@ export default class LeaderboardBoard {
     const shown = gridColumns(cols, v.sort, v.layout === 'compare' ? compareIntervalKind(v.metric) : null);
     // Entry rows name one stored result; comparison rows hold several models' bests.
     // Everyone may open a visible result: visitors replay it in the browser (issue 14, item 6).
-    return v.layout === 'entries' ? [replayColumn(), ...shown] : shown;
+    // Each entry row also opens its history: every result and submission stored for it (issue 16, item 5).
+    return v.layout === 'entries' ? [replayColumn(), historyColumn(), ...shown] : shown;
   });
   protected readonly exportLinks = computed(() => {
     const view = this.view();

@@ -15,6 +15,8 @@ import { middleEllipsisCell } from '../core/middle-ellipsis';
 export type GridRow = Record<string, string | number | null> & {
   readonly __id: string;
   readonly __resultId?: number;
+  /** Entries rows: the query string of the row's history page (scenario, agents, model, variant, profile). */
+  readonly __history?: string;
   /** Entries rows: field trial runs attached to the result (issue 17). */
   readonly __fieldRuns?: number;
   readonly __best?: string;
@@ -166,6 +168,22 @@ export function replayColumn(): ColDef<GridRow> {
       return field > 0
         ? cellLink(`/plans/view?result=${id}`, `Replay · ${field} field`, `Replay result ${id}; ${runs}`)
         : cellLink(`/plans/view?result=${id}`, 'Replay', `Replay result ${id}`);
+    },
+  };
+}
+
+/**
+ * A left-pinned link to a row's history (`/leaderboards/history?…`, issue 16, item 5): every
+ * result and submission stored for its instance, plan model variant and robot profile. Reached
+ * like the Replay link: arrow keys to the cell, Enter follows it.
+ */
+export function historyColumn(): ColDef<GridRow> {
+  return {
+    colId: '__history', headerName: 'History', width: 110, pinned: 'left', sortable: false, filter: false, resizable: false,
+    headerTooltip: 'Every result and submission stored for this instance, plan model and robot profile, superseded ones included',
+    cellRenderer: (p: { data?: GridRow }) => {
+      const query = p.data?.__history;
+      return query === undefined ? '' : cellLink(`/leaderboards/history?${query}`, 'History', 'History of this row: every stored result and submission');
     },
   };
 }

@@ -18,6 +18,11 @@ export type SweepStreamEvent = SweepEvent | { readonly type: 'lost' };
 const REOPEN_MS = 2000;
 const REOPEN_MAX_MS = 30_000;
 
+/** Download links of a sweep (plain links, so the browser saves the files): one CSV row per run, and every stored plan in one zip. */
+export function sweepDownloadUrls(id: number): { readonly csv: string; readonly plans: string } {
+  return { csv: `/api/sweeps/${id}/results.csv`, plans: `/api/sweeps/${id}/plans.zip` };
+}
+
 /** Owns the sweeps URLs. */
 @Injectable({ providedIn: 'root' })
 export class SweepApi {

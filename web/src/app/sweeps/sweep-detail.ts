@@ -25,7 +25,7 @@ import { CBS_SWITCH_NAMES, CBS_SWITCH_TEXT, switchesOff } from '@shared/sweeps';
 import { askToConfirm } from '../core/confirm-dialog';
 import { followCellLinkOnEnter, leaveGridOnTab } from '../core/grid-keyboard';
 import { SkipLink } from '../core/skip-link';
-import { SweepApi } from './sweep-api';
+import { SweepApi, sweepDownloadUrls } from './sweep-api';
 import { followingWarningFor } from './sweep-editor-advice';
 import { SWEEP_GRID_THEME, sweepGridColumns } from './sweep-grid-columns';
 import { formatDuration, RUN_STATUS_LABEL, SWEEP_STATUS_LABEL } from './sweep-status';
@@ -85,6 +85,8 @@ export default class SweepDetailPage {
     const ms = this.progress()?.etaMs;
     return ms === null || ms === undefined ? null : formatDuration(ms);
   });
+  /** The sweep's download links (results CSV, plans zip). */
+  protected readonly downloads = computed(() => sweepDownloadUrls(Number(this.id())));
   /** Whether the sweep can still be cancelled. */
   protected readonly isLive = computed(() => {
     const p = this.progress();
