@@ -56,5 +56,6 @@ describe("README.md's user guide", () => {
     expect(hrefs).toContain('/api/schemas/plan-format.schema.json');
     expect(hrefs).toContain('/api/schemas/instance-format.schema.json');
     expect(hrefs).toContain('/api/schemas/trial-log.schema.json');
+    expect(hrefs).toContain('/api/schemas/submission-batch-format.schema.json');
   });
 });
