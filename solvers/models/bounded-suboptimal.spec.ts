@@ -108,9 +108,11 @@ describe('bounded-suboptimal solveModel', () => {
 
   // The exact path pinned: SOC and node counts of w = 1 solves, byte-identical to the solver before
   // bounded search existed (commit 9020ae7, compared on 200 seeded instances of these five shapes).
+  // classic's and uniform-duration's counts changed on purpose since (issue 15, item 3: target
+  // conflicts are split first; it was 176 / 84 / 8236 with the same SOC).
   it.each([
-    ['classic' as PlanModel, 27, 8, [51, 176, 84, 8236]],
-    ['uniform-duration' as PlanModel, 27, 8, [51, 176, 84, 8236]],
+    ['classic' as PlanModel, 27, 8, [51, 181, 85, 8205]],
+    ['uniform-duration' as PlanModel, 27, 8, [51, 181, 85, 8205]],
     ['orientation-split' as PlanModel, 25, 8, [48, 232, 115, 28820]],
     ['k-robust' as PlanModel, 35, 6, [29, 268, 129, 13795]],
     ['weighted-split' as PlanModel, 32, 3, [20000, 932, 498, 39620]],
