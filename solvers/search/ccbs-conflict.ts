@@ -56,7 +56,7 @@ export function cellVisits(agent: number, start: number, plan: SippPlan, forward
  * The conflicts among all agents' visits, earliest first (at most `limit` of them), and the
  * number of agent pairs in conflict.
  */
-export function findConflicts(visits: readonly (readonly CellVisit[])[], limit: number): {
+export function findConflicts(visits: readonly (readonly CellVisit[])[], limit: number, isEveryPair = false): {
   readonly conflicts: readonly OccupancyConflict[];
   readonly conflictingPairs: number;
 } {
@@ -87,7 +87,18 @@ export function findConflicts(visits: readonly (readonly CellVisit[])[], limit: 
     }
   }
   found.sort(compareConflicts);
-  return { conflicts: found.slice(0, limit), conflictingPairs: pairs.size };
+  if (!isEveryPair) return { conflicts: found.slice(0, limit), conflictingPairs: pairs.size };
+  // The first `limit` conflicts, then the earliest conflict of every other agent pair.
+  const chosen = found.slice(0, limit);
+  const seen = new Set<number>();
+  for (const c of chosen) seen.add(Math.min(c.early.agent, c.late.agent) * n + Math.max(c.early.agent, c.late.agent));
+  for (const c of found.slice(limit)) {
+    const key = Math.min(c.early.agent, c.late.agent) * n + Math.max(c.early.agent, c.late.agent);
+    if (seen.has(key)) continue;
+    seen.add(key);
+    chosen.push(c);
+  }
+  return { conflicts: chosen, conflictingPairs: pairs.size };
 }
 
 /**
@@ -110,4 +121,33 @@ function compareConflicts(x: OccupancyConflict, y: OccupancyConflict): number {
   const yh = Math.max(y.early.agent, y.late.agent);
   if (xh !== yh) return xh - yh;
   return x.cell - y.cell;
+}
+
+/** All agents' visits grouped by cell. */
+export function visitsByCell(visits: readonly (readonly CellVisit[])[]): Map<number, CellVisit[]> {
+  const byCell = new Map<number, CellVisit[]>();
+  for (const list of visits) {
+    for (const v of list) {
+      const bucket = byCell.get(v.cell);
+      if (bucket) bucket.push(v);
+      else byCell.set(v.cell, [v]);
+    }
+  }
+  return byCell;
+}
+
+/** How many other agents have a visit overlapping one of `list` (the visits of `agent`), and how many overlapping visit pairs. */
+export function conflictPartners(byCell: ReadonlyMap<number, readonly CellVisit[]>, agent: number, list: readonly CellVisit[]): { partners: number; overlaps: number } {
+  const partners = new Set<number>();
+  let overlaps = 0;
+  for (const v of list) {
+    const bucket = byCell.get(v.cell);
+    if (!bucket) continue;
+    for (const u of bucket) {
+      if (u.agent === agent || !(u.enter < v.leave && v.enter < u.leave)) continue;
+      partners.add(u.agent);
+      overlaps++;
+    }
+  }
+  return { partners: partners.size, overlaps };
 }

@@ -6,11 +6,22 @@
  * low level of sipp.ts. Best-first on sum of arrival times; ties prefer fewer conflicting
  * agent pairs, then the older node, so runs are deterministic.
  *
- * Split choice: for the first few conflicts of a node, every sound split is priced by
- * replanning both children, and the node branches on the split whose cheaper child costs most
- * (then whose dearer child costs most), as ICBS prefers cardinal conflicts (Boyarski et al.,
- * IJCAI 2015). Any sound split keeps optimality, so this choice only affects speed; the
- * children's plans are kept, so no low-level search is repeated.
+ * Split choice: for the first few conflicts of a node (exact mode: and the earliest conflict of
+ * every other conflicting agent pair), every sound split is priced by replanning both children,
+ * and the node branches on the split whose cheaper child costs most (then whose dearer child
+ * costs most), as ICBS prefers cardinal conflicts (Boyarski et al., IJCAI 2015). Any sound split
+ * keeps optimality, so this choice only affects speed; the children's plans are kept, so no
+ * low-level search is repeated.
+ *
+ * Exact mode, further (issue 15; each keeps the first conflict-free node popped optimal):
+ * - Best-first on f, a lower bound on every plan the node admits: f = cost + h with h from
+ *   the node's priced splits and pairwise sub-searches (pricedHeuristic; admissible, argued in
+ *   ccbs-heuristic.ts and there), computed when the node is first popped (a node whose f rises
+ *   goes back into OPEN), and at least the parent's f (the child admits fewer plans).
+ * - Bypass (ICBS): an equally cheap child plan that meets fewer agents replaces the node's plan
+ *   before branching (the node's constraints, cost and admitted plans do not change).
+ * - Replans and pair bounds are memoised across the tree by the agents' latest constraining
+ *   nodes, since a plan depends only on its agent's bans (SIPP is deterministic).
  *
  * Bounded-suboptimal mode (`suboptimality` w > 1): the ECBS high level (Barer, Sharon, Stern,
  * Felner, SoCS 2014; focal-lists.ts) over a focal SIPP low level (focal-sipp.ts): each agent's
@@ -23,11 +34,12 @@
  */
 import type { Grid } from '../grid/grid';
 import { branchOptions, type BranchChild } from './ccbs-branch';
-import { cellVisits, findConflicts, type CellVisit, type OccupancyConflict } from './ccbs-conflict';
+import { cellVisits, conflictPartners, findConflicts, visitsByCell, type CellVisit, type OccupancyConflict } from './ccbs-conflict';
 import { compileBans, type AgentBan } from './sipp-constraints';
 import { sippSearch, type SippPlan } from './sipp';
 import { SippHeap } from './sipp-heap';
 import { FocalLists } from './focal-lists';
+import { disjunctiveCover, type SplitDisjunction } from './ccbs-heuristic';
 import { focalSippSearch, occupancyIndex, type OccupancyIndex } from './focal-sipp';
 
 /** One agent as the search sees it. */
@@ -52,6 +64,10 @@ export interface CcbsQuery {
   readonly shouldStop: () => boolean;
   /** Suboptimality factor w (default 1 = optimal); w > 1 runs the bounded search of the file comment. */
   readonly suboptimality?: number;
+  /** Bans each agent starts with (the pair sub-searches of the heuristic); none by default. */
+  readonly initialBans?: readonly (readonly AgentBan[])[];
+  /** Exact mode: whether nodes use the pairwise sub-search bound (off inside those sub-searches). */
+  readonly isPairBound?: boolean;
 }
 
 /** How a search ended. */
@@ -77,19 +93,42 @@ interface CtNode {
   /** The agent this node's new bans apply to (-1 at the root). */
   readonly agent: number;
   readonly bans: readonly AgentBan[];
-  readonly plans: readonly SippPlan[];
-  readonly visits: readonly (readonly CellVisit[])[];
+  /** Per agent its plan; exact mode may swap one for an equally cheap plan with fewer conflicts (bypass) before expansion. */
+  plans: readonly SippPlan[];
+  visits: readonly (readonly CellVisit[])[];
   readonly cost: number;
-  readonly conflicts: readonly OccupancyConflict[];
-  readonly conflictingPairs: number;
+  conflicts: readonly OccupancyConflict[];
+  conflictingPairs: number;
   /** Per agent a proven lower bound on its optimal arrival under the node's constraints (= its plan's cost when exact). */
   readonly lbs: readonly number[];
   /** Σ lbs: a lower bound on the optimum of the plans the node admits. */
+  readonly lb: number;
+  /** Per agent the id of the latest node on the path from the root whose bans apply to it (-1: none). */
+  readonly owner: Int32Array;
+  /** Exact mode: a lower bound on every plan the node admits (cost + heuristic, at least the parent's f). */
+  f: number;
+  /** Exact mode: the split chosen when the node was first popped (its heuristic is then in f); null before and after expansion. */
+  split: PricedChild[] | null;
+}
+
+/** One child of a priced split, with its replanned agent's plan (null: none exists) and that plan's lower bound. */
+interface PricedChild {
+  readonly child: BranchChild;
+  readonly plan: SippPlan | null;
   readonly lb: number;
 }
 
 /** How many of a node's earliest conflicts are priced when choosing the split. */
 const CANDIDATE_CONFLICTS = 4;
+
+/** At most this many bypasses per node before it branches. */
+const BYPASS_ROUNDS = 8;
+
+/** Node expansions of one pairwise sub-search before its lower bound is taken instead of its optimum. */
+const PAIR_NODE_LIMIT = 16;
+
+/** Replans kept in the exact search's memo before it is emptied (bounds its memory). */
+const REPLAN_MEMO_LIMIT = 200_000;
 
 /** Runs CBS with interval constraints; optimal in sum of arrival times when it returns `solved`. */
 export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
@@ -134,10 +173,15 @@ export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
 
   const makeNode = (parent: CtNode | null, agent: number, bans: readonly AgentBan[], plans: readonly SippPlan[],
     visits: readonly (readonly CellVisit[])[], lbs: readonly number[] = plans.map((p) => p.cost)): CtNode => {
-    const { conflicts, conflictingPairs } = findConflicts(visits, CANDIDATE_CONFLICTS);
+    const { conflicts, conflictingPairs } = findConflicts(visits, CANDIDATE_CONFLICTS, w === 1);
     const cost = plans.reduce((s, p) => s + p.cost, 0);
     const lb = lbs.reduce((s, v) => s + v, 0);
-    return { id: generated++, parent, agent, bans, plans, visits, cost, conflicts, conflictingPairs, lbs, lb };
+    const id = generated++;
+    const owner = parent ? parent.owner.slice() : new Int32Array(q.agents.length).fill(-1);
+    if (agent >= 0) owner[agent] = id;
+    // Pathmax: the child admits a subset of the parent's plans, so the parent's f bounds it too.
+    const f = Math.max(cost, parent ? parent.f : 0);
+    return { id, parent, agent, bans, plans, visits, cost, conflicts, conflictingPairs, lbs, lb, owner, f, split: null };
   };
 
   // Sum of single-agent cost-to-go: the bound to report if the root itself is cut short.
@@ -147,7 +191,7 @@ export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
   // Bounded mode: each root plan avoids the plans made before it (focal order only).
   const rootOccupancy = w > 1 ? new Map<number, CellVisit[]>() : undefined;
   for (let a = 0; a < q.agents.length; a++) {
-    const p = plan(a, [], rootOccupancy);
+    const p = plan(a, q.initialBans?.[a] ?? [], rootOccupancy);
     if (!p) return finish(isStopped ? 'stopped' : 'infeasible', null, isStopped ? trivialBound : null);
     rootPlans.push(p);
     rootLbs.push(lastLb);
@@ -158,23 +202,54 @@ export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
   const root = makeNode(null, -1, [], rootPlans, rootPlans.map((p, a) => cellVisits(a, q.agents[a].start, p, q.forwardMs)), rootLbs);
 
   const nodes: CtNode[] = [root];
+  /** Exact mode: child replans by agent, owner node and new bans (see priceSplits). */
+  const replans = new Map<string, SippPlan | null>();
+  /** Exact mode: pair bounds by agents and owners (see pairWeight). */
+  const pairs = new Map<string, number>();
   if ((q.suboptimality ?? 1) > 1) return searchBounded(q.suboptimality as number);
   const open = new SippHeap((x, y) => {
     const a = nodes[x];
     const b = nodes[y];
-    return a.cost < b.cost || (a.cost === b.cost && (a.conflictingPairs < b.conflictingPairs || (a.conflictingPairs === b.conflictingPairs && a.id < b.id)));
+    return a.f < b.f || (a.f === b.f && (a.conflictingPairs < b.conflictingPairs || (a.conflictingPairs === b.conflictingPairs && a.id < b.id)));
   });
   open.push(root.id);
 
   while (open.size > 0) {
     const top = nodes[open.peek() as number];
     if (top.conflicts.length === 0) return finish('solved', top, top.cost);
-    if (q.shouldStop()) return finish('stopped', null, top.cost);
-    if (expanded >= q.nodeLimit) return finish('node-limit', null, top.cost);
+    if (q.shouldStop()) return finish('stopped', null, top.f);
+    if (expanded >= q.nodeLimit) return finish('node-limit', null, top.f);
     open.pop();
+    if (top.split === null) {
+      // First pop: price the splits, choose one and raise f by the admissible heuristic; a node
+      // whose f rises goes back into OPEN and is expanded only when it is the least again.
+      let priced = priceSplits(top);
+      if (isStopped) return finish('stopped', null, top.f);
+      // Bypass (Boyarski et al., IJCAI 2015): a child plan that costs its agent no more than the
+      // node's plan already satisfies the node's own bans, so adopting it leaves the node's
+      // constraints, cost and admitted plans unchanged; it is taken when it meets fewer other agents.
+      for (let round = 0; round < BYPASS_ROUNDS && top.conflicts.length > 0; round++) {
+        if (!bypass(top, priced.options)) break;
+        if (top.conflicts.length === 0) break;
+        priced = priceSplits(top);
+        if (isStopped) return finish('stopped', null, top.f);
+      }
+      if (top.conflicts.length === 0) {
+        open.push(top.id);
+        continue;
+      }
+      const h = pricedHeuristic(top, priced.options);
+      if (h === Infinity) continue; // some split has no feasible child: the node admits no plan
+      top.split = priced.best;
+      if (top.cost + h > top.f) {
+        top.f = top.cost + h;
+        open.push(top.id);
+        continue;
+      }
+    }
     expanded++;
-    const split = chooseSplit(top);
-    if (isStopped) return finish('stopped', null, top.cost);
+    const split = top.split;
+    top.split = null;
     for (const { child, plan: p } of split) {
       if (!p) continue;
       const plans = top.plans.slice();
@@ -217,6 +292,141 @@ export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
     }
   }
 
+  /**
+   * Exact mode: prices every sound split of the node's candidate conflicts (both children
+   * replanned) and picks the one to branch on (as chooseSplit). Replans are memoised across the
+   * whole tree: a child's plan depends only on its agent's bans, which are those of the latest
+   * node that constrained the agent (`owner`) plus the child's own, and SIPP is deterministic.
+   */
+  function priceSplits(node: CtNode): { best: PricedChild[]; options: PricedChild[][] } {
+    const options: PricedChild[][] = [];
+    let best: PricedChild[] = [];
+    let bestLow = -1;
+    let bestHigh = -1;
+    for (const conflict of node.conflicts) {
+      for (const option of branchOptions(conflict, q.forwardMs)) {
+        const priced = option.children.map((child): PricedChild => {
+          const key = `${child.agent}|${node.owner[child.agent]}|${banKey(child.bans)}`;
+          let p = replans.get(key);
+          if (p === undefined) {
+            p = plan(child.agent, [...bansOf(node, child.agent), ...(q.initialBans?.[child.agent] ?? []), ...child.bans]);
+            if (isStopped) return { child, plan: null, lb: 0 };
+            if (replans.size >= REPLAN_MEMO_LIMIT) replans.clear();
+            replans.set(key, p);
+          }
+          return { child, plan: p, lb: p?.cost ?? Infinity };
+        });
+        if (isStopped) return { best: [], options: [] };
+        options.push(priced);
+        const costs = priced.map(({ child, plan: p }) => (p ? node.cost - node.plans[child.agent].cost + p.cost : Infinity));
+        const low = Math.min(...costs);
+        const high = Math.max(...costs);
+        if (low > bestLow || (low === bestLow && high > bestHigh)) {
+          best = priced;
+          bestLow = low;
+          bestHigh = high;
+        }
+      }
+    }
+    return { best, options };
+  }
+
+  /** Adopts the first equally cheap child plan that meets fewer agents (then fewer visits); whether one was found. */
+  function bypass(node: CtNode, options: readonly PricedChild[][]): boolean {
+    const byCell = visitsByCell(node.visits);
+    const current = new Map<number, { partners: number; overlaps: number }>();
+    for (const priced of options) {
+      for (const { child, plan: p } of priced) {
+        const a = child.agent;
+        if (!p || p.cost !== node.plans[a].cost) continue;
+        let now = current.get(a);
+        if (now === undefined) {
+          now = conflictPartners(byCell, a, node.visits[a]);
+          current.set(a, now);
+        }
+        const list = cellVisits(a, q.agents[a].start, p, q.forwardMs);
+        const next = conflictPartners(byCell, a, list);
+        if (next.partners > now.partners || (next.partners === now.partners && next.overlaps >= now.overlaps)) continue;
+        const plans = node.plans.slice();
+        plans[a] = p;
+        const visits = node.visits.slice();
+        visits[a] = list;
+        const found = findConflicts(visits, CANDIDATE_CONFLICTS, true);
+        node.plans = plans;
+        node.visits = visits;
+        node.conflicts = found.conflicts;
+        node.conflictingPairs = found.conflictingPairs;
+        return true;
+      }
+    }
+    return false;
+  }
+
+  /** The admissible heuristic of a node from its priced splits (ccbs-heuristic.ts). */
+  function pricedHeuristic(node: CtNode, options: readonly PricedChild[][]): number {
+    const splits: SplitDisjunction[] = options.map(([ci, cj]) => ({
+      i: ci.child.agent,
+      di: ci.plan ? ci.plan.cost - node.plans[ci.child.agent].cost : Infinity,
+      j: cj.child.agent,
+      dj: cj.plan ? cj.plan.cost - node.plans[cj.child.agent].cost : Infinity,
+    }));
+    const h = disjunctiveCover(q.agents.length, splits);
+    if (h === Infinity || q.isPairBound === false) return h;
+    // Pairwise bound, as the weighted dependency graph of Li, Felner, Boyarski, Ma, Koenig,
+    // "Improved heuristics for multi-agent path finding with conflict-based search", IJCAI 2019:
+    // the plans any conflict-free plan of the node gives agents i and j form a conflict-free pair
+    // plan under their bans, so x_i + x_j ≥ (optimum of that two-agent problem) − c_i − c_j =: w_ij,
+    // and a greedy matching of those weights bounds Σ x as in ccbs-heuristic.ts.
+    const n = q.agents.length;
+    const weights = new Map<number, number>();
+    for (const s of splits) {
+      const key = Math.min(s.i, s.j) * n + Math.max(s.i, s.j);
+      if (weights.has(key)) continue;
+      const wij = pairWeight(node, Math.min(s.i, s.j), Math.max(s.i, s.j));
+      if (isStopped) return 0;
+      if (wij === Infinity) return Infinity;
+      weights.set(key, Math.max(wij, Math.min(s.di, s.dj)));
+    }
+    const edges = [...weights].sort((a, b) => b[1] - a[1] || a[0] - b[0]);
+    const used = new Uint8Array(n);
+    let matched = 0;
+    for (const [key, wt] of edges) {
+      const i = Math.floor(key / n);
+      const j = key % n;
+      if (used[i] || used[j] || wt <= 0) continue;
+      used[i] = 1;
+      used[j] = 1;
+      matched += wt;
+    }
+    return Math.max(h, matched);
+  }
+
+  /** The pair bound w_ij of pricedHeuristic: a two-agent exact search under the node's bans, cut at PAIR_NODE_LIMIT (then its lower bound); memoised by the agents' owners. */
+  function pairWeight(node: CtNode, i: number, j: number): number {
+    const key = `${i}|${node.owner[i]}|${j}|${node.owner[j]}`;
+    const hit = pairs.get(key);
+    if (hit !== undefined) return hit;
+    const out = ccbsSearch({
+      grid: q.grid,
+      agents: [q.agents[i], q.agents[j]],
+      forwardMs: q.forwardMs,
+      quarterTurnMs: q.quarterTurnMs,
+      nodeLimit: PAIR_NODE_LIMIT,
+      shouldStop: q.shouldStop,
+      initialBans: [[...bansOf(node, i), ...(q.initialBans?.[i] ?? [])], [...bansOf(node, j), ...(q.initialBans?.[j] ?? [])]],
+      isPairBound: false,
+    });
+    lowLevelExpansions += out.lowLevelExpansions;
+    if (out.status === 'stopped') {
+      isStopped = true;
+      return 0;
+    }
+    const bound = out.status === 'infeasible' ? Infinity : (out.lowerBound as number) - node.plans[i].cost - node.plans[j].cost;
+    const wij = Math.max(0, bound);
+    pairs.set(key, wij);
+    return wij;
+  }
+
   /** Prices the sound splits of the node's first conflicts and returns the best, with its children's plans. */
   function chooseSplit(node: CtNode): { child: BranchChild; plan: SippPlan | null; lb: number }[] {
     const memo = new Map<string, { plan: SippPlan | null; lb: number }>();
@@ -225,7 +435,7 @@ export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
       const key = `${child.agent}|${JSON.stringify(child.bans)}`;
       let hit = memo.get(key);
       if (hit === undefined) {
-        const p = plan(child.agent, [...bansOf(node, child.agent), ...child.bans], occupancy);
+        const p = plan(child.agent, [...bansOf(node, child.agent), ...(q.initialBans?.[child.agent] ?? []), ...child.bans], occupancy);
         hit = { plan: p, lb: lastLb };
         memo.set(key, hit);
       }
@@ -270,4 +480,9 @@ function bansOf(node: CtNode, agent: number): AgentBan[] {
   const out: AgentBan[] = [];
   for (let n: CtNode | null = node; n; n = n.parent) if (n.agent === agent) out.push(...n.bans);
   return out;
+}
+
+/** A text key of a list of bans (memo keys). */
+function banKey(bans: readonly AgentBan[]): string {
+  return bans.map((b) => (b.kind === 'occupancy' ? `o${b.cell},${b.from},${b.to}` : b.kind === 'move' ? `m${b.fromCell},${b.toCell},${b.from},${b.to}` : `g${b.notBefore}`)).join(';');
 }

@@ -20,7 +20,7 @@
  */
 import type { ActionKind } from '@shared/plan';
 import type { Grid } from '../grid/grid';
-import { forwardCell, HEADING_COUNT, turnedLeft, turnedRight } from '../grid/heading-graph';
+import { forwardCell, HEADING_COUNT } from '../grid/heading-graph';
 import { ALWAYS_SAFE, earliestOutside, type CompiledBans, type Windows } from './sipp-constraints';
 import { SippHeap } from './sipp-heap';
 
@@ -68,64 +68,134 @@ export interface SippOutcome {
 
 const NONE = -1;
 
+// Module-local copies of hot imports (a CommonJS build reads imported bindings through getters).
+const SAFE_ALWAYS = ALWAYS_SAFE;
+const earliestFree = earliestOutside;
+
+/** Per grid the forward neighbour of every packed (cell, heading) state, NONE off the grid or blocked. */
+const forwardTables = new WeakMap<Grid, Int32Array>();
+
+/** The forward-neighbour table of a grid (built once per grid). */
+export function forwardTable(grid: Grid): Int32Array {
+  let table = forwardTables.get(grid);
+  if (!table) {
+    table = new Int32Array(grid.width * grid.height * HEADING_COUNT);
+    for (let cell = 0; cell < grid.width * grid.height; cell++) {
+      for (let h = 0; h < HEADING_COUNT; h++) table[cell * HEADING_COUNT + h] = grid.passable[cell] === 1 ? forwardCell(grid, cell, h) : NONE;
+    }
+    forwardTables.set(grid, table);
+  }
+  return table;
+}
+
+/**
+ * The best node per search state, shared by all searches (SIPP is never re-entered): an entry
+ * is valid only when its stamp is the current search's, so no table is cleared between searches.
+ */
+let bestStamp = new Int32Array(0);
+let bestNode = new Int32Array(0);
+let stamp = 0;
+
+/** Action kinds of the node pool. */
+const K_WAIT = 0;
+const K_FORWARD = 1;
+const K_LEFT = 2;
+const K_RIGHT = 3;
+const KINDS: readonly ActionKind[] = ['wait', 'forward', 'turn-left', 'turn-right'];
+
+/** The search nodes, in parallel typed arrays shared by all searches (reused, so no garbage per search). */
+const pool = {
+  cell: new Int32Array(1024),
+  head: new Uint8Array(1024),
+  iv: new Int32Array(1024),
+  flag: new Uint8Array(1024),
+  g: new Float64Array(1024),
+  f: new Float64Array(1024),
+  parent: new Int32Array(1024),
+  kind: new Uint8Array(1024),
+  moveStart: new Float64Array(1024),
+};
+
+/** Doubles every pool array, keeping its contents. */
+function growPool(): void {
+  const grow = <A extends Int32Array | Uint8Array | Float64Array>(a: A): A => {
+    const b = new (a.constructor as new (n: number) => A)(a.length * 2);
+    b.set(a);
+    return b;
+  };
+  pool.cell = grow(pool.cell);
+  pool.head = grow(pool.head);
+  pool.iv = grow(pool.iv);
+  pool.flag = grow(pool.flag);
+  pool.g = grow(pool.g);
+  pool.f = grow(pool.f);
+  pool.parent = grow(pool.parent);
+  pool.kind = grow(pool.kind);
+  pool.moveStart = grow(pool.moveStart);
+}
+
 /** Finds a minimum-arrival-time plan for one agent under its constraints. */
 export function sippSearch(q: SippQuery): SippOutcome {
   const { grid, goal, forwardMs: F, quarterTurnMs: T, bans, heuristic } = q;
-  const safeOf = (cell: number): Windows => bans.safe.get(cell) ?? ALWAYS_SAFE;
+  const safeOf = (cell: number): Windows => bans.safe.get(cell) ?? SAFE_ALWAYS;
   let maxIntervals = 1;
   for (const w of bans.safe.values()) maxIntervals = Math.max(maxIntervals, w.from.length);
   const L = bans.goalNotBefore;
+  const fwd = forwardTable(grid);
+  const keys = grid.width * grid.height * 4 * maxIntervals * 2;
+  if (bestStamp.length < keys) {
+    bestStamp = new Int32Array(keys);
+    bestNode = new Int32Array(keys);
+    stamp = 0;
+  }
+  stamp = stamp === 0x7fffffff ? 1 : stamp + 1;
+  if (stamp === 1) bestStamp.fill(0);
+  const current = stamp;
+  const seenAt = (key: number): number => (bestStamp[key] === current ? bestNode[key] : NONE);
 
-  // Node storage in parallel arrays; `flag` is 1 for a goal-cell state whose visit began at or
-  // after the late-goal bound (always 1 when there is none), 0 otherwise.
-  const cellA: number[] = [];
-  const headA: number[] = [];
-  const ivA: number[] = [];
-  const flagA: number[] = [];
-  const gA: number[] = [];
-  const fA: number[] = [];
-  const parentA: number[] = [];
-  const moveStartA: number[] = [];
-  const kindA: ActionKind[] = [];
-  const best = new Map<number, number>();
-  const heap = new SippHeap((a, b) => fA[a] < fA[b] || (fA[a] === fA[b] && (gA[a] > gA[b] || (gA[a] === gA[b] && a < b))));
+  // Node storage in the shared pools below; `flag` is 1 for a goal-cell state whose visit began
+  // at or after the late-goal bound (always 1 when there is none), 0 otherwise.
+  let count = 0;
+  const heap = new SippHeap((a, b) => pool.f[a] < pool.f[b] || (pool.f[a] === pool.f[b] && (pool.g[a] > pool.g[b] || (pool.g[a] === pool.g[b] && a < b))));
 
-  const add = (cell: number, head: number, iv: number, flag: number, g: number, parent: number, kind: ActionKind, moveStart: number): void => {
-    const h = heuristic[cell * HEADING_COUNT + head];
+  const add = (cell: number, head: number, iv: number, flag: number, g: number, parent: number, kind: number, moveStart: number): void => {
+    const h = heuristic[cell * 4 + head];
     if (h === Infinity) return;
-    const key = ((cell * HEADING_COUNT + head) * maxIntervals + iv) * 2 + flag;
-    const seen = best.get(key);
-    if (seen !== undefined && gA[seen] <= g) return;
-    const id = gA.length;
-    cellA.push(cell);
-    headA.push(head);
-    ivA.push(iv);
-    flagA.push(flag);
-    gA.push(g);
-    fA.push(g + h);
-    parentA.push(parent);
-    kindA.push(kind);
-    moveStartA.push(moveStart);
-    best.set(key, id);
+    const key = ((cell * 4 + head) * maxIntervals + iv) * 2 + flag;
+    const seen = seenAt(key);
+    if (seen !== NONE && pool.g[seen] <= g) return;
+    const id = count++;
+    if (id >= pool.g.length) growPool();
+    pool.cell[id] = cell;
+    pool.head[id] = head;
+    pool.iv[id] = iv;
+    pool.flag[id] = flag;
+    pool.g[id] = g;
+    pool.f[id] = g + h;
+    pool.parent[id] = parent;
+    pool.kind[id] = kind;
+    pool.moveStart[id] = moveStart;
+    bestStamp[key] = current;
+    bestNode[key] = id;
     heap.push(id);
   };
 
   const startSafe = safeOf(q.start);
   if (startSafe.from[0] === 0 && startSafe.to[0] > 0) {
     const flag = q.start === goal && startSafe.to[0] === Infinity && L <= 0 ? 1 : 0;
-    for (const h of q.startHeadings) add(q.start, h, 0, flag, 0, NONE, 'wait', 0);
+    for (const h of q.startHeadings) add(q.start, h, 0, flag, 0, NONE, K_WAIT, 0);
   }
 
   let expansions = 0;
   while (heap.size > 0) {
     if ((expansions & 255) === 255 && q.shouldStop?.()) return { plan: null, expansions, isStopped: true };
     const id = heap.pop() as number;
-    const cell = cellA[id];
-    const head = headA[id];
-    const iv = ivA[id];
-    const flag = flagA[id];
-    const g = gA[id];
-    if (best.get(((cell * HEADING_COUNT + head) * maxIntervals + iv) * 2 + flag) !== id) continue;
+    const cell = pool.cell[id];
+    const head = pool.head[id];
+    const iv = pool.iv[id];
+    const flag = pool.flag[id];
+    const g = pool.g[id];
+    if (seenAt(((cell * 4 + head) * maxIntervals + iv) * 2 + flag) !== id) continue;
     const safe = safeOf(cell);
     const hi = safe.to[iv];
     if (cell === goal && hi === Infinity && flag === 1) return { plan: rebuild(id), expansions, isStopped: false };
@@ -133,27 +203,27 @@ export function sippSearch(q: SippQuery): SippOutcome {
 
     // Turns keep the cell (and so the safe interval and the goal flag).
     if (g + T <= hi) {
-      add(cell, turnedLeft(head), iv, flag, g + T, id, 'turn-left', g);
-      add(cell, turnedRight(head), iv, flag, g + T, id, 'turn-right', g);
+      add(cell, (head + 3) & 3, iv, flag, g + T, id, K_LEFT, g); // a left turn: heading − 1 (mod 4)
+      add(cell, (head + 1) & 3, iv, flag, g + T, id, K_RIGHT, g);
     }
 
     // Forward: one successor per reachable safe interval of the next cell.
-    const next = forwardCell(grid, cell, head);
+    const next = fwd[cell * 4 + head];
     if (next === NONE) continue;
     const nextSafe = safeOf(next);
     const moveWin = bans.moveWindows.get(cell * bans.cellCount + next);
     for (let k = 0; k < nextSafe.from.length; k++) {
       if (nextSafe.to[k] <= g) continue;
-      const start = earliestOutside(moveWin, Math.max(g, nextSafe.from[k]));
+      const start = earliestFree(moveWin, Math.max(g, nextSafe.from[k]));
       if (start + F > hi) break; // later intervals start later still
       if (start + F > nextSafe.to[k]) continue;
       const isFinalGoal = next === goal && nextSafe.to[k] === Infinity;
       if (!isFinalGoal || start >= L) {
-        add(next, head, k, isFinalGoal ? 1 : 0, start + F, id, 'forward', start);
+        add(next, head, k, isFinalGoal ? 1 : 0, start + F, id, K_FORWARD, start);
       } else {
-        add(next, head, k, 0, start + F, id, 'forward', start);
-        const late = earliestOutside(moveWin, L);
-        if (late + F <= hi) add(next, head, k, 1, late + F, id, 'forward', late);
+        add(next, head, k, 0, start + F, id, K_FORWARD, start);
+        const late = earliestFree(moveWin, L);
+        if (late + F <= hi) add(next, head, k, 1, late + F, id, K_FORWARD, late);
       }
     }
   }
@@ -161,18 +231,19 @@ export function sippSearch(q: SippQuery): SippOutcome {
 
   function rebuild(last: number): SippPlan {
     const chain: number[] = [];
-    for (let n = last; parentA[n] !== NONE; n = parentA[n]) chain.push(n);
+    for (let n = last; pool.parent[n] !== NONE; n = pool.parent[n]) chain.push(n);
     chain.reverse();
     const steps: SippStep[] = [];
     for (const n of chain) {
-      const p = parentA[n];
-      const s = moveStartA[n];
-      if (s > gA[p]) {
-        steps.push({ kind: 'wait', from: cellA[p], to: cellA[p], heading: headA[p], start: gA[p], end: s });
+      const p = pool.parent[n];
+      const s = pool.moveStart[n];
+      if (s > pool.g[p]) {
+        steps.push({ kind: 'wait', from: pool.cell[p], to: pool.cell[p], heading: pool.head[p], start: pool.g[p], end: s });
       }
-      const end = kindA[n] === 'forward' ? s + F : s + T;
-      steps.push({ kind: kindA[n], from: cellA[p], to: cellA[n], heading: headA[n], start: s, end });
+      const kind = KINDS[pool.kind[n]];
+      const end = kind === 'forward' ? s + F : s + T;
+      steps.push({ kind, from: pool.cell[p], to: pool.cell[n], heading: pool.head[n], start: s, end });
     }
-    return { steps, cost: gA[last] };
+    return { steps, cost: pool.g[last] };
   }
 }
