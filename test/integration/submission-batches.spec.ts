@@ -7,11 +7,13 @@
  * The tiny map (leaderboard-support.ts) is 5 × 4 with a wall at (1, 1); agents (0,0)→(2,0),
  * (2,2)→(0,2), (4,3)→(4,0). Plans and their figures are worked by hand as in submission.spec.ts.
  */
+import { gzipSync } from 'node:zlib';
 import request from 'supertest';
 import { CSRF_HEADER } from '@shared/auth';
 import type { CreatedApiToken } from '@shared/api-tokens';
 import type { LeaderboardPage } from '@shared/leaderboards';
 import type { SubmissionBatchListResponse, SubmissionBatchSummary, SubmissionBatchView } from '@shared/submission-batches';
+import { DEMO_IDENTITIES } from '../../api/src/dev/fake-oauth/demo-identities';
 import { buildZip } from './instance-library-support';
 import { json, startBoardWorld, type BoardWorld, type SignedInClient } from './leaderboard-support';
 
@@ -178,6 +180,21 @@ describe('batch submissions', () => {
     expect(view.entries).toHaveLength(1);
     expect(view.entries[0]).toMatchObject({ status: 'accepted', file: 'plans[0]', line: 0 });
     expect(view.entries[0].accepted).toMatchObject({ soc: 4, solver: { name: 'Script batch', version: '2' } });
+  });
+
+  it('resumes a batch whose process ended with plans still pending when its owner opens it', async () => {
+    // As a server that stopped mid-batch leaves it: running, one plan pending with its text, no runner in this process.
+    // world.other is the third demo identity (leaderboard-support.ts).
+    const [{ id: ownerId }] = await world.lib.sql<{ id: number }>('SELECT id FROM users WHERE login = :login', { login: DEMO_IDENTITIES[2].login });
+    const request = { format: 'text', file: 'left.txt', instance: { scenarioId: world.scenarios[0], agents: 2 }, model: 'classic', startHeading: 'free', solver: { name: 'Left over', version: '1' } };
+    const [{ id }] = await world.lib.sql<{ id: number }>("INSERT INTO submission_batches (owner_id, source, total) VALUES (:owner, 'json', 1) RETURNING id", { owner: ownerId });
+    await world.lib.sql('INSERT INTO submission_batch_entries (batch_id, position, file, line, request, plan_gz) VALUES (:id, 1, :file, 0, :request, :plan)', {
+      id, file: 'left.txt', request: JSON.stringify(request), plan: gzipSync(GOOD_TEXT),
+    });
+
+    const view = await finished(() => world.other.request(`/api/submissions/batches/${id}`));
+
+    expect(view.entries[0]).toMatchObject({ status: 'accepted', accepted: { soc: 4, solver: { name: 'Left over', version: '1' } } });
   });
 
   it('shows a batch to its owner only', async () => {
