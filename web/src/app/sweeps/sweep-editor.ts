@@ -14,15 +14,16 @@ import { MatCheckboxModule } from '@angular/material/checkbox';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
-import { Router } from '@angular/router';
+import { Router, RouterLink } from '@angular/router';
 import { catchError, distinctUntilChanged, map, of, startWith, switchMap } from 'rxjs';
 import type { InstanceSetDetail } from '@shared/instance-sets';
 import { CBS_SWITCH_TEXT, cbsSwitchLabel, checkSweepSize, sweepSize } from '@shared/sweeps';
 import { InstanceSetApi } from '../instance-sets/instance-set-api';
+import { ExternalSolverApi } from './external-solver-api';
 import { SweepApi } from './sweep-api';
 import { currentPrecisionText, FOLLOWING_EXPLANATION, followingWarning, HALF_WIDTH_CHOICES, percentText, runsNeededText, WAIT_RULE } from './sweep-editor-advice';
 import {
-  definitionFromForm, FORM_MODELS, FORM_POLICIES, FORM_SWITCHES, SUBOPTIMALITY_HINT, SWEEP_FORM_DEFAULTS, takesFollowingRule, type SweepFormValue,
+  definitionFromForm, externalChoices, FORM_MODELS, FORM_POLICIES, FORM_SWITCHES, SUBOPTIMALITY_HINT, SWEEP_FORM_DEFAULTS, takesFollowingRule, type SweepFormValue,
 } from './sweep-form-rules';
 import { MiddleEllipsisPipe } from '../core/middle-ellipsis.pipe';
 import { TrialsApi } from '../trials/trials-api';
@@ -32,7 +33,7 @@ import { TrialsApi } from '../trials/trials-api';
   selector: 'app-sweep-editor',
   templateUrl: './sweep-editor.html',
   styleUrl: './sweep-editor.scss',
-  imports: [MiddleEllipsisPipe, ReactiveFormsModule, MatFormFieldModule, MatInputModule, MatSelectModule, MatCheckboxModule, MatButtonModule, MatButtonToggleModule],
+  imports: [MiddleEllipsisPipe, RouterLink, ReactiveFormsModule, MatFormFieldModule, MatInputModule, MatSelectModule, MatCheckboxModule, MatButtonModule, MatButtonToggleModule],
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export default class SweepEditor {
@@ -42,6 +43,8 @@ export default class SweepEditor {
   /** Named robot profiles fitted from field runs (issue 17): presets that fill the profile fields and the stalls. */
   protected readonly namedProfiles = toSignal(inject(TrialsApi).profiles().pipe(catchError(() => of([]))), { initialValue: [] });
   protected readonly models = FORM_MODELS;
+  /** Registered external solvers, one choice per solver and plan model (issue 16, item 4). */
+  protected readonly externalChoices = toSignal(inject(ExternalSolverApi).list().pipe(map((r) => externalChoices(r.items)), catchError(() => of([]))), { initialValue: [] });
   protected readonly switches = FORM_SWITCHES;
   /** Label and explanation of each CBS switch (shared/sweeps.ts); the identifiers stay the form values. */
   protected readonly switchText = CBS_SWITCH_TEXT;

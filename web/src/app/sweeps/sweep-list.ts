@@ -18,7 +18,10 @@ import { SWEEP_STATUS_LABEL } from './sweep-status';
   template: `
     <header class="head">
       <h1>Sweeps</h1>
-      @if (canLaunch()) { <a mat-flat-button routerLink="/sweeps/new">New sweep</a> }
+      <span class="actions">
+        <a mat-button routerLink="/sweeps/solvers">External solvers</a>
+        @if (canLaunch()) { <a mat-flat-button routerLink="/sweeps/new">New sweep</a> }
+      </span>
     </header>
     @if (sweeps(); as items) {
       @if (items.length === 0) {
@@ -46,6 +49,7 @@ import { SWEEP_STATUS_LABEL } from './sweep-status';
   `,
   styles: `
     .head { display: flex; align-items: center; justify-content: space-between; }
+    .actions { display: flex; gap: 8px; }
     table { width: 100%; }
     .runs { font: var(--mat-sys-body-small); color: var(--mat-sys-on-surface-variant); }
     .empty { color: var(--mat-sys-on-surface-variant); }
