@@ -20,7 +20,14 @@ function moveDir(from: number, to: number, w: number): number {
   return -1;
 }
 
-/** The constraints that bind one agent, resolved for fast queries. */
+/** Shared by every table without landmarks (never written). */
+const NO_LANDMARK_TIMES = new Int32Array(0);
+
+/**
+ * The constraints that bind one agent, resolved for fast queries. A search keeps thousands of
+ * these (one per CT node and constrained agent), so the per-cell marks are two bit sets (a
+ * 1,024-cell map: 256 bytes instead of a byte per cell) and the key sets exist only once used.
+ */
 export class ConstraintTable {
   /** The final arrival at the goal must be at a time ≥ this. */
   lengthMin = 0;
@@ -40,12 +47,16 @@ export class ConstraintTable {
   readonly landmarkTimes: number[] = [];
   /** Number of vertex/edge/closed-cell rules (0 lets the low level skip all lookups). */
   ruleCount = 0;
-  private readonly vertexKeys = new Set<number>();
-  private readonly edgeKeys = new Set<number>();
-  /** Per cell: bit 1 a vertex rule, bit 2 an edge rule into the cell, bit 4 closed from some time on. */
-  private readonly cellMark: Uint8Array;
-  private readonly closedFrom = new Map<number, number>();
-  private landmarkAtTime: Int32Array = new Int32Array(0);
+  private vertexKeys: Set<number> | null = null;
+  private edgeKeys: Set<number> | null = null;
+  /**
+   * Two bit sets in one buffer: from word 0, a bit per cell with a vertex or closing rule; from
+   * word `edgeBase`, a bit per cell with an edge rule into it.
+   */
+  private readonly marks: Uint32Array;
+  private readonly edgeBase: number;
+  private closedFrom: Map<number, number> | null = null;
+  private landmarkAtTime: Int32Array = NO_LANDMARK_TIMES;
 
   /**
    * Resolves `constraints` (any agents') for `agent` with goal cell `goal` on a grid of
@@ -54,7 +65,8 @@ export class ConstraintTable {
    */
   constructor(readonly agent: number, readonly goal: number, readonly cellCount: number, private readonly width: number,
     constraints: Iterable<Constraint>) {
-    this.cellMark = new Uint8Array(cellCount);
+    this.edgeBase = (cellCount + 31) >>> 5;
+    this.marks = new Uint32Array(2 * this.edgeBase);
     let maxT = -1;
     const marks: [number, number][] = [];
     for (const c of constraints) {
@@ -100,47 +112,50 @@ export class ConstraintTable {
       this.landmarkAtTime = new Int32Array(this.horizon + 1).fill(-1);
       for (let i = 0; i < this.landmarkTimes.length; i++) this.landmarkAtTime[this.landmarkTimes[i]] = this.landmarkCells[i];
     }
-    const closed = this.closedFrom.get(goal);
+    const closed = this.closedFrom?.get(goal);
     if (closed !== undefined) this.goalBlockedUntil = NO_TIME;
-    else if (this.cellMark[goal] & 1) {
+    else if (this.vertexKeys !== null && (this.marks[goal >>> 5] & (1 << (goal & 31))) !== 0) {
       for (let t = maxT; t >= 0; t--) if (this.vertexKeys.has(t * cellCount + goal)) { this.goalBlockedUntil = t; break; }
     }
   }
 
   private forbidVertex(cell: number, t: number): void {
     if (t < 0) return;
-    this.vertexKeys.add(t * this.cellCount + cell);
-    this.cellMark[cell] |= 1;
+    (this.vertexKeys ??= new Set<number>()).add(t * this.cellCount + cell);
+    this.marks[cell >>> 5] |= 1 << (cell & 31);
     this.ruleCount++;
   }
 
   private forbidEdge(from: number, to: number, t: number): void {
     const d = moveDir(from, to, this.width);
     if (d < 0) throw new Error(`edge constraint between non-adjacent cells ${from} and ${to}`);
-    this.edgeKeys.add((t * this.cellCount + to) * 4 + d);
-    this.cellMark[to] |= 2;
+    (this.edgeKeys ??= new Set<number>()).add((t * this.cellCount + to) * 4 + d);
+    this.marks[this.edgeBase + (to >>> 5)] |= 1 << (to & 31);
     this.ruleCount++;
   }
 
   private closeFrom(cell: number, t: number): void {
-    const prev = this.closedFrom.get(cell);
-    if (prev === undefined || t < prev) this.closedFrom.set(cell, t);
-    this.cellMark[cell] |= 4;
+    const closedFrom = (this.closedFrom ??= new Map<number, number>());
+    const prev = closedFrom.get(cell);
+    if (prev === undefined || t < prev) closedFrom.set(cell, t);
+    this.marks[cell >>> 5] |= 1 << (cell & 31);
     this.ruleCount++;
   }
 
   /** Whether the agent may not be in `cell` at time `t`. */
   isVertexBlocked(cell: number, t: number): boolean {
-    const m = this.cellMark[cell];
-    if (m === 0) return false;
-    if ((m & 4) !== 0 && t >= (this.closedFrom.get(cell) as number)) return true;
-    return (m & 1) !== 0 && this.vertexKeys.has(t * this.cellCount + cell);
+    if ((this.marks[cell >>> 5] & (1 << (cell & 31))) === 0) return false;
+    if (this.closedFrom !== null) {
+      const from = this.closedFrom.get(cell);
+      if (from !== undefined && t >= from) return true;
+    }
+    return this.vertexKeys !== null && this.vertexKeys.has(t * this.cellCount + cell);
   }
 
   /** Whether the agent may not move from cell `from` to the different cell `to` arriving at `t`. */
   isEdgeBlocked(from: number, to: number, t: number): boolean {
-    if ((this.cellMark[to] & 2) === 0) return false;
-    return this.edgeKeys.has((t * this.cellCount + to) * 4 + moveDir(from, to, this.width));
+    if ((this.marks[this.edgeBase + (to >>> 5)] & (1 << (to & 31))) === 0) return false;
+    return (this.edgeKeys as Set<number>).has((t * this.cellCount + to) * 4 + moveDir(from, to, this.width));
   }
 
   /** The cell the agent must occupy at time `t`, or −1. */
