@@ -78,7 +78,7 @@ describe('BatchUpload', () => {
     Object.defineProperty(input, 'files', { value: [file], configurable: true });
     input.dispatchEvent(new Event('change'));
     await turn();
-    const button = [...host().querySelectorAll<HTMLButtonElement>('button')].find((b) => b.textContent?.includes('Check and submit the batch'))!;
+    const button = [...host().querySelectorAll<HTMLButtonElement>('button')].find((b) => b.textContent?.includes('Submit the batch'))!;
     expect(button.disabled).toBe(false);
     button.click();
     await turn();
