@@ -82,9 +82,9 @@ function instanceLabel(request: EntryRow['request']): string {
 }
 
 /** A refusal from whatever stopped a plan (an AppError of the read, the lookup or the pool, or the schema). */
-function refusalOf(err: unknown): BatchEntryRefusal | null {
+function refusalOf(err: unknown, file: string): BatchEntryRefusal | null {
   if (err instanceof ZodError) {
-    return { code: 'VALIDATION_FAILED', message: err.issues[0]?.message ?? 'the plan entry is not valid', problems: err.issues.slice(0, 20).map((i) => ({ file: '', line: 0, column: 0, field: i.path.join('.'), message: i.message })) };
+    return { code: 'VALIDATION_FAILED', message: err.issues[0]?.message ?? 'the plan entry is not valid', problems: err.issues.slice(0, 20).map((i) => ({ file, line: 0, column: 0, field: i.path.join('.') || 'document', message: i.message })) };
   }
   if (!(err instanceof AppError)) return null;
   const details = err.details as unknown;
@@ -187,7 +187,7 @@ export function createSubmissionBatchesService(deps: SubmissionBatchesDeps): Sub
       return true;
     } catch (err) {
       if (stop.signal.aborted || isTransient(err)) return false;
-      const refusal = refusalOf(err);
+      const refusal = refusalOf(err, entry.file);
       if (!refusal) logger.error({ err, batchId, entryId: entry.id }, 'a batch plan could not be checked');
       await refuse(batchId, entry.id, refusal ?? { code: 'INTERNAL', message: 'The plan could not be checked because of a fault on the server; submit it again.' });
       return true;
