@@ -236,6 +236,9 @@ describe('external solvers in sweeps', () => {
     const detail = (await (await s.client.request(`/api/sweeps/${sweep.id}`)).json()) as SweepDetail;
     expect(detail.progress.counts.pending).toBe(2);
     expect(detail.progress.perModel[0].external).toEqual({ solver: 'lonely@1', workers: 0, waiting: 'waiting for a worker with solver lonely@1' });
+    // Its jobs wait in the solver's own queue, expiring after the time limit (10 s) plus the plan check's 60 s plus the margin (3 s).
+    const jobs = await s.sql<{ expire: number }>("SELECT extract(epoch FROM expire_in)::int AS expire FROM pgboss.job WHERE name = 'qt-external-runs:lonely@1'");
+    expect(jobs.map((j) => j.expire)).toEqual([73, 73]);
     const removing = await s.client.request(`/api/external-solvers/${lonely.id}`, { method: 'DELETE' });
     expect(removing.status).toBe(409);
     expect((await s.client.request(`/api/sweeps/${sweep.id}/cancel`, { method: 'POST' })).status).toBe(200);

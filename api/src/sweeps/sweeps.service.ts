@@ -15,7 +15,7 @@ import { AppError } from '../errors/app-error';
 import { validate } from '../errors/validate';
 import { isSetVisible } from '../instance-sets/instance-set-access';
 import { SWEEP_CANCEL_CHANNEL } from '../workers/sweep-channels';
-import { externalRunQueue, RUN_QUEUE, runJob, sendRunJobs } from '../workers/sweep-queue';
+import { EXTERNAL_CHECK_LIMIT_MS, externalRunQueue, RUN_QUEUE, runJob, sendRunJobs } from '../workers/sweep-queue';
 import { findExternalSolver } from '../external-solvers/external-solvers.service';
 import { parameterHash } from './parameter-hash';
 import { toAccount } from '../users/account';
@@ -147,7 +147,12 @@ export function createSweepsService(deps: SweepsDeps): SweepsService {
              RETURNING id`,
             { replacements: { rows: JSON.stringify(values) }, transaction, type: QueryTypes.SELECT },
           );
-          jobs.push(...inserted.map((r, j) => runJob({ runId: r.id, sweepId: sweep.id }, def.timeLimitMs, deps.jobExpiryMarginSeconds, queues[chunk[j].modelIndex])));
+          jobs.push(...inserted.map((r, j) => {
+            const queue = queues[chunk[j].modelIndex];
+            // An external run also reads, checks and replays the plan after its process: its job expires that much later.
+            const limitMs = queue === RUN_QUEUE ? def.timeLimitMs : def.timeLimitMs + EXTERNAL_CHECK_LIMIT_MS;
+            return runJob({ runId: r.id, sweepId: sweep.id }, limitMs, deps.jobExpiryMarginSeconds, queue);
+          }));
         }
         await sequelize.query(
           'UPDATE runs SET job_id = x.job::uuid FROM json_to_recordset(:rows) AS x(run int, job text) WHERE runs.id = x.run',

@@ -28,7 +28,7 @@ import { readPlanFile, type ReadSubmission } from '../submissions/read-plan-file
 import { runExternalProcess, lastLine, type ExternalProcessOutcome } from './external-process';
 import { claimRun, type JobOutcome, type RunContext } from './process-run';
 import { recordRunResult, type ClaimedRun, type ExternalRunFacts } from './record-run-result';
-import type { RunJobData } from './sweep-queue';
+import { EXTERNAL_CHECK_LIMIT_MS as CHECK_LIMIT_MS, type RunJobData } from './sweep-queue';
 import { withDbRetry } from './with-db-retry';
 
 /** The folder registered commands run in: the Quarterturn checkout of this worker (relative paths in a template start here). */
@@ -36,9 +36,6 @@ export const SOLVER_WORKING_DIRECTORY = resolve(__dirname, '..', '..', '..');
 
 /** The largest plan file read, bytes (the submissions' limit on a plan's text). */
 const MAX_PLAN_BYTES = 900_000;
-
-/** How long the plan's check and replays may take in a pool thread, ms, beyond the run's time limit. */
-const CHECK_LIMIT_MS = 60_000;
 
 /** Processes one job of an external solver's queue; throws only when the database stays unreachable. */
 export async function processExternalRun(ctx: RunContext, job: RunJobData): Promise<JobOutcome> {

@@ -21,6 +21,13 @@ export function externalRunQueue(ref: SolverRef): string {
   return `qt-external-runs:${solverKey(ref)}`;
 }
 
+/**
+ * How long an external run's plan check and replays may take in a pool thread after its process,
+ * ms (process-external-run.ts). Its job expires this much later than a built-in one
+ * (sweeps.service.ts), so a long check is never mistaken for a dead worker and run a second time.
+ */
+export const EXTERNAL_CHECK_LIMIT_MS = 60_000;
+
 /** The data of one job. */
 export interface RunJobData {
   readonly runId: number;
