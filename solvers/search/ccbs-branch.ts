@@ -60,31 +60,44 @@ export interface BranchOption {
   readonly children: readonly [BranchChild, BranchChild];
 }
 
-/** Every sound split of a conflict the rule offers; `forwardMs` is the forward move time F. */
-export function branchOptions(conflict: OccupancyConflict, forwardMs: number): BranchOption[] {
+/**
+ * Every sound split of a conflict the rule offers; `forwardMs` is the forward move time F.
+ * `neighbours(c)` lists the cells with a forward move into and out of c; when given, each move
+ * ban covers every move into c (or, for a move out of c, every move out of c) in its window:
+ * the proofs above only use that the banned move occupies c over [start, start + F), which holds
+ * for any such move, so the wider bans stay sound and cut the detours that would dodge the ban by
+ * entering or leaving c through another side at the same time (issue 15). Without it, as first
+ * written, each ban names the one move of the conflict.
+ */
+export function branchOptions(conflict: OccupancyConflict, forwardMs: number, neighbours?: (cell: number) => readonly number[]): BranchOption[] {
   const F = forwardMs;
   const { time: t, cell: c, early: vi, late: vj } = conflict;
   const i = vi.agent;
   const j = vj.agent;
-  const mj = { fromCell: vj.inFrom, toCell: c };
+  /** Move bans on the moves into c (or out of c) over [from, to); `via` is the conflict's own other cell. */
+  const moveBans = (isInto: boolean, via: number, from: number, to: number): AgentBan[] =>
+    (neighbours ? neighbours(c) : [via]).map((n) => ({ kind: 'move' as const, fromCell: isInto ? n : c, toCell: isInto ? c : n, from, to }));
   const out: BranchOption[] = [];
-  let mi: { fromCell: number; toCell: number; start: number } | undefined;
-  if (vi.inFrom >= 0 && t < vi.enter + F) mi = { fromCell: vi.inFrom, toCell: c, start: vi.enter };
-  else if (vi.outStart >= 0 && t >= vi.outStart) mi = { fromCell: c, toCell: vi.outTo, start: vi.outStart };
+  let mi: { isInto: boolean; via: number; start: number } | undefined;
+  if (vi.inFrom >= 0 && t < vi.enter + F) mi = { isInto: true, via: vi.inFrom, start: vi.enter };
+  else if (vi.outStart >= 0 && t >= vi.outStart) mi = { isInto: false, via: vi.outTo, start: vi.outStart };
   if (mi) {
     out.push({
       kind: 'move-move',
       children: [
-        { agent: i, bans: [{ kind: 'move', fromCell: mi.fromCell, toCell: mi.toCell, from: mi.start, to: t + F }] },
-        { agent: j, bans: [{ kind: 'move', ...mj, from: t, to: mi.start + F }] },
+        { agent: i, bans: moveBans(mi.isInto, mi.via, mi.start, t + F) },
+        { agent: j, bans: moveBans(true, vj.inFrom, t, mi.start + F) },
       ],
     });
   } else if (vi.leave === Infinity) {
+    // Child j here: no occupancy of c from t* on (with neighbours), or no move into c from t* on
+    // (as first written). Either is sound: i is in c at every instant ≥ t* when its final visit
+    // began at ≤ t*, and j's plan, entering c at t*, breaks both (progress).
     out.push({
       kind: 'move-goal',
       children: [
         { agent: i, bans: [{ kind: 'late-goal', notBefore: t + 1 }] },
-        { agent: j, bans: [{ kind: 'move', ...mj, from: t, to: Infinity }] },
+        { agent: j, bans: neighbours ? [{ kind: 'occupancy', cell: c, from: t, to: Infinity }] : moveBans(true, vj.inFrom, t, Infinity) },
       ],
     });
   }
@@ -93,7 +106,7 @@ export function branchOptions(conflict: OccupancyConflict, forwardMs: number): B
     kind: 'move-occupancy',
     children: [
       { agent: i, bans: [{ kind: 'occupancy', cell: c, from: t + delta - 1, to: t + F }] },
-      { agent: j, bans: [{ kind: 'move', ...mj, from: t, to: t + delta }] },
+      { agent: j, bans: moveBans(true, vj.inFrom, t, t + delta) },
     ],
   });
   return out;

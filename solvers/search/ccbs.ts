@@ -36,7 +36,7 @@ import type { Grid } from '../grid/grid';
 import { branchOptions, type BranchChild } from './ccbs-branch';
 import { cellVisits, conflictPartners, findConflicts, visitsByCell, type CellVisit, type OccupancyConflict } from './ccbs-conflict';
 import { compileBans, type AgentBan } from './sipp-constraints';
-import { sippSearch, type SippPlan } from './sipp';
+import { forwardTable, sippSearch, type SippPlan } from './sipp';
 import { SippHeap } from './sipp-heap';
 import { FocalLists } from './focal-lists';
 import { disjunctiveCover, type SplitDisjunction } from './ccbs-heuristic';
@@ -139,6 +139,18 @@ export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
   let isStopped = false;
 
   const w = q.suboptimality ?? 1;
+  /** The cells with a forward move into and out of each cell (the grid is 4-connected, moves go both ways). */
+  const fwd = forwardTable(q.grid);
+  const around: number[][] = [];
+  const neighbours = (cell: number): readonly number[] => {
+    let list = around[cell];
+    if (list === undefined) {
+      list = [];
+      for (let h = 0; h < 4; h++) if (fwd[cell * 4 + h] >= 0) list.push(fwd[cell * 4 + h]);
+      around[cell] = list;
+    }
+    return list;
+  };
   /** The lower bound the last `plan` call proved (its plan's cost when exact). */
   let lastLb = 0;
   const plan = (agent: number, bans: readonly AgentBan[], occupancy?: OccupancyIndex): SippPlan | null => {
@@ -304,7 +316,7 @@ export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
     let bestLow = -1;
     let bestHigh = -1;
     for (const conflict of node.conflicts) {
-      for (const option of branchOptions(conflict, q.forwardMs)) {
+      for (const option of branchOptions(conflict, q.forwardMs, neighbours)) {
         const priced = option.children.map((child): PricedChild => {
           const key = `${child.agent}|${node.owner[child.agent]}|${banKey(child.bans)}`;
           let p = replans.get(key);
@@ -446,7 +458,7 @@ export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
     let bestHigh = -1;
     // The bounded search prices only the earliest conflict's splits: it gains more from many cheap expansions.
     for (const conflict of w > 1 ? node.conflicts.slice(0, 1) : node.conflicts) {
-      for (const option of branchOptions(conflict, q.forwardMs)) {
+      for (const option of branchOptions(conflict, q.forwardMs, neighbours)) {
         const priced = option.children.map((child) => ({ child, ...childPlan(child) }));
         if (isStopped) return [];
         const costs = priced.map(({ child, plan: p }) => (p ? node.cost - node.plans[child.agent].cost + p.cost : Infinity));
