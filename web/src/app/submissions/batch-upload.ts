@@ -10,7 +10,7 @@ import { HttpErrorResponse } from '@angular/common/http';
 import { rxResource, toObservable, toSignal } from '@angular/core/rxjs-interop';
 import { PercentPipe } from '@angular/common';
 import { RouterLink } from '@angular/router';
-import { firstValueFrom, of, switchMap, takeWhile, tap, timer } from 'rxjs';
+import { EMPTY, catchError, exhaustMap, firstValueFrom, of, switchMap, takeWhile, tap, timer } from 'rxjs';
 import { MatButtonModule } from '@angular/material/button';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatTableModule } from '@angular/material/table';
@@ -47,7 +47,8 @@ export default class BatchUpload {
   /** The shown batch, asked again every BATCH_POLL_MS while it runs (the last answer, 'done', is kept). */
   protected readonly batch = toSignal(toObservable(this.shownId).pipe(
     switchMap((id) => (id === null ? of(null) : timer(0, BATCH_POLL_MS).pipe(
-      switchMap(() => this.api.batch(id)),
+      // A slow answer is awaited rather than cancelled by the next tick; a failed poll (the error interceptor reports it) is skipped.
+      exhaustMap(() => this.api.batch(id).pipe(catchError(() => EMPTY))),
       takeWhile((b) => b.status === 'running', true),
       tap((b) => {
         if (b.status === 'done') this.mine.reload();
