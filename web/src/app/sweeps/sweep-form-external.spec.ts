@@ -32,3 +32,19 @@ describe('external solvers in the sweep form', () => {
     expect(externalSpecOf('x@1:weighted-split', SWEEP_FORM_DEFAULTS)).toEqual({ model: 'weighted-split', startHeading: 'free', externalSolver: { name: 'x', version: '1' } });
   });
 });
+
+describe('external solvers in the results grid', () => {
+  it('names the solver in the plan model column and adds CPU time and peak memory only when a spec is external', async () => {
+    const { modelVariantLabel, sweepGridColumns } = await import('./sweep-grid-columns');
+    const external = { model: 'classic' as const, startHeading: 'free' as const, switches: {}, externalSolver: { name: 'prioritised-astar', version: '1.0.0' } };
+    expect(modelVariantLabel(external, 'classic')).toBe('classic, by prioritised-astar@1.0.0');
+    const ids = (cols: ReturnType<typeof sweepGridColumns>) => cols.map((c) => c.colId ?? c.field);
+    expect(ids(sweepGridColumns([], [{ model: 'classic', startHeading: 'free', switches: {} }]))).not.toContain('cpuTimeMs');
+    const cols = sweepGridColumns([], [external]);
+    expect(ids(cols)).toEqual(expect.arrayContaining(['cpuTimeMs', 'peakMemoryMb']));
+    const peak = cols.find((c) => c.colId === 'peakMemoryMb');
+    const getter = peak?.valueGetter as (p: { data?: { peakMemoryKb: number | null } }) => number | null;
+    expect(getter({ data: { peakMemoryKb: 2048 } })).toBe(2);
+    expect(getter({ data: { peakMemoryKb: null } })).toBeNull();
+  });
+});

@@ -30,6 +30,7 @@ const inMs = (pick: (r: SweepResultRow) => number | null) => (p: { data?: SweepR
 export function modelVariantLabel(spec: ModelSpec | undefined, fallback: string): string {
   if (!spec) return fallback;
   const parts: string[] = [spec.model + ('k' in spec ? ` k=${spec.k}` : '')];
+  if (spec.externalSolver) parts.push(`by ${spec.externalSolver.name}@${spec.externalSolver.version}`);
   if (isBounded(spec)) parts.push(`w = ${suboptimalityOf(spec)}`);
   if (forbidsFollowing(spec)) parts.push('following forbidden');
   const off = switchesOff(spec);
@@ -88,6 +89,14 @@ export function sweepGridColumns(policies: readonly string[], models: readonly M
       headerTooltip: '(sum-of-costs − lower bound) ÷ lower bound; 0 = proven optimal, otherwise the best known value is within that share of the optimum' },
     { field: 'runtimeMs', headerName: 'Solve time (ms)', width: 140, type: 'rightAligned', valueFormatter: num(1) },
     { field: 'nodes', headerName: 'CT nodes (count)', width: 140, type: 'rightAligned', valueFormatter: num() },
+    // What an external solver's process used (issue 16, item 4); only in sweeps that run one.
+    ...(models.some((m) => m.externalSolver) ? [
+      { field: 'cpuTimeMs', headerName: 'CPU time (ms)', width: 130, type: 'rightAligned', valueFormatter: num(),
+        headerTooltip: 'User + system CPU time of an external solver\'s process (GNU time); empty for the built-in search' },
+      { colId: 'peakMemoryMb', headerName: 'Peak memory (MB)', width: 150, type: 'rightAligned', valueFormatter: num(1),
+        valueGetter: (p) => (p.data?.peakMemoryKb === null || p.data?.peakMemoryKb === undefined ? null : p.data.peakMemoryKb / 1024),
+        headerTooltip: 'Largest resident memory of an external solver\'s process; empty for the built-in search' },
+    ] satisfies ColDef<SweepResultRow>[] : []),
     ...policies.flatMap((policy): ColDef<SweepResultRow>[] => [
       { colId: `success-${policy}`, headerName: `Execution success rate, ${policy} (%, 95 % CI)`, width: 280, type: 'rightAligned',
         headerTooltip: `Share of the Monte Carlo runs under ${policy} with no collision. Interval: ${CI95_METHOD.rate}.`,
