@@ -16,6 +16,7 @@ import { DEFAULT_ENTRY_COLUMNS } from '@shared/leaderboards';
 import { signInAs, type SignedInClient } from '../../api/src/dev/sign-in-as';
 import { PAPER_ENTRY_COLUMNS } from '../../api/src/exports/paper-columns';
 import { TINY_MAP, TINY_SCEN } from '../integration/leaderboard-support';
+import { axeViolations, describeFindings } from './support/axe';
 import { launchBrowser, type E2eBrowser } from './support/browser';
 import { focusAgainst, focusedDescription, isFocused, tabUntil } from './support/keyboard';
 import { watchNetwork, type NetworkWatch } from './support/network-watch';
@@ -102,8 +103,8 @@ describe('leaderboard in the browser', () => {
   it('opens a shared link with its columns, sort and filter', async () => {
     await page.goto(`${server.url}/leaderboards?cols=model,variant,socSteps,source&model.in=k-robust`);
     await page.waitForFunction(() => document.querySelectorAll('.ag-row').length === 1);
-    // The pinned Replay column leads for everyone, visitors included (issue 14, item 6); then the shared columns in order.
-    expect(await page.locator('.ag-header-cell[col-id]').evaluateAll((els) => els.map((e) => e.getAttribute('col-id')))).toEqual(['__replay', 'model', 'variant', 'socSteps', 'source']);
+    // The pinned Replay and History columns lead for everyone, visitors included (issue 14, item 6; issue 16, item 5); then the shared columns in order.
+    expect(await page.locator('.ag-header-cell[col-id]').evaluateAll((els) => els.map((e) => e.getAttribute('col-id')))).toEqual(['__replay', '__history', 'model', 'variant', 'socSteps', 'source']);
     expect(await page.locator('.ag-cell[col-id=variant]').innerText()).toBe('k=1');
     expect(await page.locator('.ag-cell[col-id=source]').innerText()).toBe('submitted');
   });
@@ -232,6 +233,32 @@ describe('leaderboard in the browser', () => {
       await page.keyboard.press('Enter');
       await page.waitForURL(/\/plans\/view\?result=\d+$/);
       await page.locator('article.pane').first().waitFor({ timeout: 30_000 });
+    });
+
+    it('follows the History link of the focused cell on Enter to every stored result of the row (issue 16, item 5)', async () => {
+      await page.goto(`${server.url}/leaderboards?cols=model,variant,socSteps&model.in=k-robust`);
+      await page.waitForFunction(() => document.querySelectorAll('.ag-row').length === 1);
+      await tabUntil(page, inGrid, 60);
+      await page.keyboard.press('ArrowDown');
+      await page.keyboard.press('Control+ArrowLeft');
+      await page.keyboard.press('ArrowRight');
+      expect({ focus: await focusedDescription(page), isHistory: await isFocused(page, '.ag-cell[col-id=__history]') }).toMatchObject({ isHistory: true });
+      await page.keyboard.press('Enter');
+      await page.waitForURL(/\/leaderboards\/history\?scenarioId=\d+&agents=\d+&model=k-robust&variant=k(%3D|=)1&profile=[0-9a-f]{16}$/);
+      await page.locator('table.mat-mdc-table tr.mat-mdc-row').first().waitFor({ timeout: 20_000 });
+      expect(await page.locator('[data-key=model]').innerText()).toBe('k-robust (k=1)');
+      // Every stored result of the row, the one on the board marked; units in the headers.
+      expect(await page.locator('[data-testid=on-board]').count()).toBe(1);
+      expect(await page.locator('th', { hasText: 'Sum-of-costs (steps)' }).count()).toBe(1);
+      const findings = await axeViolations(page);
+      expect(describeFindings('/leaderboards/history', findings)).toEqual([]);
+
+      // On to the row's instance set, whose files download as one zip (issue 16, item 6).
+      await page.locator('[data-key=instance] a').click();
+      await page.waitForURL(/\/instance-sets\/\d+$/);
+      const [zip] = await Promise.all([page.waitForEvent('download'), page.locator('a[data-download=archive]').click()]);
+      expect(zip.suggestedFilename()).toMatch(/\.zip$/);
+      expect((await readFile(await zip.path())).subarray(0, 4).toString('latin1')).toBe('PK\u0003\u0004');
     });
 
     it('downloads an export from its link', async () => {
