@@ -12,11 +12,10 @@
  * lower bound on the optimal arrival under the bans, and the plan returned costs at most w × it.
  */
 import type { ActionKind } from '@shared/plan';
-import { forwardCell, HEADING_COUNT, turnedLeft, turnedRight } from '../grid/heading-graph';
 import type { CellVisit } from './ccbs-conflict';
 import { ALWAYS_SAFE, earliestOutside, type Windows } from './sipp-constraints';
 import { SippHeap } from './sipp-heap';
-import type { SippPlan, SippQuery, SippStep } from './sipp';
+import { forwardTable, type SippPlan, type SippQuery, type SippStep } from './sipp';
 import { boundOf } from './suboptimality';
 
 /** The other agents' occupancy: per cell the visits of every agent (the planned agent's own are skipped). */
@@ -50,13 +49,33 @@ export interface FocalSippOutcome {
 
 const NONE = -1;
 
+// Module-local copies of hot imports (a CommonJS build reads imported bindings through getters).
+const SAFE_ALWAYS = ALWAYS_SAFE;
+const earliestFree = earliestOutside;
+
+/** The best node per search state, stamped per search as in sipp.ts (its own table: the searches never nest, but stay apart). */
+let bestStamp = new Int32Array(0);
+let bestNode = new Int32Array(0);
+let stamp = 0;
+
 /** Finds a plan within w of the minimum arrival time, preferring little overlap with the others. */
 export function focalSippSearch(q: FocalSippQuery): FocalSippOutcome {
   const { grid, goal, forwardMs: F, quarterTurnMs: T, bans, heuristic } = q;
-  const safeOf = (cell: number): Windows => bans.safe.get(cell) ?? ALWAYS_SAFE;
+  const safeOf = (cell: number): Windows => bans.safe.get(cell) ?? SAFE_ALWAYS;
   let maxIntervals = 1;
   for (const w of bans.safe.values()) maxIntervals = Math.max(maxIntervals, w.from.length);
   const L = bans.goalNotBefore;
+  const fwd = forwardTable(grid);
+  const keys = grid.width * grid.height * 4 * maxIntervals * 2;
+  if (bestStamp.length < keys) {
+    bestStamp = new Int32Array(keys);
+    bestNode = new Int32Array(keys);
+    stamp = 0;
+  }
+  stamp = stamp === 0x7fffffff ? 1 : stamp + 1;
+  if (stamp === 1) bestStamp.fill(0);
+  const current = stamp;
+  const seenAt = (key: number): number => (bestStamp[key] === current ? bestNode[key] : NONE);
   const overlaps = (cell: number, from: number, to: number): number => {
     const list = q.occupancy.get(cell);
     if (list === undefined) return 0;
@@ -76,9 +95,8 @@ export function focalSippSearch(q: FocalSippQuery): FocalSippOutcome {
   const moveStartA: number[] = [];
   const kindA: ActionKind[] = [];
   const closedA: number[] = [];
-  const best = new Map<number, number>();
-  const keyOf = (id: number): number => ((cellA[id] * HEADING_COUNT + headA[id]) * maxIntervals + ivA[id]) * 2 + flagA[id];
-  const isLive = (id: number): boolean => closedA[id] === 0 && best.get(keyOf(id)) === id;
+  const keyOf = (id: number): number => ((cellA[id] * 4 + headA[id]) * maxIntervals + ivA[id]) * 2 + flagA[id];
+  const isLive = (id: number): boolean => closedA[id] === 0 && seenAt(keyOf(id)) === id;
   const byF = (a: number, b: number): boolean => fA[a] < fA[b] || (fA[a] === fA[b] && (gA[a] > gA[b] || (gA[a] === gA[b] && a < b)));
   const open = new SippHeap(byF);
   const pending = new SippHeap(byF);
@@ -92,11 +110,11 @@ export function focalSippSearch(q: FocalSippQuery): FocalSippOutcome {
   };
 
   const add = (cell: number, head: number, iv: number, flag: number, g: number, parent: number, kind: ActionKind, moveStart: number, conf: number): void => {
-    const h = heuristic[cell * HEADING_COUNT + head];
+    const h = heuristic[cell * 4 + head];
     if (h === Infinity) return;
-    const key = ((cell * HEADING_COUNT + head) * maxIntervals + iv) * 2 + flag;
-    const seen = best.get(key);
-    if (seen !== undefined && gA[seen] <= g) return;
+    const key = ((cell * 4 + head) * maxIntervals + iv) * 2 + flag;
+    const seen = seenAt(key);
+    if (seen !== NONE && gA[seen] <= g) return;
     const id = gA.length;
     cellA.push(cell);
     headA.push(head);
@@ -109,7 +127,8 @@ export function focalSippSearch(q: FocalSippQuery): FocalSippOutcome {
     kindA.push(kind);
     moveStartA.push(moveStart);
     closedA.push(0);
-    best.set(key, id);
+    bestStamp[key] = current;
+    bestNode[key] = id;
     open.push(id);
     pending.push(id);
   };
@@ -146,17 +165,17 @@ export function focalSippSearch(q: FocalSippQuery): FocalSippOutcome {
 
     if (g + T <= hi) {
       const c = conf + overlaps(cell, g, g + T);
-      add(cell, turnedLeft(head), iv, flag, g + T, id, 'turn-left', g, c);
-      add(cell, turnedRight(head), iv, flag, g + T, id, 'turn-right', g, c);
+      add(cell, (head + 3) & 3, iv, flag, g + T, id, 'turn-left', g, c);
+      add(cell, (head + 1) & 3, iv, flag, g + T, id, 'turn-right', g, c);
     }
 
-    const next = forwardCell(grid, cell, head);
+    const next = fwd[cell * 4 + head];
     if (next === NONE) continue;
     const nextSafe = safeOf(next);
     const moveWin = bans.moveWindows.get(cell * bans.cellCount + next);
     for (let k = 0; k < nextSafe.from.length; k++) {
       if (nextSafe.to[k] <= g) continue;
-      const start = earliestOutside(moveWin, Math.max(g, nextSafe.from[k]));
+      const start = earliestFree(moveWin, Math.max(g, nextSafe.from[k]));
       if (start + F > hi) break;
       if (start + F > nextSafe.to[k]) continue;
       const isFinalGoal = next === goal && nextSafe.to[k] === Infinity;
@@ -165,7 +184,7 @@ export function focalSippSearch(q: FocalSippQuery): FocalSippOutcome {
         add(next, head, k, isFinalGoal ? 1 : 0, start + F, id, 'forward', start, c);
       } else {
         add(next, head, k, 0, start + F, id, 'forward', start, c);
-        const late = earliestOutside(moveWin, L);
+        const late = earliestFree(moveWin, L);
         if (late + F <= hi) add(next, head, k, 1, late + F, id, 'forward', late, conf + overlaps(cell, g, late + F) + overlaps(next, late, late + F));
       }
     }
