@@ -18,7 +18,7 @@ import type { SweepPolicy } from '@shared/sweeps';
 import { AppError } from '../errors/app-error';
 import { isSetVisible, type Viewer } from '../instance-sets/instance-set-access';
 
-/** The solver of every sweep result (submissions name their own). */
+/** The solver of a sweep result of Quarterturn's own search (submissions and external solvers' results name their own, migration 0411). */
 export const SWEEP_SOLVER_NAME = 'Quarterturn CBS';
 
 /** The service behind GET /api/history. */
@@ -100,7 +100,7 @@ export function createHistoryService(deps: { readonly sequelize: Sequelize }): H
            r.soc, r.makespan, r.lower_bound, r.turn_inclusive_soc_ms AS ti_soc, r.turn_inclusive_makespan_ms AS ti_makespan,
            r.runtime_ms, r.nodes, r.executable_at_nominal AS nominal, r.solver_version, r.solver_commit, r.node_version, r.cpu_model,
            r.thread_count, r.plan_gz IS NOT NULL AS has_plan, r.robot_profile AS profile,
-           sw.name AS sweep_name, sw.owner_id AS sweep_owner, sub.solver_name, u.login AS uploader,
+           sw.name AS sweep_name, sw.owner_id AS sweep_owner, COALESCE(sub.solver_name, r.solver_name) AS solver_name, u.login AS uploader,
            (SELECT json_agg(json_build_object('policy', e.policy, 'runs', e.runs, 'successRate', e.success_rate, 'collisionsMean', e.collisions_mean,
               'realisedMakespanMeanMs', e.realised_makespan_mean_ms, 'realisedMakespanP95Ms', e.realised_makespan_p95_ms,
               'finishSpreadMeanMs', e.finish_spread_mean_ms, 'ci95', e.metrics->'ci95') ORDER BY e.policy)

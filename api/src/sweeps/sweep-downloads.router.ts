@@ -65,11 +65,14 @@ function policyColumns(policy: string): { columns: LeaderboardColumn[]; cells: (
 /** The CSV table of a sweep's rows (one per run; a run still pending or running has no figures yet). */
 export function sweepResultsTable(sweepId: number, sweepName: string, def: SweepDefinition, rows: readonly SweepResultRow[]) {
   const policies = def.execution.policies.map(policyColumns);
+  const isMeasured = rows.some((r) => (r.cpuTimeMs ?? null) !== null || (r.peakMemoryKb ?? null) !== null);
   const columns: LeaderboardColumn[] = [
     number('run', 'Run'), number('result', 'Result'), entryColumn('map'), entryColumn('scenario'), entryColumn('agents'), entryColumn('model'),
     text('parameters', 'Model parameters'), entryColumn('suboptimality'), number('seed', 'Seed'), text('status', 'Status'), text('reason', 'Reason'),
     ...['socSteps', 'socMs', 'makespanSteps', 'makespanMs', 'tiSocMs', 'tiMakespanMs', 'lowerBoundSteps', 'lowerBoundMs', 'gap', 'runtimeMs'].map(entryColumn),
     number('nodes', 'Search nodes'),
+    // External solvers' runs are measured by the worker (issue 16, item 4); the columns show when a run has them.
+    ...(isMeasured ? [number('cpuTime', 'CPU time of the solver process', 'ms'), number('peakMemory', 'Peak memory of the solver process', 'kB')] : []),
     ...policies.flatMap((p) => p.columns),
   ];
   const inMs = (r: SweepResultRow) => r.model === 'weighted-split';
@@ -80,6 +83,7 @@ export function sweepResultsTable(sweepId: number, sweepName: string, def: Sweep
       r.runId, r.resultId, r.mapName, r.scenarioName, r.agents, r.model, spec ? modelLabel(spec) : r.model, r.suboptimality, r.seed, r.status, r.reason,
       ...split(r, r.soc), ...split(r, r.makespan), r.turnInclusiveSocMs, r.turnInclusiveMakespanMs, ...split(r, r.lowerBound), r.gap, r.runtimeMs,
       r.nodes,
+      ...(isMeasured ? [r.cpuTimeMs ?? null, r.peakMemoryKb ?? null] : []),
       ...policies.flatMap((p) => p.cells(r)),
     ];
   });
@@ -136,10 +140,13 @@ export function sweepDownloadsRouter(ctx: AppContext): Router {
     const modelIndexOf = new Map(runs.map((x) => [x.id, x.model_index]));
     const scenarioName = new Map(scenarios.map((s) => [s.id, s.name]));
     const mapName = new Map(maps.map((m) => [m.id, m.name]));
+    const specOf = (x: Result) => (x.runId === null ? undefined : def.models[modelIndexOf.get(x.runId) ?? -1]);
     const labelOf = (x: Result) => {
-      const spec = x.runId === null ? undefined : def.models[modelIndexOf.get(x.runId) ?? -1];
+      const spec = specOf(x);
       return spec ? modelLabel(spec) : x.model;
     };
+    // An external solver's result carries that solver's version in solver_version (migration 0411).
+    const authorOf = (x: Result) => ({ name: specOf(x)?.externalSolver?.name ?? SWEEP_SOLVER_NAME, version: x.solverVersion });
     const pathOf = (x: Result) =>
       `${archiveName(scenarioName.get(x.scenarioId) ?? `scenario-${x.scenarioId}`)}/${x.agents}-agents/${slug(labelOf(x))}-seed-${x.seed}-result-${x.id}.json`;
 
@@ -174,7 +181,7 @@ export function sweepDownloadsRouter(ctx: AppContext): Router {
       results.forEach((x, i) => {
         const path = pathOf(x);
         zip.addLazy(`${folder}/${path}`, async () => {
-          const doc = planDocument(storedResultPlan(x, await planOf(i), await instanceOf(x)), { name: SWEEP_SOLVER_NAME, version: x.solverVersion });
+          const doc = planDocument(storedResultPlan(x, await planOf(i), await instanceOf(x)), authorOf(x));
           const bytes = Buffer.from(JSON.stringify(doc, null, 1) + '\n', 'utf8');
           manifest.push([path, x.id, x.runId, mapName.get(x.mapId) ?? '', scenarioName.get(x.scenarioId) ?? '', x.agents, x.model, labelOf(x), Number(x.seed),
             x.soc, x.makespan, x.turnInclusiveSocMs, x.turnInclusiveMakespanMs, x.lowerBound, x.runtimeMs, createHash('sha256').update(bytes).digest('hex')]);
