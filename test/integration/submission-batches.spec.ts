@@ -13,6 +13,8 @@ import { CSRF_HEADER } from '@shared/auth';
 import type { CreatedApiToken } from '@shared/api-tokens';
 import type { LeaderboardPage } from '@shared/leaderboards';
 import type { SubmissionBatchListResponse, SubmissionBatchSummary, SubmissionBatchView } from '@shared/submission-batches';
+import { startServer } from '../../api/src/app';
+import { loadConfig } from '../../api/src/config';
 import { DEMO_IDENTITIES } from '../../api/src/dev/fake-oauth/demo-identities';
 import { buildZip } from './instance-library-support';
 import { json, startBoardWorld, type BoardWorld, type SignedInClient } from './leaderboard-support';
@@ -195,6 +197,35 @@ describe('batch submissions', () => {
     const view = await finished(() => world.other.request(`/api/submissions/batches/${id}`));
 
     expect(view.entries[0]).toMatchObject({ status: 'accepted', accepted: { soc: 4, solver: { name: 'Left over', version: '1' } } });
+  });
+
+  it('resumes a batch left running when a server starts, before anyone opens it', async () => {
+    const [{ id: ownerId }] = await world.lib.sql<{ id: number }>('SELECT id FROM users WHERE login = :login', { login: DEMO_IDENTITIES[2].login });
+    const request = { format: 'text', file: 'restart.txt', instance: { scenarioId: world.scenarios[0], agents: 2 }, model: 'classic', startHeading: 'free', solver: { name: 'Restarted', version: '1' } };
+    const [{ id }] = await world.lib.sql<{ id: number }>("INSERT INTO submission_batches (owner_id, source, total) VALUES (:owner, 'json', 1) RETURNING id", { owner: ownerId });
+    await world.lib.sql('INSERT INTO submission_batch_entries (batch_id, position, file, line, request, plan_gz) VALUES (:id, 1, :file, 0, :request, :plan)', {
+      id, file: 'restart.txt', request: JSON.stringify(request), plan: gzipSync(GOOD_TEXT),
+    });
+
+    // A second server on the same database, as after a restart; nobody asks it about the batch.
+    const config = { ...loadConfig({ NODE_ENV: 'test', LOG_LEVEL: 'silent' }).config, webDist: '/nonexistent' };
+    const restarted = await startServer({ config, databaseUrl: world.lib.db.url, port: 0, fakeOAuthPort: 0 });
+    try {
+      const deadline = Date.now() + 30_000;
+      let status = 'running';
+      while (status === 'running' && Date.now() < deadline) {
+        await new Promise((r) => setTimeout(r, 200));
+        [{ status }] = await world.lib.sql<{ status: string }>('SELECT status FROM submission_batches WHERE id = :id', { id });
+      }
+      expect(status).toBe('done');
+      const entries = await world.lib.sql<{ status: string; n: number }>(
+        `SELECT e.status, (SELECT count(*)::int FROM submissions s WHERE s.id = e.submission_id) AS n
+           FROM submission_batch_entries e WHERE e.batch_id = :id`, { id },
+      );
+      expect(entries).toEqual([{ status: 'accepted', n: 1 }]);
+    } finally {
+      await restarted.close();
+    }
   });
 
   it('shows a batch to its owner only', async () => {

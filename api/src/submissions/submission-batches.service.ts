@@ -5,7 +5,8 @@
  * (submissions.service.ts), one plan at a time per batch in the interactive pool under its owner's
  * turn (so a batch never holds more than one of the pool's threads). Each plan is stored and
  * marked accepted in one transaction, or marked refused with its first violation or reading
- * problem and nothing stored. A batch whose process ended resumes when its owner next looks at it.
+ * problem and nothing stored. A batch whose process ended resumes when the app starts again
+ * (`resumeUnfinished`) or when its owner next looks at it, whichever comes first.
  */
 import { gunzipSync, gzipSync } from 'node:zlib';
 import { setTimeout as sleep } from 'node:timers/promises';
@@ -39,6 +40,12 @@ export interface SubmissionBatchesService {
   list(viewer: Express.User): Promise<SubmissionBatchListResponse>;
   /** Resolves when the batch's runner in this process has stopped (tests and shutdown). */
   settled(id: number): Promise<void>;
+  /**
+   * Starts a runner for every batch still marked running (the app's start: a stopped server left
+   * them); answers how many. With several app processes each may start one: a plan is then judged
+   * twice at worst, never stored twice (the entry is locked and re-checked before it is stored).
+   */
+  resumeUnfinished(): Promise<number>;
   /** Stops the runners after the plan each is checking; pending plans stay pending. */
   close(): Promise<void>;
 }
@@ -282,6 +289,12 @@ export function createSubmissionBatchesService(deps: SubmissionBatchesDeps): Sub
 
     async settled(id) {
       await running.get(id);
+    },
+
+    async resumeUnfinished() {
+      const rows = await select<{ id: number; owner_id: number }>("SELECT id, owner_id FROM submission_batches WHERE status = 'running' ORDER BY id", {});
+      for (const b of rows) start(b.id, b.owner_id);
+      return rows.length;
     },
 
     async close() {
