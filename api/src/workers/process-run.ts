@@ -55,6 +55,11 @@ export async function processRun(ctx: RunContext, job: RunJobData): Promise<JobO
   if (!claimed) return { kind: 'skipped' };
   const { run, definition } = claimed;
   const started = performance.now();
+  if (definition.models[run.modelIndex]?.externalSolver) {
+    // Never solve an external solver's run with our own search (its results would carry the solver's variant).
+    const result = bareResult('error', "this run belongs to an external solver's queue, not to the built-in one");
+    return { kind: 'recorded', result, record: await retry(() => recordRunResult(ctx.sequelize, run, result, ctx.build, 0)) };
+  }
   let task: PlanTask;
   try {
     const loaded = await retry(() => loadInstance(ctx.models, run.scenarioId, run.agents));
