@@ -15,7 +15,9 @@ import { parseScenario } from '../io/parse-scenario';
 import { solveClassic } from '../models/classic';
 import { createRng } from '../random';
 import { validateClassicPlan } from '../validate/classic';
+import { CbsEngine } from './cbs';
 import { DEFAULT_SWITCHES, PLAIN_CBS_SWITCHES } from './cbs-types';
+import { type Conflict, K_TARGET } from './conflict';
 import { OPEN_GRID_BENCHMARKS_DIR } from '../../benchmarks/datasets/open-grid-benchmarks';
 
 /**
@@ -59,11 +61,16 @@ function roomInstance(seed: number): MapfInstance | null {
 
 describe('room maps', () => {
   it('every improvement on gives the SOC plain CBS proves, on 80 seeded random room maps', () => {
+    // Watch the engine's (private) conflict choice to count the instances whose search splits a target conflict.
+    const choose = jest.spyOn(CbsEngine.prototype as unknown as { selectConflict(node: unknown): Conflict }, 'selectConflict');
     let compared = 0;
     let plainOut = 0;
+    let withTargetSplit = 0;
     for (let seed = 1; seed <= 80; seed++) {
       const inst = roomInstance(seed) as MapfInstance;
+      choose.mockClear();
       const full = solveClassic(inst, { switches: DEFAULT_SWITCHES, nodeLimit: 100_000 });
+      if (choose.mock.results.some((r) => (r.value as Conflict).kind === K_TARGET)) withTargetSplit++;
       expect(full.status).toBe('solved');
       expect(validateClassicPlan(inst, full.paths).ok).toBe(true);
       const plain = solveClassic(inst, { switches: PLAIN_CBS_SWITCHES, nodeLimit: 30_000 });
@@ -76,8 +83,11 @@ describe('room maps', () => {
       expect(full.soc).toBe(plain.soc);
       compared++;
     }
-    // The seeded sample is fixed: how many plain CBS finished within its node limit.
+    choose.mockRestore();
+    // The seeded sample is fixed: how many plain CBS finished within its node limit, and how many
+    // searches (or their WDG sub-searches) split a target conflict: the target-first order was exercised.
     expect([compared, plainOut]).toEqual([75, 5]);
+    expect(withTargetSplit).toBe(55);
   });
 
   describe('room-32-32-4 (open benchmark set: Stern et al., SoCS 2019)', () => {
