@@ -105,9 +105,9 @@ export async function startSweepWorker(options: SweepWorkerOptions): Promise<Swe
     throw err;
   }
 
-  const handle = async (jobs: PgBoss.Job<RunJobData>[], runOne = processRun): Promise<void> => {
+  const handle = async (jobs: PgBoss.Job<RunJobData>[], runOne = processRun, runCtx = ctx): Promise<void> => {
     for (const job of jobs) {
-      const outcome = await runOne(ctx, job.data);
+      const outcome = await runOne(runCtx, job.data);
       if (outcome.kind === 'recorded') {
         logger.debug({ runId: job.data.runId, status: outcome.result.status, isWritten: outcome.record.isWritten }, 'run recorded');
         if (outcome.record.isSweepClosed) {
@@ -134,8 +134,10 @@ export async function startSweepWorker(options: SweepWorkerOptions): Promise<Swe
     workIds.push(slot.id);
   }
   // External solvers: one poller per declared solver. Its child process runs beside the pool's
-  // threads (the plan's check and replays then take a pool thread), so a machine with N cores
-  // and one declared solver may briefly run N + 1 busy processes; declare fewer threads if that matters.
+  // threads, so a machine with N cores and one declared solver may run N + 1 busy processes;
+  // declare fewer threads if that matters. The plan's check and replays take a thread of a pool
+  // of their own (one thread per solver, loaded on first use): in the built-in pool they would
+  // queue behind runs of up to an hour and could be given up as never started.
   const missingTools = (options.solvers ?? []).length > 0 ? missingProcessTools() : [];
   if (missingTools.length > 0) {
     // Not fatal (the embedded worker declares the example solver by default): the runs wait, and the sweep page says so.
@@ -143,13 +145,15 @@ export async function startSweepWorker(options: SweepWorkerOptions): Promise<Swe
   }
   const solvers = missingTools.length > 0 ? [] : options.solvers ?? [];
   let declaration: SolverDeclaration = { stop: async () => undefined };
+  const checkPool = solvers.length > 0 ? new PlanPool({ threads: solvers.length, filename: options.threadFile }) : undefined;
+  const externalCtx: RunContext = checkPool ? { ...ctx, pool: checkPool } : ctx;
   try {
     for (const ref of solvers) {
       const queue = externalRunQueue(ref);
       await boss.createQueue(queue);
       const slot: { id?: string } = {};
       slot.id = await boss.work<RunJobData>(queue, { batchSize: 1, pollingIntervalSeconds: options.pollingSeconds ?? 0.5 }, async (jobs) => {
-        await handle(jobs, processExternalRun);
+        await handle(jobs, processExternalRun, externalCtx);
         if (slot.id && !isStopping) boss.notifyWorker(slot.id);
       });
       workIds.push(slot.id);
@@ -159,6 +163,7 @@ export async function startSweepWorker(options: SweepWorkerOptions): Promise<Swe
     await boss.stop({ graceful: false, wait: true }).catch(() => undefined);
     await listener.close();
     await pool.close();
+    await checkPool?.close();
     await sequelize.close();
     throw err;
   }
@@ -178,6 +183,7 @@ export async function startSweepWorker(options: SweepWorkerOptions): Promise<Swe
         await declaration.stop();
         await listener.close();
         await pool.close();
+        await checkPool?.close();
         await sequelize.close();
       })();
       return stopped;
