@@ -157,6 +157,9 @@ export interface CbsOutcome {
   readonly reason?: string;
 }
 
+/** The owner arrays of a node expanded for good (nothing reads them after its children exist). */
+const RELEASED = new Int32Array(0);
+
 /** A constraint tree node. */
 class CtNode implements HeapItem, EecbsNode {
   heapIndex = -1;
@@ -180,9 +183,9 @@ class CtNode implements HeapItem, EecbsNode {
     public h: number,
     public conflicts: Conflict[],
     /** Per local agent: the node whose constraints last changed that agent's constraint table. */
-    readonly owner: Int32Array,
+    public owner: Int32Array,
     /** Per local agent: the node whose constraints last changed that agent's MDD (cost-relevant set). */
-    readonly mddOwner: Int32Array,
+    public mddOwner: Int32Array,
   ) {
     this.f = g + h;
   }
@@ -302,6 +305,8 @@ export class CbsEngine {
         // Expanded for good: only its constraints and parent link are still needed (by descendants' tables).
         node.paths = [];
         node.conflicts = [];
+        node.owner = RELEASED;
+        node.mddOwner = RELEASED;
       }
     }
     return { kind: 'infeasible', paths: [], soc: -1, lowerBound: Infinity, generated: this.generated, expanded: this.expanded, reason: 'the constraint tree was exhausted' };
@@ -342,6 +347,8 @@ export class CbsEngine {
         node.paths = [];
         node.conflicts = [];
         node.lbs = null;
+        node.owner = RELEASED;
+        node.mddOwner = RELEASED;
       }
     }
     return { kind: 'infeasible', paths: [], soc: -1, lowerBound: Infinity, generated: this.generated, expanded: this.expanded, reason: 'the constraint tree was exhausted' };
