@@ -27,7 +27,10 @@ export type HistoryQuery = z.output<typeof HistoryQuery>;
 /** Where a stored result came from: a sweep's run, or a plan submitted from elsewhere. */
 export type HistorySource =
   | {
-    readonly kind: 'sweep'; readonly sweepId: number; readonly sweepName: string; readonly runId: number | null;
+    readonly kind: 'sweep'; readonly sweepId: number;
+    /** The sweep's name, only for viewers who may open the sweep (its owner, maintainers and admins); null for others. */
+    readonly sweepName: string | null;
+    readonly runId: number | null;
     /** Whether the viewer may open the sweep's page (its owner, maintainers and admins). */
     readonly isSweepVisible: boolean;
   }

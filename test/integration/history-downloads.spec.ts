@@ -131,13 +131,13 @@ describe('row history and bulk downloads', () => {
     expect(stored).toHaveLength(3);
     expect(h.total).toBe(3);
     expect(h.items.map((i) => i.resultId)).toEqual(stored.map((r) => r.id));
-    // Submitted last, so first; then sweep B, then sweep A.
+    // Submitted last, so first; then sweep B, then sweep A (a visitor sees no sweep names).
     expect(h.items.map((i) => i.source.kind)).toEqual(['submission', 'sweep', 'sweep']);
     expect(h.items[0].resultId).toBe(submissionResult);
     expect(h.items[0].solver).toMatchObject({ name: 'hand-copied planner', version: '0.9' });
     expect(h.items[0].seed).toBeNull();
     expect(h.items.slice(1).map((i) => (i.source.kind === 'sweep' ? [i.source.sweepId, i.source.sweepName, i.seed] : null)))
-      .toEqual([[sweepB, 'history second pass', 7], [sweepA, 'history first pass', 1]]);
+      .toEqual([[sweepB, null, 7], [sweepA, null, 1]]);
     expect(h.items.map((i) => i.soc)).toEqual(stored.map((r) => r.soc));
     expect(h.items.filter((i) => i.isBest)).toHaveLength(1);
     expect(h.items[2].executions.map((e) => e.policy)).toEqual(['open-loop']);
@@ -146,6 +146,8 @@ describe('row history and bulk downloads', () => {
     expect(h.items.slice(1).every((i) => i.source.kind === 'sweep' && !i.source.isSweepVisible)).toBe(true);
     const asMaintainer = (await (await s.client.request(historyPath())).json()) as InstanceHistory;
     expect(asMaintainer.items.slice(1).every((i) => i.source.kind === 'sweep' && i.source.isSweepVisible)).toBe(true);
+    // The sweep names are as private as the sweeps: only the maintainer reads them.
+    expect(asMaintainer.items.slice(1).map((i) => (i.source.kind === 'sweep' ? i.source.sweepName : null))).toEqual(['history second pass', 'history first pass']);
   });
 
   it('follows a board row to its history by the key the row carries (model and variant included, whether shown or not)', async () => {

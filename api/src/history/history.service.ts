@@ -53,7 +53,8 @@ export function createHistoryService(deps: { readonly sequelize: Sequelize }): H
   function sourceOf(r: ItemRow, viewer: Viewer): HistorySource {
     if (r.sweep_id !== null) {
       const isSweepVisible = viewer !== null && (viewer.id === r.sweep_owner || hasRole(viewer.role, 'maintainer'));
-      return { kind: 'sweep', sweepId: r.sweep_id, sweepName: r.sweep_name ?? '', runId: r.run_id, isSweepVisible };
+      // A sweep's name is as private as the sweep (sweep-access.ts): others learn only that a sweep computed it.
+      return { kind: 'sweep', sweepId: r.sweep_id, sweepName: isSweepVisible ? r.sweep_name ?? '' : null, runId: r.run_id, isSweepVisible };
     }
     if (r.submission_id !== null) return { kind: 'submission', submissionId: r.submission_id, uploader: r.uploader ?? '' };
     return { kind: 'other' };

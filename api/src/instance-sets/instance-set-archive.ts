@@ -24,12 +24,29 @@ interface ArchivedFile {
 }
 
 /**
- * A file or folder name safe inside a zip: path separators and control characters become `_`,
- * and names of dots only (`.`, `..`) get a leading `_`, so no entry can leave its folder.
+ * A file or folder name safe inside a zip and extractable everywhere: path separators, control
+ * characters and the characters Windows refuses in file names (`: * ? " < > |`) become `_`, and
+ * names of dots only (`.`, `..`) get a leading `_`, so no entry can leave its folder.
  */
 export function archiveName(name: string): string {
-  const flat = name.replace(/[/\\\u0000-\u001F\u007F]/g, '_').trim();
+  const flat = name.replace(/[/\\:*?"<>|\u0000-\u001F\u007F]/g, '_').trim();
   return flat === '' ? '_' : /^\.+$/.test(flat) ? `_${flat}` : flat;
+}
+
+/**
+ * `paths` made unique, in order: a path met before (two names that flattened alike, or differ only
+ * in letter case, which case-insensitive file systems merge) gets `-2`, `-3`… before its extension.
+ */
+export function uniquePaths(paths: readonly string[]): string[] {
+  const seen = new Set<string>();
+  return paths.map((p) => {
+    let candidate = p;
+    const dot = p.lastIndexOf('.');
+    const [stem, ext] = dot > p.lastIndexOf('/') + 1 ? [p.slice(0, dot), p.slice(dot)] : [p, ''];
+    for (let n = 2; seen.has(candidate.toLowerCase()); n++) candidate = `${stem}-${n}${ext}`;
+    seen.add(candidate.toLowerCase());
+    return candidate;
+  });
 }
 
 /** README.txt of the archive. */
@@ -66,10 +83,12 @@ export function instanceSetArchiveRouter(models: Models): Router {
       .map((s) => ({ id: s.id, name: s.name, checksum: s.checksum, byteSize: s.byteSize, createdAt: s.createdAt, mapName: mapNames.get(s.mapId) ?? '' }));
     const folder = archiveName(set.name);
     const now = new Date();
-    const entries = [
+    const files = [
       ...maps.map((m) => ({ path: `maps/${archiveName(m.name)}`, file: m, load: async () => (await models.MapFile.findByPk(m.id, { attributes: ['original'] }))?.original })),
       ...scenarios.map((s) => ({ path: `scenarios/${archiveName(s.name)}`, file: s, load: async () => (await models.ScenarioFile.findByPk(s.id, { attributes: ['original'] }))?.original })),
     ];
+    const paths = uniquePaths(files.map((f) => f.path));
+    const entries = files.map((f, i) => ({ ...f, path: paths[i] }));
     await sendZip(res, `${set.name}.zip`, (zip) => {
       zip.addText(`${folder}/README.txt`, readme(set, maps, scenarios, now), now);
       // Two spaces between checksum and name: sha256sum's text-mode line (GNU coreutils manual, "md5sum invocation").

@@ -105,7 +105,7 @@ export function readZip(
             // Counted while inflating, so a header that lies about the size cannot get past the limit.
             if (!budget.take(chunk.length)) {
               isOver = true;
-              fail(`the upload expands to more than ${UPLOAD_LIMITS.maxTotalBytes} bytes in all; nothing was stored`);
+              fail(`the upload expands to more than ${budget.limit} bytes in all; nothing was stored`);
               stream.destroy();
               stop();
               return;

@@ -166,7 +166,11 @@ export function createSubmissionBatchesService(deps: SubmissionBatchesDeps): Sub
   async function processEntry(batchId: number, ownerId: number, entry: EntryRow & { plan_gz: Buffer }): Promise<boolean> {
     // Roles are never cached: the account is loaded for every plan, so a demotion counts at once.
     const user = await deps.users.findById(ownerId);
-    if (!user) return true;
+    if (!user) {
+      // The account is gone (its batches go with it by cascade); refuse rather than pick the entry again at once.
+      await refuse(batchId, entry.id, { code: 'ACCOUNT_NOT_FOUND', message: 'The account that sent this batch no longer exists.' });
+      return true;
+    }
     const owner = toAccount(user);
     try {
       const sub = readPlanFile(SubmissionRequestSchema.parse(await requestOf(owner, entry, gunzipSync(entry.plan_gz).toString('utf8'))));

@@ -21,9 +21,12 @@ export function parametersText(parameters: Readonly<Record<string, unknown>>): s
   return parts.length > 0 ? parts.join(', ') : '–';
 }
 
-/** Where a result came from, for people: `sweep 12 "depot check", run 40` or `submission 3 by wren`. */
+/** Where a result came from, for people: `sweep 12 "depot check", run 40` (the name only for who may open the sweep) or `submission 3 by wren`. */
 export function sourceText(source: HistorySource): string {
-  if (source.kind === 'sweep') return `sweep ${source.sweepId} "${source.sweepName}"${source.runId !== null ? `, run ${source.runId}` : ''}`;
+  if (source.kind === 'sweep') {
+    const name = source.sweepName === null ? '' : ` "${source.sweepName}"`;
+    return `sweep ${source.sweepId}${name}${source.runId !== null ? `, run ${source.runId}` : ''}`;
+  }
   if (source.kind === 'submission') return `submission ${source.submissionId} by ${source.uploader}`;
   return 'stored without a sweep or submission';
 }

@@ -16,7 +16,7 @@ const PROFILE = { forwardMs: 1000, quarterTurnMs: 600, waitMs: 1000, cellPitchMm
 function item(over: Partial<HistoryItem>): HistoryItem {
   return {
     resultId: 1, createdAt: '2026-11-02T09:00:00.000Z', status: 'solved', reason: null, isBest: false, hasPlan: true,
-    source: { kind: 'sweep', sweepId: 4, sweepName: 'aisle pass', runId: 40, isSweepVisible: false },
+    source: { kind: 'sweep', sweepId: 4, sweepName: null, runId: 40, isSweepVisible: false },
     solver: { name: 'Quarterturn CBS', version: '0.1.0', commit: 'abc' }, environment: { node: 'v20', cpu: 'test cpu', threads: 1 },
     seed: 1, suboptimality: 1, parameters: { model: 'k-robust', k: 1, startHeading: 'free' },
     soc: 14, makespan: 6, lowerBound: 14, turnInclusiveSocMs: 17_400, turnInclusiveMakespanMs: 7_800, runtimeMs: 12.5, nodes: 3,
@@ -70,7 +70,7 @@ describe('InstanceHistoryPage', () => {
     const rows = await table.getRows();
     expect(rows).toHaveLength(3);
     const sources = await Promise.all(rows.map(async (r) => (await r.getCells({ columnName: 'source' }))[0].getText()));
-    expect(sources).toEqual(['submission 2 by wren', 'sweep 5 "second pass", run 50', 'sweep 4 "aisle pass", run 40']);
+    expect(sources).toEqual(['submission 2 by wren', 'sweep 5 "second pass", run 50', 'sweep 4, run 40']);
     const statuses = await Promise.all(rows.map(async (r) => (await r.getCells({ columnName: 'status' }))[0].getText()));
     expect(statuses).toEqual(['solved', 'solved', 'timeout: time limit 10 s']);
     expect((await (await rows[1].getCells({ columnName: 'success-open-loop' }))[0].getText())).toBe('85% of 20');
