@@ -47,6 +47,8 @@ describe('solveWeightedSplit against the exhaustive weighted oracle', () => {
     let solved = 0;
     let interacting = 0;
     let unsolvable = 0;
+    let cutCompared = 0;
+    let cutRaised = 0;
     for (let trial = 0; trial < 60; trial++) {
       const inst = randomInstance(rng);
       const [F, T] = durations[trial % durations.length];
@@ -76,9 +78,22 @@ describe('solveWeightedSplit against the exhaustive weighted oracle', () => {
       expect(check.makespan).toBe(ours.makespanMs);
       solved++;
       if (ours.nodes.expanded > 0) interacting++;
+      // The bound of a search cut short (the high-level heuristic with pathmax) never exceeds the
+      // optimum; counted where it rises above the bound before any expansion (the root's cost).
+      let rootBound: number | null = null;
+      for (const nodeLimit of [0, 1, 2, 4]) {
+        const cut = solveWeightedSplit(inst, { profile: p, startHeading: rule, nodeLimit, now: () => 0 });
+        if (cut.lowerBoundMs === null) continue;
+        expect({ trial, nodeLimit, isAdmissible: cut.lowerBoundMs <= oracle.soc }).toEqual({ trial, nodeLimit, isAdmissible: true });
+        cutCompared++;
+        if (nodeLimit === 0) rootBound = cut.lowerBoundMs;
+        else if (cut.status !== 'solved' && rootBound !== null && cut.lowerBoundMs > rootBound) cutRaised++;
+      }
     }
     expect(solved).toBeGreaterThan(40);
     expect(unsolvable).toBeGreaterThan(0);
     expect(interacting).toBeGreaterThan(10);
+    expect(cutCompared).toBeGreaterThan(160);
+    expect(cutRaised).toBeGreaterThan(5);
   });
 });
