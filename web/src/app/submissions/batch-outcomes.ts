@@ -55,7 +55,7 @@ export function outcomeRows(entries: readonly BatchEntryView[]): OutcomeRow[] {
     return {
       position: e.position,
       source: e.line > 0 ? `${e.file} (batch.json line ${e.line})` : e.file,
-      instance: a ? `${a.mapName} / ${a.scenarioName} · ${a.agents} agents` : e.instance,
+      instance: a ? `${a.mapName} / ${a.scenarioName} · ${a.agents} agent${a.agents === 1 ? '' : 's'}` : e.instance,
       status: e.status,
       figures: a ? `${a.model}${a.variant ? ` (${a.variant})` : ''} · SOC ${a.soc} · makespan ${a.makespan} · turn-inclusive makespan ${whole.format(a.turnInclusiveMakespanMs)} ms` : null,
       rates: a ? a.executions.map((x) => ({ policy: x.policy, rate: x.successRate })) : [],
