@@ -7,6 +7,7 @@
 import pino from 'pino';
 import { processRun } from '../../api/src/workers/process-run';
 import { startSweepWorker, type SweepWorker } from '../../api/src/workers/sweep-worker';
+import { readEvents } from '../support/sse-events';
 import { createTestDatabase, type TestDatabase } from '../support/test-database';
 import { baseDefinition, launchSweep, runLedger, startSweepServer, uploadSet, waitForSweep, waitUntil, type SweepServer } from '../reliability/support/sweep-harness';
 import type { SweepProgress, SweepResultRow } from '@shared/runs';
@@ -50,32 +51,15 @@ describe('sweep lifecycle', () => {
 
   it('runs a sweep to the end, once per run, with provenance, live events and the e-mail', async () => {
     const def = baseDefinition(setId, { name: 'depot aisle check', models: [{ model: 'classic' }, { model: 'weighted-split', startHeading: 'N' }], execution: { policies: ['open-loop', 'lockstep'], runs: 4 } });
-    const events: { event: string; data: unknown }[] = [];
     const sweep = await launchSweep(s, def);
     const stream = await s.client.request(`/api/sweeps/${sweep.id}/events`);
     expect(stream.headers.get('content-type')).toMatch(/text\/event-stream/);
-    const reader = (stream.body as ReadableStream<Uint8Array>).getReader();
-    const reading = (async () => {
-      let buf = '';
-      for (;;) {
-        const { value, done } = await reader.read();
-        if (done) return;
-        buf += Buffer.from(value).toString('utf8');
-        let end: number;
-        while ((end = buf.indexOf('\n\n')) >= 0) {
-          const chunk = buf.slice(0, end);
-          buf = buf.slice(end + 2);
-          const ev = /^event: (.+)$/m.exec(chunk)?.[1];
-          const data = /^data: (.+)$/m.exec(chunk)?.[1];
-          if (ev && data) events.push({ event: ev, data: JSON.parse(data) });
-        }
-      }
-    })();
+    const sse = readEvents(stream);
+    const events = sse.events;
 
     expect(await waitForSweep(s, sweep.id)).toBe('finished');
     await waitUntil(async () => events.some((e) => e.event === 'progress' && (e.data as SweepProgress).status === 'finished'), 5000, 'final progress event');
-    await reader.cancel();
-    await reading.catch(() => undefined);
+    await sse.cancel();
 
     const ledger = await runLedger(s, sweep.id);
     expect(ledger).toHaveLength(8);
