@@ -9,6 +9,7 @@ import type { Page } from 'playwright-core';
 import { launchBrowser, type E2eBrowser } from './support/browser';
 import { bootServer, type E2eServer } from './support/server';
 import { accountMenuButton, demoIdentity, signInThroughUi } from './support/sign-in';
+import { watchPageProblems } from './support/page-problems';
 
 jest.setTimeout(120_000);
 
@@ -16,17 +17,14 @@ describe('API tokens and the API reference in the browser', () => {
   let server: E2eServer;
   let browser: E2eBrowser;
   let page: Page;
-  const problems: string[] = [];
+  let problems: string[] = [];
   const researcher = demoIdentity('researcher');
 
   beforeAll(async () => {
     server = await bootServer();
     browser = await launchBrowser();
     page = browser.page;
-    page.on('pageerror', (err) => problems.push(`page error: ${err.message}`));
-    page.on('console', (msg) => {
-      if (msg.type() === 'error') problems.push(`console error: ${msg.text()}`);
-    });
+    problems = watchPageProblems(page);
     await signInThroughUi(page, server.url, researcher);
   }, 240_000);
 

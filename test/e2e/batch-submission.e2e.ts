@@ -15,6 +15,7 @@ import { axeViolations } from './support/axe';
 import { launchBrowser, type E2eBrowser } from './support/browser';
 import { bootServer, type E2eServer } from './support/server';
 import { demoIdentity, signInThroughUi } from './support/sign-in';
+import { watchPageProblems } from './support/page-problems';
 
 const researcher = demoIdentity('researcher');
 const colleague = demoIdentity('maintainer');
@@ -27,7 +28,7 @@ describe('submitting a batch in the browser', () => {
   let server: E2eServer;
   let browser: E2eBrowser;
   let page: Page;
-  const problems: string[] = [];
+  let problems: string[] = [];
 
   beforeAll(async () => {
     server = await bootServer();
@@ -37,10 +38,7 @@ describe('submitting a batch in the browser', () => {
 
     browser = await launchBrowser();
     page = browser.page;
-    page.on('pageerror', (err) => problems.push(`page error: ${err.message}`));
-    page.on('console', (msg) => {
-      if (msg.type() === 'error') problems.push(`console error: ${msg.text()}`);
-    });
+    problems = watchPageProblems(page);
     await signInThroughUi(page, server.url, researcher);
   }, 240_000);
 

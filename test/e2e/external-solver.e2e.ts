@@ -5,6 +5,7 @@
  * beside the built-in models; the sweep runs both, and the results grid names the solver with its
  * CPU time and peak memory; the board shows its rows as their own variant. The page meets WCAG 2.1 AA.
  */
+import { createHash } from 'node:crypto';
 import { resolve } from 'node:path';
 import type { Page } from 'playwright-core';
 import { EXAMPLE_SOLVER } from '@shared/external-solvers';
@@ -17,11 +18,14 @@ import { axeViolations } from './support/axe';
 import { launchBrowser, type E2eBrowser } from './support/browser';
 import { settledText } from './support/settled-text';
 import { demoIdentity, signInThroughUi } from './support/sign-in';
+import { watchPageProblems } from './support/page-problems';
 
 jest.setTimeout(180_000);
 
 const admin = demoIdentity('admin');
 const KEY = `${EXAMPLE_SOLVER.name}@${EXAMPLE_SOLVER.version}`;
+/** The SHA-256 of the example's command: the worker's operator approves exactly this command (WORKER_SOLVERS). */
+const HASH = createHash('sha256').update(EXAMPLE_SOLVER.command, 'utf8').digest('hex');
 
 describe('an external solver from the browser', () => {
   let db: TestDatabase;
@@ -29,7 +33,7 @@ describe('an external solver from the browser', () => {
   let worker: WorkerProcess;
   let browser: E2eBrowser;
   let page: Page;
-  const problems: string[] = [];
+  let problems: string[] = [];
 
   beforeAll(async () => {
     const webDist = resolve(ROOT, 'dist/web/browser');
@@ -37,14 +41,11 @@ describe('an external solver from the browser', () => {
     db = await createTestDatabase();
     s = await startSweepServer(db.url, { WEB_DIST: webDist, ADMIN_LOGINS: admin.login });
     await uploadSet(s, 'sorting floor', ['empty-8-8.map', 'empty-8-8-even-1.scen']);
-    worker = spawnWorker(db.url, { WORKER_SOLVERS: KEY });
+    worker = spawnWorker(db.url, { WORKER_SOLVERS: `${KEY}=sha256:${HASH}` });
     await workerReady(worker);
     browser = await launchBrowser();
     page = browser.page;
-    page.on('pageerror', (err) => problems.push(`page error: ${err.message}`));
-    page.on('console', (msg) => {
-      if (msg.type() === 'error') problems.push(`console error: ${msg.text()}`);
-    });
+    problems = watchPageProblems(page);
     await signInThroughUi(page, s.url, admin);
   }, 240_000);
 
@@ -71,6 +72,8 @@ describe('an external solver from the browser', () => {
     const item = page.locator(`[data-solver="${KEY}"]`);
     await item.waitFor();
     expect(await item.getByTestId('solver-workers').innerText()).toContain(`:${worker.child.pid}`);
+    // The hash the worker's operator pinned is the one the page shows.
+    expect(await item.getByTestId('command-hash').innerText()).toBe(`sha256:${HASH}`);
     expect(await axeViolations(page)).toEqual([]);
   });
 

@@ -6,21 +6,19 @@
 import type { Page } from 'playwright-core';
 import { launchBrowser, type E2eBrowser } from './support/browser';
 import { bootServer, type E2eServer } from './support/server';
+import { watchPageProblems } from './support/page-problems';
 
 describe('Help page in the browser', () => {
   let server: E2eServer;
   let browser: E2eBrowser;
   let page: Page;
-  const problems: string[] = [];
+  let problems: string[] = [];
 
   beforeAll(async () => {
     server = await bootServer();
     browser = await launchBrowser();
     page = browser.page;
-    page.on('pageerror', (err) => problems.push(`page error: ${err.message}`));
-    page.on('console', (msg) => {
-      if (msg.type() === 'error') problems.push(`console error: ${msg.text()}`);
-    });
+    problems = watchPageProblems(page);
   }, 240_000);
 
   afterAll(async () => {

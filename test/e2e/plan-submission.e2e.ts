@@ -18,6 +18,7 @@ import { TINY_MAP, TINY_SCEN } from '../integration/leaderboard-support';
 import { launchBrowser, type E2eBrowser } from './support/browser';
 import { bootServer, type E2eServer } from './support/server';
 import { demoIdentity, signInThroughUi } from './support/sign-in';
+import { watchPageProblems } from './support/page-problems';
 
 const researcher = demoIdentity('researcher');
 // Without the demo seed everyone starts as researcher; this identity only provides the earlier result.
@@ -32,7 +33,7 @@ describe('submitting a plan in the browser', () => {
   let browser: E2eBrowser;
   let page: Page;
   let scenarioId: number;
-  const problems: string[] = [];
+  let problems: string[] = [];
 
   beforeAll(async () => {
     server = await bootServer();
@@ -48,10 +49,7 @@ describe('submitting a plan in the browser', () => {
 
     browser = await launchBrowser();
     page = browser.page;
-    page.on('pageerror', (err) => problems.push(`page error: ${err.message}`));
-    page.on('console', (msg) => {
-      if (msg.type() === 'error') problems.push(`console error: ${msg.text()}`);
-    });
+    problems = watchPageProblems(page);
     await signInThroughUi(page, server.url, researcher);
   }, 240_000);
 
