@@ -15,7 +15,7 @@ import { AppError } from '../errors/app-error';
 import { validate } from '../errors/validate';
 import { isSetVisible } from '../instance-sets/instance-set-access';
 import { SWEEP_CANCEL_CHANNEL } from '../workers/sweep-channels';
-import { EXTERNAL_CHECK_LIMIT_MS, externalRunQueue, RUN_QUEUE, runJob, sendRunJobs } from '../workers/sweep-queue';
+import { externalJobLimitMs, externalRunQueue, RUN_QUEUE, runJob, sendRunJobs } from '../workers/sweep-queue';
 import { findExternalSolver } from '../external-solvers/external-solvers.service';
 import { parameterHash } from './parameter-hash';
 import { toAccount } from '../users/account';
@@ -149,8 +149,8 @@ export function createSweepsService(deps: SweepsDeps): SweepsService {
           );
           jobs.push(...inserted.map((r, j) => {
             const queue = queues[chunk[j].modelIndex];
-            // An external run also reads, checks and replays the plan after its process: its job expires that much later.
-            const limitMs = queue === RUN_QUEUE ? def.timeLimitMs : def.timeLimitMs + EXTERNAL_CHECK_LIMIT_MS;
+            // An external run also reads, checks and replays the plan after its process (its own limit): its job expires that much later.
+            const limitMs = queue === RUN_QUEUE ? def.timeLimitMs : externalJobLimitMs(def.timeLimitMs);
             return runJob({ runId: r.id, sweepId: sweep.id }, limitMs, deps.jobExpiryMarginSeconds, queue);
           }));
         }

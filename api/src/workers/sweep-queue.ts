@@ -3,7 +3,7 @@
  * one job per run carrying only ids. Exactly-once results do not rely on the queue (a job may
  * run twice after a worker dies); they rest on the runs/results unique keys.
  */
-import { randomUUID } from 'node:crypto';
+import { createHash, randomUUID } from 'node:crypto';
 import PgBoss from 'pg-boss';
 import type { Logger } from 'pino';
 import { solverKey, type SolverRef } from '@shared/external-solvers';
@@ -14,19 +14,30 @@ export const RUN_QUEUE = 'qt-sweep-runs';
 /**
  * The queue of an external solver's runs (issue 16, item 4): one per name and version, which
  * only workers declaring that solver (WORKER_SOLVERS) take jobs from, so a run never lands on a
- * machine without the program. Built-in runs stay on RUN_QUEUE. (pg-boss 10 keeps each queue in
- * a partition table named by a hash of the name, so any characters of a solver name are safe.)
+ * machine without the program. Built-in runs stay on RUN_QUEUE. The name holds only letters,
+ * digits, `_` and `-` (what pg-boss documents for queue names): the name, the version with its
+ * `.` and `+` written as `_`, and the first 8 hex digits of the SHA-1 of `name@version`, so two
+ * keys that read alike once written this way (1.0 and 1+0, or a-1@2 and a@1-2) stay apart.
+ * Every place that names the queue (launch, cancel, workers) calls this one function.
  */
 export function externalRunQueue(ref: SolverRef): string {
-  return `qt-external-runs:${solverKey(ref)}`;
+  const key = solverKey(ref);
+  const digest = createHash('sha1').update(key, 'utf8').digest('hex').slice(0, 8);
+  return `qt-external-runs-${ref.name}-${ref.version.replace(/[.+]/g, '_')}-${digest}`;
 }
 
 /**
- * How long an external run's plan check and replays may take in a pool thread after its process,
- * ms (process-external-run.ts). Its job expires this much later than a built-in one
- * (sweeps.service.ts), so a long check is never mistaken for a dead worker and run a second time.
+ * The limit of an external run's plan check and replays in a pool thread, ms, counted from the
+ * check's own start after the process ended (process-external-run.ts). The run's job expires
+ * after the process's time limit plus this plus the margin (externalJobLimitMs, sweeps.service.ts),
+ * so a long check is never mistaken for a dead worker and run a second time.
  */
 export const EXTERNAL_CHECK_LIMIT_MS = 60_000;
+
+/** The time an external run's job may take before it expires (without the margin), ms: the process's limit, then the check's. */
+export function externalJobLimitMs(timeLimitMs: number): number {
+  return timeLimitMs + EXTERNAL_CHECK_LIMIT_MS;
+}
 
 /** The data of one job. */
 export interface RunJobData {
