@@ -10,6 +10,7 @@ import { Client } from 'pg';
 import { createRng } from '@solvers/random';
 import * as nominalMigration from '../../api/src/db/migrations/0405-executable-at-nominal';
 import * as boundedMigration from '../../api/src/db/migrations/0407-bounded-suboptimal';
+import * as externalMigration from '../../api/src/db/migrations/0411-external-solvers';
 import { createSequelize } from '../../api/src/db/sequelize';
 import { parameterHash } from '../../api/src/sweeps/parameter-hash';
 import { createTestDatabase, type TestDatabase } from '../support/test-database';
@@ -231,12 +232,15 @@ describe('leaderboard tables kept by triggers equal a rebuild', () => {
     const sequelize = createSequelize(db.url, { poolMax: 1 });
     try {
       const context = sequelize.getQueryInterface();
+      // 0411 re-installs 0405's function bodies and 0407's variant with the external solver's name: it goes first and comes back last.
+      await externalMigration.down({ context, name: '0411-external-solvers' } as Parameters<typeof externalMigration.down>[0]);
       await boundedMigration.down({ context, name: '0407-bounded-suboptimal' } as Parameters<typeof boundedMigration.down>[0]);
       const undone = await snapshot();
       expect(undone.entries.some((e) => String(e['variant']).includes('w='))).toBe(false);
       expect(Object.keys(undone.entries[0])).not.toContain('optimality');
       expect(undone.entries.length).toBeLessThan(before.entries.length);
       await boundedMigration.up({ context, name: '0407-bounded-suboptimal' } as Parameters<typeof boundedMigration.up>[0]);
+      await externalMigration.up({ context, name: '0411-external-solvers' } as Parameters<typeof externalMigration.up>[0]);
     } finally {
       await sequelize.close();
     }
@@ -253,7 +257,8 @@ describe('leaderboard tables kept by triggers equal a rebuild', () => {
     const sequelize = createSequelize(db.url, { poolMax: 1 });
     try {
       const context = sequelize.getQueryInterface();
-      // 0407 builds on 0405's variant, so it goes first and comes back last.
+      // 0407 builds on 0405's variant, so it goes first and comes back last (after 0411, which builds on both).
+      await externalMigration.down({ context, name: '0411-external-solvers' } as Parameters<typeof externalMigration.down>[0]);
       await boundedMigration.down({ context, name: '0407-bounded-suboptimal' } as Parameters<typeof boundedMigration.down>[0]);
       await nominalMigration.down({ context, name: '0405-executable-at-nominal' } as Parameters<typeof nominalMigration.down>[0]);
       const undone = await snapshot();
@@ -265,6 +270,7 @@ describe('leaderboard tables kept by triggers equal a rebuild', () => {
       expect(Object.keys(undone.entries[0])).not.toContain('executable_at_nominal');
       await nominalMigration.up({ context, name: '0405-executable-at-nominal' } as Parameters<typeof nominalMigration.up>[0]);
       await boundedMigration.up({ context, name: '0407-bounded-suboptimal' } as Parameters<typeof boundedMigration.up>[0]);
+      await externalMigration.up({ context, name: '0411-external-solvers' } as Parameters<typeof externalMigration.up>[0]);
     } finally {
       await sequelize.close();
     }
