@@ -85,6 +85,43 @@ export function parseSolverKey(text: string): { readonly ok: true; readonly ref:
   return { ok: true, ref: parsed.data };
 }
 
+/**
+ * A solver a worker runs (WORKER_SOLVERS entry `name@version=sha256:<hex>`): the name and version
+ * plus the SHA-256 of the command template its operator approved, whole (64 hex) or a prefix of at
+ * least MIN_COMMAND_HASH_HEX. The worker reads the registration's command per run and refuses one
+ * whose hash differs, so a maintainer who removes and re-registers a solver under another command
+ * cannot make a worker run it. The list of registrations shows each command's hash.
+ */
+export interface WorkerSolver extends SolverRef {
+  /** Lower-case hex, 16–64 characters: the approved command's SHA-256 or its beginning. */
+  readonly commandSha256: string;
+}
+
+/** Fewest hex digits of an approved command hash (64 bits: no one finds a second command with the same prefix). */
+export const MIN_COMMAND_HASH_HEX = 16;
+
+/** Parses `name@version=sha256:<hex>` (a WORKER_SOLVERS entry); a sentence when it is not one. */
+export function parseWorkerSolverEntry(text: string): { readonly ok: true; readonly solver: WorkerSolver } | { readonly ok: false; readonly message: string } {
+  const eq = text.indexOf('=');
+  const key = eq < 0 ? text : text.slice(0, eq);
+  const parsed = parseSolverKey(key.trim());
+  if (!parsed.ok) return parsed;
+  const pin = eq < 0 ? '' : text.slice(eq + 1).trim();
+  const hex = /^sha256:([0-9a-fA-F]+)$/.exec(pin)?.[1];
+  if (hex === undefined || hex.length < MIN_COMMAND_HASH_HEX || hex.length > 64) {
+    return {
+      ok: false,
+      message: `"${text}" must pin the approved command as ${solverKey(parsed.ref)}=sha256:<hex> (the command's SHA-256, or its first ${MIN_COMMAND_HASH_HEX} or more hex digits, as the list of external solvers shows it)`,
+    };
+  }
+  return { ok: true, solver: { ...parsed.ref, commandSha256: hex.toLowerCase() } };
+}
+
+/** Whether a registration's command hash (64 hex) is the one a worker approved (whole or prefix). */
+export function isApprovedCommand(approved: string, registeredSha256: string): boolean {
+  return approved.length >= MIN_COMMAND_HASH_HEX && registeredSha256.toLowerCase().startsWith(approved.toLowerCase());
+}
+
 /** One word of a parsed template: literal pieces and placeholders in order. */
 export type TemplatePiece = { readonly text: string } | { readonly placeholder: Placeholder };
 export type TemplateWord = readonly TemplatePiece[];
@@ -168,6 +205,8 @@ export interface ExternalSolverView {
   readonly version: string;
   readonly models: readonly PlanModel[];
   readonly command: string;
+  /** SHA-256 of `command` (hex): what a worker pins in WORKER_SOLVERS to approve this command. */
+  readonly commandSha256: string;
   readonly planFormat: ExternalPlanFormat;
   readonly description: string;
   readonly registeredBy: { readonly id: number; readonly login: string } | null;
@@ -191,6 +230,8 @@ export const EXTERNAL_FAILURE_PREFIX = {
   invalidPlan: 'invalid plan',
   unregistered: 'external solver not registered',
   spawn: 'external solver could not start',
+  unapproved: 'external solver command not approved by the worker',
+  local: 'external solver run could not be prepared',
 } as const;
 
 /**

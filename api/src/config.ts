@@ -4,7 +4,8 @@
  * The defaults make `npm start` work on a fresh machine with nothing set.
  */
 import { z } from 'zod';
-import { EXAMPLE_SOLVER, solverKey, type SolverRef } from '@shared/external-solvers';
+import { EXAMPLE_SOLVER, solverKey, type WorkerSolver } from '@shared/external-solvers';
+import { commandSha256 } from './external-solvers/command-hash';
 import type { QuotaAmounts } from '@shared/storage-quota';
 import { workerSolversField } from './workers/worker-config';
 
@@ -56,8 +57,8 @@ export interface AppConfig {
   readonly isEmbeddedWorker: boolean;
   /** Threads of the embedded worker's pool (WORKER_THREADS); undefined = cores − 1, at least 1. */
   readonly workerThreads: number | undefined;
-  /** External solvers the embedded worker runs (WORKER_SOLVERS; default the shipped example, empty = none). */
-  readonly workerSolvers: readonly SolverRef[];
+  /** External solvers the embedded worker runs (WORKER_SOLVERS; default the shipped example pinned to its command's hash, empty = none). */
+  readonly workerSolvers: readonly WorkerSolver[];
   /** Port of the local fake SMTP server `npm start` runs when SMTP_URL is unset (FAKE_SMTP_PORT). */
   readonly fakeSmtpPort: number;
   /** Seconds a run's job may outlive its time limit before the queue hands it to another worker (JOB_EXPIRY_MARGIN_SECONDS). */
@@ -121,7 +122,7 @@ const EnvSchema = z.object({
   EMBEDDED_WORKER: z.preprocess(emptyAsUndefined, z.enum(['true', 'false', '1', '0']).default('true')),
   WORKER_THREADS: z.preprocess(emptyAsUndefined, z.coerce.number().int().min(1).max(256).optional()),
   // The embedded worker declares the shipped example solver unless told otherwise (empty = none).
-  WORKER_SOLVERS: workerSolversField(solverKey(EXAMPLE_SOLVER)),
+  WORKER_SOLVERS: workerSolversField(`${solverKey(EXAMPLE_SOLVER)}=sha256:${commandSha256(EXAMPLE_SOLVER.command)}`),
   FAKE_SMTP_PORT: port(4302),
   JOB_EXPIRY_MARGIN_SECONDS: z.preprocess(emptyAsUndefined, z.coerce.number().int().min(1).max(86_400).default(60)),
   INTERACTIVE_THREADS: z.preprocess(emptyAsUndefined, z.coerce.number().int().min(1).max(64).default(1)),

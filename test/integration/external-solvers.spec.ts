@@ -7,7 +7,11 @@
  * with their CPU time and peak memory. Throwaway "solvers" (small Node scripts) crash, overrun the
  * time limit (killed), overrun the memory limit (killed by the operating system's RLIMIT_DATA),
  * write garbage, write nothing and write an invalid plan: each is a recorded status with its
- * reason and the sweep finishes. A solver no worker declares leaves its runs visibly waiting, and
+ * reason and the sweep finishes; a solver sees none of the worker's environment (its database URL
+ * never reaches a stored reason). A worker runs a registration only when its command is the one the
+ * worker's operator approved (WORKER_SOLVERS pins the command's SHA-256): a solver removed and
+ * registered again with another command ends in error, and a name and version with stored results
+ * cannot be registered again. A solver no worker declares leaves its runs visibly waiting, and
  * cancelling a sweep kills a running solver. Instances: the open dataset's empty-8-8 (Stern et
  * al., SoCS 2019), read in place.
  */
@@ -16,6 +20,8 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import pino from 'pino';
 import { EXAMPLE_SOLVER, EXTERNAL_FAILURE_PREFIX, type ExternalSolverListResponse, type ExternalSolverView } from '@shared/external-solvers';
+import { commandSha256 } from '../../api/src/external-solvers/command-hash';
+import { externalRunQueue } from '../../api/src/workers/sweep-queue';
 import type { LeaderboardPage } from '@shared/leaderboards';
 import type { ModelComparisonReport } from '@shared/reports';
 import type { SweepDetail, SweepResultRow } from '@shared/runs';
@@ -36,7 +42,12 @@ const SCRIPTS: Record<string, string> = {
   'writes-nothing': "console.log('done, but no plan');",
   // Every agent stays on the top-left cell: a vertex conflict at step 0 (and the wrong starts).
   'collides': "const n = Number(process.argv[4]); require('fs').writeFileSync(process.argv[5], Array.from({ length: n }, () => '(0,0) (0,0)').join('\\n'));",
+  // Says which environment variables it sees and the database URL if it got one, then fails (its last line becomes the reason).
+  'tells-env': "console.error('env: ' + Object.keys(process.env).sort().join(',') + ' db: ' + (process.env.DATABASE_URL ?? 'none')); process.exit(1);",
 };
+
+/** The registered command of a throwaway solver. */
+const scriptCommand = (dir: string, name: string) => `{node} ${join(dir, `${name}.js`)} {map} {scenario} {agents} {plan}`;
 
 /** The processes whose command line holds `text` (from /proc). */
 function processesWith(text: string): number[] {
@@ -70,12 +81,18 @@ describe('external solvers in sweeps', () => {
     const registered = await register(EXAMPLE_SOLVER);
     expect(registered.status).toBe(201);
     for (const name of Object.keys(SCRIPTS)) {
-      const res = await register({ name, version: '0.1', models: ['classic'], command: `{node} ${join(scriptDir, `${name}.js`)} {map} {scenario} {agents} {plan}` });
+      const res = await register({ name, version: '0.1', models: ['classic'], command: scriptCommand(scriptDir, name) });
       expect(res.status).toBe(201);
     }
+    // Each solver pinned to its command's hash as its operator approved it; `swapped` is approved for the
+    // 'writes-nothing' command (a 16-digit prefix) and registered later with another one.
     worker = await startSweepWorker({
       databaseUrl: db.url, threads: 1, logger: pino({ level: process.env.QT_TEST_LOG ?? 'silent' }), publicUrl: s.url, maintenanceSeconds: 1,
-      solvers: [EXAMPLE, ...Object.keys(SCRIPTS).map((name) => ({ name, version: '0.1' }))],
+      solvers: [
+        { ...EXAMPLE, commandSha256: commandSha256(EXAMPLE_SOLVER.command) },
+        ...Object.keys(SCRIPTS).map((name) => ({ name, version: '0.1', commandSha256: commandSha256(scriptCommand(scriptDir, name)) })),
+        { name: 'swapped', version: '0.1', commandSha256: commandSha256(scriptCommand(scriptDir, 'writes-nothing')).slice(0, 16) },
+      ],
     });
   });
   afterAll(async () => {
@@ -90,6 +107,9 @@ describe('external solvers in sweeps', () => {
     const example = list.items.find((x) => x.name === EXAMPLE.name);
     expect(example?.models).toEqual(['classic']);
     expect(example?.workers).toEqual([worker.name]);
+    // The hash an operator pins in WORKER_SOLVERS: SHA-256 of the stored command.
+    expect(example?.commandSha256).toBe(commandSha256(EXAMPLE_SOLVER.command));
+    expect(example?.commandSha256).toMatch(/^[0-9a-f]{64}$/);
     expect(list.items).toHaveLength(1 + Object.keys(SCRIPTS).length);
 
     const again = await register(EXAMPLE_SOLVER);
@@ -118,8 +138,8 @@ describe('external solvers in sweeps', () => {
     }));
     expect(await waitForSweep(s, sweep.id, 200_000)).toBe('finished');
 
-    const stored = await s.sql<{ params: { model: Record<string, unknown> }; status: string; solver_name: string | null; solver_version: string; cpu_time_ms: number | null; peak_memory_kb: string | null; soc: number; lower_bound: number; executable_at_nominal: boolean | null }>(
-      'SELECT params, status, solver_name, solver_version, cpu_time_ms, peak_memory_kb, soc, lower_bound, executable_at_nominal FROM results WHERE sweep_id = :id ORDER BY id', { id: sweep.id });
+    const stored = await s.sql<{ params: { model: Record<string, unknown> }; status: string; solver_name: string | null; solver_version: string; cpu_time_ms: number | null; peak_memory_kb: string | null; soc: number; lower_bound: number; executable_at_nominal: boolean | null; nodes: number | null; nodes_expanded: number | null }>(
+      'SELECT params, status, solver_name, solver_version, cpu_time_ms, peak_memory_kb, soc, lower_bound, executable_at_nominal, nodes, nodes_expanded FROM results WHERE sweep_id = :id ORDER BY id', { id: sweep.id });
     expect(stored).toHaveLength(4);
     expect(stored.every((r) => r.status === 'solved')).toBe(true);
     const external = stored.filter((r) => r.params.model['externalSolver'] !== undefined);
@@ -132,7 +152,10 @@ describe('external solvers in sweeps', () => {
       // The validator accepted it and the root bound (shortest paths alone) is ours.
       expect(r.soc).toBeGreaterThanOrEqual(r.lower_bound);
       expect(r.executable_at_nominal).not.toBeNull();
+      // Search effort is never measured for an external program: null ("–"), not 0.
+      expect([r.nodes, r.nodes_expanded]).toEqual([null, null]);
     }
+    expect(builtIn.every((r) => (r.nodes ?? 0) > 0)).toBe(true);
     // Built-in runs keep their params exactly as before the field existed.
     expect(builtIn.every((r) => !('externalSolver' in r.params.model) && r.solver_name === null && r.cpu_time_ms === null)).toBe(true);
 
@@ -196,15 +219,24 @@ describe('external solvers in sweeps', () => {
 
   it('records a crash, a timeout, a memory overrun, garbage, no plan and an invalid plan as statuses, and the sweep finishes', async () => {
     const names = Object.keys(SCRIPTS);
-    const sweep = await launchSweep(s, baseDefinition(setId, {
-      name: 'misbehaving solvers',
-      agentCounts: { kind: 'list', values: [2] },
-      models: names.map((name) => ({ model: 'classic' as const, externalSolver: { name, version: '0.1' } })),
-      timeLimitMs: 5000,
-      memoryLimitMb: 256,
-      execution: { policies: ['open-loop'], runs: 2 },
-    }));
-    expect(await waitForSweep(s, sweep.id, 120_000)).toBe('failed');
+    // The worker runs in this process: a database URL in its environment must not reach the solver.
+    const savedUrl = process.env.DATABASE_URL;
+    process.env.DATABASE_URL = db.url;
+    let sweep: SweepDetail;
+    try {
+      sweep = await launchSweep(s, baseDefinition(setId, {
+        name: 'misbehaving solvers',
+        agentCounts: { kind: 'list', values: [2] },
+        models: names.map((name) => ({ model: 'classic' as const, externalSolver: { name, version: '0.1' } })),
+        timeLimitMs: 5000,
+        memoryLimitMb: 256,
+        execution: { policies: ['open-loop'], runs: 2 },
+      }));
+      expect(await waitForSweep(s, sweep.id, 120_000)).toBe('failed');
+    } finally {
+      if (savedUrl === undefined) delete process.env.DATABASE_URL;
+      else process.env.DATABASE_URL = savedUrl;
+    }
     const runs = await s.sql<{ model_index: number; status: string; reason: string; cpu_time_ms: number | null; peak_memory_kb: string | null }>(
       `SELECT r.model_index, r.status, r.reason, res.cpu_time_ms, res.peak_memory_kb FROM runs r LEFT JOIN results res ON res.run_id = r.id
        WHERE r.sweep_id = :id ORDER BY r.model_index`, { id: sweep.id });
@@ -217,6 +249,9 @@ describe('external solvers in sweeps', () => {
     expect([by['scribbles'].status, by['scribbles'].reason]).toEqual(['error', expect.stringContaining(EXTERNAL_FAILURE_PREFIX.badOutput)]);
     expect([by['writes-nothing'].status, by['writes-nothing'].reason]).toEqual(['error', `${EXTERNAL_FAILURE_PREFIX.badOutput}: it wrote no plan file (plan.txt)`]);
     expect([by['collides'].status, by['collides'].reason]).toEqual(['error', expect.stringContaining(`${EXTERNAL_FAILURE_PREFIX.invalidPlan}: `)]);
+    // Its whole environment: PATH, LANG, HOME and TMPDIR; no database URL.
+    expect([by['tells-env'].status, by['tells-env'].reason]).toEqual(['error', expect.stringContaining('it said: env: HOME,LANG,PATH,TMPDIR db: none')]);
+    expect(runs.some((r) => r.reason.includes(db.url))).toBe(false);
     // The process's usage is recorded whatever the ending (GNU time outlives the killed solver).
     expect(runs.every((r) => r.cpu_time_ms !== null && Number(r.peak_memory_kb) > 0)).toBe(true);
     // The memory overrun was stopped by the limit: its peak stayed at most the limit.
@@ -237,14 +272,16 @@ describe('external solvers in sweeps', () => {
     expect(detail.progress.counts.pending).toBe(2);
     expect(detail.progress.perModel[0].external).toEqual({ solver: 'lonely@1', workers: 0, waiting: 'waiting for a worker with solver lonely@1' });
     // Its jobs wait in the solver's own queue, expiring after the time limit (10 s) plus the plan check's 60 s plus the margin (3 s).
-    const jobs = await s.sql<{ expire: number }>("SELECT extract(epoch FROM expire_in)::int AS expire FROM pgboss.job WHERE name = 'qt-external-runs:lonely@1'");
+    const queue = externalRunQueue({ name: 'lonely', version: '1' });
+    expect(queue).toMatch(/^qt-external-runs-lonely-1-[0-9a-f]{8}$/);
+    const jobs = await s.sql<{ expire: number }>('SELECT extract(epoch FROM expire_in)::int AS expire FROM pgboss.job WHERE name = :queue', { queue });
     expect(jobs.map((j) => j.expire)).toEqual([73, 73]);
     const removing = await s.client.request(`/api/external-solvers/${lonely.id}`, { method: 'DELETE' });
     expect(removing.status).toBe(409);
     expect((await s.client.request(`/api/sweeps/${sweep.id}/cancel`, { method: 'POST' })).status).toBe(200);
     expect((await s.client.request(`/api/external-solvers/${lonely.id}`, { method: 'DELETE' })).status).toBe(204);
     // The queue holds no job of it any more.
-    const queued = await s.sql<{ n: string }>("SELECT count(*) AS n FROM pgboss.job WHERE name = 'qt-external-runs:lonely@1' AND state IN ('created', 'retry')");
+    const queued = await s.sql<{ n: string }>("SELECT count(*) AS n FROM pgboss.job WHERE name = :queue AND state IN ('created', 'retry')", { queue });
     expect(Number(queued[0].n)).toBe(0);
 
     const unknown = await s.client.request('/api/sweeps', { method: 'POST', body: JSON.stringify(baseDefinition(setId, { models: [{ model: 'classic', externalSolver: { name: 'lonely', version: '1' } }] })) });
@@ -266,5 +303,35 @@ describe('external solvers in sweeps', () => {
     const [run] = await s.sql<{ status: string }>('SELECT status FROM runs WHERE sweep_id = :id', { id: sweep.id });
     expect(run.status).toBe('cancelled');
     expect(existsSync(scriptDir)).toBe(true);
+  });
+
+  it('refuses to run a registration whose command the worker did not approve, and a name and version with stored results cannot be registered again', async () => {
+    // Registered with the approved command, removed, and registered again with another one.
+    const first = (await (await register({ name: 'swapped', version: '0.1', models: ['classic'], command: scriptCommand(scriptDir, 'writes-nothing') })).json()) as ExternalSolverView;
+    expect((await s.client.request(`/api/external-solvers/${first.id}`, { method: 'DELETE' })).status).toBe(204);
+    const again = await register({ name: 'swapped', version: '0.1', models: ['classic'], command: scriptCommand(scriptDir, 'tells-env') });
+    expect(again.status).toBe(201);
+    const swappedHash = ((await again.json()) as ExternalSolverView).commandSha256;
+    const sweep = await launchSweep(s, baseDefinition(setId, {
+      name: 'swapped command', agentCounts: { kind: 'list', values: [2] },
+      models: [{ model: 'classic', externalSolver: { name: 'swapped', version: '0.1' } }], timeLimitMs: 5000,
+    }));
+    expect(await waitForSweep(s, sweep.id, 60_000)).toBe('failed');
+    const [run] = await s.sql<{ status: string; reason: string }>('SELECT status, reason FROM runs WHERE sweep_id = :id', { id: sweep.id });
+    expect(run.status).toBe('error');
+    expect(run.reason).toContain(`${EXTERNAL_FAILURE_PREFIX.unapproved}: the worker's approved command differs from the registration`);
+    expect(run.reason).toContain(`registered command sha256:${swappedHash.slice(0, 16)}…`);
+    // It never ran: the refused command would have said its environment.
+    expect(run.reason).not.toContain('env:');
+
+    // crashes@0.1 has stored results (the misbehaving sweep): removing is allowed, registering it again is not.
+    const list = (await (await s.client.request('/api/external-solvers')).json()) as ExternalSolverListResponse;
+    const crashes = list.items.find((x) => x.name === 'crashes');
+    expect(crashes).toBeDefined();
+    expect((await s.client.request(`/api/external-solvers/${crashes?.id}`, { method: 'DELETE' })).status).toBe(204);
+    const reused = await register({ name: 'crashes', version: '0.1', models: ['classic'], command: scriptCommand(scriptDir, 'collides') });
+    expect(reused.status).toBe(409);
+    expect(((await reused.json()) as { error: { message: string } }).error.message).toContain('crashes@0.1 has 1 stored result(s) from an earlier registration');
+    expect((await register({ name: 'crashes', version: '0.2', models: ['classic'], command: scriptCommand(scriptDir, 'collides') })).status).toBe(201);
   });
 });

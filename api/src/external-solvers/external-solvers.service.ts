@@ -12,6 +12,7 @@ import {
 import type { PlanModel } from '@shared/plan';
 import { AppError } from '../errors/app-error';
 import { validate } from '../errors/validate';
+import { commandSha256 } from './command-hash';
 
 /** A registration as the worker and the launch need it. */
 export interface ExternalSolverRow {
@@ -67,7 +68,7 @@ export function createExternalSolversService(sequelize: Sequelize): ExternalSolv
       { replacements: { ...replacements, window: WORKER_SEEN_WINDOW_MS }, type: QueryTypes.SELECT },
     );
     return rows.map((r) => ({
-      id: r.id, name: r.name, version: r.version, models: r.models, command: r.command, planFormat: r.plan_format,
+      id: r.id, name: r.name, version: r.version, models: r.models, command: r.command, commandSha256: commandSha256(r.command), planFormat: r.plan_format,
       description: r.description, registeredBy: r.registered_by !== null && r.login !== null ? { id: r.registered_by, login: r.login } : null,
       createdAt: r.created_at.toISOString(), workers: r.workers ?? [],
     }));
@@ -80,6 +81,15 @@ export function createExternalSolversService(sequelize: Sequelize): ExternalSolv
 
     async register(viewer, body) {
       const req = validate(ExternalSolverRequestSchema, body);
+      // Stored results of an earlier registration of this name and version (removed since) came from a
+      // command nobody can compare any more: one board variant must never mix two programs.
+      const [earlier] = await sequelize.query<{ n: string }>(
+        'SELECT count(*) AS n FROM results WHERE solver_name = :name AND solver_version = :version',
+        { replacements: { name: req.name, version: req.version }, type: QueryTypes.SELECT },
+      );
+      if (Number(earlier?.n ?? 0) > 0) {
+        throw new AppError('CONFLICT', 409, `${req.name}@${req.version} has ${earlier.n} stored result(s) from an earlier registration; register a new version, so its results never mix with another command's.`);
+      }
       const inserted = await sequelize.query<{ id: number }>(
         `INSERT INTO external_solvers (name, version, models, command, plan_format, description, registered_by)
          VALUES (:name, :version, ARRAY[:models]::text[], :command, :planFormat, :description, :by)

@@ -3,19 +3,30 @@
  *
  * - No shell: the argument vector goes to `spawn` as is (shared/external-solvers.ts builds it
  *   word by word), so nothing in it is ever interpreted as shell syntax.
+ * - Environment: only PATH and LANG of the worker, with HOME and TMPDIR set to the run's own
+ *   folder (`solverEnvironment`): the worker's secrets (DATABASE_URL, SESSION_SECRET, SMTP_URL, …)
+ *   never reach a solver, whose output can end up in a run's public reason.
  * - Memory: `prlimit --data` (util-linux) sets RLIMIT_DATA of the child before it starts, so the
  *   operating system refuses its allocations past the limit and the process dies. RLIMIT_DATA and
  *   not RLIMIT_AS, because V8 reserves far more address space than it uses: measured on this
  *   machine (Node 20), `node -e` does not even start under `--as` of 512 MB, while under `--data`
  *   it starts at 128 MB and dies with "JavaScript heap out of memory" (exit 134) once its heap
- *   outgrows the limit. Core dumps are off (`--core=0`).
+ *   outgrows the limit. A resource limit holds per process: a solver that starts several
+ *   processes may use the limit in each of them. Core dumps are off (`--core=0`).
+ * - Files: `prlimit --fsize` caps each file a solver process writes at FILE_SIZE_LIMIT_MB
+ *   (RLIMIT_FSIZE, again per file and per process, not a disk quota), so one runaway file cannot
+ *   fill the temporary disk.
  * - CPU time and peak memory: GNU time (`/usr/bin/time -f`, Debian package `time`) waits for the
- *   solver and writes the user + system CPU time and the maximum resident set size (kB) of what it
- *   waited for (wait4's rusage, so processes the solver itself started and waited for count too).
+ *   solver and writes the user + system CPU time of what it waited for (wait4's rusage, so
+ *   processes the solver itself started and waited for count too) and its maximum resident set
+ *   size (kB), which is the largest single process's peak, not the sum over processes.
  * - Wall time: the run's time limit, counted from the spawn. On overrun every process of the
  *   child's process group except GNU time is killed (SIGKILL), so GNU time still reports the
  *   usage; a moment later the whole group is killed in case anything is left. A cancelled sweep
- *   does the same through `signal`.
+ *   or a stopping worker does the same through `signal`. As a backstop that holds even if the
+ *   worker itself dies, `prlimit --cpu` lets each process use at most the time limit plus
+ *   CPU_GRACE_SECONDS of CPU time (RLIMIT_CPU, per process: a process with several busy threads
+ *   reaches it before the wall-time limit and ends as a timeout too).
  * - Output: stdout and stderr are kept up to OUTPUT_CAP_BYTES each (the tail: the last lines say
  *   why a process failed) for the run's reason.
  *
@@ -36,24 +47,39 @@ export const PRLIMIT = 'prlimit';
 export const OUTPUT_CAP_BYTES = 16 * 1024;
 /** How long after killing the solver's processes the whole group is killed, ms. */
 const GROUP_KILL_DELAY_MS = 2000;
+/** CPU seconds a process may use beyond the time limit before the operating system kills it (RLIMIT_CPU backstop). */
+export const CPU_GRACE_SECONDS = 5;
+/** Largest file a solver process may write, MB (RLIMIT_FSIZE). */
+export const FILE_SIZE_LIMIT_MB = 256;
+
+/** The RLIMIT_CPU of a run with `timeLimitMs`, s. */
+export function cpuLimitSeconds(timeLimitMs: number): number {
+  return Math.ceil(timeLimitMs / 1000) + CPU_GRACE_SECONDS;
+}
+
+/** The whole environment of a solver process: PATH and LANG of the worker, HOME and TMPDIR its run folder, nothing else. */
+export function solverEnvironment(homeDir: string, from: NodeJS.ProcessEnv = process.env): NodeJS.ProcessEnv {
+  return { PATH: from.PATH ?? '/usr/local/bin:/usr/bin:/bin', LANG: from.LANG ?? 'C.UTF-8', HOME: homeDir, TMPDIR: homeDir };
+}
 
 /** What to run and under which limits. */
 export interface ExternalProcessRequest {
   /** Program and arguments, one string per argument. */
   readonly argv: readonly string[];
   readonly cwd: string;
+  /** The run's own folder: HOME and TMPDIR of the process (solverEnvironment). */
+  readonly homeDir: string;
   readonly timeLimitMs: number;
   readonly memoryLimitMb: number;
-  /** Aborts the run (a cancelled sweep, a forced worker shutdown). */
+  /** Aborts the run (a cancelled sweep, a stopping worker). */
   readonly signal?: AbortSignal;
-  readonly env?: NodeJS.ProcessEnv;
 }
 
 /** How the process ended. */
 export type ExternalEnd =
   /** Exit status 0. */
   | 'exited'
-  /** Killed at the wall-time limit. */
+  /** Killed at the wall-time limit, or by the operating system at the CPU-time backstop. */
   | 'timeout'
   /** Died after the operating system refused memory past the limit. */
   | 'memory'
@@ -93,6 +119,11 @@ export function missingProcessTools(): string[] {
   if (!path.some((d) => existsSync(join(d, PRLIMIT)))) missing.push(`${PRLIMIT} (Debian package util-linux)`);
   return missing;
 }
+
+/** Signal numbers on Linux (x86-64 and arm64): SIGKILL, SIGXCPU (CPU-time limit), SIGXFSZ (file size limit). */
+const SIGKILL = 9;
+const SIGXCPU = 24;
+const SIGXFSZ = 25;
 
 /** Words in stderr by which common runtimes say an allocation failed (Node/V8, C, C++, Python, Java, Rust). */
 const OUT_OF_MEMORY = /out of memory|allocation failed|Cannot allocate memory|std::bad_alloc|MemoryError|OutOfMemoryError|memory allocation of \d+ bytes failed|ENOMEM/i;
@@ -155,9 +186,18 @@ const killQuietly = (pid: number, signal: NodeJS.Signals) => {
 
 /** Runs `request` (see the module comment); never rejects. */
 export async function runExternalProcess(request: ExternalProcessRequest): Promise<ExternalProcessOutcome> {
-  const usageDir = await mkdtemp(join(tmpdir(), 'qt-usage-'));
-  const usageFile = join(usageDir, 'usage');
   const started = performance.now();
+  let usageDir: string;
+  try {
+    usageDir = await mkdtemp(join(tmpdir(), 'qt-usage-'));
+  } catch (err) {
+    return {
+      end: 'spawn-failed', exitCode: null, signalNumber: null, wallMs: performance.now() - started, cpuTimeMs: null, peakMemoryKb: null,
+      stdout: '', stderr: '', message: `no temporary folder for the usage report: ${(err as Error).message}`,
+    };
+  }
+  const usageFile = join(usageDir, 'usage');
+  const cpuLimit = cpuLimitSeconds(request.timeLimitMs);
   const limitBytes = request.memoryLimitMb * 1024 * 1024;
   const stdout = new Tail(OUTPUT_CAP_BYTES);
   const stderr = new Tail(OUTPUT_CAP_BYTES);
@@ -165,10 +205,10 @@ export async function runExternalProcess(request: ExternalProcessRequest): Promi
   let groupTimer: NodeJS.Timeout | undefined;
   try {
     const child = spawn(PRLIMIT, [
-      `--data=${limitBytes}`, '--core=0', '--',
+      `--data=${limitBytes}`, `--cpu=${cpuLimit}`, `--fsize=${FILE_SIZE_LIMIT_MB * 1024 * 1024}`, '--core=0', '--',
       GNU_TIME, '-f', 'qt-usage %U %S %M', '-o', usageFile, '--',
       ...request.argv,
-    ], { cwd: request.cwd, env: request.env ?? process.env, detached: true, stdio: ['ignore', 'pipe', 'pipe'] });
+    ], { cwd: request.cwd, env: solverEnvironment(request.homeDir), detached: true, stdio: ['ignore', 'pipe', 'pipe'] });
     child.stdout.on('data', (c: Buffer) => stdout.push(c));
     child.stderr.on('data', (c: Buffer) => stderr.push(c));
     // prlimit execs GNU time in place, so the child's pid is GNU time's and the group's id.
@@ -212,6 +252,13 @@ export async function runExternalProcess(request: ExternalProcessRequest): Promi
     }
     if (exitCode === 0 && signalNumber === null) return { ...base, end: 'exited', exitCode, signalNumber, message: 'exited with status 0' };
     const how = signalNumber !== null ? `ended by signal ${signalNumber}` : `exited with status ${exitCode}`;
+    // RLIMIT_CPU: SIGXCPU at the limit, SIGKILL at the hard limit (the same here).
+    if ((signalNumber === SIGXCPU || signalNumber === SIGKILL) && report.cpuTimeMs !== null && report.cpuTimeMs >= cpuLimit * 1000 - 1000) {
+      return { ...base, end: 'timeout', exitCode, signalNumber, message: `killed by the operating system at its CPU-time limit of ${cpuLimit} s (${how})` };
+    }
+    if (signalNumber === SIGXFSZ) {
+      return { ...base, end: 'crashed', exitCode, signalNumber, message: `${how}: it wrote a file past the limit of ${FILE_SIZE_LIMIT_MB} MB per file` };
+    }
     // Refused allocations show as a runtime's out-of-memory message, or as a peak resident size at the limit.
     const nearLimit = report.peakMemoryKb !== null && report.peakMemoryKb * 1024 >= 0.9 * limitBytes;
     if (OUT_OF_MEMORY.test(base.stderr) || nearLimit) {

@@ -9,12 +9,14 @@
  * Every way it can go wrong is a recorded status with a reason, never a stuck run: the solver
  * removed or not solving the model (error), the program not starting (error), a crash (error),
  * the time limit (timeout), the memory limit (memory), no readable plan (error), an invalid plan
- * (error, the validator's first violation). Reasons begin with EXTERNAL_FAILURE_PREFIX.
+ * (error, the validator's first violation), a registration whose command this worker's operator
+ * did not approve (error: its SHA-256 differs from the WORKER_SOLVERS pin), the run's folder or
+ * files not writable here (error). Reasons begin with EXTERNAL_FAILURE_PREFIX.
  */
 import { mkdtemp, readFile, rm, stat, writeFile } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { basename, join, resolve } from 'node:path';
-import { EXTERNAL_FAILURE_PREFIX, parseCommandTemplate, commandArguments, solverKey, type Placeholder, type SolverRef } from '@shared/external-solvers';
+import { EXTERNAL_FAILURE_PREFIX, isApprovedCommand, parseCommandTemplate, commandArguments, solverKey, type Placeholder, type SolverRef } from '@shared/external-solvers';
 import { SubmissionRequestSchema } from '@shared/plan-format';
 import type { ModelSpec, SweepDefinition } from '@shared/sweeps';
 import type { PlanTask, PlanTaskResult } from '@solvers/run/plan-task';
@@ -22,6 +24,7 @@ import { bareResult } from '@solvers/run/run-plan-task';
 import { taskLowerBound } from '@solvers/run/task-lower-bound';
 import { toTaskInstance } from '@solvers/run/task-instance';
 import { AppError } from '../errors/app-error';
+import { commandSha256 } from '../external-solvers/command-hash';
 import { findExternalSolver } from '../external-solvers/external-solvers.service';
 import { loadInstance, type LoadedInstance } from '../instance-sets/load-instance';
 import { readPlanFile, type ReadSubmission } from '../submissions/read-plan-file';
@@ -60,6 +63,15 @@ export async function processExternalRun(ctx: RunContext, job: RunJobData): Prom
   if (!registration.models.includes(spec.model)) {
     return record(bareResult('error', `${EXTERNAL_FAILURE_PREFIX.unregistered}: ${solverKey(ref)} is registered for ${registration.models.join(', ')}, not ${spec.model}`));
   }
+  // The worker's operator approved one command (WORKER_SOLVERS pins its SHA-256); a registration
+  // changed since (removed and registered again with another command) never runs here.
+  const registeredHash = commandSha256(registration.command);
+  const approved = ctx.approvedCommand?.(ref);
+  if (approved === undefined || !isApprovedCommand(approved, registeredHash)) {
+    return record(bareResult('error', `${EXTERNAL_FAILURE_PREFIX.unapproved}: the worker's approved command differs from the registration `
+      + `(registered command sha256:${registeredHash.slice(0, 16)}…, worker ${ctx.workerName} approved ${approved === undefined ? 'none' : `sha256:${approved.slice(0, 16)}…`}); `
+      + "the worker's operator checks the registered command and pins its hash in WORKER_SOLVERS"));
+  }
   const template = parseCommandTemplate(registration.command);
   if (!template.ok) return record(bareResult('error', `${EXTERNAL_FAILURE_PREFIX.spawn}: its command is refused: ${template.problems[0]}`));
 
@@ -76,13 +88,23 @@ export async function processExternalRun(ctx: RunContext, job: RunJobData): Prom
     memoryLimitMb: definition.memoryLimitMb, seed: run.seed, execution: definition.execution,
   };
 
-  const dir = await mkdtemp(join(tmpdir(), `qt-run-${run.id}-`));
+  // A local I/O failure (full or read-only temporary disk) is a recorded error, never a run left 'running'.
+  let dir: string;
+  try {
+    dir = await mkdtemp(join(tmpdir(), `qt-run-${run.id}-`));
+  } catch (err) {
+    return record(bareResult('error', `${EXTERNAL_FAILURE_PREFIX.local}: no temporary folder: ${(err as Error).message}`));
+  }
   try {
     const mapPath = join(dir, files.mapName);
     const scenarioPath = join(dir, files.scenarioName);
     const planPath = join(dir, registration.planFormat === 'json' ? 'plan.json' : 'plan.txt');
-    await writeFile(mapPath, files.map);
-    await writeFile(scenarioPath, files.scenario);
+    try {
+      await writeFile(mapPath, files.map);
+      await writeFile(scenarioPath, files.scenario);
+    } catch (err) {
+      return record(bareResult('error', `${EXTERNAL_FAILURE_PREFIX.local}: could not write the instance files: ${(err as Error).message}`));
+    }
     const values: Record<Placeholder, string> = {
       map: mapPath, scenario: scenarioPath, agents: String(run.agents), plan: planPath,
       timeLimitMs: String(definition.timeLimitMs), memoryLimitMb: String(definition.memoryLimitMb), seed: String(run.seed),
@@ -92,7 +114,7 @@ export async function processExternalRun(ctx: RunContext, job: RunJobData): Prom
     const argv = commandArguments(template.words, values);
     const signal = ctx.signalFor(run.sweepId);
     const proc = await runExternalProcess({
-      argv, cwd: SOLVER_WORKING_DIRECTORY, timeLimitMs: definition.timeLimitMs, memoryLimitMb: definition.memoryLimitMb, signal,
+      argv, cwd: SOLVER_WORKING_DIRECTORY, homeDir: dir, timeLimitMs: definition.timeLimitMs, memoryLimitMb: definition.memoryLimitMb, signal,
     });
     const facts = { cpuTimeMs: proc.cpuTimeMs, peakMemoryKb: proc.peakMemoryKb };
     const failed = failureOf(proc, definition, task);
@@ -106,7 +128,8 @@ export async function processExternalRun(ctx: RunContext, job: RunJobData): Prom
     if ('reason' in read) return record(bareResult('error', `${EXTERNAL_FAILURE_PREFIX.badOutput}: ${read.reason}`, taskLowerBound(task), proc.wallMs), facts);
     const checked = await ctx.pool.runJob(
       { kind: 'check-plan', instance: loaded.instance, submission: read.submission, replay: { execution: definition.execution, seed: run.seed } },
-      { hardLimitMs: definition.timeLimitMs + CHECK_LIMIT_MS, memoryLimitMb: definition.memoryLimitMb, signal },
+      // The check's own limit, counted from its start (the job's expiry covers the process's limit plus this one).
+      { hardLimitMs: CHECK_LIMIT_MS, memoryLimitMb: definition.memoryLimitMb, signal },
     );
     if (checked.kind === 'aborted') {
       if (ctx.isStopping()) throw new Error(`run ${run.id} interrupted by worker shutdown`);
@@ -125,6 +148,7 @@ export async function processExternalRun(ctx: RunContext, job: RunJobData): Prom
       turnInclusiveSocMs: verdict.turnInclusiveSocMs, turnInclusiveMakespanMs: verdict.turnInclusiveMakespanMs,
       // Our own root bound (each agent's shortest path alone); an external solver proves none we could trust.
       lowerBound: taskLowerBound(task),
+      // Search nodes are not measured for an external program: stored as null (record-run-result.ts), shown as "–".
       runtimeMs: proc.wallMs, nodesGenerated: 0, nodesExpanded: 0, turns: verdict.turns, plan: verdict.storedPlan,
       executions: verdict.executions, atNominal: { isCollisionFree: verdict.atNominal.isCollisionFree, collisions: verdict.atNominal.collisions },
     }, facts);
@@ -169,7 +193,12 @@ async function readPlan(
   if (size < 0) return { reason: `it wrote no plan file (${basename(path)})` };
   if (size === 0) return { reason: 'the plan file is empty' };
   if (size > MAX_PLAN_BYTES) return { reason: `the plan file has ${size} bytes; at most ${MAX_PLAN_BYTES} are read` };
-  const text = await readFile(path, 'utf8');
+  let text: string;
+  try {
+    text = await readFile(path, 'utf8');
+  } catch (err) {
+    return { reason: `the plan file could not be read: ${(err as Error).message}` };
+  }
   const request = format === 'json'
     ? { format, fileName: basename(path), text, robotProfile: definition.robotProfile }
     : {

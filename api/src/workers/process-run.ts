@@ -6,6 +6,7 @@
 import { hostname } from 'node:os';
 import { QueryTypes, type Sequelize } from 'sequelize';
 import type { Logger } from 'pino';
+import type { SolverRef } from '@shared/external-solvers';
 import type { SolverBuild } from '@shared/runs';
 import type { SweepDefinition } from '@shared/sweeps';
 import type { PlanTask, PlanTaskResult } from '@solvers/run/plan-task';
@@ -38,6 +39,8 @@ export interface RunContext {
   signalFor(sweepId: number): AbortSignal;
   /** Whether the worker is stopping (no more DB retries then). */
   isStopping(): boolean;
+  /** The command hash this worker's operator approved for an external solver (WORKER_SOLVERS), or undefined. */
+  approvedCommand?(ref: SolverRef): string | undefined;
 }
 
 /** The worker name of this process. */

@@ -80,7 +80,8 @@ export async function recordRunResult(
         agents: run.agents, model: run.model, params: JSON.stringify(run.params), paramHash: run.paramHash, seed: run.seed,
         status: result.status, reason: result.reason ?? null, soc: result.soc, makespan: result.makespan,
         tiSoc: result.turnInclusiveSocMs, tiMakespan: result.turnInclusiveMakespanMs, lowerBound: result.lowerBound,
-        runtimeMs: result.runtimeMs, nodes: result.nodesGenerated, nodesExpanded: result.nodesExpanded, turns: result.turns,
+        runtimeMs: result.runtimeMs, // An external solver's search effort is never measured: null (shown as "–"), not 0.
+        nodes: external ? null : result.nodesGenerated, nodesExpanded: external ? null : result.nodesExpanded, turns: result.turns,
         profile: JSON.stringify(profile), profileHash: parameterHash(profile),
         version: external?.solverVersion ?? build.version, commit: build.commit, node: build.node, cpu: build.cpuModel, threads: build.threads,
         plan: result.plan ? gzipSync(JSON.stringify(result.plan)) : null,

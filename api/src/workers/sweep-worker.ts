@@ -6,7 +6,7 @@
 import type PgBoss from 'pg-boss';
 import type { Logger } from 'pino';
 import type { Sequelize } from 'sequelize';
-import { solverKey, type SolverRef } from '@shared/external-solvers';
+import { solverKey, type SolverRef, type WorkerSolver } from '@shared/external-solvers';
 import { defineModels } from '../db/models';
 import { createSequelize } from '../db/sequelize';
 import type { Mailer } from '../mail/mailer';
@@ -40,9 +40,10 @@ export interface SweepWorkerOptions {
   readonly warmMemoryLimitsMb?: readonly number[];
   /**
    * Registered external solvers installed on this machine (WORKER_SOLVERS): the worker takes jobs
-   * from each one's queue, one at a time per solver, beside its built-in runs (issue 16, item 4).
+   * from each one's queue, one at a time per solver, beside its built-in runs (issue 16, item 4),
+   * and runs a registration only when its command's SHA-256 is the one pinned here.
    */
-  readonly solvers?: readonly SolverRef[];
+  readonly solvers?: readonly WorkerSolver[];
 }
 
 /** The heap limit of the sweep form's default (web/src/app/sweeps/sweep-form-rules.ts), MB: warmed at start. */
@@ -52,7 +53,11 @@ export const WARM_MEMORY_LIMITS_MB: readonly number[] = [512];
 export interface SweepWorker {
   readonly threads: number;
   readonly name: string;
-  /** Stops taking jobs; `graceful` waits for running ones (up to `timeoutMs`), else aborts them (they are retried elsewhere). */
+  /**
+   * Stops taking jobs; `graceful` waits for running built-in ones (up to `timeoutMs`), else aborts
+   * them (they are retried elsewhere). Running external solvers are killed when the stop begins
+   * either way (one may run for an hour); their jobs come back like aborted built-in runs.
+   */
   stop(options?: { readonly graceful?: boolean; readonly timeoutMs?: number }): Promise<void>;
 }
 
@@ -146,7 +151,15 @@ export async function startSweepWorker(options: SweepWorkerOptions): Promise<Swe
   const solvers = missingTools.length > 0 ? [] : options.solvers ?? [];
   let declaration: SolverDeclaration = { stop: async () => undefined };
   const checkPool = solvers.length > 0 ? new PlanPool({ threads: solvers.length, filename: options.threadFile }) : undefined;
-  const externalCtx: RunContext = checkPool ? { ...ctx, pool: checkPool } : ctx;
+  // The command hash each solver's operator approved: a registration whose command differs is refused per run.
+  const approved = new Map(solvers.map((x) => [solverKey(x), x.commandSha256]));
+  // Aborted when the worker begins to stop: external processes are killed then (their jobs come back).
+  const externalStop = new AbortController();
+  const externalCtx: RunContext = {
+    ...ctx, pool: checkPool ?? pool,
+    signalFor: (sweepId) => AbortSignal.any([signalFor(sweepId), externalStop.signal]),
+    approvedCommand: (ref: SolverRef) => approved.get(solverKey(ref)),
+  };
   try {
     for (const ref of solvers) {
       const queue = externalRunQueue(ref);
@@ -178,6 +191,7 @@ export async function startSweepWorker(options: SweepWorkerOptions): Promise<Swe
         const graceful = stopOptions.graceful ?? true;
         for (const id of workIds) await boss.offWork({ id }).catch(() => undefined);
         isStopping = true;
+        externalStop.abort();
         if (!graceful) shutdown.abort();
         await boss.stop({ graceful, wait: true, timeout: stopOptions.timeoutMs ?? 30_000 }).catch(() => undefined);
         await declaration.stop();

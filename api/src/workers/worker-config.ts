@@ -1,23 +1,25 @@
 /** Settings of a stand-alone worker process (`npm run worker`), from the environment, validated with zod. */
 import { z } from 'zod';
-import { parseSolverKey, type SolverRef } from '@shared/external-solvers';
+import { parseWorkerSolverEntry, type WorkerSolver } from '@shared/external-solvers';
 import { defaultThreadCount } from './machine-info';
 
 /**
  * WORKER_SOLVERS: the registered external solvers this machine has installed, as a comma list of
- * name@version (issue 16, item 4). Empty or unset = none. Each entry appears once.
+ * name@version=sha256:<hex>, each pinning the SHA-256 of the command its operator approved
+ * (issue 16, item 4; shared/external-solvers.ts WorkerSolver). Empty or unset = none. Each
+ * solver appears once.
  */
-export function parseWorkerSolvers(text: string | undefined): { readonly ok: true; readonly solvers: SolverRef[] } | { readonly ok: false; readonly message: string } {
+export function parseWorkerSolvers(text: string | undefined): { readonly ok: true; readonly solvers: WorkerSolver[] } | { readonly ok: false; readonly message: string } {
   const entries = (text ?? '').split(',').map((e) => e.trim()).filter((e) => e !== '');
-  const solvers: SolverRef[] = [];
+  const solvers: WorkerSolver[] = [];
   const seen = new Set<string>();
   for (const entry of entries) {
-    const parsed = parseSolverKey(entry);
+    const parsed = parseWorkerSolverEntry(entry);
     if (!parsed.ok) return { ok: false, message: parsed.message };
-    const key = `${parsed.ref.name}@${parsed.ref.version}`;
+    const key = `${parsed.solver.name}@${parsed.solver.version}`;
     if (seen.has(key)) return { ok: false, message: `${key} is listed twice` };
     seen.add(key);
-    solvers.push(parsed.ref);
+    solvers.push(parsed.solver);
   }
   return { ok: true, solvers };
 }
@@ -26,7 +28,7 @@ export function parseWorkerSolvers(text: string | undefined): { readonly ok: tru
 export const workerSolversField = (fallback: string) => z.string().optional().transform((v, ctx) => {
   const parsed = parseWorkerSolvers(v ?? fallback);
   if (!parsed.ok) {
-    ctx.addIssue({ code: 'custom', message: `${parsed.message} (WORKER_SOLVERS is a comma list of name@version)` });
+    ctx.addIssue({ code: 'custom', message: `${parsed.message} (WORKER_SOLVERS is a comma list of name@version=sha256:<hex>)` });
     return z.NEVER;
   }
   return parsed.solvers;
@@ -53,7 +55,7 @@ export interface WorkerConfig {
   readonly logLevel: z.output<typeof WorkerEnv>['LOG_LEVEL'];
   readonly maintenanceSeconds: number;
   /** External solvers this machine runs (WORKER_SOLVERS). */
-  readonly solvers: readonly SolverRef[];
+  readonly solvers: readonly WorkerSolver[];
 }
 
 /** Reads the worker settings; throws an Error with one line per bad variable. */

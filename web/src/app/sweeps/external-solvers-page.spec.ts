@@ -13,7 +13,7 @@ import { ExternalSolverApi } from './external-solver-api';
 import ExternalSolversPage, { registrationProblem } from './external-solvers-page';
 
 const VIEW: ExternalSolverView = {
-  id: 4, name: 'prioritised-astar', version: '1.0.0', models: ['classic'], command: EXAMPLE_SOLVER.command, planFormat: 'text',
+  id: 4, name: 'prioritised-astar', version: '1.0.0', models: ['classic'], command: EXAMPLE_SOLVER.command, commandSha256: 'c0ffee'.repeat(10) + 'c0de', planFormat: 'text',
   description: 'Prioritised planning.', registeredBy: { id: 2, login: 'tobiah-venkat' }, createdAt: '2026-12-01T10:00:00.000Z', workers: [],
 };
 
@@ -57,6 +57,8 @@ describe('ExternalSolversPage', () => {
     const item = page.querySelector('[data-solver="prioritised-astar@1.0.0"]');
     expect(item?.textContent).toContain(EXAMPLE_SOLVER.command);
     expect(page.querySelector('[data-testid="solver-workers"]')?.textContent).toContain('No worker has declared it lately');
+    // The hash an operator pins in WORKER_SOLVERS to approve this command.
+    expect(page.querySelector('[data-testid="command-hash"]')?.textContent?.trim()).toBe(`sha256:${VIEW.commandSha256}`);
     // Researchers read; only maintainers register and remove.
     expect(page.querySelector('form')).toBeNull();
     expect(page.querySelector('button')).toBeNull();

@@ -39,7 +39,8 @@ export function registrationProblem(value: unknown): string | null {
     <p class="crumbs"><a routerLink="/sweeps">Sweeps</a></p>
     <h1>External solvers</h1>
     <p class="lead">Programs outside Quarterturn that compute plans in sweeps. A worker runs one only when its
-      <code>WORKER_SOLVERS</code> setting names it; each run is a child process under the run's time and memory limits, and its plan goes
+      <code>WORKER_SOLVERS</code> setting names it with the hash of the command its operator approved
+      (<code>name&#64;version=sha256:&lt;hash&gt;</code>, the hash shown below); each run is a child process under the run's time and memory limits, and its plan goes
       through the plan model's validator and the execution replays like a built-in result.</p>
 
     @if (solvers(); as list) {
@@ -59,6 +60,7 @@ export function registrationProblem(value: unknown): string | null {
               <dl>
                 <dt>Plan models</dt><dd>{{ x.models.join(', ') }} ({{ x.planFormat === 'json' ? 'JSON plan document' : 'text plan' }})</dd>
                 <dt>Command</dt><dd><code>{{ x.command }}</code></dd>
+                <dt>Command hash</dt><dd><code class="hash" data-testid="command-hash">sha256:{{ x.commandSha256 }}</code></dd>
                 <dt>Workers</dt>
                 <dd data-testid="solver-workers">@if (x.workers.length > 0) { {{ x.workers.join(', ') }} } @else {
                   <span class="warn">No worker has declared it lately: its runs wait until one does.</span> }</dd>
@@ -118,6 +120,7 @@ export function registrationProblem(value: unknown): string | null {
     .register { display: flex; flex-direction: column; gap: 8px; max-width: 760px; margin-top: 24px; }
     .row { display: flex; gap: 12px; flex-wrap: wrap; }
     .command { width: 100%; }
+    .hash { overflow-wrap: anywhere; }
     .problem { color: var(--mat-sys-error); min-height: 1.5em; margin: 0; }
   `,
   imports: [DatePipe, RouterLink, ReactiveFormsModule, MatButtonModule, MatButtonToggleModule, MatFormFieldModule, MatInputModule, MatSelectModule],
