@@ -62,7 +62,7 @@ import {
 } from './constraint';
 import { ConstraintTable } from './constraint-table';
 import {
-  type Conflict, K_CORRIDOR, K_EDGE, K_RECTANGLE, K_TARGET, K_VERTEX, makeConflict, P_CARDINAL, P_NON,
+  type Conflict, K_CORRIDOR, K_EDGE, K_RECTANGLE, K_TARGET, K_VERTEX, makeConflict, P_CARDINAL, P_NON, P_SEMI,
 } from './conflict';
 import { classifyByMdds } from './conflict-priority';
 import { findCorridorConflict } from './corridor-reasoning';
@@ -88,22 +88,29 @@ const INFEASIBLE = Number.POSITIVE_INFINITY;
 const PAIR_WEIGHT_CAPACITY = 50000;
 
 /**
- * The order in which a node's conflicts are split (lower first; ties go to the earliest time).
- * Target conflicts come first, cardinal before semi-cardinal, then the MDD classes of
- * Boyarski et al. (IJCAI 2015), cardinal first, rectangles before the plain conflicts of their class.
+ * The order in which a node's conflicts are split (lower first; ties go to the earliest time):
+ * target conflicts (cardinal, then semi-cardinal), then semi-cardinal vertex, edge and rectangle
+ * conflicts, then cardinal, then non-cardinal ones (the MDD classes of Boyarski et al., IJCAI
+ * 2015; rectangles before the plain conflicts of their class). k-delay and following conflicts
+ * keep the order cardinal, semi-cardinal, non-cardinal.
  *
- * Why targets first (our choice, measured on room-32-32-4; the order never changes which plans
- * some child admits, so optimality is untouched): a target conflict's first child always raises
- * a1's cost (its last arrival moves past t), and its second child's length constraint bars every
- * other agent, not just a2, from the goal cell from t on. Left for later, a semi-cardinal target
- * conflict is created again in every branch where some agent is replanned and its tie-breaking
- * prefers the route through the resting agent's goal (in rooms goals often lie in doors), and
- * then split once per branch. Splitting it first settles the goal cell for the whole subtree: on
- * room-32-32-4, 30 agents, even-1 one such conflict was a quarter of all splits (11,744 of
- * 48,465 expansions in 240 s, unsolved); split first, the instance needs 2,468 expansions.
+ * Our choice, measured on room-32-32-4 and random-32-32-20; the order only picks which complete
+ * split is made, never which plans some child admits, so optimality is untouched. ICBS splits
+ * cardinal conflicts first to raise the bound fastest, but with the WDG heuristic the cost of a
+ * cardinal conflict is mostly in h already. A conflict with one child that costs its agent
+ * nothing is different: that child's constraint settles the conflict for its whole subtree (a
+ * target conflict's "≤ t" child bars every other agent from the goal from t on; a semi-cardinal
+ * conflict's positive constraint under disjoint splitting bars every other agent from the cell
+ * or move). Left behind the cardinal ones, such a conflict is created again in each branch where
+ * some agent is replanned into it, and split once per branch. Room-32-32-4 even-1 with 30 agents:
+ * one semi-cardinal target conflict in a door was 11,744 of 48,465 splits (240 s, unsolved);
+ * targets first: 2,470 expansions; semi-cardinal conflicts next too: 1,031.
  */
 function splitRank(c: Conflict): number {
   if (c.kind === K_TARGET) return c.priority - 4;
+  if (c.priority === P_SEMI && (c.kind === K_VERTEX || c.kind === K_EDGE || c.kind === K_RECTANGLE)) {
+    return c.kind === K_RECTANGLE ? -2 : -1;
+  }
   return c.priority * 4 + (c.kind === K_RECTANGLE ? 0 : 1);
 }
 
