@@ -70,6 +70,11 @@ export interface ExternalSpecProgress {
   readonly workers: number;
   /** E.g. "waiting for a worker with solver prioritised-astar@1.0.0": pending runs and no such worker; null otherwise. */
   readonly waiting: string | null;
+  /**
+   * Why some of its runs ended in error without running, when a worker refused the registration:
+   * e.g. "2 runs refused: the worker's approved command differs from the registration of lacam@3 …"; null otherwise.
+   */
+  readonly refused: string | null;
 }
 
 /** One execution summary of a result (one policy). */

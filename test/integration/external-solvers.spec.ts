@@ -163,7 +163,7 @@ describe('external solvers in sweeps', () => {
     expect(rows.filter((r) => r.modelIndex === 1 && (r.cpuTimeMs ?? 0) > 0 && (r.peakMemoryKb ?? 0) > 0 && r.executions.length === 1)).toHaveLength(2);
     const detail = (await (await s.client.request(`/api/sweeps/${sweep.id}`)).json()) as SweepDetail;
     expect(detail.progress.perModel.map((m) => m.label)).toEqual(['classic', `classic by ${EXAMPLE.name}@${EXAMPLE.version}`]);
-    expect(detail.progress.perModel[1].external).toEqual({ solver: `${EXAMPLE.name}@${EXAMPLE.version}`, workers: 1, waiting: null });
+    expect(detail.progress.perModel[1].external).toEqual({ solver: `${EXAMPLE.name}@${EXAMPLE.version}`, workers: 1, waiting: null, refused: null });
 
     const cols = 'scenario,agents,model,variant,solver,socSteps';
     const page = (await (await s.client.request(`/api/leaderboards/rows?cols=${cols}&model.in=classic&sort=agents,variant&start=0&end=100`)).json()) as LeaderboardPage;
@@ -270,7 +270,7 @@ describe('external solvers in sweeps', () => {
     await new Promise((r) => setTimeout(r, 1500));
     const detail = (await (await s.client.request(`/api/sweeps/${sweep.id}`)).json()) as SweepDetail;
     expect(detail.progress.counts.pending).toBe(2);
-    expect(detail.progress.perModel[0].external).toEqual({ solver: 'lonely@1', workers: 0, waiting: 'waiting for a worker with solver lonely@1' });
+    expect(detail.progress.perModel[0].external).toEqual({ solver: 'lonely@1', workers: 0, waiting: 'waiting for a worker with solver lonely@1', refused: null });
     // Its jobs wait in the solver's own queue, expiring after the time limit (10 s) plus the plan check's 60 s plus the margin (3 s).
     const queue = externalRunQueue({ name: 'lonely', version: '1' });
     expect(queue).toMatch(/^qt-external-runs-lonely-1-[0-9a-f]{8}$/);
@@ -323,6 +323,9 @@ describe('external solvers in sweeps', () => {
     expect(run.reason).toContain(`registered command sha256:${swappedHash.slice(0, 16)}…`);
     // It never ran: the refused command would have said its environment.
     expect(run.reason).not.toContain('env:');
+    // The sweep page says why under the solver's row.
+    const detail = (await (await s.client.request(`/api/sweeps/${sweep.id}`)).json()) as SweepDetail;
+    expect(detail.progress.perModel[0].external?.refused).toBe("1 run refused: the worker's approved command differs from the registration of swapped@0.1 (the worker's operator pins the registered command's hash in WORKER_SOLVERS)");
 
     // crashes@0.1 has stored results (the misbehaving sweep): removing is allowed, registering it again is not.
     const list = (await (await s.client.request('/api/external-solvers')).json()) as ExternalSolverListResponse;

@@ -72,7 +72,7 @@ export function sweepResultsTable(sweepId: number, sweepName: string, def: Sweep
     ...['socSteps', 'socMs', 'makespanSteps', 'makespanMs', 'tiSocMs', 'tiMakespanMs', 'lowerBoundSteps', 'lowerBoundMs', 'gap', 'runtimeMs'].map(entryColumn),
     number('nodes', 'Search nodes'),
     // External solvers' runs are measured by the worker (issue 16, item 4); the columns show when a run has them.
-    ...(isMeasured ? [number('cpuTime', 'CPU time of the solver process', 'ms'), number('peakMemory', 'Peak memory of the solver process', 'kB')] : []),
+    ...(isMeasured ? [number('cpuTime', 'CPU time of the solver and the processes it waited for', 'ms'), number('peakMemory', 'Peak resident memory of the largest single solver process', 'kB')] : []),
     ...policies.flatMap((p) => p.columns),
   ];
   const inMs = (r: SweepResultRow) => r.model === 'weighted-split';

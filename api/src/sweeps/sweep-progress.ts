@@ -2,7 +2,7 @@
 import { QueryTypes, type Sequelize } from 'sequelize';
 import { emptyRunCounts, isSweepOver, type ExecutionView, type RunStatus, type SweepProgress, type SweepResultRow, type SweepStatus } from '@shared/runs';
 import { cbsSwitchLabel, forbidsFollowing, isBounded, suboptimalityOf, switchesOff, type ModelSpec, type SweepDefinition, type SweepPolicy } from '@shared/sweeps';
-import { solverKey } from '@shared/external-solvers';
+import { EXTERNAL_FAILURE_PREFIX, solverKey } from '@shared/external-solvers';
 import type { PlanModel } from '@shared/plan';
 import { workersWith } from '../external-solvers/external-solvers.service';
 
@@ -46,7 +46,16 @@ export async function readProgress(sequelize: Sequelize, sweepId: number, nowMs 
     const workers = (await workersWith(sequelize, ref)).length;
     const key = solverKey(ref);
     const waiting = pm.counts.pending > 0 && workers === 0 && !isSweepOver(sweep.status) ? `waiting for a worker with solver ${key}` : null;
-    return { ...pm, external: { solver: key, workers, waiting } };
+    // Runs a worker refused because the registered command is not the one its operator approved (process-external-run.ts).
+    const [unapproved] = pm.counts.error === 0 ? [{ n: '0' }] : await sequelize.query<{ n: string }>(
+      `SELECT count(*) AS n FROM runs WHERE sweep_id = :sweepId AND model_index = :modelIndex AND status = 'error' AND starts_with(reason, :prefix)`,
+      { replacements: { sweepId, modelIndex: pm.modelIndex, prefix: EXTERNAL_FAILURE_PREFIX.unapproved }, type: QueryTypes.SELECT },
+    );
+    const n = Number(unapproved?.n ?? 0);
+    const refused = n > 0
+      ? `${n} run${n === 1 ? '' : 's'} refused: the worker's approved command differs from the registration of ${key} (the worker's operator pins the registered command's hash in WORKER_SOLVERS)`
+      : null;
+    return { ...pm, external: { solver: key, workers, waiting, refused } };
   }));
   const total = sweep.run_count;
   const done = total - counts.pending - counts.running;

@@ -12,13 +12,13 @@ import { emptyRunCounts } from '@shared/runs';
 import { SweepApi, type SweepStreamEvent } from './sweep-api';
 import SweepDetailPage from './sweep-detail';
 
-function sweepWith(waiting: string | null, workers: number): SweepDetail {
+function sweepWith(waiting: string | null, workers: number, refused: string | null = null): SweepDetail {
   const progress: SweepProgress = {
     sweepId: 12, status: 'running', total: 4, done: 2, counts: { ...emptyRunCounts(), solved: 2, pending: 2 },
     perModel: [
       { modelIndex: 0, model: 'classic', label: 'classic', counts: { ...emptyRunCounts(), solved: 2 }, switchesOff: [] },
       { modelIndex: 1, model: 'classic', label: 'classic by lacam@3', counts: { ...emptyRunCounts(), pending: 2 }, switchesOff: [],
-        external: { solver: 'lacam@3', workers, waiting } },
+        external: { solver: 'lacam@3', workers, waiting, refused } },
     ],
     etaMs: null, startedAt: '2026-06-01T10:00:00.000Z', finishedAt: null,
   };
@@ -56,5 +56,15 @@ describe('SweepDetailPage with an external solver', () => {
   it('says nothing of waiting once a worker has it', async () => {
     const page = await pageFor(sweepWith(null, 1));
     expect(page.querySelector('[data-testid="external-waiting"]')).toBeNull();
+    expect(page.querySelector('[data-testid="external-refused"]')).toBeNull();
+  });
+
+  it('says under its row why runs were refused when the worker approved another command', async () => {
+    const why = "1 run refused: the worker's approved command differs from the registration of lacam@3 (the worker's operator pins the registered command's hash in WORKER_SOLVERS)";
+    const page = await pageFor(sweepWith(null, 1, why));
+    const refused = page.querySelectorAll('[data-testid="external-refused"]');
+    expect(refused).toHaveLength(1);
+    expect(refused[0].textContent?.trim()).toBe(`${why}.`);
+    expect(refused[0].closest('tr')?.querySelector('th')?.textContent).toContain('classic by lacam@3');
   });
 });

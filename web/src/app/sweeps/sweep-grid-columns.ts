@@ -92,10 +92,10 @@ export function sweepGridColumns(policies: readonly string[], models: readonly M
     // What an external solver's process used (issue 16, item 4); only in sweeps that run one.
     ...(models.some((m) => m.externalSolver) ? [
       { field: 'cpuTimeMs', headerName: 'CPU time (ms)', width: 130, type: 'rightAligned', valueFormatter: num(),
-        headerTooltip: 'User + system CPU time of an external solver\'s process (GNU time); empty for the built-in search' },
-      { colId: 'peakMemoryMb', headerName: 'Peak memory (MB)', width: 150, type: 'rightAligned', valueFormatter: num(1),
+        headerTooltip: 'User + system CPU time of an external solver\'s process and the processes it waited for (GNU time); empty for the built-in search' },
+      { colId: 'peakMemoryMb', headerName: 'Peak memory, largest process (MB)', width: 200, type: 'rightAligned', valueFormatter: num(1),
         valueGetter: (p) => (p.data?.peakMemoryKb === null || p.data?.peakMemoryKb === undefined ? null : p.data.peakMemoryKb / 1024),
-        headerTooltip: 'Largest resident memory of an external solver\'s process; empty for the built-in search' },
+        headerTooltip: 'Largest resident memory of any one process of an external solver (GNU time), not the sum over its processes; empty for the built-in search' },
     ] satisfies ColDef<SweepResultRow>[] : []),
     ...policies.flatMap((policy): ColDef<SweepResultRow>[] => [
       { colId: `success-${policy}`, headerName: `Execution success rate, ${policy} (%, 95 % CI)`, width: 280, type: 'rightAligned',
