@@ -337,4 +337,40 @@ describe('external solvers in sweeps', () => {
     expect(((await reused.json()) as { error: { message: string } }).error.message).toContain('crashes@0.1 has 1 stored result(s) from an earlier registration');
     expect((await register({ name: 'crashes', version: '0.2', models: ['classic'], command: scriptCommand(scriptDir, 'collides') })).status).toBe(201);
   });
+
+  it('kills a running solver when its worker stops gracefully, and the run comes back to the queue', async () => {
+    // A solver only a second worker declares (both workers live in this process: the same worker name).
+    expect((await register({ name: 'naps', version: '0.1', models: ['classic'], command: scriptCommand(scriptDir, 'sleeps') })).status).toBe(201);
+    const second = await startSweepWorker({
+      databaseUrl: db.url, threads: 1, logger: pino({ level: process.env.QT_TEST_LOG ?? 'silent' }), publicUrl: s.url, maintenanceSeconds: 1,
+      solvers: [{ name: 'naps', version: '0.1', commandSha256: commandSha256(scriptCommand(scriptDir, 'sleeps')) }],
+    });
+    let isStopped = false;
+    try {
+      const sweep = await launchSweep(s, baseDefinition(setId, {
+        name: 'worker stops while a solver naps', agentCounts: { kind: 'list', values: [2] },
+        models: [{ model: 'classic', externalSolver: { name: 'naps', version: '0.1' } }], timeLimitMs: 120_000,
+      }));
+      const script = join(scriptDir, 'sleeps.js');
+      await waitUntil(async () => processesWith(script).length > 0, 30_000, 'the napping solver to start');
+      const pids = processesWith(script);
+      const began = Date.now();
+      await second.stop({ graceful: true, timeoutMs: 60_000 });
+      isStopped = true;
+      // Killed when the stop began, not after the graceful timeout or the run's 120 s limit.
+      expect(Date.now() - began).toBeLessThan(15_000);
+      expect(processesWith(script)).toEqual([]);
+      expect(pids.length).toBeGreaterThan(0);
+      // The run is not recorded as an outcome: its job is back for another worker.
+      const [run] = await s.sql<{ status: string; job_id: string }>('SELECT status, job_id FROM runs WHERE sweep_id = :id', { id: sweep.id });
+      expect(['pending', 'running']).toContain(run.status);
+      const [job] = await s.sql<{ state: string }>('SELECT state FROM pgboss.job WHERE id = :id', { id: run.job_id });
+      expect(['retry', 'created']).toContain(job.state);
+      const results = await s.sql<{ n: string }>('SELECT count(*) AS n FROM results WHERE sweep_id = :id', { id: sweep.id });
+      expect(Number(results[0].n)).toBe(0);
+      expect((await s.client.request(`/api/sweeps/${sweep.id}/cancel`, { method: 'POST' })).status).toBe(200);
+    } finally {
+      if (!isStopped) await second.stop({ graceful: false });
+    }
+  });
 });
