@@ -71,6 +71,9 @@ describe('ExternalSolversPage', () => {
       el.value = value;
       el.dispatchEvent(new Event('input'));
     };
+    // Nothing typed yet: no refusal is shown, but the empty form cannot be sent.
+    expect(page.querySelector('[data-testid="solver-problem"]')?.textContent?.trim()).toBe('');
+    expect((page.querySelector('button[type="submit"]') as HTMLButtonElement).disabled).toBe(true);
     input('name', 'other');
     input('version', '2');
     input('command', '/opt/other {map} {scenario} {agents}');

@@ -91,7 +91,7 @@ export function registrationProblem(value: unknown): string | null {
           <mat-button-toggle value="text">Text plan</mat-button-toggle>
           <mat-button-toggle value="json">JSON plan document</mat-button-toggle>
         </mat-button-toggle-group>
-        <mat-form-field class="command">
+        <mat-form-field class="command" subscriptSizing="dynamic">
           <mat-label>Command</mat-label>
           <textarea matInput formControlName="command" rows="3" required></textarea>
           <mat-hint>{{ commandHint }}</mat-hint>
@@ -101,7 +101,7 @@ export function registrationProblem(value: unknown): string | null {
           <dl>@for (p of placeholders; track p[0]) { <dt><code>{{ '{' + p[0] + '}' }}</code></dt><dd>{{ p[1] }}</dd> }</dl>
         </details>
         <mat-form-field class="command"><mat-label>Description</mat-label><textarea matInput formControlName="description" rows="2" maxlength="2000"></textarea></mat-form-field>
-        <p class="problem" aria-live="polite" data-testid="solver-problem">{{ problem() ?? '' }}</p>
+        <p class="problem" aria-live="polite" data-testid="solver-problem">{{ shownProblem() ?? '' }}</p>
         <button mat-flat-button type="submit" [disabled]="problem() !== null || isSaving()">Register</button>
       </form>
     }
@@ -146,6 +146,10 @@ export default class ExternalSolversPage {
   });
   private readonly value = toSignal(this.form.valueChanges.pipe(map(() => this.form.getRawValue()), startWith(this.form.getRawValue())), { requireSync: true });
   protected readonly problem = computed(() => registrationProblem(this.value()));
+  /** Whether the person has changed the form since it was shown or last cleared (no refusal before the first keystroke). */
+  private readonly isEdited = toSignal(this.form.valueChanges.pipe(map(() => this.form.dirty), startWith(false)), { requireSync: true });
+  /** The refusal, once there is something of the person's to refuse; the Register button stays disabled either way. */
+  protected readonly shownProblem = computed(() => (this.isEdited() ? this.problem() : null));
 
   constructor() {
     this.load();
