@@ -53,6 +53,8 @@ describe('API tokens and the API reference in the browser', () => {
     expect(((await me.json()) as { account: { login: string } }).account.login).toBe(researcher.login);
 
     await page.getByRole('button', { name: 'Done' }).click();
+    // The secret leaves the page on the next render, not within the click: wait for it to go (5 s at most), then count.
+    await page.getByTestId('new-secret').waitFor({ state: 'detached', timeout: 5_000 }).catch(() => undefined);
     expect(await page.getByTestId('new-secret').count()).toBe(0);
     const row = page.getByRole('row', { name: /browser check/ });
     expect(await row.innerText()).toMatch(/read, submit/);
