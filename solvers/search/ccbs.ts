@@ -312,9 +312,7 @@ export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
    */
   function priceSplits(node: CtNode): { best: PricedChild[]; options: PricedChild[][] } {
     const options: PricedChild[][] = [];
-    let best: PricedChild[] = [];
-    let bestLow = -1;
-    let bestHigh = -1;
+    const best = new BestSplit<PricedChild>();
     for (const conflict of node.conflicts) {
       for (const option of branchOptions(conflict, q.forwardMs, neighbours)) {
         const priced = option.children.map((child): PricedChild => {
@@ -330,17 +328,10 @@ export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
         });
         if (isStopped) return { best: [], options: [] };
         options.push(priced);
-        const costs = priced.map(({ child, plan: p }) => (p ? node.cost - node.plans[child.agent].cost + p.cost : Infinity));
-        const low = Math.min(...costs);
-        const high = Math.max(...costs);
-        if (low > bestLow || (low === bestLow && high > bestHigh)) {
-          best = priced;
-          bestLow = low;
-          bestHigh = high;
-        }
+        best.offer(node, priced);
       }
     }
-    return { best, options };
+    return { best: best.split, options };
   }
 
   /** Adopts the first equally cheap child plan that meets fewer agents (then fewer visits); whether one was found. */
@@ -440,7 +431,7 @@ export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
   }
 
   /** Prices the sound splits of the node's first conflicts and returns the best, with its children's plans. */
-  function chooseSplit(node: CtNode): { child: BranchChild; plan: SippPlan | null; lb: number }[] {
+  function chooseSplit(node: CtNode): PricedChild[] {
     const memo = new Map<string, { plan: SippPlan | null; lb: number }>();
     const occupancy = w > 1 ? occupancyIndex(node.visits) : undefined;
     const childPlan = (child: BranchChild): { plan: SippPlan | null; lb: number } => {
@@ -453,25 +444,16 @@ export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
       }
       return hit;
     };
-    let best: { child: BranchChild; plan: SippPlan | null; lb: number }[] = [];
-    let bestLow = -1;
-    let bestHigh = -1;
+    const best = new BestSplit<PricedChild>();
     // The bounded search prices only the earliest conflict's splits: it gains more from many cheap expansions.
     for (const conflict of w > 1 ? node.conflicts.slice(0, 1) : node.conflicts) {
       for (const option of branchOptions(conflict, q.forwardMs, neighbours)) {
         const priced = option.children.map((child) => ({ child, ...childPlan(child) }));
         if (isStopped) return [];
-        const costs = priced.map(({ child, plan: p }) => (p ? node.cost - node.plans[child.agent].cost + p.cost : Infinity));
-        const low = Math.min(...costs);
-        const high = Math.max(...costs);
-        if (low > bestLow || (low === bestLow && high > bestHigh)) {
-          best = priced;
-          bestLow = low;
-          bestHigh = high;
-        }
+        best.offer(node, priced);
       }
     }
-    return best;
+    return best.split;
   }
 
   function finish(status: CcbsStatus, node: CtNode | null, bound: number | null): CcbsOutcome {
@@ -488,6 +470,28 @@ export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
 }
 
 /** Every ban on `agent` along the path from `node` to the root. */
+/**
+ * The split to branch on among those offered: the one whose cheaper child costs most, then whose
+ * dearer child costs most (a child without a plan costs Infinity), as ICBS prefers cardinal
+ * conflicts; the first offered wins ties.
+ */
+class BestSplit<T extends { readonly child: BranchChild; readonly plan: SippPlan | null }> {
+  split: T[] = [];
+  private low = -1;
+  private high = -1;
+
+  offer(node: CtNode, priced: T[]): void {
+    const costs = priced.map(({ child, plan: p }) => (p ? node.cost - node.plans[child.agent].cost + p.cost : Infinity));
+    const low = Math.min(...costs);
+    const high = Math.max(...costs);
+    if (low > this.low || (low === this.low && high > this.high)) {
+      this.split = priced;
+      this.low = low;
+      this.high = high;
+    }
+  }
+}
+
 function bansOf(node: CtNode, agent: number): AgentBan[] {
   const out: AgentBan[] = [];
   for (let n: CtNode | null = node; n; n = n.parent) if (n.agent === agent) out.push(...n.bans);

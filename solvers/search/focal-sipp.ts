@@ -15,6 +15,7 @@ import type { ActionKind } from '@shared/plan';
 import type { CellVisit } from './ccbs-conflict';
 import { ALWAYS_SAFE, earliestOutside, type Windows } from './sipp-constraints';
 import { SippHeap } from './sipp-heap';
+import { StampedBest } from './stamped-best';
 import { forwardTable, type SippPlan, type SippQuery, type SippStep } from './sipp';
 import { boundOf } from './suboptimality';
 
@@ -53,10 +54,8 @@ const NONE = -1;
 const SAFE_ALWAYS = ALWAYS_SAFE;
 const earliestFree = earliestOutside;
 
-/** The best node per search state, stamped per search as in sipp.ts (its own table: the searches never nest, but stay apart). */
-let bestStamp = new Int32Array(0);
-let bestNode = new Int32Array(0);
-let stamp = 0;
+/** The best node per search state (its own table: the searches never nest, but stay apart from sipp.ts's). */
+const best = new StampedBest();
 
 /** Finds a plan within w of the minimum arrival time, preferring little overlap with the others. */
 export function focalSippSearch(q: FocalSippQuery): FocalSippOutcome {
@@ -67,15 +66,8 @@ export function focalSippSearch(q: FocalSippQuery): FocalSippOutcome {
   const L = bans.goalNotBefore;
   const fwd = forwardTable(grid);
   const keys = grid.width * grid.height * 4 * maxIntervals * 2;
-  if (bestStamp.length < keys) {
-    bestStamp = new Int32Array(keys);
-    bestNode = new Int32Array(keys);
-    stamp = 0;
-  }
-  stamp = stamp === 0x7fffffff ? 1 : stamp + 1;
-  if (stamp === 1) bestStamp.fill(0);
-  const current = stamp;
-  const seenAt = (key: number): number => (bestStamp[key] === current ? bestNode[key] : NONE);
+  best.begin(keys);
+  const seenAt = (key: number): number => best.get(key, NONE);
   const overlaps = (cell: number, from: number, to: number): number => {
     const list = q.occupancy.get(cell);
     if (list === undefined) return 0;
@@ -127,8 +119,7 @@ export function focalSippSearch(q: FocalSippQuery): FocalSippOutcome {
     kindA.push(kind);
     moveStartA.push(moveStart);
     closedA.push(0);
-    bestStamp[key] = current;
-    bestNode[key] = id;
+    best.set(key, id);
     open.push(id);
     pending.push(id);
   };

@@ -23,6 +23,7 @@ import type { Grid } from '../grid/grid';
 import { forwardCell, HEADING_COUNT } from '../grid/heading-graph';
 import { ALWAYS_SAFE, earliestOutside, type CompiledBans, type Windows } from './sipp-constraints';
 import { SippHeap } from './sipp-heap';
+import { StampedBest } from './stamped-best';
 
 /** One timed action of a low-level plan; cells are indices, heading is the index after the action. */
 export interface SippStep {
@@ -88,13 +89,8 @@ export function forwardTable(grid: Grid): Int32Array {
   return table;
 }
 
-/**
- * The best node per search state, shared by all searches (SIPP is never re-entered): an entry
- * is valid only when its stamp is the current search's, so no table is cleared between searches.
- */
-let bestStamp = new Int32Array(0);
-let bestNode = new Int32Array(0);
-let stamp = 0;
+/** The best node per search state, shared by all searches (SIPP is never re-entered). */
+const best = new StampedBest();
 
 /** Action kinds of the node pool. */
 const K_WAIT = 0;
@@ -143,15 +139,8 @@ export function sippSearch(q: SippQuery): SippOutcome {
   const L = bans.goalNotBefore;
   const fwd = forwardTable(grid);
   const keys = grid.width * grid.height * 4 * maxIntervals * 2;
-  if (bestStamp.length < keys) {
-    bestStamp = new Int32Array(keys);
-    bestNode = new Int32Array(keys);
-    stamp = 0;
-  }
-  stamp = stamp === 0x7fffffff ? 1 : stamp + 1;
-  if (stamp === 1) bestStamp.fill(0);
-  const current = stamp;
-  const seenAt = (key: number): number => (bestStamp[key] === current ? bestNode[key] : NONE);
+  best.begin(keys);
+  const seenAt = (key: number): number => best.get(key, NONE);
 
   // Node storage in the shared pools below; `flag` is 1 for a goal-cell state whose visit began
   // at or after the late-goal bound (always 1 when there is none), 0 otherwise.
@@ -175,8 +164,7 @@ export function sippSearch(q: SippQuery): SippOutcome {
     pool.parent[id] = parent;
     pool.kind[id] = kind;
     pool.moveStart[id] = moveStart;
-    bestStamp[key] = current;
-    bestNode[key] = id;
+    best.set(key, id);
     heap.push(id);
   };
 
