@@ -5,12 +5,12 @@
  * beside the built-in models; the sweep runs both, and the results grid names the solver with its
  * CPU time and peak memory; the board shows its rows as their own variant. The page meets WCAG 2.1 AA.
  */
-import { createHash } from 'node:crypto';
 import { resolve } from 'node:path';
 import type { Page } from 'playwright-core';
 import { EXAMPLE_SOLVER } from '@shared/external-solvers';
 import type { LeaderboardPage } from '@shared/leaderboards';
 import type { SweepResultRow } from '@shared/runs';
+import { commandSha256 } from '../../api/src/external-solvers/command-hash';
 import { ensureWebBuild } from '../../scripts/web-build';
 import { createTestDatabase, type TestDatabase } from '../support/test-database';
 import { ROOT, spawnWorker, startSweepServer, uploadSet, workerReady, type SweepServer, type WorkerProcess } from '../reliability/support/sweep-harness';
@@ -25,7 +25,7 @@ jest.setTimeout(180_000);
 const admin = demoIdentity('admin');
 const KEY = `${EXAMPLE_SOLVER.name}@${EXAMPLE_SOLVER.version}`;
 /** The SHA-256 of the example's command: the worker's operator approves exactly this command (WORKER_SOLVERS). */
-const HASH = createHash('sha256').update(EXAMPLE_SOLVER.command, 'utf8').digest('hex');
+const HASH = commandSha256(EXAMPLE_SOLVER.command);
 
 describe('an external solver from the browser', () => {
   let db: TestDatabase;
