@@ -45,6 +45,8 @@ export interface WeightedSplitOptions {
    * SOC is at most w × `lowerBoundMs` (solvers/search/suboptimality.ts).
    */
   readonly suboptimality?: number;
+  /** Exact search: disjoint splitting (solvers/search/ccbs-branch.ts); on unless false (for ablation). */
+  readonly disjointSplitting?: boolean;
 }
 
 /** How a weighted-split solve ended: `timeout` covers both the time and the node limit. */
@@ -134,6 +136,7 @@ export function solveWeightedSplit(instance: MapfInstance, options: WeightedSpli
     nodeLimit: options.nodeLimit ?? Infinity,
     shouldStop,
     suboptimality: checkSuboptimality(options.suboptimality),
+    disjointSplitting: options.disjointSplitting,
   });
   const tail = {
     lowerBoundMs: out.lowerBound,

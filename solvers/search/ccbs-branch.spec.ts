@@ -112,6 +112,10 @@ function violates(start: number, plan: SippPlan, ban: AgentBan): boolean {
     // "must not START the forward move fromCell → toCell at any time in [from, to)".
     return plan.steps.some((s) => s.kind === 'forward' && s.from === ban.fromCell && s.to === ban.toCell && ban.from <= s.start && s.start < ban.to);
   }
+  if (ban.kind === 'landmark') {
+    // "MUST start one of `moves` at some time in [from, to)": no forward step does.
+    return !plan.steps.some((s) => s.kind === 'forward' && ban.moves.some((m) => m.fromCell === s.from && m.toCell === s.to) && ban.from <= s.start && s.start < ban.to);
+  }
   // "the final visit of its goal must begin at or after notBefore": that visit begins when the
   // last forward move (into the final cell, which it then holds) starts, or at 0 if it never moves.
   const lastForward = [...plan.steps].reverse().find((s) => s.kind === 'forward');

@@ -43,7 +43,7 @@
  * conflict-based search algorithm for multi-agent pathfinding", IJCAI 2015).
  */
 import type { OccupancyConflict } from './ccbs-conflict';
-import type { AgentBan } from './sipp-constraints';
+import type { AgentBan, LandmarkBan } from './sipp-constraints';
 
 /** One child of a CBS split: the agent whose plan it constrains and the new constraints. */
 export interface BranchChild {
@@ -110,4 +110,39 @@ export function branchOptions(conflict: OccupancyConflict, forwardMs: number, ne
     ],
   });
   return out;
+}
+
+/**
+ * Disjoint splitting (Li, Harabor, Stuckey, Felner, Ma, Koenig, "Disjoint splitting for
+ * multi-agent path finding with conflict-based search", ICAPS 2019; for continuous time as in
+ * Andreychuk, Yakovlev, Boyarski, Stern, "Improving continuous-time conflict based search",
+ * AAAI 2021): when one child's new constraint is a single move ban ¬P_x ("agent x starts none of
+ * these moves in [from, to)"), the other child may also require P_x, the landmark "x starts one
+ * of them in [from, to)". Sound: every plan satisfies ¬P_x or P_x; and a conflict-free plan with
+ * P_x satisfies the other child's own constraint, because each proof in the module comment
+ * derives exactly that constraint from x's move starting in that window (MOVE-MOVE: x = i, any
+ * move into or out of c started in [s_i, t* + F) overlaps j's banned starts; MOVE-OCCUPANCY:
+ * x = j, a move into c started in [t*, t* + δ) holds c over i's banned interval). So the two
+ * children's plan sets are disjoint and together hold every plan of the parent: no plan is
+ * explored twice, and x's later replans below the second child must keep the move.
+ * Progress: x's current plan breaks ¬P_x, so it meets P_x, and the second child keeps it.
+ *
+ * Returns the landmark and which child (0 or 1) takes it, or null when neither child's constraint
+ * is a single move window (MOVE-GOAL). The child of the move ban is preferred in offer order:
+ * MOVE-MOVE puts i's landmark into j's child, MOVE-OCCUPANCY j's landmark into i's child.
+ */
+export function disjointLandmark(children: readonly [BranchChild, BranchChild]): { agent: number; ban: LandmarkBan; into: 0 | 1 } | null {
+  for (const x of [0, 1] as const) {
+    const bans = children[x].bans;
+    if (bans.length === 0 || !bans.every((b) => b.kind === 'move')) continue;
+    const first = bans[0] as Extract<AgentBan, { kind: 'move' }>;
+    const moves = bans as readonly Extract<AgentBan, { kind: 'move' }>[];
+    if (!moves.every((b) => b.from === first.from && b.to === first.to)) continue;
+    return {
+      agent: children[x].agent,
+      ban: { kind: 'landmark', moves: moves.map(({ fromCell, toCell }) => ({ fromCell, toCell })), from: first.from, to: first.to },
+      into: x === 0 ? 1 : 0,
+    };
+  }
+  return null;
 }

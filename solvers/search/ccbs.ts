@@ -22,6 +22,9 @@
  *   before branching (the node's constraints, cost and admitted plans do not change).
  * - Replans and pair bounds are memoised across the tree by the agents' latest constraining
  *   nodes, since a plan depends only on its agent's bans (SIPP is deterministic).
+ * - Disjoint splitting (ccbs-branch.ts, disjointLandmark): where the chosen split allows it, one
+ *   child also gets the other agent's landmark, so the children share no plan; the landmark
+ *   joins that agent's bans (and its owner node) without replanning it, as its plan meets it.
  *
  * Bounded-suboptimal mode (`suboptimality` w > 1): the ECBS high level (Barer, Sharon, Stern,
  * Felner, SoCS 2014; focal-lists.ts) over a focal SIPP low level (focal-sipp.ts): each agent's
@@ -33,9 +36,9 @@
  * so LB never exceeds the optimum; a conflict-free node is returned only when its cost ≤ w × LB.
  */
 import type { Grid } from '../grid/grid';
-import { branchOptions, type BranchChild } from './ccbs-branch';
+import { branchOptions, disjointLandmark, type BranchChild } from './ccbs-branch';
 import { cellVisits, conflictPartners, findConflicts, visitsByCell, type CellVisit, type OccupancyConflict } from './ccbs-conflict';
-import { compileBans, type AgentBan } from './sipp-constraints';
+import { compileBans, type AgentBan, type LandmarkBan } from './sipp-constraints';
 import { forwardTable, sippSearch, type SippPlan } from './sipp';
 import { SippHeap } from './sipp-heap';
 import { FocalLists } from './focal-lists';
@@ -68,6 +71,8 @@ export interface CcbsQuery {
   readonly initialBans?: readonly (readonly AgentBan[])[];
   /** Exact mode: whether nodes use the pairwise sub-search bound (off inside those sub-searches). */
   readonly isPairBound?: boolean;
+  /** Exact mode: disjoint splitting (ccbs-branch.ts, disjointLandmark); on unless false. */
+  readonly disjointSplitting?: boolean;
 }
 
 /** How a search ended. */
@@ -85,6 +90,8 @@ export interface CcbsOutcome {
   readonly generated: number;
   readonly expanded: number;
   readonly lowLevelExpansions: number;
+  /** Exact mode: expansions whose split was made disjoint by a landmark. */
+  readonly disjointSplits: number;
 }
 
 interface CtNode {
@@ -93,6 +100,9 @@ interface CtNode {
   /** The agent this node's new bans apply to (-1 at the root). */
   readonly agent: number;
   readonly bans: readonly AgentBan[];
+  /** Disjoint splitting: the agent given a landmark by this node (-1: none), its plan unchanged. */
+  readonly markAgent: number;
+  readonly mark: AgentBan | null;
   /** Per agent its plan; exact mode may swap one for an equally cheap plan with fewer conflicts (bypass) before expansion. */
   plans: readonly SippPlan[];
   visits: readonly (readonly CellVisit[])[];
@@ -136,6 +146,7 @@ export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
   let generated = 0;
   let expanded = 0;
   let lowLevelExpansions = 0;
+  let disjointSplits = 0;
   let isStopped = false;
 
   const w = q.suboptimality ?? 1;
@@ -184,16 +195,21 @@ export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
   };
 
   const makeNode = (parent: CtNode | null, agent: number, bans: readonly AgentBan[], plans: readonly SippPlan[],
-    visits: readonly (readonly CellVisit[])[], lbs: readonly number[] = plans.map((p) => p.cost)): CtNode => {
+    visits: readonly (readonly CellVisit[])[], lbs: readonly number[] = plans.map((p) => p.cost),
+    landmark: { agent: number; ban: AgentBan } | null = null): CtNode => {
     const { conflicts, conflictingPairs } = findConflicts(visits, CANDIDATE_CONFLICTS, w === 1);
     const cost = plans.reduce((s, p) => s + p.cost, 0);
     const lb = lbs.reduce((s, v) => s + v, 0);
     const id = generated++;
     const owner = parent ? parent.owner.slice() : new Int32Array(q.agents.length).fill(-1);
     if (agent >= 0) owner[agent] = id;
+    if (landmark) owner[landmark.agent] = id;
     // Pathmax: the child admits a subset of the parent's plans, so the parent's f bounds it too.
     const f = Math.max(cost, parent ? parent.f : 0);
-    return { id, parent, agent, bans, plans, visits, cost, conflicts, conflictingPairs, lbs, lb, owner, f, split: null };
+    return {
+      id, parent, agent, bans, markAgent: landmark ? landmark.agent : -1, mark: landmark ? landmark.ban : null,
+      plans, visits, cost, conflicts, conflictingPairs, lbs, lb, owner, f, split: null,
+    };
   };
 
   // Sum of single-agent cost-to-go: the bound to report if the root itself is cut short.
@@ -262,18 +278,39 @@ export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
     expanded++;
     const split = top.split;
     top.split = null;
-    for (const { child, plan: p } of split) {
+    const landmark = q.disjointSplitting === false ? null : landmarkFor(top, split);
+    if (landmark) disjointSplits++;
+    for (const [index, { child, plan: p }] of split.entries()) {
       if (!p) continue;
       const plans = top.plans.slice();
       plans[child.agent] = p;
       const visits = top.visits.slice();
       visits[child.agent] = cellVisits(child.agent, q.agents[child.agent].start, p, q.forwardMs);
-      const node = makeNode(top, child.agent, child.bans, plans, visits);
+      const node = makeNode(top, child.agent, child.bans, plans, visits, undefined, landmark?.into === index ? landmark : null);
       nodes.push(node);
       open.push(node.id);
     }
   }
   return finish('infeasible', null, null);
+
+  /**
+   * The landmark disjoint splitting adds to one child of the split, or null: none when the split
+   * offers none, when its window overlaps one the agent already has (the low level meets
+   * landmarks in time order, so it needs them disjoint; the plain split stays sound), or when
+   * the agent's current plan does not meet it (never expected: progress says it does).
+   */
+  function landmarkFor(node: CtNode, split: readonly PricedChild[]): { agent: number; ban: LandmarkBan; into: 0 | 1 } | null {
+    if (split.length !== 2) return null;
+    const offer = disjointLandmark([split[0].child, split[1].child]);
+    if (offer === null) return null;
+    const { agent, ban } = offer;
+    for (const old of [...bansOf(node, agent), ...(q.initialBans?.[agent] ?? [])]) {
+      if (old.kind === 'landmark' && old.from < ban.to && ban.from < old.to) return null;
+    }
+    const keeps = node.plans[agent].steps.some((s) => s.kind === 'forward' && s.start >= ban.from && s.start < ban.to
+      && ban.moves.some((m) => m.fromCell === s.from && m.toCell === s.to));
+    return keeps ? offer : null;
+  }
 
   /** The bounded loop: FOCAL's best node, children as in the exact loop. */
   function searchBounded(w: number): CcbsOutcome {
@@ -418,6 +455,7 @@ export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
       shouldStop: q.shouldStop,
       initialBans: [[...bansOf(node, i), ...(q.initialBans?.[i] ?? [])], [...bansOf(node, j), ...(q.initialBans?.[j] ?? [])]],
       isPairBound: false,
+      disjointSplitting: q.disjointSplitting,
     });
     lowLevelExpansions += out.lowLevelExpansions;
     if (out.status === 'stopped') {
@@ -465,6 +503,7 @@ export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
       generated,
       expanded,
       lowLevelExpansions,
+      disjointSplits,
     };
   }
 }
@@ -494,11 +533,19 @@ class BestSplit<T extends { readonly child: BranchChild; readonly plan: SippPlan
 
 function bansOf(node: CtNode, agent: number): AgentBan[] {
   const out: AgentBan[] = [];
-  for (let n: CtNode | null = node; n; n = n.parent) if (n.agent === agent) out.push(...n.bans);
+  for (let n: CtNode | null = node; n; n = n.parent) {
+    if (n.agent === agent) out.push(...n.bans);
+    if (n.markAgent === agent && n.mark) out.push(n.mark);
+  }
   return out;
 }
 
 /** A text key of a list of bans (memo keys). */
 function banKey(bans: readonly AgentBan[]): string {
-  return bans.map((b) => (b.kind === 'occupancy' ? `o${b.cell},${b.from},${b.to}` : b.kind === 'move' ? `m${b.fromCell},${b.toCell},${b.from},${b.to}` : `g${b.notBefore}`)).join(';');
+  return bans.map((b) => {
+    if (b.kind === 'occupancy') return `o${b.cell},${b.from},${b.to}`;
+    if (b.kind === 'move') return `m${b.fromCell},${b.toCell},${b.from},${b.to}`;
+    if (b.kind === 'landmark') return `p${b.moves.map((m) => `${m.fromCell}>${m.toCell}`).join('/')},${b.from},${b.to}`;
+    return `g${b.notBefore}`;
+  }).join(';');
 }

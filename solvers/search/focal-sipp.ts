@@ -64,6 +64,8 @@ export function focalSippSearch(q: FocalSippQuery): FocalSippOutcome {
   let maxIntervals = 1;
   for (const w of bans.safe.values()) maxIntervals = Math.max(maxIntervals, w.from.length);
   const L = bans.goalNotBefore;
+  // Landmarks come only from the exact search's disjoint splits (ccbs.ts); this search has no layers for them.
+  if (bans.landmarks.length > 0) throw new Error('focal SIPP does not take landmarks (disjoint splitting is exact mode only)');
   const fwd = forwardTable(grid);
   const keys = grid.width * grid.height * 4 * maxIntervals * 2;
   best.begin(keys);

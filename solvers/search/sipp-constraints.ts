@@ -29,8 +29,31 @@ export interface LateGoalBan {
   readonly notBefore: number;
 }
 
+/**
+ * A positive constraint (a landmark of disjoint splitting, issue 15): the agent MUST start one
+ * of `moves` at some time in [from, to). It is the complement of a move ban over the same moves
+ * and window, given to the other child of a split (see ccbs-branch.ts, disjointSplit).
+ */
+export interface LandmarkBan {
+  readonly kind: 'landmark';
+  readonly moves: readonly { readonly fromCell: number; readonly toCell: number }[];
+  readonly from: number;
+  readonly to: number;
+}
+
 /** Any constraint of the weighted-split CBS on one agent. */
-export type AgentBan = OccupancyBan | MoveBan | LateGoalBan;
+export type AgentBan = OccupancyBan | MoveBan | LateGoalBan | LandmarkBan;
+
+/** One compiled landmark: the move keys (`fromCell * cellCount + toCell`) and the start window. */
+export interface Landmark {
+  readonly keys: ReadonlySet<number>;
+  /** The cell every move enters (`isInto`) or every move leaves. */
+  readonly cell: number;
+  readonly isInto: boolean;
+  readonly moves: readonly { readonly fromCell: number; readonly toCell: number }[];
+  readonly from: number;
+  readonly to: number;
+}
 
 /** Sorted, disjoint, non-touching half-open windows as two parallel arrays. */
 export interface Windows {
@@ -48,6 +71,11 @@ export interface CompiledBans {
   readonly goalNotBefore: number;
   /** The grid's cell count, for move keys. */
   readonly cellCount: number;
+  /**
+   * The landmarks in time order; their windows never overlap (the high level adds a landmark only
+   * then), so any plan meets them in this order and the low level passes them one by one.
+   */
+  readonly landmarks: readonly Landmark[];
 }
 
 /** The single safe interval of a cell without occupancy bans. */
@@ -105,6 +133,7 @@ export function compileBans(bans: readonly AgentBan[], cellCount: number): Compi
   const occupancy = new Map<number, { from: number; to: number }[]>();
   const moves = new Map<number, { from: number; to: number }[]>();
   let goalNotBefore = 0;
+  const landmarks: Landmark[] = [];
   for (const ban of bans) {
     if (ban.kind === 'occupancy') {
       const list = occupancy.get(ban.cell) ?? [];
@@ -115,13 +144,24 @@ export function compileBans(bans: readonly AgentBan[], cellCount: number): Compi
       const list = moves.get(key) ?? [];
       list.push(ban);
       moves.set(key, list);
+    } else if (ban.kind === 'landmark') {
+      const isInto = ban.moves.every((m) => m.toCell === ban.moves[0].toCell);
+      const cell = isInto ? ban.moves[0].toCell : ban.moves[0].fromCell;
+      if (ban.moves.length === 0 || (!isInto && !ban.moves.every((m) => m.fromCell === cell))) {
+        throw new Error('a landmark lists moves into one cell or moves out of one cell');
+      }
+      landmarks.push({ keys: new Set(ban.moves.map((m) => m.fromCell * cellCount + m.toCell)), cell, isInto, moves: ban.moves, from: ban.from, to: ban.to });
     } else {
       goalNotBefore = Math.max(goalNotBefore, ban.notBefore);
     }
+  }
+  landmarks.sort((a, b) => a.from - b.from);
+  for (let k = 1; k < landmarks.length; k++) {
+    if (landmarks[k].from < landmarks[k - 1].to) throw new Error(`landmark windows overlap: [${landmarks[k - 1].from}, ${landmarks[k - 1].to}) and [${landmarks[k].from}, ${landmarks[k].to})`);
   }
   const safe = new Map<number, Windows>();
   for (const [cell, list] of occupancy) safe.set(cell, complementWindows(mergeWindows(list)));
   const moveWindows = new Map<number, Windows>();
   for (const [key, list] of moves) moveWindows.set(key, mergeWindows(list));
-  return { safe, moveWindows, goalNotBefore, cellCount };
+  return { safe, moveWindows, goalNotBefore, cellCount, landmarks };
 }

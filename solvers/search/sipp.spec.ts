@@ -113,6 +113,59 @@ describe('sippSearch without constraints', () => {
   });
 });
 
+describe('sippSearch with landmarks (positive constraints of disjoint splitting)', () => {
+  it('matches graphology Dijkstra over the time-expanded graph layered by landmarks met', () => {
+    // Arrange: as above, plus one or two landmarks with disjoint windows, each a set of moves
+    // into (or out of) one cell, as the high level makes them.
+    const rng = createRng(314);
+    let compared = 0;
+    let landmarkRaises = 0;
+    let unreachable = 0;
+    for (let trial = 0; trial < 60; trial++) {
+      const grid = randomGrid(rng, 2 + rng.int(3), 2 + rng.int(3), 0.15);
+      const cells = freeCells(grid);
+      if (cells.length < 3) continue;
+      const start = cells[rng.int(cells.length)];
+      const goal = cells[rng.int(cells.length)];
+      const F = 1 + rng.int(3);
+      const T = 1 + rng.int(3);
+      const headings = trial % 2 === 0 ? [0, 1, 2, 3] : [rng.int(4)];
+      const bans: AgentBan[] = [];
+      for (let k = rng.int(4); k > 0; k--) {
+        const from = rng.int(20);
+        bans.push({ kind: 'occupancy', cell: cells[rng.int(cells.length)], from, to: from + 1 + rng.int(4) });
+      }
+      let windowStart = rng.int(6);
+      for (let k = 1 + rng.int(2); k > 0; k--) {
+        const c = cells[rng.int(cells.length)];
+        const around = [0, 1, 2, 3].map((h) => forwardCell(grid, c, h)).filter((n) => n >= 0);
+        if (around.length === 0) continue;
+        const isInto = rng.next() < 0.7;
+        const moves = around.map((n) => (isInto ? { fromCell: n, toCell: c } : { fromCell: c, toCell: n }));
+        const to = windowStart + 1 + rng.int(8);
+        bans.push({ kind: 'landmark', moves, from: windowStart, to });
+        windowStart = to + rng.int(6);
+      }
+      // Act
+      const ours = plan(grid, start, goal, headings, F, T, bans);
+      const withoutLandmarks = plan(grid, start, goal, headings, F, T, bans.filter((b) => b.kind !== 'landmark'));
+      // Oracle: graphology-shortest-path 2.1 Dijkstra on the time-expanded graph (npm).
+      const theirs = timeExpandedCost(grid, start, goal, headings, F, T, bans, 70);
+      // Assert
+      expect(ours === null || ours.cost < 70).toBe(true);
+      expect(ours ? ours.cost : Infinity).toBe(theirs);
+      compared++;
+      if (ours === null) unreachable++;
+      else if (withoutLandmarks && ours.cost > withoutLandmarks.cost) landmarkRaises++;
+    }
+    // The sample is not vacuous: most trials compared, landmarks raised the cost on several, and
+    // some landmark sets could not be met at all.
+    expect(compared).toBeGreaterThan(40);
+    expect(landmarkRaises).toBeGreaterThan(5);
+    expect(unreachable).toBeGreaterThan(0);
+  });
+});
+
 /**
  * The time-expanded graph of one agent under constraints, as an oracle for the constrained
  * search: nodes (cell, heading, t, visit-began-late flag) for t ≤ horizon, edges wait 1 ms,
@@ -123,8 +176,13 @@ function timeExpandedCost(grid: Grid, start: number, goal: number, headings: rea
   const moves = bans.filter((b) => b.kind === 'move');
   const L = Math.max(0, ...bans.map((b) => (b.kind === 'late-goal' ? b.notBefore : 0)));
   const free = (c: number, a: number, b: number): boolean => occ.every((o) => o.cell !== c || !(o.from < b && a < o.to));
+  // Landmarks met so far, by the plain reading: layer m may advance on a forward move that is one
+  // of landmark m's moves and starts in its window (in the order given, which is the time order).
+  const marks = bans.flatMap((b) => (b.kind === 'landmark' ? [b] : []));
+  const meets = (layer: number, c: number, n: number, t: number): boolean =>
+    layer < marks.length && marks[layer].from <= t && t < marks[layer].to && marks[layer].moves.some((m) => m.fromCell === c && m.toCell === n);
   const g = new DirectedGraph();
-  const node = (c: number, h: number, t: number, f: number): string => `${c}:${h}:${t}:${f}`;
+  const node = (c: number, h: number, t: number, f: number, layer = 0): string => `${c}:${h}:${t}:${f}:${layer}`;
   const ensure = (k: string): string => (g.hasNode(k) ? k : (g.addNode(k), k));
   g.addNode('S');
   g.addNode('G');
@@ -133,18 +191,21 @@ function timeExpandedCost(grid: Grid, start: number, goal: number, headings: rea
     for (let h = 0; h < 4; h++) {
       for (let t = 0; t <= horizon; t++) {
         for (const f of [0, 1]) {
-          const here = ensure(node(c, h, t, f));
-          if (t + 1 <= horizon && free(c, t, t + 1)) g.addEdge(here, ensure(node(c, h, t + 1, f)), { weight: 1 });
-          if (t + T <= horizon && free(c, t, t + T)) {
-            g.addEdge(here, ensure(node(c, turnedLeft(h), t + T, f)), { weight: T });
-            g.addEdge(here, ensure(node(c, turnedRight(h), t + T, f)), { weight: T });
+          for (let layer = 0; layer <= marks.length; layer++) {
+            const here = ensure(node(c, h, t, f, layer));
+            if (t + 1 <= horizon && free(c, t, t + 1)) g.addEdge(here, ensure(node(c, h, t + 1, f, layer)), { weight: 1 });
+            if (t + T <= horizon && free(c, t, t + T)) {
+              g.addEdge(here, ensure(node(c, turnedLeft(h), t + T, f, layer)), { weight: T });
+              g.addEdge(here, ensure(node(c, turnedRight(h), t + T, f, layer)), { weight: T });
+            }
+            const n = forwardCell(grid, c, h);
+            const isBanned = moves.some((m) => m.fromCell === c && m.toCell === n && m.from <= t && t < m.to);
+            if (n >= 0 && t + F <= horizon && !isBanned && free(c, t, t + F) && free(n, t, t + F)) {
+              const next = meets(layer, c, n, t) ? layer + 1 : layer;
+              g.addEdge(here, ensure(node(n, h, t + F, t >= L ? 1 : 0, next)), { weight: F });
+            }
+            if (c === goal && f === 1 && layer === marks.length && free(c, t, Infinity)) g.addEdge(here, 'G', { weight: 0 });
           }
-          const n = forwardCell(grid, c, h);
-          const isBanned = moves.some((m) => m.fromCell === c && m.toCell === n && m.from <= t && t < m.to);
-          if (n >= 0 && t + F <= horizon && !isBanned && free(c, t, t + F) && free(n, t, t + F)) {
-            g.addEdge(here, ensure(node(n, h, t + F, t >= L ? 1 : 0)), { weight: F });
-          }
-          if (c === goal && f === 1 && free(c, t, Infinity)) g.addEdge(here, 'G', { weight: 0 });
         }
       }
     }

@@ -17,11 +17,25 @@
  * current cell over [g, g + quarterTurnMs). The goal is reached in a state of the goal cell
  * whose safe interval is unbounded (the agent stays forever) and whose visit began no earlier
  * than the late-goal constraint allows.
+ *
+ * Landmarks (positive constraints of disjoint splitting, sipp-constraints.ts): the state also
+ * holds how many of the agent's landmarks the path has met, in their time order (their windows
+ * do not overlap, so every plan meets them in that order); a forward move that is one of the
+ * next landmark's moves and starts inside its window may advance that count (taken both ways, so
+ * no plan is lost), waiting for the window to open where needed, and only a state that has met
+ * them all ends the search. Each count is a separate layer of states, so arriving earlier still
+ * dominates within a layer and the search stays exact. The estimate of a state is also at least
+ * the earliest arrival the remaining landmarks allow: the next landmark's move ends no earlier
+ * than its window allows nor than the agent can reach the landmark's cell (exact cost-to-go to
+ * that cell, grid/heading-graph-distances.ts), every later one no earlier than its window, and
+ * after each the agent still has to reach its goal from the moved-to state. Each part is a lower
+ * bound on the same arrival time, so their maximum stays admissible.
  */
 import type { ActionKind } from '@shared/plan';
 import type { Grid } from '../grid/grid';
 import { forwardCell, HEADING_COUNT } from '../grid/heading-graph';
-import { ALWAYS_SAFE, earliestOutside, type CompiledBans, type Windows } from './sipp-constraints';
+import { headingDistancesToGoal } from '../grid/heading-graph-distances';
+import { ALWAYS_SAFE, earliestOutside, type CompiledBans, type Landmark, type Windows } from './sipp-constraints';
 import { SippHeap } from './sipp-heap';
 import { StampedBest } from './stamped-best';
 
@@ -105,8 +119,10 @@ const pool = {
   head: new Uint8Array(1024),
   iv: new Int32Array(1024),
   flag: new Uint8Array(1024),
+  layer: new Int32Array(1024),
   g: new Float64Array(1024),
   f: new Float64Array(1024),
+  tie: new Float64Array(1024),
   parent: new Int32Array(1024),
   kind: new Uint8Array(1024),
   moveStart: new Float64Array(1024),
@@ -123,8 +139,10 @@ function growPool(): void {
   pool.head = grow(pool.head);
   pool.iv = grow(pool.iv);
   pool.flag = grow(pool.flag);
+  pool.layer = grow(pool.layer);
   pool.g = grow(pool.g);
   pool.f = grow(pool.f);
+  pool.tie = grow(pool.tie);
   pool.parent = grow(pool.parent);
   pool.kind = grow(pool.kind);
   pool.moveStart = grow(pool.moveStart);
@@ -138,19 +156,41 @@ export function sippSearch(q: SippQuery): SippOutcome {
   for (const w of bans.safe.values()) maxIntervals = Math.max(maxIntervals, w.from.length);
   const L = bans.goalNotBefore;
   const fwd = forwardTable(grid);
-  const keys = grid.width * grid.height * 4 * maxIntervals * 2;
+  const landmarks = bans.landmarks;
+  const layers = landmarks.length + 1;
+  const floors = layerFloors(landmarks, fwd, F, heuristic);
+  const towards = landmarks.map((m) => distancesToCell(grid, m.cell, F, T));
+  const after = landmarks.map((m) => leastAfter(m, fwd, heuristic));
+  const keys = grid.width * grid.height * 4 * maxIntervals * 2 * layers;
   best.begin(keys);
   const seenAt = (key: number): number => best.get(key, NONE);
 
   // Node storage in the shared pools below; `flag` is 1 for a goal-cell state whose visit began
   // at or after the late-goal bound (always 1 when there is none), 0 otherwise.
   let count = 0;
-  const heap = new SippHeap((a, b) => pool.f[a] < pool.f[b] || (pool.f[a] === pool.f[b] && (pool.g[a] > pool.g[b] || (pool.g[a] === pool.g[b] && a < b))));
+  // Ties on f go to the state nearer its next landmark (`tie`, 0 with none ahead), then to the
+  // later one: without the first, states that could reach a landmark before its window opens
+  // would all share f and be expanded as one plateau.
+  const heap = new SippHeap((a, b) => pool.f[a] < pool.f[b] || (pool.f[a] === pool.f[b] && (pool.tie[a] < pool.tie[b]
+    || (pool.tie[a] === pool.tie[b] && (pool.g[a] > pool.g[b] || (pool.g[a] === pool.g[b] && a < b))))));
 
-  const add = (cell: number, head: number, iv: number, flag: number, g: number, parent: number, kind: number, moveStart: number): void => {
+  const add = (cell: number, head: number, iv: number, flag: number, layer: number, g: number, parent: number, kind: number, moveStart: number): void => {
     const h = heuristic[cell * 4 + head];
-    if (h === Infinity) return;
-    const key = ((cell * 4 + head) * maxIntervals + iv) * 2 + flag;
+    if (h === Infinity || floors[layer] === Infinity) return;
+    let f = g + h;
+    let tie = 0;
+    if (layer < layers - 1) {
+      // The next landmark's move ends no earlier than this (see the module comment).
+      const mark = landmarks[layer];
+      const reach = g + towards[layer][cell * 4 + head];
+      // Too late for the window: this state can't meet the landmark, so no plan goes through it.
+      if ((mark.isInto ? reach - F : reach) >= mark.to) return;
+      const end = mark.isInto ? Math.max(mark.from + F, reach) : Math.max(mark.from, reach) + F;
+      f = Math.max(f, end + after[layer], floors[layer]);
+      tie = reach;
+      if (f === Infinity) return;
+    }
+    const key = (((cell * 4 + head) * maxIntervals + iv) * 2 + flag) * layers + layer;
     const seen = seenAt(key);
     if (seen !== NONE && pool.g[seen] <= g) return;
     const id = count++;
@@ -159,8 +199,10 @@ export function sippSearch(q: SippQuery): SippOutcome {
     pool.head[id] = head;
     pool.iv[id] = iv;
     pool.flag[id] = flag;
+    pool.layer[id] = layer;
     pool.g[id] = g;
-    pool.f[id] = g + h;
+    pool.f[id] = f;
+    pool.tie[id] = tie;
     pool.parent[id] = parent;
     pool.kind[id] = kind;
     pool.moveStart[id] = moveStart;
@@ -171,7 +213,7 @@ export function sippSearch(q: SippQuery): SippOutcome {
   const startSafe = safeOf(q.start);
   if (startSafe.from[0] === 0 && startSafe.to[0] > 0) {
     const flag = q.start === goal && startSafe.to[0] === Infinity && L <= 0 ? 1 : 0;
-    for (const h of q.startHeadings) add(q.start, h, 0, flag, 0, NONE, K_WAIT, 0);
+    for (const h of q.startHeadings) add(q.start, h, 0, flag, 0, 0, NONE, K_WAIT, 0);
   }
 
   let expansions = 0;
@@ -182,40 +224,56 @@ export function sippSearch(q: SippQuery): SippOutcome {
     const head = pool.head[id];
     const iv = pool.iv[id];
     const flag = pool.flag[id];
+    const layer = pool.layer[id];
     const g = pool.g[id];
-    if (seenAt(((cell * 4 + head) * maxIntervals + iv) * 2 + flag) !== id) continue;
+    if (seenAt((((cell * 4 + head) * maxIntervals + iv) * 2 + flag) * layers + layer) !== id) continue;
     const safe = safeOf(cell);
     const hi = safe.to[iv];
-    if (cell === goal && hi === Infinity && flag === 1) return { plan: rebuild(id), expansions, isStopped: false };
+    if (cell === goal && hi === Infinity && flag === 1 && layer === layers - 1) return { plan: rebuild(id), expansions, isStopped: false };
     expansions++;
 
     // Turns keep the cell (and so the safe interval and the goal flag).
     if (g + T <= hi) {
-      add(cell, (head + 3) & 3, iv, flag, g + T, id, K_LEFT, g); // a left turn: heading − 1 (mod 4)
-      add(cell, (head + 1) & 3, iv, flag, g + T, id, K_RIGHT, g);
+      add(cell, (head + 3) & 3, iv, flag, layer, g + T, id, K_LEFT, g); // a left turn: heading − 1 (mod 4)
+      add(cell, (head + 1) & 3, iv, flag, layer, g + T, id, K_RIGHT, g);
     }
 
     // Forward: one successor per reachable safe interval of the next cell.
     const next = fwd[cell * 4 + head];
     if (next === NONE) continue;
     const nextSafe = safeOf(next);
-    const moveWin = bans.moveWindows.get(cell * bans.cellCount + next);
+    const moveKey = cell * bans.cellCount + next;
+    const moveWin = bans.moveWindows.get(moveKey);
+    // The next landmark, when this move is one of its moves.
+    const mark = layer < layers - 1 && landmarks[layer].keys.has(moveKey) ? landmarks[layer] : null;
     for (let k = 0; k < nextSafe.from.length; k++) {
       if (nextSafe.to[k] <= g) continue;
       const start = earliestFree(moveWin, Math.max(g, nextSafe.from[k]));
       if (start + F > hi) break; // later intervals start later still
       if (start + F > nextSafe.to[k]) continue;
       const isFinalGoal = next === goal && nextSafe.to[k] === Infinity;
-      if (!isFinalGoal || start >= L) {
-        add(next, head, k, isFinalGoal ? 1 : 0, start + F, id, K_FORWARD, start);
-      } else {
-        add(next, head, k, 0, start + F, id, K_FORWARD, start);
-        const late = earliestFree(moveWin, L);
-        if (late + F <= hi) add(next, head, k, 1, late + F, id, K_FORWARD, late);
+      forward(next, head, k, isFinalGoal, start, layer, Infinity, hi, moveWin, id);
+      if (mark !== null) {
+        // The same move meeting the landmark: at the earliest start inside its window.
+        const inWindow = earliestFree(moveWin, Math.max(start, mark.from));
+        if (inWindow < mark.to && inWindow + F <= hi && inWindow + F <= nextSafe.to[k]) {
+          forward(next, head, k, isFinalGoal, inWindow, layer + 1, mark.to, hi, moveWin, id);
+        }
       }
     }
   }
   return { plan: null, expansions, isStopped: false };
+
+  /** Adds the forward move started at `start` (and, into the final goal visit before the late-goal bound, its late variant starting before `until`). */
+  function forward(next: number, head: number, k: number, isFinalGoal: boolean, start: number, layer: number, until: number, hi: number, moveWin: Windows | undefined, id: number): void {
+    if (!isFinalGoal || start >= L) {
+      add(next, head, k, isFinalGoal ? 1 : 0, layer, start + F, id, K_FORWARD, start);
+      return;
+    }
+    add(next, head, k, 0, layer, start + F, id, K_FORWARD, start);
+    const late = earliestFree(moveWin, L);
+    if (late + F <= hi && late < until) add(next, head, k, 1, layer, late + F, id, K_FORWARD, late);
+  }
 
   function rebuild(last: number): SippPlan {
     const chain: number[] = [];
@@ -234,4 +292,54 @@ export function sippSearch(q: SippQuery): SippOutcome {
     }
     return { steps, cost: pool.g[last] };
   }
+}
+
+/**
+ * Per layer (landmarks met so far) a lower bound on the arrival time: every landmark still ahead
+ * must be met by a move started no earlier than its window opens, and the agent then still needs
+ * at least the cost-to-go of the state that move leads to. Infinity when a landmark can't lead
+ * to the goal at all; 0 once every landmark is met.
+ */
+function layerFloors(landmarks: readonly Landmark[], fwd: Int32Array, F: number, heuristic: Float64Array): Float64Array {
+  const floors = new Float64Array(landmarks.length + 1);
+  for (let k = landmarks.length - 1; k >= 0; k--) {
+    let least = Infinity;
+    for (const { fromCell, toCell } of landmarks[k].moves) {
+      for (let h = 0; h < 4; h++) {
+        if (fwd[fromCell * 4 + h] === toCell) least = Math.min(least, landmarks[k].from + F + heuristic[toCell * 4 + h]);
+      }
+    }
+    floors[k] = Math.max(least, floors[k + 1]);
+  }
+  return floors;
+}
+
+/** Least cost-to-go of the agent's goal from the states a landmark's moves lead to. */
+function leastAfter(mark: Landmark, fwd: Int32Array, heuristic: Float64Array): number {
+  let least = Infinity;
+  for (const { fromCell, toCell } of mark.moves) {
+    for (let h = 0; h < 4; h++) if (fwd[fromCell * 4 + h] === toCell) least = Math.min(least, heuristic[toCell * 4 + h]);
+  }
+  return least;
+}
+
+/** Cost-to-go tables towards landmark cells, per grid and durations; emptied when this many are kept. */
+const TOWARDS_LIMIT = 256;
+const towardsTables = new WeakMap<Grid, Map<string, Float64Array>>();
+
+/** Exact least time from every (cell, heading) state to stand in `cell` (cached). */
+function distancesToCell(grid: Grid, cell: number, F: number, T: number): Float64Array {
+  let tables = towardsTables.get(grid);
+  if (!tables) {
+    tables = new Map();
+    towardsTables.set(grid, tables);
+  }
+  const key = `${cell}:${F}:${T}`;
+  let table = tables.get(key);
+  if (!table) {
+    if (tables.size >= TOWARDS_LIMIT) tables.clear();
+    table = headingDistancesToGoal(grid, cell, { forwardMs: F, quarterTurnMs: T });
+    tables.set(key, table);
+  }
+  return table;
 }
