@@ -137,6 +137,12 @@ const BYPASS_ROUNDS = 8;
 /** Node expansions of one pairwise sub-search before its lower bound is taken instead of its optimum. */
 const PAIR_NODE_LIMIT = 16;
 
+/**
+ * At most this many landmarks per agent: each is a layer of the low level's state space (its
+ * best-node table grows with their count), and a split without one stays sound.
+ */
+const LANDMARKS_PER_AGENT = 8;
+
 /** Replans kept in the exact search's memo before it is emptied (bounds its memory). */
 const REPLAN_MEMO_LIMIT = 200_000;
 
@@ -296,16 +302,20 @@ export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
   /**
    * The landmark disjoint splitting adds to one child of the split, or null: none when the split
    * offers none, when its window overlaps one the agent already has (the low level meets
-   * landmarks in time order, so it needs them disjoint; the plain split stays sound), or when
-   * the agent's current plan does not meet it (never expected: progress says it does).
+   * landmarks in time order, so it needs them disjoint; the plain split stays sound), when the
+   * agent has LANDMARKS_PER_AGENT already, or when the agent's current plan does not meet it
+   * (never expected: progress says it does).
    */
   function landmarkFor(node: CtNode, split: readonly PricedChild[]): { agent: number; ban: LandmarkBan; into: 0 | 1 } | null {
     if (split.length !== 2) return null;
     const offer = disjointLandmark([split[0].child, split[1].child]);
     if (offer === null) return null;
     const { agent, ban } = offer;
+    let held = 0;
     for (const old of [...bansOf(node, agent), ...(q.initialBans?.[agent] ?? [])]) {
-      if (old.kind === 'landmark' && old.from < ban.to && ban.from < old.to) return null;
+      if (old.kind !== 'landmark') continue;
+      if (old.from < ban.to && ban.from < old.to) return null;
+      if (++held >= LANDMARKS_PER_AGENT) return null;
     }
     const keeps = node.plans[agent].steps.some((s) => s.kind === 'forward' && s.start >= ban.from && s.start < ban.to
       && ban.moves.some((m) => m.fromCell === s.from && m.toCell === s.to));
