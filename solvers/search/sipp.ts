@@ -158,9 +158,9 @@ export function sippSearch(q: SippQuery): SippOutcome {
   const fwd = forwardTable(grid);
   const landmarks = bans.landmarks;
   const layers = landmarks.length + 1;
-  const floors = layerFloors(landmarks, fwd, F, heuristic);
   const towards = landmarks.map((m) => distancesToCell(grid, m.cell, F, T));
   const after = landmarks.map((m) => leastAfter(m, fwd, heuristic));
+  const floors = layerFloors(landmarks, after, F);
   const keys = grid.width * grid.height * 4 * maxIntervals * 2 * layers;
   best.begin(keys);
   const seenAt = (key: number): number => best.get(key, NONE);
@@ -300,17 +300,9 @@ export function sippSearch(q: SippQuery): SippOutcome {
  * at least the cost-to-go of the state that move leads to. Infinity when a landmark can't lead
  * to the goal at all; 0 once every landmark is met.
  */
-function layerFloors(landmarks: readonly Landmark[], fwd: Int32Array, F: number, heuristic: Float64Array): Float64Array {
+function layerFloors(landmarks: readonly Landmark[], after: readonly number[], F: number): Float64Array {
   const floors = new Float64Array(landmarks.length + 1);
-  for (let k = landmarks.length - 1; k >= 0; k--) {
-    let least = Infinity;
-    for (const { fromCell, toCell } of landmarks[k].moves) {
-      for (let h = 0; h < 4; h++) {
-        if (fwd[fromCell * 4 + h] === toCell) least = Math.min(least, landmarks[k].from + F + heuristic[toCell * 4 + h]);
-      }
-    }
-    floors[k] = Math.max(least, floors[k + 1]);
-  }
+  for (let k = landmarks.length - 1; k >= 0; k--) floors[k] = Math.max(landmarks[k].from + F + after[k], floors[k + 1]);
   return floors;
 }
 
