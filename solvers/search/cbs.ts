@@ -243,7 +243,7 @@ export class CbsEngine {
     if (this.w > 1 && (cfg.focalPlanner === undefined || cfg.switches.wdg || cfg.switches.rectangleReasoning || cfg.isSub)) {
       throw new Error('bounded CBS needs a focal planner and the WDG heuristic and rectangle reasoning off');
     }
-    this.lists = this.w > 1 ? new EecbsLists<CtNode>(this.w) : null;
+    this.lists = this.w > 1 ? new EecbsLists<CtNode>(this.w, (node) => node.conflicts.length) : null;
     // Root keys are `0 * L + i`.
     cfg.initialTables?.forEach((t, i) => this.tables.set(i, t));
     cfg.initialMdds?.forEach((m, i) => this.mdds.set(i, m));

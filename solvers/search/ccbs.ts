@@ -26,14 +26,26 @@
  *   child also gets the other agent's landmark, so the children share no plan; the landmark
  *   joins that agent's bans (and its owner node) without replanning it, as its plan meets it.
  *
- * Bounded-suboptimal mode (`suboptimality` w > 1): the ECBS high level (Barer, Sharon, Stern,
- * Felner, SoCS 2014; focal-lists.ts) over a focal SIPP low level (focal-sipp.ts): each agent's
- * plan costs at most w × lb_i, lb_i a proven lower bound on its optimal arrival under its
- * constraints (kept at least its parent's, as constraints only grow), and the node's lower
- * bound is Σ lb_i. The node expanded is the one with the fewest conflicting agent pairs among the
- * open nodes whose cost is at most w × LB, LB = the least open lower bound. Soundness: the splits
- * are sound, so some open node admits an optimal plan, whose cost is at least that node's Σ lb_i,
- * so LB never exceeds the optimum; a conflict-free node is returned only when its cost ≤ w × LB.
+ * Bounded-suboptimal mode (`suboptimality` w > 1): the EECBS high level (Li, Ruml, Koenig,
+ * "EECBS: A bounded-suboptimal search for multi-agent path finding", AAAI 2021;
+ * eecbs-lists.ts, eecbs-estimate.ts) over the focal SIPP low level of ECBS (Barer, Sharon,
+ * Stern, Felner, SoCS 2014; focal-sipp.ts): each agent's plan costs at most w × lb_i, lb_i a
+ * proven lower bound on its optimal arrival under its constraints (kept at least its parent's,
+ * as constraints only grow), and the node's lower bound is Σ lb_i. Of CLEANUP (by lower bound),
+ * OPEN (by cost + learnt cost-to-go) and FOCAL (the fewest conflicting agent pairs among the
+ * nearly best of OPEN), the node expanded is FOCAL's top if it costs at most w × LB (LB = the
+ * least open lower bound), else OPEN's top if it does, else CLEANUP's top, which raises LB.
+ * Soundness: the splits are sound, so some open node admits an optimal plan, whose cost is at
+ * least that node's Σ lb_i, so LB never exceeds the optimum; a conflict-free node is returned
+ * only when its cost ≤ w × LB; one that costs more (only CLEANUP's top can be chosen so) gets
+ * optimal plans for its agents (tighten: lb_i = cost_i) and goes back to the lists.
+ * Also in this mode (measured on random-32-32-20 × 80 agents, issue 15: the ECBS high level alone
+ * solved 2 of the 5 even scenarios within 30 s, with these 4):
+ * - bypass as in exact mode (a child plan of the same cost meeting fewer agents replaces the
+ *   node's; the node's bans, cost and lower bounds do not change);
+ * - root repair: after the root's plans are made one by one (each avoiding those before it),
+ *   ROOT_REPAIR_ROUNDS times every agent still in conflict is replanned against all other plans
+ *   and keeps the new plan if it meets fewer agents (each plan stays within w of its own bound).
  */
 import type { Grid } from '../grid/grid';
 import { branchOptions, disjointLandmark, type BranchChild } from './ccbs-branch';
@@ -41,7 +53,9 @@ import { cellVisits, conflictPartners, findConflicts, visitsByCell, type CellVis
 import { compileBans, type AgentBan, type LandmarkBan } from './sipp-constraints';
 import { forwardTable, sippSearch, type SippPlan } from './sipp';
 import { SippHeap } from './sipp-heap';
-import { FocalLists } from './focal-lists';
+import { EecbsLists, type EecbsNode } from './eecbs-lists';
+import { CostToGoEstimate } from './eecbs-estimate';
+import { boundOf } from './suboptimality';
 import { disjunctiveCover, type SplitDisjunction } from './ccbs-heuristic';
 import { focalSippSearch, occupancyIndex, type OccupancyIndex } from './focal-sipp';
 
@@ -106,19 +120,24 @@ interface CtNode {
   /** Per agent its plan; exact mode may swap one for an equally cheap plan with fewer conflicts (bypass) before expansion. */
   plans: readonly SippPlan[];
   visits: readonly (readonly CellVisit[])[];
-  readonly cost: number;
+  cost: number;
   conflicts: readonly OccupancyConflict[];
   conflictingPairs: number;
   /** Per agent a proven lower bound on its optimal arrival under the node's constraints (= its plan's cost when exact). */
-  readonly lbs: readonly number[];
+  lbs: readonly number[];
   /** Σ lbs: a lower bound on the optimum of the plans the node admits. */
-  readonly lb: number;
+  lb: number;
   /** Per agent the id of the latest node on the path from the root whose bans apply to it (-1: none). */
   readonly owner: Int32Array;
   /** Exact mode: a lower bound on every plan the node admits (cost + heuristic, at least the parent's f). */
   f: number;
   /** Exact mode: the split chosen when the node was first popped (its heuristic is then in f); null before and after expansion. */
   split: PricedChild[] | null;
+}
+
+/** A node's figures in the EECBS lists (bounded mode). */
+interface EesEntry extends EecbsNode {
+  readonly id: number;
 }
 
 /** One child of a priced split, with its replanned agent's plan (null: none exists) and that plan's lower bound. */
@@ -142,6 +161,9 @@ const PAIR_NODE_LIMIT = 16;
  * best-node table grows with their count), and a split without one stays sound.
  */
 const LANDMARKS_PER_AGENT = 8;
+
+/** Bounded mode: rounds of replanning the root's conflicting agents against all other plans. */
+const ROOT_REPAIR_ROUNDS = 2;
 
 /** Replans kept in the exact search's memo before it is emptied (bounds its memory). */
 const REPLAN_MEMO_LIMIT = 200_000;
@@ -233,7 +255,25 @@ export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
       for (const v of cellVisits(a, q.agents[a].start, p, q.forwardMs)) rootOccupancy.set(v.cell, [...(rootOccupancy.get(v.cell) ?? []), v]);
     }
   }
-  const root = makeNode(null, -1, [], rootPlans, rootPlans.map((p, a) => cellVisits(a, q.agents[a].start, p, q.forwardMs)), rootLbs);
+  const rootVisits = rootPlans.map((p, a) => cellVisits(a, q.agents[a].start, p, q.forwardMs));
+  if (w > 1) {
+    // Repair rounds: each agent still in conflict is replanned against every other agent's plan
+    // and keeps the new plan when it meets fewer agents (each plan stays within w of its bound).
+    for (let round = 0; round < ROOT_REPAIR_ROUNDS; round++) {
+      for (let a = 0; a < q.agents.length; a++) {
+        const byCell = visitsByCell(rootVisits);
+        if (conflictPartners(byCell, a, rootVisits[a]).partners === 0) continue;
+        const p = plan(a, q.initialBans?.[a] ?? [], occupancyIndex(rootVisits));
+        if (!p) return finish(isStopped ? 'stopped' : 'infeasible', null, isStopped ? trivialBound : null);
+        const list = cellVisits(a, q.agents[a].start, p, q.forwardMs);
+        if (conflictPartners(byCell, a, list).partners >= conflictPartners(byCell, a, rootVisits[a]).partners) continue;
+        rootPlans[a] = p;
+        rootLbs[a] = Math.max(rootLbs[a], lastLb);
+        rootVisits[a] = list;
+      }
+    }
+  }
+  const root = makeNode(null, -1, [], rootPlans, rootVisits, rootLbs);
 
   const nodes: CtNode[] = [root];
   /** Exact mode: child replans by agent, owner node and new bans (see priceSplits). */
@@ -322,21 +362,47 @@ export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
     return keeps ? offer : null;
   }
 
-  /** The bounded loop: FOCAL's best node, children as in the exact loop. */
+  /** The bounded loop: EECBS's choice among CLEANUP, OPEN and FOCAL (file comment); children as in the exact loop. */
   function searchBounded(w: number): CcbsOutcome {
-    const lists = new FocalLists(w, (id) => nodes[id].lb, (id) => nodes[id].cost, (id) => nodes[id].conflictingPairs);
-    lists.push(root.id);
+    const entries: EesEntry[] = [];
+    const estimate = new CostToGoEstimate();
+    const lists = new EecbsLists<EesEntry>(w, (e) => nodes[e.id].conflictingPairs);
+    const pushOpen = (node: CtNode): void => {
+      const e = entries[node.id] ?? (entries[node.id] = { id: node.id, g: 0, fLb: 0, fHat: 0, version: 0, isClosed: false });
+      e.g = node.cost;
+      e.fLb = node.lb;
+      e.fHat = node.cost + estimate.estimate(Math.max(0, node.lb - node.cost), node.conflictingPairs);
+      lists.push(e);
+    };
+    pushOpen(root);
     for (;;) {
-      if (q.shouldStop()) return finish('stopped', null, lists.lowerBound());
-      if (expanded >= q.nodeLimit) return finish('node-limit', null, lists.lowerBound());
+      if (q.shouldStop()) return finish('stopped', null, lists.scanLowerBound());
+      if (expanded >= q.nodeLimit) return finish('node-limit', null, lists.scanLowerBound());
       const pick = lists.select();
       if (pick === null) return finish('infeasible', null, null);
-      const top = nodes[pick.id];
-      if (top.conflicts.length === 0) return finish('solved', top, pick.lowerBound);
+      const top = nodes[pick.node.id];
+      if (top.conflicts.length === 0) {
+        if (top.cost <= boundOf(pick.lowerBound, w)) return finish('solved', top, pick.lowerBound);
+        tighten(top);
+        if (isStopped) return finish('stopped', null, Math.min(top.lb, lists.scanLowerBound()));
+        pushOpen(top);
+        continue;
+      }
       expanded++;
-      const split = chooseSplit(top);
-      if (isStopped) return finish('stopped', null, Math.min(top.lb, lists.lowerBound()));
-      for (const { child, plan: p, lb } of split) {
+      let choice = chooseSplit(top);
+      if (isStopped) return finish('stopped', null, Math.min(top.lb, lists.scanLowerBound()));
+      for (let round = 0; round < BYPASS_ROUNDS && top.conflicts.length > 0; round++) {
+        if (!bypass(top, choice.options)) break;
+        if (top.conflicts.length === 0) break;
+        choice = chooseSplit(top);
+        if (isStopped) return finish('stopped', null, Math.min(top.lb, lists.scanLowerBound()));
+      }
+      if (top.conflicts.length === 0) {
+        pushOpen(top);
+        continue;
+      }
+      const children: CtNode[] = [];
+      for (const { child, plan: p, lb } of choice.best) {
         if (!p) continue;
         const plans = top.plans.slice();
         plans[child.agent] = p;
@@ -346,9 +412,46 @@ export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
         lbs[child.agent] = Math.max(lbs[child.agent], lb);
         const node = makeNode(top, child.agent, child.bans, plans, visits, lbs);
         nodes.push(node);
-        lists.push(node.id);
+        children.push(node);
+      }
+      if (children.length > 0) {
+        const f = (n: CtNode): number => Math.max(n.cost, n.lb);
+        let best = children[0];
+        for (const c of children) if (c.conflictingPairs < best.conflictingPairs || (c.conflictingPairs === best.conflictingPairs && f(c) < f(best))) best = c;
+        estimate.learn(f(top), top.conflictingPairs, f(best), best.conflictingPairs);
+      }
+      for (const c of children) pushOpen(c);
+    }
+  }
+
+  /**
+   * A conflict-free node whose cost exceeds w × LB (only CLEANUP's top is chosen so): every agent
+   * above its lower bound gets an optimal plan under the node's bans, so its lower bound becomes
+   * its cost; the node's cost, bound and conflicts are recomputed.
+   */
+  function tighten(node: CtNode): void {
+    const lbs = node.lbs.slice();
+    const plans = node.plans.slice();
+    const visits = node.visits.slice();
+    for (let a = 0; a < q.agents.length; a++) {
+      if (plans[a].cost <= lbs[a]) continue;
+      const p = plan(a, [...bansOf(node, a), ...(q.initialBans?.[a] ?? [])]);
+      if (isStopped) return;
+      if (p === null) throw new Error(`agent ${a} lost its plan at node ${node.id}`);
+      lbs[a] = p.cost;
+      if (p.cost !== plans[a].cost) {
+        plans[a] = p;
+        visits[a] = cellVisits(a, q.agents[a].start, p, q.forwardMs);
       }
     }
+    const found = findConflicts(visits, CANDIDATE_CONFLICTS, false);
+    node.plans = plans;
+    node.visits = visits;
+    node.conflicts = found.conflicts;
+    node.conflictingPairs = found.conflictingPairs;
+    node.lbs = lbs;
+    node.lb = lbs.reduce((s, v) => s + v, 0);
+    node.cost = plans.reduce((s, p) => s + p.cost, 0);
   }
 
   /**
@@ -401,7 +504,7 @@ export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
         plans[a] = p;
         const visits = node.visits.slice();
         visits[a] = list;
-        const found = findConflicts(visits, CANDIDATE_CONFLICTS, true);
+        const found = findConflicts(visits, CANDIDATE_CONFLICTS, w === 1);
         node.plans = plans;
         node.visits = visits;
         node.conflicts = found.conflicts;
@@ -479,7 +582,7 @@ export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
   }
 
   /** Prices the sound splits of the node's first conflicts and returns the best, with its children's plans. */
-  function chooseSplit(node: CtNode): PricedChild[] {
+  function chooseSplit(node: CtNode): { best: PricedChild[]; options: PricedChild[][] } {
     const memo = new Map<string, { plan: SippPlan | null; lb: number }>();
     const occupancy = w > 1 ? occupancyIndex(node.visits) : undefined;
     const childPlan = (child: BranchChild): { plan: SippPlan | null; lb: number } => {
@@ -493,15 +596,17 @@ export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
       return hit;
     };
     const best = new BestSplit<PricedChild>();
+    const options: PricedChild[][] = [];
     // The bounded search prices only the earliest conflict's splits: it gains more from many cheap expansions.
     for (const conflict of w > 1 ? node.conflicts.slice(0, 1) : node.conflicts) {
       for (const option of branchOptions(conflict, q.forwardMs, neighbours)) {
         const priced = option.children.map((child) => ({ child, ...childPlan(child) }));
-        if (isStopped) return [];
+        if (isStopped) return { best: [], options: [] };
+        options.push(priced);
         best.offer(node, priced);
       }
     }
-    return best.split;
+    return { best: best.split, options };
   }
 
   function finish(status: CcbsStatus, node: CtNode | null, bound: number | null): CcbsOutcome {

@@ -22,8 +22,6 @@ export interface EecbsNode {
   fLb: number;
   /** g + ĥ. */
   fHat: number;
-  /** Number of conflicts among the node's paths (the distance-to-go estimate). */
-  readonly conflicts: readonly unknown[];
   /** Bumped on every (re)insertion; stale heap entries carry an older one. */
   version: number;
   /** True once selected (until reinserted). */
@@ -33,24 +31,34 @@ export interface EecbsNode {
 /** Which list a selected node came from. */
 export type EecbsSource = 'focal' | 'open' | 'cleanup';
 
+/**
+ * A heap entry: the node and its figures when pushed. The heap orders by these copies, never by
+ * the node's live fields, because a selected node's figures may change (a tightened lower bound,
+ * a bypass) while its stale entries still sit in the heaps: ordering by live fields would break
+ * the heap property and could hide the least lower bound.
+ */
 interface Entry<T> {
   readonly node: T;
   readonly version: number;
+  readonly fLb: number;
+  readonly fHat: number;
+  readonly d: number;
+  readonly id: number;
 }
 
 /** A binary min-heap of entries whose validity is checked when they reach the top. */
 class LazyHeap<T extends EecbsNode> {
   private readonly items: Entry<T>[] = [];
 
-  constructor(private readonly less: (a: T, b: T) => boolean) {}
+  constructor(private readonly less: (a: Entry<T>, b: Entry<T>) => boolean) {}
 
-  push(node: T): void {
+  push(entry: Entry<T>): void {
     const items = this.items;
-    items.push({ node, version: node.version });
+    items.push(entry);
     let i = items.length - 1;
     while (i > 0) {
       const p = (i - 1) >> 1;
-      if (!this.less(items[i].node, items[p].node)) break;
+      if (!this.less(items[i], items[p])) break;
       [items[i], items[p]] = [items[p], items[i]];
       i = p;
     }
@@ -66,6 +74,11 @@ class LazyHeap<T extends EecbsNode> {
     return undefined;
   }
 
+  /** The top entry (call after `top()` found a valid one). */
+  topEntry(): Entry<T> {
+    return this.items[0];
+  }
+
   /** Removes the top entry. */
   popEntry(): void {
     const items = this.items;
@@ -77,8 +90,8 @@ class LazyHeap<T extends EecbsNode> {
       const l = 2 * i + 1;
       if (l >= items.length) break;
       const r = l + 1;
-      const c = r < items.length && this.less(items[r].node, items[l].node) ? r : l;
-      if (!this.less(items[c].node, items[i].node)) break;
+      const c = r < items.length && this.less(items[r], items[l]) ? r : l;
+      if (!this.less(items[c], items[i])) break;
       [items[i], items[c]] = [items[c], items[i]];
       i = c;
     }
@@ -92,25 +105,33 @@ class LazyHeap<T extends EecbsNode> {
 
 /** CLEANUP, OPEN and FOCAL over one set of open nodes. */
 export class EecbsLists<T extends EecbsNode> {
-  private readonly cleanup = new LazyHeap<T>((a, b) => a.fLb !== b.fLb ? a.fLb < b.fLb
-    : a.conflicts.length !== b.conflicts.length ? a.conflicts.length < b.conflicts.length : a.id < b.id);
-  private readonly open = new LazyHeap<T>((a, b) => a.fHat !== b.fHat ? a.fHat < b.fHat
-    : a.conflicts.length !== b.conflicts.length ? a.conflicts.length < b.conflicts.length : a.id < b.id);
-  private readonly focal = new LazyHeap<T>((a, b) => a.conflicts.length !== b.conflicts.length ? a.conflicts.length < b.conflicts.length
-    : a.fHat !== b.fHat ? a.fHat < b.fHat : a.id < b.id);
+  private readonly cleanup: LazyHeap<T>;
+  private readonly open: LazyHeap<T>;
+  private readonly focal: LazyHeap<T>;
   /** Open nodes not yet in FOCAL, by f̂. */
   private readonly pending = new LazyHeap<T>((a, b) => a.fHat !== b.fHat ? a.fHat < b.fHat : a.id < b.id);
+  private readonly distance: (node: T) => number;
 
-  /** Creates the lists for suboptimality factor `w`. */
-  constructor(private readonly w: number) {}
+  /**
+   * Creates the lists for suboptimality factor `w`; `distance(node)` is the distance-to-go
+   * estimate FOCAL orders by (the number of conflicts among the node's paths, or of agent pairs
+   * in conflict), read when the node is pushed.
+   */
+  constructor(private readonly w: number, distance: (node: T) => number) {
+    this.distance = distance;
+    this.cleanup = new LazyHeap<T>((a, b) => a.fLb !== b.fLb ? a.fLb < b.fLb : a.d !== b.d ? a.d < b.d : a.id < b.id);
+    this.open = new LazyHeap<T>((a, b) => a.fHat !== b.fHat ? a.fHat < b.fHat : a.d !== b.d ? a.d < b.d : a.id < b.id);
+    this.focal = new LazyHeap<T>((a, b) => a.d !== b.d ? a.d < b.d : a.fHat !== b.fHat ? a.fHat < b.fHat : a.id < b.id);
+  }
 
   /** Adds (or re-adds, with new figures) an open node. */
   push(node: T): void {
     node.version++;
     node.isClosed = false;
-    this.cleanup.push(node);
-    this.open.push(node);
-    this.pending.push(node);
+    const entry = { node, version: node.version, fLb: node.fLb, fHat: node.fHat, d: this.distance(node), id: node.id };
+    this.cleanup.push(entry);
+    this.open.push(entry);
+    this.pending.push(entry);
   }
 
   /** The least f_lb over the open nodes (Infinity when none): the proven lower bound LB. */
@@ -134,7 +155,7 @@ export class EecbsLists<T extends EecbsNode> {
     const bestOpen = this.open.top() as T;
     const fHatLimit = this.w * bestOpen.fHat + 1e-9;
     for (let p = this.pending.top(); p !== undefined && p.fHat <= fHatLimit; p = this.pending.top()) {
-      this.focal.push(p);
+      this.focal.push(this.pending.topEntry());
       this.pending.popEntry();
     }
     const bestFocal = this.focal.top();

@@ -1,15 +1,26 @@
 /**
  * The bounded-suboptimal low level of weighted-split: focal search (Pearl and Kim, IEEE TPAMI
  * 1982) over the SIPP states of sipp.ts (Phillips & Likhachev, ICRA 2011), as ECBS runs focal
- * search at the low level (Barer, Sharon, Stern, Felner, SoCS 2014). Successors, safe intervals,
- * bans and the goal rule are exactly those of sipp.ts; only the order differs: among the open
- * nodes with f ≤ w × f_min (FOCAL) the one whose partial plan overlaps the other agents' current
- * occupancy least is expanded first (then least f).
+ * search at the low level (Barer, Sharon, Stern, Felner, SoCS 2014). Successors, bans and the
+ * goal rule are those of sipp.ts; the order differs: among the open nodes with f ≤ w × f_min
+ * (FOCAL) the one whose partial plan overlaps the other agents' current occupancy least is
+ * expanded first (then least f).
  *
- * Bound: a state keeps the node of its earliest arrival, and a strictly earlier arrival makes a
- * new node even when the state was expanded (sipp.ts's rule), so OPEN always holds a node of an
- * optimal plan at its optimal time; f_min (taken with the goal node still open) is therefore a
- * lower bound on the optimal arrival under the bans, and the plan returned costs at most w × it.
+ * Soft intervals: each safe interval of a cell is further cut where another agent's visit of
+ * the cell begins or ends, and a state is (cell, heading, soft interval in which its stay
+ * began), after the soft-conflict intervals of SCIPP (Cohen, Uras, Kumar, Xu, Ayanian, Koenig,
+ * "Optimal and bounded-suboptimal multi-agent motion planning", SoCS 2019; cited from memory).
+ * A move is generated at the earliest start in every soft interval of the next cell, so the
+ * search can wait for another agent to pass instead of detouring round it; with one key per
+ * safe interval a later, conflict-free arrival would be dominated by the earliest one and lost.
+ *
+ * Bound: the earliest start of every move is still generated (under the key of the soft
+ * interval it falls in), a state keeps the node of its earliest arrival, and a strictly earlier
+ * arrival makes a new node even when the state was expanded (sipp.ts's rule), so OPEN always
+ * holds a node of an optimal plan at its optimal time; f_min (taken with the goal node still
+ * open) is therefore a lower bound on the optimal arrival under the bans, and the plan returned
+ * costs at most w × it. The extra later starts are plans the bans allow, so every plan returned
+ * is valid.
  */
 import type { ActionKind } from '@shared/plan';
 import type { CellVisit } from './ccbs-conflict';
@@ -50,6 +61,38 @@ export interface FocalSippOutcome {
 
 const NONE = -1;
 
+/** The soft intervals of one cell: the safe intervals cut at the other agents' visit bounds, with each one's safe-interval end. */
+interface SoftIntervals {
+  readonly from: readonly number[];
+  readonly to: readonly number[];
+  /** The end of the safe (hard) interval each soft interval lies in. */
+  readonly hardTo: readonly number[];
+}
+
+/** Cuts the safe windows at the given times (sorted or not); empty pieces are dropped. */
+export function softIntervals(safe: Windows, cuts: readonly number[]): SoftIntervals {
+  const times = [...new Set(cuts)].sort((a, b) => a - b);
+  const from: number[] = [];
+  const to: number[] = [];
+  const hardTo: number[] = [];
+  let c = 0;
+  for (let k = 0; k < safe.from.length; k++) {
+    let lo = safe.from[k];
+    const hi = safe.to[k];
+    while (c < times.length && times[c] <= lo) c++;
+    for (; c < times.length && times[c] < hi; c++) {
+      from.push(lo);
+      to.push(times[c]);
+      hardTo.push(hi);
+      lo = times[c];
+    }
+    from.push(lo);
+    to.push(hi);
+    hardTo.push(hi);
+  }
+  return { from, to, hardTo };
+}
+
 // Module-local copies of hot imports (a CommonJS build reads imported bindings through getters).
 const SAFE_ALWAYS = ALWAYS_SAFE;
 const earliestFree = earliestOutside;
@@ -61,8 +104,23 @@ const best = new StampedBest();
 export function focalSippSearch(q: FocalSippQuery): FocalSippOutcome {
   const { grid, goal, forwardMs: F, quarterTurnMs: T, bans, heuristic } = q;
   const safeOf = (cell: number): Windows => bans.safe.get(cell) ?? SAFE_ALWAYS;
-  let maxIntervals = 1;
-  for (const w of bans.safe.values()) maxIntervals = Math.max(maxIntervals, w.from.length);
+  const soft = new Map<number, SoftIntervals>();
+  const softOf = (cell: number): SoftIntervals => {
+    let out = soft.get(cell);
+    if (out === undefined) {
+      const cuts: number[] = [];
+      for (const v of q.occupancy.get(cell) ?? []) if (v.agent !== q.agent) cuts.push(v.enter, v.leave);
+      out = softIntervals(safeOf(cell), cuts);
+      soft.set(cell, out);
+    }
+    return out;
+  };
+  // A cell's soft intervals number at most its safe intervals plus two per other visit.
+  let maxHard = 1;
+  for (const w of bans.safe.values()) maxHard = Math.max(maxHard, w.from.length);
+  let maxVisits = 0;
+  for (const list of q.occupancy.values()) maxVisits = Math.max(maxVisits, list.length);
+  const maxIntervals = maxHard + 2 * maxVisits;
   const L = bans.goalNotBefore;
   // Landmarks come only from the exact search's disjoint splits (ccbs.ts); this search has no layers for them.
   if (bans.landmarks.length > 0) throw new Error('focal SIPP does not take landmarks (disjoint splitting is exact mode only)');
@@ -126,9 +184,9 @@ export function focalSippSearch(q: FocalSippQuery): FocalSippOutcome {
     pending.push(id);
   };
 
-  const startSafe = safeOf(q.start);
+  const startSafe = softOf(q.start);
   if (startSafe.from[0] === 0 && startSafe.to[0] > 0) {
-    const flag = q.start === goal && startSafe.to[0] === Infinity && L <= 0 ? 1 : 0;
+    const flag = q.start === goal && startSafe.hardTo[0] === Infinity && L <= 0 ? 1 : 0;
     for (const h of q.startHeadings) add(q.start, h, 0, flag, 0, NONE, 'wait', 0, 0);
   }
 
@@ -151,8 +209,7 @@ export function focalSippSearch(q: FocalSippQuery): FocalSippOutcome {
     const flag = flagA[id];
     const g = gA[id];
     const conf = confA[id];
-    const safe = safeOf(cell);
-    const hi = safe.to[iv];
+    const hi = softOf(cell).hardTo[iv];
     if (cell === goal && hi === Infinity && flag === 1) return { plan: rebuild(id), lowerBound: fMin, expansions, isStopped: false };
     expansions++;
 
@@ -164,21 +221,23 @@ export function focalSippSearch(q: FocalSippQuery): FocalSippOutcome {
 
     const next = fwd[cell * 4 + head];
     if (next === NONE) continue;
-    const nextSafe = safeOf(next);
+    const nextSafe = softOf(next);
     const moveWin = bans.moveWindows.get(cell * bans.cellCount + next);
     for (let k = 0; k < nextSafe.from.length; k++) {
       if (nextSafe.to[k] <= g) continue;
       const start = earliestFree(moveWin, Math.max(g, nextSafe.from[k]));
       if (start + F > hi) break;
-      if (start + F > nextSafe.to[k]) continue;
-      const isFinalGoal = next === goal && nextSafe.to[k] === Infinity;
+      // A start past this soft interval is generated under the interval it falls in.
+      if (start >= nextSafe.to[k]) continue;
+      if (start + F > nextSafe.hardTo[k]) continue;
+      const isFinalGoal = next === goal && nextSafe.hardTo[k] === Infinity;
       const c = conf + overlaps(cell, g, start + F) + overlaps(next, start, start + F);
       if (!isFinalGoal || start >= L) {
         add(next, head, k, isFinalGoal ? 1 : 0, start + F, id, 'forward', start, c);
       } else {
         add(next, head, k, 0, start + F, id, 'forward', start, c);
         const late = earliestFree(moveWin, L);
-        if (late + F <= hi) add(next, head, k, 1, late + F, id, 'forward', late, conf + overlaps(cell, g, late + F) + overlaps(next, late, late + F));
+        if (late + F <= hi && late < nextSafe.to[k]) add(next, head, k, 1, late + F, id, 'forward', late, conf + overlaps(cell, g, late + F) + overlaps(next, late, late + F));
       }
     }
   }
