@@ -39,13 +39,22 @@
  * least that node's Σ lb_i, so LB never exceeds the optimum; a conflict-free node is returned
  * only when its cost ≤ w × LB; one that costs more (only CLEANUP's top can be chosen so) gets
  * optimal plans for its agents (tighten: lb_i = cost_i) and goes back to the lists.
- * Also in this mode (measured on random-32-32-20 × 80 agents, issue 15: the ECBS high level alone
- * solved 2 of the 5 even scenarios within 30 s, with these 4):
+ * Also in this mode:
  * - bypass as in exact mode (a child plan of the same cost meeting fewer agents replaces the
  *   node's; the node's bans, cost and lower bounds do not change);
  * - root repair: after the root's plans are made one by one (each avoiding those before it),
  *   ROOT_REPAIR_ROUNDS times every agent still in conflict is replanned against all other plans
- *   and keeps the new plan if it meets fewer agents (each plan stays within w of its own bound).
+ *   and keeps the new plan if it meets fewer agents (each plan stays within w of its own bound);
+ * - flex, after flex distribution (Chan, Li, Gange, Harabor, Stuckey, Koenig, "Flex distribution
+ *   for bounded-suboptimal multi-agent path finding", AAAI 2022; cited from memory): a child's
+ *   low level may also put into FOCAL plans costing up to the node's slack, w × (node's lower
+ *   bound) − (the other agents' costs), when that exceeds w × its own f_min, so an agent with a
+ *   short route can wait long enough for another to pass. The bounds are unchanged: the agent's
+ *   lb_i is still its f_min, and a node is returned only when its cost ≤ w × LB.
+ * Measured on random-32-32-20 × 70 and 80 agents at w = 1.2 (issue 15): the ECBS high level
+ * alone solved 2 of the 5 even scenarios at 80 within 30 s CPU; EECBS, bypass, root repair and
+ * the soft intervals of focal-sipp.ts 4; with flex the same 4 in 1–2 s each, and at 70 agents
+ * even-2, which none of the others solved within 60 s, in 0.6 s.
  */
 import type { Grid } from '../grid/grid';
 import { branchOptions, disjointLandmark, type BranchChild } from './ccbs-branch';
@@ -192,13 +201,13 @@ export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
   };
   /** The lower bound the last `plan` call proved (its plan's cost when exact). */
   let lastLb = 0;
-  const plan = (agent: number, bans: readonly AgentBan[], occupancy?: OccupancyIndex): SippPlan | null => {
+  const plan = (agent: number, bans: readonly AgentBan[], occupancy?: OccupancyIndex, ceiling?: number): SippPlan | null => {
     const a = q.agents[agent];
     if (occupancy !== undefined) {
       const focal = focalSippSearch({
         grid: q.grid, start: a.start, goal: a.goal, startHeadings: a.startHeadings, forwardMs: q.forwardMs,
         quarterTurnMs: q.quarterTurnMs, bans: compileBans(bans, cellCount), heuristic: a.heuristic, shouldStop: q.shouldStop,
-        w, agent, occupancy,
+        w, agent, occupancy, ceiling,
       });
       lowLevelExpansions += focal.expansions;
       if (focal.isStopped) isStopped = true;
@@ -589,7 +598,10 @@ export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
       const key = `${child.agent}|${JSON.stringify(child.bans)}`;
       let hit = memo.get(key);
       if (hit === undefined) {
-        const p = plan(child.agent, [...bansOf(node, child.agent), ...(q.initialBans?.[child.agent] ?? []), ...child.bans], occupancy);
+        const bans = [...bansOf(node, child.agent), ...(q.initialBans?.[child.agent] ?? []), ...child.bans];
+        // Flex: the child may spend the node's slack under w × its lower bound (see the file comment).
+        const ceiling = occupancy === undefined ? undefined : boundOf(node.lb, w) - (node.cost - node.plans[child.agent].cost);
+        const p = plan(child.agent, bans, occupancy, ceiling);
         hit = { plan: p, lb: lastLb };
         memo.set(key, hit);
       }

@@ -70,6 +70,26 @@ describe('focalSippSearch', () => {
     expect(plan.steps.filter((s) => s.kind === 'wait').map((s) => [s.from, s.start, s.end])).toEqual([[1, 1000, 3000]]);
   });
 
+  it('spends up to the ceiling, beyond w × f_min, to avoid another agent (flex)', () => {
+    // Arrange: the corridor above with w = 1.2 (4 800 ms): waiting (6 000 ms) needs the ceiling.
+    const grid = gridFromText('.....');
+    const heuristic = headingDistancesToGoal(grid, 4, { forwardMs: 1000, quarterTurnMs: 800 });
+    const other: CellVisit = { agent: 1, cell: 2, enter: 0, leave: 3000, inFrom: -1, outTo: -1, outStart: -1 };
+    const query = {
+      grid, start: 0, goal: 4, startHeadings: [headingIndex('E')], forwardMs: 1000, quarterTurnMs: 800,
+      bans: compileBans([], 5), heuristic, w: 1.2, agent: 0, occupancy: occupancyIndex([[other]]),
+    };
+    // Act
+    const within = focalSippSearch(query);
+    const flexed = focalSippSearch({ ...query, ceiling: 6000 });
+    // Assert: without it the plan goes straight through the other agent; with it, it waits; same bound.
+    expect(within.plan?.cost).toBe(4000);
+    expect(overlapCount(within.plan as SippPlan, 0, 1000, [other])).toBe(1);
+    expect(flexed.plan?.cost).toBe(6000);
+    expect(overlapCount(flexed.plan as SippPlan, 0, 1000, [other])).toBe(0);
+    expect([within.lowerBound, flexed.lowerBound]).toEqual([4000, 4000]);
+  });
+
   it('proves a lower bound no higher than the exact optimum, stays within w of it and keeps every ban (seeded grids)', () => {
     // Arrange: tiny seeded grids, random bans as in sipp.spec.ts, and 0–10 random visits of other agents.
     const rng = createRng(4242);

@@ -19,8 +19,9 @@
  * arrival makes a new node even when the state was expanded (sipp.ts's rule), so OPEN always
  * holds a node of an optimal plan at its optimal time; f_min (taken with the goal node still
  * open) is therefore a lower bound on the optimal arrival under the bans, and the plan returned
- * costs at most w × it. The extra later starts are plans the bans allow, so every plan returned
- * is valid.
+ * costs at most w × it, or at most the query's `ceiling` when that is higher (FOCAL then takes
+ * every open node with f up to the ceiling; the lower bound is still f_min). The extra later
+ * starts are plans the bans allow, so every plan returned is valid.
  */
 import type { ActionKind } from '@shared/plan';
 import type { CellVisit } from './ccbs-conflict';
@@ -49,6 +50,8 @@ export interface FocalSippQuery extends SippQuery {
   readonly w: number;
   readonly agent: number;
   readonly occupancy: OccupancyIndex;
+  /** Plans costing up to this also enter FOCAL when it exceeds w × f_min (flex, see ccbs.ts); none by default. */
+  readonly ceiling?: number;
 }
 
 /** Outcome: the plan (cost ≤ w × lowerBound) or null, the lower bound proved, expansions, whether stopped. */
@@ -196,7 +199,7 @@ export function focalSippSearch(q: FocalSippQuery): FocalSippOutcome {
     const top = liveTop(open);
     if (top === undefined) break;
     const fMin = fA[top];
-    const bound = boundOf(fMin, q.w);
+    const bound = Math.max(boundOf(fMin, q.w), q.ceiling ?? 0);
     for (let p = liveTop(pending); p !== undefined && fA[p] <= bound; p = liveTop(pending)) {
       focal.push(p);
       pending.pop();
