@@ -46,15 +46,18 @@
  *   ROOT_REPAIR_ROUNDS times every agent still in conflict is replanned against all other plans
  *   and keeps the new plan if it meets fewer agents (each plan stays within w of its own bound);
  * - flex, after flex distribution (Chan, Li, Gange, Harabor, Stuckey, Koenig, "Flex distribution
- *   for bounded-suboptimal multi-agent path finding", AAAI 2022; cited from memory): a child's
- *   low level may also put into FOCAL plans costing up to the node's slack, w × (node's lower
- *   bound) − (the other agents' costs), when that exceeds w × its own f_min, so an agent with a
+ *   for bounded-suboptimal multi-agent path finding", AAAI 2022; cited from memory): the node's
+ *   slack, w × (its lower bound) − (its cost), is shared equally among its conflicting agent
+ *   pairs (our own rule), and a child's low level may also put into FOCAL plans costing up to the
+ *   agent's current cost plus one share, when that exceeds w × its own f_min, so an agent with a
  *   short route can wait long enough for another to pass. The bounds are unchanged: the agent's
- *   lb_i is still its f_min, and a node is returned only when its cost ≤ w × LB.
- * Measured on random-32-32-20 × 70 and 80 agents at w = 1.2 (issue 15): the ECBS high level
- * alone solved 2 of the 5 even scenarios at 80 within 30 s CPU; EECBS, bypass, root repair and
- * the soft intervals of focal-sipp.ts 4; with flex the same 4 in 1–2 s each, and at 70 agents
- * even-2, which none of the others solved within 60 s, in 0.6 s.
+ *   lb_i is still its f_min, and a node is returned only when its cost ≤ w × LB. Handing a child
+ *   the whole slack instead spent it on the first conflicts (each replanned agent took the plan
+ *   with the fewest overlaps however dear) and left none for the last ones.
+ * Measured on random-32-32-20 at w = 1.2 (issue 15, CPU time, the 5 even scenarios): with the
+ * ECBS high level alone, 2 of 5 at 80 agents within 30 s; with EECBS, bypass, root repair and
+ * the soft intervals of focal-sipp.ts, 4 of 5; with the whole slack as flex, the same 4 in 1–2 s
+ * each; with the shared flex above 5 of 5 (1–2 s each), at 90 agents 4 of 5 and at 100 1 of 5.
  */
 import type { Grid } from '../grid/grid';
 import { branchOptions, disjointLandmark, type BranchChild } from './ccbs-branch';
@@ -590,6 +593,11 @@ export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
     return wij;
   }
 
+  /** Bounded mode: the slack w × (node's lower bound) − (node's cost), shared equally among its conflicting agent pairs. */
+  function flexShare(node: CtNode): number {
+    return Math.floor(Math.max(0, boundOf(node.lb, w) - node.cost) / Math.max(1, node.conflictingPairs));
+  }
+
   /** Prices the sound splits of the node's first conflicts and returns the best, with its children's plans. */
   function chooseSplit(node: CtNode): { best: PricedChild[]; options: PricedChild[][] } {
     const memo = new Map<string, { plan: SippPlan | null; lb: number }>();
@@ -599,8 +607,8 @@ export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
       let hit = memo.get(key);
       if (hit === undefined) {
         const bans = [...bansOf(node, child.agent), ...(q.initialBans?.[child.agent] ?? []), ...child.bans];
-        // Flex: the child may spend the node's slack under w × its lower bound (see the file comment).
-        const ceiling = occupancy === undefined ? undefined : boundOf(node.lb, w) - (node.cost - node.plans[child.agent].cost);
+        // Flex: the child may spend its share of the node's slack (see the file comment).
+        const ceiling = occupancy === undefined ? undefined : node.plans[child.agent].cost + flexShare(node);
         const p = plan(child.agent, bans, occupancy, ceiling);
         hit = { plan: p, lb: lastLb };
         memo.set(key, hit);
