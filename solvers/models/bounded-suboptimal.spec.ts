@@ -86,6 +86,29 @@ describe('bounded-suboptimal solveModel', () => {
     expect(belowOptimum).toBeGreaterThan(0);
   });
 
+  it('weighted-split: the root pair bound lifts the lower bound above the sum of single-agent optima, never above the optimum', () => {
+    // Arrange: seeded 5 × 5 instances with 4 agents; each agent's optimum alone from a one-agent solve.
+    let compared = 0;
+    let lifted = 0;
+    for (let seed = 1; seed <= 15; seed++) {
+      const inst = randomInstance(seed * 31, 5, 5, 4, 0.15);
+      const exact = solveModel('weighted-split', inst, optionsOf('weighted-split'));
+      if (exact.status !== 'solved') continue;
+      const alone = inst.agents.reduce((sum, a) => sum + (solveModel('weighted-split', { grid: inst.grid, agents: [a] }, optionsOf('weighted-split')).soc as number), 0);
+      // Act: the full search, and one stopped before its first expansion (its bound is the root's).
+      const r = solveModel('weighted-split', inst, { ...optionsOf('weighted-split'), suboptimality: 1.2 });
+      const atRoot = solveModel('weighted-split', inst, { ...optionsOf('weighted-split'), suboptimality: 1.2, nodeLimit: 0 });
+      // Assert
+      expect(expectBounded(r, exact, 1.2)).toBe(true);
+      expect(atRoot.status).not.toBe('solved');
+      expect(atRoot.lowerBound as number).toBeLessThanOrEqual(exact.soc as number);
+      compared++;
+      if ((atRoot.lowerBound as number) > alone) lifted++;
+    }
+    expect(compared).toBeGreaterThanOrEqual(10);
+    expect(lifted).toBeGreaterThan(0);
+  });
+
   it.each([
     ['classic with following forbidden', 'classic' as PlanModel, { following: 'forbidden' as const }],
     ['uniform-duration with following forbidden', 'uniform-duration' as PlanModel, { following: 'forbidden' as const }],

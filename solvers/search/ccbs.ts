@@ -202,6 +202,8 @@ export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
     }
     return list;
   };
+  /** Bounded mode: the node's proven lower bound used for its flex (set by searchBounded). */
+  let flexBound = (node: CtNode): number => node.lb;
   /** The lower bound the last `plan` call proved (its plan's cost when exact). */
   let lastLb = 0;
   const plan = (agent: number, bans: readonly AgentBan[], occupancy?: OccupancyIndex, ceiling?: number): SippPlan | null => {
@@ -378,11 +380,16 @@ export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
   function searchBounded(w: number): CcbsOutcome {
     const entries: EesEntry[] = [];
     const estimate = new CostToGoEstimate();
+    flexBound = (node) => entries[node.id]?.fLb ?? node.lb;
+    const rootBound = rootPairBound();
+    if (isStopped) return finish('stopped', null, trivialBound);
+    if (rootBound === Infinity) return finish('infeasible', null, null);
     const lists = new EecbsLists<EesEntry>(w, (e) => nodes[e.id].conflictingPairs);
     const pushOpen = (node: CtNode): void => {
       const e = entries[node.id] ?? (entries[node.id] = { id: node.id, g: 0, fLb: 0, fHat: 0, version: 0, isClosed: false });
       e.g = node.cost;
-      e.fLb = node.lb;
+      // Pathmax: a node admits a subset of its parent's plans, so the parent's bound holds for it too.
+      e.fLb = Math.max(node.lb, e.fLb, node.parent ? entries[node.parent.id].fLb : rootBound);
       e.fHat = node.cost + estimate.estimate(Math.max(0, node.lb - node.cost), node.conflictingPairs);
       lists.push(e);
     };
@@ -595,7 +602,52 @@ export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
 
   /** Bounded mode: the slack w × (node's lower bound) − (node's cost), shared equally among its conflicting agent pairs. */
   function flexShare(node: CtNode): number {
-    return Math.floor(Math.max(0, boundOf(node.lb, w) - node.cost) / Math.max(1, node.conflictingPairs));
+    return Math.floor(Math.max(0, boundOf(flexBound(node), w) - node.cost) / Math.max(1, node.conflictingPairs));
+  }
+
+  /**
+   * Bounded mode: a lower bound on the optimum from the root's conflicting agent pairs, as the
+   * pairwise bound of exact mode (pricedHeuristic; Li et al., IJCAI 2019) but over each agent's
+   * unconstrained optimum o_a (its cost-to-go from the start): any conflict-free plan gives agents
+   * i and j a conflict-free pair plan, so c_i + c_j ≥ P_ij (a lower bound on the two-agent
+   * optimum); with x_a = c_a − o_a ≥ 0, x_i + x_j ≥ P_ij − o_i − o_j, and over agent-disjoint
+   * pairs (a greedy matching, heaviest first) Σ c ≥ Σ o + Σ of those bounds.
+   */
+  function rootPairBound(): number {
+    const own = q.agents.map((a) => Math.min(...a.startHeadings.map((h) => a.heuristic[a.start * 4 + h])));
+    let total = own.reduce((sum, v) => sum + v, 0);
+    const n = q.agents.length;
+    const byCell = visitsByCell(root.visits);
+    const weights: [number, number, number][] = [];
+    for (let i = 0; i < n; i++) {
+      const seen = new Set<number>();
+      for (const v of root.visits[i]) {
+        for (const u of byCell.get(v.cell) ?? []) {
+          if (u.agent <= i || seen.has(u.agent) || !(u.enter < v.leave && v.enter < u.leave)) continue;
+          seen.add(u.agent);
+          const out = ccbsSearch({
+            grid: q.grid, agents: [q.agents[i], q.agents[u.agent]], forwardMs: q.forwardMs, quarterTurnMs: q.quarterTurnMs,
+            nodeLimit: PAIR_NODE_LIMIT, shouldStop: q.shouldStop, isPairBound: false,
+          });
+          lowLevelExpansions += out.lowLevelExpansions;
+          if (out.status === 'stopped') {
+            isStopped = true;
+            return trivialBound;
+          }
+          if (out.status === 'infeasible') return Infinity;
+          weights.push([i, u.agent, (out.lowerBound as number) - own[i] - own[u.agent]]);
+        }
+      }
+    }
+    weights.sort((a, b) => b[2] - a[2] || a[0] - b[0] || a[1] - b[1]);
+    const used = new Uint8Array(n);
+    for (const [i, j, wt] of weights) {
+      if (used[i] || used[j] || wt <= 0) continue;
+      used[i] = 1;
+      used[j] = 1;
+      total += wt;
+    }
+    return total;
   }
 
   /** Prices the sound splits of the node's first conflicts and returns the best, with its children's plans. */
