@@ -29,9 +29,10 @@
  * Bounded-suboptimal mode (`suboptimality` w > 1): the EECBS high level (Li, Ruml, Koenig,
  * "EECBS: A bounded-suboptimal search for multi-agent path finding", AAAI 2021;
  * eecbs-lists.ts, eecbs-estimate.ts) over the focal SIPP low level of ECBS (Barer, Sharon,
- * Stern, Felner, SoCS 2014; focal-sipp.ts): each agent's plan costs at most w × lb_i, lb_i a
- * proven lower bound on its optimal arrival under its constraints (kept at least its parent's,
- * as constraints only grow), and the node's lower bound is Σ lb_i. Of CLEANUP (by lower bound),
+ * Stern, Felner, SoCS 2014; focal-sipp.ts): each agent's plan costs at most w × lb_i (or its
+ * flex ceiling, below), lb_i a proven lower bound on its optimal arrival under its constraints
+ * (kept at least its parent's, as constraints only grow), and the node's lower bound is Σ lb_i
+ * (or more: pathmax and the root pair bound, below). Of CLEANUP (by lower bound),
  * OPEN (by cost + learnt cost-to-go) and FOCAL (the fewest conflicting agent pairs among the
  * nearly best of OPEN), the node expanded is FOCAL's top if it costs at most w × LB (LB = the
  * least open lower bound), else OPEN's top if it does, else CLEANUP's top, which raises LB.
@@ -132,7 +133,7 @@ interface CtNode {
   /** Disjoint splitting: the agent given a landmark by this node (-1: none), its plan unchanged. */
   readonly markAgent: number;
   readonly mark: AgentBan | null;
-  /** Per agent its plan; exact mode may swap one for an equally cheap plan with fewer conflicts (bypass) before expansion. */
+  /** Per agent its plan; bypass may swap one for an equally cheap plan with fewer conflicts before expansion (tighten: for an optimal one). */
   plans: readonly SippPlan[];
   visits: readonly (readonly CellVisit[])[];
   cost: number;
@@ -406,18 +407,18 @@ export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
       if (top.conflicts.length === 0) {
         if (top.cost <= boundOf(pick.lowerBound, w)) return finish('solved', top, pick.lowerBound);
         tighten(top);
-        if (isStopped) return finish('stopped', null, Math.min(top.lb, lists.scanLowerBound()));
+        if (isStopped) return finish('stopped', null, Math.min(entries[top.id].fLb, lists.scanLowerBound()));
         pushOpen(top);
         continue;
       }
       expanded++;
       let choice = chooseSplit(top);
-      if (isStopped) return finish('stopped', null, Math.min(top.lb, lists.scanLowerBound()));
+      if (isStopped) return finish('stopped', null, Math.min(entries[top.id].fLb, lists.scanLowerBound()));
       for (let round = 0; round < BYPASS_ROUNDS && top.conflicts.length > 0; round++) {
         if (!bypass(top, choice.options)) break;
         if (top.conflicts.length === 0) break;
         choice = chooseSplit(top);
-        if (isStopped) return finish('stopped', null, Math.min(top.lb, lists.scanLowerBound()));
+        if (isStopped) return finish('stopped', null, Math.min(entries[top.id].fLb, lists.scanLowerBound()));
       }
       if (top.conflicts.length === 0) {
         pushOpen(top);

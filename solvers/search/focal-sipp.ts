@@ -54,7 +54,7 @@ export interface FocalSippQuery extends SippQuery {
   readonly ceiling?: number;
 }
 
-/** Outcome: the plan (cost ≤ w × lowerBound) or null, the lower bound proved, expansions, whether stopped. */
+/** Outcome: the plan (cost ≤ max(w × lowerBound, ceiling)) or null, the lower bound proved, expansions, whether stopped. */
 export interface FocalSippOutcome {
   readonly plan: SippPlan | null;
   readonly lowerBound: number;
@@ -118,18 +118,26 @@ export function focalSippSearch(q: FocalSippQuery): FocalSippOutcome {
     }
     return out;
   };
-  // A cell's soft intervals number at most its safe intervals plus two per other visit.
-  let maxHard = 1;
-  for (const w of bans.safe.values()) maxHard = Math.max(maxHard, w.from.length);
-  let maxVisits = 0;
-  for (const list of q.occupancy.values()) maxVisits = Math.max(maxVisits, list.length);
-  const maxIntervals = maxHard + 2 * maxVisits;
+  // State keys: a cell with neither bans nor visits has one interval, so (cell, heading, flag)
+  // suffices; a busy cell gets its own block sized by its soft-interval bound (its safe intervals
+  // plus two per visit), so that one crowded cell does not multiply the key space of the whole map.
+  const cellCount = grid.width * grid.height;
+  const capOf = new Int32Array(cellCount);
+  for (const [cell, w] of bans.safe) capOf[cell] = w.from.length;
+  for (const [cell, list] of q.occupancy) capOf[cell] = Math.max(1, capOf[cell]) + 2 * list.length;
+  const baseOf = new Int32Array(cellCount);
+  let keySlots = cellCount * 4;
+  for (let cell = 0; cell < cellCount; cell++) {
+    if (capOf[cell] <= 1) continue;
+    baseOf[cell] = keySlots;
+    keySlots += 4 * capOf[cell];
+  }
+  const slotOf = (cell: number, head: number, iv: number): number => (capOf[cell] <= 1 ? cell * 4 + head : baseOf[cell] + head * capOf[cell] + iv);
   const L = bans.goalNotBefore;
   // Landmarks come only from the exact search's disjoint splits (ccbs.ts); this search has no layers for them.
   if (bans.landmarks.length > 0) throw new Error('focal SIPP does not take landmarks (disjoint splitting is exact mode only)');
   const fwd = forwardTable(grid);
-  const keys = grid.width * grid.height * 4 * maxIntervals * 2;
-  best.begin(keys);
+  best.begin(keySlots * 2);
   const seenAt = (key: number): number => best.get(key, NONE);
   const overlaps = (cell: number, from: number, to: number): number => {
     const list = q.occupancy.get(cell);
@@ -150,7 +158,7 @@ export function focalSippSearch(q: FocalSippQuery): FocalSippOutcome {
   const moveStartA: number[] = [];
   const kindA: ActionKind[] = [];
   const closedA: number[] = [];
-  const keyOf = (id: number): number => ((cellA[id] * 4 + headA[id]) * maxIntervals + ivA[id]) * 2 + flagA[id];
+  const keyOf = (id: number): number => slotOf(cellA[id], headA[id], ivA[id]) * 2 + flagA[id];
   const isLive = (id: number): boolean => closedA[id] === 0 && seenAt(keyOf(id)) === id;
   const byF = (a: number, b: number): boolean => fA[a] < fA[b] || (fA[a] === fA[b] && (gA[a] > gA[b] || (gA[a] === gA[b] && a < b)));
   const open = new SippHeap(byF);
@@ -167,7 +175,7 @@ export function focalSippSearch(q: FocalSippQuery): FocalSippOutcome {
   const add = (cell: number, head: number, iv: number, flag: number, g: number, parent: number, kind: ActionKind, moveStart: number, conf: number): void => {
     const h = heuristic[cell * 4 + head];
     if (h === Infinity) return;
-    const key = ((cell * 4 + head) * maxIntervals + iv) * 2 + flag;
+    const key = slotOf(cell, head, iv) * 2 + flag;
     const seen = seenAt(key);
     if (seen !== NONE && gA[seen] <= g) return;
     const id = gA.length;
