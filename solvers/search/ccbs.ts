@@ -259,7 +259,8 @@ export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
   };
 
   // Sum of single-agent cost-to-go: the bound to report if the root itself is cut short.
-  const trivialBound = q.agents.reduce((s, a) => s + Math.min(...a.startHeadings.map((h) => a.heuristic[a.start * 4 + h])), 0);
+  const soloOptima = q.agents.map((a) => Math.min(...a.startHeadings.map((h) => a.heuristic[a.start * 4 + h])));
+  const trivialBound = soloOptima.reduce((s, v) => s + v, 0);
   const rootPlans: SippPlan[] = [];
   const rootLbs: number[] = [];
   // Bounded mode: each root plan avoids the plans made before it (focal order only).
@@ -346,16 +347,22 @@ export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
     if (landmark) disjointSplits++;
     for (const [index, { child, plan: p }] of split.entries()) {
       if (!p) continue;
-      const plans = top.plans.slice();
-      plans[child.agent] = p;
-      const visits = top.visits.slice();
-      visits[child.agent] = cellVisits(child.agent, q.agents[child.agent].start, p, q.forwardMs);
-      const node = makeNode(top, child.agent, child.bans, plans, visits, undefined, landmark?.into === index ? landmark : null);
-      nodes.push(node);
-      open.push(node.id);
+      open.push(addChild(top, child, p, undefined, landmark?.into === index ? landmark : null).id);
     }
   }
   return finish('infeasible', null, null);
+
+  /** Makes and registers the child of `top` whose agent takes plan `p` under the child's bans. */
+  function addChild(top: CtNode, child: BranchChild, p: SippPlan, lbs?: readonly number[],
+    landmark: { agent: number; ban: AgentBan } | null = null): CtNode {
+    const plans = top.plans.slice();
+    plans[child.agent] = p;
+    const visits = top.visits.slice();
+    visits[child.agent] = cellVisits(child.agent, q.agents[child.agent].start, p, q.forwardMs);
+    const node = makeNode(top, child.agent, child.bans, plans, visits, lbs, landmark);
+    nodes.push(node);
+    return node;
+  }
 
   /**
    * The landmark disjoint splitting adds to one child of the split, or null: none when the split
@@ -427,15 +434,9 @@ export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
       const children: CtNode[] = [];
       for (const { child, plan: p, lb } of choice.best) {
         if (!p) continue;
-        const plans = top.plans.slice();
-        plans[child.agent] = p;
-        const visits = top.visits.slice();
-        visits[child.agent] = cellVisits(child.agent, q.agents[child.agent].start, p, q.forwardMs);
         const lbs = top.lbs.slice();
         lbs[child.agent] = Math.max(lbs[child.agent], lb);
-        const node = makeNode(top, child.agent, child.bans, plans, visits, lbs);
-        nodes.push(node);
-        children.push(node);
+        children.push(addChild(top, child, p, lbs));
       }
       if (children.length > 0) {
         const f = (n: CtNode): number => Math.max(n.cost, n.lb);
@@ -563,18 +564,7 @@ export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
       if (wij === Infinity) return Infinity;
       weights.set(key, Math.max(wij, Math.min(s.di, s.dj)));
     }
-    const edges = [...weights].sort((a, b) => b[1] - a[1] || a[0] - b[0]);
-    const used = new Uint8Array(n);
-    let matched = 0;
-    for (const [key, wt] of edges) {
-      const i = Math.floor(key / n);
-      const j = key % n;
-      if (used[i] || used[j] || wt <= 0) continue;
-      used[i] = 1;
-      used[j] = 1;
-      matched += wt;
-    }
-    return Math.max(h, matched);
+    return Math.max(h, greedyMatching(n, [...weights].map(([key, wt]) => [Math.floor(key / n), key % n, wt])));
   }
 
   /** The pair bound w_ij of pricedHeuristic: a two-agent exact search under the node's bans, cut at PAIR_NODE_LIMIT (then its lower bound); memoised by the agents' owners. */
@@ -618,8 +608,6 @@ export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
    * pairs (a greedy matching, heaviest first) Σ c ≥ Σ o + Σ of those bounds.
    */
   function rootPairBound(): number {
-    const own = q.agents.map((a) => Math.min(...a.startHeadings.map((h) => a.heuristic[a.start * 4 + h])));
-    let total = own.reduce((sum, v) => sum + v, 0);
     const n = q.agents.length;
     const byCell = visitsByCell(root.visits);
     const weights: [number, number, number][] = [];
@@ -639,19 +627,11 @@ export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
             return trivialBound;
           }
           if (out.status === 'infeasible') return Infinity;
-          weights.push([i, u.agent, (out.lowerBound as number) - own[i] - own[u.agent]]);
+          weights.push([i, u.agent, (out.lowerBound as number) - soloOptima[i] - soloOptima[u.agent]]);
         }
       }
     }
-    weights.sort((a, b) => b[2] - a[2] || a[0] - b[0] || a[1] - b[1]);
-    const used = new Uint8Array(n);
-    for (const [i, j, wt] of weights) {
-      if (used[i] || used[j] || wt <= 0) continue;
-      used[i] = 1;
-      used[j] = 1;
-      total += wt;
-    }
-    return total;
+    return trivialBound + greedyMatching(n, weights);
   }
 
   /** Prices the sound splits of the node's first conflicts and returns the best, with its children's plans. */
@@ -720,6 +700,23 @@ class BestSplit<T extends { readonly child: BranchChild; readonly plan: SippPlan
       this.high = high;
     }
   }
+}
+
+/**
+ * The weight of a greedy matching of agent pairs (i, j, weight), heaviest first (ties: lower i, then
+ * lower j), positive weights only: over agent-disjoint pairs the pairwise bounds add up.
+ */
+function greedyMatching(agentCount: number, pairs: readonly (readonly [number, number, number])[]): number {
+  const order = [...pairs].sort((a, b) => b[2] - a[2] || a[0] - b[0] || a[1] - b[1]);
+  const used = new Uint8Array(agentCount);
+  let total = 0;
+  for (const [i, j, weight] of order) {
+    if (used[i] || used[j] || weight <= 0) continue;
+    used[i] = 1;
+    used[j] = 1;
+    total += weight;
+  }
+  return total;
 }
 
 function bansOf(node: CtNode, agent: number): AgentBan[] {

@@ -20,6 +20,22 @@ function freeCells(grid: Grid): number[] {
   return [...grid.passable.keys()].filter((c) => grid.passable[c] === 1);
 }
 
+/**
+ * One tiny seeded trial of the constrained specs: a 2–4 × 2–4 grid, start, goal, durations 1–3 and
+ * free (even trials) or one random start heading; null when the grid has fewer than `minCells` free cells.
+ */
+function tinyTrial(rng: Rng, trial: number, blockedShare: number, minCells: number) {
+  const grid = randomGrid(rng, 2 + rng.int(3), 2 + rng.int(3), blockedShare);
+  const cells = freeCells(grid);
+  if (cells.length < minCells) return null;
+  const start = cells[rng.int(cells.length)];
+  const goal = cells[rng.int(cells.length)];
+  const F = 1 + rng.int(3);
+  const T = 1 + rng.int(3);
+  const headings = trial % 2 === 0 ? [0, 1, 2, 3] : [rng.int(4)];
+  return { grid, cells, start, goal, F, T, headings };
+}
+
 /** The (cell, heading) graph as a graphology graph, with a super source S and super sink G. */
 function headingGraph(grid: Grid, F: number, T: number, start: number, startHeadings: readonly number[], goal: number): DirectedGraph {
   const g = new DirectedGraph();
@@ -122,14 +138,9 @@ describe('sippSearch with landmarks (positive constraints of disjoint splitting)
     let landmarkRaises = 0;
     let unreachable = 0;
     for (let trial = 0; trial < 60; trial++) {
-      const grid = randomGrid(rng, 2 + rng.int(3), 2 + rng.int(3), 0.15);
-      const cells = freeCells(grid);
-      if (cells.length < 3) continue;
-      const start = cells[rng.int(cells.length)];
-      const goal = cells[rng.int(cells.length)];
-      const F = 1 + rng.int(3);
-      const T = 1 + rng.int(3);
-      const headings = trial % 2 === 0 ? [0, 1, 2, 3] : [rng.int(4)];
+      const setup = tinyTrial(rng, trial, 0.15, 3);
+      if (setup === null) continue;
+      const { grid, cells, start, goal, F, T, headings } = setup;
       const bans: AgentBan[] = [];
       for (let k = rng.int(4); k > 0; k--) {
         const from = rng.int(20);
@@ -220,14 +231,9 @@ describe('sippSearch under interval constraints', () => {
     const rng = createRng(99);
     let constrainedDiffers = 0;
     for (let trial = 0; trial < 40; trial++) {
-      const grid = randomGrid(rng, 2 + rng.int(3), 2 + rng.int(3), 0.2);
-      const cells = freeCells(grid);
-      if (cells.length < 2) continue;
-      const start = cells[rng.int(cells.length)];
-      const goal = cells[rng.int(cells.length)];
-      const F = 1 + rng.int(3);
-      const T = 1 + rng.int(3);
-      const headings = trial % 2 === 0 ? [0, 1, 2, 3] : [rng.int(4)];
+      const setup = tinyTrial(rng, trial, 0.2, 2);
+      if (setup === null) continue;
+      const { grid, cells, start, goal, F, T, headings } = setup;
       const bans: AgentBan[] = [];
       for (let k = rng.int(7); k > 0; k--) {
         const from = rng.int(25);
