@@ -56,12 +56,19 @@
  *   the whole slack instead spent it on the first conflicts (each replanned agent took the plan
  *   with the fewest overlaps however dear) and left none for the last ones.
  * - root pair bound (rootPairBound): the root's lower bound is lifted by two-agent sub-searches
- *   of its conflicting pairs, and every node keeps at least its parent's bound (pathmax).
+ *   of the pairs that meet in the root's plans or in the agents' own optimal plans, combined by a
+ *   fractional matching, and every node keeps at least its parent's bound (pathmax);
+ * - detour trim (trimDetours): a node selected with little slack left gets, agent by agent,
+ *   the cheapest plan that meets no other agent, where that is cheaper than its own;
+ * - splits priced cheap first (BestSplit): the split whose children cost least is taken.
  * Measured on random-32-32-20 at w = 1.2 (issue 15, CPU time, the 5 even scenarios): with the
  * ECBS high level alone, 2 of 5 at 80 agents within 30 s; with EECBS, bypass, root repair and
  * the soft intervals of focal-sipp.ts, 4 of 5; with the whole slack as flex, the same 4 in 1–2 s
  * each; with the shared flex above 5 of 5 (1–2 s each), at 90 agents 4 of 5 and at 100 1 of 5;
- * with the root pair bound too, 5 of 5 at 90 within 3 s each, 100 still out of reach (60 s).
+ * with the root pair bound too, 5 of 5 at 90 within 3 s each, 100 still out of reach (60 s):
+ * the search cut conflicts down to a handful while spending the slack, then stalled with its
+ * FOCAL nodes at w × LB and LB pinned at the root's bound. With the detour trim, the split
+ * priced cheap first and the wider root pair bound, 5 of 5 at 100 within 10 s each.
  */
 import type { Grid } from '../grid/grid';
 import { branchOptions, disjointLandmark, type BranchChild } from './ccbs-branch';
@@ -74,6 +81,7 @@ import { CostToGoEstimate } from './eecbs-estimate';
 import { boundOf } from './suboptimality';
 import { disjunctiveCover, type SplitDisjunction } from './ccbs-heuristic';
 import { focalSippSearch, occupancyIndex, type OccupancyIndex } from './focal-sipp';
+import { fractionalMatchingBound, type PairBound } from './fractional-matching';
 
 /** One agent as the search sees it. */
 export interface CcbsAgent {
@@ -122,6 +130,8 @@ export interface CcbsOutcome {
   readonly lowLevelExpansions: number;
   /** Exact mode: expansions whose split was made disjoint by a landmark. */
   readonly disjointSplits: number;
+  /** Bounded mode: nodes whose cost the detour trim lowered (trimDetours). */
+  readonly detourTrims: number;
 }
 
 interface CtNode {
@@ -181,6 +191,12 @@ const LANDMARKS_PER_AGENT = 8;
 /** Bounded mode: rounds of replanning the root's conflicting agents against all other plans. */
 const ROOT_REPAIR_ROUNDS = 2;
 
+/**
+ * Bounded mode: a node selected with less than this share of its slack w × LB − LB left gets its
+ * detours trimmed (trimDetours; n optimal replans, so only where slack is scarce).
+ */
+const TRIM_SLACK_SHARE = 0.03;
+
 /** Replans kept in the exact search's memo before it is emptied (bounds its memory). */
 const REPLAN_MEMO_LIMIT = 200_000;
 
@@ -191,6 +207,7 @@ export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
   let expanded = 0;
   let lowLevelExpansions = 0;
   let disjointSplits = 0;
+  let detourTrims = 0;
   let isStopped = false;
 
   const w = q.suboptimality ?? 1;
@@ -411,6 +428,10 @@ export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
       const pick = lists.select();
       if (pick === null) return finish('infeasible', null, null);
       const top = nodes[pick.node.id];
+      if (boundOf(pick.lowerBound, w) - top.cost < TRIM_SLACK_SHARE * (boundOf(pick.lowerBound, w) - pick.lowerBound)) {
+        trimDetours(top);
+        if (isStopped) return finish('stopped', null, Math.min(entries[top.id].fLb, lists.scanLowerBound()));
+      }
       if (top.conflicts.length === 0) {
         if (top.cost <= boundOf(pick.lowerBound, w)) return finish('solved', top, pick.lowerBound);
         tighten(top);
@@ -446,6 +467,43 @@ export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
       }
       for (const c of children) pushOpen(c);
     }
+  }
+
+  /**
+   * Bounded mode, a node near its bound: each agent whose plan costs more than its lower bound
+   * (largest excess first) is replanned optimally under the node's bans with every other agent's
+   * current visits as occupancy bans, and takes that plan when it is cheaper. Such a plan meets
+   * no other agent, so no conflict is added; the node's bans, lower bounds and admitted plans do
+   * not change, only its cost falls (a bypass that lowers cost). Detours taken to dodge plans
+   * that have since moved are so given back, and the slack they free pays for the last conflicts.
+   */
+  function trimDetours(node: CtNode): void {
+    const plans = node.plans.slice();
+    const visits = node.visits.slice();
+    const excess = (a: number): number => plans[a].cost - node.lbs[a];
+    const order = [...plans.keys()].filter((a) => excess(a) > 0).sort((x, y) => excess(y) - excess(x) || x - y);
+    let isChanged = false;
+    for (const a of order) {
+      const others: AgentBan[] = [];
+      for (let b = 0; b < visits.length; b++) {
+        if (b === a) continue;
+        for (const v of visits[b]) others.push({ kind: 'occupancy', cell: v.cell, from: v.enter, to: v.leave });
+      }
+      const p = plan(a, [...bansOf(node, a), ...(q.initialBans?.[a] ?? []), ...others]);
+      if (isStopped) return;
+      if (p === null || p.cost >= plans[a].cost) continue;
+      plans[a] = p;
+      visits[a] = cellVisits(a, q.agents[a].start, p, q.forwardMs);
+      isChanged = true;
+    }
+    if (!isChanged) return;
+    detourTrims++;
+    const found = findConflicts(visits, CANDIDATE_CONFLICTS, false);
+    node.plans = plans;
+    node.visits = visits;
+    node.conflicts = found.conflicts;
+    node.conflictingPairs = found.conflictingPairs;
+    node.cost = plans.reduce((s, p) => s + p.cost, 0);
   }
 
   /**
@@ -600,38 +658,59 @@ export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
   }
 
   /**
-   * Bounded mode: a lower bound on the optimum from the root's conflicting agent pairs, as the
-   * pairwise bound of exact mode (pricedHeuristic; Li et al., IJCAI 2019) but over each agent's
-   * unconstrained optimum o_a (its cost-to-go from the start): any conflict-free plan gives agents
-   * i and j a conflict-free pair plan, so c_i + c_j ≥ P_ij (a lower bound on the two-agent
-   * optimum); with x_a = c_a − o_a ≥ 0, x_i + x_j ≥ P_ij − o_i − o_j, and over agent-disjoint
-   * pairs (a greedy matching, heaviest first) Σ c ≥ Σ o + Σ of those bounds.
+   * Bounded mode: a lower bound on the optimum from agent pairs, as the pairwise bound of exact
+   * mode (pricedHeuristic; Li et al., IJCAI 2019) but over each agent's unconstrained optimum o_a
+   * (its cost-to-go from the start): any conflict-free plan gives agents i and j a conflict-free
+   * pair plan, so c_i + c_j ≥ P_ij (a lower bound on the two-agent optimum); with
+   * x_a = c_a − o_a ≥ 0, x_i + x_j ≥ P_ij − o_i − o_j, and a fractional matching of those pair
+   * bounds bounds Σ x (fractional-matching.ts), so Σ c ≥ Σ o + that bound. The pairs searched
+   * are those in conflict in the root's plans or in the agents' own optimal plans (exact SIPP,
+   * no other agent): the root's plans already dodge one another, so most pairs that must
+   * give way to each other meet only in the latter. Any other pair may be left out (its bound
+   * only adds).
    */
   function rootPairBound(): number {
     const n = q.agents.length;
-    const byCell = visitsByCell(root.visits);
-    const weights: [number, number, number][] = [];
+    const soloVisits: CellVisit[][] = [];
+    for (let a = 0; a < n; a++) {
+      const p = plan(a, q.initialBans?.[a] ?? []);
+      if (isStopped) return trivialBound;
+      if (p === null) return Infinity;
+      soloVisits.push(cellVisits(a, q.agents[a].start, p, q.forwardMs));
+    }
+    const candidates = new Set([...meetingPairs(root.visits), ...meetingPairs(soloVisits)]);
+    const pairBounds: PairBound[] = [];
+    for (const key of [...candidates].sort((x, y) => x - y)) {
+      const i = Math.floor(key / n);
+      const j = key % n;
+      const out = ccbsSearch({
+        grid: q.grid, agents: [q.agents[i], q.agents[j]], forwardMs: q.forwardMs, quarterTurnMs: q.quarterTurnMs,
+        nodeLimit: PAIR_NODE_LIMIT, shouldStop: q.shouldStop, isPairBound: false,
+      });
+      lowLevelExpansions += out.lowLevelExpansions;
+      if (out.status === 'stopped') {
+        isStopped = true;
+        return trivialBound;
+      }
+      if (out.status === 'infeasible') return Infinity;
+      pairBounds.push([i, j, (out.lowerBound as number) - soloOptima[i] - soloOptima[j]]);
+    }
+    return trivialBound + fractionalMatchingBound(pairBounds);
+  }
+
+  /** The agent pairs (key i × n + j, i < j) with overlapping visits of a cell. */
+  function meetingPairs(visits: readonly (readonly CellVisit[])[]): Set<number> {
+    const n = q.agents.length;
+    const byCell = visitsByCell(visits);
+    const out = new Set<number>();
     for (let i = 0; i < n; i++) {
-      const seen = new Set<number>();
-      for (const v of root.visits[i]) {
+      for (const v of visits[i]) {
         for (const u of byCell.get(v.cell) ?? []) {
-          if (u.agent <= i || seen.has(u.agent) || !(u.enter < v.leave && v.enter < u.leave)) continue;
-          seen.add(u.agent);
-          const out = ccbsSearch({
-            grid: q.grid, agents: [q.agents[i], q.agents[u.agent]], forwardMs: q.forwardMs, quarterTurnMs: q.quarterTurnMs,
-            nodeLimit: PAIR_NODE_LIMIT, shouldStop: q.shouldStop, isPairBound: false,
-          });
-          lowLevelExpansions += out.lowLevelExpansions;
-          if (out.status === 'stopped') {
-            isStopped = true;
-            return trivialBound;
-          }
-          if (out.status === 'infeasible') return Infinity;
-          weights.push([i, u.agent, (out.lowerBound as number) - soloOptima[i] - soloOptima[u.agent]]);
+          if (u.agent > i && u.enter < v.leave && v.enter < u.leave) out.add(i * n + u.agent);
         }
       }
     }
-    return trivialBound + greedyMatching(n, weights);
+    return out;
   }
 
   /** Prices the sound splits of the node's first conflicts and returns the best, with its children's plans. */
@@ -651,7 +730,7 @@ export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
       }
       return hit;
     };
-    const best = new BestSplit<PricedChild>();
+    const best = new BestSplit<PricedChild>(true);
     const options: PricedChild[][] = [];
     // The bounded search prices only the earliest conflict's splits: it gains more from many cheap expansions.
     for (const conflict of w > 1 ? node.conflicts.slice(0, 1) : node.conflicts) {
@@ -675,26 +754,36 @@ export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
       expanded,
       lowLevelExpansions,
       disjointSplits,
+      detourTrims,
     };
   }
 }
 
-/** Every ban on `agent` along the path from `node` to the root. */
 /**
  * The split to branch on among those offered: the one whose cheaper child costs most, then whose
  * dearer child costs most (a child without a plan costs Infinity), as ICBS prefers cardinal
- * conflicts; the first offered wins ties.
+ * conflicts; with `isCheapFirst` (bounded mode) the one whose cheaper child costs least, then
+ * whose dearer child costs least. The first offered wins ties.
+ *
+ * Why cheap first when bounded: LB there rests on the root's pair bound and hardly moves with
+ * the splits, so a cardinal split buys no bound, while a cheap one keeps the child within
+ * w × LB. Measured on random-32-32-20, 100 agents, w = 1.2, 60 s CPU: 5 of 5 even scenarios
+ * either way, the slowest in 10 s instead of 30 s.
  */
 class BestSplit<T extends { readonly child: BranchChild; readonly plan: SippPlan | null }> {
   split: T[] = [];
   private low = -1;
   private high = -1;
 
+  constructor(private readonly isCheapFirst = false) {}
+
   offer(node: CtNode, priced: T[]): void {
     const costs = priced.map(({ child, plan: p }) => (p ? node.cost - node.plans[child.agent].cost + p.cost : Infinity));
     const low = Math.min(...costs);
     const high = Math.max(...costs);
-    if (low > this.low || (low === this.low && high > this.high)) {
+    const isFirst = this.split.length === 0;
+    const isBetter = this.isCheapFirst ? low < this.low || (low === this.low && high < this.high) : low > this.low || (low === this.low && high > this.high);
+    if (isFirst || isBetter) {
       this.split = priced;
       this.low = low;
       this.high = high;
@@ -719,6 +808,7 @@ function greedyMatching(agentCount: number, pairs: readonly (readonly [number, n
   return total;
 }
 
+/** Every ban on `agent` along the path from `node` to the root. */
 function bansOf(node: CtNode, agent: number): AgentBan[] {
   const out: AgentBan[] = [];
   for (let n: CtNode | null = node; n; n = n.parent) {
