@@ -3,27 +3,11 @@
 // disjoint splitting, its default) is solvers/models/weighted-split-oracle.spec.ts; here the
 // search is compared with itself without disjoint splitting on larger instances than that oracle
 // can take, where landmarks are used often.
-import type { Grid } from '../grid/grid';
 import { headingDistancesToGoal } from '../grid/heading-graph-distances';
 import type { MapfInstance } from '../instance';
-import { createRng, type Rng } from '../random';
+import { createRng } from '../random';
+import { randomGridInstance } from '../testing/random-grid-instance';
 import { ccbsSearch, type CcbsOutcome } from './ccbs';
-
-function randomInstance(rng: Rng, size: number, agentCount: number, blockedShare: number): MapfInstance {
-  const passable = new Uint8Array(size * size).map(() => (rng.next() < blockedShare ? 0 : 1));
-  const grid: Grid = { width: size, height: size, passable };
-  const free = [...passable.keys()].filter((c) => passable[c] === 1);
-  const pick = (taken: Set<number>): number => {
-    const left = free.filter((c) => !taken.has(c));
-    const c = left[rng.int(left.length)];
-    taken.add(c);
-    return c;
-  };
-  const count = Math.min(agentCount, Math.floor(free.length / 2));
-  const starts = new Set<number>();
-  const goals = new Set<number>();
-  return { grid, agents: Array.from({ length: count }, () => ({ start: pick(starts), goal: pick(goals) })) };
-}
 
 /** The exact search on an instance (free start heading), with or without disjoint splitting. */
 function search(inst: MapfInstance, F: number, T: number, disjointSplitting: boolean): CcbsOutcome {
@@ -50,7 +34,8 @@ describe('disjoint splitting in the exact weighted-split search', () => {
     let expandedWith = 0;
     let expandedWithout = 0;
     for (let trial = 0; trial < 24; trial++) {
-      const inst = randomInstance(rng, 6 + rng.int(2), 4 + rng.int(3), 0.2);
+      const size = 6 + rng.int(2);
+      const inst = randomGridInstance(rng, size, size, 4 + rng.int(3), 0.2);
       const [F, T] = ([[5, 4], [3, 2], [4, 5]] as const)[trial % 3];
       // Act
       const plain = search(inst, F, T, false);

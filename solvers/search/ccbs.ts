@@ -7,11 +7,12 @@
  * agent pairs, then the older node, so runs are deterministic.
  *
  * Split choice: for the first few conflicts of a node (exact mode: and the earliest conflict of
- * every other conflicting agent pair), every sound split is priced by replanning both children,
- * and the node branches on the split whose cheaper child costs most (then whose dearer child
- * costs most), as ICBS prefers cardinal conflicts (Boyarski et al., IJCAI 2015). Any sound split
- * keeps optimality, so this choice only affects speed; the children's plans are kept, so no
- * low-level search is repeated.
+ * every other conflicting agent pair; bounded mode: only its earliest conflict), every sound
+ * split is priced by replanning both children, and the node branches on the split whose cheaper
+ * child costs most (then whose dearer child costs most), as ICBS prefers cardinal conflicts
+ * (Boyarski et al., IJCAI 2015); bounded mode takes the cheapest instead (BestSplit). Any sound
+ * split keeps optimality and the bound, so this choice only affects speed; the children's plans
+ * are kept, so no low-level search is repeated.
  *
  * Exact mode, further (issue 15; each keeps the first conflict-free node popped optimal):
  * - Best-first on f, a lower bound on every plan the node admits: f = cost + h with h from
@@ -123,14 +124,14 @@ export interface CcbsOutcome {
   readonly plans: readonly SippPlan[] | null;
   /** Sum of arrival times when solved. */
   readonly soc: number | null;
-  /** Least node cost still open (a lower bound on the optimum); equals soc when solved optimally, soc ≤ w × it when bounded. */
+  /** A proven lower bound on the optimum: exact mode the least open f (= soc when solved); bounded mode LB, the least open f_lb (soc ≤ w × it when solved). */
   readonly lowerBound: number | null;
   readonly generated: number;
   readonly expanded: number;
   readonly lowLevelExpansions: number;
   /** Exact mode: expansions whose split was made disjoint by a landmark. */
   readonly disjointSplits: number;
-  /** Bounded mode: nodes whose cost the detour trim lowered (trimDetours). */
+  /** Bounded mode: detour trims that lowered a node's cost (trimDetours; a node may be trimmed again after a bypass). */
   readonly detourTrims: number;
 }
 
@@ -143,7 +144,7 @@ interface CtNode {
   /** Disjoint splitting: the agent given a landmark by this node (-1: none), its plan unchanged. */
   readonly markAgent: number;
   readonly mark: AgentBan | null;
-  /** Per agent its plan; bypass may swap one for an equally cheap plan with fewer conflicts before expansion (tighten: for an optimal one). */
+  /** Per agent its plan; bypass may swap one for an equally cheap plan with fewer conflicts before expansion (tighten: for an optimal one; the detour trim: for cheaper ones, lowering cost). */
   plans: readonly SippPlan[];
   visits: readonly (readonly CellVisit[])[];
   cost: number;
@@ -470,7 +471,8 @@ export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
   }
 
   /**
-   * Bounded mode, a node near its bound: each agent whose plan costs more than its lower bound
+   * Bounded mode, a node near its bound (or above it: a CLEANUP pick, which the trim may bring
+   * within it): each agent whose plan costs more than its lower bound
    * (largest excess first) is replanned optimally under the node's bans with every other agent's
    * current visits as occupancy bans, and takes that plan when it is cheaper. Such a plan meets
    * no other agent, so no conflict is added; the node's bans, lower bounds and admitted plans do
@@ -762,8 +764,9 @@ export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
 /**
  * The split to branch on among those offered: the one whose cheaper child costs most, then whose
  * dearer child costs most (a child without a plan costs Infinity), as ICBS prefers cardinal
- * conflicts; with `isCheapFirst` (bounded mode) the one whose cheaper child costs least, then
- * whose dearer child costs least. The first offered wins ties.
+ * conflicts; with `isCheapFirst` (bounded mode) the one with the fewest children that have a
+ * plan (none: the node admits no plan and is dropped; one: no branching), then whose cheaper
+ * child costs least, then whose dearer child costs least. The first offered wins ties.
  *
  * Why cheap first when bounded: LB there rests on the root's pair bound and hardly moves with
  * the splits, so a cardinal split buys no bound, while a cheap one keeps the child within
@@ -774,6 +777,7 @@ class BestSplit<T extends { readonly child: BranchChild; readonly plan: SippPlan
   split: T[] = [];
   private low = -1;
   private high = -1;
+  private feasible = Infinity;
 
   constructor(private readonly isCheapFirst = false) {}
 
@@ -781,12 +785,15 @@ class BestSplit<T extends { readonly child: BranchChild; readonly plan: SippPlan
     const costs = priced.map(({ child, plan: p }) => (p ? node.cost - node.plans[child.agent].cost + p.cost : Infinity));
     const low = Math.min(...costs);
     const high = Math.max(...costs);
+    const feasible = costs.filter((c) => c < Infinity).length;
     const isFirst = this.split.length === 0;
-    const isBetter = this.isCheapFirst ? low < this.low || (low === this.low && high < this.high) : low > this.low || (low === this.low && high > this.high);
+    const isCheaper = feasible < this.feasible || (feasible === this.feasible && (low < this.low || (low === this.low && high < this.high)));
+    const isBetter = this.isCheapFirst ? isCheaper : low > this.low || (low === this.low && high > this.high);
     if (isFirst || isBetter) {
       this.split = priced;
       this.low = low;
       this.high = high;
+      this.feasible = feasible;
     }
   }
 }

@@ -19,6 +19,7 @@ export type PairBound = readonly [i: number, j: number, weight: number];
 export function fractionalMatchingBound(pairs: readonly PairBound[]): number {
   const index = new Map<number, number>();
   for (const [i, j, weight] of pairs) {
+    if (!Number.isFinite(weight)) throw new Error(`pair bound of agents ${i} and ${j} is not a finite number: ${weight}`);
     if (weight <= 0 || i === j) continue;
     if (!index.has(i)) index.set(i, index.size);
     if (!index.has(j)) index.set(j, index.size);
