@@ -764,9 +764,9 @@ export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
 /**
  * The split to branch on among those offered: the one whose cheaper child costs most, then whose
  * dearer child costs most (a child without a plan costs Infinity), as ICBS prefers cardinal
- * conflicts; with `isCheapFirst` (bounded mode) the one with the fewest children that have a
- * plan (none: the node admits no plan and is dropped; one: no branching), then whose cheaper
- * child costs least, then whose dearer child costs least. The first offered wins ties.
+ * conflicts; with `isCheapFirst` (bounded mode) one whose children all lack a plan (the node
+ * admits no plan and is dropped), else the one whose cheaper child costs least, then whose
+ * dearer child costs least. The first offered wins ties.
  *
  * Why cheap first when bounded: LB there rests on the root's pair bound and hardly moves with
  * the splits, so a cardinal split buys no bound, while a cheap one keeps the child within
@@ -777,7 +777,8 @@ class BestSplit<T extends { readonly child: BranchChild; readonly plan: SippPlan
   split: T[] = [];
   private low = -1;
   private high = -1;
-  private feasible = Infinity;
+  /** Children with a plan in the split held (-1: none held yet). */
+  private feasible = -1;
 
   constructor(private readonly isCheapFirst = false) {}
 
@@ -787,7 +788,8 @@ class BestSplit<T extends { readonly child: BranchChild; readonly plan: SippPlan
     const high = Math.max(...costs);
     const feasible = costs.filter((c) => c < Infinity).length;
     const isFirst = this.split.length === 0;
-    const isCheaper = feasible < this.feasible || (feasible === this.feasible && (low < this.low || (low === this.low && high < this.high)));
+    // A split with no feasible child drops the node, so it beats every other; else the cheapest.
+    const isCheaper = this.feasible !== 0 && (feasible === 0 || low < this.low || (low === this.low && high < this.high));
     const isBetter = this.isCheapFirst ? isCheaper : low > this.low || (low === this.low && high > this.high);
     if (isFirst || isBetter) {
       this.split = priced;
