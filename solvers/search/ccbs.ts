@@ -31,8 +31,9 @@
  * "EECBS: A bounded-suboptimal search for multi-agent path finding", AAAI 2021;
  * eecbs-lists.ts, eecbs-estimate.ts) over the focal SIPP low level of ECBS (Barer, Sharon,
  * Stern, Felner, SoCS 2014; focal-sipp.ts): each agent's plan costs at most w' × lb_i with
- * w' = min(w, LOW_LEVEL_FACTOR_CAP) (or its flex ceiling, below), lb_i a proven lower bound on its optimal arrival under its constraints
- * (kept at least its parent's, as constraints only grow), and the node's lower bound is Σ lb_i
+ * w' = min(w, LOW_LEVEL_FACTOR_CAP) (or its flex ceiling, below), lb_i a proven lower bound on
+ * its optimal arrival under its constraints (kept at least its parent's, as constraints only
+ * grow), and the node's lower bound is Σ lb_i
  * (or more: pathmax and the root pair bound, below). Of CLEANUP (by lower bound),
  * OPEN (by cost + learnt cost-to-go) and FOCAL (the fewest conflicting agent pairs among the
  * nearly best of OPEN), the node expanded is FOCAL's top if it costs at most w × LB (LB = the
