@@ -33,11 +33,11 @@
  * Stern, Felner, SoCS 2014; focal-sipp.ts): each agent's plan costs at most w' × lb_i with
  * w' = min(w, LOW_LEVEL_FACTOR_CAP) (or its flex ceiling, below), lb_i a proven lower bound on
  * its optimal arrival under its constraints (kept at least its parent's, as constraints only
- * grow), and the node's lower bound is Σ lb_i
- * (or more: pathmax and the root pair bound, below). Of CLEANUP (by lower bound),
- * OPEN (by cost + learnt cost-to-go) and FOCAL (the fewest conflicting agent pairs among the
- * nearly best of OPEN), the node expanded is FOCAL's top if it costs at most w × LB (LB = the
- * least open lower bound), else OPEN's top if it does, else CLEANUP's top, which raises LB.
+ * grow), and the node's lower bound is Σ lb_i (or more: pathmax and the root pair bound, below).
+ * Of CLEANUP (by lower bound), OPEN (by cost + learnt cost-to-go) and FOCAL (the fewest
+ * conflicting agent pairs among the nearly best of OPEN), the node expanded is FOCAL's top if it
+ * costs at most w × LB (LB = the least open lower bound), else OPEN's top if it does, else
+ * CLEANUP's top, which raises LB.
  * Soundness: the splits are sound, so some open node admits an optimal plan, whose cost is at
  * least that node's Σ lb_i, so LB never exceeds the optimum; a conflict-free node is returned
  * only when its cost ≤ w × LB; one that costs more (only CLEANUP's top can be chosen so) gets
@@ -482,9 +482,9 @@ export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
 
   /**
    * Bounded mode, a node near its bound (or above it: a CLEANUP pick, which the trim may bring
-   * within it): each agent whose plan costs more than its lower bound
-   * (largest excess first) is replanned optimally under the node's bans with every other agent's
-   * current visits as occupancy bans, and takes that plan when it is cheaper. Such a plan meets
+   * within it): each agent whose plan costs more than its lower bound (largest excess first) is
+   * replanned optimally under the node's bans with every other agent's current visits as
+   * occupancy bans, and takes that plan when it is cheaper. Such a plan meets
    * no other agent, so no conflict is added; the node's bans, lower bounds and admitted plans do
    * not change, only its cost falls (a bypass that lowers cost). Detours taken to dodge plans
    * that have since moved are so given back, and the slack they free pays for the last conflicts.
@@ -710,19 +710,10 @@ export function ccbsSearch(q: CcbsQuery): CcbsOutcome {
     return trivialBound + fractionalMatchingBound(pairBounds);
   }
 
-  /** The agent pairs (key i × n + j, i < j) with overlapping visits of a cell. */
-  function meetingPairs(visits: readonly (readonly CellVisit[])[]): Set<number> {
+  /** The agent pairs in conflict (key i × n + j, i < j), from the earliest conflict of each pair. */
+  function meetingPairs(visits: readonly (readonly CellVisit[])[]): number[] {
     const n = q.agents.length;
-    const byCell = visitsByCell(visits);
-    const out = new Set<number>();
-    for (let i = 0; i < n; i++) {
-      for (const v of visits[i]) {
-        for (const u of byCell.get(v.cell) ?? []) {
-          if (u.agent > i && u.enter < v.leave && v.enter < u.leave) out.add(i * n + u.agent);
-        }
-      }
-    }
-    return out;
+    return findConflicts(visits, 0, true).conflicts.map(({ early, late }) => Math.min(early.agent, late.agent) * n + Math.max(early.agent, late.agent));
   }
 
   /** Prices the sound splits of the node's first conflicts and returns the best, with its children's plans. */
