@@ -117,9 +117,13 @@ describe('a visitor replays and downloads public results', () => {
     expect(box.height).toBeGreaterThanOrEqual(260);
     const zoom = page.locator('[data-testid="fleet-zoom"]');
     expect(await zoom.innerText()).toBe('8 px per cell');
+    // The readout follows each click once the page has rendered: wait for it to change rather than read at once.
+    const readoutLeaves = (from: number) => page.waitForFunction((before) => parseFloat(document.querySelector('[data-testid="fleet-zoom"]')?.textContent ?? '') !== before, from, { timeout: 5_000 });
     await page.getByRole('button', { name: 'Zoom in' }).click();
+    await readoutLeaves(8);
     expect(await zoom.innerText()).toBe('12 px per cell');
     await page.getByRole('button', { name: 'Whole map' }).click();
+    await readoutLeaves(12);
     expect(parseFloat(await zoom.innerText())).toBeLessThan(8);
     const whole = parseFloat(await zoom.innerText());
     await canvas.focus();

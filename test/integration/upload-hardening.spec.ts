@@ -112,6 +112,11 @@ function heldUpload(url: string, client: SignedInClient, path: string): { drop()
   req.on('error', (err) => {
     if (!isDropped) failure = err.message;
   });
+  // An answer before the body is complete ends the upload on the server: report it too.
+  req.on('response', (res) => {
+    if (!isDropped) failure = `answered ${res.statusCode} before its body was sent`;
+    res.resume();
+  });
   req.write(body.subarray(0, 100));
   return {
     drop: () => {
