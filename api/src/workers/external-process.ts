@@ -47,6 +47,8 @@ export const PRLIMIT = 'prlimit';
 export const OUTPUT_CAP_BYTES = 16 * 1024;
 /** How long after killing the solver's processes the whole group is killed, ms. */
 const GROUP_KILL_DELAY_MS = 2000;
+/** How often the end of a killed group is checked, ms. */
+const GROUP_POLL_MS = 20;
 /** CPU seconds a process may use beyond the time limit before the operating system kills it (RLIMIT_CPU backstop). */
 export const CPU_GRACE_SECONDS = 5;
 /** Largest file a solver process may write, MB (RLIMIT_FSIZE). */
@@ -163,7 +165,7 @@ export function parseTimeReport(text: string): { readonly cpuTimeMs: number | nu
   return { cpuTimeMs, peakMemoryKb, exitCode: status ? Number(status[1]) : signal ? null : usage ? 0 : null, signalNumber: signal ? Number(signal[1]) : null };
 }
 
-/** Pids whose process group is `pgid` (from /proc; Linux only). */
+/** Pids whose process group is `pgid` and that still run (not zombies waiting for their reaper), from /proc; Linux only. */
 async function groupMembers(pgid: number): Promise<number[]> {
   const members: number[] = [];
   for (const entry of await readdir('/proc').catch(() => [] as string[])) {
@@ -171,9 +173,21 @@ async function groupMembers(pgid: number): Promise<number[]> {
     const stat = await readFile(`/proc/${entry}/stat`, 'utf8').catch(() => '');
     // Fields after the command name in parentheses: state ppid pgrp …
     const after = stat.slice(stat.lastIndexOf(')') + 2).split(' ');
-    if (Number(after[2]) === pgid) members.push(Number(entry));
+    if (Number(after[2]) === pgid && after[0] !== 'Z') members.push(Number(entry));
   }
   return members;
+}
+
+/**
+ * Resolves once no process of group `pgid` runs, or after `withinMs`. A SIGKILL is delivered at
+ * once but a process ends only when it is next scheduled (a large runtime tears down its memory
+ * first), so without this wait a run could be reported over while its processes still ran.
+ */
+async function untilGroupGone(pgid: number, withinMs: number): Promise<void> {
+  const deadline = performance.now() + withinMs;
+  while ((await groupMembers(pgid)).length > 0 && performance.now() < deadline) {
+    await new Promise((resolve) => setTimeout(resolve, GROUP_POLL_MS));
+  }
 }
 
 const killQuietly = (pid: number, signal: NodeJS.Signals) => {
@@ -233,7 +247,10 @@ export async function runExternalProcess(request: ExternalProcessRequest): Promi
     clearTimeout(timer);
     // GNU time has reaped the solver; whatever is left in the group (a background process the
     // solver started and did not wait for) goes too, so it can neither run on nor hold the pipes open.
-    if (child.pid !== undefined && !ended.spawnError) killQuietly(-child.pid, 'SIGKILL');
+    if (child.pid !== undefined && !ended.spawnError) {
+      killQuietly(-child.pid, 'SIGKILL');
+      await untilGroupGone(child.pid, GROUP_KILL_DELAY_MS);
+    }
     await Promise.race([closed, new Promise((resolve) => setTimeout(resolve, GROUP_KILL_DELAY_MS))]);
     request.signal?.removeEventListener('abort', onAbort);
     const wallMs = performance.now() - started;
