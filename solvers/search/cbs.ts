@@ -113,9 +113,8 @@ const PAIR_WEIGHT_CAPACITY = 50000;
  * in open cells. Room-32-32-4 × 30 agents, even-1 … even-5, CT nodes expanded: 1,015 / 8,152 /
  * 779 / 57 / 1,470 against 1,031 / 62,099 / 1,342 / 85 / 1,955 without this step (even-2: 12 s
  * of CPU against 115 s); random-32-32-20 × 60 even-4: 8,794 against 16,188; random-32-32-20 × 50
- * and warehouse-10-20-10-2-1 × 130 about the same. Only where a room-32-32-4 split of the exact
- * search stood out was it measured, so the bounded search (whose frontier was measured without
- * it) keeps the order without this step.
+ * and warehouse-10-20-10-2-1 × 130 about the same. It was measured on the exact search only, so
+ * the bounded search (whose frontier table was measured without it) keeps the order without it.
  */
 function splitRank(c: Conflict, degree: Uint8Array | null): number {
   if (c.kind === K_TARGET) return c.priority - 7;
