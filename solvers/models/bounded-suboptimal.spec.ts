@@ -136,8 +136,8 @@ describe('bounded-suboptimal solveModel', () => {
   // its optimum is checked against the exhaustive oracle in weighted-split-oracle.spec.ts.
   // classic's, uniform-duration's and orientation-split's counts changed on purpose since (issue 15,
   // item 3: target conflicts are split first, semi-cardinal ones next; they were 176 / 84 / 8236 and
-  // 232 / 115 / 28820 with the same SOC; then conflicts in narrow cells before those: 130 / 55 / 6677
-  // and 220 / 105 / 25877, the same SOC).
+  // 232 / 115 / 28820 with the same SOC; they were 130 / 55 / 6677 and 220 / 105 / 25877 before
+  // conflicts in cells with two open neighbours were split first, with the same SOC).
   it.each([
     ['classic' as PlanModel, 27, 8, [51, 127, 54, 6390]],
     ['uniform-duration' as PlanModel, 27, 8, [51, 127, 54, 6390]],

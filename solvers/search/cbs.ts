@@ -107,14 +107,19 @@ const PAIR_WEIGHT_CAPACITY = 50000;
  * one semi-cardinal target conflict in a door was 11,744 of 48,465 splits (240 s, unsolved);
  * targets first: 2,470 expansions; semi-cardinal conflicts next too: 1,031.
  *
- * Narrow cells (two open neighbours: the doors between rooms, corridor cells) come next because
- * every detour between rooms passes them, so a conflict there left for later is made again in
- * most branches; a cardinal one there is split before semi-cardinal conflicts elsewhere, unlike
- * in open cells. Room-32-32-4 × 30 agents, even-1 … even-5, CT nodes expanded: 1,015 / 8,152 /
- * 779 / 57 / 1,470 against 1,031 / 62,099 / 1,342 / 85 / 1,955 without this step (even-2: 12 s
- * of CPU against 115 s); random-32-32-20 × 60 even-4: 8,794 against 16,188; random-32-32-20 × 50
- * and warehouse-10-20-10-2-1 × 130 about the same. It was measured on the exact search only, so
- * the bounded search (whose frontier table was measured without it) keeps the order without it.
+ * Narrow cells (exactly two open neighbours; for an edge conflict either end) come next: doors
+ * between rooms and corridor cells, which every route between rooms passes, so a conflict there
+ * left for later is made again in most branches; a cardinal one there is split before
+ * semi-cardinal conflicts elsewhere, unlike in open cells. Corners have two open neighbours too,
+ * but a route seldom has to pass one (another cell of the same length goes round it), so their
+ * conflicts are seldom cardinal or semi-cardinal: counting only cells whose two neighbours face
+ * each other gave the same expansion counts on every run below. Room-32-32-4 × 30 agents,
+ * even-1 … even-5, CT nodes expanded: 1,015 / 8,152 / 779 / 57 / 1,470 against 1,031 / 62,099 /
+ * 1,342 / 85 / 1,955 without this step; random-32-32-20 × 60 even-4: 8,794 against 16,188;
+ * random-32-32-20 × 50 and warehouse-10-20-10-2-1 × 130 about the same (the runs:
+ * benchmarks/measured/room-30-2026-12-04/narrow-cells-probe.txt). It was measured on the exact
+ * search only, so the bounded search (whose frontier table was measured without it) keeps the
+ * order without it: `degree` null leaves the step out.
  */
 function splitRank(c: Conflict, degree: Uint8Array | null): number {
   if (c.kind === K_TARGET) return c.priority - 7;

@@ -2,8 +2,8 @@
  * Room maps: small rooms joined by one-cell doors, where goals often lie in a door and target
  * conflicts arise (cbs.ts splits them before every other kind). Every improvement on must give
  * the optimal SOC that plain CBS (every improvement off, Sharon et al., AIJ 2015) proves, on
- * many seeded random room maps and on room-32-32-4 instances small enough for plain CBS; and the
- * 30-agent room instance that used to run out of time is solved within a fixed node budget.
+ * many seeded random room maps and on room-32-32-4 instances small enough for plain CBS; and two
+ * 30-agent room instances that used to run out of time are solved within fixed node budgets.
  */
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
@@ -126,7 +126,7 @@ describe('room maps', () => {
       expect(r.soc).toBe(786);
     }, 120_000);
 
-    it('solves even-2 with 30 agents within 20,000 CT nodes (62,099 expansions before narrow cells were split first)', () => {
+    it('solves even-2 with 30 agents within 20,000 generated CT nodes (62,099 expanded before narrow cells were split first)', () => {
       const inst = load(2, 30);
       const r = solveClassic(inst, { nodeLimit: 20_000 });
       expect(r.status).toBe('solved');

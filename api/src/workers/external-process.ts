@@ -245,15 +245,18 @@ export async function runExternalProcess(request: ExternalProcessRequest): Promi
       child.once('exit', (code) => resolve({ code }));
     });
     clearTimeout(timer);
+    // The run's time ends when GNU time exits, not after the clean-up below.
+    const wallMs = performance.now() - started;
     // GNU time has reaped the solver; whatever is left in the group (a background process the
     // solver started and did not wait for) goes too, so it can neither run on nor hold the pipes open.
     if (child.pid !== undefined && !ended.spawnError) {
       killQuietly(-child.pid, 'SIGKILL');
       await untilGroupGone(child.pid, GROUP_KILL_DELAY_MS);
     }
-    await Promise.race([closed, new Promise((resolve) => setTimeout(resolve, GROUP_KILL_DELAY_MS))]);
+    let closeTimer: NodeJS.Timeout | undefined;
+    await Promise.race([closed, new Promise((resolve) => { closeTimer = setTimeout(resolve, GROUP_KILL_DELAY_MS); })]);
+    clearTimeout(closeTimer);
     request.signal?.removeEventListener('abort', onAbort);
-    const wallMs = performance.now() - started;
     const report = parseTimeReport(await readFile(usageFile, 'utf8').catch(() => ''));
     const base = { wallMs, cpuTimeMs: report.cpuTimeMs, peakMemoryKb: report.peakMemoryKb, stdout: stdout.text(), stderr: stderr.text() };
     if (ended.spawnError) {
