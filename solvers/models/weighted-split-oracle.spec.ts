@@ -3,10 +3,10 @@
 // solvers/search/, but in this project: no outside reference checks the weighted-split optimum
 // yet), and every plan against the independent schedule validator (solvers/validate/schedule.ts).
 import type { RobotProfile, StartHeading } from '@shared/plan';
-import type { Grid } from '../grid/grid';
 import type { MapfInstance } from '../instance';
 import { createRng, type Rng } from '../random';
 import { OracleLimitError } from '../testing/best-first';
+import { randomGridInstance } from '../testing/random-grid-instance';
 import { weightedOracle } from '../testing/weighted-oracle';
 import { validateSchedule } from '../validate/schedule';
 import { solveWeightedSplit } from './weighted-split';
@@ -23,20 +23,7 @@ const profile = (forwardMs: number, quarterTurnMs: number): RobotProfile => ({
 function randomInstance(rng: Rng): MapfInstance {
   const width = 3 + rng.int(2);
   const height = 3 + rng.int(2);
-  const passable = new Uint8Array(width * height).map(() => (rng.next() < 0.2 ? 0 : 1));
-  const grid: Grid = { width, height, passable };
-  const free = [...passable.keys()].filter((c) => passable[c] === 1);
-  const pick = (taken: Set<number>): number => {
-    const left = free.filter((c) => !taken.has(c));
-    const c = left[rng.int(left.length)];
-    taken.add(c);
-    return c;
-  };
-  const count = Math.min(2 + rng.int(2), Math.floor(free.length / 2));
-  const starts = new Set<number>();
-  const goals = new Set<number>();
-  const agents = Array.from({ length: count }, () => ({ start: pick(starts), goal: pick(goals) }));
-  return { grid, agents };
+  return randomGridInstance(rng, width, height, () => 2 + rng.int(2), 0.2);
 }
 
 describe('solveWeightedSplit against the exhaustive weighted oracle', () => {

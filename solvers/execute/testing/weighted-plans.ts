@@ -3,7 +3,7 @@
  * validates each plan), under several timing profiles with diameter ≤ pitch.
  */
 import type { RobotProfile, StartHeading } from '@shared/plan';
-import type { Grid } from '../../grid/grid';
+import { randomGridInstance } from '../../testing/random-grid-instance';
 import type { MapfInstance } from '../../instance';
 import { solveModel, type ModelResult } from '../../models/solve-model';
 import { createRng, type Rng } from '../../random';
@@ -20,19 +20,7 @@ export const WEIGHTED_TEST_PROFILES: readonly RobotProfile[] = [
 function randomInstance(rng: Rng): MapfInstance {
   const width = 3 + rng.int(3);
   const height = 3 + rng.int(3);
-  const passable = new Uint8Array(width * height).map(() => (rng.next() < 0.15 ? 0 : 1));
-  const grid: Grid = { width, height, passable };
-  const free = [...passable.keys()].filter((c) => passable[c] === 1);
-  const pick = (taken: Set<number>): number => {
-    const left = free.filter((c) => !taken.has(c));
-    const c = left[rng.int(left.length)];
-    taken.add(c);
-    return c;
-  };
-  const count = Math.min(2 + rng.int(3), Math.floor(free.length / 2));
-  const starts = new Set<number>();
-  const goals = new Set<number>();
-  return { grid, agents: Array.from({ length: count }, () => ({ start: pick(starts), goal: pick(goals) })) };
+  return randomGridInstance(rng, width, height, () => 2 + rng.int(3), 0.15);
 }
 
 /** One solved, validated plan with its instance and profile. */
